@@ -1,0 +1,92 @@
+import { z } from 'zod';
+import { method } from '../define.ts';
+
+/** Import and workspace statistics: the data a workspace holds. */
+
+export const ImportTarget = z.enum(['items', 'customers', 'signals']);
+export const ImportFormat = z.enum(['csv', 'json', 'jsonl']);
+
+/** A file on this machine (CLI, Electron) or its content sent by a page (web shell upload). */
+const Source = z.union([
+  z.object({ file: z.string().min(1) }),
+  z.object({ fileName: z.string().min(1), content: z.string() }),
+]);
+
+const ImportSettings = z.object({
+  target: ImportTarget,
+  format: ImportFormat.optional(),
+  delimiter: z.string().length(1).optional(),
+  dateOrder: z.enum(['dmy', 'mdy']).optional(),
+  mapping: z.record(z.string(), z.string()).optional(),
+  unknown: z.enum(['reject', 'create']).optional(),
+  acceptPartial: z.boolean().optional(),
+});
+
+export const RowProblem = z.object({
+  line: z.number().int().optional(),
+  column: z.union([z.string(), z.number()]).optional(),
+  reason: z.string(),
+});
+
+export const ImportReport = z.object({
+  target: ImportTarget,
+  file: z.string(),
+  format: z.string(),
+  rows: z.number().int(),
+  added: z.number().int(),
+  updated: z.number().int(),
+  unchanged: z.number().int(),
+  rejected: z.number().int(),
+  errors: z.array(RowProblem),
+  errorCount: z.number().int(),
+  committed: z.boolean(),
+  elapsedMs: z.number(),
+  mapping: z.record(z.string(), z.string()),
+});
+export type ImportReport = z.infer<typeof ImportReport>;
+
+export const ImportPreview = z.object({
+  format: z.string(),
+  delimiter: z.string().optional(),
+  headers: z.array(z.string()),
+  mapping: z.record(z.string(), z.string()),
+  sampleRows: z.array(z.array(z.string())),
+  problems: z.array(z.string()),
+});
+export type ImportPreview = z.infer<typeof ImportPreview>;
+
+export const WorkspaceStats = z.object({
+  items: z.number().int(),
+  availableItems: z.number().int(),
+  promotedItems: z.number().int(),
+  customers: z.number().int(),
+  signals: z.number().int(),
+  firstSignalAt: z.number().nullable(),
+  lastSignalAt: z.number().nullable(),
+  density: z.number(),
+  signalsByKind: z.record(z.string(), z.number()),
+  topCategoriesByItems: z.array(z.object({ category: z.string(), count: z.number() })),
+  topCategoriesBySignals: z.array(z.object({ category: z.string(), count: z.number() })),
+  longTailShare: z.number(),
+  coldItems: z.number().int(),
+  lastImportAt: z.number().nullable(),
+});
+export type WorkspaceStats = z.infer<typeof WorkspaceStats>;
+
+export const dataMethods = {
+  'import.preview': method({
+    summary: 'Detect format, delimiter and column mapping of a file, with its first rows.',
+    request: z.intersection(Source, ImportSettings),
+    response: ImportPreview,
+  }),
+  'import.run': method({
+    summary: 'Import a file into the workspace in one transaction; rejects are reported by line and column.',
+    request: z.intersection(Source, ImportSettings),
+    response: ImportReport,
+  }),
+  'workspace.stats': method({
+    summary: 'Counts, date range, density, kinds, top categories and long-tail share of the open workspace.',
+    request: z.object({}).strict(),
+    response: WorkspaceStats,
+  }),
+};

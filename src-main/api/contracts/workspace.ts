@@ -1,0 +1,25 @@
+import { z } from 'zod';
+import { method } from '../define.ts';
+
+export const WorkspaceInfo = z.object({
+  open: z.boolean(),
+  file: z.string().nullable(),
+  schemaVersion: z.number().int().nullable(),
+  items: z.number().int(),
+  customers: z.number().int(),
+  signals: z.number().int(),
+});
+export type WorkspaceInfo = z.infer<typeof WorkspaceInfo>;
+
+export const workspaceMethods = {
+  'workspace.info': method({
+    summary: 'Which workspace is open and how much it holds.',
+    request: z.object({}).strict(),
+    response: WorkspaceInfo,
+  }),
+  'workspace.open': method({
+    summary: 'Open a workspace file, creating it when asked.',
+    request: z.object({ file: z.string().min(1, 'give the path of a workspace file'), create: z.boolean().default(false) }).strict(),
+    response: WorkspaceInfo,
+  }),
+};

@@ -1,0 +1,23 @@
+import { z } from 'zod';
+import { BugError, CancelledError, InputError, NotFoundError } from '../core/errors.ts';
+import type { ApiError } from './define.ts';
+
+/** Turns any thrown value into the api's error shape; unexpected errors keep their message, never a stack. */
+export function toApiError(e: unknown): ApiError {
+  if (e instanceof InputError) {
+    const where = e.where;
+    const out: ApiError = { code: 'input', message: e.message };
+    if (where.file !== undefined || where.line !== undefined || where.column !== undefined) out.where = { ...where };
+    return out;
+  }
+  if (e instanceof z.ZodError) {
+    const first = e.issues[0];
+    const path = first?.path.join('.') ?? '';
+    return { code: 'input', message: path ? `${path}: ${first?.message}` : (first?.message ?? 'invalid request') };
+  }
+  if (e instanceof NotFoundError) return { code: 'not_found', message: e.message };
+  if (e instanceof CancelledError) return { code: 'cancelled', message: e.message };
+  if (e instanceof BugError) return { code: 'internal', message: `internal error: ${e.message}` };
+  const message = e instanceof Error ? e.message : String(e);
+  return { code: 'internal', message };
+}

@@ -1,0 +1,37 @@
+import type { AppContext } from '../services/context.ts';
+import { CONTRACT, isMethodName, type Contract, type MethodName, type RequestOf, type ResponseOf } from './contract.ts';
+import type { ApiResult } from './define.ts';
+import { toApiError } from './errors.ts';
+import { jobHandlers } from './handlers/jobs.ts';
+import { workspaceHandlers } from './handlers/workspace.ts';
+
+type Parsed<M extends MethodName> = import('zod').output<Contract[M]['request']>;
+export type Handler<M extends MethodName> = (req: Parsed<M>) => ResponseOf<M> | Promise<ResponseOf<M>>;
+export type HandlerTable = { [M in MethodName]: Handler<M> };
+
+/** The one handler table every shell maps its transport onto. Areas contribute their part. */
+export function createHandlerTable(ctx: AppContext): HandlerTable {
+  return {
+    ...workspaceHandlers(ctx),
+    ...jobHandlers(ctx),
+  };
+}
+
+/**
+ * Calls one method by name with an untrusted payload: the request is parsed with its schema, the
+ * response too (a handler returning the wrong shape is our bug, caught here before it reaches a client).
+ */
+export async function invoke(table: HandlerTable, name: string, payload: unknown): Promise<ApiResult<unknown>> {
+  if (!isMethodName(name)) return { ok: false, error: { code: 'input', message: `unknown method: ${name}` } };
+  try {
+    const spec = CONTRACT[name];
+    const req = spec.request.parse(payload ?? {});
+    const handler = table[name] as (r: unknown) => unknown;
+    const res = await handler(req);
+    return { ok: true, value: spec.response.parse(res) };
+  } catch (e) {
+    return { ok: false, error: toApiError(e) };
+  }
+}
+
+export type { RequestOf, ResponseOf };

@@ -1,0 +1,101 @@
+/**
+ * The curation vocabulary as types (DESIGN.md: brief, rules, pool, pin/ban/boost/sink/lock, meter).
+ * Shared by core/curation (fill, rules, meter), the store, the services, the api and the renderer.
+ */
+
+export type Facet = 'category' | 'supplier' | 'tag';
+
+/** "At most n items per category / supplier / tag on a shelf." `value` narrows it to one value. */
+export interface Quota {
+  facet: Facet;
+  max: number;
+  value?: string;
+}
+
+/** Bounds on the share of slots (count) and of log2-discounted exposure taken by promoted items. */
+export interface PromotedBounds {
+  minCount?: number;
+  maxCount?: number;
+  minExposure?: number;
+  maxExposure?: number;
+}
+
+export interface Rules {
+  quotas: Quota[];
+  promoted: PromotedBounds;
+  /** Published editions that must pass before an item may be proposed again (0 = off). */
+  restPeriod: number;
+  /** Allow the same item on two shelves of one edition. */
+  allowRepeatInEdition: boolean;
+}
+
+export type Audience =
+  | { kind: 'everyone' }
+  | { kind: 'rule'; category: string; signalKinds: string[]; withinDays: number }
+  | { kind: 'group'; group: number };
+
+export interface BlendWeights {
+  content: number;
+  collaborative: number;
+  audience: number;
+  popularity: number;
+  trend: number;
+  freshness: number;
+}
+
+export interface Brief {
+  size: number;
+  /** Workspace item ids the shelf is built around. */
+  anchors: number[];
+  audience: Audience;
+  include: { categories: string[]; tags: string[]; suppliers: string[] };
+  exclude: { categories: string[]; tags: string[]; suppliers: string[] };
+  priceBand: { min?: number; max?: number };
+  /** Only items added within this many days of the edition date (undefined = any age). */
+  maxAgeDays?: number;
+  weights: BlendWeights;
+  /** MMR trade-off: 1 = relevance only, 0 = diversity only (Carbonell & Goldstein 1998). */
+  lambda: number;
+  rules: Rules;
+}
+
+/** One scored candidate of a shelf's pool. `relevance` is the blended score in [0, 1]. */
+export interface Candidate {
+  /** Dense item index into the catalogue array used for the fill. */
+  index: number;
+  relevance: number;
+}
+
+/** A rule that could not be met, and why; a fill never drops a rule silently. */
+export interface RuleViolation {
+  rule: string;
+  reason: string;
+}
+
+/** A filled shelf: item index per slot (-1 = empty) and what gave way. */
+export interface FillResult {
+  slots: Int32Array;
+  objective: number;
+  violations: RuleViolation[];
+}
+
+/** DESIGN.md "Meter readings" for one shelf. NaN where a reading has no data. */
+export interface ShelfMeter {
+  intraListDistance: number;
+  age: { medianDays: number; meanDays: number; newestDays: number; oldestDays: number; shareUnder30Days: number };
+  novelty: number;
+  promotedShareCount: number;
+  promotedShareExposure: number;
+  calibrationGap: number;
+  predictedRelevance: number;
+  /** Per slot, the share of the audience who already have the item; flagged above the threshold. */
+  saturation: number[];
+  saturatedSlots: number[];
+}
+
+export interface EditionMeter {
+  distinctItems: number;
+  /** Pairs of shelves and how many items they share. */
+  overlaps: { a: number; b: number; shared: number }[];
+  supplierExposureGini: number;
+}

@@ -1,0 +1,42 @@
+import type { ParseArgsConfig } from 'node:util';
+import type { HandlerTable } from '../../api/handler-table.ts';
+import type { AppContext } from '../../services/context.ts';
+
+export type OptionSpec = NonNullable<ParseArgsConfig['options']>;
+export type OptionValues = Record<string, string | boolean | string[] | boolean[] | undefined>;
+
+/** Exit codes: 0 ok, 1 usage (wrong command line), 2 data error (bad file, unknown id, failed rule). */
+export const EXIT = { ok: 0, usage: 1, data: 2 } as const;
+
+export interface CliIo {
+  out(text: string): void;
+  err(text: string): void;
+  /** True when stderr is a terminal (progress bars only then). */
+  errIsTty: boolean;
+}
+
+export interface CommandEnv {
+  values: OptionValues;
+  positionals: string[];
+  io: CliIo;
+  json: boolean;
+  /** The workspace path from --workspace (or its default). */
+  workspace: string;
+  /** Opens the workspace (created when `create`) and returns the handler table to call. */
+  api(options?: { create?: boolean }): { table: HandlerTable; ctx: AppContext };
+}
+
+/**
+ * One command of the command line. Commands are thin: they parse flags, call the handler table and print.
+ * `name` may have two words ("edition new").
+ */
+export interface CliCommand {
+  name: string;
+  summary: string;
+  /** Lines shown under "usage:" in --help, without the program name. */
+  usage: string[];
+  options: OptionSpec;
+  /** Extra help text: what each flag means, examples. */
+  help?: string;
+  run(env: CommandEnv): Promise<number>;
+}

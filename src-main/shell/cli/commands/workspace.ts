@@ -1,0 +1,19 @@
+import { call } from '../call.ts';
+import { EXIT, type CliCommand } from '../command.ts';
+
+export const infoCommand: CliCommand = {
+  name: 'info',
+  summary: 'which workspace file is used and how much it holds',
+  usage: ['[--workspace PATH] [--json]'],
+  options: {},
+  async run(env) {
+    const { table } = env.api();
+    const info = await call(table, 'workspace.info', {});
+    if (env.json) env.io.out(JSON.stringify(info, null, 2));
+    else
+      env.io.out(
+        `${info.file}\n  schema ${info.schemaVersion}: ${info.items} items, ${info.customers} customers, ${info.signals} signals`,
+      );
+    return EXIT.ok;
+  },
+};

@@ -1,0 +1,121 @@
+import path from 'node:path';
+import { parseArgs } from 'node:util';
+import { createHandlerTable, type HandlerTable } from '../../api/handler-table.ts';
+import { InputError } from '../../core/errors.ts';
+import { AppContext } from '../../services/context.ts';
+import { CliApiError } from './call.ts';
+import { EXIT, type CliCommand, type CliIo, type CommandEnv, type OptionSpec } from './command.ts';
+import { COMMANDS } from './commands/index.ts';
+
+export const DEFAULT_WORKSPACE = path.join('.workspaces', 'demo.sqlite');
+
+const GLOBAL_OPTIONS: OptionSpec = {
+  workspace: { type: 'string', short: 'w' },
+  json: { type: 'boolean', default: false },
+  help: { type: 'boolean', short: 'h', default: false },
+};
+
+function programHelp(): string {
+  const width = Math.max(...COMMANDS.map((c) => c.name.length));
+  return [
+    'shelfwright: build balanced featured lists from your catalogue and its interaction history',
+    '',
+    'usage: shelfwright <command> [options]',
+    '',
+    'commands:',
+    ...COMMANDS.map((c) => `  ${c.name.padEnd(width)}  ${c.summary}`),
+    '',
+    'global options:',
+    `  -w, --workspace PATH  the workspace file (default: $SHELFWRIGHT_WORKSPACE or ${DEFAULT_WORKSPACE})`,
+    '  --json                machine-readable output on stdout',
+    '  -h, --help            help for any command',
+    '',
+    'exit codes: 0 ok, 1 usage error, 2 data error',
+  ].join('\n');
+}
+
+function commandHelp(c: CliCommand): string {
+  const opts = Object.entries(c.options).map(([name, o]) => {
+    const flag = `${o.short ? `-${o.short}, ` : '    '}--${name}${o.type === 'string' ? ' VALUE' : ''}`;
+    return `  ${flag}`;
+  });
+  return [
+    `shelfwright ${c.name}: ${c.summary}`,
+    '',
+    'usage:',
+    ...c.usage.map((u) => `  shelfwright ${c.name} ${u}`.trimEnd()),
+    ...(opts.length ? ['', 'options:', ...opts] : []),
+    '  -w, --workspace PATH',
+    '  --json',
+    ...(c.help ? ['', c.help] : []),
+  ].join('\n');
+}
+
+/** Finds the longest command name (two words, then one) at the start of argv. */
+function findCommand(argv: string[]): { command: CliCommand; rest: string[] } | undefined {
+  for (const words of [2, 1]) {
+    const name = argv.slice(0, words).join(' ');
+    const command = COMMANDS.find((c) => c.name === name);
+    if (command) return { command, rest: argv.slice(words) };
+  }
+  return undefined;
+}
+
+export async function main(argv: string[], io: CliIo, env: NodeJS.ProcessEnv = process.env): Promise<number> {
+  const first = argv.find((a) => !a.startsWith('-'));
+  if (argv.length === 0 || (first === undefined && (argv.includes('--help') || argv.includes('-h')))) {
+    io.out(programHelp());
+    return argv.length === 0 ? EXIT.usage : EXIT.ok;
+  }
+  const found = findCommand(argv);
+  if (!found) {
+    io.err(`shelfwright: unknown command '${argv.slice(0, 2).join(' ')}'. Run 'shelfwright --help' for the list.`);
+    return EXIT.usage;
+  }
+  const { command, rest } = found;
+  let parsed;
+  try {
+    parsed = parseArgs({ args: rest, options: { ...GLOBAL_OPTIONS, ...command.options }, allowPositionals: true, strict: true });
+  } catch (e) {
+    io.err(`shelfwright ${command.name}: ${(e as Error).message}\nRun 'shelfwright ${command.name} --help'.`);
+    return EXIT.usage;
+  }
+  const values = parsed.values as CommandEnv['values'];
+  if (values['help']) {
+    io.out(commandHelp(command));
+    return EXIT.ok;
+  }
+  const workspace = (values['workspace'] as string | undefined) ?? env['SHELFWRIGHT_WORKSPACE'] ?? DEFAULT_WORKSPACE;
+  const ctx = new AppContext();
+  let table: HandlerTable | undefined;
+  const cenv: CommandEnv = {
+    values,
+    positionals: parsed.positionals,
+    io,
+    json: values['json'] === true,
+    workspace,
+    api: (options = {}) => {
+      if (!ctx.isOpen) ctx.open(workspace, { create: options.create ?? false });
+      table ??= createHandlerTable(ctx);
+      return { table, ctx };
+    },
+  };
+  try {
+    return await command.run(cenv);
+  } catch (e) {
+    if (e instanceof UsageError) {
+      io.err(`shelfwright ${command.name}: ${e.message}\nRun 'shelfwright ${command.name} --help'.`);
+      return EXIT.usage;
+    }
+    if (e instanceof CliApiError || e instanceof InputError) {
+      io.err(`shelfwright ${command.name}: ${e instanceof InputError ? e.describe() : e.message}`);
+      return EXIT.data;
+    }
+    throw e;
+  } finally {
+    ctx.close();
+  }
+}
+
+/** A wrong command line (missing argument, bad flag value): exit code 1. */
+export class UsageError extends Error {}

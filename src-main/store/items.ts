@@ -1,0 +1,64 @@
+import type { AttributeValue, Item } from '../core/types.ts';
+import type { Db } from './workspace.ts';
+
+/** The row as stored; `rowToItem` is the one place that turns it into the core type. */
+export interface ItemRow {
+  id: number;
+  external_id: string;
+  title: string;
+  description: string;
+  category: string;
+  tags: string;
+  supplier: string;
+  price: number | null;
+  added_at: number | null;
+  promoted: number;
+  available: number;
+  attributes: string;
+}
+
+export function rowToItem(r: ItemRow): Item {
+  return {
+    id: r.id,
+    externalId: r.external_id,
+    title: r.title,
+    description: r.description,
+    category: r.category,
+    tags: JSON.parse(r.tags) as string[],
+    supplier: r.supplier,
+    price: r.price,
+    addedAt: r.added_at,
+    promoted: r.promoted === 1,
+    available: r.available === 1,
+    attributes: JSON.parse(r.attributes) as Record<string, AttributeValue>,
+  };
+}
+
+/** Reads of the catalogue. Statements are prepared once per repository. */
+export class ItemRepo {
+  readonly #all;
+  readonly #byExternal;
+  readonly #byId;
+  readonly #count;
+  constructor(db: Db) {
+    this.#all = db.prepare<[], ItemRow>('SELECT * FROM item ORDER BY id');
+    this.#byExternal = db.prepare<[string], ItemRow>('SELECT * FROM item WHERE external_id = ?');
+    this.#byId = db.prepare<[number], ItemRow>('SELECT * FROM item WHERE id = ?');
+    this.#count = db.prepare<[], { n: number }>('SELECT count(*) AS n FROM item');
+  }
+  /** The whole catalogue in id order (the dense item index of every model follows this order). */
+  all(): Item[] {
+    return this.#all.all().map(rowToItem);
+  }
+  byExternalId(externalId: string): Item | undefined {
+    const r = this.#byExternal.get(externalId);
+    return r ? rowToItem(r) : undefined;
+  }
+  byId(id: number): Item | undefined {
+    const r = this.#byId.get(id);
+    return r ? rowToItem(r) : undefined;
+  }
+  count(): number {
+    return this.#count.get()!.n;
+  }
+}

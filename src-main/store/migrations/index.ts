@@ -1,0 +1,8 @@
+import { foundation } from './001-foundation.ts';
+import type { Migration } from './types.ts';
+
+/**
+ * Every schema step, oldest first. Versions are consecutive from 1; `PRAGMA user_version` records the
+ * last one applied. Never edit a step that has shipped: add a new one.
+ */
+export const MIGRATIONS: readonly Migration[] = [foundation];

@@ -1,0 +1,101 @@
+import Database from 'better-sqlite3';
+import fs from 'node:fs';
+import path from 'node:path';
+import { InputError } from '../core/errors.ts';
+import { MIGRATIONS } from './migrations/index.ts';
+import type { Migration } from './migrations/types.ts';
+
+export type Db = Database.Database;
+
+export interface OpenOptions {
+  /** Open without writing (the training worker does). The file must exist and be current. */
+  readonly?: boolean;
+  /** Create the file when missing (default true for writers). */
+  create?: boolean;
+  /** The migration list; tests pass a shorter one to build an old-version file. */
+  migrations?: readonly Migration[];
+  /** Path of a better-sqlite3 native binding built for another ABI (Electron). */
+  nativeBinding?: string;
+}
+
+export const SCHEMA_VERSION = MIGRATIONS.length;
+
+/**
+ * Opens (and if needed creates and migrates) one workspace file.
+ * WAL so readers never block the writer; foreign keys on; synchronous NORMAL, which in WAL mode keeps
+ * the file consistent after a crash and may lose only the last commit on power loss
+ * (better-sqlite3 docs/performance.md; SQLite "WAL mode" docs).
+ */
+export function openWorkspace(file: string, options: OpenOptions = {}): Db {
+  const migrations = options.migrations ?? MIGRATIONS;
+  const exists = fs.existsSync(file);
+  if (!exists && (options.readonly || options.create === false)) {
+    throw new InputError(`no workspace at ${file}`, { file });
+  }
+  if (!exists) fs.mkdirSync(path.dirname(path.resolve(file)), { recursive: true });
+  const dbOptions: Database.Options = { readonly: options.readonly ?? false, fileMustExist: exists };
+  if (options.nativeBinding) dbOptions.nativeBinding = options.nativeBinding;
+  let db: Db;
+  try {
+    db = new Database(file, dbOptions);
+  } catch (e) {
+    throw new InputError(`cannot open workspace: ${(e as Error).message}`, { file });
+  }
+  try {
+    if (!options.readonly) {
+      db.pragma('journal_mode = WAL');
+      db.pragma('synchronous = NORMAL');
+    }
+    db.pragma('foreign_keys = ON');
+    db.pragma('busy_timeout = 5000');
+    checkIsWorkspace(db, file);
+    if (!options.readonly) migrate(db, migrations);
+    else {
+      const v = userVersion(db);
+      if (v !== migrations.length) {
+        throw new InputError(`workspace is at schema ${v}, expected ${migrations.length}; open it once for writing`, {
+          file,
+        });
+      }
+    }
+  } catch (e) {
+    db.close();
+    throw e;
+  }
+  return db;
+}
+
+export function userVersion(db: Db): number {
+  return db.pragma('user_version', { simple: true }) as number;
+}
+
+/** Refuses files that are SQLite but not ours (a user pointing at the wrong file). */
+function checkIsWorkspace(db: Db, file: string): void {
+  let tables: { name: string }[];
+  try {
+    tables = db.prepare("SELECT name FROM sqlite_master WHERE type = 'table'").all() as { name: string }[];
+  } catch {
+    throw new InputError('not a workspace file (not an SQLite database)', { file });
+  }
+  if (tables.length > 0 && userVersion(db) === 0) {
+    throw new InputError('not a Shelfwright workspace: the file holds other tables', { file });
+  }
+}
+
+/**
+ * Applies the missing steps, all in one transaction: a killed process leaves the file at its old
+ * version, never half-way. A file newer than this program is refused rather than guessed at.
+ */
+export function migrate(db: Db, migrations: readonly Migration[] = MIGRATIONS): void {
+  const current = userVersion(db);
+  if (current > migrations.length) {
+    throw new InputError(
+      `this workspace was written by a newer Shelfwright (schema ${current}; this one knows ${migrations.length})`,
+    );
+  }
+  if (current === migrations.length) return;
+  db.transaction(() => {
+    for (const m of migrations.slice(current)) db.exec(m.up);
+    db.pragma(`user_version = ${migrations.length}`);
+  })();
+}

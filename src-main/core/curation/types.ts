@@ -99,3 +99,33 @@ export interface EditionMeter {
   overlaps: { a: number; b: number; shared: number }[];
   supplierExposureGini: number;
 }
+
+/** The meter readings a what-if reports, as flat numbers (ShelfMeter's age block spread out). */
+export const WHAT_IF_READINGS = [
+  'intraListDistance',
+  'ageMedianDays',
+  'ageMeanDays',
+  'ageNewestDays',
+  'ageOldestDays',
+  'ageShareUnder30Days',
+  'novelty',
+  'promotedShareCount',
+  'promotedShareExposure',
+  'calibrationGap',
+  'predictedRelevance',
+  /** The saturation of the slot the candidate goes into. */
+  'slotSaturation',
+  /** How many slots of the shelf are flagged as saturated. */
+  'saturatedSlotCount',
+] as const;
+export type WhatIfReading = (typeof WHAT_IF_READINGS)[number];
+export type ShelfReadings = Record<WhatIfReading, number>;
+
+/** A what-if for one candidate in one slot: the readings before, after, and after − before. */
+export interface WhatIf {
+  slot: number;
+  item: number;
+  before: ShelfReadings;
+  after: ShelfReadings;
+  delta: ShelfReadings;
+}

@@ -1,7 +1,8 @@
 import type { Csr } from '../matrix/csr.ts';
 
 /** The model families Shelfwright trains. Names are the published methods'. */
-export type ModelKind = 'content' | 'itemknn' | 'ials' | 'ease' | 'popularity';
+/** 'random' is the evaluation baseline (randomScorer), never trained or stored as a workspace model. */
+export type ModelKind = 'content' | 'itemknn' | 'ials' | 'ease' | 'popularity' | 'random';
 
 export interface IterationProgress {
   iteration: number;

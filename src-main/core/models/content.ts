@@ -1,0 +1,220 @@
+import { SectionReader, packSections } from '../matrix/bytes.ts';
+import { transpose, type Csr } from '../matrix/csr.ts';
+import { CancelledError, InputError } from '../errors.ts';
+import { fitTfidf, normalizeRow } from '../text/tfidf.ts';
+import { tokenize, type TokenizeOptions } from '../text/tokenize.ts';
+import type { Item } from '../types.ts';
+import type { FitOptions, FitReport, Scorer, TopN } from './scorer.ts';
+import { collectNeighbours, neighbourTopN, type Neighbours } from './topn.ts';
+
+/**
+ * Content similarity (DESIGN.md "Methods"): TF-IDF over title, description and tags (scikit-learn's
+ * documented TfidfVectorizer formula, see text/tfidf.ts), followed by one-hot columns for category,
+ * supplier and price band, each set to `attributeWeight`; the whole row is then l2-normalised so a dot
+ * product of two rows is their cosine similarity.
+ */
+export interface ContentParams {
+  tokenize?: TokenizeOptions;
+  /** Value of each one-hot attribute column next to the unit-length text part. Default 0.5 (common practice, no source). */
+  attributeWeight?: number;
+  /** Price bands cut at catalogue quantiles. Default 4 (quartiles). 0 leaves price out. */
+  priceBands?: number;
+  /** Neighbours kept per item for scoring. Default 50. */
+  k?: number;
+  /** Minimum document frequency of a term. Default 1. */
+  minDf?: number;
+}
+
+export const CONTENT_DEFAULTS = { attributeWeight: 0.5, priceBands: 4, k: 50, minDf: 1 } as const;
+
+export interface ContentVectors {
+  /** Items × features, rows l2-normalised (an item with no text and no attributes has an empty row). */
+  vectors: Csr;
+  /** Name of each feature column: a term, or `category:x`, `supplier:x`, `price:b`. */
+  featureNames: string[];
+}
+
+/** The item vectors the content model and the meters (intra-list distance) share. */
+export function contentVectors(items: readonly Item[], params: ContentParams = {}): ContentVectors {
+  const w = params.attributeWeight ?? CONTENT_DEFAULTS.attributeWeight;
+  const bands = params.priceBands ?? CONTENT_DEFAULTS.priceBands;
+  if (!(w >= 0 && Number.isFinite(w))) throw new InputError(`attributeWeight must be a finite number >= 0, got ${w}`);
+  if (!(Number.isInteger(bands) && bands >= 0)) throw new InputError(`priceBands must be an integer >= 0, got ${bands}`);
+  const docs = items.map((it) => tokenize(`${it.title}\n${it.description}\n${it.tags.join('\n')}`, params.tokenize));
+  const tf = fitTfidf(docs, { minDf: params.minDf ?? CONTENT_DEFAULTS.minDf });
+
+  // Attribute columns after the terms: categories, suppliers (sorted), then price bands.
+  const names = [...tf.vocabulary];
+  const columnOf = (prefix: string, values: string[]): Map<string, number> => {
+    const m = new Map<string, number>();
+    for (const v of [...new Set(values.filter((x) => x !== ''))].sort()) {
+      m.set(v, names.length);
+      names.push(`${prefix}:${v}`);
+    }
+    return m;
+  };
+  const catCol = w > 0 ? columnOf('category', items.map((it) => it.category)) : new Map<string, number>();
+  const supCol = w > 0 ? columnOf('supplier', items.map((it) => it.supplier)) : new Map<string, number>();
+  const cuts = w > 0 && bands > 0 ? priceCuts(items, bands) : new Float64Array(0);
+  const bandBase = names.length;
+  if (cuts.length > 0) for (let b = 0; b <= cuts.length; b++) names.push(`price:${b}`);
+
+  const t = tf.matrix;
+  const indptr = new Int32Array(items.length + 1);
+  const indices = new Int32Array(t.indptr[t.rows]! + 3 * items.length);
+  const data = new Float64Array(indices.length);
+  let q = 0;
+  items.forEach((it, i) => {
+    const start = q;
+    for (let p = t.indptr[i]!; p < t.indptr[i + 1]!; p++) {
+      indices[q] = t.indices[p]!;
+      data[q++] = t.data[p]!;
+    }
+    const add = (c: number | undefined): void => {
+      if (c === undefined) return;
+      indices[q] = c;
+      data[q++] = w;
+    };
+    add(catCol.get(it.category));
+    add(supCol.get(it.supplier));
+    if (cuts.length > 0 && it.price !== null && Number.isFinite(it.price)) add(bandBase + upperBound(cuts, it.price));
+    normalizeRow(data, start, q);
+    indptr[i + 1] = q;
+  });
+  return {
+    vectors: { rows: items.length, cols: names.length, indptr, indices: indices.slice(0, q), data: Float32Array.from(data.subarray(0, q)) },
+    featureNames: names,
+  };
+}
+
+/** Band edges at the j/bands quantiles of the catalogue's known prices (distinct edges only). */
+function priceCuts(items: readonly Item[], bands: number): Float64Array {
+  const prices = Float64Array.from(items.flatMap((it) => (it.price !== null && Number.isFinite(it.price) ? [it.price] : []))).sort();
+  if (prices.length === 0) return new Float64Array(0);
+  const edges: number[] = [];
+  for (let b = 1; b < bands; b++) {
+    const e = prices[Math.min(prices.length - 1, Math.floor((b * prices.length) / bands))]!;
+    if (edges.length === 0 || e > edges[edges.length - 1]!) edges.push(e);
+  }
+  return Float64Array.from(edges);
+}
+
+/** Number of edges <= x: the band of price x (band b holds edges[b−1] <= x < edges[b]). */
+function upperBound(edges: Float64Array, x: number): number {
+  let lo = 0;
+  let hi = edges.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (edges[mid]! <= x) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+export class ContentModel implements Scorer {
+  readonly kind = 'content' as const;
+  readonly #postings: Csr;
+  constructor(
+    readonly vectors: Csr,
+    readonly neighbours: Neighbours,
+  ) {
+    if (neighbours.items !== vectors.rows) throw new InputError('content model: neighbour lists and vectors disagree on the item count');
+    this.#postings = transpose(vectors);
+  }
+
+  get itemCount(): number {
+    return this.vectors.rows;
+  }
+
+  /** Mean similarity of item j to the customer's distinct history items, read from the top-K neighbour lists. */
+  scoreInto(u: number, history: Csr, out: Float32Array): void {
+    out.fill(0);
+    const nb = this.neighbours;
+    const start = history.indptr[u]!;
+    const end = history.indptr[u + 1]!;
+    if (end === start) return;
+    for (let p = start; p < end; p++) {
+      const h = history.indices[p]!;
+      for (let q = nb.indptr[h]!, e = nb.indptr[h + 1]!; q < e; q++) out[nb.indices[q]!]! += nb.data[q]!;
+    }
+    const inv = 1 / (end - start);
+    for (let j = 0; j < out.length; j++) out[j]! *= inv;
+  }
+
+  /** Exact cosine of item i with every item, by sparse dot products over the inverted index. */
+  similarityInto(i: number, out: Float32Array): void {
+    out.fill(0);
+    const v = this.vectors;
+    const ix = this.#postings;
+    for (let p = v.indptr[i]!, e = v.indptr[i + 1]!; p < e; p++) {
+      const f = v.indices[p]!;
+      const a = v.data[p]!;
+      for (let q = ix.indptr[f]!, g = ix.indptr[f + 1]!; q < g; q++) out[ix.indices[q]!]! += a * ix.data[q]!;
+    }
+    out[i] = 0;
+  }
+
+  similarItems(i: number, n: number): TopN {
+    return neighbourTopN(this.neighbours, i, n);
+  }
+
+  serialize(): Uint8Array {
+    const v = this.vectors;
+    const nb = this.neighbours;
+    return packSections(MAGIC, 1, [Int32Array.of(v.rows, v.cols), v.indptr, v.indices, v.data, nb.indptr, nb.indices, nb.data]);
+  }
+}
+
+const MAGIC = 'SWCONTNT';
+
+export function loadContent(bytes: Uint8Array): ContentModel {
+  const r = new SectionReader(bytes, MAGIC, 1);
+  const [rows, cols] = r.i32();
+  const vectors: Csr = { rows: rows!, cols: cols!, indptr: r.i32(), indices: r.i32(), data: r.f32() };
+  const neighbours: Neighbours = { items: rows!, indptr: r.i32(), indices: r.i32(), data: r.f32() };
+  if (vectors.indptr.length !== rows! + 1 || neighbours.indptr.length !== rows! + 1) {
+    throw new InputError('not a valid content model: row offsets do not match the item count');
+  }
+  return new ContentModel(vectors, neighbours);
+}
+
+/** Top-K cosine neighbours per item through the inverted index (features → items). */
+export function contentNeighbours(vectors: Csr, k: number): Neighbours {
+  const ix = transpose(vectors);
+  const acc = new Float32Array(vectors.rows);
+  const touched = new Int32Array(vectors.rows);
+  const seen = new Uint8Array(vectors.rows);
+  return collectNeighbours(vectors.rows, k, (i, heap) => {
+    let nTouched = 0;
+    for (let p = vectors.indptr[i]!, e = vectors.indptr[i + 1]!; p < e; p++) {
+      const a = vectors.data[p]!;
+      for (let q = ix.indptr[vectors.indices[p]!]!, g = ix.indptr[vectors.indices[p]! + 1]!; q < g; q++) {
+        const j = ix.indices[q]!;
+        if (seen[j] === 0) {
+          seen[j] = 1;
+          touched[nTouched++] = j;
+        }
+        acc[j]! += a * ix.data[q]!;
+      }
+    }
+    for (let t = 0; t < nTouched; t++) {
+      const j = touched[t]!;
+      if (j !== i && acc[j]! > 0) heap.push(j, acc[j]!);
+      acc[j] = 0;
+      seen[j] = 0;
+    }
+  });
+}
+
+/** Fits the content model on the catalogue. */
+export function fitContent(items: readonly Item[], params: ContentParams = {}, o: FitOptions = {}): { model: ContentModel; report: FitReport } {
+  const start = performance.now();
+  const k = params.k ?? CONTENT_DEFAULTS.k;
+  if (!(Number.isInteger(k) && k > 0)) throw new InputError(`content k must be a positive integer, got ${k}`);
+  const { vectors, featureNames } = contentVectors(items, params);
+  if (o.signal?.aborted) throw new CancelledError();
+  const model = new ContentModel(vectors, contentNeighbours(vectors, k));
+  const elapsedMs = performance.now() - start;
+  o.onIteration?.({ iteration: 1, iterations: 1, elapsedMs });
+  return { model, report: { kind: 'content', elapsedMs, notes: [`content: ${items.length} items, ${featureNames.length} features, k ${k}`] } };
+}

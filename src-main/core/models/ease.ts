@@ -1,0 +1,161 @@
+import { SectionReader, packSections } from '../matrix/bytes.ts';
+import { nnz, type Csr } from '../matrix/csr.ts';
+import { spdInverseInPlace, type InverseHooks } from '../linalg/cholesky.ts';
+import { CancelledError, InputError, ModelFitError } from '../errors.ts';
+import type { FitOptions, FitReport, Scorer, TopN } from './scorer.ts';
+import { topN } from './topn.ts';
+
+/**
+ * EASE, Steck (2019), "Embarrassingly Shallow Autoencoders for Sparse Data", eq. (8): the item–item
+ * weights minimising ‖X − XB‖² + λ‖B‖² subject to diag(B) = 0 are
+ *   P = (XᵀX + λI)⁻¹,   B = I − P · diag(1 / diag(P)),   i.e. B_ij = −P_ij / P_jj (i ≠ j), B_jj = 0.
+ * Scores are x_u · B. The inverse is dense (n² doubles), so the catalogue size is bounded by `maxItems`.
+ */
+export interface EaseParams {
+  /** λ in the paper. Default 500 (from memory: the paper's tuned values lie in the hundreds). */
+  lambda?: number;
+  /** Largest item count fitted. Default 20,000 (DESIGN.md; about 3.2 GB for the inverse at that size). */
+  maxItems?: number;
+  /** Above maxItems: false (default) refuses with an InputError; true keeps the maxItems most active items. */
+  restrict?: boolean;
+}
+
+export const EASE_DEFAULTS = { lambda: 500, maxItems: 20_000, restrict: false } as const;
+
+export class EaseModel implements Scorer {
+  readonly kind = 'ease' as const;
+  /**
+   * @param itemCount items of the catalogue (columns of the interaction matrix)
+   * @param kept global item index of each fitted item (ascending); items not kept score 0
+   * @param b fitted weights, kept × kept, row-major: b[r * kept + c] = B_rc
+   */
+  constructor(
+    readonly itemCount: number,
+    readonly kept: Int32Array,
+    readonly b: Float32Array,
+  ) {
+    const m = kept.length;
+    if (b.length !== m * m) throw new InputError(`EASE weights have ${b.length} entries, expected ${m * m}`);
+    this.#local = new Int32Array(itemCount).fill(-1);
+    for (let r = 0; r < m; r++) this.#local[kept[r]!] = r;
+  }
+  readonly #local: Int32Array;
+
+  scoreInto(u: number, history: Csr, out: Float32Array): void {
+    out.fill(0);
+    const m = this.kept.length;
+    const b = this.b;
+    const kept = this.kept;
+    const whole = m === this.itemCount; // kept is then the identity: skip the indirection
+    for (let p = history.indptr[u]!, end = history.indptr[u + 1]!; p < end; p++) {
+      const r = this.#local[history.indices[p]!]!;
+      if (r < 0) continue;
+      const x = history.data[p]!;
+      const row = r * m;
+      if (whole) for (let c = 0; c < m; c++) out[c]! += x * b[row + c]!;
+      else for (let c = 0; c < m; c++) out[kept[c]!]! += x * b[row + c]!;
+    }
+  }
+
+  /** Row i of B: how much having item i adds to every other item's score. */
+  similarityInto(i: number, out: Float32Array): void {
+    out.fill(0);
+    const r = this.#local[i]!;
+    if (r < 0) return;
+    const m = this.kept.length;
+    for (let c = 0; c < m; c++) out[this.kept[c]!] = this.b[r * m + c]!;
+    out[i] = 0;
+  }
+
+  similarItems(i: number, n: number): TopN {
+    const row = new Float32Array(this.itemCount);
+    this.similarityInto(i, row);
+    const skip = new Uint8Array(this.itemCount).fill(1);
+    for (const c of this.kept) skip[c] = 0;
+    return topN(row, n, i, skip);
+  }
+
+  serialize(): Uint8Array {
+    return packSections(MAGIC, 1, [Int32Array.of(this.itemCount), this.kept, this.b]);
+  }
+}
+
+const MAGIC = 'SWEASE  ';
+
+export function loadEase(bytes: Uint8Array): EaseModel {
+  const r = new SectionReader(bytes, MAGIC, 1);
+  const head = r.i32();
+  return new EaseModel(head[0]!, r.i32(), r.f32());
+}
+
+/** Fits EASE on an interaction matrix (customers × items). */
+export function fitEase(x: Csr, params: EaseParams = {}, o: FitOptions = {}): { model: EaseModel; report: FitReport } {
+  const start = performance.now();
+  const lambda = params.lambda ?? EASE_DEFAULTS.lambda;
+  const maxItems = params.maxItems ?? EASE_DEFAULTS.maxItems;
+  if (!(lambda > 0)) throw new InputError(`EASE lambda must be > 0, got ${lambda}`);
+  if (!(Number.isInteger(maxItems) && maxItems > 0)) throw new InputError(`EASE maxItems must be a positive integer, got ${maxItems}`);
+  const notes: string[] = [];
+  let kept: Int32Array;
+  if (x.cols > maxItems) {
+    if (!params.restrict) {
+      throw new InputError(
+        `EASE needs a dense ${x.cols} × ${x.cols} inverse, above the limit of ${maxItems} items; ` +
+          'raise maxItems if memory allows, or set restrict to fit the most active items only',
+      );
+    }
+    kept = mostActive(x, maxItems);
+    notes.push(`EASE restricted to the ${maxItems} most active of ${x.cols} items; the others score 0`);
+  } else {
+    kept = new Int32Array(x.cols);
+    for (let c = 0; c < x.cols; c++) kept[c] = c;
+  }
+  const m = kept.length;
+  const local = new Int32Array(x.cols).fill(-1);
+  for (let r = 0; r < m; r++) local[kept[r]!] = r;
+
+  // G = XᵀX + λI, accumulated row by row of X over pairs of the row's kept items (lower triangle).
+  const g = new Float64Array(m * m);
+  for (let u = 0; u < x.rows; u++) {
+    const s = x.indptr[u]!;
+    const e = x.indptr[u + 1]!;
+    for (let p = s; p < e; p++) {
+      const a = local[x.indices[p]!]!;
+      if (a < 0) continue;
+      const va = x.data[p]!;
+      const ra = a * m;
+      for (let q = s; q <= p; q++) {
+        const c = local[x.indices[q]!]!;
+        if (c >= 0) g[ra + c]! += va * x.data[q]!;
+      }
+    }
+  }
+  for (let a = 0; a < m; a++) g[a * m + a]! += lambda;
+  if (o.signal?.aborted) throw new CancelledError();
+  // Symmetric result: lower and upper both hold P. Progress: one "iteration" per phase of the inverse.
+  const hooks: InverseHooks = {
+    onPhase: (phase, phases) => o.onIteration?.({ iteration: phase, iterations: phases + 1, elapsedMs: performance.now() - start }),
+  };
+  if (o.signal) hooks.signal = o.signal;
+  spdInverseInPlace(g, m, hooks);
+
+  const b = new Float32Array(m * m);
+  for (let r = 0; r < m; r++) {
+    for (let c = 0; c < m; c++) b[r * m + c] = r === c ? 0 : -g[r * m + c]! / g[c * m + c]!;
+  }
+  for (let k = 0; k < b.length; k++) {
+    if (!Number.isFinite(b[k]!)) throw new ModelFitError(`EASE weights are not finite at entry ${k}`);
+  }
+  const elapsedMs = performance.now() - start;
+  o.onIteration?.({ iteration: 4, iterations: 4, elapsedMs });
+  notes.push(`EASE on ${m} items, ${nnz(x)} interactions, lambda ${lambda}`);
+  return { model: new EaseModel(x.cols, kept, b), report: { kind: 'ease', elapsedMs, notes } };
+}
+
+/** The n items with the most interactions (ties: lower index), returned in ascending index order. */
+function mostActive(x: Csr, n: number): Int32Array {
+  const count = new Float32Array(x.cols);
+  for (let p = 0, total = nnz(x); p < total; p++) count[x.indices[p]!]!++;
+  const best = topN(count, n).items;
+  return best.sort();
+}

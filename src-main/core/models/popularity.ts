@@ -1,0 +1,149 @@
+import { SectionReader, packSections } from '../matrix/bytes.ts';
+import type { Csr } from '../matrix/csr.ts';
+import { InputError } from '../errors.ts';
+import { seededRng } from '../rng.ts';
+import { DAY_MS, type Dataset } from '../types.ts';
+import type { FitReport, Scorer, TopN } from './scorer.ts';
+import { topN } from './topn.ts';
+
+/**
+ * Time-decayed popularity: Σ over an item's signals of 2^(−age / halfLifeDays), age in days before `now`
+ * (default: the latest signal time, never the clock). Signals after `now` count fully; signals without a
+ * time count fully (age unknown, not old). Default half-life 30 days: common practice, no source.
+ */
+export function decayedCounts(ds: Dataset, opts: { halfLifeDays?: number; now?: number; rows?: Int32Array } = {}): Float64Array {
+  const half = opts.halfLifeDays ?? 30;
+  if (!(half > 0)) throw new InputError(`halfLifeDays must be > 0, got ${half}`);
+  const s = ds.signals;
+  const count = opts.rows ? opts.rows.length : s.length;
+  const pick = (k: number): number => (opts.rows ? opts.rows[k]! : k);
+  let now = opts.now ?? -Infinity;
+  if (opts.now === undefined) {
+    for (let k = 0; k < count; k++) {
+      const t = s.at[pick(k)]!;
+      if (t > now) now = t; // false for NaN
+    }
+  }
+  const out = new Float64Array(ds.items.length);
+  for (let k = 0; k < count; k++) {
+    const j = pick(k);
+    const t = s.at[j]!;
+    out[s.item[j]!]! += t === t ? Math.pow(2, -Math.max(0, now - t) / DAY_MS / half) : 1;
+  }
+  return out;
+}
+
+export interface TrendParams {
+  /** End of the recent window (unix ms, exclusive). Default: just after the latest signal. */
+  now?: number;
+  /** Length of each window in days. Default 14 (common practice, no source). */
+  windowDays?: number;
+  /** Smoothing added to the recent count. Default 5 (common practice, no source). */
+  a?: number;
+  /** Smoothing added to the previous count. Default 5 (common practice, no source). */
+  b?: number;
+}
+
+/**
+ * Trend per item: (recent + a) / (previous + b), with recent = signals in [now − w, now) and previous =
+ * signals in [now − 2w, now − w). With a = b the ratio is 1 for an item without signals and moves away
+ * from 1 only as evidence accumulates, so one view of a new item does not make it "trending".
+ */
+export function trendRatios(ds: Dataset, params: TrendParams = {}): Float64Array {
+  const w = (params.windowDays ?? 14) * DAY_MS;
+  const a = params.a ?? 5;
+  const b = params.b ?? 5;
+  if (!(w > 0)) throw new InputError(`windowDays must be > 0, got ${params.windowDays}`);
+  if (!(a >= 0 && b > 0)) throw new InputError(`trend smoothing needs a >= 0 and b > 0, got a=${a}, b=${b}`);
+  const s = ds.signals;
+  let now = params.now ?? -Infinity;
+  if (params.now === undefined) {
+    for (let k = 0; k < s.length; k++) if (s.at[k]! > now) now = s.at[k]!;
+    now += 1;
+  }
+  const recent = new Float64Array(ds.items.length);
+  const previous = new Float64Array(ds.items.length);
+  for (let k = 0; k < s.length; k++) {
+    const t = s.at[k]!;
+    if (t >= now - w && t < now) recent[s.item[k]!]!++;
+    else if (t >= now - 2 * w && t < now - w) previous[s.item[k]!]!++;
+  }
+  for (let i = 0; i < recent.length; i++) recent[i] = (recent[i]! + a) / (previous[i]! + b);
+  return recent;
+}
+
+/**
+ * The non-personalised baseline: every customer gets the same ranking by a per-item score (popularity,
+ * decayed popularity or trend). similarityInto gives every other item its score, so "similar items" are
+ * simply the most popular others — what a shelf without any model would show.
+ */
+export class PopularityModel implements Scorer {
+  readonly kind = 'popularity' as const;
+  constructor(readonly scores: Float32Array) {}
+
+  get itemCount(): number {
+    return this.scores.length;
+  }
+  scoreInto(_u: number, _history: Csr, out: Float32Array): void {
+    out.set(this.scores);
+  }
+  similarityInto(i: number, out: Float32Array): void {
+    out.set(this.scores);
+    out[i] = 0;
+  }
+  similarItems(i: number, n: number): TopN {
+    return topN(this.scores, n, i);
+  }
+  serialize(): Uint8Array {
+    return packSections(MAGIC, 1, [this.scores]);
+  }
+}
+
+const MAGIC = 'SWPOPULR';
+
+export function loadPopularity(bytes: Uint8Array): PopularityModel {
+  return new PopularityModel(new SectionReader(bytes, MAGIC, 1).f32());
+}
+
+/** Popularity as column sums of an interaction matrix (build it with halfLifeDays for decayed popularity). */
+export function fitPopularity(x: Csr): { model: PopularityModel; report: FitReport } {
+  const start = performance.now();
+  const scores = new Float32Array(x.cols);
+  const total = x.indptr[x.rows]!;
+  for (let p = 0; p < total; p++) scores[x.indices[p]!]! += x.data[p]!;
+  return { model: new PopularityModel(scores), report: { kind: 'popularity', elapsedMs: performance.now() - start, notes: [] } };
+}
+
+/**
+ * The random baseline an evaluation compares against: scores uniform in [0, 1), drawn from
+ * seededRng(seed ⊕ hash(u)), so the same customer always gets the same scores for the same seed.
+ */
+export function randomScorer(seed: number, itemCount: number): Scorer {
+  const fill = (key: number, out: Float32Array): void => {
+    const rng = seededRng((seed ^ Math.imul(key + 1, 0x9e3779b1)) >>> 0);
+    for (let j = 0; j < out.length; j++) out[j] = rng.next();
+  };
+  const similarityInto = (i: number, out: Float32Array): void => {
+    fill(-1 - i, out); // negative keys: item streams never coincide with customer streams
+    out[i] = 0;
+  };
+  return {
+    kind: 'random',
+    itemCount,
+    scoreInto: (u, _h, out) => fill(u, out),
+    similarityInto,
+    similarItems: (i, n) => {
+      const out = new Float32Array(itemCount);
+      similarityInto(i, out);
+      return topN(out, n, i);
+    },
+    serialize: () => packSections(RANDOM_MAGIC, 1, [Int32Array.of(seed, itemCount)]),
+  };
+}
+
+const RANDOM_MAGIC = 'SWRANDOM';
+
+export function loadRandom(bytes: Uint8Array): Scorer {
+  const [seed, itemCount] = new SectionReader(bytes, RANDOM_MAGIC, 1).i32();
+  return randomScorer(seed!, itemCount!);
+}

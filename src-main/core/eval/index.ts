@@ -1,0 +1,4 @@
+/** Offline evaluation: who is evaluated, the top-K evaluator, and the blend-weight search. */
+export { evalTruth, sampleTruth, customersPerItem, type EvalTruth } from './customers.ts';
+export { RankingEvaluator, type Ranker, type EvalResult } from './evaluator.ts';
+export { searchBlendWeights, type BlendSearchOptions, type BlendSearchResult, type BlendTrial } from './blend-search.ts';

@@ -1,0 +1,66 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { generateDemoShop } from '../../demo-data/generator/index.ts';
+import { buildInteractionMatrix } from '../../src-main/core/matrix/build.ts';
+import { fitItemKnn } from '../../src-main/core/models/itemknn.ts';
+import { evaluateWorkspace, saveEvaluation } from '../../src-main/services/evaluate.ts';
+import { ModelRepo } from '../../src-main/store/models.ts';
+import { importFile } from '../../src-main/services/import.ts';
+import { loadDataset } from '../../src-main/store/dataset.ts';
+import { openWorkspace, type Db } from '../../src-main/store/workspace.ts';
+
+let dir: string;
+let db: Db;
+
+beforeAll(async () => {
+  dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-evaluate-'));
+  const shop = await generateDemoShop({ seed: 5, items: 150, customers: 600, signals: 12_000, outDir: dir });
+  db = openWorkspace(path.join(dir, 'w.sqlite'));
+  for (const target of ['items', 'customers', 'signals'] as const) await importFile(db, { target, file: shop.files[target] });
+});
+
+afterAll(() => {
+  db?.close();
+  if (dir) fs.rmSync(dir, { recursive: true, force: true });
+});
+
+describe('evaluateWorkspace', () => {
+  it('reports every model, the hybrid and both baselines on one customer sample', () => {
+    const r = evaluateWorkspace(db, { k: 5, sampleCustomers: 150, seed: 2, params: { ials: { factors: 8, iterations: 4 } } });
+    expect(r.test.map((x) => x.model).sort()).toEqual(['content', 'ease', 'hybrid', 'ials', 'itemknn', 'popularity', 'random']);
+    const n = r.test[0]!.customers;
+    expect(n).toBeGreaterThan(20);
+    expect(n).toBeLessThanOrEqual(150);
+    for (const row of r.test) {
+      expect(row.customers).toBe(n);
+      expect(row.k).toBe(5);
+      expect(row.ndcg).toBeGreaterThanOrEqual(0);
+      expect(row.ndcg).toBeLessThanOrEqual(1);
+    }
+    for (let q = 1; q < r.test.length; q++) expect(r.test[q]!.ndcg).toBeLessThanOrEqual(r.test[q - 1]!.ndcg);
+    expect(r.split.train + r.split.validation + r.split.test).toBe(loadDataset(db).signals.length);
+    expect(r.split.test).toBeGreaterThan(0.05 * r.split.train);
+    expect(r.split.validationFrom).toBeLessThanOrEqual(r.split.testFrom);
+    expect(r.validation.trials).toBeGreaterThan(6);
+    expect(r.validation.hybrid.ndcg).toBeGreaterThan(0);
+  });
+
+  it('attaches the rows to the current stored models of the same kind', () => {
+    const r = evaluateWorkspace(db, { k: 5, sampleCustomers: 100, seed: 3, params: { ials: { factors: 8, iterations: 3 } } });
+    expect(saveEvaluation(db, r, 1)).toBe(0); // nothing stored yet
+    const repo = new ModelRepo(db);
+    const knn = fitItemKnn(buildInteractionMatrix(loadDataset(db))).model;
+    repo.saveAll([{ kind: 'itemknn', params: {}, fingerprint: 'f', trainedAt: 1, trainMs: 1, report: { notes: [] }, bytes: knn.serialize() }]);
+    expect(saveEvaluation(db, r, 2)).toBe(1);
+    const stored = repo.list().find((m) => m.kind === 'itemknn' && m.current)!.evaluation as { ndcg: number; evaluatedAt: number };
+    expect(stored.ndcg).toBe(r.test.find((x) => x.model === 'itemknn')!.ndcg);
+    expect(stored.evaluatedAt).toBe(2);
+  });
+
+  it('refuses a bad K and sample size, naming the field', () => {
+    expect(() => evaluateWorkspace(db, { k: 0 })).toThrow(/k must be a whole number/);
+    expect(() => evaluateWorkspace(db, { sampleCustomers: 0.5 })).toThrow(/sampleCustomers/);
+  });
+});

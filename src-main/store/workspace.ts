@@ -60,6 +60,10 @@ export function openWorkspace(file: string, options: OpenOptions = {}): Db {
     }
   } catch (e) {
     db.close();
+    // SQLite notices a file that is not a database only on its first read (here, the first pragma).
+    if ((e as { code?: string }).code === 'SQLITE_NOTADB') {
+      throw new InputError('not a workspace file (not an SQLite database)', { file });
+    }
     throw e;
   }
   return db;

@@ -1,0 +1,130 @@
+import { InputError } from '../core/errors.ts';
+
+/**
+ * The canonical fields of each import target and the header words that name them. A file's headers are
+ * matched after folding case and dropping spaces, underscores and hyphens ("Item ID" = "item_id" = "itemid").
+ */
+export type ImportTarget = 'items' | 'customers' | 'signals';
+
+export const FIELDS = {
+  items: ['id', 'title', 'description', 'category', 'tags', 'supplier', 'price', 'added_at', 'promoted', 'available'],
+  customers: ['id'],
+  signals: ['customer', 'item', 'kind', 'value', 'at'],
+} as const satisfies Record<ImportTarget, readonly string[]>;
+
+export type FieldOf<T extends ImportTarget> = (typeof FIELDS)[T][number];
+export type AnyField = FieldOf<ImportTarget>;
+/** Field -> source header. */
+export type Mapping = Partial<Record<AnyField, string>>;
+
+/** Columns a file must have. A new item also needs a title; that is checked per row (see rows.ts). */
+export const REQUIRED: Readonly<Record<ImportTarget, readonly string[]>> = {
+  items: ['id'],
+  customers: ['id'],
+  signals: ['customer', 'item', 'kind'],
+};
+
+const SYNONYMS: Readonly<Record<ImportTarget, Readonly<Record<string, readonly string[]>>>> = {
+  items: {
+    id: ['id', 'itemid', 'sku', 'productid', 'item', 'externalid', 'articleid'],
+    title: ['title', 'name', 'productname', 'itemname', 'headline'],
+    description: ['description', 'desc', 'summary', 'body', 'text'],
+    category: ['category', 'section', 'department', 'genre'],
+    tags: ['tags', 'tag', 'keywords', 'labels'],
+    supplier: ['supplier', 'vendor', 'brand', 'publisher', 'author', 'maker'],
+    price: ['price', 'cost', 'amount', 'unitprice'],
+    added_at: ['addedat', 'added', 'dateadded', 'createdat', 'created', 'publishedat', 'published', 'releasedate'],
+    promoted: ['promoted', 'sponsored', 'ispromoted', 'promo'],
+    available: ['available', 'instock', 'isavailable', 'availability', 'active'],
+  },
+  customers: {
+    id: ['id', 'customerid', 'userid', 'reader', 'readerid', 'customer', 'user', 'externalid', 'memberid'],
+  },
+  signals: {
+    customer: ['customer', 'customerid', 'userid', 'user', 'reader', 'readerid', 'memberid', 'visitorid'],
+    item: ['item', 'itemid', 'sku', 'productid', 'product', 'articleid', 'article'],
+    kind: ['kind', 'event', 'eventtype', 'type', 'action', 'interaction'],
+    value: ['value', 'rating', 'score', 'qty', 'quantity', 'count', 'weight'],
+    at: ['at', 'timestamp', 'time', 'date', 'when', 'datetime', 'eventtime', 'createdat', 'ts'],
+  },
+};
+
+export const foldHeader = (h: string): string => h.toLowerCase().replace(/[\s_-]+/g, '');
+
+/** How a file's columns feed a target: the column index of each field, and the columns kept as attributes. */
+export interface ColumnPlan {
+  target: ImportTarget;
+  headers: string[];
+  /** Field -> header actually used (explicit or detected). */
+  mapping: Mapping;
+  /** Field -> column index, -1 when the file lacks it. */
+  index: Record<string, number>;
+  /** Columns that are no field: item and customer attributes; ignored for signals. */
+  extra: number[];
+}
+
+/**
+ * Checks the header row and matches it to the target's fields. Explicit `mapping` entries win; the rest are
+ * detected by synonym. Everything wrong with the header is a file-level InputError (line 1): no row could
+ * be read correctly under a wrong header.
+ */
+export function planColumns(file: string, target: ImportTarget, headers: string[], explicit: Mapping = {}): ColumnPlan {
+  const fields: readonly string[] = FIELDS[target];
+  const seen = new Map<string, number>();
+  headers.forEach((raw, i) => {
+    const h = raw.trim();
+    if (h === '') throw new InputError(`column ${i + 1} has no header name`, { file, line: 1, column: i + 1 });
+    const prev = seen.get(h);
+    if (prev !== undefined) {
+      throw new InputError(`duplicate header '${h}' (columns ${prev + 1} and ${i + 1})`, { file, line: 1, column: i + 1 });
+    }
+    seen.set(h, i);
+  });
+  const trimmed = headers.map((h) => h.trim());
+  const index: Record<string, number> = {};
+  const mapping: Mapping = {};
+  for (const [field, header] of Object.entries(explicit)) {
+    if (!fields.includes(field)) {
+      throw new InputError(`mapping names '${field}', which is not a field of ${target} (fields: ${fields.join(', ')})`, { file });
+    }
+    if (header === undefined) continue;
+    const at = trimmed.indexOf(header.trim());
+    if (at < 0) {
+      throw new InputError(`mapping names column '${header}' for ${field}, but the file has no such column (columns: ${trimmed.join(', ')})`, {
+        file,
+        line: 1,
+      });
+    }
+    index[field] = at;
+    mapping[field as AnyField] = trimmed[at]!;
+  }
+  const taken = new Set(Object.values(index));
+  for (const field of fields) {
+    if (index[field] !== undefined) continue;
+    const words = SYNONYMS[target][field] ?? [];
+    const hits = trimmed.map((h, i) => (words.includes(foldHeader(h)) && !taken.has(i) ? i : -1)).filter((i) => i >= 0);
+    if (hits.length > 1) {
+      // Prefer the column named exactly like the field; otherwise refuse to guess.
+      const exact = hits.filter((i) => foldHeader(trimmed[i]!) === foldHeader(field));
+      if (exact.length !== 1) {
+        const names = hits.map((i) => `'${trimmed[i]}'`).join(' and ');
+        throw new InputError(`columns ${names} could both be ${field}; pass a mapping`, { file, line: 1, column: hits[1]! + 1 });
+      }
+      hits.splice(0, hits.length, exact[0]!);
+    }
+    if (hits.length === 1) {
+      index[field] = hits[0]!;
+      mapping[field as AnyField] = trimmed[hits[0]!]!;
+      taken.add(hits[0]!);
+    } else index[field] = -1;
+  }
+  const missing = REQUIRED[target].filter((f) => index[f] === -1);
+  if (missing.length > 0) {
+    throw new InputError(
+      `missing required column${missing.length > 1 ? 's' : ''} ${missing.join(', ')} for ${target} (columns: ${trimmed.join(', ')}); rename them or pass a mapping`,
+      { file, line: 1 },
+    );
+  }
+  const extra = trimmed.map((_, i) => i).filter((i) => !taken.has(i));
+  return { target, headers: trimmed, mapping, index, extra };
+}

@@ -1,0 +1,69 @@
+import { InputError } from '../core/errors.ts';
+
+/**
+ * Guards the bytes before any parser sees them: binary files (a NUL byte, as in every PNG, ZIP or SQLite
+ * file's first few hundred bytes) and text that is not UTF-8 are refused with the line where it goes wrong.
+ * UTF-8 is checked by a fatal TextDecoder in streaming mode, so a multi-byte sequence split across two chunks
+ * is fine (WHATWG Encoding Standard, "decode" with fatal error mode).
+ */
+export class TextCheck {
+  readonly #file: string;
+  readonly #decoder = new TextDecoder('utf-8', { fatal: true, ignoreBOM: true });
+  #linesBefore = 0;
+  constructor(file: string) {
+    this.#file = file;
+  }
+
+  /** Checks one chunk; returns its decoded text (callers that parse bytes themselves may ignore it). */
+  chunk(bytes: Uint8Array, last = false): string {
+    const nul = bytes.indexOf(0);
+    if (nul >= 0) {
+      throw new InputError('this is not a text file (binary content: a NUL byte); import CSV, JSON or JSON Lines', {
+        file: this.#file,
+        line: this.#linesBefore + countNewlines(bytes, nul) + 1,
+      });
+    }
+    let out: string;
+    try {
+      out = this.#decoder.decode(bytes, { stream: !last });
+    } catch {
+      const at = firstInvalid(bytes);
+      throw new InputError(
+        `the file is not valid UTF-8 text (byte 0x${(bytes[at] ?? 0).toString(16).padStart(2, '0')}); save it as UTF-8 and import again`,
+        { file: this.#file, line: this.#linesBefore + countNewlines(bytes, at) + 1 },
+      );
+    }
+    this.#linesBefore += countNewlines(bytes, bytes.length);
+    return out;
+  }
+
+  end(): void {
+    this.chunk(new Uint8Array(0), true);
+  }
+}
+
+function countNewlines(bytes: Uint8Array, end: number): number {
+  let n = 0;
+  for (let i = bytes.indexOf(10); i >= 0 && i < end; i = bytes.indexOf(10, i + 1)) n++;
+  return n;
+}
+
+/**
+ * Offset of the first byte that breaks UTF-8 (RFC 3629 section 4 syntax), only used to locate an error the
+ * decoder already found. Leading continuation bytes finish a sequence from the previous chunk and are skipped.
+ */
+function firstInvalid(b: Uint8Array): number {
+  let i = 0;
+  while (i < 3 && i < b.length && (b[i]! & 0xc0) === 0x80) i++;
+  while (i < b.length) {
+    const c = b[i]!;
+    const need = c < 0x80 ? 0 : c >= 0xc2 && c <= 0xdf ? 1 : c >= 0xe0 && c <= 0xef ? 2 : c >= 0xf0 && c <= 0xf4 ? 3 : -1;
+    if (need < 0) return i;
+    for (let k = 1; k <= need; k++) {
+      if (i + k >= b.length) return i; // truncated at the very end
+      if ((b[i + k]! & 0xc0) !== 0x80) return i;
+    }
+    i += need + 1;
+  }
+  return Math.max(0, b.length - 1);
+}

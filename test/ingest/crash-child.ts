@@ -1,0 +1,26 @@
+/**
+ * Child process of crash.test.ts: imports a large signals file into an existing workspace and prints
+ * "inserting" once rows are being written, so the parent can SIGKILL it mid-transaction.
+ * Usage: npx tsx test/ingest/crash-child.ts <workspace> <signals.csv>
+ */
+import { importFile } from '../../src-main/services/import.ts';
+import { openWorkspace } from '../../src-main/store/workspace.ts';
+
+const [workspace, file] = process.argv.slice(2);
+if (!workspace || !file) throw new Error('usage: crash-child.ts <workspace> <signals.csv>');
+const db = openWorkspace(workspace);
+let announced = false;
+importFile(db, {
+  target: 'signals',
+  file,
+  onProgress: () => {
+    if (!announced) process.stdout.write('inserting\n');
+    announced = true;
+  },
+}).then(
+  (r) => process.stdout.write(`done ${r.added}\n`),
+  (e: unknown) => {
+    process.stderr.write(`${String(e)}\n`);
+    process.exitCode = 1;
+  },
+);

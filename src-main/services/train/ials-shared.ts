@@ -1,0 +1,77 @@
+import type { IalsState } from '../../core/models/ials-fit.ts';
+import type { IalsParams } from '../../core/models/ials-params.ts';
+
+/** An iALS fit's state as the SharedArrayBuffers a worker thread receives (structured-clone safe). */
+export interface SharedIals {
+  params: IalsParams;
+  customers: number;
+  items: number;
+  x: SharedArrayBuffer;
+  y: SharedArrayBuffer;
+  byCustomer: { indptr: SharedArrayBuffer; indices: SharedArrayBuffer; conf: SharedArrayBuffer };
+  byItem: { indptr: SharedArrayBuffer; indices: SharedArrayBuffer; conf: SharedArrayBuffer };
+  gramX: SharedArrayBuffer;
+  gramY: SharedArrayBuffer;
+  gramParts: SharedArrayBuffer;
+}
+
+/** What a worker is asked to do: Gram blocks [from, to) of a side, or solve rows [from, to). */
+export interface PoolTask {
+  id: number;
+  op: 'gram' | 'solve';
+  side: 'customers' | 'items';
+  from: number;
+  to: number;
+  observed: boolean;
+}
+
+export interface PoolReply {
+  id: number;
+  value?: number;
+  error?: { name: string; message: string };
+}
+
+const sab = (a: ArrayBufferView): SharedArrayBuffer => {
+  if (!(a.buffer instanceof SharedArrayBuffer) || a.byteOffset !== 0 || a.byteLength !== a.buffer.byteLength) {
+    throw new Error('iALS state was not allocated in whole SharedArrayBuffers');
+  }
+  return a.buffer;
+};
+
+export function toShared(s: IalsState): SharedIals {
+  const rows = (c: IalsState['byCustomer']) => ({ indptr: sab(c.indptr), indices: sab(c.indices), conf: sab(c.conf) });
+  return {
+    params: s.params,
+    customers: s.customers,
+    items: s.items,
+    x: sab(s.x),
+    y: sab(s.y),
+    byCustomer: rows(s.byCustomer),
+    byItem: rows(s.byItem),
+    gramX: sab(s.gramX),
+    gramY: sab(s.gramY),
+    gramParts: sab(s.gramParts),
+  };
+}
+
+export function fromShared(d: SharedIals): IalsState {
+  const rows = (c: SharedIals['byCustomer'], n: number) => ({
+    rows: n,
+    indptr: new Int32Array(c.indptr),
+    indices: new Int32Array(c.indices),
+    conf: new Float32Array(c.conf),
+  });
+  return {
+    params: d.params,
+    k: d.params.factors,
+    customers: d.customers,
+    items: d.items,
+    x: new Float32Array(d.x),
+    y: new Float32Array(d.y),
+    byCustomer: rows(d.byCustomer, d.customers),
+    byItem: rows(d.byItem, d.items),
+    gramX: new Float64Array(d.gramX),
+    gramY: new Float64Array(d.gramY),
+    gramParts: new Float64Array(d.gramParts),
+  };
+}

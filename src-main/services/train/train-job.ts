@@ -1,0 +1,116 @@
+import { randomUUID } from 'node:crypto';
+import { BugError, CancelledError, InputError, ModelFitError, NotFoundError } from '../../core/errors.ts';
+import type { ModelKind } from '../../core/models/scorer.ts';
+import { ModelRepo } from '../../store/models.ts';
+import type { JobBody } from '../jobs.ts';
+import type { Db } from '../../store/workspace.ts';
+import { spawnWorker } from './spawn.ts';
+import type { TrainOptions, TrainOutput, TrainProgress } from './train-models.ts';
+import type { TrainWorkerData, TrainWorkerMessage } from './train-worker.ts';
+
+export interface TrainHooks {
+  onProgress?: (p: TrainProgress) => void;
+  /** Aborting terminates the training thread at once; nothing has been written, so nothing is undone. */
+  signal?: AbortSignal;
+  /** better-sqlite3 binding for another ABI (Electron), passed to the thread's own connection. */
+  nativeBinding?: string;
+}
+
+const ERRORS: Record<string, new (message: string) => Error> = {
+  InputError,
+  ModelFitError,
+  NotFoundError,
+  CancelledError,
+};
+
+/**
+ * Trains every model of a workspace in a worker thread, off the caller's thread, and returns the
+ * serialized models with their reports. The thread opens the file read-only and writes nothing.
+ */
+export function trainAll(file: string, options: TrainOptions = {}, hooks: TrainHooks = {}): Promise<TrainOutput> {
+  const { signal } = hooks;
+  if (signal?.aborted) return Promise.reject(new CancelledError('training cancelled'));
+  return new Promise<TrainOutput>((resolve, reject) => {
+    const data: TrainWorkerData = { file, options, ...(hooks.nativeBinding ? { nativeBinding: hooks.nativeBinding } : {}) };
+    const url = new URL(import.meta.url.endsWith('.ts') ? './train-worker.ts' : './train-worker.js', import.meta.url);
+    const worker = spawnWorker(url, { workerData: data });
+    let settled = false;
+    const finish = (fn: () => void) => {
+      if (settled) return;
+      settled = true;
+      signal?.removeEventListener('abort', onAbort);
+      void worker.terminate();
+      fn();
+    };
+    const onAbort = () => finish(() => reject(new CancelledError('training cancelled')));
+    signal?.addEventListener('abort', onAbort, { once: true });
+    worker.on('message', (m: TrainWorkerMessage) => {
+      if (m.type === 'progress') {
+        if (!settled) hooks.onProgress?.(m.progress);
+      } else if (m.type === 'done') finish(() => resolve(m.output));
+      else {
+        const Known = ERRORS[m.error.name];
+        finish(() => reject(Known ? new Known(m.error.message) : new BugError(`training failed: ${m.error.name}: ${m.error.message}`)));
+      }
+    });
+    worker.on('error', (e) => finish(() => reject(new BugError(`training thread failed: ${e.message}`))));
+    worker.on('exit', (code) => finish(() => reject(new BugError(`training thread exited early (code ${code})`))));
+  });
+}
+
+export interface TrainSummary {
+  /** Row ids of the stored models, in training order. */
+  ids: number[];
+  models: ModelKind[];
+  fingerprint: string;
+  elapsedMs: number;
+  notes: string[];
+}
+
+/** Trains off-thread, then stores every model in one transaction (all become current, or none). */
+export async function trainAndSave(
+  db: Db,
+  file: string,
+  options: TrainOptions = {},
+  hooks: TrainHooks & { keepHistory?: number } = {},
+): Promise<TrainSummary> {
+  const out = await trainAll(file, options, hooks);
+  if (hooks.signal?.aborted) throw new CancelledError('training cancelled');
+  const ids = new ModelRepo(db, hooks.keepHistory ?? 1).saveAll(out.records);
+  return { ids, models: out.records.map((r) => r.kind), fingerprint: out.fingerprint, elapsedMs: out.elapsedMs, notes: out.notes };
+}
+
+/** A running training, for the api and the UI to poll and cancel. */
+export interface TrainingJob {
+  id: string;
+  progress(): TrainProgress;
+  cancel(): void;
+  /** The stored result; rejects with CancelledError after `cancel()`. */
+  done: Promise<TrainSummary>;
+}
+
+export function startTraining(db: Db, file: string, options: TrainOptions = {}, hooks: Omit<TrainHooks, 'signal' | 'onProgress'> & { keepHistory?: number } = {}): TrainingJob {
+  const controller = new AbortController();
+  let last: TrainProgress = { stage: 'load', fraction: 0 };
+  const done = trainAndSave(db, file, options, {
+    ...hooks,
+    signal: controller.signal,
+    onProgress: (p) => {
+      last = p;
+    },
+  });
+  done.catch(() => undefined); // the caller observes failures through `done`; never an unhandled rejection
+  return { id: randomUUID(), progress: () => ({ ...last }), cancel: () => controller.abort(), done };
+}
+
+/**
+ * The same training as a body for the app's JobRegistry (services/jobs.ts):
+ * `ctx.jobs.start('train', trainJob(ctx.db, ctx.file, options))`.
+ */
+export function trainJob(db: Db, file: string, options: TrainOptions = {}, hooks: Omit<TrainHooks, 'signal' | 'onProgress'> = {}): JobBody {
+  return async (report, signal) => {
+    const s = await trainAndSave(db, file, options, { ...hooks, onProgress: report, signal });
+    const notes = s.notes.length ? ` (${s.notes.length} notes)` : '';
+    return `trained ${s.models.length} models in ${(s.elapsedMs / 1000).toFixed(1)} s${notes}`;
+  };
+}

@@ -1,0 +1,75 @@
+import fs from 'node:fs';
+import { afterAll, describe, expect, it } from 'vitest';
+import { CancelledError, InputError } from '../../src-main/core/errors.ts';
+import { loadIals } from '../../src-main/core/models/ials.ts';
+import { JobRegistry } from '../../src-main/services/jobs.ts';
+import { startTraining, trainAll, trainJob } from '../../src-main/services/train/train-job.ts';
+import type { TrainProgress } from '../../src-main/services/train/train-models.ts';
+import { dataFingerprint, ModelRepo, modelStatus } from '../../src-main/store/models.ts';
+import { smallWorkspace } from '../store/models-fixture.ts';
+
+const ws = smallWorkspace({ items: 30, customers: 60 });
+afterAll(() => {
+  ws.db.close();
+  fs.rmSync(ws.dir, { recursive: true, force: true });
+});
+const options = { params: { ials: { factors: 8, iterations: 4, seed: 2 } }, threads: 2 };
+
+describe('trainAll (worker thread)', () => {
+  it('trains every model off-thread, reporting progress, and writes nothing', async () => {
+    const seen: TrainProgress[] = [];
+    const before = new ModelRepo(ws.db).list().length;
+    const out = await trainAll(ws.file, options, { onProgress: (p) => seen.push(p) });
+    expect(out.records.map((r) => r.kind)).toEqual(['content', 'itemknn', 'ials', 'ease', 'popularity']);
+    expect(out.fingerprint).toBe(dataFingerprint(ws.db));
+    expect(new ModelRepo(ws.db).list().length).toBe(before);
+    // progress: stages in order, fractions never falling, iALS iterations reported, ends at 1
+    for (let q = 1; q < seen.length; q++) expect(seen[q]!.fraction).toBeGreaterThanOrEqual(seen[q - 1]!.fraction);
+    expect(seen[0]!.stage).toBe('load');
+    expect(seen.at(-1)).toEqual({ stage: 'done', fraction: 1 });
+    expect(seen.filter((p) => p.model === 'ials' && p.iteration !== undefined).map((p) => p.iteration)).toEqual([1, 2, 3, 4]);
+    const ials = loadIals(out.records.find((r) => r.kind === 'ials')!.bytes);
+    expect(ials.itemCount).toBe(30);
+    expect(ials.customerCount).toBe(60);
+    expect(out.records.find((r) => r.kind === 'ials')!.report.losses).toHaveLength(4);
+  });
+
+  it('passes a bad workspace path back as an InputError', async () => {
+    await expect(trainAll(`${ws.dir}/missing.sqlite`, options)).rejects.toBeInstanceOf(InputError);
+  });
+});
+
+describe('startTraining', () => {
+  it('stores all models in one go; a new signal makes them stale', async () => {
+    const job = startTraining(ws.db, ws.file, options);
+    expect(job.progress().fraction).toBeGreaterThanOrEqual(0);
+    const summary = await job.done;
+    expect(summary.models).toHaveLength(5);
+    expect(job.progress()).toEqual({ stage: 'done', fraction: 1 });
+    const status = modelStatus(ws.db);
+    expect(status.map((m) => m.kind).sort()).toEqual(['content', 'ease', 'ials', 'itemknn', 'popularity']);
+    expect(status.every((m) => !m.stale)).toBe(true);
+    ws.db.prepare("INSERT INTO signal (customer_id, item_id, kind, value, at) VALUES (1, 1, 'click', 1, 1)").run();
+    expect(modelStatus(ws.db).every((m) => m.stale)).toBe(true);
+  });
+
+  it('cancel stops the thread and writes nothing', async () => {
+    const before = new ModelRepo(ws.db).list();
+    const job = startTraining(ws.db, ws.file, { ...options, params: { ials: { factors: 8, iterations: 200, seed: 2 } } });
+    while (job.progress().model !== 'ials') await new Promise((r) => setTimeout(r, 5));
+    job.cancel();
+    await expect(job.done).rejects.toBeInstanceOf(CancelledError);
+    expect(new ModelRepo(ws.db).list()).toEqual(before);
+  });
+});
+
+describe('trainJob (JobRegistry body)', () => {
+  it('runs as a background job that the registry reports as done, with a summary line', async () => {
+    const jobs = new JobRegistry();
+    const started = jobs.start('train', trainJob(ws.db, ws.file, { ...options, models: ['popularity', 'ials'] }));
+    const end = await jobs.settled(started.id);
+    expect(end.state).toBe('done');
+    expect(end.summary).toMatch(/^trained 2 models in \d+\.\d s/);
+    expect(new ModelRepo(ws.db).loadCurrent('popularity')!.fingerprint).toBe(dataFingerprint(ws.db));
+  });
+});

@@ -1,0 +1,222 @@
+import { z } from 'zod';
+import { BriefSchema } from '../../core/editing/brief-schema.ts';
+import { method } from '../define.ts';
+
+/**
+ * Editions, shelves, editorial actions (with undo and redo), publish, compare, export, backtest and
+ * forgetting a customer. Items are named by their external id; slots are 1-based, as editors count them.
+ * Readings with no data (NaN in core) cross the boundary as null.
+ */
+const reading = z.number().nullable();
+const label = (what: string) => z.string().trim().min(1, `name the ${what}`);
+const shelfRef = { edition: label('edition'), shelf: label('shelf') };
+
+export const ShelfMeterView = z.object({
+  intraListDistance: reading,
+  age: z.object({ medianDays: reading, meanDays: reading, newestDays: reading, oldestDays: reading, shareUnder30Days: reading }),
+  novelty: reading,
+  promotedShareCount: reading,
+  promotedShareExposure: reading,
+  calibrationGap: reading,
+  predictedRelevance: reading,
+  saturation: z.array(reading),
+  saturatedSlots: z.array(z.number().int()),
+});
+
+export const EditionMeterView = z.object({
+  distinctItems: z.number().int(),
+  overlaps: z.array(z.object({ a: z.number().int(), b: z.number().int(), shared: z.number().int() })),
+  supplierExposureGini: reading,
+});
+
+export const SlotView = z.object({
+  slot: z.number().int().min(1),
+  item: z.string().nullable(),
+  title: z.string().nullable(),
+  category: z.string().nullable(),
+  supplier: z.string().nullable(),
+  /** Promoted (paid): every screen and export labels it "Sponsored" in words. */
+  promoted: z.boolean(),
+  pinned: z.boolean(),
+  score: reading,
+  percentile: reading,
+  contributions: z.record(z.string(), z.number()),
+});
+
+export const ViolationView = z.object({ rule: z.string(), reason: z.string() });
+
+export const ShelfView = z.object({
+  edition: z.string(),
+  label: z.string(),
+  position: z.number().int(),
+  size: z.number().int(),
+  locked: z.boolean(),
+  brief: BriefSchema,
+  slots: z.array(SlotView),
+  meter: ShelfMeterView,
+  violations: z.array(ViolationView),
+  poolSize: z.number().int(),
+  excluded: z.record(z.string(), z.number().int()),
+  canUndo: z.boolean(),
+  canRedo: z.boolean(),
+  actions: z.array(
+    z.object({ seq: z.number().int(), kind: z.string(), reason: z.string().nullable(), at: z.number(), undone: z.boolean() }),
+  ),
+});
+export type ShelfView = z.infer<typeof ShelfView>;
+
+const EditionSummary = z.object({
+  id: z.number().int(),
+  label: z.string(),
+  date: z.string(),
+  status: z.enum(['draft', 'published']),
+  publishedAt: z.number().nullable(),
+});
+
+export const EditionView = EditionSummary.extend({ shelves: z.array(ShelfView), meter: EditionMeterView });
+export type EditionView = z.infer<typeof EditionView>;
+
+const Scope = z.enum(['shelf', 'edition', 'always']).default('shelf');
+const slotNo = z.number().int().min(1, 'slots count from 1');
+const itemId = z.string().trim().min(1, 'name the item by its id');
+const factor = z.number().positive('the factor must be above 0');
+
+export const ShelfAction = z.discriminatedUnion('kind', [
+  z.object({ kind: z.literal('pin'), slot: slotNo, item: itemId }).strict(),
+  z.object({ kind: z.literal('unpin'), slot: slotNo }).strict(),
+  z.object({ kind: z.literal('ban'), item: itemId, scope: Scope }).strict(),
+  z.object({ kind: z.literal('banRule'), facet: z.enum(['category', 'supplier', 'tag']), value: z.string().min(1), scope: Scope }).strict(),
+  /** Multiply the item's score by `factor` (> 1 raises it). */
+  z.object({ kind: z.literal('boost'), item: itemId, factor }).strict(),
+  /** Divide the item's score by `factor` (> 1 lowers it). */
+  z.object({ kind: z.literal('sink'), item: itemId, factor }).strict(),
+  z.object({ kind: z.literal('lock') }).strict(),
+  z.object({ kind: z.literal('unlock') }).strict(),
+  z.object({ kind: z.literal('move'), from: slotNo, to: slotNo }).strict(),
+]);
+export type ShelfAction = z.infer<typeof ShelfAction>;
+
+export const ShelfDiffView = z.object({
+  label: z.string(),
+  presence: z.enum(['both', 'onlyA', 'onlyB']),
+  added: z.array(z.string()),
+  removed: z.array(z.string()),
+  moved: z.array(z.object({ item: z.string(), from: z.number().int(), to: z.number().int() })),
+});
+
+export const BacktestView = z.object({
+  windowDays: z.number(),
+  windowStart: z.string(),
+  windowEnd: z.string(),
+  audienceActive: z.number().int(),
+  shelf: z.object({ engaged: z.number().int(), share: reading, items: z.array(z.string()) }),
+  popularity: z.object({ engaged: z.number().int(), share: reading, items: z.array(z.string()) }),
+  notes: z.array(z.string()),
+});
+
+const LiftEntry = z.object({ value: z.string(), share: z.number(), lift: z.number() });
+
+export const curationMethods = {
+  'edition.new': method({
+    summary: 'Start an edition on a date, optionally copying the shelves and briefs (not slots) of an earlier one.',
+    request: z.object({ label: label('edition'), date: z.string(), from: z.string().optional() }).strict(),
+    response: EditionView,
+  }),
+  'edition.list': method({
+    summary: 'Every edition, oldest date first.',
+    request: z.object({}).strict(),
+    response: z.object({ editions: z.array(EditionSummary) }),
+  }),
+  'edition.show': method({
+    summary: 'An edition with its shelves, their meters and the edition meter.',
+    request: z.object({ edition: label('edition') }).strict(),
+    response: EditionView,
+  }),
+  'edition.publish': method({
+    summary: 'Freeze an edition into read-only history; its items then rest for the rest period.',
+    request: z.object({ edition: label('edition') }).strict(),
+    response: z.object({ edition: z.string(), publishedAt: z.number(), shelves: z.number().int(), items: z.number().int() }),
+  }),
+  'edition.compare': method({
+    summary: 'Per shelf label, the items edition b added, removed and moved relative to edition a.',
+    request: z.object({ a: label('first edition'), b: label('second edition') }).strict(),
+    response: z.object({ a: z.string(), b: z.string(), shelves: z.array(ShelfDiffView) }),
+  }),
+  'edition.export': method({
+    summary: 'The edition as CSV, JSON or a standalone HTML preview (sponsored items labelled in words).',
+    request: z.object({ edition: label('edition'), format: z.enum(['csv', 'json', 'html']) }).strict(),
+    response: z.object({ format: z.enum(['csv', 'json', 'html']), filename: z.string(), content: z.string() }),
+  }),
+  'shelf.add': method({
+    summary: 'Add a shelf to a draft edition and fill it from its brief.',
+    request: z.object({ edition: label('edition'), label: label('shelf'), brief: BriefSchema }).strict(),
+    response: ShelfView,
+  }),
+  'shelf.brief': method({
+    summary: "Replace a shelf's brief (size, filters, quotas, promoted bounds, rest period...) and fill it again.",
+    request: z.object({ ...shelfRef, brief: BriefSchema }).strict(),
+    response: ShelfView,
+  }),
+  'shelf.fill': method({
+    summary: 'Fill a shelf again from its brief and the editorial actions (a locked shelf stays as it is).',
+    request: z.object(shelfRef).strict(),
+    response: ShelfView,
+  }),
+  'shelf.show': method({
+    summary: 'A shelf as last filled, with its meter and violations.',
+    request: z.object(shelfRef).strict(),
+    response: ShelfView,
+  }),
+  'shelf.act': method({
+    summary: 'Apply one editorial action (pin, unpin, ban, banRule, boost, sink, lock, unlock, move) with an optional reason.',
+    request: z.object({ ...shelfRef, action: ShelfAction, reason: z.string().max(500).optional() }).strict(),
+    response: ShelfView,
+  }),
+  'shelf.undo': method({
+    summary: "Undo the shelf's last editorial action.",
+    request: z.object(shelfRef).strict(),
+    response: ShelfView,
+  }),
+  'shelf.redo': method({
+    summary: "Redo the shelf's last undone action.",
+    request: z.object(shelfRef).strict(),
+    response: ShelfView,
+  }),
+  'shelf.whatif': method({
+    summary: 'For one slot, the best candidates not on the shelf and the change each would make to every meter reading.',
+    request: z.object({ ...shelfRef, slot: slotNo, n: z.number().int().min(1).max(200).default(20) }).strict(),
+    response: z.object({
+      slot: z.number().int(),
+      before: z.record(z.string(), reading),
+      candidates: z.array(
+        z.object({ item: z.string(), title: z.string(), promoted: z.boolean(), percentile: z.number(), delta: z.record(z.string(), reading) }),
+      ),
+    }),
+  }),
+  'shelf.backtest': method({
+    summary: "Share of the shelf's audience who engaged with its items in the most recent held-out window, beside a popularity-only list.",
+    request: z.object({ ...shelfRef, windowDays: z.number().int().min(1).max(365).default(28) }).strict(),
+    response: BacktestView,
+  }),
+  'customer.forget': method({
+    summary: "Erase one customer's signals and row (and models holding per-customer rows); reports what was erased.",
+    request: z.object({ customer: z.string().trim().min(1, 'name the customer by its id') }).strict(),
+    response: z.object({ customer: z.string(), signals: z.number().int(), modelsDeleted: z.array(z.string()), modelsStale: z.array(z.string()) }),
+  }),
+  'audience.groups': method({
+    summary: 'The taste groups found in the iALS customer factors, each described by its top categories and tags by lift.',
+    request: z.object({}).strict(),
+    response: z.object({
+      k: z.number().int(),
+      groups: z.array(
+        z.object({
+          group: z.number().int(),
+          customers: z.number().int(),
+          signals: z.number().int(),
+          categories: z.array(LiftEntry),
+          tags: z.array(LiftEntry),
+        }),
+      ),
+    }),
+  }),
+};

@@ -1,0 +1,92 @@
+import { backtestShelf } from '../../services/curation/backtest.ts';
+import { curationModelSource, describeTasteGroups, GROUP_COUNT } from '../../services/curation/model-source.ts';
+import { CurationService, type ActionRequest } from '../../services/curation/service.ts';
+import type { EditionView, ShelfView } from '../../services/curation/views.ts';
+import { exportEdition } from '../../services/export/index.ts';
+import type { AppContext } from '../../services/context.ts';
+import { forgetCustomer } from '../../services/forget.ts';
+import type { ResponseOf } from '../contract.ts';
+import type { Handler } from '../handler-table.ts';
+import type { ShelfAction } from '../contracts/curation.ts';
+
+/** NaN and ±Infinity (a reading with no data) become null: JSON has no NaN, and the schemas say null. */
+function finite<T>(v: T): T {
+  if (typeof v === 'number') return (Number.isFinite(v) ? v : null) as T;
+  if (Array.isArray(v)) return v.map(finite) as T;
+  if (v !== null && typeof v === 'object') {
+    const out: Record<string, unknown> = {};
+    for (const [k, x] of Object.entries(v)) out[k] = finite(x);
+    return out as T;
+  }
+  return v;
+}
+
+const shelf = (v: ShelfView) => finite(v) as unknown as ResponseOf<'shelf.show'>;
+const edition = (v: EditionView) => finite(v) as unknown as ResponseOf<'edition.show'>;
+
+/** A sink by f is a multiplier of 1/f: the api keeps both words, the log keeps one factor. */
+function toRequest(a: ShelfAction): ActionRequest {
+  return a.kind === 'sink' ? { kind: 'boost', item: a.item, factor: 1 / a.factor } : a;
+}
+
+type Names =
+  | 'edition.new'
+  | 'edition.list'
+  | 'edition.show'
+  | 'edition.publish'
+  | 'edition.compare'
+  | 'edition.export'
+  | 'shelf.add'
+  | 'shelf.brief'
+  | 'shelf.fill'
+  | 'shelf.show'
+  | 'shelf.act'
+  | 'shelf.undo'
+  | 'shelf.redo'
+  | 'shelf.whatif'
+  | 'shelf.backtest'
+  | 'customer.forget'
+  | 'audience.groups';
+
+export function curationHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
+  const svc = () => new CurationService(ctx.db, curationModelSource);
+  return {
+    'edition.new': (r) => edition(svc().newEdition(r.label, r.date, r.from)),
+    'edition.list': () => ({
+      editions: svc()
+        .listEditions()
+        .map((e) => ({ id: e.id, label: e.label, date: e.date, status: e.status, publishedAt: e.publishedAt })),
+    }),
+    'edition.show': (r) => edition(svc().showEdition(r.edition)),
+    'edition.publish': (r) => {
+      const s = svc().publish(r.edition);
+      const items = s.shelves.reduce((n, x) => n + x.slots.filter((y) => y.itemId !== null).length, 0);
+      return { edition: s.edition.label, publishedAt: s.publishedAt, shelves: s.shelves.length, items };
+    },
+    'edition.compare': (r) => ({ a: r.a, b: r.b, shelves: svc().compare(r.a, r.b) }),
+    'edition.export': (r) => {
+      const snap = svc().snapshotOf(r.edition);
+      const safe = snap.edition.label.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '') || 'edition';
+      return { format: r.format, filename: `${safe}.${r.format}`, content: exportEdition(snap, r.format) };
+    },
+    'shelf.add': (r) => shelf(svc().addShelf(r.edition, r.label, r.brief)),
+    'shelf.brief': (r) => shelf(svc().setBrief(r.edition, r.shelf, r.brief)),
+    'shelf.fill': (r) => shelf(svc().fill(r.edition, r.shelf, true)),
+    'shelf.show': (r) => shelf(svc().fill(r.edition, r.shelf, false)),
+    'shelf.act': (r) => shelf(svc().act(r.edition, r.shelf, toRequest(r.action), r.reason)),
+    'shelf.undo': (r) => shelf(svc().undo(r.edition, r.shelf)),
+    'shelf.redo': (r) => shelf(svc().redo(r.edition, r.shelf)),
+    'shelf.whatif': (r) => finite(svc().whatIf(r.edition, r.shelf, r.slot, r.n)),
+    'shelf.backtest': (r) => {
+      const s = svc();
+      const e = s.editions.byLabel(r.edition);
+      const sh = s.shelves.byLabel(e.id, r.shelf);
+      return finite(backtestShelf(s.world(), sh, s.shelves.slots(sh.id), r.windowDays));
+    },
+    'customer.forget': (r) => forgetCustomer(ctx.db, r.customer),
+    'audience.groups': () => {
+      const world = svc().world();
+      return { k: GROUP_COUNT, groups: describeTasteGroups(ctx.db, world.ds) };
+    },
+  };
+}

@@ -1,0 +1,2 @@
+export * from './kmeans.ts';
+export * from './describe.ts';

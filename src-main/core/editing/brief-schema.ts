@@ -1,0 +1,83 @@
+/**
+ * The brief as a zod schema: a brief crosses every boundary (the editor's form, a CLI flag, the JSON
+ * stored with a shelf), so it is parsed on the way in and on the way out of the store. Defaults give a
+ * usable brief from just a size. The rule checks with field names live in curation/brief-check.ts.
+ */
+import { z } from 'zod';
+import type { Brief } from '../curation/types.ts';
+
+const Facet = z.enum(['category', 'supplier', 'tag']);
+const share = z.number().min(0).max(1);
+const facetLists = z
+  .object({
+    categories: z.array(z.string()).default([]),
+    tags: z.array(z.string()).default([]),
+    suppliers: z.array(z.string()).default([]),
+  })
+  .strict();
+
+export const AudienceSchema = z.discriminatedUnion('kind', [
+  z.object({ kind: z.literal('everyone') }).strict(),
+  z
+    .object({
+      kind: z.literal('rule'),
+      category: z.string().min(1),
+      signalKinds: z.array(z.string()).min(1).default(['purchase']),
+      withinDays: z.number().positive().default(90),
+    })
+    .strict(),
+  z.object({ kind: z.literal('group'), group: z.number().int().min(0) }).strict(),
+]);
+
+/** Default blend: mostly collaborative and content, some popularity (common practice, no source). */
+export const DEFAULT_WEIGHTS = { content: 0.3, collaborative: 0.35, audience: 0.1, popularity: 0.15, trend: 0.05, freshness: 0.05 };
+
+export const BriefSchema = z
+  .object({
+    size: z.number().int().min(1).max(200),
+    anchors: z.array(z.number().int()).default([]),
+    audience: AudienceSchema.default({ kind: 'everyone' }),
+    include: facetLists.default({ categories: [], tags: [], suppliers: [] }),
+    exclude: facetLists.default({ categories: [], tags: [], suppliers: [] }),
+    priceBand: z.object({ min: z.number().optional(), max: z.number().optional() }).strict().default({}),
+    maxAgeDays: z.number().min(0).optional(),
+    weights: z
+      .object({
+        content: z.number().min(0),
+        collaborative: z.number().min(0),
+        audience: z.number().min(0),
+        popularity: z.number().min(0),
+        trend: z.number().min(0),
+        freshness: z.number().min(0),
+      })
+      .strict()
+      .default(DEFAULT_WEIGHTS),
+    lambda: z.number().min(0).max(1).default(0.7),
+    rules: z
+      .object({
+        quotas: z
+          .array(z.object({ facet: Facet, max: z.number().int().min(1), value: z.string().optional() }).strict())
+          .default([]),
+        promoted: z
+          .object({
+            minCount: share.optional(),
+            maxCount: share.optional(),
+            minExposure: share.optional(),
+            maxExposure: share.optional(),
+          })
+          .strict()
+          .default({}),
+        restPeriod: z.number().int().min(0).default(0),
+        allowRepeatInEdition: z.boolean().default(false),
+      })
+      .strict()
+      .default({ quotas: [], promoted: {}, restPeriod: 0, allowRepeatInEdition: false }),
+  })
+  .strict();
+
+export type BriefInput = z.input<typeof BriefSchema>;
+
+/** Parses a brief (throws ZodError naming the field); the output is the core Brief type. */
+export function parseBrief(input: unknown): Brief {
+  return BriefSchema.parse(input) as Brief;
+}

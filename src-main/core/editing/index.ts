@@ -1,0 +1,3 @@
+export * from './actions.ts';
+export * from './log.ts';
+export * from './snapshot.ts';

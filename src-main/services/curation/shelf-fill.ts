@@ -1,0 +1,177 @@
+/**
+ * Fills one shelf and reads its meter (DESIGN.md "Data flow": candidates → component scores → blend with
+ * weights and boosts → fill with pins under rules → meter). A locked shelf keeps its slots; only its meter
+ * is read again.
+ */
+import { buildCandidatePool, type EditorialState } from '../../core/curation/candidates.ts';
+import { fillShelf } from '../../core/curation/fill.ts';
+import { meterShelf, type MeterInputs } from '../../core/curation/meter.ts';
+import type { Brief, RuleViolation, ShelfMeter } from '../../core/curation/types.ts';
+import type { ShelfEdits } from '../../core/editing/index.ts';
+import { itemsOn } from '../../core/editing/snapshot.ts';
+import { resolveAudience } from '../../core/scoring/index.ts';
+import { dateMs, EditionRepo, type Edition } from '../../store/editions.ts';
+import { EditorialRepo } from '../../store/editorial-actions.ts';
+import { ShelfRepo, type Shelf, type SlotRow } from '../../store/shelves.ts';
+import type { Db } from '../../store/workspace.ts';
+import type { CurationWorld } from './world.ts';
+
+export interface FilledShelf {
+  slots: SlotRow[];
+  /** Dense item per slot (-1 = empty), and the meter's inputs: what a what-if needs. */
+  dense: Int32Array;
+  inputs: MeterInputs;
+  /** Pool items (dense), best first by boosted score, with their percentiles. */
+  ranked: { index: number; percentile: number }[];
+  meter: ShelfMeter;
+  violations: RuleViolation[];
+  /** Candidates in the pool, and why the others were left out. */
+  poolSize: number;
+  excluded: Record<string, number>;
+}
+
+type AudienceReadings = Pick<MeterInputs, 'audienceCategories' | 'ownedShare'> & { audience: Int32Array };
+
+/**
+ * The audience's category mix (its signals per category) and, per item, the share of the audience who
+ * already have it. Walks only the audience's own signals; remembered per audience and date in the world.
+ */
+export function audienceReadings(world: CurationWorld, brief: Brief, editionDate: number): AudienceReadings {
+  const key = `audience:${JSON.stringify(brief.audience)}@${editionDate}`;
+  const hit = world.memo.get(key) as AudienceReadings | undefined;
+  if (hit) return hit;
+  const { ds, ctx } = world;
+  const audience = resolveAudience(ds, brief.audience, editionDate, world.groups);
+  const cats = new Float64Array(ctx.facets.category.values.length);
+  const owners = new Int32Array(ctx.n);
+  const last = new Int32Array(ctx.n).fill(-1);
+  const { ptr, signal } = world.byCustomer;
+  const item = ds.signals.item;
+  for (const u of audience) {
+    for (let p = ptr[u]!, end = ptr[u + 1]!; p < end; p++) {
+      const i = item[signal[p]!]!;
+      cats[ctx.category[i]!]! += 1;
+      if (last[i] !== u) {
+        last[i] = u;
+        owners[i]!++;
+      }
+    }
+  }
+  const ownedShare = Float64Array.from(owners, (c) => (audience.length === 0 ? 0 : c / audience.length));
+  const out = { audience, audienceCategories: cats, ownedShare };
+  world.memo.set(key, out);
+  return out;
+}
+
+/**
+ * The fill's editorial state in dense indices: this shelf's edits, the bans that reach it, the rest
+ * period, and `usedInEdition` (dense items the caller says other shelves of the edition already hold).
+ */
+export function editorialState(
+  db: Db,
+  world: CurationWorld,
+  shelf: Shelf,
+  edition: Edition,
+  edits: ShelfEdits,
+  usedInEdition: ReadonlySet<number>,
+): EditorialState {
+  const { ctx } = world;
+  const dense = (id: number) => ctx.indexOfId.get(id);
+  const bans = new EditorialRepo(db).activeBans(shelf.id, edition.id);
+  const banSet = new Set<number>();
+  for (const id of bans.items) {
+    const i = dense(id);
+    if (i !== undefined) banSet.add(i);
+  }
+  const resting = new Set<number>();
+  for (const id of itemsOn(new EditionRepo(db).lastPublished(edition.date, shelf.brief.rules.restPeriod))) {
+    const i = dense(id);
+    if (i !== undefined) resting.add(i);
+  }
+  const pins = new Map<number, number>();
+  for (const [slot, id] of Object.entries(edits.pins)) {
+    const i = dense(id);
+    if (i !== undefined && Number(slot) < shelf.size) pins.set(Number(slot), i);
+  }
+  return { bans: banSet, banRules: bans.rules, resting, usedInEdition, pins };
+}
+
+/** Dense items of a frozen (locked) shelf, one per slot (-1 = empty or no longer in the catalogue). */
+export function frozenDense(world: CurationWorld, shelf: Shelf, edits: ShelfEdits): Int32Array {
+  const out = new Int32Array(shelf.size).fill(-1);
+  (edits.frozen ?? []).forEach((id, s) => {
+    if (s < shelf.size && id >= 0) out[s] = world.ctx.indexOfId.get(id) ?? -1;
+  });
+  return out;
+}
+
+/**
+ * Fills and meters the shelf; the caller stores `slots` inside its transaction. A locked shelf keeps its
+ * frozen items (scored afresh). With `refill` false the stored slots and violations are read back and
+ * metered, and nothing is filled.
+ */
+export function fillAndMeter(
+  db: Db,
+  world: CurationWorld,
+  shelf: Shelf,
+  edition: Edition,
+  edits: ShelfEdits,
+  refill = true,
+  usedInEdition: ReadonlySet<number> = new Set(),
+): FilledShelf {
+  const { ctx, hybrid } = world;
+  const brief = shelf.brief;
+  const editionDate = dateMs(edition.date);
+  const state = editorialState(db, world, shelf, edition, edits, usedInEdition);
+  const pool = buildCandidatePool(ctx, brief, state, editionDate);
+  const multipliers = new Map<number, number>();
+  for (const [id, f] of Object.entries(edits.boosts)) {
+    const i = ctx.indexOfId.get(Number(id));
+    if (i !== undefined) multipliers.set(i, f);
+  }
+  const anchors = Int32Array.from(brief.anchors.map((id) => ctx.indexOfId.get(id) ?? -1).filter((i) => i >= 0));
+  const scores = hybrid.scorePool({ pool: pool.items, anchors, weights: brief.weights, editionDate, multipliers });
+  const posOf = new Map<number, number>();
+  scores.pool.forEach((i, p) => posOf.set(i, p));
+  const relevance = new Float64Array(ctx.n).fill(NaN);
+  for (let p = 0; p < scores.n; p++) relevance[scores.pool[p]!] = scores.blended[p]!;
+
+  let dense: Int32Array;
+  let violations: RuleViolation[];
+  let stored: SlotRow[] | null = null;
+  const pinnedDense = new Set(state.pins.values());
+  if (!refill) {
+    // The shelf as stored, with the scores it was filled with.
+    stored = new ShelfRepo(db).slots(shelf.id);
+    dense = new Int32Array(shelf.size).fill(-1);
+    for (const s of stored) if (s.slot < shelf.size && s.itemId !== null) dense[s.slot] = ctx.indexOfId.get(s.itemId) ?? -1;
+    violations = shelf.violations;
+  } else if (edits.locked) {
+    dense = frozenDense(world, shelf, edits);
+    violations = [];
+  } else {
+    const order = scores.order();
+    const candidates = Array.from(order, (p) => ({ index: scores.pool[p]!, relevance: scores.score[p]! }));
+    const r = fillShelf({ ctx, brief, candidates, state, editionDate });
+    dense = r.slots;
+    violations = r.violations;
+  }
+  const readings = audienceReadings(world, brief, editionDate);
+  const inputs: MeterInputs = { editionDate, relevance, audienceCategories: readings.audienceCategories, ownedShare: readings.ownedShare };
+  const meter = meterShelf(ctx, dense, inputs);
+  const slots: SlotRow[] = stored ?? Array.from(dense, (i, slot) => {
+    if (i < 0) return { slot, itemId: null, pinned: false, score: null, percentile: null, contributions: {} };
+    const p = posOf.get(i);
+    const x = p === undefined ? undefined : scores.explain(p);
+    return {
+      slot,
+      itemId: ctx.itemIds[i]!,
+      pinned: pinnedDense.has(i) && state.pins.get(slot) === i,
+      score: x ? x.score : null,
+      percentile: x ? x.percentile : null,
+      contributions: x ? { ...x.contributions } : {},
+    };
+  });
+  const ranked = Array.from(scores.order(), (p) => ({ index: scores.pool[p]!, percentile: scores.percentile[p]! }));
+  return { slots, dense, inputs, ranked, meter, violations, poolSize: pool.items.length, excluded: { ...pool.excluded } };
+}

@@ -1,0 +1,103 @@
+/**
+ * What the api returns for a shelf and an edition: slots with the item's title, category, supplier and
+ * sponsored flag, percentile score and component contributions, plus the meter and the violations. The
+ * renderer's shelf editor is built from exactly this. Slots here are 1-based, as editors count them.
+ */
+import type { EditionMeter, RuleViolation, ShelfMeter } from '../../core/curation/types.ts';
+import type { Brief } from '../../core/curation/types.ts';
+import type { Item } from '../../core/types.ts';
+import type { Edition } from '../../store/editions.ts';
+import type { ActionEntry } from '../../store/editorial-actions.ts';
+import type { Shelf, SlotRow } from '../../store/shelves.ts';
+import type { FilledShelf } from './shelf-fill.ts';
+
+export interface SlotView {
+  /** 1-based position on the shelf. */
+  slot: number;
+  item: string | null;
+  title: string | null;
+  category: string | null;
+  supplier: string | null;
+  /** A promoted (paid) item, shown and exported as "Sponsored". */
+  promoted: boolean;
+  pinned: boolean;
+  score: number | null;
+  percentile: number | null;
+  contributions: Record<string, number>;
+}
+
+export interface ActionView {
+  seq: number;
+  kind: string;
+  reason: string | null;
+  at: number;
+  undone: boolean;
+}
+
+export interface ShelfView {
+  edition: string;
+  label: string;
+  position: number;
+  size: number;
+  locked: boolean;
+  brief: Brief;
+  slots: SlotView[];
+  meter: ShelfMeter;
+  violations: RuleViolation[];
+  poolSize: number;
+  excluded: Record<string, number>;
+  canUndo: boolean;
+  canRedo: boolean;
+  actions: ActionView[];
+}
+
+export interface EditionView {
+  id: number;
+  label: string;
+  date: string;
+  status: 'draft' | 'published';
+  publishedAt: number | null;
+  shelves: ShelfView[];
+  meter: EditionMeter;
+}
+
+export function slotView(s: SlotRow, item: Item | undefined): SlotView {
+  return {
+    slot: s.slot + 1,
+    item: item?.externalId ?? null,
+    title: item?.title ?? null,
+    category: item?.category ?? null,
+    supplier: item?.supplier ?? null,
+    promoted: item?.promoted ?? false,
+    pinned: s.pinned,
+    score: s.score,
+    percentile: s.percentile,
+    contributions: s.contributions,
+  };
+}
+
+export function shelfView(
+  edition: Edition,
+  shelf: Shelf,
+  filled: FilledShelf,
+  itemById: (id: number) => Item | undefined,
+  entries: readonly ActionEntry[],
+): ShelfView {
+  const cursor = entries.filter((e) => !e.undone).length;
+  return {
+    edition: edition.label,
+    label: shelf.label,
+    position: shelf.position + 1,
+    size: shelf.size,
+    locked: shelf.locked,
+    brief: shelf.brief,
+    slots: filled.slots.map((s) => slotView(s, s.itemId === null ? undefined : itemById(s.itemId))),
+    meter: filled.meter,
+    violations: filled.violations,
+    poolSize: filled.poolSize,
+    excluded: filled.excluded,
+    canUndo: cursor > 0,
+    canRedo: cursor < entries.length,
+    actions: entries.map((e) => ({ seq: e.seq, kind: e.kind, reason: e.reason, at: e.at, undone: e.undone })),
+  };
+}

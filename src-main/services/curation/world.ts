@@ -1,0 +1,111 @@
+/**
+ * Everything a shelf's fill, meter and backtest read about the workspace, loaded once per workspace state:
+ * the catalogue, the signals in columns, the curation context (typed arrays), popularity and the hybrid
+ * scorer. Cached per connection and rebuilt when the catalogue or the signals change.
+ */
+import { buildCurationContext, type CurationContext } from '../../core/curation/context.ts';
+import { HybridScorer, type HybridModels } from '../../core/scoring/index.ts';
+import type { Dataset } from '../../core/types.ts';
+import { loadDataset } from '../../store/dataset.ts';
+import type { Db } from '../../store/workspace.ts';
+
+export interface CurationWorld {
+  ds: Dataset;
+  ctx: CurationContext;
+  hybrid: HybridScorer;
+  /** Distinct customers per dense item. */
+  customersPerItem: Int32Array;
+  /** Taste group of each dense customer (k-means over iALS customer factors), when discovered. */
+  groups: Int32Array | undefined;
+  /** Signals by customer, CSR-like: the signals of customer u are bySignal[ptr[u] .. ptr[u + 1]). */
+  byCustomer: { ptr: Int32Array; signal: Int32Array };
+  /** Readings that depend only on the data and an argument (e.g. an audience's mix), keyed by it. */
+  memo: Map<string, unknown>;
+}
+
+/** Counting sort of signal indices by customer: one pass to count, one to place. */
+function signalsByCustomer(ds: Dataset): { ptr: Int32Array; signal: Int32Array } {
+  const nC = ds.customerIds.length;
+  const s = ds.signals;
+  const ptr = new Int32Array(nC + 1);
+  for (let k = 0; k < s.length; k++) ptr[s.customer[k]! + 1]!++;
+  for (let u = 0; u < nC; u++) ptr[u + 1]! += ptr[u]!;
+  const next = ptr.slice(0, nC);
+  const signal = new Int32Array(s.length);
+  for (let k = 0; k < s.length; k++) signal[next[s.customer[k]!]!++] = k;
+  return { ptr, signal };
+}
+
+/**
+ * Trained models for the hybrid, when the workspace has them. Until a models store is wired in, every
+ * model is absent and the hybrid blends what needs no training (popularity, freshness): the components
+ * it cannot use are dropped and the remaining weights renormalised (scoring/components.ts).
+ */
+export type ModelSource = (db: Db, ds: Dataset) => { models: HybridModels; vectors?: { data: Float32Array; dim: number }; groups?: Int32Array };
+
+export const noModels: ModelSource = () => ({ models: { content: null, collaborative: null, affinity: null } });
+
+/**
+ * Item vectors for similarity when no model supplies them: one-hot category, supplier and tags, so
+ * intra-list distance and MMR see two items of the same category and supplier as alike (the
+ * "one-hot categorical attributes" half of DESIGN.md's content method).
+ */
+export function attributeVectors(ds: Dataset): { data: Float32Array; dim: number } {
+  const code = new Map<string, number>();
+  const keyed = ds.items.map((it) => [`c:${it.category}`, `s:${it.supplier}`, ...it.tags.map((t) => `t:${t}`)]);
+  for (const keys of keyed) for (const k of keys) if (!code.has(k)) code.set(k, code.size);
+  const dim = Math.max(1, code.size);
+  const data = new Float32Array(ds.items.length * dim);
+  keyed.forEach((keys, i) => {
+    for (const k of keys) data[i * dim + code.get(k)!] = 1;
+  });
+  return { data, dim };
+}
+
+/** Distinct customers per item: walk each customer's signals, counting an item once per customer. */
+function customersPerItemOf(ds: Dataset, byCustomer: { ptr: Int32Array; signal: Int32Array }): Int32Array {
+  const out = new Int32Array(ds.items.length);
+  const last = new Int32Array(ds.items.length).fill(-1);
+  const { ptr, signal } = byCustomer;
+  for (let u = 0; u + 1 < ptr.length; u++) {
+    for (let p = ptr[u]!, end = ptr[u + 1]!; p < end; p++) {
+      const i = ds.signals.item[signal[p]!]!;
+      if (last[i] === u) continue;
+      last[i] = u;
+      out[i]!++;
+    }
+  }
+  return out;
+}
+
+function stamp(db: Db): string {
+  const r = db
+    .prepare(
+      `SELECT (SELECT count(*) FROM item) AS i, (SELECT coalesce(max(id), 0) FROM item) AS mi,
+              (SELECT count(*) FROM signal) AS s, (SELECT coalesce(max(id), 0) FROM signal) AS ms,
+              (SELECT count(*) FROM customer) AS c, (SELECT total(promoted) + total(available) * 2 FROM item) AS f`,
+    )
+    .get() as Record<string, number>;
+  return JSON.stringify(r);
+}
+
+const cache = new WeakMap<Db, { stamp: string; world: CurationWorld }>();
+
+export function loadWorld(db: Db, source: ModelSource = noModels): CurationWorld {
+  const st = stamp(db);
+  const hit = cache.get(db);
+  if (hit && hit.stamp === st) return hit.world;
+  const ds = loadDataset(db);
+  const byCustomer = signalsByCustomer(ds);
+  const customersPerItem = customersPerItemOf(ds, byCustomer);
+  const nC = ds.customerIds.length;
+  const popularity = Float64Array.from(customersPerItem, (c) => (nC === 0 ? 0 : c / nC));
+  const m = source(db, ds);
+  const vectors = m.vectors ?? attributeVectors(ds);
+  const ctx = buildCurationContext(ds.items, { vectors: vectors.data, dim: vectors.dim, popularity, customerCount: nC });
+  const addedAt = Float64Array.from(ds.items, (it) => it.addedAt ?? NaN);
+  const hybrid = new HybridScorer(m.models, { customersPerItem, trend: null, addedAt });
+  const world: CurationWorld = { ds, ctx, hybrid, customersPerItem, groups: m.groups, byCustomer, memo: new Map() };
+  cache.set(db, { stamp: st, world });
+  return world;
+}

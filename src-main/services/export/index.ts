@@ -1,0 +1,16 @@
+import type { EditionSnapshot } from '../../core/editing/snapshot.ts';
+import { editionCsv } from './csv.ts';
+import { editionHtml } from './html.ts';
+import { editionJson } from './json.ts';
+
+export type ExportFormat = 'csv' | 'json' | 'html';
+export const EXPORT_FORMATS: readonly ExportFormat[] = ['csv', 'json', 'html'];
+
+/** The edition in one of the export formats, as text. */
+export function exportEdition(e: EditionSnapshot, format: ExportFormat): string {
+  return format === 'csv' ? editionCsv(e) : format === 'json' ? editionJson(e) : editionHtml(e);
+}
+
+export { csvCell } from './csv.ts';
+export { escapeHtml } from './html.ts';
+export { DISCLOSURE_NOTE, SPONSORED } from './labels.ts';

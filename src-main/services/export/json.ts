@@ -1,0 +1,26 @@
+/** JSON export of an edition: the snapshot's shelves and slots, each slot saying in words whether it is sponsored. */
+import type { EditionSnapshot } from '../../core/editing/snapshot.ts';
+import { DISCLOSURE_NOTE, SPONSORED } from './labels.ts';
+
+export function editionJson(e: EditionSnapshot): string {
+  const doc = {
+    edition: e.edition.label,
+    date: e.edition.date,
+    publishedAt: e.publishedAt > 0 ? new Date(e.publishedAt).toISOString() : null,
+    note: DISCLOSURE_NOTE,
+    shelves: e.shelves.map((shelf) => ({
+      label: shelf.label,
+      slots: shelf.slots.map((s) => ({
+        slot: s.slot + 1,
+        item: s.externalId,
+        title: s.title,
+        category: s.category,
+        supplier: s.supplier,
+        sponsored: s.promoted ? SPONSORED : null,
+        pinned: s.pinned,
+        percentile: s.percentile,
+      })),
+    })),
+  };
+  return JSON.stringify(doc, null, 2) + '\n';
+}

@@ -1,0 +1,6 @@
+/** The words every export uses for promoted items (in words, never colour alone: DESIGN.md). */
+export const SPONSORED = 'Sponsored';
+
+/** One line every list shown outside the tool carries. Disclosure rules are a matter of local law. */
+export const DISCLOSURE_NOTE =
+  'Items marked "Sponsored" are paid placements; rules on labelling sponsored placement differ by country, so follow local law and your own counsel.';

@@ -1,0 +1,494 @@
+import fs from 'node:fs';
+import type { ShelfView } from '../../../api/contracts/curation.ts';
+import type { RequestOf } from '../../../api/contract.ts';
+import { call } from '../call.ts';
+import { EXIT, type CliCommand, type CommandEnv, type OptionSpec } from '../command.ts';
+import { formatNumber, table } from '../format.ts';
+import { UsageError } from '../main.ts';
+
+/** Editions, shelves and editorial actions on the command line. Thin: flags → one api call → print. */
+
+type Brief = NonNullable<RequestOf<'shelf.add'>['brief']>;
+
+function str(env: CommandEnv, name: string): string | undefined {
+  const v = env.values[name];
+  return typeof v === 'string' ? v : undefined;
+}
+
+function list(env: CommandEnv, name: string): string[] {
+  const v = env.values[name];
+  return Array.isArray(v) ? (v as string[]) : typeof v === 'string' ? [v] : [];
+}
+
+function num(env: CommandEnv, name: string, check: (x: number) => boolean, what: string): number | undefined {
+  const v = str(env, name);
+  if (v === undefined) return undefined;
+  const x = Number(v);
+  if (v.trim() === '' || !Number.isFinite(x) || !check(x)) throw new UsageError(`--${name} must be ${what}, got '${v}'`);
+  return x;
+}
+
+function positionals(env: CommandEnv, names: string[]): string[] {
+  if (env.positionals.length < names.length) {
+    throw new UsageError(`missing ${names.slice(env.positionals.length).join(' and ')}`);
+  }
+  if (env.positionals.length > names.length) throw new UsageError(`unexpected argument '${env.positionals[names.length]}'`);
+  return env.positionals;
+}
+
+const pct = (x: number | null) => (x === null ? '–' : `${Math.round(x * 100)}%`);
+const val = (x: number | null) => (x === null ? '–' : formatNumber(x));
+
+/** The shelf and its meter, compactly: what an editor needs after each action. */
+export function renderShelf(v: ShelfView): string {
+  const rows = v.slots.map((s) => [
+    s.slot,
+    s.item ?? '–',
+    s.title ?? '(empty)',
+    s.category ?? '',
+    s.supplier ?? '',
+    s.promoted ? 'Sponsored' : '',
+    s.pinned ? 'pin' : '',
+    s.percentile === null ? '–' : `${Math.round(s.percentile * 100)}`,
+  ]);
+  const m = v.meter;
+  const head = `${v.edition} / ${v.label}  (${v.size} slots${v.locked ? ', locked' : ''}, pool ${v.poolSize})`;
+  const meter = [
+    `distance ${val(m.intraListDistance)}`,
+    `novelty ${val(m.novelty)}`,
+    `median age ${val(m.age.medianDays)} d`,
+    `sponsored ${pct(m.promotedShareCount)} of slots, ${pct(m.promotedShareExposure)} of exposure`,
+    `calibration gap ${val(m.calibrationGap)}`,
+    `relevance ${val(m.predictedRelevance)}`,
+    `saturated slots ${m.saturatedSlots.length}`,
+  ].join(' · ');
+  const resting = v.excluded['resting'] ? `\nresting (rest period): ${v.excluded['resting']} items held back` : '';
+  const viol = v.violations.length ? `\nrules not met:\n${v.violations.map((x) => `  ${x.rule}: ${x.reason}`).join('\n')}` : '';
+  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\nmeter: ${meter}${resting}${viol}`;
+}
+
+function printShelf(env: CommandEnv, v: ShelfView): number {
+  env.io.out(env.json ? JSON.stringify(v, null, 2) : renderShelf(v));
+  return EXIT.ok;
+}
+
+const QUOTA_HELP = '--quota FACET:MAX[:VALUE]  at most MAX items per category|supplier|tag (repeatable)';
+
+const BRIEF_OPTIONS: OptionSpec = {
+  size: { type: 'string' },
+  brief: { type: 'string' },
+  quota: { type: 'string', multiple: true },
+  'promoted-max': { type: 'string' },
+  'promoted-min': { type: 'string' },
+  rest: { type: 'string' },
+  category: { type: 'string', multiple: true },
+  audience: { type: 'string' },
+};
+
+/** A brief from --brief JSON (or a base brief), with the convenience flags on top. */
+function briefFrom(env: CommandEnv, base: Brief | undefined): Brief {
+  let b: Record<string, unknown>;
+  const raw = str(env, 'brief');
+  try {
+    b = raw !== undefined ? (JSON.parse(raw) as Record<string, unknown>) : structuredClone((base ?? {}) as Record<string, unknown>);
+  } catch (e) {
+    throw new UsageError(`--brief is not valid JSON: ${(e as Error).message}`);
+  }
+  const size = num(env, 'size', (x) => Number.isInteger(x) && x >= 1, 'a whole number >= 1');
+  if (size !== undefined) b['size'] = size;
+  const rules = { ...((b['rules'] as Record<string, unknown> | undefined) ?? {}) };
+  const quotas = list(env, 'quota').map((q) => {
+    const [facet, max, ...value] = q.split(':');
+    if (!['category', 'supplier', 'tag'].includes(facet ?? '') || !/^\d+$/.test(max ?? '')) {
+      throw new UsageError(`--quota expects FACET:MAX[:VALUE] with FACET category, supplier or tag, got '${q}'`);
+    }
+    return value.length ? { facet, max: Number(max), value: value.join(':') } : { facet, max: Number(max) };
+  });
+  if (quotas.length) rules['quotas'] = [...((rules['quotas'] as unknown[] | undefined) ?? []), ...quotas];
+  const share = (x: number) => x >= 0 && x <= 1;
+  const pmax = num(env, 'promoted-max', share, 'a share between 0 and 1');
+  const pmin = num(env, 'promoted-min', share, 'a share between 0 and 1');
+  if (pmax !== undefined || pmin !== undefined) {
+    const p = { ...((rules['promoted'] as Record<string, unknown> | undefined) ?? {}) };
+    if (pmax !== undefined) p['maxCount'] = pmax;
+    if (pmin !== undefined) p['minCount'] = pmin;
+    rules['promoted'] = p;
+  }
+  const rest = num(env, 'rest', (x) => Number.isInteger(x) && x >= 0, 'a whole number >= 0');
+  if (rest !== undefined) rules['restPeriod'] = rest;
+  b['rules'] = rules;
+  const cats = list(env, 'category');
+  if (cats.length) b['include'] = { ...((b['include'] as object | undefined) ?? {}), categories: cats };
+  const aud = str(env, 'audience');
+  if (aud !== undefined) {
+    const m = /^(everyone)$|^group:(\d+)$|^bought:([^:]+)(?::(\d+))?$/.exec(aud);
+    if (!m) throw new UsageError(`--audience expects everyone, group:N or bought:CATEGORY[:DAYS], got '${aud}'`);
+    b['audience'] = m[1] ? { kind: 'everyone' } : m[2] ? { kind: 'group', group: Number(m[2]) } : { kind: 'rule', category: m[3], signalKinds: ['purchase'], withinDays: m[4] ? Number(m[4]) : 90 };
+  }
+  if (b['size'] === undefined) throw new UsageError('give the shelf a --size');
+  return b as Brief;
+}
+
+const reasonOpt: OptionSpec = { reason: { type: 'string' } };
+
+function actionCommand(
+  name: string,
+  summary: string,
+  usage: string,
+  options: OptionSpec,
+  build: (env: CommandEnv, rest: string[]) => RequestOf<'shelf.act'>['action'],
+  extra: string[] = [],
+  example = '',
+): CliCommand {
+  return {
+    name: `shelf ${name}`,
+    summary,
+    usage: [usage],
+    options: { ...options, ...reasonOpt },
+    help: `${['  --reason TEXT  why (kept in the shelf\'s action log)', ...extra].join('\n')}\n\nexample:\n  shelfwright shelf ${name} ${example}`,
+    async run(env) {
+      const [edition, shelf, ...rest] = env.positionals;
+      if (!edition || !shelf) throw new UsageError('name the EDITION and the SHELF');
+      const action = build(env, rest);
+      const { table: t } = env.api();
+      const reason = str(env, 'reason');
+      return printShelf(env, await call(t, 'shelf.act', { edition, shelf, action, ...(reason ? { reason } : {}) }));
+    },
+  };
+}
+
+function oneItem(rest: string[]): string {
+  if (rest.length !== 1) throw new UsageError(rest.length === 0 ? 'name the ITEM by its id' : `unexpected argument '${rest[1]}'`);
+  return rest[0]!;
+}
+
+function slotFlag(env: CommandEnv, name: string): number {
+  const s = num(env, name, (x) => Number.isInteger(x) && x >= 1, 'a slot number from 1');
+  if (s === undefined) throw new UsageError(`give --${name} N`);
+  return s;
+}
+
+const scopeOf = (env: CommandEnv): 'shelf' | 'edition' | 'always' => {
+  const s = str(env, 'scope') ?? 'shelf';
+  if (s !== 'shelf' && s !== 'edition' && s !== 'always') throw new UsageError(`--scope must be shelf, edition or always, got '${s}'`);
+  return s;
+};
+
+function shelfCommand(name: 'fill' | 'meter' | 'undo' | 'redo', summary: string, method: 'shelf.fill' | 'shelf.show' | 'shelf.undo' | 'shelf.redo'): CliCommand {
+  return {
+    name: `shelf ${name}`,
+    summary,
+    usage: ['EDITION SHELF'],
+    options: {},
+    help: `example:\n  shelfwright shelf ${name} "week 10" Front`,
+    async run(env) {
+      const [edition, shelf] = positionals(env, ['EDITION', 'SHELF']);
+      const { table: t } = env.api();
+      return printShelf(env, await call(t, method, { edition: edition!, shelf: shelf! }));
+    },
+  };
+}
+
+export const curationCommands: CliCommand[] = [
+  {
+    name: 'edition new',
+    summary: 'start an edition on a date (optionally from an earlier one: shelves and briefs, not slots)',
+    usage: ['LABEL --date YYYY-MM-DD [--from LABEL]'],
+    options: { date: { type: 'string' }, from: { type: 'string' } },
+    help: 'example:\n  shelfwright edition new "week 11" --date 2026-03-09 --from "week 10"',
+    async run(env) {
+      const [label] = positionals(env, ['LABEL']);
+      const date = str(env, 'date');
+      if (!date) throw new UsageError('give the edition a --date YYYY-MM-DD');
+      const from = str(env, 'from');
+      const { table: t } = env.api();
+      const v = await call(t, 'edition.new', { label: label!, date, ...(from ? { from } : {}) });
+      if (env.json) env.io.out(JSON.stringify(v, null, 2));
+      else env.io.out([`edition '${v.label}' (${v.date}, ${v.status}): ${v.shelves.length} shelves`, ...v.shelves.map(renderShelf)].join('\n\n'));
+      return EXIT.ok;
+    },
+  },
+  {
+    name: 'edition list',
+    summary: 'every edition with its date and status',
+    usage: [''],
+    options: {},
+    help: 'example:\n  shelfwright edition list --json',
+    async run(env) {
+      positionals(env, []);
+      const { table: t } = env.api();
+      const r = await call(t, 'edition.list', {});
+      if (env.json) env.io.out(JSON.stringify(r, null, 2));
+      else env.io.out(table(['edition', 'date', 'status'], r.editions.map((e) => [e.label, e.date, e.status])));
+      return EXIT.ok;
+    },
+  },
+  {
+    name: 'edition show',
+    summary: 'an edition: every shelf with its meter, and the edition meter',
+    usage: ['LABEL'],
+    options: {},
+    help: 'example:\n  shelfwright edition show "week 10"',
+    async run(env) {
+      const [label] = positionals(env, ['LABEL']);
+      const { table: t } = env.api();
+      const v = await call(t, 'edition.show', { edition: label! });
+      if (env.json) env.io.out(JSON.stringify(v, null, 2));
+      else {
+        const m = v.meter;
+        env.io.out(
+          [
+            `edition '${v.label}' (${v.date}, ${v.status})`,
+            ...v.shelves.map(renderShelf),
+            `edition meter: ${m.distinctItems} distinct items · supplier exposure Gini ${val(m.supplierExposureGini)} · ${m.overlaps.length} overlapping shelf pairs`,
+          ].join('\n\n'),
+        );
+      }
+      return EXIT.ok;
+    },
+  },
+  {
+    name: 'edition publish',
+    summary: 'freeze an edition into read-only history',
+    usage: ['LABEL'],
+    options: {},
+    help: 'example:\n  shelfwright edition publish "week 10"',
+    async run(env) {
+      const [label] = positionals(env, ['LABEL']);
+      const { table: t } = env.api();
+      const r = await call(t, 'edition.publish', { edition: label! });
+      env.io.out(env.json ? JSON.stringify(r, null, 2) : `published '${r.edition}': ${r.shelves} shelves, ${r.items} items`);
+      return EXIT.ok;
+    },
+  },
+  {
+    name: 'edition compare',
+    summary: 'per shelf, what edition B added, removed and moved relative to edition A',
+    usage: ['A B'],
+    options: {},
+    help: 'example:\n  shelfwright edition compare "week 10" "week 11"',
+    async run(env) {
+      const [a, b] = positionals(env, ['A', 'B']);
+      const { table: t } = env.api();
+      const r = await call(t, 'edition.compare', { a: a!, b: b! });
+      if (env.json) env.io.out(JSON.stringify(r, null, 2));
+      else {
+        env.io.out(
+          r.shelves
+            .map((s) =>
+              [
+                `${s.label}${s.presence === 'both' ? '' : s.presence === 'onlyA' ? ` (only in ${a})` : ` (only in ${b})`}`,
+                `  added:   ${s.added.join(', ') || '–'}`,
+                `  removed: ${s.removed.join(', ') || '–'}`,
+                `  moved:   ${s.moved.map((m) => `${m.item} ${m.from}→${m.to}`).join(', ') || '–'}`,
+              ].join('\n'),
+            )
+            .join('\n'),
+        );
+      }
+      return EXIT.ok;
+    },
+  },
+  {
+    name: 'edition export',
+    summary: 'an edition as CSV, JSON or a standalone HTML preview',
+    usage: ['LABEL --format csv|json|html [--out FILE]'],
+    options: { format: { type: 'string' }, out: { type: 'string' } },
+    help: '  without --out the export is written to stdout\n\nexample:\n  shelfwright edition export "week 10" --format html --out week10.html',
+    async run(env) {
+      const [label] = positionals(env, ['LABEL']);
+      const format = str(env, 'format');
+      if (format !== 'csv' && format !== 'json' && format !== 'html') throw new UsageError(`--format must be csv, json or html, got '${format ?? ''}'`);
+      const { table: t } = env.api();
+      const r = await call(t, 'edition.export', { edition: label!, format });
+      const out = str(env, 'out');
+      if (out) {
+        fs.writeFileSync(out, r.content);
+        env.io.out(env.json ? JSON.stringify({ format, file: out, bytes: Buffer.byteLength(r.content) }) : `wrote ${out}`);
+      } else env.io.out(env.json ? JSON.stringify(r, null, 2) : r.content);
+      return EXIT.ok;
+    },
+  },
+  {
+    name: 'shelf add',
+    summary: 'add a shelf to a draft edition and fill it',
+    usage: ['EDITION LABEL --size N [--quota FACET:MAX[:VALUE]]... [--promoted-max SHARE] [--rest N] [--brief JSON]'],
+    options: BRIEF_OPTIONS,
+    help: [
+      '  --size N                 slots on the shelf',
+      `  ${QUOTA_HELP}`,
+      '  --promoted-max SHARE     at most this share of slots sponsored (0..1); --promoted-min likewise',
+      '  --rest N                 items on the last N published editions are not proposed unless pinned',
+      '  --category NAME          only this category (repeatable)',
+      '  --audience WHO           everyone, group:N or bought:CATEGORY[:DAYS]',
+      '  --brief JSON             a whole brief; the flags above apply on top',
+      '',
+      'example:',
+      '  shelfwright shelf add "week 10" Front --size 8 --quota category:3 --promoted-max 0.25 --rest 1',
+    ].join('\n'),
+    async run(env) {
+      const [edition, label] = positionals(env, ['EDITION', 'LABEL']);
+      const brief = briefFrom(env, undefined);
+      const { table: t } = env.api();
+      return printShelf(env, await call(t, 'shelf.add', { edition: edition!, label: label!, brief }));
+    },
+  },
+  {
+    name: 'shelf brief',
+    summary: "change a shelf's brief (quotas, promoted bounds, rest period, size) and fill it again",
+    usage: ['EDITION SHELF [--size N] [--quota FACET:MAX[:VALUE]]... [--promoted-max SHARE] [--rest N] [--brief JSON]'],
+    options: BRIEF_OPTIONS,
+    help: `  ${QUOTA_HELP}\n  quotas add to the ones the brief has\n\nexample:\n  shelfwright shelf brief "week 10" Front --quota supplier:2 --promoted-max 0.2`,
+    async run(env) {
+      const [edition, shelf] = positionals(env, ['EDITION', 'SHELF']);
+      const { table: t } = env.api();
+      const current = await call(t, 'shelf.show', { edition: edition!, shelf: shelf! });
+      const brief = briefFrom(env, current.brief as Brief);
+      return printShelf(env, await call(t, 'shelf.brief', { edition: edition!, shelf: shelf!, brief }));
+    },
+  },
+  shelfCommand('fill', 'fill a shelf again (a locked shelf stays as it is)', 'shelf.fill'),
+  shelfCommand('meter', 'a shelf as it stands with its meter and the rules it could not meet', 'shelf.show'),
+  actionCommand('pin', 'fix an item at a slot', 'EDITION SHELF ITEM --slot N', { slot: { type: 'string' } }, (env, rest) => ({
+    kind: 'pin',
+    item: oneItem(rest),
+    slot: slotFlag(env, 'slot'),
+  }), ['  --slot N       the slot, from 1'], '"week 10" Front SKU-014 --slot 1 --reason "launch week"'),
+  actionCommand('unpin', 'release a pinned slot', 'EDITION SHELF --slot N', { slot: { type: 'string' } }, (env, rest) => {
+    if (rest.length) throw new UsageError(`unexpected argument '${rest[0]}'`);
+    return { kind: 'unpin', slot: slotFlag(env, 'slot') };
+  }, [], '"week 10" Front --slot 1'),
+  actionCommand(
+    'ban',
+    'exclude an item, or every item of a category, supplier or tag',
+    'EDITION SHELF (ITEM | --category X | --supplier X | --tag X) [--scope shelf|edition|always]',
+    { scope: { type: 'string' }, category: { type: 'string' }, supplier: { type: 'string' }, tag: { type: 'string' } },
+    (env, rest) => {
+      const scope = scopeOf(env);
+      const rules = (['category', 'supplier', 'tag'] as const).filter((f) => str(env, f) !== undefined);
+      if (rules.length + rest.length !== 1) throw new UsageError('ban one ITEM or one of --category, --supplier, --tag');
+      if (rules.length) return { kind: 'banRule', facet: rules[0]!, value: str(env, rules[0]!)!, scope };
+      return { kind: 'ban', item: rest[0]!, scope };
+    },
+    ['  --scope S      shelf (default), edition, or always (every future edition too)'],
+    '"week 10" Front SKU-007 --scope edition',
+  ),
+  actionCommand('boost', "raise an item's score by a factor", 'EDITION SHELF ITEM --factor F', { factor: { type: 'string' } }, (env, rest) => ({
+    kind: 'boost',
+    item: oneItem(rest),
+    factor: num(env, 'factor', (x) => x > 0, 'a number above 0') ?? 2,
+  }), ['  --factor F     multiply the score by F (default 2)'], '"week 10" Front SKU-021 --factor 1.5'),
+  actionCommand('sink', "lower an item's score by a factor", 'EDITION SHELF ITEM --factor F', { factor: { type: 'string' } }, (env, rest) => ({
+    kind: 'sink',
+    item: oneItem(rest),
+    factor: num(env, 'factor', (x) => x > 0, 'a number above 0') ?? 2,
+  }), ['  --factor F     divide the score by F (default 2)'], '"week 10" Front SKU-021 --factor 3'),
+  actionCommand('lock', 'freeze a shelf: later actions are recorded but it is not filled again', 'EDITION SHELF', {}, (_env, rest) => {
+    if (rest.length) throw new UsageError(`unexpected argument '${rest[0]}'`);
+    return { kind: 'lock' };
+  }, [], '"week 10" Front'),
+  actionCommand('unlock', 'unfreeze a shelf and fill it again', 'EDITION SHELF', {}, (_env, rest) => {
+    if (rest.length) throw new UsageError(`unexpected argument '${rest[0]}'`);
+    return { kind: 'unlock' };
+  }, [], '"week 10" Front'),
+  actionCommand('move', 'move the item at one slot to another by hand (it is pinned there)', 'EDITION SHELF --from A --to B', { from: { type: 'string' }, to: { type: 'string' } }, (env, rest) => {
+    if (rest.length) throw new UsageError(`unexpected argument '${rest[0]}'`);
+    return { kind: 'move', from: slotFlag(env, 'from'), to: slotFlag(env, 'to') };
+  }, [], '"week 10" Front --from 5 --to 1'),
+  shelfCommand('undo', "undo the shelf's last action", 'shelf.undo'),
+  shelfCommand('redo', "redo the shelf's last undone action", 'shelf.redo'),
+  {
+    name: 'shelf whatif',
+    summary: 'for one slot, the best candidates and the change each would make to the meter',
+    usage: ['EDITION SHELF --slot N [--n COUNT]'],
+    options: { slot: { type: 'string' }, n: { type: 'string' } },
+    help: '  --slot N   the slot, from 1\n  --n COUNT  how many candidates (default 10)\n\nexample:\n  shelfwright shelf whatif "week 10" Front --slot 3 --n 5',
+    async run(env) {
+      const [edition, shelf] = positionals(env, ['EDITION', 'SHELF']);
+      const slot = slotFlag(env, 'slot');
+      const n = num(env, 'n', (x) => Number.isInteger(x) && x >= 1 && x <= 200, 'a whole number from 1 to 200') ?? 10;
+      const { table: t } = env.api();
+      const r = await call(t, 'shelf.whatif', { edition: edition!, shelf: shelf!, slot, n });
+      if (env.json) env.io.out(JSON.stringify(r, null, 2));
+      else {
+        const d = (x: number | null | undefined) => (x === null || x === undefined ? '–' : `${x >= 0 ? '+' : ''}${formatNumber(x)}`);
+        env.io.out(
+          table(
+            ['item', 'title', 'sponsored', 'pct', 'Δ distance', 'Δ novelty', 'Δ sponsored', 'Δ calibration'],
+            r.candidates.map((c) => [
+              c.item,
+              c.title,
+              c.promoted ? 'Sponsored' : '',
+              Math.round(c.percentile * 100),
+              d(c.delta['intraListDistance']),
+              d(c.delta['novelty']),
+              d(c.delta['promotedShareCount']),
+              d(c.delta['calibrationGap']),
+            ]),
+          ),
+        );
+      }
+      return EXIT.ok;
+    },
+  },
+  {
+    name: 'shelf backtest',
+    summary: "share of the shelf's audience who engaged with its items in the latest window, beside a popularity list",
+    usage: ['EDITION SHELF [--window DAYS]'],
+    options: { window: { type: 'string' } },
+    help: '  --window DAYS  the held-out window (default 28)\n\nexample:\n  shelfwright shelf backtest "week 10" Front --window 28',
+    async run(env) {
+      const [edition, shelf] = positionals(env, ['EDITION', 'SHELF']);
+      const windowDays = num(env, 'window', (x) => Number.isInteger(x) && x >= 1, 'a whole number of days') ?? 28;
+      const { table: t } = env.api();
+      const r = await call(t, 'shelf.backtest', { edition: edition!, shelf: shelf!, windowDays });
+      if (env.json) env.io.out(JSON.stringify(r, null, 2));
+      else
+        env.io.out(
+          [
+            `window ${r.windowStart} .. ${r.windowEnd} (${r.windowDays} days), ${r.audienceActive} active audience members`,
+            `  this shelf:       ${pct(r.shelf.share)} engaged (${r.shelf.engaged})`,
+            `  popularity list:  ${pct(r.popularity.share)} engaged (${r.popularity.engaged})`,
+            ...r.notes.map((n) => `note: ${n}`),
+          ].join('\n'),
+        );
+      return EXIT.ok;
+    },
+  },
+  {
+    name: 'audience groups',
+    summary: 'the taste groups found in the iALS customer factors, by their top categories and tags',
+    usage: [''],
+    options: {},
+    help: '  use a group in a brief with --audience group:N\n\nexample:\n  shelfwright audience groups',
+    async run(env) {
+      positionals(env, []);
+      const { table: t } = env.api();
+      const r = await call(t, 'audience.groups', {});
+      const lifts = (xs: { value: string; lift: number }[]) => xs.map((x) => `${x.value} ×${formatNumber(x.lift)}`).join(', ') || '–';
+      if (env.json) env.io.out(JSON.stringify(r, null, 2));
+      else env.io.out(table(['group', 'customers', 'top categories (lift)', 'top tags (lift)'], r.groups.map((g) => [g.group, g.customers, lifts(g.categories), lifts(g.tags)])));
+      return EXIT.ok;
+    },
+  },
+  {
+    name: 'forget',
+    summary: "erase one customer's signals and row on request",
+    usage: ['CUSTOMER'],
+    options: {},
+    help: 'example:\n  shelfwright forget C-1042',
+    async run(env) {
+      const [customer] = positionals(env, ['CUSTOMER']);
+      const { table: t } = env.api();
+      const r = await call(t, 'customer.forget', { customer: customer! });
+      if (env.json) env.io.out(JSON.stringify(r, null, 2));
+      else
+        env.io.out(
+          `erased customer ${r.customer}: ${r.signals} signals` +
+            (r.modelsDeleted.length ? `; deleted models holding their data: ${r.modelsDeleted.join(', ')}` : '') +
+            (r.modelsStale.length ? `; stale until retrained: ${r.modelsStale.join(', ')}` : ''),
+        );
+      return EXIT.ok;
+    },
+  },
+];

@@ -1,0 +1,138 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { parse } from 'csv-parse/sync';
+import { describe, expect, it } from 'vitest';
+import { main } from '../../src-main/shell/cli/main.ts';
+import type { CliIo } from '../../src-main/shell/cli/command.ts';
+import { openWorkspace } from '../../src-main/store/workspace.ts';
+import { seedWorkspace, tempFile } from '../curation-services/fixture.ts';
+
+function capture(): CliIo & { stdout: string[]; stderr: string[] } {
+  const stdout: string[] = [];
+  const stderr: string[] = [];
+  return { stdout, stderr, out: (t) => stdout.push(t), err: (t) => stderr.push(t), errIsTty: false };
+}
+
+function workspace(): string {
+  const file = tempFile('cli.sqlite');
+  const db = openWorkspace(file);
+  seedWorkspace(db);
+  db.close();
+  return file;
+}
+
+describe('shelfwright edition and shelf commands', () => {
+  it('walks an edition from shelves to publish, rest period, compare and export', async () => {
+    const w = workspace();
+    const run = async (...argv: string[]) => {
+      const io = capture();
+      const code = await main([...argv, '-w', w], io, {});
+      return { code, out: io.stdout.join('\n'), err: io.stderr.join('\n') };
+    };
+    const json = async (...argv: string[]) => {
+      const r = await run(...argv, '--json');
+      expect(r.err).toBe('');
+      expect(r.code).toBe(0);
+      return JSON.parse(r.out);
+    };
+
+    expect((await run('edition', 'new', 'week 10', '--date', '2026-03-02')).code).toBe(0);
+    for (const [label, size] of [['Front', '6'], ['Gifts', '4'], ['Newsletter', '5']] as const) {
+      const r = await run('shelf', 'add', 'week 10', label, '--size', size, '--rest', '1');
+      expect(r.code).toBe(0);
+      expect(r.out).toMatch(new RegExp(`week 10 / ${label}`));
+      expect(r.out).toMatch(/meter: distance/);
+    }
+
+    const pinned = await json('shelf', 'pin', 'week 10', 'Front', 'SKU-012', '--slot', '1', '--reason', 'launch week');
+    expect(pinned.slots[0]).toMatchObject({ slot: 1, item: 'SKU-012', pinned: true });
+    expect(pinned.actions.at(-1)).toMatchObject({ kind: 'pin', reason: 'launch week' });
+
+    const victim = pinned.slots[1].item as string;
+    const banned = await json('shelf', 'ban', 'week 10', 'Front', victim);
+    expect(banned.slots.map((s: { item: string }) => s.item)).not.toContain(victim);
+
+    const boosted = await json('shelf', 'boost', 'week 10', 'Front', 'SKU-039', '--factor', '50');
+    expect(boosted.slots.map((s: { item: string }) => s.item)).toContain('SKU-039');
+
+    const quota = await json('shelf', 'brief', 'week 10', 'Front', '--quota', 'category:2', '--promoted-max', '0.2');
+    expect(quota.brief.rules.quotas).toEqual([{ facet: 'category', max: 2 }]);
+    const cats = new Map<string, number>();
+    for (const s of quota.slots) cats.set(s.category, (cats.get(s.category) ?? 0) + 1);
+    const promoted = quota.slots.filter((s: { promoted: boolean }) => s.promoted).length;
+    // 6 slots over 4 categories with plenty of candidates: both rules can be met, so they are, with no
+    // violation (a cap of 0.2 × 6 slots allows floor(1.2) = 1 sponsored item).
+    expect(Math.max(...cats.values())).toBeLessThanOrEqual(2);
+    expect(promoted).toBeLessThanOrEqual(1);
+    expect(quota.violations).toEqual([]);
+
+    const meter = await run('shelf', 'meter', 'week 10', 'Front');
+    expect(meter.code).toBe(0);
+    expect(meter.out).toMatch(/sponsored \d+% of slots/);
+
+    const undone = await json('shelf', 'undo', 'week 10', 'Front');
+    expect(undone.canRedo).toBe(true);
+    const redone = await json('shelf', 'redo', 'week 10', 'Front');
+    // The brief change is not an editorial action: undo took back the boost only, redo restores it.
+    expect(undone.actions.at(-1)).toMatchObject({ kind: 'boost', undone: true });
+    expect(redone.slots).toEqual(quota.slots);
+    expect(redone.canRedo).toBe(false);
+
+    const before = await json('edition', 'show', 'week 10');
+    const published = await json('edition', 'publish', 'week 10');
+    expect(published).toMatchObject({ edition: 'week 10', shelves: 3 });
+    const again = await run('shelf', 'pin', 'week 10', 'Front', 'SKU-001', '--slot', '2');
+    expect(again.code).toBe(2);
+    expect(again.err).toMatch(/published and read-only/);
+
+    const next = await json('edition', 'new', 'week 11', '--date', '2026-03-09', '--from', 'week 10');
+    expect(next.shelves.map((s: { label: string }) => s.label)).toEqual(['Front', 'Gifts', 'Newsletter']);
+    const ran = new Set<string>(before.shelves.flatMap((s: { slots: { item: string }[] }) => s.slots.map((x) => x.item)));
+    for (const s of next.shelves) {
+      for (const x of s.slots) expect(ran.has(x.item)).toBe(false);
+      expect(s.excluded.resting).toBeGreaterThan(0);
+    }
+    expect((await run('shelf', 'meter', 'week 11', 'Front')).out).toMatch(/resting \(rest period\): \d+ items held back/);
+
+    const cmp = await json('edition', 'compare', 'week 10', 'week 11');
+    expect(cmp.shelves[0].label).toBe('Front');
+    expect(cmp.shelves[0].removed.sort()).toEqual(before.shelves[0].slots.map((s: { item: string }) => s.item).sort());
+    expect((await run('edition', 'compare', 'week 10', 'week 11')).out).toMatch(/Front\n {2}added: {3}SKU-/);
+
+    const csv = await run('edition', 'export', 'week 10', '--format', 'csv');
+    const rows = parse(csv.out, { relax_column_count: true }) as string[][];
+    expect(rows[0]![8]).toBe('sponsored');
+    expect(rows.length).toBe(1 + 15 + 1);
+    const sponsoredRows = rows.filter((r) => r[8] === 'Sponsored').length;
+    expect(sponsoredRows).toBe(before.shelves.flatMap((s: { slots: { promoted: boolean }[] }) => s.slots).filter((x: { promoted: boolean }) => x.promoted).length);
+    const doc = JSON.parse((await run('edition', 'export', 'week 10', '--format', 'json')).out);
+    expect(doc.shelves).toHaveLength(3);
+    const out = path.join(path.dirname(w), 'week10.html');
+    expect((await run('edition', 'export', 'week 10', '--format', 'html', '--out', out)).code).toBe(0);
+    const html = fs.readFileSync(out, 'utf8');
+    expect(html).not.toMatch(/<script|(src|href)=["']?https?:/i);
+    expect(html).toMatch(/differ by country/);
+
+    const list = await json('edition', 'list');
+    expect(list.editions.map((e: { label: string; status: string }) => [e.label, e.status])).toEqual([
+      ['week 10', 'published'],
+      ['week 11', 'draft'],
+    ]);
+  });
+
+  it('exits 1 on a usage error and 2 on a data error, and has --help with an example', async () => {
+    const w = workspace();
+    const io = capture();
+    expect(await main(['shelf', 'pin', 'x', 'y', 'SKU-001', '-w', w], io, {})).toBe(1);
+    expect(io.stderr.join('\n')).toMatch(/give --slot N/);
+    const io2 = capture();
+    expect(await main(['edition', 'show', 'nope', '-w', w], io2, {})).toBe(2);
+    expect(io2.stderr.join('\n')).toMatch(/no edition called 'nope'/);
+    const io3 = capture();
+    expect(await main(['shelf', 'add', '--help'], io3, {})).toBe(0);
+    expect(io3.stdout.join('\n')).toMatch(/example:\n {2}shelfwright shelf add/);
+    const io4 = capture();
+    expect(await main(['forget', 'C-3', '-w', w], io4, {})).toBe(0);
+    expect(io4.stdout.join('\n')).toMatch(/erased customer C-3: \d+ signals/);
+  });
+});

@@ -10,7 +10,7 @@ export interface JobProgress {
   iterations?: number;
 }
 
-export type JobKind = 'train' | 'evaluate';
+export type JobKind = 'train' | 'evaluate' | 'demo';
 export type JobPhase = 'running' | 'done' | 'failed' | 'cancelled';
 
 export interface JobState {

@@ -3,13 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { main } from '../../src-main/shell/cli/main.ts';
-import type { CliIo } from '../../src-main/shell/cli/command.ts';
-
-export function capture(): CliIo & { stdout: string[]; stderr: string[] } {
-  const stdout: string[] = [];
-  const stderr: string[] = [];
-  return { stdout, stderr, out: (t) => stdout.push(t), err: (t) => stderr.push(t), errIsTty: false };
-}
+import { capture } from './capture.ts';
 
 describe('shelfwright command line', () => {
   it('lists its commands with --help and exits 0', async () => {

@@ -6,37 +6,48 @@ import { method } from '../define.ts';
 export const ImportTarget = z.enum(['items', 'customers', 'signals']);
 export const ImportFormat = z.enum(['csv', 'json', 'jsonl']);
 
-/** A file on this machine (CLI, Electron) or its content sent by a page (web shell upload). */
-const Source = z.union([
-  z.object({ file: z.string().min(1) }),
-  z.object({ fileName: z.string().min(1), content: z.string() }),
-]);
-
-const ImportSettings = z.object({
-  target: ImportTarget,
-  format: ImportFormat.optional(),
-  delimiter: z.string().length(1).optional(),
-  dateOrder: z.enum(['dmy', 'mdy']).optional(),
-  mapping: z.record(z.string(), z.string()).optional(),
-  unknown: z.enum(['reject', 'create']).optional(),
-  acceptPartial: z.boolean().optional(),
-});
+/**
+ * What to import: a file on this machine (CLI, Electron) or its content sent by a page (web shell upload,
+ * where a browser cannot hand over a path), exactly one of the two; and how to read it.
+ */
+export const ImportRequest = z
+  .object({
+    file: z.string().min(1).optional(),
+    fileName: z.string().min(1).optional(),
+    content: z.string().optional(),
+    target: ImportTarget,
+    format: ImportFormat.optional(),
+    delimiter: z.string().length(1).optional(),
+    dateOrder: z.enum(['dmy', 'mdy']).optional(),
+    mapping: z.record(z.string(), z.string()).optional(),
+    unknown: z.enum(['reject', 'create']).optional(),
+    acceptPartial: z.boolean().optional(),
+  })
+  .strict()
+  .refine((s) => (s.file !== undefined) !== (s.fileName !== undefined && s.content !== undefined), {
+    message: 'give either file, or fileName with content',
+  });
+export type ImportRequest = z.infer<typeof ImportRequest>;
 
 export const RowProblem = z.object({
-  line: z.number().int().optional(),
-  column: z.union([z.string(), z.number()]).optional(),
+  line: z.number().int(),
+  column: z.union([z.string(), z.number()]).nullable(),
   reason: z.string(),
+  /** `file:line:column: reason`, as editors and terminals link it. */
+  message: z.string(),
 });
 
 export const ImportReport = z.object({
   target: ImportTarget,
   file: z.string(),
   format: z.string(),
+  delimiter: z.string().nullable(),
   rows: z.number().int(),
   added: z.number().int(),
   updated: z.number().int(),
   unchanged: z.number().int(),
   rejected: z.number().int(),
+  customersCreated: z.number().int(),
   errors: z.array(RowProblem),
   errorCount: z.number().int(),
   committed: z.boolean(),
@@ -47,9 +58,10 @@ export type ImportReport = z.infer<typeof ImportReport>;
 
 export const ImportPreview = z.object({
   format: z.string(),
-  delimiter: z.string().optional(),
+  delimiter: z.string().nullable(),
   headers: z.array(z.string()),
   mapping: z.record(z.string(), z.string()),
+  extraColumns: z.array(z.string()),
   sampleRows: z.array(z.array(z.string())),
   problems: z.array(z.string()),
 });
@@ -65,9 +77,9 @@ export const WorkspaceStats = z.object({
   lastSignalAt: z.number().nullable(),
   density: z.number(),
   signalsByKind: z.record(z.string(), z.number()),
-  topCategoriesByItems: z.array(z.object({ category: z.string(), count: z.number() })),
-  topCategoriesBySignals: z.array(z.object({ category: z.string(), count: z.number() })),
-  longTailShare: z.number(),
+  topCategoriesByItems: z.array(z.object({ category: z.string(), items: z.number() })),
+  topCategoriesBySignals: z.array(z.object({ category: z.string(), signals: z.number() })),
+  longTailShare: z.number().nullable(),
   coldItems: z.number().int(),
   lastImportAt: z.number().nullable(),
 });
@@ -76,12 +88,12 @@ export type WorkspaceStats = z.infer<typeof WorkspaceStats>;
 export const dataMethods = {
   'import.preview': method({
     summary: 'Detect format, delimiter and column mapping of a file, with its first rows.',
-    request: z.intersection(Source, ImportSettings),
+    request: ImportRequest,
     response: ImportPreview,
   }),
   'import.run': method({
     summary: 'Import a file into the workspace in one transaction; rejects are reported by line and column.',
-    request: z.intersection(Source, ImportSettings),
+    request: ImportRequest,
     response: ImportReport,
   }),
   'workspace.stats': method({

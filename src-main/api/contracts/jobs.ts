@@ -3,7 +3,7 @@ import { method } from '../define.ts';
 
 export const JobState = z.object({
   id: z.string(),
-  kind: z.enum(['train', 'evaluate']),
+  kind: z.enum(['train', 'evaluate', 'demo']),
   state: z.enum(['running', 'done', 'failed', 'cancelled']),
   progress: z.object({
     stage: z.string(),

@@ -1,10 +1,12 @@
 import type { AppContext } from '../../services/context.ts';
+import { buildDemoWorkspace } from '../../services/demo.ts';
 import { workspaceInfo } from '../../services/workspace-info.ts';
 import type { Handler } from '../handler-table.ts';
 
 export function workspaceHandlers(ctx: AppContext): {
   'workspace.info': Handler<'workspace.info'>;
   'workspace.open': Handler<'workspace.open'>;
+  'workspace.demo': Handler<'workspace.demo'>;
 } {
   return {
     'workspace.info': () => workspaceInfo(ctx),
@@ -12,5 +14,28 @@ export function workspaceHandlers(ctx: AppContext): {
       ctx.open(req.file, { create: req.create });
       return workspaceInfo(ctx);
     },
+    'workspace.demo': (req) =>
+      ctx.jobs.start('demo', async (report, signal) => {
+        // The file is replaced whole; a connection to the old one must not outlive it.
+        if (ctx.isOpen && ctx.file === req.file) ctx.close();
+        let fraction = 0;
+        const built = await buildDemoWorkspace(req.file, {
+          ...(req.seed !== undefined && { seed: req.seed }),
+          train: req.train,
+          signal,
+          onStep: (stage) => report({ stage, fraction: (fraction = Math.min(0.3, fraction + 0.06)) }),
+          onTrainProgress: (p) =>
+            report({
+              stage: 'training models',
+              fraction: 0.3 + 0.7 * p.fraction,
+              ...(p.model && { model: p.model }),
+              ...(p.iteration !== undefined && { iteration: p.iteration }),
+              ...(p.iterations !== undefined && { iterations: p.iterations }),
+            }),
+        });
+        ctx.open(req.file, { create: false });
+        const rows = built.imports.map((r) => `${r.added} ${r.target}`).join(', ');
+        return `${built.shop}: ${rows}${built.training ? `, ${built.training.models.length} models` : ''} in ${(built.elapsedMs / 1000).toFixed(1)} s`;
+      }),
   };
 }

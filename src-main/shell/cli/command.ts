@@ -5,6 +5,9 @@ import type { AppContext } from '../../services/context.ts';
 export type OptionSpec = NonNullable<ParseArgsConfig['options']>;
 export type OptionValues = Record<string, string | boolean | string[] | boolean[] | undefined>;
 
+/** A wrong command line (missing argument, bad flag value): exit code 1. */
+export class UsageError extends Error {}
+
 /** Exit codes: 0 ok, 1 usage (wrong command line), 2 data error (bad file, unknown id, failed rule). */
 export const EXIT = { ok: 0, usage: 1, data: 2 } as const;
 
@@ -22,8 +25,11 @@ export interface CommandEnv {
   json: boolean;
   /** The workspace path from --workspace (or its default). */
   workspace: string;
-  /** Opens the workspace (created when `create`) and returns the handler table to call. */
-  api(options?: { create?: boolean }): { table: HandlerTable; ctx: AppContext };
+  /**
+   * The handler table to call, with the workspace opened (created when `create`), or with none open when
+   * `detached` (commands that make the workspace file themselves, like demo).
+   */
+  api(options?: { create?: boolean; detached?: boolean }): { table: HandlerTable; ctx: AppContext };
 }
 
 /**

@@ -4,7 +4,9 @@ import { createHandlerTable, type HandlerTable } from '../../api/handler-table.t
 import { InputError } from '../../core/errors.ts';
 import { AppContext } from '../../services/context.ts';
 import { CliApiError } from './call.ts';
-import { EXIT, type CliCommand, type CliIo, type CommandEnv, type OptionSpec } from './command.ts';
+import { EXIT, UsageError, type CliCommand, type CliIo, type CommandEnv, type OptionSpec } from './command.ts';
+
+export { UsageError };
 import { COMMANDS } from './commands/index.ts';
 
 export const DEFAULT_WORKSPACE = path.join('.workspaces', 'demo.sqlite');
@@ -95,7 +97,7 @@ export async function main(argv: string[], io: CliIo, env: NodeJS.ProcessEnv = p
     json: values['json'] === true,
     workspace,
     api: (options = {}) => {
-      if (!ctx.isOpen) ctx.open(workspace, { create: options.create ?? false });
+      if (!ctx.isOpen && !options.detached) ctx.open(workspace, { create: options.create ?? false });
       table ??= createHandlerTable(ctx);
       return { table, ctx };
     },
@@ -113,9 +115,8 @@ export async function main(argv: string[], io: CliIo, env: NodeJS.ProcessEnv = p
     }
     throw e;
   } finally {
+    ctx.jobs.cancelAll();
     ctx.close();
   }
 }
 
-/** A wrong command line (missing argument, bad flag value): exit code 1. */
-export class UsageError extends Error {}

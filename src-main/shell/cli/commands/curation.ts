@@ -4,7 +4,7 @@ import type { RequestOf } from '../../../api/contract.ts';
 import { call } from '../call.ts';
 import { EXIT, type CliCommand, type CommandEnv, type OptionSpec } from '../command.ts';
 import { formatNumber, table } from '../format.ts';
-import { UsageError } from '../main.ts';
+import { UsageError } from '../command.ts';
 
 /** Editions, shelves and editorial actions on the command line. Thin: flags → one api call → print. */
 

@@ -1,5 +1,15 @@
 import type { CliCommand } from '../command.ts';
+import { curationCommands } from './curation.ts';
+import { demoCommand, importCommand, statsCommand } from './data.ts';
+import { modelCommands } from './models.ts';
 import { infoCommand } from './workspace.ts';
 
 /** Every command of the command line, in the order --help lists them. Areas append their lists. */
-export const COMMANDS: readonly CliCommand[] = [infoCommand];
+export const COMMANDS: readonly CliCommand[] = [
+  infoCommand,
+  importCommand,
+  statsCommand,
+  demoCommand,
+  ...modelCommands,
+  ...curationCommands,
+];

@@ -1,0 +1,89 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { generateDemoShop } from '../../demo-data/generator/index.ts';
+import { BugError, CancelledError } from '../core/errors.ts';
+import { openWorkspace } from '../store/workspace.ts';
+import { importFile, type ImportReport } from './import.ts';
+import { trainAndSave, type TrainSummary } from './train/train-job.ts';
+import type { TrainProgress } from './train/train-models.ts';
+
+export interface DemoBuildOptions {
+  seed?: number;
+  /** Train every model after the import (default true), so the app opens ready to propose. */
+  train?: boolean;
+  /** Smaller shops for tests: counts of items, customers and signals. */
+  size?: { items?: number; customers?: number; signals?: number };
+  onStep?: (message: string) => void;
+  onTrainProgress?: (p: TrainProgress) => void;
+  /** Stops the build at the next step (or inside training); the target file is left as it was. */
+  signal?: AbortSignal;
+}
+
+export interface DemoBuildReport {
+  file: string;
+  shop: string;
+  imports: ImportReport[];
+  training: TrainSummary | null;
+  elapsedMs: number;
+}
+
+/**
+ * Builds the demo workspace from the invented shop in demo-data/: generate the files, import catalogue,
+ * customers and signals, train. It is built beside the target as `<file>.building` and moved into place
+ * only when complete, so an interrupted build never leaves a half-made workspace where the app looks.
+ */
+export async function buildDemoWorkspace(file: string, options: DemoBuildOptions = {}): Promise<DemoBuildReport> {
+  const started = performance.now();
+  const step = (message: string) => {
+    if (options.signal?.aborted) throw new CancelledError('demo build cancelled');
+    options.onStep?.(message);
+  };
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-demo-'));
+  const building = `${file}.building`;
+  removeWorkspaceFiles(building);
+  try {
+    step('generating the demo shop');
+    const summary = await generateDemoShop({ outDir: dir, ...(options.seed !== undefined && { seed: options.seed }), ...options.size });
+    const db = openWorkspace(building);
+    const imports: ImportReport[] = [];
+    let training: TrainSummary | null = null;
+    try {
+      for (const target of ['items', 'customers', 'signals'] as const) {
+        step(`importing ${target}`);
+        const report = await importFile(db, { target, file: summary.files[target] });
+        if (!report.committed) throw new BugError(`the demo ${target} did not import: ${report.errors[0]?.message ?? ''}`);
+        imports.push(report);
+      }
+      if (options.train ?? true) {
+        step('training models');
+        training = await trainAndSave(db, building, {}, {
+          ...(options.onTrainProgress && { onProgress: options.onTrainProgress }),
+          ...(options.signal && { signal: options.signal }),
+        });
+      }
+      step('finishing');
+      db.pragma('wal_checkpoint(TRUNCATE)');
+    } finally {
+      db.close();
+    }
+    removeWorkspaceFiles(file);
+    fs.renameSync(building, file);
+    return { file, shop: summary.shop, imports, training, elapsedMs: performance.now() - started };
+  } catch (e) {
+    removeWorkspaceFiles(building);
+    throw e;
+  } finally {
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+/** Builds the demo workspace only when the file does not exist yet (first launch). */
+export async function ensureDemoWorkspace(file: string, options: DemoBuildOptions = {}): Promise<DemoBuildReport | null> {
+  if (fs.existsSync(file)) return null;
+  return buildDemoWorkspace(file, options);
+}
+
+function removeWorkspaceFiles(file: string): void {
+  for (const suffix of ['', '-wal', '-shm']) fs.rmSync(`${file}${suffix}`, { force: true });
+}

@@ -1,0 +1,152 @@
+import type { ImportReport } from '../../../api/contracts/data.ts';
+import { call } from '../call.ts';
+import { followJob } from '../follow-job.ts';
+import { EXIT, UsageError, type CliCommand } from '../command.ts';
+import { formatDate, formatNumber, table } from '../format.ts';
+
+
+const TARGETS = ['items', 'customers', 'signals'] as const;
+type Target = (typeof TARGETS)[number];
+
+function parseMapping(pairs: string[]): Record<string, string> {
+  const mapping: Record<string, string> = {};
+  for (const pair of pairs) {
+    const eq = pair.indexOf('=');
+    if (eq <= 0 || eq === pair.length - 1) throw new UsageError(`--map wants FIELD=HEADER, got '${pair}'`);
+    mapping[pair.slice(0, eq)] = pair.slice(eq + 1);
+  }
+  return mapping;
+}
+
+function printReport(r: ImportReport, out: (t: string) => void): void {
+  const verdict = r.committed ? 'imported' : 'NOT imported: nothing was changed';
+  out(`${r.file} (${r.format}${r.delimiter ? `, delimiter '${r.delimiter === '\t' ? '\\t' : r.delimiter}'` : ''}): ${verdict}`);
+  out(
+    `  ${formatNumber(r.rows)} rows: ${formatNumber(r.added)} added, ${formatNumber(r.updated)} updated, ` +
+      `${formatNumber(r.unchanged)} unchanged, ${formatNumber(r.rejected)} rejected` +
+      (r.customersCreated ? `, ${formatNumber(r.customersCreated)} customers created` : '') +
+      ` in ${(r.elapsedMs / 1000).toFixed(2)} s`,
+  );
+  for (const e of r.errors) out(`  ${e.message}`);
+  if (r.errorCount > r.errors.length) out(`  ... and ${formatNumber(r.errorCount - r.errors.length)} more rejected rows`);
+}
+
+export const importCommand: CliCommand = {
+  name: 'import',
+  summary: 'import items, customers or signals from CSV, JSON or JSON Lines',
+  usage: ['items|customers|signals FILE [--map FIELD=HEADER ...] [--mapping-file F] [--date-order dmy|mdy] [--create-customers] [--accept-partial]'],
+  options: {
+    map: { type: 'string', multiple: true },
+    format: { type: 'string' },
+    delimiter: { type: 'string' },
+    'date-order': { type: 'string' },
+    'create-customers': { type: 'boolean', default: false },
+    'accept-partial': { type: 'boolean', default: false },
+    preview: { type: 'boolean', default: false },
+  },
+  help: [
+    'The whole file is one transaction: if any row is rejected nothing changes (unless --accept-partial),',
+    'and every rejected row is reported as file:line:column: reason.',
+    'Headers are matched to fields automatically (id, title, category, tags, customer, item, kind, value, at...);',
+    '--map FIELD=HEADER overrides one. Day/month dates like 03/04/2026 need --date-order dmy or mdy.',
+    'Signals naming an unknown customer are rejected unless --create-customers; unknown items always are.',
+    '--preview shows the detected mapping and the first rows without importing.',
+    '',
+    'example: shelfwright import signals clicks.csv --map customer=reader_id --date-order dmy',
+  ].join('\n'),
+  async run(env) {
+    const [target, file, ...extra] = env.positionals;
+    if (!target || !TARGETS.includes(target as Target)) throw new UsageError('first say what to import: items, customers or signals');
+    if (!file) throw new UsageError(`give the file to import ${target} from`);
+    if (extra.length) throw new UsageError(`unexpected argument '${extra[0]}'`);
+    const v = env.values;
+    const format = v['format'] as string | undefined;
+    if (format !== undefined && !['csv', 'json', 'jsonl'].includes(format)) throw new UsageError('--format is csv, json or jsonl');
+    const dateOrder = v['date-order'] as string | undefined;
+    if (dateOrder !== undefined && dateOrder !== 'dmy' && dateOrder !== 'mdy') throw new UsageError('--date-order is dmy or mdy');
+    const mapping = parseMapping((v['map'] as string[] | undefined) ?? []);
+    const request = {
+      file,
+      target: target as Target,
+      ...(format && { format: format as 'csv' | 'json' | 'jsonl' }),
+      ...(v['delimiter'] !== undefined && { delimiter: v['delimiter'] as string }),
+      ...(dateOrder && { dateOrder: dateOrder as 'dmy' | 'mdy' }),
+      ...(Object.keys(mapping).length > 0 && { mapping }),
+    };
+    const { table: api } = env.api({ create: true });
+    if (v['preview']) {
+      const p = await call(api, 'import.preview', request);
+      if (env.json) env.io.out(JSON.stringify(p, null, 2));
+      else {
+        env.io.out(`${file}: ${p.format}${p.delimiter ? `, delimiter '${p.delimiter}'` : ''}`);
+        env.io.out(table(['field', 'header'], Object.entries(p.mapping)));
+        if (p.extraColumns.length) env.io.out(`other columns: ${p.extraColumns.join(', ')}`);
+        env.io.out(table(p.headers, p.sampleRows.slice(0, 5).map((r) => r.map((c) => (c.length > 30 ? `${c.slice(0, 29)}…` : c)))));
+        for (const problem of p.problems) env.io.out(problem);
+      }
+      return p.problems.length ? EXIT.data : EXIT.ok;
+    }
+    const report = await call(api, 'import.run', {
+      ...request,
+      unknown: v['create-customers'] ? 'create' : 'reject',
+      acceptPartial: v['accept-partial'] === true,
+    });
+    if (env.json) env.io.out(JSON.stringify(report, null, 2));
+    else printReport(report, (t) => (report.committed ? env.io.out(t) : env.io.err(t)));
+    return report.committed ? EXIT.ok : EXIT.data;
+  },
+};
+
+export const statsCommand: CliCommand = {
+  name: 'stats',
+  summary: 'what the workspace holds: counts, dates, density, kinds, top categories, long tail',
+  usage: ['[--json]'],
+  options: {},
+  async run(env) {
+    const { table: api } = env.api();
+    const s = await call(api, 'workspace.stats', {});
+    if (env.json) {
+      env.io.out(JSON.stringify(s, null, 2));
+      return EXIT.ok;
+    }
+    const pct = (x: number | null) => (x === null ? '–' : `${(100 * x).toFixed(1)}%`);
+    const out = env.io.out;
+    out(`workspace ${env.workspace}`);
+    out(`  items      ${formatNumber(s.items)} (${formatNumber(s.availableItems)} available, ${formatNumber(s.promotedItems)} promoted, ${formatNumber(s.coldItems)} with no signals)`);
+    out(`  customers  ${formatNumber(s.customers)}`);
+    out(`  signals    ${formatNumber(s.signals)} from ${formatDate(s.firstSignalAt)} to ${formatDate(s.lastSignalAt)}`);
+    out(`  density    ${(100 * s.density).toFixed(3)}% of customer-item pairs`);
+    out(`  long tail  ${pct(s.longTailShare)} of signals go to items outside the most-interacted 20%`);
+    out(`  last import ${s.lastImportAt === null ? 'never' : new Date(s.lastImportAt).toISOString().replace('T', ' ').slice(0, 16)}`);
+    out('');
+    out(table(['kind', 'signals'], Object.entries(s.signalsByKind).map(([k, n]) => [k, n]).sort((a, b) => Number(b[1]) - Number(a[1]))));
+    out('');
+    out(table(['top categories by items', 'items'], s.topCategoriesByItems.map((c) => [c.category || '(none)', c.items])));
+    out('');
+    out(table(['top categories by signals', 'signals'], s.topCategoriesBySignals.map((c) => [c.category || '(none)', c.signals])));
+    return EXIT.ok;
+  },
+};
+
+export const demoCommand: CliCommand = {
+  name: 'demo',
+  summary: 'rebuild the demo workspace (an invented garden-supply shop) and train its models',
+  usage: ['[--workspace PATH] [--seed N] [--no-train]'],
+  options: { seed: { type: 'string' }, 'no-train': { type: 'boolean', default: false } },
+  help: 'Replaces the workspace file with a freshly generated demo shop. The same seed always gives the same shop.',
+  async run(env) {
+    const seedText = env.values['seed'] as string | undefined;
+    const seed = seedText === undefined ? undefined : Number(seedText);
+    if (seed !== undefined && !(Number.isInteger(seed) && seed >= 0)) throw new UsageError('--seed is a whole number >= 0');
+    const { table: api } = env.api({ detached: true });
+    const job = await call(api, 'workspace.demo', {
+      file: env.workspace,
+      train: env.values['no-train'] !== true,
+      ...(seed !== undefined && { seed }),
+    });
+    const done = await followJob(api, job, env.io);
+    if (env.json) env.io.out(JSON.stringify(done, null, 2));
+    else env.io.out(`${done.summary}\nworkspace: ${env.workspace}`);
+    return EXIT.ok;
+  },
+};

@@ -20,6 +20,8 @@ export interface CurationContext {
   /** Workspace item id of each dense index, and the reverse. */
   itemIds: Int32Array;
   indexOfId: Map<number, number>;
+  /** The shop's own id of each dense index: what messages to editors name. */
+  externalIds: string[];
   category: Int32Array;
   supplier: Int32Array;
   /** Tags of item i are tagCodes[tagPtr[i] .. tagPtr[i + 1]) (CSR-like). */
@@ -81,6 +83,7 @@ export function buildCurationContext(items: readonly Item[], options: ContextOpt
   }
   const facets: Record<Facet, FacetCodes> = { category: codesOf(), supplier: codesOf(), tag: codesOf() };
   const itemIds = new Int32Array(n);
+  const externalIds: string[] = new Array<string>(n);
   const indexOfId = new Map<number, number>();
   const category = new Int32Array(n);
   const supplier = new Int32Array(n);
@@ -93,6 +96,7 @@ export function buildCurationContext(items: readonly Item[], options: ContextOpt
   for (let i = 0; i < n; i++) {
     const it = items[i] as Item;
     itemIds[i] = it.id;
+    externalIds[i] = it.externalId;
     indexOfId.set(it.id, i);
     category[i] = codeFor(facets.category, it.category);
     supplier[i] = codeFor(facets.supplier, it.supplier);
@@ -128,6 +132,7 @@ export function buildCurationContext(items: readonly Item[], options: ContextOpt
     n,
     itemIds,
     indexOfId,
+    externalIds,
     category,
     supplier,
     tagPtr,

@@ -15,6 +15,11 @@ export default tseslint.config(
   { ignores: ['node_modules/**', 'dist/**', 'dist-electron/**', 'release/**', 'test-results/**', 'reports/**', 'demo-data/out/**'] },
   js.configs.recommended,
   ...tseslint.configs.recommended,
+  // Plain JavaScript files are Node scripts (the bin launcher, CI helpers).
+  {
+    files: ['**/*.js', '**/*.mjs'],
+    languageOptions: { globals: { process: 'readonly', console: 'readonly', URL: 'readonly' } },
+  },
   {
     rules: {
       '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_' }],

@@ -1,5 +1,8 @@
 import type { z } from 'zod';
+import { curationMethods } from './contracts/curation.ts';
+import { dataMethods } from './contracts/data.ts';
 import { jobMethods } from './contracts/jobs.ts';
+import { modelMethods } from './contracts/models.ts';
 import { workspaceMethods } from './contracts/workspace.ts';
 
 /**
@@ -9,6 +12,9 @@ import { workspaceMethods } from './contracts/workspace.ts';
 export const CONTRACT = {
   ...workspaceMethods,
   ...jobMethods,
+  ...dataMethods,
+  ...curationMethods,
+  ...modelMethods,
 } as const;
 
 export type Contract = typeof CONTRACT;

@@ -2,7 +2,10 @@ import type { AppContext } from '../services/context.ts';
 import { CONTRACT, isMethodName, type Contract, type MethodName, type RequestOf, type ResponseOf } from './contract.ts';
 import type { ApiResult } from './define.ts';
 import { toApiError } from './errors.ts';
+import { curationHandlers } from './handlers/curation.ts';
+import { dataHandlers } from './handlers/data.ts';
 import { jobHandlers } from './handlers/jobs.ts';
+import { modelHandlers } from './handlers/models.ts';
 import { workspaceHandlers } from './handlers/workspace.ts';
 
 type Parsed<M extends MethodName> = import('zod').output<Contract[M]['request']>;
@@ -14,6 +17,9 @@ export function createHandlerTable(ctx: AppContext): HandlerTable {
   return {
     ...workspaceHandlers(ctx),
     ...jobHandlers(ctx),
+    ...dataHandlers(ctx),
+    ...curationHandlers(ctx),
+    ...modelHandlers(ctx),
   };
 }
 

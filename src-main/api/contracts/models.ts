@@ -1,0 +1,252 @@
+import { z } from 'zod';
+import { AudienceSchema } from '../../core/editing/brief-schema.ts';
+import { method } from '../define.ts';
+import { JobState } from './jobs.ts';
+
+/**
+ * Models: training (optionally tuned), the model list, offline evaluation, evaluation against a holdout
+ * file, item neighbours and search, ad-hoc proposals and the per-customer top-N export. Items and customers
+ * are named by their external ids. Metrics with no data (NaN in core) cross the boundary as null.
+ */
+const reading = z.number().nullable();
+const ModelKindName = z.enum(['content', 'itemknn', 'ials', 'ease', 'popularity']);
+
+export const TrainRequest = z
+  .object({
+    /** Which models (default all five). */
+    models: z.array(ModelKindName).min(1).optional(),
+    ials: z
+      .object({
+        factors: z.number().int().min(1).max(1024).optional(),
+        iterations: z.number().int().min(1).optional(),
+        regularization: z.number().min(0).optional(),
+        alpha: z.number().min(0).optional(),
+        scaling: z.enum(['linear', 'log']).optional(),
+        seed: z.number().int().optional(),
+      })
+      .strict()
+      .optional(),
+    itemknn: z.object({ k: z.number().int().min(1).optional(), shrink: z.number().min(0).optional() }).strict().optional(),
+    ease: z.object({ lambda: z.number().positive().optional() }).strict().optional(),
+    threads: z.number().int().min(1).max(8).optional(),
+    /** Tune each model's small grid on a validation split first, then train the best settings on all signals. */
+    tune: z
+      .object({
+        k: z.number().int().min(1).default(10),
+        sampleCustomers: z.number().int().min(1).optional(),
+        seed: z.number().int().optional(),
+      })
+      .strict()
+      .optional(),
+  })
+  .strict();
+
+/** One row of an evaluation table (offline split or holdout file). */
+export const MetricsRow = z.object({
+  model: z.string(),
+  k: z.number().int(),
+  ndcg: reading,
+  /** Recall@K with denominator min(K, |truth|) (Liang et al. 2018). */
+  recall: reading,
+  precision: reading,
+  map: reading,
+  hitRate: reading,
+  coverage: reading,
+  novelty: reading,
+  customers: z.number().int(),
+});
+
+export const GridTrialView = z.object({
+  params: z.record(z.string(), z.union([z.number(), z.string()])),
+  ndcg: reading,
+  recall: reading,
+  elapsedMs: z.number(),
+});
+
+export const TuningView = z.object({
+  k: z.number().int(),
+  tunedAt: z.number(),
+  split: z.object({ method: z.enum(['time', 'random']), train: z.number().int(), validation: z.number().int(), customers: z.number().int() }),
+  /** 'hybrid' on the content model: the grid of the hybrid's content weight. */
+  grid: z.object({ model: z.string(), best: z.record(z.string(), z.union([z.number(), z.string()])), ndcg: reading, trials: z.array(GridTrialView) }),
+  hybridContentWeight: z.number().optional(),
+});
+
+export const ModelInfo = z.object({
+  id: z.number().int(),
+  kind: z.string(),
+  params: z.record(z.string(), z.unknown()),
+  trainedAt: z.number(),
+  trainMs: z.number(),
+  iterations: z.number().int().nullable(),
+  losses: z.array(z.number()),
+  notes: z.array(z.string()),
+  stale: z.boolean(),
+  sizeBytes: z.number().int(),
+  /** This model's row of the latest offline evaluation, if one ran after it was trained. */
+  evaluation: MetricsRow.extend({ evaluatedAt: z.number() }).nullable(),
+  tuning: TuningView.nullable(),
+});
+
+export const OfflineEvaluation = z.object({
+  k: z.number().int(),
+  evaluatedAt: z.number(),
+  /** The workspace changed since this evaluation ran. */
+  stale: z.boolean(),
+  split: z.object({ validationFrom: z.number(), testFrom: z.number(), train: z.number().int(), validation: z.number().int(), test: z.number().int() }),
+  weights: z.record(z.string(), z.number()),
+  /** Best NDCG first: single models, the hybrid, popularity and random baselines. */
+  rows: z.array(MetricsRow),
+  notes: z.array(z.string()),
+});
+
+const Unknown = z.object({ distinct: z.number().int(), rows: z.number().int(), examples: z.array(z.string()) });
+
+export const HoldoutResult = z.object({
+  file: z.string(),
+  k: z.number().int(),
+  rows: z.number().int(),
+  usableRows: z.number().int(),
+  pairs: z.number().int(),
+  customers: z.number().int(),
+  unknownCustomers: Unknown,
+  unknownItems: Unknown,
+  alreadyInWorkspace: z.number().int(),
+  duplicateRows: z.number().int(),
+  customersWithoutNewItems: z.number().int(),
+  coldCustomers: z.number().int(),
+  /** Best NDCG first; `stale` is null for the hybrid and the random baseline. */
+  models: z.array(MetricsRow.extend({ stale: z.boolean().nullable() })),
+  weightsFrom: z.string(),
+  mapping: z.record(z.string(), z.string()),
+  notes: z.array(z.string()),
+});
+
+const ItemRef = z.object({ item: z.string(), title: z.string(), category: z.string(), promoted: z.boolean() });
+
+export const Neighbour = ItemRef.extend({
+  /** The blend used for the order: brief-default weights of content and collaborative, renormalised. */
+  score: z.number(),
+  content: reading,
+  collaborative: reading,
+  /** Which similarity contributes more to the score. */
+  mainReason: z.enum(['content', 'collaborative']),
+  /** Fewer customers than the cold-start threshold: only content can vouch for it. */
+  coldStart: z.boolean(),
+});
+
+const Evidence = z.object({ item: z.string(), title: z.string(), similarity: z.number() });
+
+export const ProposedView = ItemRef.extend({
+  /** Promoted items are labelled "Sponsored" in words wherever shown. */
+  sponsored: z.boolean(),
+  score: z.number(),
+  percentile: z.number(),
+  coldStart: z.boolean(),
+  contributions: z.record(z.string(), z.number()),
+  raw: z.record(z.string(), reading),
+  evidence: z.object({ content: z.array(Evidence), collaborative: z.array(Evidence) }),
+});
+
+export const ProposeRequest = z
+  .object({
+    anchors: z.array(z.string().min(1)).default([]),
+    categories: z.array(z.string()).default([]),
+    excludeCategories: z.array(z.string()).default([]),
+    tags: z.array(z.string()).default([]),
+    suppliers: z.array(z.string()).default([]),
+    minPrice: z.number().min(0).optional(),
+    maxPrice: z.number().min(0).optional(),
+    maxAgeDays: z.number().min(0).optional(),
+    audience: AudienceSchema.optional(),
+    weights: z.record(z.string(), z.number().min(0)).optional(),
+    n: z.number().int().min(1).max(500).default(20),
+    /** Edition date, YYYY-MM-DD or unix ms; default today. */
+    date: z.union([z.string(), z.number()]).optional(),
+  })
+  .strict();
+
+export const modelMethods = {
+  'train.start': method({
+    summary: 'Train the models (optionally tuning them first) as a job; poll job.status, stop with job.cancel.',
+    request: TrainRequest,
+    response: JobState,
+  }),
+  'models.list': method({
+    summary: 'Each current model: kind, parameters, training time and losses, notes, stale flag, evaluation, tuning.',
+    request: z.object({}).strict(),
+    response: z.object({ models: z.array(ModelInfo) }),
+  }),
+  'evaluate.start': method({
+    summary: 'Evaluate every model and baseline on a time split as a job; the result is stored with the models.',
+    request: z.object({ k: z.number().int().min(1).max(200).default(10), sampleCustomers: z.number().int().min(1).optional() }).strict(),
+    response: JobState,
+  }),
+  'evaluate.latest': method({
+    summary: 'The latest stored offline evaluation (null when none ran since training).',
+    request: z.object({}).strict(),
+    response: z.object({ evaluation: OfflineEvaluation.nullable() }),
+  }),
+  'evaluate.holdout': method({
+    summary: "Score every trained model against exactly the pairs of the user's holdout file.",
+    request: z
+      .object({
+        source: z.union([z.object({ file: z.string().min(1) }).strict(), z.object({ fileName: z.string().min(1), content: z.string() }).strict()]),
+        k: z.number().int().min(1).max(500).default(20),
+        format: z.enum(['csv', 'json', 'jsonl']).optional(),
+        delimiter: z.string().length(1).optional(),
+        dateOrder: z.enum(['dmy', 'mdy']).optional(),
+        mapping: z.record(z.string(), z.string()).optional(),
+      })
+      .strict(),
+    response: HoldoutResult,
+  }),
+  'item.similar': method({
+    summary: 'The items most like one item, each with its content and collaborative similarity.',
+    request: z.object({ item: z.string().min(1, 'name an item'), n: z.number().int().min(1).max(200).default(10) }).strict(),
+    response: z.object({ item: ItemRef, neighbours: z.array(Neighbour), notes: z.array(z.string()) }),
+  }),
+  'item.search': method({
+    summary: 'Items whose title or external id contains the query (for pickers).',
+    request: z.object({ query: z.string(), limit: z.number().int().min(1).max(200).default(20) }).strict(),
+    response: z.object({ items: z.array(ItemRef) }),
+  }),
+  propose: method({
+    summary: 'A ranked, explained pool for an ad-hoc brief (anchors, filters, price band, age window).',
+    request: ProposeRequest,
+    response: z.object({
+      items: z.array(ProposedView),
+      poolSize: z.number().int(),
+      excluded: z.record(z.string(), z.number().int()),
+      weights: z.record(z.string(), z.number()),
+      date: z.string(),
+      scoreMs: z.number(),
+      notes: z.array(z.string()),
+    }),
+  }),
+  recommend: method({
+    summary: "Write every listed customer's top-N (CSV or JSON Lines) with per-component contributions.",
+    request: z
+      .object({
+        customers: z.array(z.string().min(1)).optional(),
+        customersFile: z.string().min(1).optional(),
+        all: z.boolean().default(false),
+        n: z.number().int().min(1).max(1000).default(10),
+        out: z.string().min(1, 'name the output file'),
+        format: z.enum(['csv', 'jsonl']).optional(),
+      })
+      .strict(),
+    response: z.object({
+      file: z.string(),
+      format: z.enum(['csv', 'jsonl']),
+      customers: z.number().int(),
+      rows: z.number().int(),
+      unknownCustomers: Unknown,
+      duplicateCustomers: z.number().int(),
+      weightsFrom: z.string(),
+      tieRule: z.string(),
+      elapsedMs: z.number(),
+      notes: z.array(z.string()),
+    }),
+  }),
+};

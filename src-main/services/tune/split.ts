@@ -1,0 +1,69 @@
+/**
+ * The validation split tuning measures on, carved from the workspace's own signals (issue 6 item 4).
+ *
+ * - Timed signals (at least half of them carry a time): by time, the last `share` of timed signals is
+ *   validation (core/matrix/split.ts, boundaries as lkpy's split_global_time); untimed signals stay in train.
+ * - Otherwise: per customer at random. For every customer with at least two distinct items, a seeded
+ *   `share` of their distinct items (at least one, never all) is held out, with every signal on those pairs,
+ *   so a held-out pair cannot leak into train through a second signal (common practice, no source).
+ */
+import { InputError } from '../../core/errors.ts';
+import { quantileCuts, splitByTime } from '../../core/matrix/split.ts';
+import { seededRng } from '../../core/rng.ts';
+import type { Dataset } from '../../core/types.ts';
+
+export interface ValidationSplit {
+  method: 'time' | 'random';
+  /** Signal indices of each part, in signal order. */
+  train: Int32Array;
+  validation: Int32Array;
+  /** Time validation starts at (method 'time'), else null. */
+  from: number | null;
+}
+
+export function validationSplit(ds: Dataset, o: { share?: number; seed?: number } = {}): ValidationSplit {
+  const share = o.share ?? 0.2;
+  if (!(share > 0 && share < 1)) throw new InputError(`the validation share must be between 0 and 1, got ${share}`);
+  const s = ds.signals;
+  let timed = 0;
+  for (let k = 0; k < s.length; k++) if (s.at[k] === s.at[k]) timed++;
+  if (timed >= 3 && timed * 2 >= s.length) {
+    const cuts = quantileCuts(ds, { testShare: share, validationShare: 0 });
+    const split = splitByTime(ds, cuts);
+    return { method: 'time', train: split.train, validation: split.test, from: cuts.testFrom };
+  }
+  return { ...randomSplit(ds, share, o.seed ?? 1), method: 'random', from: null };
+}
+
+function randomSplit(ds: Dataset, share: number, seed: number): { train: Int32Array; validation: Int32Array } {
+  const s = ds.signals;
+  const nC = ds.customerIds.length;
+  // Distinct items of each customer, in ascending item order (a CSR built by counting).
+  const ptr = new Int32Array(nC + 1);
+  for (let k = 0; k < s.length; k++) ptr[s.customer[k]! + 1]!++;
+  for (let u = 0; u < nC; u++) ptr[u + 1]! += ptr[u]!;
+  const next = ptr.slice(0, nC);
+  const items = new Int32Array(s.length);
+  for (let k = 0; k < s.length; k++) items[next[s.customer[k]!]!++] = s.item[k]!;
+  const rng = seededRng(seed);
+  const held = new Set<number>(); // key u * nItems + i
+  const nI = ds.items.length;
+  for (let u = 0; u < nC; u++) {
+    const row = Array.from(new Set(items.subarray(ptr[u]!, ptr[u + 1]!))).sort((a, b) => a - b);
+    if (row.length < 2) continue;
+    const take = Math.min(row.length - 1, Math.max(1, Math.round(share * row.length)));
+    // Partial Fisher–Yates with the seeded rng: the first `take` positions are the held-out items.
+    for (let q = 0; q < take; q++) {
+      const j = q + rng.int(row.length - q);
+      const t = row[q]!;
+      row[q] = row[j]!;
+      row[j] = t;
+      held.add(u * nI + row[q]!);
+    }
+  }
+  const train: number[] = [];
+  const validation: number[] = [];
+  for (let k = 0; k < s.length; k++) (held.has(s.customer[k]! * nI + s.item[k]!) ? validation : train).push(k);
+  if (validation.length === 0) throw new InputError('no customer has two or more items: nothing can be held out for tuning');
+  return { train: Int32Array.from(train), validation: Int32Array.from(validation) };
+}

@@ -1,0 +1,215 @@
+/**
+ * Tuning (issue 6 item 4): each model's small grid (grid.ts) is fitted on the train part of a seeded
+ * validation split (split.ts) and measured by NDCG@K on the validation part; the best setting of each model
+ * is what `train --tune` then refits on all signals. The hybrid's content weight is tuned last, over the
+ * best item-kNN and iALS of the grid, so it can reach items nobody has interacted with (cold start: the
+ * hybrid substitutes content for the collaborative and audience components of such items).
+ *
+ * Choice rule: the highest NDCG@K; a later trial must beat the best so far by more than 1e-9, so ties keep
+ * the earlier (grid-order) setting and the outcome does not depend on floating-point noise.
+ */
+import { DEFAULT_WEIGHTS } from '../../core/editing/brief-schema.ts';
+import { CancelledError, InputError } from '../../core/errors.ts';
+import { evalTruth, RankingEvaluator, sampleTruth, type EvalResult } from '../../core/eval/index.ts';
+import { buildInteractionMatrix } from '../../core/matrix/build.ts';
+import { fitContent } from '../../core/models/content.ts';
+import { fitEase } from '../../core/models/ease.ts';
+import type { IalsParams } from '../../core/models/ials-params.ts';
+import { fitItemKnn } from '../../core/models/itemknn.ts';
+import { trendRatios } from '../../core/models/popularity.ts';
+import type { Scorer } from '../../core/models/scorer.ts';
+import { seededRng } from '../../core/rng.ts';
+import { CustomerHybrid, HybridScorer } from '../../core/scoring/index.ts';
+import type { Dataset } from '../../core/types.ts';
+import { columnCounts, datasetDate } from '../holdout/trained.ts';
+import { fitIalsThreaded } from '../train/ials-threads.ts';
+import { TRAIN_EASE_DEFAULTS, type TrainOptions } from '../train/train-models.ts';
+import { EASE_GRID, HYBRID_CONTENT_GRID, IALS_CONFIDENCE_GRID, IALS_SIZE_GRID, itemKnnTrials } from './grid.ts';
+import { validationSplit } from './split.ts';
+
+export type TrialParams = Record<string, number | string>;
+
+export interface GridTrial {
+  params: TrialParams;
+  ndcg: number;
+  /** Recall@K with denominator min(K, |truth|) (Liang et al. 2018). */
+  recall: number;
+  elapsedMs: number;
+}
+
+export interface ModelTuning {
+  model: 'itemknn' | 'ials' | 'ease' | 'hybrid';
+  trials: GridTrial[];
+  best: TrialParams;
+  ndcg: number;
+}
+
+export interface TuneResult {
+  k: number;
+  seed: number;
+  split: { method: 'time' | 'random'; train: number; validation: number; customers: number; from: number | null };
+  models: ModelTuning[];
+  /** The best content weight of the hybrid (other weights at the brief defaults). */
+  hybridContentWeight: number;
+  /** The best settings as training parameters. */
+  params: NonNullable<TrainOptions['params']>;
+  elapsedMs: number;
+  notes: string[];
+}
+
+export interface TuneOptions {
+  /** K of NDCG@K. Default 10. */
+  k?: number;
+  seed?: number;
+  /** Validation customers measured (seeded sample). Default 1,000. */
+  sampleCustomers?: number;
+  /** iALS sweeps per trial. Default 15 (the training default). */
+  iterations?: number;
+  threads?: number;
+  signal?: AbortSignal;
+  onProgress?: (p: { model: string; trial: number; trials: number; fraction: number }) => void;
+}
+
+export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<TuneResult> {
+  const started = performance.now();
+  const k = o.k ?? 10;
+  const seed = o.seed ?? 1;
+  if (!Number.isInteger(k) || k < 1) throw new InputError(`k must be a whole number >= 1, got ${k}`, { column: 'k' });
+  if (ds.items.length === 0 || ds.signals.length === 0) throw new InputError('nothing to tune: import items and signals first');
+  const notes: string[] = [];
+  const split = validationSplit(ds, { seed });
+  const train = buildInteractionMatrix(ds, { rows: split.train });
+  const validation = buildInteractionMatrix(ds, { rows: split.validation });
+  const truth = sampleTruth(evalTruth(train, validation), o.sampleCustomers ?? 1000, seededRng(seed));
+  const ev = new RankingEvaluator(train, truth, k);
+  if (ev.customerCount === 0) throw new InputError('no customer has both train history and new validation items: too little data to tune');
+  const useEase = ds.items.length <= (TRAIN_EASE_DEFAULTS.maxItems ?? 5000);
+  if (!useEase) notes.push(`EASE not tuned: ${ds.items.length} items (training restricts it to the most active items)`);
+
+  const itemknn = itemKnnTrials();
+  const total = itemknn.length + (useEase ? EASE_GRID.lambda.length : 0) + IALS_CONFIDENCE_GRID.length + IALS_SIZE_GRID.length - 1 + HYBRID_CONTENT_GRID.length;
+  let done = 0;
+  // Fits run on this thread; yielding to the event loop before each one lets a poller (the CLI, the app's
+  // job status) see the progress and a cancel arrive between trials.
+  const step = async (model: string): Promise<void> => {
+    await new Promise((r) => setImmediate(r));
+    if (o.signal?.aborted) throw new CancelledError('tuning cancelled');
+    o.onProgress?.({ model, trial: done + 1, trials: total, fraction: done / total });
+    done++;
+  };
+  const measure = (name: string, m: Scorer): EvalResult => ev.evaluate({ name, scoreInto: (u, h, out) => m.scoreInto(u, h, out) });
+  const trial = (params: TrialParams, r: EvalResult, t0: number): GridTrial => ({
+    params,
+    ndcg: r.ndcg,
+    recall: r.cappedRecall,
+    elapsedMs: performance.now() - t0,
+  });
+  const fitOpts = o.signal ? { signal: o.signal } : {};
+  const models: ModelTuning[] = [];
+
+  // item-kNN: neighbours × shrinkage.
+  const knn = new Search<Scorer>('itemknn');
+  for (const p of itemknn) {
+    await step('itemknn');
+    const t0 = performance.now();
+    const m = fitItemKnn(train, p, fitOpts).model;
+    knn.offer(trial(p, measure('itemknn', m), t0), m);
+  }
+  models.push(knn.result());
+
+  // EASE: λ.
+  if (useEase) {
+    const ease = new Search<Scorer>('ease');
+    for (const lambda of EASE_GRID.lambda) {
+      await step('ease');
+      const t0 = performance.now();
+      const m = fitEase(train, { ...TRAIN_EASE_DEFAULTS, lambda }, fitOpts).model;
+      ease.offer(trial({ lambda }, measure('ease', m), t0), null);
+    }
+    models.push(ease.result());
+  }
+
+  // iALS: confidence first, then size.
+  const ials = new Search<Scorer>('ials');
+  const base = { ...IALS_SIZE_GRID[0]!, iterations: o.iterations ?? 15, seed };
+  const fitI = async (p: Partial<IalsParams>): Promise<void> => {
+    await step('ials');
+    const t0 = performance.now();
+    const m = (await fitIalsThreaded(train, p, { ...fitOpts, ...(o.threads !== undefined && { threads: o.threads }) })).model;
+    const shown: TrialParams = { factors: p.factors!, regularization: p.regularization!, alpha: p.alpha!, scaling: p.scaling! };
+    ials.offer(trial(shown, measure('ials', m), t0), m);
+  };
+  for (const c of IALS_CONFIDENCE_GRID) await fitI({ ...base, ...c });
+  const conf = { scaling: ials.best!.params['scaling'] as 'linear' | 'log', alpha: ials.best!.params['alpha'] as number };
+  for (const size of IALS_SIZE_GRID.slice(1)) await fitI({ ...base, ...size, ...conf });
+  models.push(ials.result());
+
+  // The hybrid's content weight, over the best collaborative and affinity models.
+  const content = fitContent(ds.items, {}, fitOpts).model;
+  const date = split.from ?? datasetDate(ds);
+  const h = new HybridScorer(
+    { content, collaborative: knn.bestModel!, affinity: ials.bestModel! },
+    {
+      customersPerItem: columnCounts(train),
+      trend: split.method === 'time' ? Float32Array.from(trendRatios(ds, { now: date })) : null,
+      addedAt: Float64Array.from(ds.items, (it) => it.addedAt ?? Number.NaN),
+    },
+  );
+  const hybrid = new CustomerHybrid(h, train, date);
+  hybrid.precompute(ev.customers);
+  const hy = new Search<Scorer>('hybrid');
+  for (const content of HYBRID_CONTENT_GRID) {
+    await step('hybrid');
+    const t0 = performance.now();
+    const eff = hybrid.effective({ ...DEFAULT_WEIGHTS, content });
+    const r = ev.evaluateFill('hybrid', (_u, c, out) => hybrid.blendCached(c, eff, out));
+    hy.offer(trial({ content }, r, t0), null);
+  }
+  models.push(hy.result());
+  o.onProgress?.({ model: 'hybrid', trial: total, trials: total, fraction: 1 });
+
+  const best = (name: string) => models.find((m) => m.model === name)?.best;
+  const bk = best('itemknn')!;
+  const bi = best('ials')!;
+  const be = best('ease');
+  return {
+    k,
+    seed,
+    split: { method: split.method, train: split.train.length, validation: split.validation.length, customers: ev.customerCount, from: split.from },
+    models,
+    hybridContentWeight: best('hybrid')!['content'] as number,
+    params: {
+      itemknn: { k: bk['k'] as number, shrink: bk['shrink'] as number },
+      ials: {
+        factors: bi['factors'] as number,
+        regularization: bi['regularization'] as number,
+        alpha: bi['alpha'] as number,
+        scaling: bi['scaling'] as 'linear' | 'log',
+        seed,
+        ...(o.iterations !== undefined && { iterations: o.iterations }),
+      },
+      ...(be && { ease: { ...TRAIN_EASE_DEFAULTS, lambda: be['lambda'] as number } }),
+    },
+    elapsedMs: performance.now() - started,
+    notes,
+  };
+}
+
+/** The running best of one model's grid (first of equals kept). */
+class Search<M> {
+  readonly trials: GridTrial[] = [];
+  best: GridTrial | null = null;
+  bestModel: M | null = null;
+  constructor(readonly model: ModelTuning['model']) {}
+  offer(t: GridTrial, model: M | null): void {
+    this.trials.push(t);
+    const score = Number.isNaN(t.ndcg) ? -1 : t.ndcg;
+    if (!this.best || score > (Number.isNaN(this.best.ndcg) ? -1 : this.best.ndcg) + 1e-9) {
+      this.best = t;
+      this.bestModel = model;
+    }
+  }
+  result(): ModelTuning {
+    return { model: this.model, trials: this.trials, best: this.best!.params, ndcg: this.best!.ndcg };
+  }
+}

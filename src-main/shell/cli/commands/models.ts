@@ -1,0 +1,311 @@
+import type { ResponseOf } from '../../../api/contract.ts';
+import type { HandlerTable } from '../../../api/handler-table.ts';
+import { call, CliApiError } from '../call.ts';
+import { EXIT, type CliCommand, type CommandEnv } from '../command.ts';
+import { formatNumber, table } from '../format.ts';
+import { UsageError } from '../command.ts';
+
+/** Training, evaluation, neighbours, ad-hoc proposals and the top-N export. Thin: flags → api calls → print. */
+
+const str = (env: CommandEnv, name: string): string | undefined => {
+  const v = env.values[name];
+  return typeof v === 'string' ? v : undefined;
+};
+const list = (env: CommandEnv, name: string): string[] => {
+  const v = env.values[name];
+  return Array.isArray(v) ? (v as string[]) : typeof v === 'string' ? [v] : [];
+};
+function num(env: CommandEnv, name: string, check: (x: number) => boolean, what: string): number | undefined {
+  const v = str(env, name);
+  if (v === undefined) return undefined;
+  const x = Number(v);
+  if (v.trim() === '' || !Number.isFinite(x) || !check(x)) throw new UsageError(`--${name} must be ${what}, got '${v}'`);
+  return x;
+}
+const int = (env: CommandEnv, name: string, min = 1) => num(env, name, (x) => Number.isInteger(x) && x >= min, `a whole number >= ${min}`);
+const nonNeg = (env: CommandEnv, name: string) => num(env, name, (x) => x >= 0, 'a number >= 0');
+const val = (x: number | null | undefined) => (x === null || x === undefined ? '–' : formatNumber(x));
+const only = <T extends object>(o: T) => Object.fromEntries(Object.entries(o).filter(([, v]) => v !== undefined)) as T;
+
+type Job = ResponseOf<'job.status'>;
+
+/** Polls a job to its end, printing progress on stderr: one updating line on a terminal, plain lines otherwise. */
+async function follow(env: CommandEnv, table_: HandlerTable, job: Job): Promise<Job> {
+  let last = '';
+  const onInt = () => void call(table_, 'job.cancel', { id: job.id });
+  process.once('SIGINT', onInt);
+  try {
+    let s = job;
+    for (;;) {
+      const p = s.progress;
+      const line = [
+        `${Math.round(p.fraction * 100)}%`.padStart(4),
+        p.stage,
+        p.model ?? '',
+        p.iteration !== undefined && p.iterations !== undefined ? `${p.iteration}/${p.iterations}` : '',
+      ].filter(Boolean).join(' ');
+      if (line !== last) {
+        if (env.io.errIsTty) process.stderr.write(`\r${line.padEnd(Math.max(last.length, line.length))}`);
+        else env.io.err(line);
+        last = line;
+      }
+      if (s.state !== 'running') break;
+      await new Promise((r) => setTimeout(r, 100));
+      s = await call(table_, 'job.status', { id: job.id });
+    }
+    if (env.io.errIsTty) process.stderr.write('\n');
+    if (s.state === 'failed') throw new CliApiError({ code: 'input', message: s.error ?? 'the job failed' });
+    if (s.state === 'cancelled') throw new CliApiError({ code: 'cancelled', message: 'cancelled: nothing was written' });
+    return s;
+  } finally {
+    process.removeListener('SIGINT', onInt);
+  }
+}
+
+const trainCommand: CliCommand = {
+  name: 'train',
+  summary: 'train the models (progress on stderr, a summary at the end); --tune searches each model\'s grid first',
+  usage: ['[--models content,itemknn,ials,ease,popularity] [--factors N] [--iterations N] [--tune [--k K]] [--json]'],
+  options: {
+    models: { type: 'string' },
+    factors: { type: 'string' },
+    iterations: { type: 'string' },
+    regularization: { type: 'string' },
+    alpha: { type: 'string' },
+    scaling: { type: 'string' },
+    neighbours: { type: 'string' },
+    shrink: { type: 'string' },
+    lambda: { type: 'string' },
+    threads: { type: 'string' },
+    seed: { type: 'string' },
+    tune: { type: 'boolean', default: false },
+    k: { type: 'string' },
+  },
+  help: [
+    'iALS: --factors, --iterations, --regularization, --alpha, --scaling linear|log (confidence 1+a*r or 1+a*log(1+r)), --seed',
+    'item-kNN: --neighbours, --shrink.  EASE: --lambda.',
+    '--tune: a seeded validation split (by time when the signals have times, else per customer at random), a small',
+    'grid per model chosen by NDCG@K (--k, default 10), the best refitted on all signals and stored with the grid.',
+  ].join('\n'),
+  async run(env) {
+    const models = str(env, 'models')?.split(',').map((m) => m.trim()).filter(Boolean);
+    const scaling = str(env, 'scaling');
+    if (scaling !== undefined && scaling !== 'linear' && scaling !== 'log') throw new UsageError(`--scaling must be linear or log, got '${scaling}'`);
+    const ials = only({
+      factors: int(env, 'factors'),
+      iterations: int(env, 'iterations'),
+      regularization: nonNeg(env, 'regularization'),
+      alpha: nonNeg(env, 'alpha'),
+      scaling: scaling as 'linear' | 'log' | undefined,
+      seed: int(env, 'seed', 0),
+    });
+    const itemknn = only({ k: int(env, 'neighbours'), shrink: nonNeg(env, 'shrink') });
+    const lambda = num(env, 'lambda', (x) => x > 0, 'a number > 0');
+    const k = int(env, 'k');
+    if (k !== undefined && !env.values['tune']) throw new UsageError('--k sets the tuning cut-off; use it with --tune');
+    const { table: t } = env.api();
+    const job = await call(t, 'train.start', only({
+      models: models as ('content' | 'itemknn' | 'ials' | 'ease' | 'popularity')[] | undefined,
+      ials: Object.keys(ials).length ? ials : undefined,
+      itemknn: Object.keys(itemknn).length ? itemknn : undefined,
+      ease: lambda !== undefined ? { lambda } : undefined,
+      threads: int(env, 'threads'),
+      tune: env.values['tune'] ? only({ k: k ?? 10, seed: int(env, 'seed', 0) }) : undefined,
+    }));
+    const end = await follow(env, t, job);
+    const { models: stored } = await call(t, 'models.list', {});
+    if (env.json) {
+      env.io.out(JSON.stringify({ job: end, models: stored }, null, 2));
+      return EXIT.ok;
+    }
+    const rows = stored.map((m) => [
+      m.kind,
+      m.trainMs / 1000,
+      m.iterations ?? '–',
+      m.losses.length ? (m.losses.at(-1) as number) : '–',
+      m.tuning
+        ? `${m.tuning.grid.model === 'hybrid' ? 'hybrid ' : ''}${Object.entries(m.tuning.grid.best).map(([a, b]) => `${a}=${b}`).join(' ')} (NDCG@${m.tuning.k} ${val(m.tuning.grid.ndcg)})`
+        : '',
+      m.notes.join('; '),
+    ]);
+    env.io.out(`${end.summary ?? 'done'}\n${table(['model', 'seconds', 'iterations', 'final loss', 'tuned', 'notes'], rows)}`);
+    return EXIT.ok;
+  },
+};
+
+type Row = ResponseOf<'evaluate.latest'>['evaluation'] extends infer E ? (E extends { rows: (infer R)[] } ? R : never) : never;
+
+function metricsTable(rows: Row[], k: number, extra: (r: Row) => (string | number)[] = () => [], extraHead: string[] = []): string {
+  return table(
+    ['model', `Recall@${k}`, `Precision@${k}`, `NDCG@${k}`, `MAP@${k}`, `HitRate@${k}`, 'coverage', 'novelty', 'customers', ...extraHead],
+    rows.map((r) => [r.model, val(r.recall), val(r.precision), val(r.ndcg), val(r.map), val(r.hitRate), val(r.coverage), val(r.novelty), r.customers, ...extra(r)]),
+  );
+}
+
+const evaluateCommand: CliCommand = {
+  name: 'evaluate',
+  summary: 'evaluate every model against baselines on a time split, or against your own holdout file (--holdout)',
+  usage: ['[--k K] [--sample N] [--json]', '--holdout FILE [--k K] [--map FIELD=HEADER ...] [--format csv|jsonl|json] [--json]'],
+  options: {
+    k: { type: 'string' },
+    sample: { type: 'string' },
+    holdout: { type: 'string' },
+    map: { type: 'string', multiple: true },
+    format: { type: 'string' },
+    delimiter: { type: 'string' },
+  },
+  help: [
+    'Recall@K divides by min(K, |held-out items|) (Liang et al. 2018); NDCG@K is binary with a log2 discount.',
+    'Holdout file: customer, item, optional value and time, headers matched as for a signal import;',
+    '--map customer=User maps a column by hand. Unknown customers and items are counted and reported.',
+  ].join('\n'),
+  async run(env) {
+    const holdout = str(env, 'holdout');
+    const k = int(env, 'k');
+    const { table: t } = env.api();
+    if (holdout) {
+      const mapping: Record<string, string> = {};
+      for (const m of list(env, 'map')) {
+        const eq = m.indexOf('=');
+        if (eq <= 0) throw new UsageError(`--map takes FIELD=HEADER, got '${m}'`);
+        mapping[m.slice(0, eq).trim()] = m.slice(eq + 1).trim();
+      }
+      const format = str(env, 'format');
+      if (format !== undefined && !['csv', 'json', 'jsonl'].includes(format)) throw new UsageError(`--format must be csv, json or jsonl, got '${format}'`);
+      const r = await call(t, 'evaluate.holdout', only({
+        source: { file: holdout },
+        k: k ?? 20,
+        mapping: Object.keys(mapping).length ? mapping : undefined,
+        format: format as 'csv' | 'json' | 'jsonl' | undefined,
+        delimiter: str(env, 'delimiter'),
+      }));
+      if (env.json) {
+        env.io.out(JSON.stringify(r, null, 2));
+        return EXIT.ok;
+      }
+      const unk = (what: string, u: typeof r.unknownCustomers) =>
+        u.distinct ? `${u.distinct} unknown ${what} (${u.rows} rows), e.g. ${u.examples.join(', ')}` : `no unknown ${what}`;
+      env.io.out(
+        [
+          `${r.file}: ${r.rows} rows, ${r.pairs} held-out pairs, ${r.customers} customers evaluated at K=${r.k}`,
+          `${unk('customers', r.unknownCustomers)}; ${unk('items', r.unknownItems)}`,
+          `${r.alreadyInWorkspace} pairs already in the workspace, ${r.duplicateRows} duplicate rows, ` +
+            `${r.customersWithoutNewItems} customers with nothing new, ${r.coldCustomers} customers with no history`,
+          r.models.some((m) => m.stale)
+            ? metricsTable(r.models, r.k, (m) => [(m as { stale?: boolean | null }).stale ? 'stale: retrain' : ''], ['model data'])
+            : metricsTable(r.models, r.k),
+          `hybrid: ${r.weightsFrom}`,
+          ...r.notes,
+        ].join('\n'),
+      );
+      return EXIT.ok;
+    }
+    const job = await call(t, 'evaluate.start', only({ k: k ?? 10, sampleCustomers: int(env, 'sample') }));
+    await follow(env, t, job);
+    const { evaluation: e } = await call(t, 'evaluate.latest', {});
+    if (!e) throw new CliApiError({ code: 'internal', message: 'the evaluation stored nothing' });
+    if (env.json) {
+      env.io.out(JSON.stringify(e, null, 2));
+      return EXIT.ok;
+    }
+    const w = Object.entries(e.weights).map(([a, b]) => `${a} ${formatNumber(b)}`).join(', ');
+    env.io.out(`${metricsTable(e.rows, e.k)}\nsplit: ${e.split.train} train, ${e.split.validation} validation, ${e.split.test} test signals; hybrid weights: ${w}${e.notes.length ? `\n${e.notes.join('\n')}` : ''}`);
+    return EXIT.ok;
+  },
+};
+
+const similarCommand: CliCommand = {
+  name: 'similar',
+  summary: 'the items most like ITEM, with content and collaborative similarity for each',
+  usage: ['ITEM [--n N] [--json]'],
+  options: { n: { type: 'string' } },
+  async run(env) {
+    if (env.positionals.length !== 1) throw new UsageError(env.positionals.length ? `unexpected argument '${env.positionals[1]}'` : 'missing ITEM');
+    const { table: t } = env.api();
+    const r = await call(t, 'item.similar', { item: env.positionals[0]!, n: int(env, 'n') ?? 10 });
+    if (env.json) {
+      env.io.out(JSON.stringify(r, null, 2));
+      return EXIT.ok;
+    }
+    const rows = r.neighbours.map((x, q) => [q + 1, x.item, x.title, x.category, val(x.score), val(x.content), val(x.collaborative), x.mainReason, x.coldStart ? 'cold start' : '', x.promoted ? 'Sponsored' : '']);
+    env.io.out(`${r.item.item}  ${r.item.title} (${r.item.category})\n${table(['#', 'item', 'title', 'category', 'score', 'content', 'collaborative', 'mostly', '', ''], rows)}${r.notes.length ? `\n${r.notes.join('\n')}` : ''}`);
+    return EXIT.ok;
+  },
+};
+
+const proposeCommand: CliCommand = {
+  name: 'propose',
+  summary: 'a ranked, explained pool for an ad-hoc brief given by flags',
+  usage: ['[--anchor ITEM ...] [--category C ...] [--exclude-category C ...] [--tag T ...] [--supplier S ...] [--min-price P] [--max-price P] [--max-age-days D] [--n N] [--date YYYY-MM-DD] [--json]'],
+  options: {
+    anchor: { type: 'string', multiple: true },
+    category: { type: 'string', multiple: true },
+    'exclude-category': { type: 'string', multiple: true },
+    tag: { type: 'string', multiple: true },
+    supplier: { type: 'string', multiple: true },
+    'min-price': { type: 'string' },
+    'max-price': { type: 'string' },
+    'max-age-days': { type: 'string' },
+    n: { type: 'string' },
+    date: { type: 'string' },
+  },
+  async run(env) {
+    if (env.positionals.length) throw new UsageError(`unexpected argument '${env.positionals[0]}'`);
+    const { table: t } = env.api();
+    const r = await call(t, 'propose', only({
+      anchors: list(env, 'anchor'),
+      categories: list(env, 'category'),
+      excludeCategories: list(env, 'exclude-category'),
+      tags: list(env, 'tag'),
+      suppliers: list(env, 'supplier'),
+      minPrice: nonNeg(env, 'min-price'),
+      maxPrice: nonNeg(env, 'max-price'),
+      maxAgeDays: nonNeg(env, 'max-age-days'),
+      n: int(env, 'n') ?? 20,
+      date: str(env, 'date'),
+    }));
+    if (env.json) {
+      env.io.out(JSON.stringify(r, null, 2));
+      return EXIT.ok;
+    }
+    const why = (c: Record<string, number>) =>
+      Object.entries(c).filter(([, v]) => v > 0).sort((a, b) => b[1] - a[1]).slice(0, 3).map(([k, v]) => `${k} ${formatNumber(v)}`).join(', ');
+    const rows = r.items.map((x, q) => [q + 1, x.item, x.title, x.category, Math.round(x.percentile), why(x.contributions),
+      x.evidence.content[0]?.title ?? x.evidence.collaborative[0]?.title ?? '', x.coldStart ? 'cold start' : '', x.sponsored ? 'Sponsored' : '']);
+    env.io.out(`pool of ${r.poolSize} on ${r.date}\n${table(['#', 'item', 'title', 'category', 'pct', 'because', 'like', '', ''], rows)}${r.notes.length ? `\n${r.notes.join('\n')}` : ''}`);
+    return EXIT.ok;
+  },
+};
+
+const recommendCommand: CliCommand = {
+  name: 'recommend',
+  summary: "write each customer's top-N (CSV or JSON Lines) with per-component contributions",
+  usage: ['(--customers FILE | --all) --top N --out FILE [--format csv|jsonl] [--json]'],
+  options: { customers: { type: 'string' }, all: { type: 'boolean', default: false }, top: { type: 'string' }, out: { type: 'string' }, format: { type: 'string' } },
+  help: 'Customers file: one external id per line (a header line is skipped). Ties: higher score, then lower item id.',
+  async run(env) {
+    const customersFile = str(env, 'customers');
+    const all = env.values['all'] === true;
+    if (!customersFile === !all) throw new UsageError('give exactly one of --customers FILE and --all');
+    const out = str(env, 'out');
+    if (!out) throw new UsageError('missing --out FILE');
+    const top = int(env, 'top');
+    if (top === undefined) throw new UsageError('missing --top N');
+    const format = str(env, 'format');
+    if (format !== undefined && format !== 'csv' && format !== 'jsonl') throw new UsageError(`--format must be csv or jsonl, got '${format}'`);
+    const { table: t } = env.api();
+    const r = await call(t, 'recommend', only({ customersFile, all, n: top, out, format: format as 'csv' | 'jsonl' | undefined }));
+    if (env.json) env.io.out(JSON.stringify(r, null, 2));
+    else {
+      const u = r.unknownCustomers;
+      env.io.out(
+        `${r.file}: ${r.rows} rows for ${r.customers} customers (${r.format}) in ${formatNumber(r.elapsedMs / 1000)} s` +
+          (u.distinct ? `\n${u.distinct} unknown customers skipped, e.g. ${u.examples.join(', ')}` : '') +
+          `\nties: ${r.tieRule}; hybrid: ${r.weightsFrom}${r.notes.length ? `\n${r.notes.join('\n')}` : ''}`,
+      );
+    }
+    return EXIT.ok;
+  },
+};
+
+export const modelCommands: readonly CliCommand[] = [trainCommand, evaluateCommand, similarCommand, proposeCommand, recommendCommand];

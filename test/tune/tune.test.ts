@@ -1,0 +1,131 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { generateDemoShop } from '../../demo-data/generator/index.ts';
+import { createHandlerTable, invoke } from '../../src-main/api/handler-table.ts';
+import { confidence } from '../../src-main/core/models/ials-params.ts';
+import { AppContext } from '../../src-main/services/context.ts';
+import { importFile } from '../../src-main/services/import.ts';
+import { EASE_GRID, HYBRID_CONTENT_GRID, IALS_CONFIDENCE_GRID, IALS_SIZE_GRID, itemKnnTrials } from '../../src-main/services/tune/grid.ts';
+import { validationSplit } from '../../src-main/services/tune/split.ts';
+import { tuneDataset } from '../../src-main/services/tune/tune.ts';
+import { loadDataset } from '../../src-main/store/dataset.ts';
+import { ModelRepo } from '../../src-main/store/models.ts';
+import { openWorkspace, type Db } from '../../src-main/store/workspace.ts';
+import { handWorkspace, tempDir } from '../holdout/fixture.ts';
+
+let dir: string;
+let shop: Db;
+
+beforeAll(async () => {
+  dir = tempDir('tune');
+  const s = await generateDemoShop({ seed: 11, items: 100, customers: 300, signals: 6000, outDir: dir });
+  shop = openWorkspace(path.join(dir, 'shop.sqlite'));
+  for (const target of ['items', 'customers', 'signals'] as const) await importFile(shop, { target, file: s.files[target] });
+}, 30_000);
+afterAll(() => {
+  shop?.close();
+  if (dir) fs.rmSync(dir, { recursive: true, force: true });
+});
+
+describe('validationSplit', () => {
+  it('splits timed signals by time: every validation signal is at or after every train signal', () => {
+    const ds = loadDataset(shop);
+    const s = validationSplit(ds, { share: 0.2 });
+    expect(s.method).toBe('time');
+    expect(s.train.length + s.validation.length).toBe(ds.signals.length);
+    let lastTrain = -Infinity;
+    for (const k of s.train) lastTrain = Math.max(lastTrain, ds.signals.at[k]!);
+    for (const k of s.validation) expect(ds.signals.at[k]!).toBeGreaterThanOrEqual(s.from!);
+    expect(lastTrain).toBeLessThan(s.from!);
+    expect(s.validation.length / ds.signals.length).toBeGreaterThan(0.15);
+  });
+
+  it('without times holds out whole pairs per customer at random, seeded, never a customer\'s last item', async () => {
+    const d = tempDir('tune-hand');
+    const { db } = await handWorkspace(d);
+    try {
+      const ds = loadDataset(db);
+      const a = validationSplit(ds, { seed: 4 });
+      expect(a.method).toBe('random');
+      expect(validationSplit(ds, { seed: 4 })).toEqual(a);
+      const pair = (k: number) => `${ds.signals.customer[k]}:${ds.signals.item[k]}`;
+      const trainPairs = new Set(Array.from(a.train, pair));
+      for (const k of a.validation) expect(trainPairs.has(pair(k))).toBe(false);
+      // Every customer of the fixture has 2 or 3 items: each keeps at least one in train and gives one.
+      const perCustomer = (rows: Int32Array) => new Set(Array.from(rows, (k) => ds.signals.customer[k]));
+      expect(perCustomer(a.train).size).toBe(4);
+      expect(perCustomer(a.validation).size).toBe(4);
+    } finally {
+      db.close();
+      fs.rmSync(d, { recursive: true, force: true });
+    }
+  });
+});
+
+describe('confidence scalings searched by the grid', () => {
+  it('match Hu, Koren & Volinsky (2008): linear 1 + a*r (eq. 2) and log 1 + a*log(1 + r/e) (section 4)', () => {
+    // r = 3, a = 2, e = 1: linear 1 + 6 = 7; log 1 + 2 ln 4 = 3.7725887 (natural log, as in the paper).
+    expect(confidence({ alpha: 2, scaling: 'linear', epsilon: 1 }, 3)).toBe(7);
+    expect(confidence({ alpha: 2, scaling: 'log', epsilon: 1 }, 3)).toBeCloseTo(3.7725887, 6);
+    expect(new Set(IALS_CONFIDENCE_GRID.map((g) => g.scaling))).toEqual(new Set(['linear', 'log']));
+  });
+});
+
+describe('tuneDataset', () => {
+  it('tries every grid point once and keeps the best NDCG of each model', async () => {
+    const r = await tuneDataset(loadDataset(shop), { k: 10, seed: 3, iterations: 4, threads: 2, sampleCustomers: 200 });
+    const grid = (m: string) => r.models.find((x) => x.model === m)!;
+    expect(grid('itemknn').trials).toHaveLength(itemKnnTrials().length);
+    expect(grid('ease').trials).toHaveLength(EASE_GRID.lambda.length);
+    expect(grid('ials').trials).toHaveLength(IALS_CONFIDENCE_GRID.length + IALS_SIZE_GRID.length - 1);
+    expect(grid('hybrid').trials).toHaveLength(HYBRID_CONTENT_GRID.length);
+    for (const m of r.models) {
+      const best = Math.max(...m.trials.map((t) => t.ndcg));
+      expect(m.ndcg).toBe(best);
+      expect(m.trials.find((t) => t.ndcg === best)!.params).toEqual(m.best);
+    }
+    expect(r.params.ials).toMatchObject(grid('ials').best);
+    expect(r.params.itemknn).toEqual(grid('itemknn').best);
+    expect(r.params.ease!.lambda).toBe(grid('ease').best['lambda']);
+    expect(HYBRID_CONTENT_GRID).toContain(r.hybridContentWeight);
+    expect(r.split.method).toBe('time');
+  }, 30_000);
+});
+
+describe('train.start with tune', () => {
+  it('tunes a workspace with no times, tags but no descriptions and untouched items, and stores the grids with the models', async () => {
+    const d = tempDir('tune-api');
+    const { db, file } = await handWorkspace(d);
+    db.close();
+    const ctx = new AppContext();
+    ctx.open(file, { create: false });
+    try {
+      const table = createHandlerTable(ctx);
+      // A cancel while tuning stops the thread and writes nothing.
+      const first = await invoke(table, 'train.start', { ials: { iterations: 3 }, threads: 1, tune: { k: 3 } });
+      const id = (first as { value: { id: string } }).value.id;
+      while (ctx.jobs.status(id).progress.stage !== 'tune' && ctx.jobs.status(id).state === 'running') await new Promise((r) => setTimeout(r, 2));
+      await invoke(table, 'job.cancel', { id });
+      expect((await ctx.jobs.settled(id)).state).toBe('cancelled');
+      expect(new ModelRepo(ctx.db).list()).toHaveLength(0);
+      const started = await invoke(table, 'train.start', { ials: { iterations: 3 }, threads: 1, tune: { k: 3 } });
+      expect(started.ok).toBe(true);
+      const job = await ctx.jobs.settled((started as { value: { id: string } }).value.id);
+      expect(job.error).toBeNull();
+      expect(job.state).toBe('done');
+      expect(job.summary).toMatch(/random split/);
+      const list = await invoke(table, 'models.list', {});
+      if (!list.ok) throw new Error(list.error.message);
+      const models = (list.value as { models: { kind: string; params: Record<string, unknown>; tuning: { grid: { best: Record<string, unknown> }; hybridContentWeight?: number } | null }[] }).models;
+      const ials = models.find((m) => m.kind === 'ials')!;
+      expect(ials.tuning).not.toBeNull();
+      expect(ials.params).toMatchObject(ials.tuning!.grid.best);
+      expect(models.find((m) => m.kind === 'itemknn')!.params).toMatchObject(models.find((m) => m.kind === 'itemknn')!.tuning!.grid.best);
+      expect(HYBRID_CONTENT_GRID).toContain(models.find((m) => m.kind === 'content')!.tuning!.hybridContentWeight);
+    } finally {
+      ctx.close();
+      fs.rmSync(d, { recursive: true, force: true });
+    }
+  }, 30_000);
+});

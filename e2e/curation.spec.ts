@@ -1,0 +1,130 @@
+import AxeBuilder from '@axe-core/playwright';
+import fs from 'node:fs';
+import { createHandlerTable, invoke } from '../src-main/api/handler-table.ts';
+import { formatDelta } from '../src-renderer/components/Meter.tsx';
+import { expect, test } from './fixtures.ts';
+
+/**
+ * The editor's week: start an edition, add two shelves, pin, boost and ban on one of them, watch the
+ * meter follow, publish and export. Timings are printed, not asserted (DESIGN.md: benchmarks measure them).
+ */
+test('an edition with two shelves: pin, boost, ban, live meter, publish, export', async ({ page, app }) => {
+  await page.goto(app.shell.origin);
+  await page.getByRole('button', { name: 'Editions' }).click();
+  await page.getByLabel('Name').fill('Week 49');
+  await page.getByLabel('Date').fill('2026-12-07');
+  await page.getByRole('button', { name: 'Start edition' }).click();
+  await expect(page.getByRole('heading', { name: /Week 49/ })).toBeVisible();
+
+  for (const [label, size] of [['Homepage row', '6'], ['Newsletter block', '4']] as const) {
+    await page.getByLabel('Shelf name').fill(label);
+    await page.getByLabel('Slots').fill(size);
+    await page.getByRole('button', { name: 'Add shelf' }).click();
+    await expect(page.getByRole('article', { name: `Shelf ${label}` })).toBeVisible();
+  }
+  await expect(page.getByRole('article', { name: 'Shelf Homepage row' })).toContainText('6 of 6 slots filled');
+  await expect(page.getByRole('article', { name: 'Shelf Newsletter block' })).toContainText('4 of 4 slots filled');
+  // Twelve items, no repeats within an edition by default: the two shelves share nothing.
+  await expect(page.getByLabel('Edition meter')).toContainText('Distinct items10');
+
+  await page.getByRole('button', { name: 'Edit shelf Homepage row' }).click();
+  const slots = page.getByRole('list', { name: 'Slots' });
+  const slot = (n: number) => slots.getByRole('listitem', { name: new RegExp(`^Slot ${n}:`) });
+  await expect(slot(6)).toBeVisible();
+
+  await slot(2).getByRole('button', { name: 'Pin' }).click();
+  await expect(slot(2).getByText('Pinned', { exact: true })).toBeVisible();
+
+  await slot(4).getByRole('button', { name: 'Boost' }).click();
+  await expect(page.locator('.history li')).toHaveCount(2);
+
+  const firstTitle = (await slot(1).locator('.slot-title').innerText()).replace(/\s*(Sponsored|Pinned)\s*/g, '').trim();
+  const t0 = performance.now();
+  await slot(1).getByRole('button', { name: 'Ban' }).click();
+  await expect(slots).not.toContainText(firstTitle);
+  console.log(`timing: ban shown on screen (list + meter) ${(performance.now() - t0).toFixed(0)} ms after the click`);
+
+  // The meter on screen is the live one: it equals what the api reports for the shelf now.
+  const live = await invoke(createHandlerTable(app.ctx), 'shelf.show', { edition: 'Week 49', shelf: 'Homepage row' });
+  expect(live.ok).toBe(true);
+  const meter = (live as { ok: true; value: { meter: { intraListDistance: number | null } } }).value.meter;
+  const variety = meter.intraListDistance === null ? '—' : meter.intraListDistance.toFixed(2);
+  await expect(page.getByLabel('Shelf meter').locator('.reading', { hasText: 'Variety' })).toContainText(variety);
+  await expect(page.locator('.history li')).toHaveText(['Pinned', 'Boosted or sank', 'Banned']);
+  await expect(slot(2).getByText('Pinned', { exact: true })).toBeVisible();
+
+  // What-if: pointing at a candidate, or focusing it by keyboard, shows on the meter what it would change.
+  await page.getByLabel('For slot').selectOption('5');
+  const pool = page.getByRole('list', { name: 'Candidates for this slot' });
+  const first = pool.getByRole('listitem').first();
+  await expect(first).toBeVisible();
+  const candidate = (await first.locator('.slot-title').innerText()).trim();
+  const meterPanel = page.getByLabel('Shelf meter');
+  const whatif = await invoke(createHandlerTable(app.ctx), 'shelf.whatif', { edition: 'Week 49', shelf: 'Homepage row', slot: 5, n: 200 });
+  const row = (whatif as { ok: true; value: { candidates: { title: string; delta: Record<string, number | null> }[] } }).value.candidates.find((c) => c.title === candidate);
+  const expectedVariety = formatDelta(row?.delta.intraListDistance, 'n');
+  await first.hover();
+  await expect(meterPanel).toContainText(`If ${candidate} went into slot 5:`);
+  await expect(meterPanel.locator('.reading', { hasText: 'Variety' }).locator('.delta')).toHaveText(` ${expectedVariety}`);
+  await page.mouse.move(5, 5);
+  await expect(meterPanel).toContainText('Point at or focus a candidate');
+  await first.getByRole('button', { name: `Pin ${candidate} into slot 5` }).focus();
+  await expect(meterPanel).toContainText(`If ${candidate} went into slot 5:`);
+  const t1 = performance.now();
+  await page.keyboard.press('Enter');
+  await expect(slot(5).locator('.slot-title')).toContainText(candidate);
+  console.log(`timing: pin from the pool shown on screen ${(performance.now() - t1).toFixed(0)} ms after the key press`);
+  await expect(slot(5).getByText('Pinned', { exact: true })).toBeVisible();
+
+  // Reordering by keyboard alone: Space lifts, ArrowDown moves, Space drops (dnd-kit KeyboardSensor).
+  const third = (await slot(3).locator('.slot-title').innerText()).replace(/\s*(Sponsored|Pinned)\s*/g, '').trim();
+  await slot(3).getByRole('button', { name: /^Move / }).focus();
+  const announcer = page.locator('[id^=DndLiveRegion]');
+  await page.keyboard.press('Space');
+  await expect(announcer).toContainText(`${third} is over slot 3.`);
+  await page.keyboard.press('ArrowDown');
+  await expect(announcer).toContainText(`${third} is over slot 4.`);
+  await page.keyboard.press('Space');
+  await expect(slot(4).locator('.slot-title')).toContainText(third);
+  await expect(page.locator('.history li').last()).toHaveText('Moved');
+  await expect(page.locator('.history li')).toHaveCount(5);
+
+  const axe = await new AxeBuilder({ page }).analyze();
+  expect(axe.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.help}`)).toEqual([]);
+  await page.screenshot({ path: 'test-results/shelf-editor.png', fullPage: true });
+
+  await page.getByRole('button', { name: 'Back to edition' }).click();
+  await page.getByRole('button', { name: 'Publish edition' }).click();
+  await expect(page.getByRole('heading', { name: /Published/ })).toBeVisible();
+
+  const download = page.waitForEvent('download');
+  await page.getByLabel('Format').selectOption('csv');
+  await page.getByRole('button', { name: 'Export edition' }).click();
+  const file = await (await download).path();
+  const csv = fs.readFileSync(file, 'utf8');
+  const homepage = csv.split('\n').filter((l) => l.includes(',Homepage row,'));
+  expect(homepage).toHaveLength(6);
+  // Banned for this shelf only: it may still sit on the other shelf, never on this one.
+  expect(homepage.join('\n')).not.toContain(firstTitle);
+  expect(csv.split('\n')[0]).toContain('sponsored');
+  await expect(page.getByText(/Saved Week-49\.csv/)).toBeVisible();
+});
+
+test('history compares a new edition copied from the published one', async ({ page, app }) => {
+  await page.goto(app.shell.origin);
+  await page.getByRole('button', { name: 'Editions' }).click();
+  await page.getByLabel('Name').fill('Week 50');
+  await page.getByLabel('Date').fill('2026-12-14');
+  await page.getByLabel('Copy shelves and briefs from').selectOption('Week 49');
+  await page.getByRole('button', { name: 'Start edition' }).click();
+  await expect(page.getByRole('article', { name: 'Shelf Homepage row' })).toBeVisible();
+  await page.getByRole('button', { name: 'History' }).click();
+  await expect(page.getByText(/^Week 49 · 2026-12-07 · published/)).toBeVisible();
+  await page.getByLabel('Earlier edition').selectOption('Week 49');
+  await page.getByLabel('Later edition').selectOption('Week 50');
+  await page.getByRole('button', { name: 'Compare' }).click();
+  const table = page.getByRole('table').last();
+  await expect(table.getByRole('row')).toHaveCount(3);
+  await expect(table).toContainText('Homepage row');
+  await expect(table).toContainText('Newsletter block');
+});

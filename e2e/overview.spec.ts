@@ -1,0 +1,33 @@
+import AxeBuilder from '@axe-core/playwright';
+import { expect, test } from './fixtures.ts';
+import { SHOP } from './seed.ts';
+
+test('overview of a small workspace shows its real counts and passes an accessibility check', async ({ page, app }) => {
+  const t0 = performance.now();
+  await page.goto(app.shell.origin);
+  const counts = page.getByRole('definition');
+  await expect(page.getByRole('heading', { name: 'Workspace overview' })).toBeVisible();
+  await expect(counts).toHaveText([String(SHOP.items), String(SHOP.customers), String(SHOP.signals)]);
+  console.log(`timing: first screen with counts ${(performance.now() - t0).toFixed(0)} ms after navigation`);
+  await expect(page.getByText(app.workspace)).toBeVisible();
+
+  const axe = await new AxeBuilder({ page }).analyze();
+  const bad = axe.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
+  expect(bad.map((v) => `${v.id}: ${v.help}`)).toEqual([]);
+  await page.screenshot({ path: 'test-results/overview.png', fullPage: true });
+});
+
+test('opening a missing file shows the error beside the form and keeps the workspace', async ({ page, app }) => {
+  await page.goto(app.shell.origin);
+  await expect(page.getByRole('definition').first()).toHaveText(String(SHOP.items));
+  await page.getByLabel('Workspace file (path on this computer)').fill(`${app.dir}/nowhere.sqlite`);
+  await page.getByRole('button', { name: 'Open' }).click();
+  await expect(page.getByRole('alert')).toContainText('Could not open that file: no workspace at');
+  await expect(page.getByRole('definition').first()).toHaveText(String(SHOP.items));
+});
+
+test('the api refuses a call that lacks the launch token', async ({ page, app }) => {
+  const res = await page.request.post(`${app.shell.origin}api/workspace.info`, { data: {} });
+  expect(res.status()).toBe(401);
+  expect(await res.json()).toEqual({ ok: false, error: { code: 'input', message: 'missing or wrong launch token' } });
+});

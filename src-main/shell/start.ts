@@ -1,0 +1,96 @@
+/**
+ * `npm start`: build the page if needed, make sure a workspace exists, then open the app: Electron when
+ * its binary is installed, otherwise the loopback web shell in a Chromium app window (or just its URL).
+ * DESIGN.md, Shells. This file must never load Electron: the Node path runs where Electron cannot.
+ */
+import { spawn, spawnSync } from 'node:child_process';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { InputError } from '../core/errors.ts';
+import { createHandlerTable } from '../api/handler-table.ts';
+import { AppContext } from '../services/context.ts';
+import { parseStartArgs, type StartArgs } from './launch/args.ts';
+import { chromiumAppArgs, findChromium } from './launch/browser.ts';
+import { ensureDemo } from './launch/demo.ts';
+import { electronNativeBinding } from './electron/native-binding.ts';
+import { findElectronBinary } from './launch/electron.ts';
+import { rendererNeedsBuild } from './launch/renderer-build.ts';
+import { startWebShell } from './web/server.ts';
+
+const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
+const RENDERER_DIST = path.join(ROOT, 'dist', 'renderer');
+const VITE = path.join(ROOT, 'node_modules', 'vite', 'bin', 'vite.js');
+
+function viteBuild(extra: readonly string[] = []): void {
+  const args = [VITE, 'build', '--logLevel', 'warn', ...extra];
+  const r = spawnSync(process.execPath, args, { cwd: ROOT, stdio: 'inherit' });
+  if (r.status !== 0) throw new Error(`vite build failed (exit ${r.status ?? r.signal})`);
+}
+
+function ensureRenderer(): void {
+  const sources = ['src-renderer', 'src-main/api', 'src-main/core'].map((d) => path.join(ROOT, d));
+  if (!rendererNeedsBuild(RENDERER_DIST, sources)) return;
+  console.log('Building the page (vite build)...');
+  viteBuild();
+}
+
+function launchElectron(binary: string, workspace: string): void {
+  const mainJs = path.join(ROOT, 'dist-electron', 'main.cjs');
+  const config = path.join(ROOT, 'src-main/shell/electron/vite.electron.config.ts');
+  for (const mode of ['main', 'preload']) viteBuild(['--config', config, '--mode', mode]);
+  console.log(`Opening Shelfwright (Electron) on ${workspace}`);
+  const child = spawn(binary, [mainJs, '--workspace', workspace], { cwd: ROOT, stdio: 'inherit' });
+  child.on('exit', (code) => process.exit(code ?? 0));
+}
+
+async function launchWeb(args: StartArgs, workspace: string): Promise<void> {
+  const ctx = new AppContext();
+  ctx.open(workspace, { create: true });
+  const shell = await startWebShell({ table: createHandlerTable(ctx), staticDir: RENDERER_DIST, port: args.port });
+  console.log(`Shelfwright is running at ${shell.pageUrl}`);
+  console.log('Press Ctrl+C to stop.');
+  const stop = async () => {
+    await shell.close();
+    ctx.close();
+    process.exit(0);
+  };
+  process.on('SIGINT', () => void stop());
+  process.on('SIGTERM', () => void stop());
+  if (args.noBrowser) return;
+  const browser = findChromium(process.env.PATH);
+  if (!browser) {
+    console.log('No Chromium or Chrome found on PATH: open the address above in a browser.');
+    return;
+  }
+  const profile = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-profile-'));
+  const child = spawn(browser, chromiumAppArgs(shell.pageUrl, profile), { stdio: 'ignore' });
+  child.on('error', (e) => console.log(`Could not open ${browser} (${e.message}); open the address above instead.`));
+  // Closing the app window ends the session and removes the throw-away profile.
+  child.on('exit', () => {
+    fs.rmSync(profile, { recursive: true, force: true });
+    void stop();
+  });
+}
+
+async function main(): Promise<void> {
+  const args = parseStartArgs(process.argv.slice(2));
+  const workspace = path.resolve(args.workspace ?? path.join(ROOT, '.workspaces', 'demo.sqlite'));
+  ensureRenderer();
+  if (!fs.existsSync(workspace)) console.log(`First launch: building the demo workspace at ${workspace}`);
+  await ensureDemo(workspace);
+  let electron = args.web || args.noBrowser ? null : findElectronBinary(ROOT);
+  if (electron && !electronNativeBinding(ROOT)) {
+    // Without its own better-sqlite3 build Electron would fail to load the Node one (ABI mismatch).
+    console.log('Electron is installed but build/electron/better_sqlite3.node is missing: run `npm run rebuild:electron`. Using the web shell.');
+    electron = null;
+  }
+  if (electron) launchElectron(electron, workspace);
+  else await launchWeb(args, workspace);
+}
+
+main().catch((e: unknown) => {
+  console.error(e instanceof InputError ? e.describe() : `shelfwright: ${(e as Error).message}`);
+  process.exit(1);
+});

@@ -1,0 +1,156 @@
+import { randomBytes } from 'node:crypto';
+import fs from 'node:fs';
+import http, { type IncomingMessage, type ServerResponse } from 'node:http';
+import path from 'node:path';
+import type { AddressInfo } from 'node:net';
+import { invoke, type HandlerTable } from '../../api/handler-table.ts';
+import type { ApiError, ApiResult } from '../../api/define.ts';
+import { hostIsAllowed, originIsAllowed, requestToken, setSecurityHeaders, tokenMatches } from './guard.ts';
+import { contentTypeOf, indexWithToken, resolveStaticFile } from './static.ts';
+
+export interface WebShellOptions {
+  table: HandlerTable;
+  /** The built renderer (dist/renderer). */
+  staticDir: string;
+  /** 0 (default) lets the system pick a free port. */
+  port?: number;
+  /** Fixed token for tests; by default 32 random bytes per launch. */
+  token?: string;
+  /** Largest accepted request body; uploads of CSV files go through the api, so this is generous. */
+  maxBodyBytes?: number;
+}
+
+export interface WebShell {
+  port: number;
+  token: string;
+  /** `http://127.0.0.1:<port>/` */
+  origin: string;
+  /** The page address with the token in its fragment (never sent to the server, never logged by proxies). */
+  pageUrl: string;
+  close(): Promise<void>;
+}
+
+const API_PREFIX = '/api/';
+const DEFAULT_MAX_BODY = 32 * 1024 * 1024;
+
+/** HTTP status per api error code, so tools that read only the status still see failure. */
+const STATUS: Record<ApiError['code'], number> = { input: 400, not_found: 404, cancelled: 409, conflict: 409, internal: 500 };
+
+/**
+ * The web shell: a loopback server that maps `POST /api/<method>` onto the handler table and serves the
+ * built renderer. Thin by design (DESIGN.md, Shells): every check on a request's content is the api's.
+ */
+export async function startWebShell(options: WebShellOptions): Promise<WebShell> {
+  const token = options.token ?? randomBytes(32).toString('hex');
+  const maxBody = options.maxBodyBytes ?? DEFAULT_MAX_BODY;
+  let port = 0;
+  const server = http.createServer((req, res) => {
+    setSecurityHeaders(res);
+    handle(req, res).catch((e: unknown) => {
+      if (!res.headersSent) sendError(res, 500, 'internal', `internal error: ${(e as Error).message}`);
+      else res.destroy();
+    });
+  });
+
+  async function handle(req: IncomingMessage, res: ServerResponse): Promise<void> {
+    if (!hostIsAllowed(req.headers.host, port)) return sendError(res, 403, 'input', 'forbidden host');
+    const url = new URL(req.url ?? '/', `http://127.0.0.1:${port}`);
+    if (url.pathname.startsWith(API_PREFIX)) return handleApi(req, res, url.pathname.slice(API_PREFIX.length));
+    if (req.method !== 'GET' && req.method !== 'HEAD') return sendError(res, 405, 'input', 'method not allowed');
+    return handleStatic(req, res, url.pathname);
+  }
+
+  async function handleApi(req: IncomingMessage, res: ServerResponse, method: string): Promise<void> {
+    if (req.method !== 'POST') return sendError(res, 405, 'input', 'api calls use POST');
+    if (!tokenMatches(requestToken(req), token)) return sendError(res, 401, 'input', 'missing or wrong launch token');
+    if (!originIsAllowed(req.headers.origin, port)) return sendError(res, 403, 'input', 'forbidden origin');
+    const type = req.headers['content-type'] ?? '';
+    if (!type.startsWith('application/json')) return sendError(res, 415, 'input', 'send the request as application/json');
+    const body = await readBody(req, maxBody);
+    if (body === null) {
+      res.setHeader('Connection', 'close');
+      return sendError(res, 413, 'input', `request larger than ${maxBody} bytes`);
+    }
+    let payload: unknown;
+    try {
+      payload = body.length === 0 ? {} : JSON.parse(body.toString('utf8'));
+    } catch {
+      return sendError(res, 400, 'input', 'the request body is not valid JSON');
+    }
+    const result = await invoke(options.table, decodeURIComponent(method), payload);
+    sendJson(res, result.ok ? 200 : STATUS[result.error.code], result);
+  }
+
+  function handleStatic(req: IncomingMessage, res: ServerResponse, pathname: string): void {
+    const wanted = pathname === '/' ? '/index.html' : pathname;
+    const file = resolveStaticFile(options.staticDir, wanted);
+    if (!file) return sendError(res, 404, 'not_found', 'not found');
+    const isIndex = path.basename(file) === 'index.html' && path.dirname(file) === fs.realpathSync(options.staticDir);
+    const bytes = isIndex ? Buffer.from(indexWithToken(fs.readFileSync(file, 'utf8'), token)) : fs.readFileSync(file);
+    res.statusCode = 200;
+    res.setHeader('Content-Type', contentTypeOf(file));
+    res.setHeader('Content-Length', bytes.length);
+    // The page carries the token: it must never be cached; hashed assets may be.
+    res.setHeader('Cache-Control', isIndex ? 'no-store' : 'public, max-age=31536000, immutable');
+    res.end(req.method === 'HEAD' ? undefined : bytes);
+  }
+
+  await new Promise<void>((resolve, reject) => {
+    server.once('error', reject);
+    server.listen(options.port ?? 0, '127.0.0.1', () => resolve());
+  });
+  port = (server.address() as AddressInfo).port;
+  const origin = `http://127.0.0.1:${port}/`;
+  return {
+    port,
+    token,
+    origin,
+    pageUrl: `${origin}#token=${token}`,
+    close: () =>
+      new Promise<void>((resolve) => {
+        server.closeAllConnections();
+        server.close(() => resolve());
+      }),
+  };
+}
+
+/** The body, or null once it passes the limit (the rest is not read: the connection is closed). */
+function readBody(req: IncomingMessage, limit: number): Promise<Buffer | null> {
+  return new Promise((resolve, reject) => {
+    const declared = Number(req.headers['content-length'] ?? '0');
+    if (declared > limit) {
+      req.resume();
+      return resolve(null);
+    }
+    const chunks: Buffer[] = [];
+    let size = 0;
+    let over = false;
+    req.on('data', (chunk: Buffer) => {
+      if (over) return;
+      size += chunk.length;
+      if (size > limit) {
+        over = true;
+        resolve(null);
+        return;
+      }
+      chunks.push(chunk);
+    });
+    req.on('end', () => {
+      if (!over) resolve(Buffer.concat(chunks));
+    });
+    req.on('error', reject);
+  });
+}
+
+function sendJson(res: ServerResponse, status: number, body: ApiResult<unknown>): void {
+  const text = JSON.stringify(body);
+  res.statusCode = status;
+  res.setHeader('Content-Type', 'application/json; charset=utf-8');
+  res.setHeader('Cache-Control', 'no-store');
+  res.setHeader('Content-Length', Buffer.byteLength(text));
+  res.end(text);
+}
+
+function sendError(res: ServerResponse, status: number, code: ApiError['code'], message: string): void {
+  sendJson(res, status, { ok: false, error: { code, message } });
+}

@@ -1,0 +1,124 @@
+import { DndContext, KeyboardSensor, PointerSensor, closestCenter, useSensor, useSensors, type DragEndEvent } from '@dnd-kit/core';
+import { SortableContext, sortableKeyboardCoordinates, useSortable, verticalListSortingStrategy } from '@dnd-kit/sortable';
+import type { ShelfAction, ShelfView } from '../state/curation-slice.ts';
+import { pct } from './format.ts';
+
+type Slot = ShelfView['slots'][number];
+
+/** Component contributions as labelled bars: why the scorer proposed the item (the numbers are in the text too). */
+export function ExplanationBars({ contributions }: { contributions: Record<string, number> }) {
+  const entries = Object.entries(contributions).filter(([, v]) => Number.isFinite(v));
+  const max = Math.max(1e-9, ...entries.map(([, v]) => Math.abs(v)));
+  if (entries.length === 0) return <p className="muted small">No score parts (placed by hand).</p>;
+  return (
+    <ul className="bars" aria-label="Why this item">
+      {entries.map(([k, v]) => (
+        <li key={k}>
+          <span className="bar-label">{k}</span>
+          <span className="bar-track" aria-hidden="true">
+            <span className="bar-fill" style={{ width: `${(Math.abs(v) / max) * 100}%` }} />
+          </span>
+          <span className="bar-value">{v.toFixed(2)}</span>
+        </li>
+      ))}
+    </ul>
+  );
+}
+
+interface RowProps {
+  slot: Slot;
+  readOnly: boolean;
+  onAct(action: ShelfAction): void;
+}
+
+function SlotRow({ slot, readOnly, onAct }: RowProps) {
+  const { attributes, listeners, setNodeRef, transform, transition, isDragging } = useSortable({
+    id: String(slot.slot),
+    disabled: readOnly || !slot.item,
+  });
+  const style = {
+    transform: transform ? `translate3d(${transform.x}px, ${transform.y}px, 0)` : undefined,
+    transition,
+    opacity: isDragging ? 0.6 : 1,
+  };
+  const name = slot.title ?? `slot ${slot.slot}`;
+  const item = slot.item;
+  return (
+    <li ref={setNodeRef} style={style} className={`slot${slot.pinned ? ' pinned' : ''}`} aria-label={`Slot ${slot.slot}: ${name}`}>
+      <button type="button" className="handle" aria-label={`Move ${name} (slot ${slot.slot})`} disabled={readOnly || !item} {...attributes} {...listeners}>
+        ⋮⋮
+      </button>
+      <span className="slot-no">{slot.slot}</span>
+      <div className="slot-main">
+        <p className="slot-title">
+          {slot.title ?? <span className="muted">Empty: no candidate meets the brief</span>}{' '}
+          {slot.promoted && <span className="sponsored">Sponsored</span>} {slot.pinned && <span className="tag">Pinned</span>}
+        </p>
+        {item && (
+          <p className="muted small">
+            {slot.category || 'no category'} · {slot.supplier || 'no supplier'} · score {pct(slot.percentile)} of pool
+          </p>
+        )}
+        {item && <ExplanationBars contributions={slot.contributions} />}
+      </div>
+      {item && !readOnly && (
+        <div className="slot-actions" role="group" aria-label={`Actions for ${name}`}>
+          {slot.pinned ? (
+            <button type="button" className="quiet" onClick={() => onAct({ kind: 'unpin', slot: slot.slot })}>
+              Unpin
+            </button>
+          ) : (
+            <button type="button" className="quiet" onClick={() => onAct({ kind: 'pin', slot: slot.slot, item })}>
+              Pin
+            </button>
+          )}
+          <button type="button" className="quiet" onClick={() => onAct({ kind: 'boost', item, factor: 1.5 })}>
+            Boost
+          </button>
+          <button type="button" className="quiet" onClick={() => onAct({ kind: 'sink', item, factor: 1.5 })}>
+            Sink
+          </button>
+          <button type="button" className="quiet danger" onClick={() => onAct({ kind: 'ban', item, scope: 'shelf' })}>
+            Ban
+          </button>
+        </div>
+      )}
+    </li>
+  );
+}
+
+/**
+ * The slots, reorderable by pointer or keyboard (space to lift, arrows to move, space to drop: dnd-kit's
+ * KeyboardSensor with sortableKeyboardCoordinates). A drop becomes one `move` action, so undo covers it.
+ */
+export function SlotList({ slots, readOnly, onAct }: { slots: readonly Slot[]; readOnly: boolean; onAct(a: ShelfAction): void }) {
+  const sensors = useSensors(useSensor(PointerSensor), useSensor(KeyboardSensor, { coordinateGetter: sortableKeyboardCoordinates }));
+  const onDragEnd = (e: DragEndEvent) => {
+    if (!e.over || e.active.id === e.over.id) return;
+    onAct({ kind: 'move', from: Number(e.active.id), to: Number(e.over.id) });
+  };
+  const title = (id: string | number) => slots.find((s) => String(s.slot) === String(id))?.title ?? `slot ${id}`;
+  // Spoken in words an editor uses (dnd-kit's live region); the defaults speak internal ids.
+  const announcements = {
+    onDragStart: ({ active }: { active: { id: string | number } }) => `Picked up ${title(active.id)} from slot ${active.id}.`,
+    onDragOver: ({ active, over }: { active: { id: string | number }; over: { id: string | number } | null }) =>
+      over ? `${title(active.id)} is over slot ${over.id}.` : `${title(active.id)} is not over a slot.`,
+    onDragEnd: ({ active, over }: { active: { id: string | number }; over: { id: string | number } | null }) =>
+      over ? `${title(active.id)} dropped at slot ${over.id}.` : `${title(active.id)} put back.`,
+    onDragCancel: ({ active }: { active: { id: string | number } }) => `Move cancelled; ${title(active.id)} stays in slot ${active.id}.`,
+  };
+  const screenReaderInstructions = {
+    draggable: 'To move an item, press Space, use the arrow keys to choose a slot, then press Space again. Escape cancels.',
+  };
+  return (
+    <DndContext sensors={sensors} collisionDetection={closestCenter} onDragEnd={onDragEnd} accessibility={{ announcements, screenReaderInstructions }}>
+      <SortableContext items={slots.map((s) => String(s.slot))} strategy={verticalListSortingStrategy}>
+        <ol className="slots" aria-label="Slots">
+          {slots.map((s) => (
+            <SlotRow key={s.slot} slot={s} readOnly={readOnly} onAct={onAct} />
+          ))}
+        </ol>
+      </SortableContext>
+    </DndContext>
+  );
+}

@@ -1,0 +1,111 @@
+import { useId, useState, type FormEvent } from 'react';
+import { EditionMeterPanel } from '../components/Meter.tsx';
+import { pct } from '../components/format.ts';
+import { ExportPanel } from './ExportPanel.tsx';
+import { useApp } from '../state/store.ts';
+
+function AddShelfForm() {
+  const addShelf = useApp((s) => s.addShelf);
+  const error = useApp((s) => s.curation.errors.addShelf);
+  const busy = useApp((s) => s.curation.busy);
+  const [label, setLabel] = useState('');
+  const [size, setSize] = useState(8);
+  const id = useId();
+  const submit = async (e: FormEvent) => {
+    e.preventDefault();
+    if (await addShelf(label.trim(), { size })) setLabel('');
+  };
+  return (
+    <form className="panel" onSubmit={(e) => void submit(e)} aria-labelledby={`${id}-h`}>
+      <h2 id={`${id}-h`}>Add a shelf</h2>
+      <div className="row">
+        <div className="field">
+          <label htmlFor={`${id}-l`}>Shelf name</label>
+          <input id={`${id}-l`} value={label} onChange={(e) => setLabel(e.target.value)} placeholder="Homepage row" required />
+        </div>
+        <div className="field">
+          <label htmlFor={`${id}-s`}>Slots</label>
+          <input id={`${id}-s`} type="number" min={1} max={200} value={size} onChange={(e) => setSize(Number(e.target.value))} required />
+        </div>
+      </div>
+      {error && (
+        <p className="error" role="alert">
+          Could not add the shelf: {error}
+        </p>
+      )}
+      <button type="submit" disabled={busy || label.trim() === ''}>
+        Add shelf
+      </button>
+    </form>
+  );
+}
+
+/** One edition: its shelves as cards with their key readings, the edition meter, publish and export. */
+export function Board() {
+  const edition = useApp((s) => s.curation.edition);
+  const publishError = useApp((s) => s.curation.errors.publish);
+  const busy = useApp((s) => s.curation.busy);
+  const publish = useApp((s) => s.publish);
+  const openShelf = useApp((s) => s.openShelf);
+  const go = useApp((s) => s.go);
+  if (!edition) return <p className="notice">Open or start an edition on the Editions screen.</p>;
+  const published = edition.status === 'published';
+  return (
+    <section className="screen" aria-labelledby="board-h">
+      <header className="screen-head">
+        <h1 id="board-h">
+          {edition.label} <span className="muted">· {edition.date} · {published ? 'Published' : 'Draft'}</span>
+        </h1>
+        {!published && (
+          <button type="button" disabled={busy || edition.shelves.length === 0} onClick={() => void publish()}>
+            Publish edition
+          </button>
+        )}
+      </header>
+      {publishError && (
+        <p className="error" role="alert">
+          Could not publish: {publishError}
+        </p>
+      )}
+      <div className="shelf-cards">
+        {edition.shelves.length === 0 && <p className="muted">No shelves yet. Add one below.</p>}
+        {edition.shelves.map((s) => {
+          const sponsored = s.slots.filter((x) => x.promoted).length;
+          return (
+            <article key={s.label} className="panel shelf-card" aria-label={`Shelf ${s.label}`}>
+              <h2>{s.label}</h2>
+              <p className="muted">
+                {s.slots.filter((x) => x.item).length} of {s.size} slots filled · pool of {s.poolSize}
+                {s.locked ? ' · locked' : ''}
+              </p>
+              <p>
+                Variety {s.meter.intraListDistance?.toFixed(2) ?? '—'} · Sponsored {sponsored} ({pct(s.meter.promotedShareCount)})
+              </p>
+              {s.violations.length > 0 && <p className="warn">{s.violations.length} rule{s.violations.length === 1 ? '' : 's'} not met</p>}
+              <ol className="mini-slots">
+                {s.slots.slice(0, 5).map((x) => (
+                  <li key={x.slot}>
+                    {x.title ?? 'empty'} {x.promoted && <span className="sponsored">Sponsored</span>}
+                  </li>
+                ))}
+              </ol>
+              <button
+                type="button"
+                aria-label={`Edit shelf ${s.label}`}
+                onClick={() => {
+                  openShelf(s.label);
+                  go('shelf');
+                }}
+              >
+                {published ? 'View' : 'Edit'}
+              </button>
+            </article>
+          );
+        })}
+      </div>
+      <EditionMeterPanel meter={edition.meter} shelves={edition.shelves} />
+      {!published && <AddShelfForm />}
+      <ExportPanel />
+    </section>
+  );
+}

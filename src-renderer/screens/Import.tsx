@@ -1,0 +1,207 @@
+import { useId, useState, type FormEvent } from 'react';
+import type { ImportSource, ImportTarget } from '../state/import-slice.ts';
+import { useApp } from '../state/store.ts';
+
+/**
+ * The fields each target can fill. A copy of src-main/ingest/fields.ts FIELDS, which the renderer may not
+ * import (layer rule); the preview's detected mapping is checked against the same names on the main side.
+ */
+const FIELDS: Record<ImportTarget, readonly string[]> = {
+  items: ['id', 'title', 'description', 'category', 'tags', 'supplier', 'price', 'added_at', 'promoted', 'available'],
+  customers: ['id'],
+  signals: ['customer', 'item', 'kind', 'value', 'at'],
+};
+
+function MappingTable({ target, headers, mapping, onChange }: { target: ImportTarget; headers: readonly string[]; mapping: Record<string, string>; onChange(m: Record<string, string>): void }) {
+  const id = useId();
+  return (
+    <table>
+      <caption className="muted small">Which column fills each field (detected; change any that are wrong)</caption>
+      <thead>
+        <tr>
+          <th scope="col">Field</th>
+          <th scope="col">Column in the file</th>
+        </tr>
+      </thead>
+      <tbody>
+        {FIELDS[target].map((f) => (
+          <tr key={f}>
+            <th scope="row">
+              <label htmlFor={`${id}-${f}`}>{f}</label>
+            </th>
+            <td>
+              <select
+                id={`${id}-${f}`}
+                value={mapping[f] ?? ''}
+                onChange={(e) => {
+                  const next = { ...mapping };
+                  if (e.target.value === '') delete next[f];
+                  else next[f] = e.target.value;
+                  onChange(next);
+                }}
+              >
+                <option value="">(not in this file)</option>
+                {headers.map((h) => (
+                  <option key={h} value={h}>
+                    {h}
+                  </option>
+                ))}
+              </select>
+            </td>
+          </tr>
+        ))}
+      </tbody>
+    </table>
+  );
+}
+
+/** Import a catalogue, customers or signals: pick a file, check the mapping and the first rows, import. */
+export function Import() {
+  const { preview, report, busy, error } = useApp((s) => s.importer);
+  const previewImport = useApp((s) => s.previewImport);
+  const runImport = useApp((s) => s.runImport);
+  const reset = useApp((s) => s.resetImport);
+  const [target, setTarget] = useState<ImportTarget>('items');
+  const [path, setPath] = useState('');
+  const [upload, setUpload] = useState<{ fileName: string; content: string } | null>(null);
+  const [mapping, setMapping] = useState<Record<string, string>>({});
+  const id = useId();
+  const source: ImportSource | null = upload ?? (path.trim() ? { file: path.trim() } : null);
+
+  const onPreview = async (e: FormEvent) => {
+    e.preventDefault();
+    if (!source) return;
+    await previewImport(source, target);
+  };
+  const detected = preview?.mapping ?? {};
+  const effective = { ...detected, ...mapping };
+
+  return (
+    <section className="screen" aria-labelledby="import-h">
+      <h1 id="import-h">Import data</h1>
+      <form className="panel" onSubmit={(e) => void onPreview(e)} aria-labelledby={`${id}-h`}>
+        <h2 id={`${id}-h`}>1. Choose a file</h2>
+        <div className="row">
+          <div className="field">
+            <label htmlFor={`${id}-t`}>What the file holds</label>
+            <select id={`${id}-t`} value={target} onChange={(e) => { setTarget(e.target.value as ImportTarget); setMapping({}); reset(); }}>
+              <option value="items">Items (the catalogue)</option>
+              <option value="customers">Customers</option>
+              <option value="signals">Signals (views, purchases…)</option>
+            </select>
+          </div>
+          <div className="field">
+            <label htmlFor={`${id}-p`}>Path on this computer</label>
+            <input id={`${id}-p`} value={path} onChange={(e) => { setPath(e.target.value); setUpload(null); }} placeholder="/home/me/items.csv" />
+          </div>
+          <div className="field">
+            <label htmlFor={`${id}-u`}>…or upload a file (CSV, JSON, JSON Lines)</label>
+            <input
+              id={`${id}-u`}
+              type="file"
+              accept=".csv,.tsv,.txt,.json,.jsonl,.ndjson"
+              onChange={async (e) => {
+                const f = e.target.files?.[0];
+                if (!f) return;
+                setUpload({ fileName: f.name, content: await f.text() });
+                setPath('');
+              }}
+            />
+          </div>
+        </div>
+        <button type="submit" disabled={busy || !source}>
+          Preview
+        </button>
+      </form>
+
+      {error && (
+        <p className="error" role="alert">
+          {error} Fix the file or the mapping, then preview again. Nothing was imported.
+        </p>
+      )}
+
+      {preview && source && (
+        <section className="panel" aria-label="Preview">
+          <h2>2. Check the columns</h2>
+          <p className="muted small">
+            Format {preview.format}
+            {preview.delimiter ? `, delimiter “${preview.delimiter}”` : ''} · {preview.headers.length} columns
+          </p>
+          {preview.problems.length > 0 && (
+            <ul className="warn" aria-label="Problems found in the preview">
+              {preview.problems.map((p, i) => (
+                <li key={i}>{p}</li>
+              ))}
+            </ul>
+          )}
+          <MappingTable target={target} headers={preview.headers} mapping={effective} onChange={setMapping} />
+          <div className="sample">
+            <table>
+              <caption className="muted small">First rows of the file</caption>
+              <thead>
+                <tr>
+                  {preview.headers.map((h) => (
+                    <th key={h} scope="col">
+                      {h}
+                    </th>
+                  ))}
+                </tr>
+              </thead>
+              <tbody>
+                {preview.sampleRows.slice(0, 8).map((r, i) => (
+                  <tr key={i}>
+                    {r.map((c, j) => (
+                      <td key={j}>{c}</td>
+                    ))}
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+          <h2>3. Import</h2>
+          <p className="muted small">All rows go in together: if any row is wrong, nothing is imported and every problem is listed.</p>
+          <button type="button" disabled={busy} onClick={() => void runImport(source, target, effective)}>
+            {busy ? 'Importing…' : 'Import'}
+          </button>
+        </section>
+      )}
+
+      {report && (
+        <section className={`panel${report.committed ? '' : ' failed'}`} aria-live="polite" aria-label="Import report">
+          <h2>{report.committed ? 'Imported' : 'Nothing was imported'}</h2>
+          <p>
+            {report.rows.toLocaleString('en')} rows read · {report.added.toLocaleString('en')} added · {report.updated.toLocaleString('en')} updated ·{' '}
+            {report.unchanged.toLocaleString('en')} unchanged · {report.rejected.toLocaleString('en')} rejected · {(report.elapsedMs / 1000).toFixed(1)} s
+          </p>
+          {report.errorCount > 0 && (
+            <>
+              <p className="error" role="alert">
+                {report.errorCount.toLocaleString('en')} row problem{report.errorCount === 1 ? '' : 's'} in {report.file}
+                {report.committed ? '' : ': correct them and import again.'}
+              </p>
+              <table>
+                <thead>
+                  <tr>
+                    <th scope="col" className="num">Line</th>
+                    <th scope="col">Column</th>
+                    <th scope="col">Problem</th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {report.errors.slice(0, 50).map((p, i) => (
+                    <tr key={i}>
+                      <td className="num">{p.line ?? ''}</td>
+                      <td>{p.column ?? ''}</td>
+                      <td>{p.reason}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+              {report.errors.length > 50 && <p className="muted small">First 50 shown.</p>}
+            </>
+          )}
+        </section>
+      )}
+    </section>
+  );
+}

@@ -1,0 +1,180 @@
+import { useEffect, useId, useMemo, useState } from 'react';
+import { MetricsChart } from '../components/MetricsChart.tsx';
+import { num, pct } from '../components/format.ts';
+import { useApp } from '../state/store.ts';
+
+function TrainPanel() {
+  const job = useApp((s) => s.models.job);
+  const error = useApp((s) => s.models.errors.train);
+  const start = useApp((s) => s.startTraining);
+  const cancel = useApp((s) => s.cancelJob);
+  const running = job?.state === 'running';
+  const id = useId();
+  const p = job?.progress;
+  return (
+    <section className="panel" aria-labelledby={`${id}-h`}>
+      <h2 id={`${id}-h`}>Training</h2>
+      <p className="muted small">Trains every model on all signals in the background; the screens stay usable meanwhile.</p>
+      <div className="toolbar">
+        <button type="button" disabled={running} onClick={() => void start()}>
+          Train models
+        </button>
+        <button type="button" className="quiet" disabled={!running} onClick={() => void cancel()}>
+          Cancel
+        </button>
+      </div>
+      {job && (
+        <div className="job" aria-live="polite">
+          <label htmlFor={`${id}-p`}>
+            {job.kind === 'train' ? 'Training' : 'Evaluation'}: {p?.stage}
+            {p?.model ? ` · ${p.model}` : ''}
+            {p?.iteration !== undefined && p.iterations !== undefined ? ` · iteration ${p.iteration} of ${p.iterations}` : ''}
+          </label>
+          <progress id={`${id}-p`} className="progress" max={1} value={p?.fraction ?? 0}>
+            {pct(p?.fraction)}
+          </progress>
+          <p className="small">
+            {job.state === 'running' && `${pct(p?.fraction)} done`}
+            {job.state === 'done' && (job.summary ?? 'Done.')}
+            {job.state === 'cancelled' && 'Cancelled: nothing was written; the previous models are still in use.'}
+          </p>
+        </div>
+      )}
+      {error && (
+        <p className="error" role="alert">
+          {error}
+        </p>
+      )}
+    </section>
+  );
+}
+
+function EvaluationPanel() {
+  const evaluation = useApp((s) => s.models.evaluation);
+  const error = useApp((s) => s.models.errors.evaluate);
+  const running = useApp((s) => s.models.job?.state === 'running');
+  const start = useApp((s) => s.startEvaluation);
+  const [k, setK] = useState(10);
+  const id = useId();
+  const rows = evaluation?.rows ?? [];
+  const labels = useMemo(() => rows.map((r) => r.model), [rows]);
+  const series = useMemo(
+    () => [
+      { name: `NDCG@${evaluation?.k ?? k}`, values: rows.map((r) => r.ndcg), color: '#24605a' },
+      { name: `Recall@${evaluation?.k ?? k}`, values: rows.map((r) => r.recall), color: '#8a5412' },
+    ],
+    [rows, evaluation?.k, k],
+  );
+  return (
+    <section className="panel" aria-labelledby={`${id}-h`}>
+      <h2 id={`${id}-h`}>Evaluation: models against baselines</h2>
+      <div className="row">
+        <div className="field">
+          <label htmlFor={`${id}-k`}>List length K</label>
+          <input id={`${id}-k`} type="number" min={1} max={200} value={k} onChange={(e) => setK(Number(e.target.value))} />
+        </div>
+      </div>
+      <button type="button" disabled={running} onClick={() => void start(k)}>
+        Evaluate
+      </button>
+      {error && (
+        <p className="error" role="alert">
+          {error}
+        </p>
+      )}
+      {evaluation ? (
+        <>
+          {evaluation.stale && <p className="warn">The workspace changed since this evaluation; evaluate again for current figures.</p>}
+          <table>
+            <caption className="muted small">
+              Held-out test: {evaluation.split.test.toLocaleString('en')} signals · evaluated {new Date(evaluation.evaluatedAt).toLocaleString('en-GB')}
+            </caption>
+            <thead>
+              <tr>
+                <th scope="col">Model</th>
+                <th scope="col" className="num">NDCG@{evaluation.k}</th>
+                <th scope="col" className="num">Recall@{evaluation.k}</th>
+                <th scope="col" className="num">Precision@{evaluation.k}</th>
+                <th scope="col" className="num">MAP</th>
+                <th scope="col" className="num">Coverage</th>
+                <th scope="col" className="num">Customers</th>
+              </tr>
+            </thead>
+            <tbody>
+              {rows.map((r) => (
+                <tr key={r.model}>
+                  <th scope="row">{r.model}</th>
+                  <td className="num">{num(r.ndcg, 3)}</td>
+                  <td className="num">{num(r.recall, 3)}</td>
+                  <td className="num">{num(r.precision, 3)}</td>
+                  <td className="num">{num(r.map, 3)}</td>
+                  <td className="num">{pct(r.coverage)}</td>
+                  <td className="num">{r.customers}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+          <MetricsChart labels={labels} series={series} title={`Models and baselines at K = ${evaluation.k}`} />
+          {evaluation.notes.length > 0 && (
+            <ul className="small muted">
+              {evaluation.notes.map((n, i) => (
+                <li key={i}>{n}</li>
+              ))}
+            </ul>
+          )}
+        </>
+      ) : (
+        <p className="muted">No evaluation yet. Train the models, then evaluate.</p>
+      )}
+    </section>
+  );
+}
+
+/** Model status, training with progress and cancel, and the offline evaluation. */
+export function Models() {
+  const list = useApp((s) => s.models.list);
+  const error = useApp((s) => s.models.errors.list);
+  const load = useApp((s) => s.loadModels);
+  useEffect(() => {
+    void load();
+  }, [load]);
+  return (
+    <section className="screen" aria-labelledby="models-h">
+      <h1 id="models-h">Models</h1>
+      {error && (
+        <p className="error" role="alert">
+          Could not read the models: {error}
+        </p>
+      )}
+      <TrainPanel />
+      <section className="panel" aria-label="Trained models">
+        <h2>Trained models</h2>
+        {list.length === 0 ? (
+          <p className="muted">None yet: shelves are filled from popularity and freshness until models are trained.</p>
+        ) : (
+          <table>
+            <thead>
+              <tr>
+                <th scope="col">Model</th>
+                <th scope="col">Trained</th>
+                <th scope="col" className="num">Time</th>
+                <th scope="col">Status</th>
+              </tr>
+            </thead>
+            <tbody>
+              {list.map((m) => (
+                <tr key={m.id}>
+                  <th scope="row">{m.kind}</th>
+                  <td>{new Date(m.trainedAt).toLocaleString('en-GB')}</td>
+                  <td className="num">{(m.trainMs / 1000).toFixed(1)} s</td>
+                  <td>{m.stale ? 'Out of date: the data changed since training' : 'Current'}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        )}
+      </section>
+      <EvaluationPanel />
+    </section>
+  );
+}

@@ -1,0 +1,111 @@
+import { useState } from 'react';
+import { BriefEditor } from '../components/BriefEditor.tsx';
+import { CandidatePool } from '../components/CandidatePool.tsx';
+import { ShelfMeterPanel } from '../components/Meter.tsx';
+import { SlotList } from '../components/SlotList.tsx';
+import { useApp } from '../state/store.ts';
+
+const ACTION_WORDS: Record<string, string> = {
+  pin: 'Pinned',
+  unpin: 'Unpinned',
+  ban: 'Banned',
+  banRule: 'Banned by rule',
+  boost: 'Boosted or sank',
+  lock: 'Locked',
+  unlock: 'Unlocked',
+  move: 'Moved',
+};
+
+/** One shelf: its slots with editorial actions, its live meter, its rules and its action history. */
+export function ShelfEditor() {
+  const shelf = useApp((s) => s.curation.edition?.shelves.find((x) => x.label === s.curation.shelf) ?? null);
+  const published = useApp((s) => s.curation.edition?.status === 'published');
+  const whatif = useApp((s) => s.whatif);
+  const [slot, setSlot] = useState(1);
+  const error = useApp((s) => s.curation.errors.shelf);
+  const busy = useApp((s) => s.curation.busy);
+  const lastMs = useApp((s) => s.curation.lastActionMs);
+  const act = useApp((s) => s.act);
+  const undo = useApp((s) => s.undo);
+  const redo = useApp((s) => s.redo);
+  const refill = useApp((s) => s.refill);
+  const go = useApp((s) => s.go);
+  if (!shelf) return <p className="notice">Choose a shelf on the edition board.</p>;
+  const focused = whatif.result?.candidates.find((c) => c.item === whatif.focus) ?? null;
+  const preview = focused && whatif.result ? { title: focused.title, slot: whatif.result.slot, delta: focused.delta } : null;
+  const readOnly = published || shelf.locked;
+  return (
+    <section className="screen" aria-labelledby="shelf-h">
+      <header className="screen-head">
+        <h1 id="shelf-h">
+          {shelf.label} <span className="muted">· {shelf.edition}</span>
+        </h1>
+        <div className="toolbar" role="toolbar" aria-label="Shelf tools">
+          <button type="button" className="quiet" onClick={() => go('board')}>
+            Back to edition
+          </button>
+          <button type="button" className="quiet" disabled={published || !shelf.canUndo || busy} onClick={() => void undo()}>
+            Undo
+          </button>
+          <button type="button" className="quiet" disabled={published || !shelf.canRedo || busy} onClick={() => void redo()}>
+            Redo
+          </button>
+          <button type="button" className="quiet" disabled={readOnly || busy} onClick={() => void refill()}>
+            Refill
+          </button>
+          {!published && (
+            <button type="button" className="quiet" disabled={busy} onClick={() => void act({ kind: shelf.locked ? 'unlock' : 'lock' })}>
+              {shelf.locked ? 'Unlock shelf' : 'Lock shelf'}
+            </button>
+          )}
+        </div>
+      </header>
+      {error && (
+        <p className="error" role="alert">
+          That action did not go through: {error}
+        </p>
+      )}
+      <p className="muted small" aria-live="polite">
+        {shelf.slots.filter((s) => s.item).length} of {shelf.size} slots filled from a pool of {shelf.poolSize}
+        {shelf.locked ? ' · locked: unlock to change it' : ''}
+        {lastMs !== null ? ` · last change shown in ${Math.round(lastMs)} ms` : ''}
+      </p>
+      {shelf.violations.length > 0 && (
+        <div className="warn" role="status">
+          <p>Rules not met:</p>
+          <ul>
+            {shelf.violations.map((v, i) => (
+              <li key={i}>
+                {v.rule}: {v.reason}
+              </li>
+            ))}
+          </ul>
+        </div>
+      )}
+      <div className="editor-grid">
+        <SlotList slots={shelf.slots} readOnly={readOnly} onAct={(a) => void act(a)} />
+        <div className="side">
+          <ShelfMeterPanel meter={shelf.meter} title="Shelf meter" preview={preview} />
+          <CandidatePool shelf={shelf} slot={Math.min(slot, shelf.size)} onSlot={setSlot} readOnly={readOnly} onAct={(a) => void act(a)} />
+          <section className="panel" aria-labelledby="history-h">
+            <h2 id="history-h">Actions on this shelf</h2>
+            {shelf.actions.length === 0 ? (
+              <p className="muted">None yet.</p>
+            ) : (
+              <ol className="history">
+                {shelf.actions.map((a) => (
+                  <li key={a.seq} className={a.undone ? 'undone' : undefined}>
+                    {ACTION_WORDS[a.kind] ?? a.kind}
+                    {a.undone ? ' (undone)' : ''}
+                    {a.reason ? `: ${a.reason}` : ''}
+                  </li>
+                ))}
+              </ol>
+            )}
+          </section>
+        </div>
+      </div>
+      <BriefEditor key={JSON.stringify(shelf.brief)} brief={shelf.brief} disabled={readOnly} />
+    </section>
+  );
+}

@@ -1,0 +1,201 @@
+import type { StateCreator } from 'zustand';
+import type { RequestOf, ResponseOf } from '../../src-main/api/contract.ts';
+import { describeError, type Client } from '../client/client.ts';
+import type { AppState } from './store.ts';
+
+export type EditionView = ResponseOf<'edition.show'>;
+export type ShelfView = EditionView['shelves'][number];
+export type EditionSummary = ResponseOf<'edition.list'>['editions'][number];
+export type ShelfAction = RequestOf<'shelf.act'>['action'];
+export type Brief = RequestOf<'shelf.add'>['brief'];
+export type ExportFormat = RequestOf<'edition.export'>['format'];
+export type Comparison = ResponseOf<'edition.compare'>;
+export type ExportResult = ResponseOf<'edition.export'>;
+
+/** Where an error is shown: beside the control the editor used. */
+export type ErrorArea = 'list' | 'new' | 'board' | 'addShelf' | 'shelf' | 'brief' | 'publish' | 'export' | 'compare';
+
+export interface CurationSlice {
+  curation: {
+    editions: EditionSummary[];
+    edition: EditionView | null;
+    /** Label of the shelf open in the editor. */
+    shelf: string | null;
+    busy: boolean;
+    errors: Partial<Record<ErrorArea, string>>;
+    exported: ExportResult | null;
+    comparison: Comparison | null;
+    /** Round trip of the last editorial action, for the status line (DESIGN.md target: under 100 ms). */
+    lastActionMs: number | null;
+  };
+  loadEditions(): Promise<void>;
+  newEdition(label: string, date: string, from?: string): Promise<boolean>;
+  openEdition(label: string): Promise<boolean>;
+  addShelf(label: string, brief: Brief): Promise<boolean>;
+  openShelf(label: string | null): void;
+  act(action: ShelfAction, reason?: string): Promise<boolean>;
+  undo(): Promise<void>;
+  redo(): Promise<void>;
+  refill(): Promise<void>;
+  setBrief(brief: Brief): Promise<boolean>;
+  publish(): Promise<boolean>;
+  exportEdition(format: ExportFormat): Promise<ExportResult | null>;
+  compare(a: string, b: string): Promise<void>;
+  clearError(area: ErrorArea): void;
+}
+
+export const initialCuration: CurationSlice['curation'] = {
+  editions: [],
+  edition: null,
+  shelf: null,
+  busy: false,
+  errors: {},
+  exported: null,
+  comparison: null,
+  lastActionMs: null,
+};
+
+/** The edition with one shelf replaced (immutable update: zustand guides/maps-and-sets-usage.md). */
+function withShelf(e: EditionView, s: ShelfView): EditionView {
+  return { ...e, shelves: e.shelves.map((x) => (x.label === s.label ? s : x)) };
+}
+
+export function createCurationSlice(client: Client, clock: () => number): StateCreator<AppState, [], [], CurationSlice> {
+  return (set, get) => {
+    const fail = (area: ErrorArea, e: unknown) =>
+      set((s) => ({ curation: { ...s.curation, busy: false, errors: { ...s.curation.errors, [area]: describeError(e) } } }));
+    const start = (area: ErrorArea) =>
+      set((s) => {
+        const errors = { ...s.curation.errors };
+        delete errors[area];
+        return { curation: { ...s.curation, busy: true, errors } };
+      });
+    const patch = (p: Partial<CurationSlice['curation']>) => set((s) => ({ curation: { ...s.curation, busy: false, ...p } }));
+    const refs = () => {
+      const c = get().curation;
+      if (!c.edition || !c.shelf) throw new Error('Open a shelf first.');
+      return { edition: c.edition.label, shelf: c.shelf };
+    };
+    /** Applies a shelf change, then re-reads the edition so its meter (overlaps, Gini) follows. */
+    const shelfChanged = async (s: ShelfView, t0: number) => {
+      const e = get().curation.edition;
+      if (e) patch({ edition: withShelf(e, s), lastActionMs: clock() - t0 });
+      try {
+        const fresh = await client.call('edition.show', { edition: s.edition });
+        if (get().curation.edition?.label === fresh.label) patch({ edition: fresh });
+      } catch {
+        // The shelf is already current; a stale edition meter is refreshed on the next action.
+      }
+    };
+    const shelfCall = async (area: ErrorArea, call: () => Promise<ShelfView>): Promise<boolean> => {
+      start(area);
+      const t0 = clock();
+      try {
+        await shelfChanged(await call(), t0);
+        return true;
+      } catch (e) {
+        fail(area, e);
+        return false;
+      }
+    };
+
+    return {
+      curation: initialCuration,
+      async loadEditions() {
+        start('list');
+        try {
+          const { editions } = await client.call('edition.list', {});
+          patch({ editions });
+        } catch (e) {
+          fail('list', e);
+        }
+      },
+      async newEdition(label, date, from) {
+        start('new');
+        try {
+          const edition = await client.call('edition.new', from ? { label, date, from } : { label, date });
+          patch({ edition, shelf: null, exported: null });
+          await get().loadEditions();
+          return true;
+        } catch (e) {
+          fail('new', e);
+          return false;
+        }
+      },
+      async openEdition(label) {
+        start('board');
+        try {
+          const edition = await client.call('edition.show', { edition: label });
+          patch({ edition, shelf: null, exported: null });
+          return true;
+        } catch (e) {
+          fail('board', e);
+          return false;
+        }
+      },
+      async addShelf(label, brief) {
+        const e = get().curation.edition;
+        if (!e) return false;
+        start('addShelf');
+        try {
+          await client.call('shelf.add', { edition: e.label, label, brief });
+          patch({ edition: await client.call('edition.show', { edition: e.label }) });
+          return true;
+        } catch (err) {
+          fail('addShelf', err);
+          return false;
+        }
+      },
+      openShelf(label) {
+        set((s) => ({ curation: { ...s.curation, shelf: label } }));
+      },
+      act: (action, reason) => shelfCall('shelf', () => client.call('shelf.act', { ...refs(), action, ...(reason ? { reason } : {}) })),
+      undo: async () => void (await shelfCall('shelf', () => client.call('shelf.undo', refs()))),
+      redo: async () => void (await shelfCall('shelf', () => client.call('shelf.redo', refs()))),
+      refill: async () => void (await shelfCall('shelf', () => client.call('shelf.fill', refs()))),
+      setBrief: (brief) => shelfCall('brief', () => client.call('shelf.brief', { ...refs(), brief })),
+      async publish() {
+        const e = get().curation.edition;
+        if (!e) return false;
+        start('publish');
+        try {
+          await client.call('edition.publish', { edition: e.label });
+          patch({ edition: await client.call('edition.show', { edition: e.label }) });
+          await get().loadEditions();
+          return true;
+        } catch (err) {
+          fail('publish', err);
+          return false;
+        }
+      },
+      async exportEdition(format) {
+        const e = get().curation.edition;
+        if (!e) return null;
+        start('export');
+        try {
+          const exported = await client.call('edition.export', { edition: e.label, format });
+          patch({ exported });
+          return exported;
+        } catch (err) {
+          fail('export', err);
+          return null;
+        }
+      },
+      async compare(a, b) {
+        start('compare');
+        try {
+          patch({ comparison: await client.call('edition.compare', { a, b }) });
+        } catch (e) {
+          fail('compare', e);
+        }
+      },
+      clearError(area) {
+        set((s) => {
+          const errors = { ...s.curation.errors };
+          delete errors[area];
+          return { curation: { ...s.curation, errors } };
+        });
+      },
+    };
+  };
+}

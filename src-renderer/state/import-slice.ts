@@ -1,0 +1,54 @@
+import type { StateCreator } from 'zustand';
+import type { RequestOf, ResponseOf } from '../../src-main/api/contract.ts';
+import { describeError, type Client } from '../client/client.ts';
+import type { AppState } from './store.ts';
+
+export type ImportPreview = ResponseOf<'import.preview'>;
+export type ImportReport = ResponseOf<'import.run'>;
+export type ImportTarget = RequestOf<'import.run'>['target'];
+/** A path on this machine, or the text of a file the editor picked in the page. */
+export type ImportSource = { file: string } | { fileName: string; content: string };
+
+export interface ImportSlice {
+  importer: {
+    preview: ImportPreview | null;
+    report: ImportReport | null;
+    busy: boolean;
+    error: string | null;
+  };
+  previewImport(source: ImportSource, target: ImportTarget, mapping?: Record<string, string>): Promise<void>;
+  runImport(source: ImportSource, target: ImportTarget, mapping: Record<string, string>): Promise<void>;
+  resetImport(): void;
+}
+
+export function createImportSlice(client: Client): StateCreator<AppState, [], [], ImportSlice> {
+  return (set, get) => {
+    const put = (p: Partial<ImportSlice['importer']>) => set((s) => ({ importer: { ...s.importer, ...p } }));
+    return {
+      importer: { preview: null, report: null, busy: false, error: null },
+      async previewImport(source, target, mapping) {
+        put({ busy: true, error: null, report: null });
+        try {
+          const preview = await client.call('import.preview', { ...source, target, ...(mapping ? { mapping } : {}) });
+          put({ preview, busy: false });
+        } catch (e) {
+          put({ preview: null, busy: false, error: describeError(e) });
+        }
+      },
+      async runImport(source, target, mapping) {
+        put({ busy: true, error: null });
+        try {
+          const report = await client.call('import.run', { ...source, target, mapping });
+          put({ report, busy: false });
+          // Counts, freshness and model staleness all follow the data.
+          await Promise.all([get().loadWorkspace(), get().loadStats()]);
+        } catch (e) {
+          put({ busy: false, error: describeError(e) });
+        }
+      },
+      resetImport() {
+        put({ preview: null, report: null, error: null, busy: false });
+      },
+    };
+  };
+}

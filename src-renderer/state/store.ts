@@ -1,0 +1,36 @@
+import { createContext, useContext } from 'react';
+import { useStore } from 'zustand';
+import { createStore, type StoreApi } from 'zustand/vanilla';
+import type { Client } from '../client/client.ts';
+import { createCurationSlice, type CurationSlice } from './curation-slice.ts';
+import { createImportSlice, type ImportSlice } from './import-slice.ts';
+import { createModelsSlice, type ModelsSlice } from './models-slice.ts';
+import { createNavSlice, type NavSlice } from './nav-slice.ts';
+import { createWhatIfSlice, type WhatIfSlice } from './whatif-slice.ts';
+import { createWorkspaceSlice, type WorkspaceSlice } from './workspace-slice.ts';
+
+/** One store, typed slices (zustand docs, guides/slices-pattern.md); actions call the api client. */
+export type AppState = WorkspaceSlice & NavSlice & CurationSlice & ModelsSlice & WhatIfSlice & ImportSlice;
+export type AppStore = StoreApi<AppState>;
+
+const realSleep = (ms: number) => new Promise<void>((r) => setTimeout(r, ms));
+
+export function createAppStore(client: Client, now: () => number = Date.now, sleep = realSleep): AppStore {
+  return createStore<AppState>()((...a) => ({
+    ...createWorkspaceSlice(client, now)(...a),
+    ...createNavSlice(...a),
+    ...createCurationSlice(client, now)(...a),
+    ...createModelsSlice(client, sleep)(...a),
+    ...createWhatIfSlice(client)(...a),
+    ...createImportSlice(client)(...a),
+  }));
+}
+
+export const StoreContext = createContext<AppStore | null>(null);
+
+/** Select the least (guides/prevent-rerenders-with-use-shallow.md): callers pass a narrow selector. */
+export function useApp<T>(selector: (s: AppState) => T): T {
+  const store = useContext(StoreContext);
+  if (!store) throw new Error('useApp outside <StoreContext.Provider>');
+  return useStore(store, selector);
+}

@@ -1,0 +1,62 @@
+// @vitest-environment happy-dom
+import { cleanup, fireEvent, render, screen, waitFor, within } from '@testing-library/react';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { App } from '../../src-renderer/App.tsx';
+import { createAppStore, StoreContext, type AppStore } from '../../src-renderer/state/store.ts';
+import { seededHarness, type Harness } from './seed.ts';
+
+let h: Harness;
+let store: AppStore;
+beforeEach(() => {
+  h = seededHarness();
+  store = createAppStore(h.client);
+});
+afterEach(() => {
+  cleanup();
+  h.close();
+});
+
+function renderApp() {
+  return render(
+    <StoreContext.Provider value={store}>
+      <App />
+    </StoreContext.Provider>,
+  );
+}
+
+describe('overview screen', () => {
+  it('shows the counts of the open workspace', async () => {
+    renderApp();
+    const counts = await screen.findByLabelText('What this workspace holds');
+    await waitFor(() => expect(within(counts).getAllByRole('definition').map((d) => d.textContent)).toEqual(['12', '6', '30']));
+  });
+
+  it('shows the error beside the open form when the file does not exist', async () => {
+    renderApp();
+    await screen.findByText(h.file);
+    fireEvent.change(screen.getByLabelText('Workspace file (path on this computer)'), { target: { value: `${h.dir}/gone.sqlite` } });
+    fireEvent.click(screen.getByRole('button', { name: 'Open' }));
+    const alert = await screen.findByRole('alert');
+    expect(alert.textContent).toBe(`Could not open that file: no workspace at ${h.dir}/gone.sqlite`);
+    expect(screen.getByLabelText('Workspace file (path on this computer)').getAttribute('aria-invalid')).toBe('true');
+  });
+});
+
+describe('shelf editor', () => {
+  it('labels sponsored items in words and pins an item from its slot', async () => {
+    await store.getState().newEdition('Week 49', '2026-12-07');
+    await store.getState().addShelf('Row', { size: 12 });
+    store.getState().openShelf('Row');
+    store.getState().go('shelf');
+    renderApp();
+    const slots = await screen.findByRole('list', { name: 'Slots' });
+    // Two of the twelve invented items are promoted; a 12-slot shelf holds the whole catalogue.
+    expect(within(slots).getAllByText('Sponsored')).toHaveLength(2);
+    const second = within(slots).getByRole('listitem', { name: /^Slot 2:/ });
+    fireEvent.click(within(second).getByRole('button', { name: 'Pin' }));
+    await waitFor(() => expect(within(second).getByText('Pinned')).toBeTruthy());
+    expect(within(second).getByRole('button', { name: 'Unpin' })).toBeTruthy();
+    expect(screen.getByRole('button', { name: 'Undo' }).hasAttribute('disabled')).toBe(false);
+    expect(screen.getByText(/^Pinned$/, { selector: '.history li' })).toBeTruthy();
+  });
+});

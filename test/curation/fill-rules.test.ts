@@ -95,7 +95,7 @@ describe('fillShelf: pins and empty slots', () => {
     expect(res.violations).toEqual([
       {
         rule: 'pin',
-        reason: 'slot 1: item 3 is out of stock; the pin is not applied; slot 3: item 5 is kept by its pin although it breaks: banned',
+        reason: 'slot 1: item sku-3 is out of stock; the pin is not applied; slot 3: item sku-5 is kept by its pin although it breaks: banned',
       },
     ]);
   });

@@ -17,6 +17,11 @@
  * Pins override filters, bans and the rest period (the editor's explicit choice) and are reported when
  * they do; a pin of an out-of-stock item is not applied (never proposed) and reported. Finally every
  * quota and bound is checked on the finished shelf, so nothing is broken without a violation.
+ *
+ * Cost: each candidate's max similarity to the placed items is brought up to date only when its bound
+ * could change the pick (see the slot loop), so a slot costs O(pool) plus O(dim) per placed item for the
+ * few candidates near the top, instead of O(pool × dim); the picks are the same as the full update's
+ * (test/curation-services/fill-lazy.test.ts checks them against it).
  */
 import { BugError, InputError } from '../errors.ts';
 import { log2Discounts } from '../metrics/discount.ts';
@@ -72,7 +77,12 @@ export function fillShelf(input: FillInput): FillResult {
   const log = new ViolationLog();
   const slots = new Int32Array(n).fill(-1);
   const used = new Uint8Array(m);
+  // The MMR max term, kept lazily: maxSim[k] is the max similarity of candidate k to the first seen[k]
+  // placed items (placed[0 .. placedCount)). It only grows as items are placed, so a stale value gives an
+  // upper bound on k's score; the scan brings k up to date only when that bound could change a leader.
   const maxSim = new Float64Array(m).fill(-Infinity);
+  const seen = new Int32Array(m);
+  const placed = new Int32Array(n);
   const quotas = new QuotaCounter(ctx, brief.rules.quotas);
   const pinnedIds = new Set(state.pins.values());
   let promotedLeft = 0;
@@ -94,8 +104,7 @@ export function fillShelf(input: FillInput): FillResult {
       promExp += disc[slot] as number;
     }
     objective += gain;
-    placedCount++;
-    raiseMaxSim(ctx.vectors, ctx.dim, item, cand, m, used, maxSim);
+    placed[placedCount++] = item;
     const k = slotOfCand.get(item);
     if (k !== undefined) used[k] = 1;
   };
@@ -110,10 +119,10 @@ export function fillShelf(input: FillInput): FillResult {
     }
     if (!Number.isInteger(item) || item < 0 || item >= ctx.n) throw new BugError(`fill: pinned item index ${item}`);
     if (pinnedItems.has(item)) {
-      throw new InputError(`pin: item ${ctx.itemIds[item]} is pinned to two slots`, { column: 'pins' });
+      throw new InputError(`pin: item ${ctx.externalIds[item]} is pinned to two slots`, { column: 'pins' });
     }
     pinnedItems.add(item);
-    const label = `slot ${slot + 1}: item ${ctx.itemIds[item]}`;
+    const label = `slot ${slot + 1}: item ${ctx.externalIds[item]}`;
     const why = exclusionReasons(ctx, cf, state, item);
     if (why[0] === 'outOfStock') {
       log.add('pin', `${label} is out of stock; the pin is not applied`);
@@ -125,6 +134,12 @@ export function fillShelf(input: FillInput): FillResult {
     const r = k === undefined ? 0 : (rel[k] as number);
     pinnedSlots.add(slot);
     place(slot, item, lambda * r - (1 - lambda) * (placedCount === 0 ? 0 : maxSimTo(ctx, item, slots)));
+  }
+
+  // Pinned and out-of-stock candidates are never proposed: drop them from every scan at once.
+  for (let k = 0; k < m; k++) {
+    const i = cand[k] as number;
+    if (pinnedItems.has(i) || ctx.available[i] === 0) used[k] = 1;
   }
 
   for (let slot = 0; slot < n; slot++) {
@@ -149,24 +164,39 @@ export function fillShelf(input: FillInput): FillResult {
     const forbidByExp = promExp + (disc[slot] as number) > maxExp;
     const forbid = forbidByCount || forbidByExp;
     // One pass keeps the best candidate at each relaxation level (0 = every rule ... 3 = no promoted cap).
+    // Levels nest (each is the one below with a rule relaxed), so while scanning s0 <= s1 <= s2 <= s3.
     let b0 = -1, b1 = -1, b2 = -1, b3 = -1;
     let s0 = -Infinity, s1 = -Infinity, s2 = -Infinity, s3 = -Infinity;
     for (let k = 0; k < m; k++) {
       if (used[k] === 1) continue;
       const i = cand[k] as number;
-      if (pinnedItems.has(i) || ctx.available[i] === 0) continue; // out of stock: never proposed
+      const isProm = ctx.promoted[i] === 1;
+      const firstOk = !must || isProm;
+      if (placedCount > 0 && (seen[k] as number) < placedCount) {
+        // Lazy greedy: with a stale max term the score can only be lower than this bound. A candidate
+        // replaces a leader only by beating it strictly (ties keep the earlier candidate), so when the
+        // bound does not beat the lowest leader of a level k may join, k cannot change the outcome and
+        // is skipped without its dot products; otherwise it is brought up to date. Same picks, same
+        // tie-breaking as computing every max term (the lazy evaluation of Minoux 1978, "Accelerated
+        // greedy algorithms for maximizing submodular set functions" — cited from memory — applied to
+        // MMR's max term, which like a marginal gain can only fall as the list grows).
+        // Never brought up to date (maxSim −∞): no bound (and 0·−∞ would be NaN when λ = 1).
+        const bound = seen[k] === 0 ? Infinity : lambda * (rel[k] as number) - (1 - lambda) * (maxSim[k] as number);
+        const floor = forbid && isProm ? s3 : firstOk ? s0 : s1;
+        if (!(bound > floor)) continue;
+        catchUp(ctx.vectors, ctx.dim, i, placed, seen[k] as number, placedCount, maxSim, k);
+        seen[k] = placedCount;
+      }
       const score = lambda * (rel[k] as number) - (1 - lambda) * (placedCount === 0 ? 0 : (maxSim[k] as number));
       if (score > s3) {
         s3 = score;
         b3 = k;
       }
-      const isProm = ctx.promoted[i] === 1;
       if (forbid && isProm) continue;
       if (score > s2) {
         s2 = score;
         b2 = k;
       }
-      const firstOk = !must || isProm;
       // The quota check is the dearest test, so it runs only for a candidate that would lead level 0 or 1.
       if (!(score > s1 || (firstOk && score > s0)) || !quotas.fits(i)) continue;
       if (score > s1) {
@@ -208,24 +238,29 @@ export function fillShelf(input: FillInput): FillResult {
   return { slots, objective, violations: log.list() };
 }
 
-/** maxSim[k] = max(maxSim[k], cos(item, cand[k])) for every unused candidate: the MMR max term, kept up to date. */
-function raiseMaxSim(
+/**
+ * maxSim[k] = max(maxSim[k], cos(placed[p], i)) for the placed items p in [from, to): candidate k (item i)
+ * catches up with the items placed since it was last brought up to date.
+ */
+function catchUp(
   vectors: Float32Array,
   dim: number,
-  item: number,
-  cand: Int32Array,
-  m: number,
-  used: Uint8Array,
+  i: number,
+  placed: Int32Array,
+  from: number,
+  to: number,
   maxSim: Float64Array,
+  k: number,
 ): void {
-  const oi = item * dim;
-  for (let k = 0; k < m; k++) {
-    if (used[k] === 1) continue;
-    const ok = (cand[k] as number) * dim;
+  const ok = i * dim;
+  let best = maxSim[k] as number;
+  for (let p = from; p < to; p++) {
+    const oi = (placed[p] as number) * dim;
     let s = 0;
     for (let f = 0; f < dim; f++) s += (vectors[oi + f] as number) * (vectors[ok + f] as number);
-    if (s > (maxSim[k] as number)) maxSim[k] = s;
+    if (s > best) best = s;
   }
+  maxSim[k] = best;
 }
 
 /** Max similarity of item i to the items already in slots (used for a pin outside the pool). */

@@ -21,11 +21,12 @@ import {
 } from '../../core/editing/index.ts';
 import { parseBrief } from '../../core/editing/brief-schema.ts';
 import type { Item } from '../../core/types.ts';
-import { EditionRepo, type Edition } from '../../store/editions.ts';
-import { EditorialRepo } from '../../store/editorial-actions.ts';
-import { ItemRepo } from '../../store/items.ts';
-import { ShelfRepo, type Shelf } from '../../store/shelves.ts';
+import type { EditionRepo, Edition } from '../../store/editions.ts';
+import type { EditorialRepo } from '../../store/editorial-actions.ts';
+import type { ItemRepo } from '../../store/items.ts';
+import type { ShelfRepo, Shelf } from '../../store/shelves.ts';
 import type { Db } from '../../store/workspace.ts';
+import { curationRepos } from './repos.ts';
 import { fillAndMeter, frozenDense } from './shelf-fill.ts';
 import { editionSnapshot, publishEdition } from './publish.ts';
 import { shelfView, type EditionView, type ShelfView } from './views.ts';
@@ -56,10 +57,7 @@ export class CurationService {
     this.db = db;
     this.#source = source;
     this.clock = clock;
-    this.editions = new EditionRepo(db);
-    this.shelves = new ShelfRepo(db);
-    this.editorial = new EditorialRepo(db);
-    this.items = new ItemRepo(db);
+    ({ editions: this.editions, shelves: this.shelves, editorial: this.editorial, items: this.items } = curationRepos(db));
   }
 
   world(): CurationWorld {

@@ -3,17 +3,21 @@
  * weights and boosts → fill with pins under rules → meter). A locked shelf keeps its slots; only its meter
  * is read again.
  */
-import { buildCandidatePool, type EditorialState } from '../../core/curation/candidates.ts';
+import type { EditorialState } from '../../core/curation/candidates.ts';
 import { fillShelf } from '../../core/curation/fill.ts';
 import { meterShelf, type MeterInputs } from '../../core/curation/meter.ts';
 import type { Brief, RuleViolation, ShelfMeter } from '../../core/curation/types.ts';
 import type { ShelfEdits } from '../../core/editing/index.ts';
 import { itemsOn } from '../../core/editing/snapshot.ts';
-import { resolveAudience } from '../../core/scoring/index.ts';
-import { dateMs, EditionRepo, type Edition } from '../../store/editions.ts';
-import { EditorialRepo } from '../../store/editorial-actions.ts';
-import { ShelfRepo, type Shelf, type SlotRow } from '../../store/shelves.ts';
+import { buildInteractionMatrix } from '../../core/matrix/build.ts';
+import type { Csr } from '../../core/matrix/csr.ts';
+import { IalsModel } from '../../core/models/ials.ts';
+import { audienceAffinityInto, resolveAudience } from '../../core/scoring/index.ts';
+import { dateMs, type Edition } from '../../store/editions.ts';
+import type { Shelf, SlotRow } from '../../store/shelves.ts';
 import type { Db } from '../../store/workspace.ts';
+import { scoredPool } from './pool-cache.ts';
+import { curationRepos } from './repos.ts';
 import type { CurationWorld } from './world.ts';
 
 export interface FilledShelf {
@@ -21,8 +25,8 @@ export interface FilledShelf {
   /** Dense item per slot (-1 = empty), and the meter's inputs: what a what-if needs. */
   dense: Int32Array;
   inputs: MeterInputs;
-  /** Pool items (dense), best first by boosted score, with their percentiles. */
-  ranked: { index: number; percentile: number }[];
+  /** Pool items (dense), best first by boosted score, with their percentiles (shared: do not change). */
+  ranked: () => readonly { index: number; percentile: number }[];
   meter: ShelfMeter;
   violations: RuleViolation[];
   /** Candidates in the pool, and why the others were left out. */
@@ -64,6 +68,39 @@ export function audienceReadings(world: CurationWorld, brief: Brief, editionDate
 }
 
 /**
+ * The audience's predicted preference for every item (scoring/audience.ts): with iALS the exact mean over
+ * the audience, (mean_u x_u)ᵀy_i, one pass over the item factors; with another model a seeded sample of
+ * the audience (seed 0, as propose.ts uses by default). null when no model can say it or the audience is
+ * empty (the hybrid then drops the component and renormalises the weights). Remembered per audience and
+ * date in the world, as the audience itself is.
+ */
+export function audienceAffinityOf(world: CurationWorld, brief: Brief, editionDate: number): Float32Array | null {
+  const model = world.hybrid.models.affinity;
+  if (!model) return null;
+  const key = `affinity:${JSON.stringify(brief.audience)}@${editionDate}`;
+  if (world.memo.has(key)) return world.memo.get(key) as Float32Array | null;
+  const { audience } = audienceReadings(world, brief, editionDate);
+  let out: Float32Array | null = null;
+  if (audience.length > 0) {
+    out = new Float32Array(world.ctx.n);
+    // iALS reads only its own factors; the histories are built only for a model that reads them.
+    const history = model instanceof IalsModel ? NO_HISTORY : historyOf(world);
+    audienceAffinityInto(model, history, audience, out, { seed: 0 });
+  }
+  world.memo.set(key, out);
+  return out;
+}
+
+const NO_HISTORY: Csr = { rows: 0, cols: 0, indptr: new Int32Array(1), indices: new Int32Array(0), data: new Float32Array(0) };
+
+/** The interaction matrix, built once per world and only when a non-iALS model needs customers' histories. */
+function historyOf(world: CurationWorld): Csr {
+  let h = world.memo.get('history') as Csr | undefined;
+  if (!h) world.memo.set('history', (h = buildInteractionMatrix(world.ds)));
+  return h;
+}
+
+/**
  * The fill's editorial state in dense indices: this shelf's edits, the bans that reach it, the rest
  * period, and `usedInEdition` (dense items the caller says other shelves of the edition already hold).
  */
@@ -77,14 +114,14 @@ export function editorialState(
 ): EditorialState {
   const { ctx } = world;
   const dense = (id: number) => ctx.indexOfId.get(id);
-  const bans = new EditorialRepo(db).activeBans(shelf.id, edition.id);
+  const bans = curationRepos(db).editorial.activeBans(shelf.id, edition.id);
   const banSet = new Set<number>();
   for (const id of bans.items) {
     const i = dense(id);
     if (i !== undefined) banSet.add(i);
   }
   const resting = new Set<number>();
-  for (const id of itemsOn(new EditionRepo(db).lastPublished(edition.date, shelf.brief.rules.restPeriod))) {
+  for (const id of itemsOn(curationRepos(db).editions.lastPublished(edition.date, shelf.brief.rules.restPeriod))) {
     const i = dense(id);
     if (i !== undefined) resting.add(i);
   }
@@ -123,18 +160,17 @@ export function fillAndMeter(
   const brief = shelf.brief;
   const editionDate = dateMs(edition.date);
   const state = editorialState(db, world, shelf, edition, edits, usedInEdition);
-  const pool = buildCandidatePool(ctx, brief, state, editionDate);
   const multipliers = new Map<number, number>();
   for (const [id, f] of Object.entries(edits.boosts)) {
     const i = ctx.indexOfId.get(Number(id));
     if (i !== undefined) multipliers.set(i, f);
   }
-  const anchors = Int32Array.from(brief.anchors.map((id) => ctx.indexOfId.get(id) ?? -1).filter((i) => i >= 0));
-  const scores = hybrid.scorePool({ pool: pool.items, anchors, weights: brief.weights, editionDate, multipliers });
-  const posOf = new Map<number, number>();
-  scores.pool.forEach((i, p) => posOf.set(i, p));
-  const relevance = new Float64Array(ctx.n).fill(NaN);
-  for (let p = 0; p < scores.n; p++) relevance[scores.pool[p]!] = scores.blended[p]!;
+  const scored = scoredPool(world, brief, state, editionDate, multipliers, (pool) => {
+    const anchors = Int32Array.from(brief.anchors.map((id) => ctx.indexOfId.get(id) ?? -1).filter((i) => i >= 0));
+    const audienceAffinity = audienceAffinityOf(world, brief, editionDate);
+    return hybrid.scorePool({ pool: pool.items, anchors, weights: brief.weights, editionDate, audienceAffinity, multipliers });
+  });
+  const { pool, scores, posOf, relevance } = scored;
 
   let dense: Int32Array;
   let violations: RuleViolation[];
@@ -142,7 +178,7 @@ export function fillAndMeter(
   const pinnedDense = new Set(state.pins.values());
   if (!refill) {
     // The shelf as stored, with the scores it was filled with.
-    stored = new ShelfRepo(db).slots(shelf.id);
+    stored = curationRepos(db).shelves.slots(shelf.id);
     dense = new Int32Array(shelf.size).fill(-1);
     for (const s of stored) if (s.slot < shelf.size && s.itemId !== null) dense[s.slot] = ctx.indexOfId.get(s.itemId) ?? -1;
     violations = shelf.violations;
@@ -150,9 +186,7 @@ export function fillAndMeter(
     dense = frozenDense(world, shelf, edits);
     violations = [];
   } else {
-    const order = scores.order();
-    const candidates = Array.from(order, (p) => ({ index: scores.pool[p]!, relevance: scores.score[p]! }));
-    const r = fillShelf({ ctx, brief, candidates, state, editionDate });
+    const r = fillShelf({ ctx, brief, candidates: scored.candidates, state, editionDate });
     dense = r.slots;
     violations = r.violations;
   }
@@ -161,8 +195,8 @@ export function fillAndMeter(
   const meter = meterShelf(ctx, dense, inputs);
   const slots: SlotRow[] = stored ?? Array.from(dense, (i, slot) => {
     if (i < 0) return { slot, itemId: null, pinned: false, score: null, percentile: null, contributions: {} };
-    const p = posOf.get(i);
-    const x = p === undefined ? undefined : scores.explain(p);
+    const p = posOf[i]!;
+    const x = p < 0 ? undefined : scores.explain(p);
     return {
       slot,
       itemId: ctx.itemIds[i]!,
@@ -172,6 +206,5 @@ export function fillAndMeter(
       contributions: x ? { ...x.contributions } : {},
     };
   });
-  const ranked = Array.from(scores.order(), (p) => ({ index: scores.pool[p]!, percentile: scores.percentile[p]! }));
-  return { slots, dense, inputs, ranked, meter, violations, poolSize: pool.items.length, excluded: { ...pool.excluded } };
+  return { slots, dense, inputs, ranked: scored.ranked, meter, violations, poolSize: pool.items.length, excluded: { ...pool.excluded } };
 }

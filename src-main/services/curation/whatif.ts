@@ -24,7 +24,7 @@ export function shelfWhatIf(svc: CurationService, edition: string, label: string
   }
   const filled = fillAndMeter(svc.db, world, shelf, e, svc.editsOf(shelf), false);
   const on = new Set(filled.dense);
-  const picks = filled.ranked.filter((c) => !on.has(c.index)).slice(0, n);
+  const picks = filled.ranked().filter((c) => !on.has(c.index)).slice(0, n);
   const batch = whatIfBatch(world.ctx, filled.dense, slot - 1, Int32Array.from(picks, (c) => c.index), filled.inputs);
   const items = world.ds.items;
   return {

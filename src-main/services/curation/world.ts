@@ -1,9 +1,11 @@
 /**
  * Everything a shelf's fill, meter and backtest read about the workspace, loaded once per workspace state:
- * the catalogue, the signals in columns, the curation context (typed arrays), popularity and the hybrid
- * scorer. Cached per connection and rebuilt when the catalogue or the signals change.
+ * the catalogue, the signals in columns, the curation context (typed arrays), popularity, trend and the
+ * hybrid scorer over the workspace's trained models. Cached per connection and model source, and rebuilt
+ * when the catalogue, the signals or the trained models change.
  */
 import { buildCurationContext, type CurationContext } from '../../core/curation/context.ts';
+import { trendRatios } from '../../core/models/popularity.ts';
 import { HybridScorer, type HybridModels } from '../../core/scoring/index.ts';
 import type { Dataset } from '../../core/types.ts';
 import { loadDataset } from '../../store/dataset.ts';
@@ -78,22 +80,37 @@ function customersPerItemOf(ds: Dataset, byCustomer: { ptr: Int32Array; signal: 
   return out;
 }
 
-function stamp(db: Db): string {
-  const r = db
-    .prepare(
-      `SELECT (SELECT count(*) FROM item) AS i, (SELECT coalesce(max(id), 0) FROM item) AS mi,
-              (SELECT count(*) FROM signal) AS s, (SELECT coalesce(max(id), 0) FROM signal) AS ms,
-              (SELECT count(*) FROM customer) AS c, (SELECT total(promoted) + total(available) * 2 FROM item) AS f`,
-    )
-    .get() as Record<string, number>;
-  return JSON.stringify(r);
+/**
+ * What the world depends on, read in one query (under a millisecond on the demo shop): the catalogue, the
+ * signals, the customers, and the trained models (the newest model id, the current ones and their
+ * training times, so a retrain or a rollback to an older model both show). Item flags are weighted by the
+ * item's id, so one item going out of stock as another comes back changes the stamp. An item's text or
+ * price edited in place is not seen: this runs on every editorial action, and reading every item's fields
+ * (as the data fingerprint in store/models.ts does) costs tens of milliseconds.
+ */
+const STAMP_SQL = `SELECT (SELECT count(*) FROM item) AS i, (SELECT coalesce(max(id), 0) FROM item) AS mi,
+        (SELECT count(*) FROM signal) AS s, (SELECT coalesce(max(id), 0) FROM signal) AS ms,
+        (SELECT count(*) FROM customer) AS c,
+        (SELECT total(id * (1 + promoted + 2 * available)) FROM item) AS f,
+        (SELECT coalesce(max(id), 0) FROM model) AS mm,
+        (SELECT coalesce(group_concat(id || ':' || trained_at), '') FROM (SELECT id, trained_at FROM model WHERE current = 1 ORDER BY id)) AS cm`;
+
+const stampQuery = new WeakMap<Db, { get(): unknown }>();
+
+export function worldStamp(db: Db): string {
+  let q = stampQuery.get(db);
+  if (!q) stampQuery.set(db, (q = db.prepare(STAMP_SQL)));
+  return JSON.stringify(q.get());
 }
 
-const cache = new WeakMap<Db, { stamp: string; world: CurationWorld }>();
+/** One world per connection and model source: the api's source (with taste groups) and propose's differ. */
+const cache = new WeakMap<Db, Map<ModelSource, { stamp: string; world: CurationWorld }>>();
 
 export function loadWorld(db: Db, source: ModelSource = noModels): CurationWorld {
-  const st = stamp(db);
-  const hit = cache.get(db);
+  const st = worldStamp(db);
+  let bySource = cache.get(db);
+  if (!bySource) cache.set(db, (bySource = new Map()));
+  const hit = bySource.get(source);
   if (hit && hit.stamp === st) return hit.world;
   const ds = loadDataset(db);
   const byCustomer = signalsByCustomer(ds);
@@ -104,8 +121,12 @@ export function loadWorld(db: Db, source: ModelSource = noModels): CurationWorld
   const vectors = m.vectors ?? attributeVectors(ds);
   const ctx = buildCurationContext(ds.items, { vectors: vectors.data, dim: vectors.dim, popularity, customerCount: nC });
   const addedAt = Float64Array.from(ds.items, (it) => it.addedAt ?? NaN);
-  const hybrid = new HybridScorer(m.models, { customersPerItem, trend: null, addedAt });
+  // Trend at the end of the history (trendRatios' documented default: 14-day windows ending just after the
+  // latest signal). An edition is usually dated after the last signal; measuring at its date would leave
+  // the recent window partly empty, so "rising" means rising in the latest data we hold.
+  const trend = ds.signals.length > 0 ? Float32Array.from(trendRatios(ds)) : null;
+  const hybrid = new HybridScorer(m.models, { customersPerItem, trend, addedAt });
   const world: CurationWorld = { ds, ctx, hybrid, customersPerItem, groups: m.groups, byCustomer, memo: new Map() };
-  cache.set(db, { stamp: st, world });
+  bySource.set(source, { stamp: st, world });
   return world;
 }

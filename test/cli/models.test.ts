@@ -3,7 +3,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { generateDemoShop } from '../../demo-data/generator/index.ts';
 import { importFile } from '../../src-main/services/import.ts';
-import type { CliIo } from '../../src-main/shell/cli/command.ts';
+import { capture } from './capture.ts';
 import { main } from '../../src-main/shell/cli/main.ts';
 import { openWorkspace } from '../../src-main/store/workspace.ts';
 import { tempDir } from '../holdout/fixture.ts';
@@ -18,11 +18,6 @@ let ws: string;
 let holdout: string;
 let firstItem: string;
 
-function capture(): CliIo & { stdout: string[]; stderr: string[] } {
-  const stdout: string[] = [];
-  const stderr: string[] = [];
-  return { stdout, stderr, out: (t) => stdout.push(t), err: (t) => stderr.push(t), errIsTty: false };
-}
 async function run(...argv: string[]) {
   const io = capture();
   const code = await main([...argv, '-w', ws], io, {});

@@ -5,34 +5,43 @@ import type { CliIo } from './command.ts';
 
 function describe(j: JobState): string {
   const p = j.progress;
-  const iter = p.iteration !== undefined && p.iterations ? ` ${p.iteration}/${p.iterations}` : '';
-  return `${p.stage}${p.model ? ` ${p.model}` : ''}${iter}`;
+  return [
+    `${Math.round(p.fraction * 100)}%`.padStart(4),
+    p.stage,
+    p.model ?? '',
+    p.iteration !== undefined && p.iterations !== undefined ? `${p.iteration}/${p.iterations}` : '',
+  ]
+    .filter(Boolean)
+    .join(' ');
 }
 
 /**
- * Follows a background job to its end, drawing progress on stderr: one rewritten line on a terminal,
- * a line per stage otherwise (logs stay readable). Ctrl-C cancels the job before the process ends.
- * Returns the final state; a failed job throws its message as a data error.
+ * Follows a background job to its end, drawing progress on stderr: one rewritten line on a terminal, a
+ * plain line per change otherwise (logs stay readable). Ctrl-C cancels the job, and the job writes nothing.
+ * A failed or cancelled job becomes a data error (exit 2) with its message.
  */
-export async function followJob(table: HandlerTable, job: JobState, io: CliIo, everyMs = 200): Promise<JobState> {
+export async function followJob(table: HandlerTable, job: JobState, io: CliIo, everyMs = 100): Promise<JobState> {
   let last = '';
-  let state = job;
   const onSigint = () => void call(table, 'job.cancel', { id: job.id });
   process.once('SIGINT', onSigint);
   try {
-    while (state.state === 'running') {
+    let state = job;
+    for (;;) {
       const line = describe(state);
-      if (io.errIsTty) io.err(`\r\x1b[2K${line} ${(100 * state.progress.fraction).toFixed(0)}%\x1b[1A`);
-      else if (line.replace(/ \d+\/\d+$/, '') !== last.replace(/ \d+\/\d+$/, '')) io.err(line);
-      last = line;
+      if (line !== last) {
+        if (io.errIsTty) process.stderr.write(`\r${line.padEnd(Math.max(last.length, line.length))}`);
+        else io.err(line);
+        last = line;
+      }
+      if (state.state !== 'running') break;
       await new Promise((r) => setTimeout(r, everyMs));
       state = await call(table, 'job.status', { id: job.id });
     }
+    if (io.errIsTty) process.stderr.write('\n');
+    if (state.state === 'failed') throw new CliApiError({ code: 'internal', message: state.error ?? 'the job failed' });
+    if (state.state === 'cancelled') throw new CliApiError({ code: 'cancelled', message: 'cancelled: nothing was written' });
+    return state;
   } finally {
     process.removeListener('SIGINT', onSigint);
   }
-  if (io.errIsTty) io.err('\r\x1b[2K');
-  if (state.state === 'failed') throw new CliApiError({ code: 'internal', message: state.error ?? 'the job failed' });
-  if (state.state === 'cancelled') throw new CliApiError({ code: 'cancelled', message: 'cancelled; nothing was written' });
-  return state;
 }

@@ -3,38 +3,13 @@ import type { ShelfView } from '../../../api/contracts/curation.ts';
 import type { RequestOf } from '../../../api/contract.ts';
 import { call } from '../call.ts';
 import { EXIT, type CliCommand, type CommandEnv, type OptionSpec } from '../command.ts';
+import { list, num, positionals, str } from '../flags.ts';
 import { formatNumber, table } from '../format.ts';
 import { UsageError } from '../command.ts';
 
 /** Editions, shelves and editorial actions on the command line. Thin: flags → one api call → print. */
 
 type Brief = NonNullable<RequestOf<'shelf.add'>['brief']>;
-
-function str(env: CommandEnv, name: string): string | undefined {
-  const v = env.values[name];
-  return typeof v === 'string' ? v : undefined;
-}
-
-function list(env: CommandEnv, name: string): string[] {
-  const v = env.values[name];
-  return Array.isArray(v) ? (v as string[]) : typeof v === 'string' ? [v] : [];
-}
-
-function num(env: CommandEnv, name: string, check: (x: number) => boolean, what: string): number | undefined {
-  const v = str(env, name);
-  if (v === undefined) return undefined;
-  const x = Number(v);
-  if (v.trim() === '' || !Number.isFinite(x) || !check(x)) throw new UsageError(`--${name} must be ${what}, got '${v}'`);
-  return x;
-}
-
-function positionals(env: CommandEnv, names: string[]): string[] {
-  if (env.positionals.length < names.length) {
-    throw new UsageError(`missing ${names.slice(env.positionals.length).join(' and ')}`);
-  }
-  if (env.positionals.length > names.length) throw new UsageError(`unexpected argument '${env.positionals[names.length]}'`);
-  return env.positionals;
-}
 
 const pct = (x: number | null) => (x === null ? '–' : `${Math.round(x * 100)}%`);
 const val = (x: number | null) => (x === null ? '–' : formatNumber(x));

@@ -1,66 +1,17 @@
 import type { ResponseOf } from '../../../api/contract.ts';
-import type { HandlerTable } from '../../../api/handler-table.ts';
 import { call, CliApiError } from '../call.ts';
 import { EXIT, type CliCommand, type CommandEnv } from '../command.ts';
+import { int, list, num, str } from '../flags.ts';
+import { followJob } from '../follow-job.ts';
 import { formatNumber, table } from '../format.ts';
 import { UsageError } from '../command.ts';
 
 /** Training, evaluation, neighbours, ad-hoc proposals and the top-N export. Thin: flags → api calls → print. */
 
-const str = (env: CommandEnv, name: string): string | undefined => {
-  const v = env.values[name];
-  return typeof v === 'string' ? v : undefined;
-};
-const list = (env: CommandEnv, name: string): string[] => {
-  const v = env.values[name];
-  return Array.isArray(v) ? (v as string[]) : typeof v === 'string' ? [v] : [];
-};
-function num(env: CommandEnv, name: string, check: (x: number) => boolean, what: string): number | undefined {
-  const v = str(env, name);
-  if (v === undefined) return undefined;
-  const x = Number(v);
-  if (v.trim() === '' || !Number.isFinite(x) || !check(x)) throw new UsageError(`--${name} must be ${what}, got '${v}'`);
-  return x;
-}
-const int = (env: CommandEnv, name: string, min = 1) => num(env, name, (x) => Number.isInteger(x) && x >= min, `a whole number >= ${min}`);
 const nonNeg = (env: CommandEnv, name: string) => num(env, name, (x) => x >= 0, 'a number >= 0');
 const val = (x: number | null | undefined) => (x === null || x === undefined ? '–' : formatNumber(x));
 const only = <T extends object>(o: T) => Object.fromEntries(Object.entries(o).filter(([, v]) => v !== undefined)) as T;
 
-type Job = ResponseOf<'job.status'>;
-
-/** Polls a job to its end, printing progress on stderr: one updating line on a terminal, plain lines otherwise. */
-async function follow(env: CommandEnv, table_: HandlerTable, job: Job): Promise<Job> {
-  let last = '';
-  const onInt = () => void call(table_, 'job.cancel', { id: job.id });
-  process.once('SIGINT', onInt);
-  try {
-    let s = job;
-    for (;;) {
-      const p = s.progress;
-      const line = [
-        `${Math.round(p.fraction * 100)}%`.padStart(4),
-        p.stage,
-        p.model ?? '',
-        p.iteration !== undefined && p.iterations !== undefined ? `${p.iteration}/${p.iterations}` : '',
-      ].filter(Boolean).join(' ');
-      if (line !== last) {
-        if (env.io.errIsTty) process.stderr.write(`\r${line.padEnd(Math.max(last.length, line.length))}`);
-        else env.io.err(line);
-        last = line;
-      }
-      if (s.state !== 'running') break;
-      await new Promise((r) => setTimeout(r, 100));
-      s = await call(table_, 'job.status', { id: job.id });
-    }
-    if (env.io.errIsTty) process.stderr.write('\n');
-    if (s.state === 'failed') throw new CliApiError({ code: 'input', message: s.error ?? 'the job failed' });
-    if (s.state === 'cancelled') throw new CliApiError({ code: 'cancelled', message: 'cancelled: nothing was written' });
-    return s;
-  } finally {
-    process.removeListener('SIGINT', onInt);
-  }
-}
 
 const trainCommand: CliCommand = {
   name: 'train',
@@ -112,7 +63,7 @@ const trainCommand: CliCommand = {
       threads: int(env, 'threads'),
       tune: env.values['tune'] ? only({ k: k ?? 10, seed: int(env, 'seed', 0) }) : undefined,
     }));
-    const end = await follow(env, t, job);
+    const end = await followJob(t, job, env.io);
     const { models: stored } = await call(t, 'models.list', {});
     if (env.json) {
       env.io.out(JSON.stringify({ job: end, models: stored }, null, 2));
@@ -201,7 +152,7 @@ const evaluateCommand: CliCommand = {
       return EXIT.ok;
     }
     const job = await call(t, 'evaluate.start', only({ k: k ?? 10, sampleCustomers: int(env, 'sample') }));
-    await follow(env, t, job);
+    await followJob(t, job, env.io);
     const { evaluation: e } = await call(t, 'evaluate.latest', {});
     if (!e) throw new CliApiError({ code: 'internal', message: 'the evaluation stored nothing' });
     if (env.json) {

@@ -22,13 +22,27 @@ export function nnz(m: Csr): number {
  * rows were sorted, which `buildInteractionMatrix` relies on.
  */
 export function transpose(m: Csr): Csr {
-  const total = nnz(m);
+  return transposeRows(m, (n) => new Float32Array(n));
+}
+
+/** Sparse rows with any float array for values (TF-IDF builds in Float64 before storing Float32). */
+export interface SparseRowsOf<D extends Float32Array | Float64Array> {
+  rows: number;
+  cols: number;
+  indptr: Int32Array;
+  indices: Int32Array;
+  data: D;
+}
+
+/** `transpose` for any value precision; `alloc` makes the output's value array. */
+export function transposeRows<D extends Float32Array | Float64Array>(m: SparseRowsOf<D>, alloc: (n: number) => D): SparseRowsOf<D> {
+  const total = m.indptr[m.rows] ?? 0;
   const indptr = new Int32Array(m.cols + 1);
   for (let p = 0; p < total; p++) indptr[m.indices[p]! + 1]!++;
   for (let c = 0; c < m.cols; c++) indptr[c + 1]! += indptr[c]!;
   const next = indptr.slice(0, m.cols);
   const indices = new Int32Array(total);
-  const data = new Float32Array(total);
+  const data = alloc(total);
   for (let r = 0; r < m.rows; r++) {
     for (let p = m.indptr[r]!, end = m.indptr[r + 1]!; p < end; p++) {
       const q = next[m.indices[p]!]!++;

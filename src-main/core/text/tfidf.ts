@@ -1,4 +1,5 @@
 import { InputError } from '../errors.ts';
+import { transposeRows } from '../matrix/csr.ts';
 
 /** Sparse rows in double precision (the TF-IDF weights before they are stored as Float32). */
 export interface SparseRows64 {
@@ -105,19 +106,5 @@ export function normalizeRow(data: Float64Array, start: number, end: number): vo
  * one by one could cost the square of a long description's term count.
  */
 export function transpose64(m: SparseRows64): SparseRows64 {
-  const total = m.indptr[m.rows]!;
-  const indptr = new Int32Array(m.cols + 1);
-  for (let p = 0; p < total; p++) indptr[m.indices[p]! + 1]!++;
-  for (let c = 0; c < m.cols; c++) indptr[c + 1]! += indptr[c]!;
-  const next = indptr.slice(0, m.cols);
-  const indices = new Int32Array(total);
-  const data = new Float64Array(total);
-  for (let r = 0; r < m.rows; r++) {
-    for (let p = m.indptr[r]!, end = m.indptr[r + 1]!; p < end; p++) {
-      const q = next[m.indices[p]!]!++;
-      indices[q] = r;
-      data[q] = m.data[p]!;
-    }
-  }
-  return { rows: m.cols, cols: m.rows, indptr, indices, data };
+  return transposeRows(m, (n) => new Float64Array(n));
 }

@@ -38,11 +38,11 @@ export function rowConverter(ctx: RowContext): Converter<ItemInput | CustomerInp
 }
 
 /** Column label for a problem: the column number for CSV, the key for JSON. */
-function columnLabel(ctx: RowContext, i: number): number | string {
+export function columnLabel(ctx: RowContext, i: number): number | string {
   return ctx.delimiter !== undefined ? i + 1 : (ctx.plan.headers[i] ?? i + 1);
 }
 
-function checkWidth(ctx: RowContext, values: unknown[], problems: Problem[]): boolean {
+export function checkWidth(ctx: RowContext, values: unknown[], problems: Problem[]): boolean {
   if (ctx.delimiter === undefined || values.length === ctx.plan.headers.length) return true;
   problems.push({
     column: Math.min(values.length, ctx.plan.headers.length) + 1,
@@ -65,7 +65,7 @@ function field<T>(
   return out;
 }
 
-function externalId(v: unknown): string | Bad {
+export function externalId(v: unknown): string | Bad {
   if (isBlank(v)) return { bad: 'missing id' };
   const t = text(v);
   return isBad(t) ? t : t.trim();

@@ -1,8 +1,10 @@
 import { BugError, InputError } from '../core/errors.ts';
-import { CatalogueWriter, logImport, type CustomerWrite, type ItemWrite, type SignalWrite } from '../store/catalogue-writes.ts';
+import { CatalogueWriter, logImport, type CustomerWrite, type ItemWrite, type SignalBatch } from '../store/catalogue-writes.ts';
 import type { Db } from '../store/workspace.ts';
 import { planColumns, type ColumnPlan, type ImportTarget, type Mapping } from './fields.ts';
+import { RejectLog, type RowError } from './rejects.ts';
 import { rowConverter, type Problem } from './rows.ts';
+import { readSignals, type SignalReadOptions } from './signal-read.ts';
 import { formatOf, readSource, type ImportFormat } from './source.ts';
 import type { DateOrder } from './values.ts';
 
@@ -19,14 +21,6 @@ export interface RunOptions {
   acceptPartial?: boolean;
   /** Called every PROGRESS_EVERY rows while rows are being written. */
   onProgress?: (p: { rows: number }) => void;
-}
-
-export interface RowError {
-  line: number;
-  column: number | string | null;
-  reason: string;
-  /** `file:line:column: reason` (InputError.describe()). */
-  message: string;
 }
 
 export interface ImportReport {
@@ -50,7 +44,7 @@ export interface ImportReport {
   mapping: Mapping;
 }
 
-export const MAX_ERRORS = 100;
+export { MAX_ERRORS, type RowError } from './rejects.ts';
 export const PROGRESS_EVERY = 10_000;
 
 /**
@@ -101,19 +95,11 @@ async function readAndWrite(db: Db, o: RunOptions, format: ImportFormat): Promis
     target: o.target, file: o.file, format, delimiter: null, rows: 0, added: 0, updated: 0, unchanged: 0,
     rejected: 0, customersCreated: 0, errors: [], errorCount: 0, committed: false, elapsedMs: 0, mapping: {},
   };
-  const reject = (line: number, column: number | string | null, reason: string, newRow = true) => {
-    if (newRow) report.rejected++;
-    report.errorCount++;
-    if (report.errors.length < MAX_ERRORS) {
-      const message = new InputError(reason, column === null ? { file: o.file, line } : { file: o.file, line, column }).describe();
-      report.errors.push({ line, column, reason, message });
-    }
-  };
+  if (o.target === 'signals') return readAndWriteSignals(writer, o, format, report);
+  const rejects = new RejectLog(o.file);
   let plan: ColumnPlan | undefined;
   let convert: ReturnType<typeof rowConverter> | undefined;
-  let validSignals = 0;
   const problems: Problem[] = [];
-  const createCustomers = o.unknown === 'create';
   const info = await readSource(
     o.file,
     format,
@@ -122,7 +108,6 @@ async function readAndWrite(db: Db, o: RunOptions, format: ImportFormat): Promis
         plan = planColumns(o.file, o.target, headers, o.mapping);
         report.mapping = plan.mapping;
         convert = rowConverter({ plan, dateOrder: o.dateOrder, delimiter });
-        if (o.target === 'signals') writer.startSignals();
       },
       newColumn(name) {
         plan!.headers.push(name);
@@ -130,7 +115,7 @@ async function readAndWrite(db: Db, o: RunOptions, format: ImportFormat): Promis
       },
       broken(line, reason) {
         report.rows++;
-        reject(line, null, reason);
+        rejects.add(line, null, reason);
       },
       row(values, line) {
         report.rows++;
@@ -138,32 +123,58 @@ async function readAndWrite(db: Db, o: RunOptions, format: ImportFormat): Promis
         const row = convert!(values, problems);
         if (row === undefined) {
           // One rejected row counts once, however many of its cells are wrong; each cell is reported.
-          problems.forEach((p, k) => reject(line, p.column, p.reason, k === 0));
+          problems.forEach((p, k) => rejects.add(line, p.column, p.reason, k === 0));
           return;
         }
-        let outcome;
-        if (o.target === 'items') outcome = writer.writeItem(row as ItemWrite);
-        else if (o.target === 'customers') outcome = writer.writeCustomer(row as CustomerWrite);
-        else {
-          outcome = writer.writeSignal(row as SignalWrite, createCustomers);
-          if (outcome === undefined) validSignals++;
-        }
-        if (typeof outcome === 'object') reject(line, columnOf(plan!, format, outcome.reject), outcome.reject);
-        else if (outcome !== undefined) report[outcome]++;
+        const outcome = o.target === 'items' ? writer.writeItem(row as ItemWrite) : writer.writeCustomer(row as CustomerWrite);
+        if (typeof outcome === 'object') rejects.add(line, columnOf(plan!, format, outcome.reject), outcome.reject);
+        else report[outcome]++;
         if (o.onProgress && report.rows % PROGRESS_EVERY === 0) o.onProgress({ rows: report.rows });
       },
     },
     o.delimiter,
   );
   report.delimiter = info.delimiter ?? null;
-  if (!plan) throw new InputError('the file is empty: no header row and no records', { file: o.file });
-  if (report.rows === 0) throw new InputError('the file has a header but no data rows', { file: o.file, line: 2 });
+  Object.assign(report, { rejected: rejects.rejected, errorCount: rejects.errorCount, errors: rejects.errors });
+  checkNotEmpty(o.file, plan !== undefined, report.rows);
+  return report;
+}
+
+/**
+ * Signals: parsed, checked and resolved to row ids by `readSignals`, written in typed-array batches of
+ * SIGNAL_BATCH rows, then counted once by `finishSignals`.
+ */
+async function readAndWriteSignals(writer: CatalogueWriter, o: RunOptions, format: ImportFormat, report: ImportReport): Promise<ImportReport> {
+  writer.startSignals();
+  let nextProgress = PROGRESS_EVERY;
+  const write = (b: SignalBatch) => {
+    writer.writeSignalBatch(b);
+    for (; o.onProgress && b.rowsRead >= nextProgress; nextProgress += PROGRESS_EVERY) o.onProgress({ rows: nextProgress });
+  };
+  const options: SignalReadOptions = {
+    file: o.file,
+    format,
+    createCustomers: o.unknown === 'create',
+    ...(o.mapping && { mapping: o.mapping }),
+    ...(o.delimiter && { delimiter: o.delimiter }),
+    ...(o.dateOrder && { dateOrder: o.dateOrder }),
+  };
+  const r = await readSignals(options, writer.idMaps(), write);
+  Object.assign(report, {
+    rows: r.rows, rejected: r.rejected, errorCount: r.errorCount, errors: r.errors, mapping: r.mapping ?? {}, delimiter: r.delimiter ?? null,
+  });
+  checkNotEmpty(o.file, r.mapping !== undefined, r.rows);
   // A failing all-or-nothing import is rolled back anyway: skip rebuilding indexes it would throw away.
-  if (o.target === 'signals' && (report.rejected === 0 || o.acceptPartial)) {
-    const c = writer.finishSignals(validSignals);
+  if (report.rejected === 0 || o.acceptPartial) {
+    const c = writer.finishSignals(r.valid);
     Object.assign(report, { added: c.added, updated: c.updated, unchanged: c.unchanged, customersCreated: c.customersCreated });
   }
   return report;
+}
+
+function checkNotEmpty(file: string, sawHeader: boolean, rows: number): void {
+  if (!sawHeader) throw new InputError('the file is empty: no header row and no records', { file });
+  if (rows === 0) throw new InputError('the file has a header but no data rows', { file, line: 2 });
 }
 
 /** The column a writer's reason names ('item: unknown item ...' -> the item column). */

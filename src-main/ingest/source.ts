@@ -70,11 +70,56 @@ async function readCsv(file: string, sink: RowSink, given?: string): Promise<Sou
   let line = 1; // where the next record starts
   let headerDone = false;
   let stopped = false;
+  /** One record starting at `start`; false when the sink asked to stop. */
+  const deliver = (rec: string[], start: number): boolean => {
+    if (rec.length === 1 && rec[0] === '') return true; // a blank line
+    if (!headerDone) {
+      headerDone = true;
+      sink.header(rec, delimiter);
+      return true;
+    }
+    return sink.row(rec, start) !== false;
+  };
   const done = new Promise<void>((resolve, reject) => {
     const fail = (e: unknown) => {
       stream.destroy();
       parser?.destroy();
       reject(e instanceof CsvError ? csvInputError(file, e) : e);
+    };
+    const stop = () => {
+      stopped = true;
+      stream.destroy();
+      parser?.destroy();
+      resolve();
+    };
+    const startParser = () => {
+      const p = makeParser(delimiter);
+      parser = p;
+      p.on('error', fail);
+      p.on('end', () => resolve());
+      p.on('readable', () => {
+        try {
+          let rec: string[] | null;
+          while (!stopped && (rec = p.read() as string[] | null) !== null) {
+            const start = line;
+            // csv-parse's own per-record line info (on_record/info) costs ~3x its parse time; count instead:
+            // a record spans one line plus the line breaks inside its quoted fields (RFC 4180 rule 6).
+            line += 1;
+            for (const f of rec) for (let i = f.indexOf('\n'); i >= 0; i = f.indexOf('\n', i + 1)) line++;
+            if (!deliver(rec, start)) stop();
+          }
+        } catch (e) {
+          fail(e);
+        }
+      });
+    };
+    /** Passes one chunk of raw bytes (csv-parse decodes them; TextCheck has already proved them UTF-8). */
+    const take = (bytes: Buffer, last: boolean) => {
+      if (bytes.length > 0 && !parser!.write(bytes)) {
+        stream.pause();
+        parser!.once('drain', () => stream.resume());
+      }
+      if (last) parser!.end();
     };
     stream.on('error', fail);
     stream.on('data', (chunk) => {
@@ -84,38 +129,9 @@ async function readCsv(file: string, sink: RowSink, given?: string): Promise<Sou
         if (!parser) {
           const nl = text.indexOf('\n');
           if (!given) delimiter = detectDelimiter((nl < 0 ? text : text.slice(0, nl)).replace(/^\uFEFF/, ''), file);
-          parser = makeParser(delimiter);
-          parser.on('error', fail);
-          parser.on('end', () => resolve());
-          parser.on('readable', () => {
-            try {
-              let rec: string[] | null;
-              while (!stopped && (rec = parser!.read() as string[] | null) !== null) {
-                const start = line;
-                // csv-parse's own per-record line info (on_record/info) costs ~3x its parse time; count instead:
-                // a record spans one line plus the line breaks inside its quoted fields (RFC 4180 rule 6).
-                line += 1;
-                for (const f of rec) for (let i = f.indexOf('\n'); i >= 0; i = f.indexOf('\n', i + 1)) line++;
-                if (rec.length === 1 && rec[0] === '') continue; // a blank line
-                if (!headerDone) {
-                  headerDone = true;
-                  sink.header(rec, delimiter);
-                } else if (sink.row(rec, start) === false) {
-                  stopped = true;
-                  stream.destroy();
-                  parser!.destroy();
-                  resolve();
-                }
-              }
-            } catch (e) {
-              fail(e);
-            }
-          });
+          startParser();
         }
-        if (!stopped && !parser.write(bytes)) {
-          stream.pause();
-          parser.once('drain', () => stream.resume());
-        }
+        if (!stopped) take(bytes, false);
       } catch (e) {
         fail(e);
       }
@@ -123,7 +139,8 @@ async function readCsv(file: string, sink: RowSink, given?: string): Promise<Sou
     stream.on('end', () => {
       try {
         check.end();
-        if (parser) parser.end();
+        if (stopped) return;
+        if (parser) take(Buffer.alloc(0), true);
         else resolve();
       } catch (e) {
         fail(e);

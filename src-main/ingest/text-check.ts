@@ -37,8 +37,9 @@ export class TextCheck {
     return out;
   }
 
-  end(): void {
-    this.chunk(new Uint8Array(0), true);
+  /** Ends the check; returns the decoder's last text (empty for valid UTF-8). */
+  end(): string {
+    return this.chunk(new Uint8Array(0), true);
   }
 }
 

@@ -1,0 +1,70 @@
+import type { IdMaps, SignalBatch } from '../store/catalogue-writes.ts';
+import { planColumns, type Mapping } from './fields.ts';
+import { RejectLog, type RowError } from './rejects.ts';
+import { SignalRows } from './signal-rows.ts';
+import { readSource, type ImportFormat } from './source.ts';
+import type { DateOrder } from './values.ts';
+
+/** What reading a signal file needs. */
+export interface SignalReadOptions {
+  file: string;
+  format: ImportFormat;
+  mapping?: Mapping;
+  delimiter?: string;
+  dateOrder?: DateOrder;
+  createCustomers: boolean;
+}
+
+export interface SignalReadResult {
+  /** Data rows read (rejected included). */
+  rows: number;
+  /** Rows handed out in batches. */
+  valid: number;
+  rejected: number;
+  errorCount: number;
+  errors: RowError[];
+  /** undefined when the file had no header at all. */
+  mapping: Mapping | undefined;
+  delimiter: string | undefined;
+}
+
+/**
+ * Reads, checks and resolves a signal file, handing each full batch of row ids to `emit` (the writer).
+ * Parsing in a worker thread beside the inserts was tried and measured slower on the shared two-core
+ * machine (1M rows: wall 11.9-14.1 s vs 9.4-12.6 s in this thread, CPU time no lower; measured 2026-12-02).
+ */
+export async function readSignals(o: SignalReadOptions, ids: IdMaps, emit: (b: SignalBatch) => void): Promise<SignalReadResult> {
+  const rejects = new RejectLog(o.file);
+  let rows: SignalRows | undefined;
+  let early = 0; // broken rows before the header (JSON Lines)
+  let mapping: Mapping | undefined;
+  const info = await readSource(
+    o.file,
+    o.format,
+    {
+      header(headers, delimiter) {
+        const plan = planColumns(o.file, 'signals', headers, o.mapping);
+        mapping = plan.mapping;
+        rows = new SignalRows({ plan, dateOrder: o.dateOrder, delimiter }, ids, o.createCustomers, rejects, emit);
+        rows.rows = early;
+      },
+      newColumn() {
+        // An extra JSON key is no signal field; the width check applies to CSV only.
+      },
+      broken(line, reason) {
+        if (rows) rows.broken(line, reason);
+        else {
+          early++;
+          rejects.add(line, null, reason);
+        }
+      },
+      row(values, line) {
+        rows!.row(values, line);
+      },
+    },
+    o.delimiter,
+  );
+  rows?.end();
+  const { rejected, errorCount, errors } = rejects;
+  return { rows: rows?.rows ?? early, valid: rows?.valid ?? 0, rejected, errorCount, errors, mapping, delimiter: info.delimiter };
+}

@@ -35,6 +35,34 @@ const value = (name: string, d: number) => {
 };
 const threads = value('threads', Math.min(2, os.availableParallelism()));
 
+const loadAverage = () => os.loadavg().map((x) => x.toFixed(1)).join(' ');
+
+/**
+ * CPU seconds of each live thread of this process, by thread id, from /proc/self/task/<tid>/stat
+ * (utime + stime, fields 14 and 15, in clock ticks: proc(5)); empty where /proc is missing. Worker
+ * threads show up here, so a sample taken while iALS runs shows whether both solver threads are busy.
+ */
+function threadCpu(): Map<number, number> {
+  const out = new Map<number, number>();
+  const tick = 100; // USER_HZ, 100 on Linux (sysconf(_SC_CLK_TCK); from memory)
+  try {
+    for (const tid of fs.readdirSync('/proc/self/task')) {
+      const stat = fs.readFileSync(`/proc/self/task/${tid}/stat`, 'utf8');
+      const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' '); // fields from 3 on
+      out.set(Number(tid), (Number(fields[11]) + Number(fields[12])) / tick);
+    }
+  } catch {
+    // not Linux: no per-thread figures
+  }
+  return out;
+}
+
+/** Threads that used more than 0.2 CPU-s between two samples, busiest first, as "tid 1.2 s". */
+function busyThreads(before: Map<number, number>, after: Map<number, number>): string {
+  const used = [...after].map(([tid, t]) => [tid, t - (before.get(tid) ?? 0)] as const).filter(([, t]) => t > 0.2);
+  return used.sort((a, b) => b[1] - a[1]).map(([tid, t]) => `${tid} ${t.toFixed(1)} s`).join(', ') || 'n/a';
+}
+
 const median = (xs: number[]) => {
   const s = [...xs].sort((a, b) => a - b);
   const m = s.length >> 1;
@@ -100,6 +128,8 @@ async function demoShop(): Promise<void> {
     console.log(`  train everything (worker thread, load + matrix + 5 models): ${ms(total)} wall, ` +
       `${(cpuSeconds() - cpu0).toFixed(1)} CPU-s  [target < 20 s] ${total < 20_000 ? 'MET' : 'MISSED'}`);
     for (const r of out.records) console.log(`    ${r.kind.padEnd(10)} ${ms(r.trainMs)}${r.report.notes.length ? `  (${r.report.notes.join('; ')})` : ''}`);
+    console.log('    stages (wall / CPU of all threads): ' + out.timings.map((x) => `${x.stage}${x.inThread ? ' (own thread, alongside)' : ''} ${(x.wallMs / 1000).toFixed(2)} / ${x.cpuMs < 0 ? 'n/a' : (x.cpuMs / 1000).toFixed(2)} s`).join(', '));
+    console.log(`    load average after training ${loadAverage()}`);
     console.log(`    iALS iterations reported: ${lastIals}`);
 
     const history = buildInteractionMatrix(loadDataset(db));
@@ -170,6 +200,7 @@ async function largeSet(): Promise<void> {
   const cpuTimes: number[] = [];
   let last = performance.now();
   let lastCpu = cpuSeconds();
+  let lastThreads = threadCpu();
   t = performance.now();
   const { model, report } = await fitIalsThreaded(m, { factors: k, iterations, cgSteps, seed: 1 }, {
     threads,
@@ -180,13 +211,16 @@ async function largeSet(): Promise<void> {
       cpuTimes.push(cpu - lastCpu);
       last = now;
       lastCpu = cpu;
-      console.log(`    iteration ${p.iteration}: ${ms(times.at(-1)!)} wall, ${cpuTimes.at(-1)!.toFixed(1)} CPU-s, loss ${p.loss?.toExponential(6)}`);
+      const threadsNow = threadCpu();
+      console.log(`    iteration ${p.iteration}: ${ms(times.at(-1)!)} wall, ${cpuTimes.at(-1)!.toFixed(1)} CPU-s, loss ${p.loss?.toExponential(6)}; ` +
+        `busy threads (CPU-s): ${busyThreads(lastThreads, threadsNow)}; load ${loadAverage()}`);
+      lastThreads = threadsNow;
     },
   });
   const total = performance.now() - t;
   const flops = ialsFlops(U, I, U * per, k, cgSteps);
   const med = median(times);
-  console.log(`  iALS total ${ms(total)} (incl. setup)  [target < 120 s] ${total < 120_000 ? 'MET' : 'MISSED'}`);
+  console.log(`  iALS total ${ms(total)} (incl. setup)  [target < 120 s] ${total < 120_000 ? 'MET' : 'MISSED'}; ${report.notes.join('; ')}`);
   console.log(`  FLOPs per iteration: (s+1)·[2k²(U+I) + 8k·nnz] + k(k+1)(U+I) + 2k·nnz = ${(flops / 1e9).toFixed(2)} GFLOP`);
   const medCpu = median(cpuTimes);
   console.log(`  median iteration ${ms(med)} wall → ${(flops / (med / 1000) / 1e9).toFixed(2)} GFLOP/s; ` +
@@ -200,7 +234,7 @@ async function largeSet(): Promise<void> {
   console.log(`  score one customer over ${I} items (iALS) median ${ms(s)}  [target < 50 ms] ${s < 50 ? 'MET' : 'MISSED'}`);
 }
 
-console.log(`model benchmark: Node ${process.version}, ${os.availableParallelism()} cores, load average ${os.loadavg().map((x) => x.toFixed(1)).join(' ')}`);
+console.log(`model benchmark: Node ${process.version}, ${os.availableParallelism()} cores, load average ${loadAverage()}`);
 if (!flag('skip-demo')) await demoShop();
 if (!flag('skip-large')) await largeSet();
-console.log(`\npeak RSS ${peakRssMb().toFixed(0)} MB`);
+console.log(`\npeak RSS ${peakRssMb().toFixed(0)} MB; load average at the end ${loadAverage()}`);

@@ -89,6 +89,55 @@ describe('solveRows (conjugate gradient per row)', () => {
   });
 });
 
+describe('solveRows over several rows (groups of rows in lockstep)', () => {
+  it('solves every row of ranges of 1 to 9 rows, k = 5, to the dense solution of its own system (ml-matrix)', () => {
+    // Rows go through CG GROUP at a time; ranges that are not multiples of the group, rows with no
+    // entries and a k that is not a multiple of the 4-way blocking must all give each row its own solution.
+    const items = 30;
+    const k = 5;
+    const lambda = 0.1;
+    const rng = seededRng(12);
+    const y = new Float32Array(items * k).map(() => rng.normal());
+    const params = ialsParams({ alpha: 1.5, factors: k });
+    const gram = new Float64Array(k * k);
+    for (let i = 0; i < items; i++)
+      for (let f = 0; f < k; f++) for (let g = 0; g < k; g++) gram[f * k + g]! += y[i * k + f]! * y[i * k + g]!;
+    for (let rows = 1; rows <= 9; rows++) {
+      const indptr = new Int32Array(rows + 1);
+      const indices: number[] = [];
+      const conf: number[] = [];
+      for (let u = 0; u < rows; u++) {
+        const n = u === 2 ? 0 : 1 + ((u * 7) % 10); // distinct items; row 2 has none, so its solution is x = 0
+        for (let q = 0; q < n; q++) {
+          indices.push((u * 5 + q * 3) % items);
+          conf.push(confidence(params, 1 + (q % 3)));
+        }
+        indptr[u + 1] = indices.length;
+      }
+      const target = new Float32Array(rows * k).map(() => 0.01 * rng.normal());
+      solveRows(
+        { k, lambda, cgSteps: 4 * k, rows: { rows, indptr, indices: Int32Array.from(indices), conf: Float32Array.from(conf) }, target, fixed: y, gram },
+        0,
+        rows,
+        new Float64Array(solveScratchLength(k)),
+        false,
+      );
+      for (let u = 0; u < rows; u++) {
+        const c = new Float64Array(items).fill(1);
+        const pref = new Float64Array(items);
+        for (let q = indptr[u]!; q < indptr[u + 1]!; q++) {
+          c[indices[q]!] = conf[q]!;
+          pref[indices[q]!] = 1;
+        }
+        const got = target.subarray(u * k, (u + 1) * k);
+        if (indptr[u + 1] === indptr[u]) {
+          for (const v of got) expect(Math.abs(v)).toBeLessThan(1e-6);
+        } else expect(relativeError(got, denseSolve(y, items, k, c, pref, lambda))).toBeLessThan(1e-5);
+      }
+    }
+  });
+});
+
 describe('iALS loss', () => {
   const m = randomInteractions(30, 24, 0.15, 3);
 

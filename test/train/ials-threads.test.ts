@@ -22,6 +22,16 @@ describe('fitIalsThreaded', () => {
     }
   });
 
+  it('gives identical losses too, the observed part being summed over fixed chunks in chunk order', async () => {
+    const m = randomInteractions(300, 90, 0.05, 8);
+    const one = fitIals(m, params);
+    const many = await fitIalsThreaded(m, params, { threads: 2 });
+    expect(many.report.losses).toEqual(one.report.losses);
+    expect(bytesOf(many.model.itemFactors).equals(bytesOf(one.model.itemFactors))).toBe(true);
+    // Every row chunk was solved by one of the two threads (dynamic claims; the split itself varies).
+    expect(many.report.notes.join(' ')).toMatch(/solved on 2 threads \(shares of the row chunks: \d+% \/ \d+%\)/);
+  });
+
   it('stops with CancelledError at an iteration boundary and releases its workers', async () => {
     const m = randomInteractions(60, 40, 0.1, 6);
     const ctl = new AbortController();

@@ -4,7 +4,10 @@ import { CancelledError, InputError } from '../../src-main/core/errors.ts';
 import { loadIals } from '../../src-main/core/models/ials.ts';
 import { JobRegistry } from '../../src-main/services/jobs.ts';
 import { startTraining, trainAll, trainJob } from '../../src-main/services/train/train-job.ts';
-import type { TrainProgress } from '../../src-main/services/train/train-models.ts';
+import { buildInteractionMatrix } from '../../src-main/core/matrix/build.ts';
+import { fitEase } from '../../src-main/core/models/ease.ts';
+import { TRAIN_EASE_DEFAULTS, type TrainProgress } from '../../src-main/services/train/train-models.ts';
+import { loadDataset } from '../../src-main/store/dataset.ts';
 import { dataFingerprint, ModelRepo, modelStatus } from '../../src-main/store/models.ts';
 import { smallWorkspace } from '../store/models-fixture.ts';
 
@@ -32,6 +35,17 @@ describe('trainAll (worker thread)', () => {
     expect(ials.itemCount).toBe(30);
     expect(ials.customerCount).toBe(60);
     expect(out.records.find((r) => r.kind === 'ials')!.report.losses).toHaveLength(4);
+  });
+
+  it('fits EASE in its own thread to exactly the model fitted on this thread, and passes its errors back by kind', async () => {
+    // The same fitEase on the same matrix, in another thread: the bytes must not differ.
+    const out = await trainAll(ws.file, { ...options, models: ['ease'] });
+    expect(out.timings.find((t) => t.stage === 'ease')?.inThread).toBe(true);
+    const here = fitEase(buildInteractionMatrix(loadDataset(ws.db)), { ...TRAIN_EASE_DEFAULTS });
+    expect(Buffer.from(out.records[0]!.bytes).equals(Buffer.from(here.model.serialize()))).toBe(true);
+    const failed: unknown = await trainAll(ws.file, { ...options, models: ['ease'], params: { ease: { lambda: 0 } } }).catch((e: unknown) => e);
+    expect(failed).toBeInstanceOf(InputError);
+    expect((failed as Error).message).toMatch(/lambda must be > 0/);
   });
 
   it('passes a bad workspace path back as an InputError', async () => {

@@ -3,7 +3,8 @@ import type { Csr } from '../matrix/csr.ts';
 import { transpose } from '../matrix/csr.ts';
 import { seededRng } from '../rng.ts';
 import { confidence, type IalsParams } from './ials-params.ts';
-import { addGramRows, mirrorGram, type ConfRows, type HalfProblem } from './ials-solve.ts';
+import { addGramRows, mirrorGram } from './ials-kernels.ts';
+import { balancedRanges, solveRows, type ConfRows, type HalfProblem } from './ials-solve.ts';
 import type { FitOptions } from './scorer.ts';
 
 export type IalsSide = 'customers' | 'items';
@@ -27,6 +28,12 @@ export interface IalsState {
   gramY: Float64Array;
   /** GRAM_BLOCKS partial Grams (k × k each), summed in block order. */
   gramParts: Float64Array;
+  /** SOLVE_CHUNKS + 1 boundaries per side: the units of work threads claim in a half-iteration. */
+  chunks: Record<IalsSide, Int32Array>;
+  /** The next unclaimed chunk or Gram block (one Int32; reset before each unit of the schedule). */
+  counter: Int32Array;
+  /** Each chunk's observed loss part, summed in chunk order whoever solved it. */
+  partials: Float64Array;
 }
 
 export type Alloc = (byteLength: number) => ArrayBufferLike;
@@ -36,6 +43,15 @@ export type Alloc = (byteLength: number) => ArrayBufferLike;
  * threads add the same numbers in the same order and produce identical factors.
  */
 export const GRAM_BLOCKS = 8;
+
+/**
+ * Each half-iteration's rows are cut into this many chunks of about equal estimated work, claimed one
+ * at a time from a shared counter by whichever thread is free (dynamic scheduling: a thread slowed by
+ * other work on a shared machine simply claims fewer, and a chunk of heavier rows than estimated
+ * delays only itself). 256 keeps the claims (one atomic add each) negligible and the tail, at most one
+ * chunk per thread, short (common practice, no source).
+ */
+export const SOLVE_CHUNKS = 256;
 
 const plainAlloc: Alloc = (n) => new ArrayBuffer(n);
 
@@ -71,6 +87,12 @@ export function prepareIals(m: Csr, params: IalsParams, alloc: Alloc = plainAllo
     gramX: new Float64Array(alloc(8 * k * k)),
     gramY: new Float64Array(alloc(8 * k * k)),
     gramParts: new Float64Array(alloc(8 * GRAM_BLOCKS * k * k)),
+    chunks: {
+      customers: copyInto(new Int32Array(alloc(4 * (SOLVE_CHUNKS + 1))), balancedRanges(byCustomer.indptr, m.rows, k, SOLVE_CHUNKS)),
+      items: copyInto(new Int32Array(alloc(4 * (SOLVE_CHUNKS + 1))), balancedRanges(byItem.indptr, m.cols, k, SOLVE_CHUNKS)),
+    },
+    counter: new Int32Array(alloc(4)),
+    partials: new Float64Array(alloc(8 * SOLVE_CHUNKS)),
   };
 }
 
@@ -148,6 +170,41 @@ export function computeGramBlock(s: IalsState, side: IalsSide, b: number): void 
   const n = side === 'customers' ? s.customers : s.items;
   const [start, end] = gramBlock(n, b);
   addGramRows(side === 'customers' ? s.x : s.y, s.k, start, end, part);
+}
+
+/**
+ * Claims Gram blocks of `side` from the shared counter until none is left, computing each; returns
+ * how many this thread computed. Any split of the blocks gives the same sum (`sumGramBlocks`).
+ */
+export function claimGramBlocks(s: IalsState, side: IalsSide): number {
+  let done = 0;
+  for (let b = Atomics.add(s.counter, 0, 1); b < GRAM_BLOCKS; b = Atomics.add(s.counter, 0, 1)) {
+    computeGramBlock(s, side, b);
+    done++;
+  }
+  return done;
+}
+
+/**
+ * Claims chunks of `side`'s rows from the shared counter until none is left and solves each, storing
+ * its observed loss part (when `observed`) in `partials`; returns how many chunks this thread solved.
+ */
+export function claimSolveChunks(s: IalsState, side: IalsSide, observed: boolean, scratch: Float64Array): number {
+  const h = halfProblem(s, side);
+  const cuts = s.chunks[side];
+  let done = 0;
+  for (let c = Atomics.add(s.counter, 0, 1); c < SOLVE_CHUNKS; c = Atomics.add(s.counter, 0, 1)) {
+    s.partials[c] = solveRows(h, cuts[c]!, cuts[c + 1]!, scratch, observed);
+    done++;
+  }
+  return done;
+}
+
+/** The observed loss part of the last solve: the chunks' parts in chunk order (the same for any thread count). */
+export function sumPartials(s: IalsState): number {
+  let sum = 0;
+  for (let c = 0; c < SOLVE_CHUNKS; c++) sum += s.partials[c]!;
+  return sum;
 }
 
 /** Sums the partial blocks in block order into the side's Gram (FᵀF, k × k). */

@@ -16,7 +16,9 @@ import { InputError } from '../errors.ts';
  * - `cgSteps`: conjugate-gradient steps per row and half-iteration, warm-started from the previous
  *   solution. Takács, Pilászy & Tikk (2011) find a few steps enough for near-exact quality, and
  *   implicit's default is 3 (both from memory; test/models/ials-solve.test.ts compares 3 steps with
- *   exact solves).
+ *   exact solves). Measured on the demo shop (k = 64, 15 iterations): 2 steps save a quarter of the
+ *   solve and end 0.5% above 3 steps in loss, NDCG@10 of iALS 0.081 vs 0.079, of the iALS hybrid
+ *   0.076 vs 0.077 — close, but not clearly unchanged, so the default stays 3.
  * - `seed`: the initial factors are the only randomness; same seed, same model.
  */
 export interface IalsParams {

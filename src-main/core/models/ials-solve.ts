@@ -11,6 +11,7 @@
  * Takács, Pilászy & Tikk (2011), "Applications of the conjugate gradient method for implicit feedback
  * collaborative filtering" (the product A·p is formed without building A; equation numbers from memory).
  */
+import { addObservedTerms, dotFF, GROUP, gramTimesGroup } from './ials-kernels.ts';
 
 /** One side's confidence matrix in CSR: rows are the vectors being solved, columns index `fixed`. */
 export interface ConfRows {
@@ -35,8 +36,8 @@ export interface HalfProblem {
   gram: Float64Array;
 }
 
-/** Scratch length `solveRows` needs (x, r, p, Ap). */
-export const solveScratchLength = (k: number): number => 4 * k;
+/** Scratch length `solveRows` needs: x, r, p and A·p for each of the GROUP rows, then their r·r. */
+export const solveScratchLength = (k: number): number => 4 * GROUP * k + GROUP;
 
 /** Below this squared residual norm CG stops (the system is solved to float precision). */
 const RESIDUAL_FLOOR = 1e-20;
@@ -45,6 +46,8 @@ const RESIDUAL_FLOOR = 1e-20;
  * Solves rows [start, end) in place. With `wantObserved`, returns Σ over the observed entries of those
  * rows of c·(1 − s)² − s², s = x_u·y_i computed from the stored (float32) solution: the observed part of
  * the loss (see `ialsLoss`); otherwise returns 0.
+ * Rows go through CG in groups of GROUP, in lockstep, so that one pass over YᵀY serves the whole group
+ * (ials-kernels.ts); each row still follows its own CG exactly (its own step sizes and stopping).
  */
 export function solveRows(
   h: HalfProblem,
@@ -53,63 +56,16 @@ export function solveRows(
   scratch: Float64Array,
   wantObserved: boolean,
 ): number {
-  const { k, lambda, cgSteps, target, fixed, gram } = h;
+  const { k, target, fixed } = h;
   const { indptr, indices, conf } = h.rows;
-  const x = scratch.subarray(0, k);
-  const r = scratch.subarray(k, 2 * k);
-  const p = scratch.subarray(2 * k, 3 * k);
-  const ap = scratch.subarray(3 * k, 4 * k);
   let observed = 0;
-  for (let u = start; u < end; u++) {
-    const base = u * k;
-    const p0 = indptr[u]!;
-    const p1 = indptr[u + 1]!;
-    for (let f = 0; f < k; f++) x[f] = target[base + f]!;
-
-    // r = b − A x = Σ_i c_i y_i − (YᵀY + λI) x − Σ_i (c_i − 1)(y_i·x) y_i
-    gramTimes(gram, lambda, x, r, k);
-    for (let f = 0; f < k; f++) r[f] = -r[f]!;
-    for (let q = p0; q < p1; q++) {
-      const j = indices[q]! * k;
-      const c = conf[q]!;
-      const d = dotFx(fixed, j, x, k);
-      const w = c - (c - 1) * d;
-      for (let f = 0; f < k; f++) r[f] = r[f]! + w * fixed[j + f]!;
-    }
-    let rs = 0;
-    for (let f = 0; f < k; f++) {
-      const v = r[f]!;
-      p[f] = v;
-      rs += v * v;
-    }
-
-    for (let step = 0; step < cgSteps && rs > RESIDUAL_FLOOR; step++) {
-      // Ap = (YᵀY + λI) p + Σ_i (c_i − 1)(y_i·p) y_i
-      gramTimes(gram, lambda, p, ap, k);
-      for (let q = p0; q < p1; q++) {
-        const j = indices[q]! * k;
-        const w = (conf[q]! - 1) * dotFx(fixed, j, p, k);
-        for (let f = 0; f < k; f++) ap[f] = ap[f]! + w * fixed[j + f]!;
-      }
-      let pAp = 0;
-      for (let f = 0; f < k; f++) pAp += p[f]! * ap[f]!;
-      if (!(pAp > 0)) break; // A is positive definite; 0 or NaN means p vanished in rounding
-      const a = rs / pAp;
-      let rsNew = 0;
-      for (let f = 0; f < k; f++) {
-        x[f] = x[f]! + a * p[f]!;
-        const v = r[f]! - a * ap[f]!;
-        r[f] = v;
-        rsNew += v * v;
-      }
-      const beta = rsNew / rs;
-      for (let f = 0; f < k; f++) p[f] = r[f]! + beta * p[f]!;
-      rs = rsNew;
-    }
-    for (let f = 0; f < k; f++) target[base + f] = x[f]!;
-
-    if (wantObserved) {
-      for (let q = p0; q < p1; q++) {
+  for (let u0 = start; u0 < end; u0 += GROUP) {
+    const n = Math.min(GROUP, end - u0);
+    solveGroup(h, u0, n, scratch);
+    if (!wantObserved) continue;
+    for (let u = u0; u < u0 + n; u++) {
+      const base = u * k;
+      for (let q = indptr[u]!, p1 = indptr[u + 1]!; q < p1; q++) {
         const s = dotFF(fixed, indices[q]! * k, target, base, k);
         const e = 1 - s;
         observed += conf[q]! * e * e - s * s;
@@ -119,80 +75,76 @@ export function solveRows(
   return observed;
 }
 
-/** out = (G + λI) v for a k × k row-major G. */
-function gramTimes(g: Float64Array, lambda: number, v: Float64Array, out: Float64Array, k: number): void {
-  for (let f = 0; f < k; f++) {
-    const row = f * k;
-    let s0 = 0;
-    let s1 = 0;
-    let s2 = 0;
-    let s3 = 0;
-    let g2 = 0;
-    for (; g2 + 3 < k; g2 += 4) {
-      s0 += g[row + g2]! * v[g2]!;
-      s1 += g[row + g2 + 1]! * v[g2 + 1]!;
-      s2 += g[row + g2 + 2]! * v[g2 + 2]!;
-      s3 += g[row + g2 + 3]! * v[g2 + 3]!;
+/** CG for rows u0 .. u0+n−1 (n ≤ GROUP); the unused slots of the group hold zero vectors and stay idle. */
+function solveGroup(h: HalfProblem, u0: number, n: number, scratch: Float64Array): void {
+  const { k, lambda, cgSteps, target, fixed, gram } = h;
+  const { indptr, indices, conf } = h.rows;
+  const gk = GROUP * k;
+  const X = 0;
+  const R = gk;
+  const P = 2 * gk;
+  const AP = 3 * gk;
+  const RS = 4 * gk; // r·r per row; 0 marks a row whose CG has stopped
+
+  for (let v = 0; v < GROUP; v++) {
+    const off = v * k;
+    if (v < n) {
+      const base = (u0 + v) * k;
+      for (let f = 0; f < k; f++) scratch[X + off + f] = target[base + f]!;
+    } else {
+      for (let f = 0; f < k; f++) scratch[X + off + f] = 0;
     }
-    for (; g2 < k; g2++) s0 += g[row + g2]! * v[g2]!;
-    out[f] = s0 + s1 + s2 + s3 + lambda * v[f]!;
   }
-}
-
-/** Row `off` of a float32 factor matrix dotted with a float64 vector, four accumulators. */
-function dotFx(a: Float32Array, off: number, v: Float64Array, k: number): number {
-  let s0 = 0;
-  let s1 = 0;
-  let s2 = 0;
-  let s3 = 0;
-  let f = 0;
-  for (; f + 3 < k; f += 4) {
-    s0 += a[off + f]! * v[f]!;
-    s1 += a[off + f + 1]! * v[f + 1]!;
-    s2 += a[off + f + 2]! * v[f + 2]!;
-    s3 += a[off + f + 3]! * v[f + 3]!;
-  }
-  for (; f < k; f++) s0 += a[off + f]! * v[f]!;
-  return s0 + s1 + s2 + s3;
-}
-
-/** Dot product of two float32 factor rows. */
-export function dotFF(a: Float32Array, aOff: number, b: Float32Array, bOff: number, k: number): number {
-  let s0 = 0;
-  let s1 = 0;
-  let s2 = 0;
-  let s3 = 0;
-  let f = 0;
-  for (; f + 3 < k; f += 4) {
-    s0 += a[aOff + f]! * b[bOff + f]!;
-    s1 += a[aOff + f + 1]! * b[bOff + f + 1]!;
-    s2 += a[aOff + f + 2]! * b[bOff + f + 2]!;
-    s3 += a[aOff + f + 3]! * b[bOff + f + 3]!;
-  }
-  for (; f < k; f++) s0 += a[aOff + f]! * b[bOff + f]!;
-  return s0 + s1 + s2 + s3;
-}
-
-/**
- * Adds FᵀF over rows [start, end) of an n × k row-major F into `out` (k × k, upper triangle only;
- * `mirrorGram` fills the lower one). Summing fixed blocks in a fixed order keeps the result identical
- * however many threads computed the blocks.
- */
-export function addGramRows(factors: Float32Array, k: number, start: number, end: number, out: Float64Array): void {
-  for (let u = start; u < end; u++) {
-    const base = u * k;
+  // r = b − A x = Σ_i c_i y_i − (YᵀY + λI) x − Σ_i (c_i − 1)(y_i·x) y_i
+  gramTimesGroup(gram, lambda, scratch, X, scratch, R, k);
+  for (let v = 0; v < GROUP; v++) {
+    const off = v * k;
+    for (let f = 0; f < k; f++) scratch[R + off + f] = -scratch[R + off + f]!;
+    if (v < n) addObservedTerms(fixed, indices, conf, indptr[u0 + v]!, indptr[u0 + v + 1]!, scratch, X + off, scratch, R + off, k, 1, -1);
+    let rs = 0;
     for (let f = 0; f < k; f++) {
-      const a = factors[base + f]!;
-      if (a === 0) continue;
-      const row = f * k;
-      for (let g = f; g < k; g++) out[row + g] = out[row + g]! + a * factors[base + g]!;
+      const r = scratch[R + off + f]!;
+      scratch[P + off + f] = r;
+      rs += r * r;
+    }
+    scratch[RS + v] = v < n && rs > RESIDUAL_FLOOR ? rs : 0;
+  }
+
+  for (let step = 0; step < cgSteps; step++) {
+    let live = 0;
+    for (let v = 0; v < n; v++) if (scratch[RS + v]! > 0) live++;
+    if (live === 0) break;
+    // Ap = (YᵀY + λI) p + Σ_i (c_i − 1)(y_i·p) y_i
+    gramTimesGroup(gram, lambda, scratch, P, scratch, AP, k);
+    for (let v = 0; v < n; v++) {
+      const rs = scratch[RS + v]!;
+      if (rs === 0) continue;
+      const off = v * k;
+      addObservedTerms(fixed, indices, conf, indptr[u0 + v]!, indptr[u0 + v + 1]!, scratch, P + off, scratch, AP + off, k, 0, 1);
+      let pAp = 0;
+      for (let f = 0; f < k; f++) pAp += scratch[P + off + f]! * scratch[AP + off + f]!;
+      if (!(pAp > 0)) {
+        scratch[RS + v] = 0; // A is positive definite; 0 or NaN means p vanished in rounding
+        continue;
+      }
+      const a = rs / pAp;
+      let rsNew = 0;
+      for (let f = 0; f < k; f++) {
+        scratch[X + off + f] = scratch[X + off + f]! + a * scratch[P + off + f]!;
+        const r = scratch[R + off + f]! - a * scratch[AP + off + f]!;
+        scratch[R + off + f] = r;
+        rsNew += r * r;
+      }
+      const beta = rsNew / rs;
+      for (let f = 0; f < k; f++) scratch[P + off + f] = scratch[R + off + f]! + beta * scratch[P + off + f]!;
+      scratch[RS + v] = rsNew > RESIDUAL_FLOOR ? rsNew : 0;
     }
   }
-}
-
-/** Copies the upper triangle of a k × k matrix onto the lower one. */
-export function mirrorGram(g: Float64Array, k: number): void {
-  for (let f = 0; f < k; f++) for (let h = f + 1; h < k; h++) g[h * k + f] = g[f * k + h]!;
+  for (let v = 0; v < n; v++) {
+    const base = (u0 + v) * k;
+    const off = X + v * k;
+    for (let f = 0; f < k; f++) target[base + f] = scratch[off + f]!;
+  }
 }
 
 /**

@@ -1,18 +1,19 @@
 import { InputError } from '../errors.ts';
 import type { Csr } from '../matrix/csr.ts';
 import {
-  computeGramBlock,
-  GRAM_BLOCKS,
-  halfProblem,
+  claimGramBlocks,
+  claimSolveChunks,
   ialsSchedule,
   prepareIals,
   sumGramBlocks,
+  sumPartials,
   type IalsState,
   type IalsWork,
 } from './ials-fit.ts';
 import { confidence, ialsParams, type IalsParams } from './ials-params.ts';
 import { topN } from './topn.ts';
-import { addGramRows, dotFF, mirrorGram, solveRows, solveScratchLength } from './ials-solve.ts';
+import { addGramRows, dotFF, mirrorGram } from './ials-kernels.ts';
+import { solveRows, solveScratchLength } from './ials-solve.ts';
 import type { FitOptions, FitReport, Scorer, TopN } from './scorer.ts';
 
 /**
@@ -206,15 +207,19 @@ export function loadIals(bytes: Uint8Array): IalsModel {
   return new IalsModel(params, readFloats(bytes, head, customers * k), readFloats(bytes, head + 4 * customers * k, items * k));
 }
 
-/** Performs one unit of the schedule on this thread. */
+/**
+ * Performs one unit of the schedule on this thread alone: it claims every Gram block or row chunk
+ * in order, the same units the threaded runner shares out, so both add the same numbers.
+ */
 export function runWorkHere(s: IalsState, work: IalsWork, scratch: Float64Array): number {
+  Atomics.store(s.counter, 0, 0);
   if (work.op === 'gram') {
-    for (let b = 0; b < GRAM_BLOCKS; b++) computeGramBlock(s, work.side, b);
+    claimGramBlocks(s, work.side);
     sumGramBlocks(s, work.side);
     return 0;
   }
-  const rows = work.side === 'customers' ? s.customers : s.items;
-  return solveRows(halfProblem(s, work.side), 0, rows, scratch, work.observed);
+  claimSolveChunks(s, work.side, work.observed, scratch);
+  return work.observed ? sumPartials(s) : 0;
 }
 
 /** The report every iALS fit returns. */

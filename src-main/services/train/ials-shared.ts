@@ -13,20 +13,25 @@ export interface SharedIals {
   gramX: SharedArrayBuffer;
   gramY: SharedArrayBuffer;
   gramParts: SharedArrayBuffer;
+  chunks: { customers: SharedArrayBuffer; items: SharedArrayBuffer };
+  counter: SharedArrayBuffer;
+  partials: SharedArrayBuffer;
 }
 
-/** What a worker is asked to do: Gram blocks [from, to) of a side, or solve rows [from, to). */
+/**
+ * What a worker is asked to do: claim Gram blocks, or row chunks to solve, of a side from the shared
+ * counter until none is left (ials-fit.ts, claimGramBlocks / claimSolveChunks).
+ */
 export interface PoolTask {
   id: number;
   op: 'gram' | 'solve';
   side: 'customers' | 'items';
-  from: number;
-  to: number;
   observed: boolean;
 }
 
 export interface PoolReply {
   id: number;
+  /** How many blocks or chunks this worker took. */
   value?: number;
   error?: { name: string; message: string };
 }
@@ -51,6 +56,9 @@ export function toShared(s: IalsState): SharedIals {
     gramX: sab(s.gramX),
     gramY: sab(s.gramY),
     gramParts: sab(s.gramParts),
+    chunks: { customers: sab(s.chunks.customers), items: sab(s.chunks.items) },
+    counter: sab(s.counter),
+    partials: sab(s.partials),
   };
 }
 
@@ -73,5 +81,8 @@ export function fromShared(d: SharedIals): IalsState {
     gramX: new Float64Array(d.gramX),
     gramY: new Float64Array(d.gramY),
     gramParts: new Float64Array(d.gramParts),
+    chunks: { customers: new Int32Array(d.chunks.customers), items: new Int32Array(d.chunks.items) },
+    counter: new Int32Array(d.counter),
+    partials: new Float64Array(d.partials),
   };
 }

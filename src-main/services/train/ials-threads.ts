@@ -3,19 +3,19 @@ import type { Worker } from 'node:worker_threads';
 import { BugError } from '../../core/errors.ts';
 import type { Csr } from '../../core/matrix/csr.ts';
 import {
-  computeGramBlock,
+  claimGramBlocks,
+  claimSolveChunks,
   GRAM_BLOCKS,
-  halfProblem,
   ialsSchedule,
   prepareIals,
   sumGramBlocks,
-  type IalsSide,
+  sumPartials,
   type IalsState,
   type IalsWork,
 } from '../../core/models/ials-fit.ts';
 import { fitIals, ialsReport, IalsModel } from '../../core/models/ials.ts';
 import { ialsParams, type IalsParams } from '../../core/models/ials-params.ts';
-import { balancedRanges, solveRows, solveScratchLength } from '../../core/models/ials-solve.ts';
+import { solveScratchLength } from '../../core/models/ials-solve.ts';
 import type { FitOptions, FitReport } from '../../core/models/scorer.ts';
 import { toShared, type PoolReply, type PoolTask } from './ials-shared.ts';
 import { spawnWorker } from './spawn.ts';
@@ -29,10 +29,12 @@ export const defaultThreads = (): number => Math.max(1, Math.min(GRAM_BLOCKS, os
 
 /**
  * iALS with each half-iteration spread over threads: the factors and confidence matrices live in
- * SharedArrayBuffers, this thread solves the first range of rows and each worker one further
- * contiguous range (split by estimated work), and the schedule waits for all ranges before the next
- * half-iteration. Rows are independent given the other side, and Grams are summed over fixed blocks in
- * a fixed order, so the factors are bit-identical to `fitIals` with the same seed.
+ * SharedArrayBuffers, and this thread and every worker claim chunks of rows (ials-fit.ts,
+ * SOLVE_CHUNKS) from a shared counter until none is left; the schedule waits for all before the next
+ * half-iteration. Claiming instead of fixed ranges keeps both cores busy when one thread is slowed
+ * (other processes on the machine, heavier rows than estimated). Rows are independent given the other
+ * side, Grams are summed over fixed blocks in a fixed order, and the observed loss over fixed chunks
+ * in chunk order, so the factors and losses are bit-identical to `fitIals` with the same seed.
  */
 export async function fitIalsThreaded(
   m: Csr,
@@ -46,48 +48,36 @@ export async function fitIalsThreaded(
   const state = prepareIals(m, params, (n) => new SharedArrayBuffer(n));
   const pool = await SolverPool.start(state, threads - 1);
   try {
-    const k = params.factors;
-    const ranges: Record<IalsSide, Int32Array> = {
-      customers: balancedRanges(state.byCustomer.indptr, state.customers, k, threads),
-      items: balancedRanges(state.byItem.indptr, state.items, k, threads),
-    };
-    const scratch = new Float64Array(solveScratchLength(k));
+    const scratch = new Float64Array(solveScratchLength(params.factors));
+    const taken = new Float64Array(threads); // row chunks solved per thread, this one first
     const schedule = ialsSchedule(state, opts);
     let step = schedule.next();
-    while (!step.done) step = schedule.next(await runSpread(state, pool, ranges, step.value, scratch));
+    while (!step.done) step = schedule.next(await runShared(state, pool, step.value, scratch, taken));
     // Copies out of shared memory: the model keeps ordinary buffers after the workers are gone.
     const model = new IalsModel(params, state.x.slice(), state.y.slice());
-    return { model, report: ialsReport(performance.now() - started, step.value, [`solved on ${threads} threads`]) };
+    const total = taken.reduce((a, b) => a + b, 0);
+    const shares = Array.from(taken, (t) => `${Math.round((100 * t) / total)}%`).join(' / ');
+    const notes = [`solved on ${threads} threads (shares of the row chunks: ${shares})`];
+    return { model, report: ialsReport(performance.now() - started, step.value, notes) };
   } finally {
     await pool.close();
   }
 }
 
-async function runSpread(
-  s: IalsState,
-  pool: SolverPool,
-  ranges: Record<IalsSide, Int32Array>,
-  work: IalsWork,
-  scratch: Float64Array,
-): Promise<number> {
-  const parts = pool.size + 1;
+/** One unit of the schedule on every thread: each claims blocks or chunks until none is left. */
+async function runShared(s: IalsState, pool: SolverPool, work: IalsWork, scratch: Float64Array, taken: Float64Array): Promise<number> {
+  Atomics.store(s.counter, 0, 0);
+  const task = { op: work.op, side: work.side, observed: work.op === 'solve' && work.observed };
+  const pending = pool.workers.map((_, w) => pool.run(w, task));
+  const mine = work.op === 'gram' ? claimGramBlocks(s, work.side) : claimSolveChunks(s, work.side, task.observed, scratch);
+  const theirs = await Promise.all(pending);
   if (work.op === 'gram') {
-    const cut = (b: number) => Math.floor((GRAM_BLOCKS * b) / parts);
-    const pending = pool.workers.map((_, w) =>
-      pool.run(w, { op: 'gram', side: work.side, from: cut(w + 1), to: cut(w + 2), observed: false }),
-    );
-    for (let b = 0; b < cut(1); b++) computeGramBlock(s, work.side, b);
-    await Promise.all(pending);
     sumGramBlocks(s, work.side);
     return 0;
   }
-  const r = ranges[work.side];
-  const pending = pool.workers.map((_, w) =>
-    pool.run(w, { op: 'solve', side: work.side, from: r[w + 1]!, to: r[w + 2]!, observed: work.observed }),
-  );
-  let observed = solveRows(halfProblem(s, work.side), r[0]!, r[1]!, scratch, work.observed);
-  for (const v of await Promise.all(pending)) observed += v; // in range order
-  return observed;
+  taken[0]! += mine;
+  theirs.forEach((n, w) => (taken[w + 1]! += n));
+  return task.observed ? sumPartials(s) : 0;
 }
 
 /** Worker threads holding the shared state; one task in flight per worker. */

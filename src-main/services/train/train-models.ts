@@ -9,7 +9,8 @@ import type { Dataset } from '../../core/types.ts';
 import { loadDataset } from '../../store/dataset.ts';
 import { dataFingerprint, type ModelRecord } from '../../store/models.ts';
 import type { Db } from '../../store/workspace.ts';
-import { fitIalsThreaded } from './ials-threads.ts';
+import { fitEaseInThread } from './ease-thread.ts';
+import { defaultThreads, fitIalsThreaded } from './ials-threads.ts';
 
 /** The kinds a training run fits and stores (the random baseline is built on demand, never stored). */
 export type TrainedKind = Exclude<ModelKind, 'random'>;
@@ -20,7 +21,7 @@ export interface TrainOptions {
   models?: readonly TrainedKind[];
   matrix?: Omit<BuildOptions, 'rows' | 'window'>;
   params?: { content?: ContentParams; itemknn?: ItemKnnParams; ials?: Partial<IalsParams>; ease?: EaseParams };
-  /** Threads for iALS (default: the machine's cores). */
+  /** Threads for iALS (default: the machine's cores); with more than one, EASE also fits in a thread of its own. */
   threads?: number;
 }
 
@@ -44,7 +45,24 @@ export interface TrainOutput {
   records: ModelRecord[];
   notes: string[];
   elapsedMs: number;
+  /** Wall and CPU time of each stage (CPU of the whole process: iALS's worker threads included). */
+  timings: StageTiming[];
 }
+
+export interface StageTiming {
+  stage: 'load' | 'matrix' | TrainedKind;
+  wallMs: number;
+  /** -1 where unknown (a thread's own CPU is read from /proc, Linux only). */
+  cpuMs: number;
+  /** Fitted in its own thread alongside the later stages: its wall and CPU are that thread's own. */
+  inThread?: true;
+}
+
+/** CPU milliseconds used by the process so far (every thread). */
+const cpuMs = (): number => {
+  const c = process.cpuUsage();
+  return (c.user + c.system) / 1000;
+};
 
 /** Each stage's share of the progress bar, roughly its share of the time on the demo shop. */
 const WEIGHT: Record<'load' | 'matrix' | TrainedKind, number> = {
@@ -70,6 +88,13 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
   const report = (p: Omit<TrainProgress, 'fraction'>, within = 0, weight = 0) =>
     onProgress({ ...p, fraction: Math.min(1, (doneShare + within * weight) / total) });
 
+  const timings: StageTiming[] = [];
+  let mark = { wall: performance.now(), cpu: cpuMs() };
+  const lap = (stage: StageTiming['stage']) => {
+    const now = { wall: performance.now(), cpu: cpuMs() };
+    timings.push({ stage, wallMs: now.wall - mark.wall, cpuMs: now.cpu - mark.cpu });
+    mark = now;
+  };
   report({ stage: 'load' });
   let fingerprint = '';
   let ds: Dataset | undefined;
@@ -78,49 +103,66 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
     ds = loadDataset(db);
   })();
   const data = ds!;
+  lap('load');
   doneShare += WEIGHT.load;
   report({ stage: 'matrix' });
   const matrix = buildInteractionMatrix(data, opts.matrix ?? {});
+  lap('matrix');
   doneShare += WEIGHT.matrix;
+
+  // EASE's inverse is the longest single-threaded stage: with two or more threads it starts now in a
+  // thread of its own and overlaps the other models (ease-thread.ts); it is collected in its turn.
+  const p = opts.params ?? {};
+  const easeParams = { ...TRAIN_EASE_DEFAULTS, ...p.ease };
+  const threads = opts.threads ?? defaultThreads();
+  const easeThread = kinds.includes('ease') && threads > 1 ? fitEaseInThread(matrix, easeParams) : null;
 
   const records: ModelRecord[] = [];
   const notes: string[] = [];
-  const keep = (kind: TrainedKind, params: object, fit: { model: Scorer; report: FitReport }) => {
+  const keep = (kind: TrainedKind, params: object, fit: { model: Scorer; report: FitReport }) => keepBytes(kind, params, fit.report, fit.model.serialize());
+  const keepBytes = (kind: TrainedKind, params: object, fitReport: FitReport, bytes: Uint8Array) => {
     records.push({
       kind,
       params: { ...params },
       fingerprint,
       trainedAt: Date.now(),
-      trainMs: fit.report.elapsedMs,
+      trainMs: fitReport.elapsedMs,
       report: {
-        notes: fit.report.notes,
-        ...(fit.report.iterations !== undefined ? { iterations: fit.report.iterations } : {}),
-        ...(fit.report.losses !== undefined ? { losses: fit.report.losses } : {}),
+        notes: fitReport.notes,
+        ...(fitReport.iterations !== undefined ? { iterations: fitReport.iterations } : {}),
+        ...(fitReport.losses !== undefined ? { losses: fitReport.losses } : {}),
       },
-      bytes: fit.model.serialize(),
+      bytes,
     });
-    notes.push(...fit.report.notes);
+    notes.push(...fitReport.notes);
   };
 
-  for (const kind of kinds) {
-    report({ stage: 'fit', model: kind });
-    const p = opts.params ?? {};
-    if (kind === 'content') keep(kind, p.content ?? {}, fitContent(data.items, p.content));
-    else if (kind === 'itemknn') keep(kind, p.itemknn ?? {}, fitItemKnn(matrix, p.itemknn));
-    else if (kind === 'popularity') keep(kind, {}, fitPopularity(matrix));
-    else if (kind === 'ease') {
-      const params = { ...TRAIN_EASE_DEFAULTS, ...p.ease };
-      keep(kind, params, fitEase(matrix, params));
-    } else {
-      const fit = await fitIalsThreaded(matrix, p.ials ?? {}, {
-        ...(opts.threads !== undefined ? { threads: opts.threads } : {}),
-        onIteration: (it) =>
-          report({ stage: 'fit', model: 'ials', iteration: it.iteration, iterations: it.iterations }, it.iteration / it.iterations, WEIGHT.ials),
-      });
-      keep(kind, fit.model.params, fit);
+  try {
+    for (const kind of kinds) {
+      report({ stage: 'fit', model: kind });
+      if (kind === 'content') keep(kind, p.content ?? {}, fitContent(data.items, p.content));
+      else if (kind === 'itemknn') keep(kind, p.itemknn ?? {}, fitItemKnn(matrix, p.itemknn));
+      else if (kind === 'popularity') keep(kind, {}, fitPopularity(matrix));
+      else if (kind === 'ease' && easeThread) {
+        const fit = await easeThread.done;
+        keepBytes(kind, easeParams, fit.report, fit.bytes);
+        timings.push({ stage: kind, wallMs: fit.report.elapsedMs, cpuMs: fit.cpuMs, inThread: true });
+        mark = { wall: performance.now(), cpu: cpuMs() }; // the wait is not a stage of this thread
+      } else if (kind === 'ease') keep(kind, easeParams, fitEase(matrix, easeParams));
+      else {
+        const fit = await fitIalsThreaded(matrix, p.ials ?? {}, {
+          threads,
+          onIteration: (it) =>
+            report({ stage: 'fit', model: 'ials', iteration: it.iteration, iterations: it.iterations }, it.iteration / it.iterations, WEIGHT.ials),
+        });
+        keep(kind, fit.model.params, fit);
+      }
+      if (!(kind === 'ease' && easeThread)) lap(kind);
+      doneShare += WEIGHT[kind];
     }
-    doneShare += WEIGHT[kind];
+  } finally {
+    easeThread?.stop();
   }
   onProgress({ stage: 'done', fraction: 1 });
-  return { fingerprint, records, notes, elapsedMs: performance.now() - started };
+  return { fingerprint, records, notes, elapsedMs: performance.now() - started, timings };
 }

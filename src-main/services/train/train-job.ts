@@ -1,12 +1,12 @@
 import { randomUUID } from 'node:crypto';
-import { BugError, CancelledError, InputError, ModelFitError, NotFoundError } from '../../core/errors.ts';
+import { CancelledError } from '../../core/errors.ts';
 import type { ModelKind } from '../../core/models/scorer.ts';
 import { ModelRepo } from '../../store/models.ts';
 import type { JobBody } from '../jobs.ts';
 import type { Db } from '../../store/workspace.ts';
-import { spawnWorker } from './spawn.ts';
+import { runWorkerTask, siblingModule } from './worker-task.ts';
 import type { TrainOptions, TrainOutput, TrainProgress } from './train-models.ts';
-import type { TrainWorkerData, TrainWorkerMessage } from './train-worker.ts';
+import type { TrainWorkerData } from './train-worker.ts';
 
 export interface TrainHooks {
   onProgress?: (p: TrainProgress) => void;
@@ -16,46 +16,18 @@ export interface TrainHooks {
   nativeBinding?: string;
 }
 
-const ERRORS: Record<string, new (message: string) => Error> = {
-  InputError,
-  ModelFitError,
-  NotFoundError,
-  CancelledError,
-};
 
 /**
  * Trains every model of a workspace in a worker thread, off the caller's thread, and returns the
  * serialized models with their reports. The thread opens the file read-only and writes nothing.
  */
 export function trainAll(file: string, options: TrainOptions = {}, hooks: TrainHooks = {}): Promise<TrainOutput> {
-  const { signal } = hooks;
-  if (signal?.aborted) return Promise.reject(new CancelledError('training cancelled'));
-  return new Promise<TrainOutput>((resolve, reject) => {
-    const data: TrainWorkerData = { file, options, ...(hooks.nativeBinding ? { nativeBinding: hooks.nativeBinding } : {}) };
-    const url = new URL(import.meta.url.endsWith('.ts') ? './train-worker.ts' : './train-worker.js', import.meta.url);
-    const worker = spawnWorker(url, { workerData: data });
-    let settled = false;
-    const finish = (fn: () => void) => {
-      if (settled) return;
-      settled = true;
-      signal?.removeEventListener('abort', onAbort);
-      void worker.terminate();
-      fn();
-    };
-    const onAbort = () => finish(() => reject(new CancelledError('training cancelled')));
-    signal?.addEventListener('abort', onAbort, { once: true });
-    worker.on('message', (m: TrainWorkerMessage) => {
-      if (m.type === 'progress') {
-        if (!settled) hooks.onProgress?.(m.progress);
-      } else if (m.type === 'done') finish(() => resolve(m.output));
-      else {
-        const Known = ERRORS[m.error.name];
-        finish(() => reject(Known ? new Known(m.error.message) : new BugError(`training failed: ${m.error.name}: ${m.error.message}`)));
-      }
-    });
-    worker.on('error', (e) => finish(() => reject(new BugError(`training thread failed: ${e.message}`))));
-    worker.on('exit', (code) => finish(() => reject(new BugError(`training thread exited early (code ${code})`))));
-  });
+  const data: TrainWorkerData = { file, options, ...(hooks.nativeBinding ? { nativeBinding: hooks.nativeBinding } : {}) };
+  return runWorkerTask(siblingModule(import.meta.url, 'train-worker'), data, 'training', {
+    onProgress: hooks.onProgress,
+    signal: hooks.signal,
+    result: (m: { output: TrainOutput }) => m.output,
+  }).done;
 }
 
 export interface TrainSummary {

@@ -1,9 +1,9 @@
 import fs from 'node:fs';
 import { afterAll, describe, expect, it } from 'vitest';
-import { CancelledError, InputError } from '../../src-main/core/errors.ts';
+import { InputError } from '../../src-main/core/errors.ts';
 import { loadIals } from '../../src-main/core/models/ials.ts';
 import { JobRegistry } from '../../src-main/services/jobs.ts';
-import { startTraining, trainAll, trainJob } from '../../src-main/services/train/train-job.ts';
+import { trainAll, trainJob } from '../../src-main/services/train/train-job.ts';
 import { buildInteractionMatrix } from '../../src-main/core/matrix/build.ts';
 import { fitEase } from '../../src-main/core/models/ease.ts';
 import { TRAIN_EASE_DEFAULTS, type TrainProgress } from '../../src-main/services/train/train-models.ts';
@@ -53,13 +53,14 @@ describe('trainAll (worker thread)', () => {
   });
 });
 
-describe('startTraining', () => {
+describe('training as a background job', () => {
   it('stores all models in one go; a new signal makes them stale', async () => {
-    const job = startTraining(ws.db, ws.file, options);
-    expect(job.progress().fraction).toBeGreaterThanOrEqual(0);
-    const summary = await job.done;
-    expect(summary.models).toHaveLength(5);
-    expect(job.progress()).toEqual({ stage: 'done', fraction: 1 });
+    const jobs = new JobRegistry();
+    const job = jobs.start('train', trainJob(ws.db, ws.file, options));
+    expect(jobs.status(job.id).progress.fraction).toBeGreaterThanOrEqual(0);
+    const end = await jobs.settled(job.id);
+    expect(end.summary).toMatch(/^trained 5 models/);
+    expect(end.progress).toMatchObject({ stage: 'done', fraction: 1 });
     const status = modelStatus(ws.db);
     expect(status.map((m) => m.kind).sort()).toEqual(['content', 'ease', 'ials', 'itemknn', 'popularity']);
     expect(status.every((m) => !m.stale)).toBe(true);
@@ -69,10 +70,11 @@ describe('startTraining', () => {
 
   it('cancel stops the thread and writes nothing', async () => {
     const before = new ModelRepo(ws.db).list();
-    const job = startTraining(ws.db, ws.file, { ...options, params: { ials: { factors: 8, iterations: 200, seed: 2 } } });
-    while (job.progress().model !== 'ials') await new Promise((r) => setTimeout(r, 5));
-    job.cancel();
-    await expect(job.done).rejects.toBeInstanceOf(CancelledError);
+    const jobs = new JobRegistry();
+    const job = jobs.start('train', trainJob(ws.db, ws.file, { ...options, params: { ials: { factors: 8, iterations: 200, seed: 2 } } }));
+    while (jobs.status(job.id).progress.model !== 'ials') await new Promise((r) => setTimeout(r, 5));
+    jobs.cancel(job.id);
+    expect((await jobs.settled(job.id)).state).toBe('cancelled');
     expect(new ModelRepo(ws.db).list()).toEqual(before);
   });
 });

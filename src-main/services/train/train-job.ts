@@ -1,4 +1,3 @@
-import { randomUUID } from 'node:crypto';
 import { CancelledError } from '../../core/errors.ts';
 import type { ModelKind } from '../../core/models/scorer.ts';
 import { ModelRepo } from '../../store/models.ts';
@@ -52,31 +51,8 @@ export async function trainAndSave(
   return { ids, models: out.records.map((r) => r.kind), fingerprint: out.fingerprint, elapsedMs: out.elapsedMs, notes: out.notes };
 }
 
-/** A running training, for the api and the UI to poll and cancel. */
-export interface TrainingJob {
-  id: string;
-  progress(): TrainProgress;
-  cancel(): void;
-  /** The stored result; rejects with CancelledError after `cancel()`. */
-  done: Promise<TrainSummary>;
-}
-
-export function startTraining(db: Db, file: string, options: TrainOptions = {}, hooks: Omit<TrainHooks, 'signal' | 'onProgress'> & { keepHistory?: number } = {}): TrainingJob {
-  const controller = new AbortController();
-  let last: TrainProgress = { stage: 'load', fraction: 0 };
-  const done = trainAndSave(db, file, options, {
-    ...hooks,
-    signal: controller.signal,
-    onProgress: (p) => {
-      last = p;
-    },
-  });
-  done.catch(() => undefined); // the caller observes failures through `done`; never an unhandled rejection
-  return { id: randomUUID(), progress: () => ({ ...last }), cancel: () => controller.abort(), done };
-}
-
 /**
- * The same training as a body for the app's JobRegistry (services/jobs.ts):
+ * Training as a body for the app's JobRegistry (services/jobs.ts):
  * `ctx.jobs.start('train', trainJob(ctx.db, ctx.file, options))`.
  */
 export function trainJob(db: Db, file: string, options: TrainOptions = {}, hooks: Omit<TrainHooks, 'signal' | 'onProgress'> = {}): JobBody {

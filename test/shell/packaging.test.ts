@@ -31,7 +31,7 @@ function readBuilderConfig(): BuilderConfig {
 function buildElectronBundles(): void {
   const vite = path.join(ROOT, 'node_modules/vite/bin/vite.js');
   const config = path.join(ROOT, 'src-main/shell/electron/vite.electron.config.ts');
-  for (const mode of ['main', 'preload']) {
+  for (const mode of ['main', 'preload', 'workers']) {
     const r = spawnSync(process.execPath, [vite, 'build', '--config', config, '--mode', mode, '--logLevel', 'error'], { cwd: ROOT, encoding: 'utf8' });
     if (r.status !== 0) throw new Error(`vite build --mode ${mode} failed: ${r.stderr}`);
   }
@@ -58,7 +58,7 @@ describe('electron-builder.yml', () => {
   });
 
   it('packs every bundle the main process loads', () => {
-    for (const f of config.files.filter((f) => f.startsWith('dist-electron/'))) {
+    for (const f of config.files.filter((f) => f.startsWith('dist-electron/') && !f.includes('*'))) {
       expect(fs.existsSync(path.join(ROOT, f)), f).toBe(true);
     }
     // main.ts loads preload.cjs from its own folder and the page from dist/renderer.
@@ -78,6 +78,20 @@ describe('electron-builder.yml', () => {
     } finally {
       fs.rmSync(fake, { recursive: true, force: true });
     }
+  });
+
+  it('packs, beside the main bundle, every task thread the services start', () => {
+    // Every siblingModule(import.meta.url, 'name') in the services must be built and listed.
+    const services = path.join(ROOT, 'src-main/services');
+    const spawned = new Set<string>();
+    for (const f of fs.readdirSync(services, { recursive: true }) as string[]) {
+      if (!f.endsWith('.ts')) continue;
+      for (const m of fs.readFileSync(path.join(services, f), 'utf8').matchAll(/siblingModule\(import\.meta\.url, '([\w-]+)'\)/g)) spawned.add(m[1]!);
+    }
+    expect(spawned.size).toBeGreaterThanOrEqual(4);
+    // The workers and the chunks they share are packed by one pattern.
+    expect(config.files).toContain('dist-electron/*.js');
+    for (const name of spawned) expect(fs.existsSync(path.join(ROOT, `dist-electron/${name}.js`)), name).toBe(true);
   });
 
   it('bundles the preload into one file that requires only electron (a sandboxed preload can load nothing else)', () => {

@@ -19,6 +19,7 @@ import { solveScratchLength } from '../../core/models/ials-solve.ts';
 import type { FitOptions, FitReport } from '../../core/models/scorer.ts';
 import { toShared, type PoolReply, type PoolTask } from './ials-shared.ts';
 import { spawnWorker } from './spawn.ts';
+import { siblingModule } from './worker-task.ts';
 
 export interface ThreadedFitOptions extends FitOptions {
   /** Threads that solve rows, this one included (default: the machine's cores, at most 8). */
@@ -96,7 +97,7 @@ class SolverPool {
   }
 
   static async start(state: IalsState, count: number): Promise<SolverPool> {
-    const url = new URL(import.meta.url.endsWith('.ts') ? './ials-worker.ts' : './ials-worker.js', import.meta.url);
+    const url = siblingModule(import.meta.url, 'ials-worker');
     const shared = toShared(state);
     const workers = Array.from({ length: count }, () => spawnWorker(url, { workerData: shared }));
     const pool = new SolverPool(workers);

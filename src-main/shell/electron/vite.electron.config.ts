@@ -7,11 +7,45 @@ const here = path.dirname(fileURLToPath(import.meta.url));
 const root = path.resolve(here, '../../..');
 
 /**
- * Two bundles, one per `--mode`: `main` (the main process; Node built-ins, electron and better-sqlite3
- * stay external) and `preload` (one self-contained file: a sandboxed preload can require only 'electron').
- * Run: vite build --config src-main/shell/electron/vite.electron.config.ts --mode main|preload
+ * The task threads, started by `siblingModule(import.meta.url, name)` (services/train/worker-task.ts): in
+ * the bundle that URL is dist-electron/main.cjs (or a worker's own file), so each worker must sit beside
+ * it as `<name>.js`, an ES module (package.json says "type": "module").
+ */
+export const WORKERS: Record<string, string> = {
+  'train-worker': 'src-main/services/train/train-worker.ts',
+  'ials-worker': 'src-main/services/train/ials-worker.ts',
+  'ease-worker': 'src-main/services/train/ease-worker.ts',
+  'offline-worker': 'src-main/services/tune/offline-worker.ts',
+};
+
+const external = ['electron', 'better-sqlite3', ...builtinModules, ...builtinModules.map((m) => `node:${m}`)];
+
+/**
+ * Three builds, one per `--mode`: `main` (the main process; Node built-ins, electron and better-sqlite3
+ * stay external), `preload` (one self-contained file: a sandboxed preload can require only 'electron') and
+ * `workers` (the task threads).
+ * Run: vite build --config src-main/shell/electron/vite.electron.config.ts --mode main|preload|workers
  */
 export default defineConfig(({ mode }) => {
+  if (mode === 'workers') {
+    return {
+      root,
+      publicDir: false,
+      build: {
+        outDir: path.join(root, 'dist-electron'),
+        emptyOutDir: false,
+        target: 'node22',
+        minify: false,
+        sourcemap: false,
+        lib: {
+          entry: Object.fromEntries(Object.entries(WORKERS).map(([name, file]) => [name, path.join(root, file)])),
+          formats: ['es'],
+          fileName: (_format: string, name: string) => `${name}.js`,
+        },
+        rollupOptions: { external },
+      },
+    };
+  }
   const entry = mode === 'preload' ? 'preload' : 'main';
   return {
     root,
@@ -23,9 +57,7 @@ export default defineConfig(({ mode }) => {
       minify: false,
       sourcemap: false,
       lib: { entry: path.join(here, `${entry}.ts`), formats: ['cjs'], fileName: () => `${entry}.cjs` },
-      rollupOptions: {
-        external: ['electron', 'better-sqlite3', ...builtinModules, ...builtinModules.map((m) => `node:${m}`)],
-      },
+      rollupOptions: { external },
     },
   };
 });

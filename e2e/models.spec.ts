@@ -19,7 +19,7 @@ test('train the models with progress, then see them on the overview', async ({ p
 
   // Offline evaluation needs customers with history and new items in the validation window; the small shop
   // has none, so the refusal must be shown where the editor clicked, with what to do next.
-  await page.getByRole('button', { name: 'Evaluate' }).click();
+  await page.getByRole('button', { name: 'Evaluate', exact: true }).click();
   const evaluation = page.getByRole('region', { name: 'Evaluation: models against baselines' });
   await expect(evaluation.getByRole('alert')).toContainText('validation window. Check the data on the Overview screen, then try again.', { timeout: 30_000 });
   await expect(evaluation.getByText('No evaluation yet.')).toBeVisible();

@@ -22,8 +22,8 @@ export const SHOP = {
 } as const;
 
 /**
- * Written straight through SQL: this is setup, not the thing under test, and the import api is not on the
- * handler table yet. Replace with an import of demo CSVs through the page once it is.
+ * Written straight through SQL: this is setup for the quick screen tests, not the thing under test.
+ * Importing through the page is what journey.spec.ts does, on a fresh workspace of its own.
  */
 export function seedSmallShop(db: Db): void {
   const categories = ['fiction', 'home', 'travel', 'food'];

@@ -1,6 +1,7 @@
 import { useId, useState, type FormEvent } from 'react';
 import type { Brief, ShelfView } from '../state/curation-slice.ts';
 import { useApp } from '../state/store.ts';
+import { AudienceField, audienceOf, draftOf } from './AudienceField.tsx';
 
 type StoredBrief = ShelfView['brief'];
 
@@ -25,9 +26,14 @@ export function BriefEditor({ brief, disabled }: { brief: StoredBrief; disabled:
   const [maxSponsored, setMaxSponsored] = useState(brief.rules.promoted.maxCount === undefined ? '' : String(Math.round(brief.rules.promoted.maxCount * 100)));
   const [rest, setRest] = useState(String(brief.rules.restPeriod));
   const [perCategory, setPerCategory] = useState(categoryQuota ? String(categoryQuota.max) : '');
+  const [audience, setAudience] = useState(() => draftOf(brief.audience));
+  const [audienceError, setAudienceError] = useState<string | null>(null);
 
   const submit = (e: FormEvent) => {
     e.preventDefault();
+    const who = audienceOf(audience, brief.audience.kind === 'rule' ? brief.audience.signalKinds : undefined);
+    setAudienceError(typeof who === 'string' ? who : null);
+    if (typeof who === 'string') return;
     const quotas = brief.rules.quotas.filter((q) => !(q.facet === 'category' && q.value === undefined));
     if (perCategory.trim() !== '') quotas.push({ facet: 'category', max: Number(perCategory) });
     const maxCount = optionalShare(maxSponsored);
@@ -37,6 +43,7 @@ export function BriefEditor({ brief, disabled }: { brief: StoredBrief; disabled:
     const next: Brief = {
       ...brief,
       size: Number(size),
+      audience: who,
       lambda: Number(lambda),
       rules: { ...brief.rules, quotas, promoted, restPeriod: Number(rest) },
     };
@@ -68,6 +75,12 @@ export function BriefEditor({ brief, disabled }: { brief: StoredBrief; disabled:
           <input id={`${id}-quota`} type="number" min={1} value={perCategory} onChange={(e) => setPerCategory(e.target.value)} disabled={disabled} />
         </div>
       </div>
+      <AudienceField draft={audience} onChange={setAudience} disabled={disabled} />
+      {audienceError && (
+        <p className="error" role="alert">
+          {audienceError}
+        </p>
+      )}
       {error && (
         <p className="error" role="alert">
           Could not apply the rules: {error}

@@ -2,7 +2,7 @@ import { useVirtualizer } from '@tanstack/react-virtual';
 import { useEffect, useId, useRef } from 'react';
 import type { ShelfAction, ShelfView } from '../state/curation-slice.ts';
 import { useApp } from '../state/store.ts';
-import { pct } from './format.ts';
+import { topPercent } from './format.ts';
 
 const ROW_PX = 56;
 
@@ -61,7 +61,7 @@ export function CandidatePool({ shelf, slot, onSlot, readOnly, onAct }: { shelf:
                 <div className="candidate-main">
                   <p className="slot-title">{c.title}</p>
                   <p className="small">
-                    {c.promoted && <span className="sponsored">Sponsored</span>} <span className="muted">score {pct(c.percentile)} of pool</span>
+                    {c.promoted && <span className="sponsored">Sponsored</span>} <span className="muted">{topPercent(c.percentile, 'unit')} of pool</span>
                   </p>
                 </div>
                 <button

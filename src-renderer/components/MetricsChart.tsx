@@ -18,18 +18,27 @@ export function MetricsChart({ labels, series, title }: MetricsChartProps) {
   useEffect(() => {
     const el = host.current;
     if (!el || labels.length === 0) return;
-    const bars = uPlot.paths.bars?.({ size: [0.7 / series.length, 48], align: 0 });
-    const xs = labels.map((_, i) => i);
-    const data: uPlot.AlignedData = [xs, ...series.map((s) => [...s.values])];
+    // Grouped bars: series s of group g sits at g + (s - (S-1)/2)·w, so the groups' bars stand side by side
+    // instead of on top of each other; each series has values only at its own positions (null elsewhere).
+    const n = series.length;
+    const w = 0.8 / n;
+    const xs: number[] = [];
+    labels.forEach((_, g) => series.forEach((_s, k) => xs.push(g + (k - (n - 1) / 2) * w)));
+    const column = (k: number) => xs.map((_, j) => (j % n === k ? (series[k]!.values[Math.floor(j / n)] ?? null) : null));
+    const bars = uPlot.paths.bars?.({ size: [0.9, 64], align: 0 });
+    const data: uPlot.AlignedData = [xs, ...series.map((_s, k) => column(k))];
     const plot = new uPlot(
       {
         width: Math.max(320, el.clientWidth || 640),
         height: 240,
         title,
         scales: { x: { time: false, range: [-0.6, labels.length - 0.4] }, y: { range: [0, null] as unknown as uPlot.Range.MinMax } },
-        axes: [{ values: (_u, splits) => splits.map((v) => (Number.isInteger(v) ? (labels[v] ?? '') : '')), gap: 4 }, { size: 48 }],
-        series: [{}, ...series.map((s) => ({ label: s.name, stroke: s.color, fill: `${s.color}cc`, ...(bars ? { paths: bars } : {}), points: { show: false } }))],
-        legend: { show: true },
+        axes: [{ splits: () => labels.map((_, i) => i), values: (_u, splits) => splits.map((v) => labels[Math.round(v)] ?? ''), gap: 4 }, { size: 48 }],
+        series: [
+          { label: 'Model' },
+          ...series.map((s) => ({ label: s.name, stroke: s.color, fill: `${s.color}cc`, spanGaps: false, ...(bars ? { paths: bars } : {}), points: { show: false } })),
+        ],
+        legend: { show: true, live: false },
         cursor: { show: false },
       },
       data,

@@ -1,7 +1,7 @@
 import { DndContext, KeyboardSensor, PointerSensor, closestCenter, useSensor, useSensors, type DragEndEvent } from '@dnd-kit/core';
 import { SortableContext, sortableKeyboardCoordinates, useSortable, verticalListSortingStrategy } from '@dnd-kit/sortable';
 import type { ShelfAction, ShelfView } from '../state/curation-slice.ts';
-import { pct } from './format.ts';
+import { topPercent } from './format.ts';
 
 type Slot = ShelfView['slots'][number];
 
@@ -56,7 +56,7 @@ function SlotRow({ slot, readOnly, onAct }: RowProps) {
         </p>
         {item && (
           <p className="muted small">
-            {slot.category || 'no category'} · {slot.supplier || 'no supplier'} · score {pct(slot.percentile)} of pool
+            {slot.category || 'no category'} · {slot.supplier || 'no supplier'} · {topPercent(slot.percentile, 'unit')} of pool
           </p>
         )}
         {item && <ExplanationBars contributions={slot.contributions} />}

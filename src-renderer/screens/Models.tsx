@@ -1,4 +1,5 @@
 import { useEffect, useId, useMemo, useState } from 'react';
+import { HoldoutPanel } from '../components/HoldoutPanel.tsx';
 import { MetricsChart } from '../components/MetricsChart.tsx';
 import { num, pct } from '../components/format.ts';
 import { useApp } from '../state/store.ts';
@@ -175,6 +176,7 @@ export function Models() {
         )}
       </section>
       <EvaluationPanel />
+      <HoldoutPanel />
     </section>
   );
 }

@@ -1,4 +1,5 @@
 import { useEffect, useId, useState, type FormEvent } from 'react';
+import { ForgetCustomer } from '../components/ForgetCustomer.tsx';
 import { useApp } from '../state/store.ts';
 
 const numberFormat = new Intl.NumberFormat('en');
@@ -149,6 +150,7 @@ export function Overview() {
         </div>
       )}
       <ModelStatus />
+      {info?.open && <ForgetCustomer />}
       <OpenForm />
     </section>
   );

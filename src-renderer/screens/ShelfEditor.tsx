@@ -1,7 +1,9 @@
 import { useState } from 'react';
+import { AnchorPicker } from '../components/AnchorPicker.tsx';
 import { BriefEditor } from '../components/BriefEditor.tsx';
 import { CandidatePool } from '../components/CandidatePool.tsx';
 import { ShelfMeterPanel } from '../components/Meter.tsx';
+import { BacktestPanel, SimilarPanel } from '../components/ShelfInsights.tsx';
 import { SlotList } from '../components/SlotList.tsx';
 import { useApp } from '../state/store.ts';
 
@@ -87,6 +89,8 @@ export function ShelfEditor() {
         <div className="side">
           <ShelfMeterPanel meter={shelf.meter} title="Shelf meter" preview={preview} />
           <CandidatePool shelf={shelf} slot={Math.min(slot, shelf.size)} onSlot={setSlot} readOnly={readOnly} onAct={(a) => void act(a)} />
+          <BacktestPanel shelf={shelf} />
+          <SimilarPanel key={shelf.label} shelf={shelf} />
           <section className="panel" aria-labelledby="history-h">
             <h2 id="history-h">Actions on this shelf</h2>
             {shelf.actions.length === 0 ? (
@@ -106,6 +110,7 @@ export function ShelfEditor() {
         </div>
       </div>
       <BriefEditor key={JSON.stringify(shelf.brief)} brief={shelf.brief} disabled={readOnly} />
+      <AnchorPicker key={`${shelf.edition}/${shelf.label}`} shelf={shelf} readOnly={readOnly} />
     </section>
   );
 }

@@ -4,13 +4,14 @@ import { createStore, type StoreApi } from 'zustand/vanilla';
 import type { Client } from '../client/client.ts';
 import { createCurationSlice, type CurationSlice } from './curation-slice.ts';
 import { createImportSlice, type ImportSlice } from './import-slice.ts';
+import { createInsightSlice, type InsightSlice } from './insight-slice.ts';
 import { createModelsSlice, type ModelsSlice } from './models-slice.ts';
 import { createNavSlice, type NavSlice } from './nav-slice.ts';
 import { createWhatIfSlice, type WhatIfSlice } from './whatif-slice.ts';
 import { createWorkspaceSlice, type WorkspaceSlice } from './workspace-slice.ts';
 
 /** One store, typed slices (zustand docs, guides/slices-pattern.md); actions call the api client. */
-export type AppState = WorkspaceSlice & NavSlice & CurationSlice & ModelsSlice & WhatIfSlice & ImportSlice;
+export type AppState = WorkspaceSlice & NavSlice & CurationSlice & ModelsSlice & WhatIfSlice & ImportSlice & InsightSlice;
 export type AppStore = StoreApi<AppState>;
 
 const realSleep = (ms: number) => new Promise<void>((r) => setTimeout(r, ms));
@@ -23,6 +24,7 @@ export function createAppStore(client: Client, now: () => number = Date.now, sle
     ...createModelsSlice(client, sleep)(...a),
     ...createWhatIfSlice(client)(...a),
     ...createImportSlice(client)(...a),
+    ...createInsightSlice(client)(...a),
   }));
 }
 

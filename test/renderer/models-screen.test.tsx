@@ -1,5 +1,5 @@
 // @vitest-environment happy-dom
-import { cleanup, render, screen, within } from '@testing-library/react';
+import { cleanup, fireEvent, render, screen, waitFor, within } from '@testing-library/react';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { ApiResult } from '../../src-main/api/define.ts';
 import { createClient } from '../../src-renderer/client/client.ts';
@@ -57,7 +57,51 @@ describe('models screen', () => {
     expect(cells.map((c) => c.textContent)).toEqual(['hybrid', 'ials', 'popularity']);
     expect(within(region).getAllByRole('row')[3]?.textContent).toContain('—');
     const last = plots.at(-1);
-    expect(last?.data).toEqual([[0, 1, 2], [0.31, 0.28, 0.12], [0.42, 0.4, null]]);
+    // Grouped bars: each model's two bars stand either side of its label, 0.4 apart (0.8 of a group / 2 series).
+    const [xs, ndcg, recall] = last?.data ?? [];
+    expect((xs as number[]).map((x) => Math.round(x * 10) / 10)).toEqual([-0.2, 0.2, 0.8, 1.2, 1.8, 2.2]);
+    expect(ndcg).toEqual([0.31, null, 0.28, null, 0.12, null]);
+    expect(recall).toEqual([null, 0.42, null, 0.4, null, null]);
     expect(last?.opts.series.slice(1).map((s) => s.label)).toEqual(['NDCG@10', 'Recall@10']);
+  });
+});
+
+describe('evaluate against a file', () => {
+  it('sends the picked file and shows every model, the unknown counts and the chart', async () => {
+    const sent: unknown[] = [];
+    const holdout = {
+      file: 'week.csv', k: 5, rows: 40, usableRows: 37, pairs: 30, customers: 12,
+      unknownCustomers: { distinct: 2, rows: 2, examples: ['x1', 'x2'] },
+      unknownItems: { distinct: 1, rows: 1, examples: ['zz'] },
+      alreadyInWorkspace: 3, duplicateRows: 0, customersWithoutNewItems: 0, coldCustomers: 0,
+      models: [{ ...row('ials', 0.25, 0.5), k: 5, stale: false }, { ...row('random', 0.01, null), k: 5, stale: null }],
+      weightsFrom: 'defaults', mapping: { customer: 'customer', item: 'item' }, notes: [],
+    };
+    const client = createClient(async (method, payload): Promise<ApiResult<unknown>> => {
+      if (method === 'models.list') return { ok: true, value: { models: [] } };
+      if (method === 'evaluate.latest') return { ok: true, value: { evaluation: null } };
+      if (method === 'evaluate.holdout') {
+        sent.push(payload);
+        return { ok: true, value: holdout };
+      }
+      return { ok: false, error: { code: 'input', message: method } };
+    });
+    render(
+      <StoreContext.Provider value={createAppStore(client)}>
+        <Models />
+      </StoreContext.Provider>,
+    );
+    const region = await screen.findByRole('region', { name: 'Evaluate against a file' });
+    const file = new File(['customer,item\nc1,i1\n'], 'week.csv', { type: 'text/csv' });
+    fireEvent.change(within(region).getByLabelText('Held-out file'), { target: { files: [file] } });
+    fireEvent.change(within(region).getByLabelText('List length K'), { target: { value: '5' } });
+    await waitFor(() => expect(within(region).getByRole('button', { name: 'Evaluate against this file' }).hasAttribute('disabled')).toBe(false));
+    fireEvent.click(within(region).getByRole('button', { name: 'Evaluate against this file' }));
+    const table = await within(region).findByRole('table', { name: 'Models scored on the file' });
+    expect(sent).toEqual([{ source: { fileName: 'week.csv', content: 'customer,item\nc1,i1\n' }, k: 5 }]);
+    expect(within(table).getAllByRole('rowheader').map((c) => c.textContent)).toEqual(['ials', 'random']);
+    expect(within(table).getAllByRole('row')[2]?.textContent).toContain('baseline or blend');
+    expect(within(region).getByLabelText('Holdout summary').textContent).toContain('2 unknown customers (2 rows) · 1 unknown items (1 row)');
+    expect(plots.at(-1)?.opts.series.slice(1).map((s) => s.label)).toEqual(['NDCG@5', 'Recall@5', 'HitRate@5']);
   });
 });

@@ -1,0 +1,64 @@
+/**
+ * The README's two pictures, from a real (demo) workspace: `npx tsx e2e/docs-screenshots.ts WORKSPACE`
+ * writes docs/screenshots/overview.png and shelf-editor.png at 1280×800. It works on a copy of the
+ * workspace, so the original is never changed. A script, not a test: run it when the screens change.
+ */
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { chromium } from '@playwright/test';
+import { createHandlerTable } from '../src-main/api/handler-table.ts';
+import { AppContext } from '../src-main/services/context.ts';
+import { startWebShell } from '../src-main/shell/web/server.ts';
+import { ensureBuilt, ROOT } from './fixtures.ts';
+import config from '../playwright.config.ts';
+
+async function main(): Promise<void> {
+  const source = process.argv[2];
+  if (!source || !fs.existsSync(source)) throw new Error('usage: npx tsx e2e/docs-screenshots.ts WORKSPACE.sqlite (an existing, trained workspace)');
+  ensureBuilt();
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-docs-'));
+  const copy = path.join(dir, path.basename(source));
+  for (const suffix of ['', '-wal', '-shm']) if (fs.existsSync(source + suffix)) fs.copyFileSync(source + suffix, copy + suffix);
+  const ctx = new AppContext();
+  ctx.open(copy, { create: false });
+  const shell = await startWebShell({ table: createHandlerTable(ctx), staticDir: path.join(ROOT, 'dist', 'renderer') });
+  const browser = await chromium.launch(config.use?.launchOptions);
+  const out = path.join(ROOT, 'docs', 'screenshots');
+  fs.mkdirSync(out, { recursive: true });
+  try {
+    const page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
+    await page.goto(shell.pageUrl);
+    await page.getByText(/models? trained/).waitFor({ timeout: 60_000 });
+    await page.getByText(/^Signals from /).waitFor();
+    await page.screenshot({ path: path.join(out, 'overview.png') });
+
+    const screens = page.getByRole('navigation', { name: 'Screens' });
+    await screens.getByRole('button', { name: 'Editions', exact: true }).click();
+    await page.getByLabel('Name').fill('Garden week');
+    await page.getByLabel('Date').fill('2026-11-30');
+    await page.getByRole('button', { name: 'Start edition' }).click();
+    const refused = page.getByRole('alert');
+    await Promise.race([page.getByLabel('Shelf name').waitFor(), refused.waitFor()]);
+    if (await refused.isVisible()) throw new Error(`could not start the edition: ${await refused.innerText()}`);
+    await page.getByLabel('Shelf name').fill('Homepage row');
+    await page.getByLabel('Slots').fill('8');
+    await page.getByRole('button', { name: 'Add shelf' }).click();
+    await page.getByRole('button', { name: 'Edit shelf Homepage row' }).click();
+    const slots = page.getByRole('list', { name: 'Slots' });
+    await slots.getByRole('listitem', { name: /^Slot 2:/ }).getByRole('button', { name: 'Pin' }).click();
+    await slots.getByText('Pinned', { exact: true }).waitFor();
+    const pool = page.getByRole('list', { name: 'Candidates for this slot' });
+    await pool.getByRole('listitem').first().hover();
+    await page.getByText(/^If .* went into slot 1:/).waitFor();
+    await page.screenshot({ path: path.join(out, 'shelf-editor.png') });
+    console.log(`wrote ${out}/overview.png and shelf-editor.png`);
+  } finally {
+    await browser.close();
+    await shell.close();
+    ctx.close();
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+await main();

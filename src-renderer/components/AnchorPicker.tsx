@@ -20,9 +20,14 @@ export function AnchorPicker({ shelf, readOnly }: { shelf: ShelfView; readOnly: 
   const proposeError = useApp((s) => s.insight.errors.propose);
   const date = useApp((s) => s.curation.edition?.date);
   const act = useApp((s) => s.act);
+  const setBrief = useApp((s) => s.setBrief);
   const [query, setQuery] = useState('');
   const [searched, setSearched] = useState(false);
-  const [anchors, setAnchors] = useState<ItemRef[]>([]);
+  // Anchors already in the brief come back as item ids; their titles show once searched or ranked.
+  const [anchors, setAnchors] = useState<ItemRef[]>(() =>
+    shelf.brief.anchors.map((item) => ({ item, title: item, category: '', promoted: false })),
+  );
+  const saved = shelf.brief.anchors.join('\n');
   const [slot, setSlot] = useState(1);
   // The store keeps the last ranking; it is shown only while the anchors are the ones it was made for.
   const [rankedFor, setRankedFor] = useState<string | null>(null);
@@ -90,6 +95,14 @@ export function AnchorPicker({ shelf, readOnly }: { shelf: ShelfView; readOnly: 
         }}
       >
         Rank the pool towards these anchors
+      </button>{' '}
+      <button
+        type="button"
+        className="quiet"
+        disabled={readOnly || anchorKey === saved}
+        onClick={() => void setBrief({ ...shelf.brief, anchors: anchors.map((a) => a.item) })}
+      >
+        {anchors.length === 0 ? 'Clear the shelf’s anchors' : 'Fill the shelf from these anchors'}
       </button>
       {proposeError && (
         <p className="error" role="alert">

@@ -58,8 +58,13 @@ describe('the curation world follows training (issue 5)', () => {
     expect(after.groups).toBeDefined();
 
     // Anchored shelf: collaborative similarity to the anchors; every shelf: the audience's iALS affinity.
-    const anchored = (await call('shelf.add', { edition: 'w', label: 'Related', brief: { size: 6, anchors: [1, 2] } })) as ShelfView;
+    const anchored = (await call('shelf.add', { edition: 'w', label: 'Related', brief: { size: 6, anchors: ['SKU-001', 'SKU-002'] } })) as ShelfView;
     expect(anchored.slots.every((s) => s.item !== null && (s.contributions['collaborative'] ?? 0) > 0)).toBe(true);
+    // The api names anchors by the shop's ids both ways; the store keeps row ids.
+    expect(anchored.brief.anchors).toEqual(['SKU-001', 'SKU-002']);
+    await expect(call('shelf.add', { edition: 'w', label: 'Ghost', brief: { size: 4, anchors: ['SKU-999'] } })).rejects.toThrow(
+      "anchor 'SKU-999': no item with this id in the workspace",
+    );
     const group = (await call('shelf.add', { edition: 'w', label: 'Group', brief: { size: 4, audience: { kind: 'group', group: 0 } } })) as ShelfView;
     expect(group.slots.some((s) => (s.contributions['audience'] ?? 0) > 0)).toBe(true);
     const front = (await call('shelf.fill', { edition: 'w', shelf: 'Front' })) as ShelfView;

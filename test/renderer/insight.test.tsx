@@ -107,6 +107,11 @@ describe('anchors in the shelf editor', () => {
     const rows = within(ranked).getAllByRole('listitem');
     expect(rows.length).toBeGreaterThan(0);
     for (const r of rows) expect(r.textContent).toMatch(/top \d{1,3}% of pool/);
+    // Saving puts the anchors in the shelf's brief, named by the shop's ids, and refills the shelf.
+    fireEvent.click(within(panel).getByRole('button', { name: 'Fill the shelf from these anchors' }));
+    await waitFor(() => expect(store.getState().curation.edition?.shelves.find((x) => x.label === 'Row')?.brief.anchors).toEqual(['i-2']));
+    const stored = await h.client.call('shelf.show', { edition: 'Week 49', shelf: 'Row' });
+    expect(stored.brief.anchors).toEqual(['i-2']);
   });
 });
 

@@ -45,13 +45,18 @@ export const SlotView = z.object({
 
 export const ViolationView = z.object({ rule: z.string(), reason: z.string() });
 
+/** A brief as the api speaks it: anchors named by the shop's item ids (the store keeps row ids). */
+export const ApiBrief = BriefSchema.extend({
+  anchors: z.array(z.string().trim().min(1, 'name each anchor by its item id')).default([]),
+});
+
 export const ShelfView = z.object({
   edition: z.string(),
   label: z.string(),
   position: z.number().int(),
   size: z.number().int(),
   locked: z.boolean(),
-  brief: BriefSchema,
+  brief: ApiBrief,
   slots: z.array(SlotView),
   meter: ShelfMeterView,
   violations: z.array(ViolationView),
@@ -149,12 +154,12 @@ export const curationMethods = {
   }),
   'shelf.add': method({
     summary: 'Add a shelf to a draft edition and fill it from its brief.',
-    request: z.object({ edition: label('edition'), label: label('shelf'), brief: BriefSchema }).strict(),
+    request: z.object({ edition: label('edition'), label: label('shelf'), brief: ApiBrief }).strict(),
     response: ShelfView,
   }),
   'shelf.brief': method({
     summary: "Replace a shelf's brief (size, filters, quotas, promoted bounds, rest period...) and fill it again.",
-    request: z.object({ ...shelfRef, brief: BriefSchema }).strict(),
+    request: z.object({ ...shelfRef, brief: ApiBrief }).strict(),
     response: ShelfView,
   }),
   'shelf.fill': method({

@@ -1,3 +1,4 @@
+import { anchorExternalIds, anchorRowIds } from '../../services/curation/anchors.ts';
 import { backtestShelf } from '../../services/curation/backtest.ts';
 import { curationModelSource, describeTasteGroups, GROUP_COUNT } from '../../services/curation/model-source.ts';
 import { CurationService, type ActionRequest } from '../../services/curation/service.ts';
@@ -21,8 +22,6 @@ function finite<T>(v: T): T {
   return v;
 }
 
-const shelf = (v: ShelfView) => finite(v) as unknown as ResponseOf<'shelf.show'>;
-const edition = (v: EditionView) => finite(v) as unknown as ResponseOf<'edition.show'>;
 
 /** A sink by f is a multiplier of 1/f: the api keeps both words, the log keeps one factor. */
 function toRequest(a: ShelfAction): ActionRequest {
@@ -50,6 +49,10 @@ type Names =
 
 export function curationHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
   const svc = () => new CurationService(ctx.db, curationModelSource);
+  const withAnchorIds = <B extends { anchors: string[] }>(b: B) => ({ ...b, anchors: anchorRowIds(ctx.db, b.anchors) });
+  const apiShelf = (v: ShelfView) => ({ ...v, brief: { ...v.brief, anchors: anchorExternalIds(ctx.db, v.brief.anchors) } });
+  const shelf = (v: ShelfView) => finite(apiShelf(v)) as unknown as ResponseOf<'shelf.show'>;
+  const edition = (v: EditionView) => finite({ ...v, shelves: v.shelves.map(apiShelf) }) as unknown as ResponseOf<'edition.show'>;
   return {
     'edition.new': (r) => edition(svc().newEdition(r.label, r.date, r.from)),
     'edition.list': () => ({
@@ -69,8 +72,8 @@ export function curationHandlers(ctx: AppContext): { [M in Names]: Handler<M> } 
       const safe = snap.edition.label.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '') || 'edition';
       return { format: r.format, filename: `${safe}.${r.format}`, content: exportEdition(snap, r.format) };
     },
-    'shelf.add': (r) => shelf(svc().addShelf(r.edition, r.label, r.brief)),
-    'shelf.brief': (r) => shelf(svc().setBrief(r.edition, r.shelf, r.brief)),
+    'shelf.add': (r) => shelf(svc().addShelf(r.edition, r.label, withAnchorIds(r.brief))),
+    'shelf.brief': (r) => shelf(svc().setBrief(r.edition, r.shelf, withAnchorIds(r.brief))),
     'shelf.fill': (r) => shelf(svc().fill(r.edition, r.shelf, true)),
     'shelf.show': (r) => shelf(svc().fill(r.edition, r.shelf, false)),
     'shelf.act': (r) => shelf(svc().act(r.edition, r.shelf, toRequest(r.action), r.reason)),

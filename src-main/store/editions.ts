@@ -79,7 +79,7 @@ export class EditionRepo {
   create(label: string, date: string, at: number): Edition {
     checkDate(date);
     if (label.trim() === '') throw new InputError('label: give the edition a label', { column: 'label' });
-    if (this.#byLabel.get(label)) throw new InputError(`label: an edition called '${label}' already exists`, { column: 'label' });
+    if (this.#byLabel.get(label)) throw new InputError(`an edition called '${label}' already exists: choose another name`, { column: 'label' });
     const id = Number(this.#insert.run({ label, date, at }).lastInsertRowid);
     return this.get(id);
   }

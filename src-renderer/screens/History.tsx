@@ -5,6 +5,8 @@ import { useApp } from '../state/store.ts';
 export function History() {
   const editions = useApp((s) => s.curation.editions);
   const comparison = useApp((s) => s.curation.comparison);
+  /** Titles as published, with the shop's id for the editor's search. */
+  const named = (id: string) => (comparison?.titles[id] ? `${comparison.titles[id]} ({id})` : id);
   const error = useApp((s) => s.curation.errors.compare);
   const load = useApp((s) => s.loadEditions);
   const compare = useApp((s) => s.compare);
@@ -86,9 +88,9 @@ export function History() {
                     {s.label}
                     {s.presence === 'onlyA' ? ' (only in the earlier one)' : s.presence === 'onlyB' ? ' (new)' : ''}
                   </td>
-                  <td>{s.added.join(', ') || 'none'}</td>
-                  <td>{s.removed.join(', ') || 'none'}</td>
-                  <td>{s.moved.map((m) => `${m.item} ${m.from}→${m.to}`).join(', ') || 'none'}</td>
+                  <td>{s.added.map(named).join(', ') || 'none'}</td>
+                  <td>{s.removed.map(named).join(', ') || 'none'}</td>
+                  <td>{s.moved.map((m) => `${named(m.item)}: slot ${m.from} → ${m.to}`).join(', ') || 'none'}</td>
                 </tr>
               ))}
             </tbody>

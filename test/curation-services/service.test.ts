@@ -86,8 +86,10 @@ describe('curation service', () => {
     expect(nextFront.brief.rules.restPeriod).toBe(1);
     for (const it of items(front)) expect(items(nextFront)).not.toContain(it);
     expect(nextFront.excluded['resting']).toBe(5);
-    const diff = svc.compare('w10', 'w11');
+    const { shelves: diff, titles } = svc.compare('w10', 'w11');
     expect(diff[0]!.label).toBe('Front');
+    // Every item the comparison names comes with its title, as published.
+    for (const id of [...diff[0]!.added, ...diff[0]!.removed]) expect(titles[id]).toMatch(/no\. \d+$/);
     expect(diff[0]!.removed.sort()).toEqual([...items(front)].sort());
     expect(diff[0]!.added).toHaveLength(5);
   });

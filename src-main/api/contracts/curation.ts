@@ -145,7 +145,7 @@ export const curationMethods = {
   'edition.compare': method({
     summary: 'Per shelf label, the items edition b added, removed and moved relative to edition a.',
     request: z.object({ a: label('first edition'), b: label('second edition') }).strict(),
-    response: z.object({ a: z.string(), b: z.string(), shelves: z.array(ShelfDiffView) }),
+    response: z.object({ a: z.string(), b: z.string(), shelves: z.array(ShelfDiffView), titles: z.record(z.string(), z.string()) }),
   }),
   'edition.export': method({
     summary: 'The edition as CSV, JSON or a standalone HTML preview (sponsored items labelled in words).',

@@ -66,7 +66,7 @@ export function curationHandlers(ctx: AppContext): { [M in Names]: Handler<M> } 
       const items = s.shelves.reduce((n, x) => n + x.slots.filter((y) => y.itemId !== null).length, 0);
       return { edition: s.edition.label, publishedAt: s.publishedAt, shelves: s.shelves.length, items };
     },
-    'edition.compare': (r) => ({ a: r.a, b: r.b, shelves: svc().compare(r.a, r.b) }),
+    'edition.compare': (r) => ({ a: r.a, b: r.b, ...svc().compare(r.a, r.b) }),
     'edition.export': (r) => {
       const snap = svc().snapshotOf(r.edition);
       const safe = snap.edition.label.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '') || 'edition';

@@ -70,6 +70,13 @@ export function compareEditions(a: EditionSnapshot, b: EditionSnapshot): ShelfDi
   });
 }
 
+/** Title of every item on the given snapshots, by external id (comparisons read as titles, not codes). */
+export function titlesOn(...snapshots: readonly EditionSnapshot[]): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const e of snapshots) for (const s of e.shelves) for (const x of s.slots) if (x.externalId !== null) out[x.externalId] = x.title ?? x.externalId;
+  return out;
+}
+
 /** Workspace item ids on any shelf of the given snapshots (the rest period's resting set). */
 export function itemsOn(snapshots: readonly EditionSnapshot[]): Set<number> {
   const out = new Set<number>();

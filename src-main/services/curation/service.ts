@@ -8,6 +8,7 @@ import { InputError, NotFoundError } from '../../core/errors.ts';
 import {
   checkAction,
   compareEditions,
+  titlesOn,
   doAction,
   redo as redoLog,
   replay,
@@ -300,8 +301,10 @@ export class CurationService {
     return editionSnapshot(this, label);
   }
 
-  compare(a: string, b: string): ShelfDiff[] {
-    return compareEditions(this.snapshotOf(a), this.snapshotOf(b));
+  compare(a: string, b: string): { shelves: ShelfDiff[]; titles: Record<string, string> } {
+    const sa = this.snapshotOf(a);
+    const sb = this.snapshotOf(b);
+    return { shelves: compareEditions(sa, sb), titles: titlesOn(sa, sb) };
   }
 
   /** The shelf's editorial state, replayed from its log. */

@@ -17,6 +17,7 @@ import { loadDataset } from '../store/dataset.ts';
 import type { Db } from '../store/workspace.ts';
 import { csvCell } from './export/csv.ts';
 import { SPONSORED } from './export/labels.ts';
+import { checkInputFile, checkOutputFile } from './user-file.ts';
 import type { UnknownIds } from './holdout/evaluate.ts';
 import { loadTrainedModels, ownedMatrix } from './holdout/trained.ts';
 
@@ -51,6 +52,7 @@ export const RECOMMEND_CSV_HEADER = ['customer', 'rank', 'item', 'title', 'score
 
 /** Reads a customer list: one external id per line (or the first column of a CSV); a header line is skipped. */
 export function readCustomerList(file: string): string[] {
+  checkInputFile(file, 'customer list');
   let text: string;
   try {
     text = fs.readFileSync(file, 'utf8');
@@ -71,6 +73,7 @@ export function recommend(db: Db, o: RecommendOptions): RecommendReport {
   const format = o.format ?? (path.extname(o.out).toLowerCase() === '.jsonl' ? 'jsonl' : 'csv');
   if (!Number.isInteger(o.n) || o.n < 1 || o.n > 1000) throw new InputError(`top must be a whole number from 1 to 1000, got ${o.n}`, { column: 'top' });
   if (!o.all && !(o.customers && o.customers.length > 0)) throw new InputError('give a list of customers or ask for all of them');
+  checkOutputFile(o.out); // before the work, so a long run never ends in a failed write
   const ds = loadDataset(db);
   const models = loadTrainedModels(db, ds);
   const hybrid = models.hybrid;

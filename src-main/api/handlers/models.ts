@@ -6,6 +6,7 @@ import { evaluateHoldout } from '../../services/holdout/evaluate.ts';
 import { evaluateJob, latestEvaluation, listModels, type ModelEvaluationRecord } from '../../services/models-status.ts';
 import { propose } from '../../services/propose.ts';
 import { readCustomerList, recommend } from '../../services/recommend.ts';
+import { checkInputFile } from '../../services/user-file.ts';
 import { searchItems, similarItems } from '../../services/recommend-items.ts';
 import { trainJob } from '../../services/train/train-job.ts';
 import type { TrainOptions } from '../../services/train/train-models.ts';
@@ -127,6 +128,7 @@ export function modelHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
     },
 
     'evaluate.holdout': async (req) => {
+      if ('file' in req.source) checkInputFile(req.source.file, 'holdout file'); // a folder, said plainly
       const r = await evaluateHoldout(ctx.db, req.source, {
         k: req.k,
         ...(req.format && { format: req.format }),

@@ -2,13 +2,27 @@ import { invoke, type HandlerTable } from '../../api/handler-table.ts';
 import type { MethodName, RequestOf, ResponseOf } from '../../api/contract.ts';
 import type { ApiError } from '../../api/define.ts';
 
+const REPEATED = /^([\w.[\]-]+): \1[: ]/;
+
+/**
+ * The line a terminal shows for an api error: `file:line:column: message`. Many checks name their field both
+ * as `where.column` and at the start of the message ("slot: slot must be..."), and schema errors repeat their
+ * path ("a.b: a.b: ..."); a prefix the message already starts with is given once.
+ */
+export function describeApiError(error: ApiError): string {
+  const w = error.where;
+  const at = w ? [w.file, w.line, w.column].filter((p) => p !== undefined && p !== '').join(':') : '';
+  let message = error.message;
+  for (let m = REPEATED.exec(message); m; m = REPEATED.exec(message)) message = message.slice(m[1]!.length + 2);
+  const startsWithAt = at !== '' && (message.startsWith(`${at}:`) || message.startsWith(`${at} `));
+  return at && !startsWithAt ? `${at}: ${message}` : message;
+}
+
 /** An api error surfaced to the command line; main() prints it and exits with the data-error code. */
 export class CliApiError extends Error {
   readonly error: ApiError;
   constructor(error: ApiError) {
-    const w = error.where;
-    const at = w ? [w.file, w.line, w.column].filter((p) => p !== undefined).join(':') : '';
-    super(at ? `${at}: ${error.message}` : error.message);
+    super(describeApiError(error));
     this.error = error;
   }
 }

@@ -5,7 +5,7 @@ export function table(headers: string[], rows: (string | number)[][]): string {
   const numeric = headers.map((_, j) => rows.length > 0 && rows.every((r) => typeof r[j] === 'number'));
   const line = (r: string[]) =>
     r.map((c, j) => (numeric[j] ? c.padStart(widths[j]!) : c.padEnd(widths[j]!))).join('  ').trimEnd();
-  return [line(cells[0]!), widths.map((w) => '-'.repeat(w)).join('  '), ...cells.slice(1).map(line)].join('\n');
+  return [line(cells[0]!), widths.map((w) => '-'.repeat(w)).join('  ').trimEnd(), ...cells.slice(1).map(line)].join('\n');
 }
 
 export function formatNumber(x: number): string {

@@ -1,3 +1,4 @@
+import fs from 'node:fs';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
 import { createHandlerTable, type HandlerTable } from '../../api/handler-table.ts';
@@ -53,6 +54,26 @@ function commandHelp(c: CliCommand): string {
   ].join('\n');
 }
 
+/**
+ * Says plainly, with the next step, why a workspace path cannot be used (the store's own errors speak of
+ * database files); a missing file is fine when the command creates it (import).
+ */
+function checkWorkspacePath(file: string, create: boolean): void {
+  let st: fs.Stats | undefined;
+  try {
+    st = fs.statSync(file);
+  } catch {
+    st = undefined;
+  }
+  if (st?.isDirectory()) throw new InputError('this is a folder, not a workspace file: give the .sqlite file inside it', { file });
+  if (!st && !create) {
+    throw new InputError(
+      `no workspace at ${file}: make one by importing a catalogue (shelfwright import items FILE -w ${file}) ` +
+        `or build the demo shop (shelfwright demo -w ${file})`,
+    );
+  }
+}
+
 /** Finds the longest command name (two words, then one) at the start of argv. */
 function findCommand(argv: string[]): { command: CliCommand; rest: string[] } | undefined {
   for (const words of [2, 1]) {
@@ -97,7 +118,10 @@ export async function main(argv: string[], io: CliIo, env: NodeJS.ProcessEnv = p
     json: values['json'] === true,
     workspace,
     api: (options = {}) => {
-      if (!ctx.isOpen && !options.detached) ctx.open(workspace, { create: options.create ?? false });
+      if (!ctx.isOpen && !options.detached) {
+        checkWorkspacePath(workspace, options.create ?? false);
+        ctx.open(workspace, { create: options.create ?? false });
+      }
       table ??= createHandlerTable(ctx);
       return { table, ctx };
     },

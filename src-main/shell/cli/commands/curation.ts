@@ -1,6 +1,6 @@
-import fs from 'node:fs';
 import type { ShelfView } from '../../../api/contracts/curation.ts';
 import type { RequestOf } from '../../../api/contract.ts';
+import { checkOutputFile, writeFileWhole } from '../../../services/user-file.ts';
 import { call } from '../call.ts';
 import { EXIT, type CliCommand, type CommandEnv, type OptionSpec } from '../command.ts';
 import { list, num, positionals, str } from '../flags.ts';
@@ -274,11 +274,12 @@ export const curationCommands: CliCommand[] = [
       const [label] = positionals(env, ['LABEL']);
       const format = str(env, 'format');
       if (format !== 'csv' && format !== 'json' && format !== 'html') throw new UsageError(`--format must be csv, json or html, got '${format ?? ''}'`);
+      const out = str(env, 'out');
+      if (out) checkOutputFile(out); // a missing folder is said before any work, in plain words
       const { table: t } = env.api();
       const r = await call(t, 'edition.export', { edition: label!, format });
-      const out = str(env, 'out');
       if (out) {
-        fs.writeFileSync(out, r.content);
+        writeFileWhole(out, r.content);
         env.io.out(env.json ? JSON.stringify({ format, file: out, bytes: Buffer.byteLength(r.content) }) : `wrote ${out}`);
       } else env.io.out(env.json ? JSON.stringify(r, null, 2) : r.content);
       return EXIT.ok;

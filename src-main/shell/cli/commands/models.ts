@@ -12,6 +12,7 @@ const nonNeg = (env: CommandEnv, name: string) => num(env, name, (x) => x >= 0, 
 const val = (x: number | null | undefined) => (x === null || x === undefined ? '–' : formatNumber(x));
 const only = <T extends object>(o: T) => Object.fromEntries(Object.entries(o).filter(([, v]) => v !== undefined)) as T;
 
+const MODEL_KINDS = ['content', 'itemknn', 'ials', 'ease', 'popularity'] as const;
 
 const trainCommand: CliCommand = {
   name: 'train',
@@ -40,6 +41,12 @@ const trainCommand: CliCommand = {
   ].join('\n'),
   async run(env) {
     const models = str(env, 'models')?.split(',').map((m) => m.trim()).filter(Boolean);
+    if (models !== undefined) {
+      const unknown = models.filter((m) => !MODEL_KINDS.includes(m as (typeof MODEL_KINDS)[number]));
+      if (models.length === 0 || unknown.length) {
+        throw new UsageError(`--models takes a comma-separated list of ${MODEL_KINDS.join(', ')}${unknown.length ? `; '${unknown[0]}' is not one of them` : ''}`);
+      }
+    }
     const scaling = str(env, 'scaling');
     if (scaling !== undefined && scaling !== 'linear' && scaling !== 'log') throw new UsageError(`--scaling must be linear or log, got '${scaling}'`);
     const ials = only({
@@ -112,7 +119,8 @@ const evaluateCommand: CliCommand = {
   ].join('\n'),
   async run(env) {
     const holdout = str(env, 'holdout');
-    const k = int(env, 'k');
+    const maxK = holdout ? 500 : 200; // the api's bounds for evaluate.holdout and evaluate.start
+    const k = num(env, 'k', (x) => Number.isInteger(x) && x >= 1 && x <= maxK, `a whole number from 1 to ${maxK}`);
     const { table: t } = env.api();
     if (holdout) {
       const mapping: Record<string, string> = {};
@@ -173,7 +181,8 @@ const similarCommand: CliCommand = {
   async run(env) {
     if (env.positionals.length !== 1) throw new UsageError(env.positionals.length ? `unexpected argument '${env.positionals[1]}'` : 'missing ITEM');
     const { table: t } = env.api();
-    const r = await call(t, 'item.similar', { item: env.positionals[0]!, n: int(env, 'n') ?? 10 });
+    const n = num(env, 'n', (x) => Number.isInteger(x) && x >= 1 && x <= 200, 'a whole number from 1 to 200') ?? 10;
+    const r = await call(t, 'item.similar', { item: env.positionals[0]!, n });
     if (env.json) {
       env.io.out(JSON.stringify(r, null, 2));
       return EXIT.ok;

@@ -68,7 +68,7 @@ const t0 = performance.now();
 await call('edition.new', { label: E, date });
 const coldEdition = performance.now() - t0;
 const front = await call('shelf.add', { edition: E, label: 'Front', brief: { size: 24 } });
-const anchorIds = (app.db.prepare('SELECT id FROM item ORDER BY id LIMIT 2').all() as { id: number }[]).map((r) => r.id);
+const anchorIds = (app.db.prepare('SELECT external_id FROM item ORDER BY id LIMIT 2').all() as { external_id: string }[]).map((r) => r.external_id);
 const middle = await call('shelf.add', { edition: E, label: 'Group', brief: { size: 12, audience: { kind: 'group', group: 1 } } });
 const last = await call('shelf.add', { edition: E, label: 'Related', brief: { size: 8, anchors: anchorIds } });
 console.log(`cold: edition.new (world build) ${coldEdition.toFixed(1)} ms; first fill of the 24-slot shelf ${front.ms.toFixed(1)} ms`);

@@ -5,7 +5,11 @@
  * Prints per run and as medians: rows/s of wall time, CPU seconds (process.cpuUsage: every thread, SQLite's
  * included) and rows per CPU-second, peak RSS, and the machine's 1-minute load average before and after
  * the run: on a shared machine the wall clock also counts time spent waiting for a core, so read the rate
- * against the load. Run: npm run bench:import (BENCH_SIGNALS and BENCH_RUNS override the size and runs).
+ * against the load. The main thread's own CPU time (Linux /proc/self/task/<pid>/stat, utime + stime in
+ * clock ticks: proc(5)) is printed beside the total, so the rest is the parsing thread's (plus V8's helper
+ * threads). BENCH_MODE=single|thread|both (default both) picks the signal path: single-thread or parsing
+ * in a worker thread (RunOptions.parseThread); runs alternate between the two so both see the same load.
+ * Run: npm run bench:import (BENCH_SIGNALS and BENCH_RUNS override the size and the runs per mode).
  */
 import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
@@ -13,11 +17,15 @@ import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { seededRng } from '../src-main/core/rng.ts';
+import { runImport } from '../src-main/ingest/run.ts';
 import { importFile } from '../src-main/services/import.ts';
 import { openWorkspace } from '../src-main/store/workspace.ts';
 
 const SIGNALS = Number(process.env.BENCH_SIGNALS ?? 1_000_000);
 const RUNS = Number(process.env.BENCH_RUNS ?? 3);
+const MODES = (process.env.BENCH_MODE ?? 'both') === 'both' ? ['single', 'thread'] : [process.env.BENCH_MODE!];
+/** Clock ticks per second for /proc times (sysconf(_SC_CLK_TCK); 100 on Linux x86-64 and arm64). */
+const TICKS = Number(execFileSync('getconf', ['CLK_TCK'], { encoding: 'utf8' }).trim());
 const ITEMS = 20_000;
 const CUSTOMERS = 50_000;
 const KINDS = ['view', 'view', 'view', 'click', 'read', 'basket', 'purchase', 'rating'];
@@ -27,6 +35,7 @@ interface RunResult {
   added: number;
   seconds: number;
   cpuSeconds: number;
+  mainCpuSeconds: number;
   rssMb: number;
   loadBefore: number;
   loadAfter: number;
@@ -47,17 +56,26 @@ async function writeLines(file: string, header: string, n: number, line: (i: num
 }
 
 /** One run, in a child process: catalogue and customers first, then the timed signal import. */
-async function child(dir: string, run: number): Promise<void> {
-  const ws = path.join(dir, `run${run}.shelf`);
+/** CPU seconds of this process's main thread so far (fields 14 and 15 of its /proc stat line; proc(5)). */
+function mainThreadCpu(): number {
+  const stat = fs.readFileSync(`/proc/self/task/${process.pid}/stat`, 'utf8');
+  const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' '); // from field 3 on (the name may hold spaces)
+  return (Number(fields[11]) + Number(fields[12])) / TICKS;
+}
+
+async function child(dir: string, run: string, mode: string): Promise<void> {
+  const ws = path.join(dir, `run-${run}.shelf`);
   const db = openWorkspace(ws);
   await importFile(db, { target: 'items', file: path.join(dir, 'items.csv') });
   await importFile(db, { target: 'customers', file: path.join(dir, 'customers.csv') });
   const loadBefore = os.loadavg()[0]!;
   const started = performance.now();
   const cpu0 = process.cpuUsage();
-  const r = await importFile(db, { target: 'signals', file: path.join(dir, 'signals.csv') });
+  const main0 = mainThreadCpu();
+  const r = await runImport(db, { target: 'signals', file: path.join(dir, 'signals.csv'), parseThread: mode === 'thread' });
   const seconds = (performance.now() - started) / 1000;
   const cpu = process.cpuUsage(cpu0);
+  const mainCpuSeconds = mainThreadCpu() - main0;
   if (!r.committed || r.rows !== SIGNALS) throw new Error(`benchmark import failed: ${JSON.stringify(r).slice(0, 500)}`);
   db.close();
   const result: RunResult = {
@@ -65,6 +83,7 @@ async function child(dir: string, run: number): Promise<void> {
     added: r.added,
     seconds,
     cpuSeconds: (cpu.user + cpu.system) / 1e6,
+    mainCpuSeconds,
     rssMb: process.resourceUsage().maxRSS / 1024, // maxRSS is in kilobytes (Node docs, process.resourceUsage)
     loadBefore,
     loadAfter: os.loadavg()[0]!,
@@ -87,27 +106,32 @@ async function main(): Promise<void> {
       return `c${rng.int(CUSTOMERS)},i${item},${KINDS[i % KINDS.length]},1,${at}`;
     });
     const self = fileURLToPath(import.meta.url);
-    const runs: RunResult[] = [];
+    const runs = new Map<string, RunResult[]>(MODES.map((m) => [m, []]));
     for (let run = 0; run < RUNS; run++) {
-      const out = execFileSync(process.execPath, [...process.execArgv, self, 'child', dir, String(run)], { encoding: 'utf8' });
-      const r = JSON.parse(out) as RunResult;
-      runs.push(r);
+      for (const mode of MODES) {
+        const out = execFileSync(process.execPath, [...process.execArgv, self, 'child', dir, `${mode}${run}`, mode], { encoding: 'utf8' });
+        const r = JSON.parse(out) as RunResult;
+        runs.get(mode)!.push(r);
+        console.log(
+          `${mode} run ${run + 1}: ${r.rows} rows (${r.added} added) in ${r.seconds.toFixed(2)} s = ${Math.round(r.rows / r.seconds)} rows/s; ` +
+            `${r.cpuSeconds.toFixed(2)} CPU s (main thread ${r.mainCpuSeconds.toFixed(2)}) = ${Math.round(r.rows / r.cpuSeconds)} rows/CPU-s; ` +
+            `peak RSS ${r.rssMb.toFixed(0)} MB; load ${r.loadBefore.toFixed(1)} -> ${r.loadAfter.toFixed(1)}`,
+        );
+      }
+    }
+    for (const [mode, rs] of runs) {
+      const median = (f: (r: RunResult) => number) => rs.map(f).sort((a, b) => a - b)[Math.floor(rs.length / 2)]!;
       console.log(
-        `run ${run + 1}: ${r.rows} rows (${r.added} added) in ${r.seconds.toFixed(2)} s = ${Math.round(r.rows / r.seconds)} rows/s; ` +
-          `${r.cpuSeconds.toFixed(2)} CPU s = ${Math.round(r.rows / r.cpuSeconds)} rows/CPU-s; peak RSS ${r.rssMb.toFixed(0)} MB; ` +
-          `load ${r.loadBefore.toFixed(1)} -> ${r.loadAfter.toFixed(1)}`,
+        `${mode}, median of ${RUNS}: ${Math.round(median((r) => r.rows / r.seconds))} rows/s wall (target >= 200000), ` +
+          `${median((r) => r.cpuSeconds).toFixed(2)} CPU s (main thread ${median((r) => r.mainCpuSeconds).toFixed(2)}) = ` +
+          `${Math.round(median((r) => r.rows / r.cpuSeconds))} rows/CPU-s, peak RSS ${median((r) => r.rssMb).toFixed(0)} MB (target < 500), ` +
+          `load ${median((r) => r.loadAfter).toFixed(1)} on ${os.cpus().length} cores`,
       );
     }
-    const median = (f: (r: RunResult) => number) => runs.map(f).sort((a, b) => a - b)[Math.floor(runs.length / 2)]!;
-    console.log(
-      `median of ${RUNS}: ${Math.round(median((r) => r.rows / r.seconds))} rows/s wall (target >= 200000), ` +
-        `${median((r) => r.cpuSeconds).toFixed(2)} CPU s = ${Math.round(median((r) => r.rows / r.cpuSeconds))} rows/CPU-s, ` +
-        `peak RSS ${median((r) => r.rssMb).toFixed(0)} MB (target < 500), load ${median((r) => r.loadAfter).toFixed(1)} on ${os.cpus().length} cores`,
-    );
   } finally {
     fs.rmSync(dir, { recursive: true, force: true });
   }
 }
 
-if (process.argv[2] === 'child') await child(process.argv[3]!, Number(process.argv[4]));
+if (process.argv[2] === 'child') await child(process.argv[3]!, process.argv[4]!, process.argv[5]!);
 else await main();

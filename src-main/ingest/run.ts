@@ -1,3 +1,4 @@
+import fs from 'node:fs';
 import { BugError, InputError } from '../core/errors.ts';
 import { CatalogueWriter, logImport, type CustomerWrite, type ItemWrite, type SignalBatch } from '../store/catalogue-writes.ts';
 import type { Db } from '../store/workspace.ts';
@@ -5,6 +6,7 @@ import { planColumns, type ColumnPlan, type ImportTarget, type Mapping } from '.
 import { RejectLog, type RowError } from './rejects.ts';
 import { rowConverter, type Problem } from './rows.ts';
 import { readSignals, type SignalReadOptions } from './signal-read.ts';
+import { readSignalsInThread, signalWorkerAvailable } from './signal-thread.ts';
 import { formatOf, readSource, type ImportFormat } from './source.ts';
 import type { DateOrder } from './values.ts';
 
@@ -21,6 +23,11 @@ export interface RunOptions {
   acceptPartial?: boolean;
   /** Called every PROGRESS_EVERY rows while rows are being written. */
   onProgress?: (p: { rows: number }) => void;
+  /**
+   * Signals only: parse in a worker thread while this one writes (signal-thread.ts). Default: only for
+   * files of PIPELINE_MIN_BYTES or more. Both paths give identical tables and reports.
+   */
+  parseThread?: boolean;
 }
 
 export interface ImportReport {
@@ -46,6 +53,14 @@ export interface ImportReport {
 
 export { MAX_ERRORS, type RowError } from './rejects.ts';
 export const PROGRESS_EVERY = 10_000;
+/**
+ * Signal files from this size on are parsed in a worker thread (when `parseThread` is not given and the
+ * worker's file is there). Starting the thread under the TypeScript loader (tsx) costs ~0.85 CPU-s, so on
+ * small files it loses: 250,000 rows (11 MB) took 2.1 s vs 1.8 s in one thread; 600,000 rows (27 MB)
+ * 4.2 s vs 4.5-5.5 s; 1M rows (45 MB) 6.0 s vs 7.0 s (bench/import.bench.ts, load 1.5 on two cores,
+ * measured 2026-12-02). Under a saturated machine (load 5-6) the two paths tie.
+ */
+export const PIPELINE_MIN_BYTES = 32 << 20;
 
 /**
  * One import as ONE transaction. better-sqlite3's `transaction()` cannot span the awaits of a stream, so
@@ -145,6 +160,8 @@ async function readAndWrite(db: Db, o: RunOptions, format: ImportFormat): Promis
  * SIGNAL_BATCH rows, then counted once by `finishSignals`.
  */
 async function readAndWriteSignals(writer: CatalogueWriter, o: RunOptions, format: ImportFormat, report: ImportReport): Promise<ImportReport> {
+  const big = (fs.statSync(o.file, { throwIfNoEntry: false })?.size ?? 0) >= PIPELINE_MIN_BYTES;
+  const thread = o.parseThread ?? (big && signalWorkerAvailable());
   writer.startSignals();
   let nextProgress = PROGRESS_EVERY;
   const write = (b: SignalBatch) => {
@@ -159,7 +176,7 @@ async function readAndWriteSignals(writer: CatalogueWriter, o: RunOptions, forma
     ...(o.delimiter && { delimiter: o.delimiter }),
     ...(o.dateOrder && { dateOrder: o.dateOrder }),
   };
-  const r = await readSignals(options, writer.idMaps(), write);
+  const r = await (thread ? readSignalsInThread : readSignals)(options, writer.idMaps(), write);
   Object.assign(report, {
     rows: r.rows, rejected: r.rejected, errorCount: r.errorCount, errors: r.errors, mapping: r.mapping ?? {}, delimiter: r.delimiter ?? null,
   });

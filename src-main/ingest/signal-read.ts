@@ -29,11 +29,10 @@ export interface SignalReadResult {
 }
 
 /**
- * Reads, checks and resolves a signal file, handing each full batch of row ids to `emit` (the writer).
- * Parsing in a worker thread beside the inserts was tried and measured slower on the shared two-core
- * machine (1M rows: wall 11.9-14.1 s vs 9.4-12.6 s in this thread, CPU time no lower; measured 2026-12-02).
+ * Reads, checks and resolves a signal file, handing each full batch of row ids to `emit` (the writer, or
+ * the parsing thread's post to it: `transfer` then gives every batch arrays of its own, see SignalRows).
  */
-export async function readSignals(o: SignalReadOptions, ids: IdMaps, emit: (b: SignalBatch) => void): Promise<SignalReadResult> {
+export async function readSignals(o: SignalReadOptions, ids: IdMaps, emit: (b: SignalBatch) => void, transfer = false): Promise<SignalReadResult> {
   const rejects = new RejectLog(o.file);
   let rows: SignalRows | undefined;
   let early = 0; // broken rows before the header (JSON Lines)
@@ -45,7 +44,7 @@ export async function readSignals(o: SignalReadOptions, ids: IdMaps, emit: (b: S
       header(headers, delimiter) {
         const plan = planColumns(o.file, 'signals', headers, o.mapping);
         mapping = plan.mapping;
-        rows = new SignalRows({ plan, dateOrder: o.dateOrder, delimiter }, ids, o.createCustomers, rejects, emit);
+        rows = new SignalRows({ plan, dateOrder: o.dateOrder, delimiter }, ids, o.createCustomers, rejects, emit, transfer);
         rows.rows = early;
       },
       newColumn() {

@@ -10,6 +10,8 @@ const KIND_CODE = new Map<SignalKind, number>(SIGNAL_KINDS.map((k, i) => [k, i])
  * Signal rows from raw values straight into typed-array batches of row ids: the same checks, messages
  * and order as `rowConverter` for signals (rows.ts), then the item and customer lookups, with no object
  * per row. Full batches go to `emit`; `end()` emits the last one (always, so the final row count arrives).
+ * With `transfer` the emitted arrays are handed to another thread (their buffers detached), so each batch
+ * gets fresh arrays; without it one batch is reused, `emit` being done with it when it returns.
  */
 export class SignalRows {
   /** Data rows seen (rejected and broken ones included). */
@@ -22,13 +24,15 @@ export class SignalRows {
   readonly #rejects: RejectLog;
   readonly #emit: (b: SignalBatch) => void;
   readonly #problems: Problem[] = [];
-  readonly #batch: SignalBatch = newBatch();
+  readonly #transfer: boolean;
+  #batch: SignalBatch = newBatch();
   readonly #col: { customer: number; item: number; kind: number; value: number; at: number };
   readonly #value: (v: unknown) => number | Bad;
   readonly #at: (v: unknown) => number | Bad;
 
-  constructor(ctx: RowContext, ids: IdMaps, createCustomers: boolean, rejects: RejectLog, emit: (b: SignalBatch) => void) {
+  constructor(ctx: RowContext, ids: IdMaps, createCustomers: boolean, rejects: RejectLog, emit: (b: SignalBatch) => void, transfer = false) {
     this.#ctx = ctx;
+    this.#transfer = transfer;
     this.#ids = ids;
     this.#create = createCustomers;
     this.#rejects = rejects;
@@ -108,8 +112,12 @@ export class SignalRows {
   #send(): void {
     const b = this.#batch;
     b.rowsRead = this.rows;
-    this.#emit(b); // synchronous: the writer is done with the batch when this returns, so it is reused
-    b.n = 0;
+    this.#emit(b);
+    if (this.#transfer) {
+      this.#batch = newBatch();
+      return;
+    }
+    b.n = 0; // synchronous: the writer is done with the batch when `emit` returns, so it is reused
     b.newCustomers.externalIds.length = 0;
     b.newCustomers.ids.length = 0;
   }

@@ -1,18 +1,20 @@
 /**
  * Child process of crash.test.ts: imports a large signals file into an existing workspace and prints
  * "inserting" once rows are being written, so the parent can SIGKILL it mid-transaction.
- * Usage: npx tsx test/ingest/crash-child.ts <workspace> <signals.csv>
+ * Usage: npx tsx test/ingest/crash-child.ts <workspace> <signals.csv> [single|thread]
+ * (the signal path: parsing in this thread or in a worker thread; default: chosen by file size).
  */
-import { importFile } from '../../src-main/services/import.ts';
+import { runImport } from '../../src-main/ingest/run.ts';
 import { openWorkspace } from '../../src-main/store/workspace.ts';
 
-const [workspace, file] = process.argv.slice(2);
-if (!workspace || !file) throw new Error('usage: crash-child.ts <workspace> <signals.csv>');
+const [workspace, file, mode] = process.argv.slice(2);
+if (!workspace || !file) throw new Error('usage: crash-child.ts <workspace> <signals.csv> [single|thread]');
 const db = openWorkspace(workspace);
 let announced = false;
-importFile(db, {
+runImport(db, {
   target: 'signals',
   file,
+  ...(mode && { parseThread: mode === 'thread' }),
   onProgress: () => {
     if (!announced) process.stdout.write('inserting\n');
     announced = true;

@@ -16,8 +16,8 @@ const dir = tempDir('shelfwright-crash-');
 afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 
 describe('an import killed mid-transaction', () => {
-  it('leaves exactly the earlier contents and an intact file', async () => {
-    const file = path.join(dir, 'crash.shelf');
+  it.each(['single', 'thread'])('leaves exactly the earlier contents and an intact file (parsing: %s)', async (mode) => {
+    const file = path.join(dir, `crash-${mode}.shelf`);
     const db = openWorkspace(file);
     await importFile(db, { target: 'items', file: write(dir, 'items.csv', ITEMS_CSV) });
     await importFile(db, { target: 'customers', file: write(dir, 'customers.csv', CUSTOMERS_CSV) });
@@ -27,9 +27,9 @@ describe('an import killed mid-transaction', () => {
 
     const rows: string[] = ['customer,item,kind,value,at'];
     for (let i = 0; i < 400_000; i++) rows.push(`r${1 + (i % 2)},b${1 + (i % 3)},view,1,${1_600_000_000 + i}`);
-    const big = write(dir, 'big.csv', rows.join('\n') + '\n');
+    const big = write(dir, `big-${mode}.csv`, rows.join('\n') + '\n');
 
-    const child = spawn('npx', ['tsx', path.join('test', 'ingest', 'crash-child.ts'), file, big], {
+    const child = spawn('npx', ['tsx', path.join('test', 'ingest', 'crash-child.ts'), file, big, mode], {
       cwd: process.cwd(),
       stdio: ['ignore', 'pipe', 'pipe'],
       detached: true, // its own process group, so the kill below reaches node under npx and tsx

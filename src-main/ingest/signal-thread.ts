@@ -3,7 +3,7 @@ import { fileURLToPath } from 'node:url';
 import { BugError, InputError, type Where } from '../core/errors.ts';
 import type { IdMaps, SignalBatch } from '../store/catalogue-writes.ts';
 import type { SignalReadOptions, SignalReadResult } from './signal-read.ts';
-import { spawnWorker } from './spawn-worker.ts';
+import { siblingModule, spawnWorker } from './spawn-worker.ts';
 
 /**
  * Signal import as a two-stage pipeline: a worker thread parses, checks and resolves rows into typed-array
@@ -36,7 +36,7 @@ export type SignalThreadMessage =
  * it under that name, as the train workers are: shell/electron/vite.electron.config.ts WORKERS).
  */
 export function signalWorkerUrl(): URL {
-  return new URL(import.meta.url.endsWith('.ts') ? './signal-worker.ts' : './signal-worker.js', import.meta.url);
+  return siblingModule(import.meta.url, 'signal-worker');
 }
 
 /** Whether the parsing thread can start here (a build that lacks the worker's file cannot). */

@@ -27,3 +27,8 @@ export function spawnWorker(url: URL, options: WorkerOptions = {}): Worker {
   }
   return new Worker(url, options);
 }
+
+/** A sibling module's URL: `<name>.ts` under tsx and vitest, `<name>.js` beside a built bundle. */
+export function siblingModule(base: string, name: string): URL {
+  return new URL(base.endsWith('.ts') ? `./${name}.ts` : `./${name}.js`, base);
+}

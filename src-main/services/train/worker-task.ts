@@ -61,7 +61,4 @@ export function runWorkerTask<P, D extends object, T>(
   return { done, stop: () => stop() };
 }
 
-/** A sibling module's URL, .ts under tsx and vitest, .js when built. */
-export function siblingModule(base: string, name: string): URL {
-  return new URL(base.endsWith('.ts') ? `./${name}.ts` : `./${name}.js`, base);
-}
+export { siblingModule } from '../../ingest/spawn-worker.ts';

@@ -16,6 +16,7 @@ export const WORKERS: Record<string, string> = {
   'ials-worker': 'src-main/services/train/ials-worker.ts',
   'ease-worker': 'src-main/services/train/ease-worker.ts',
   'offline-worker': 'src-main/services/tune/offline-worker.ts',
+  'signal-worker': 'src-main/ingest/signal-worker.ts',
 };
 
 const external = ['electron', 'better-sqlite3', ...builtinModules, ...builtinModules.map((m) => `node:${m}`)];

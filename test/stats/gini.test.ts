@@ -28,7 +28,9 @@ describe('gini', () => {
 
   it('matches the double-sum definition on random inputs', () => {
     fc.assert(
-      fc.property(fc.array(fc.double({ min: 0, max: 100, noNaN: true }), { minLength: 1, maxLength: 30 }), (x) => {
+      // Exposure-like values in hundredths: subnormal doubles (e.g. 5e-324) make both formulas round to
+      // different nonsense, which says nothing about the Gini coefficient.
+      fc.property(fc.array(fc.integer({ min: 0, max: 10_000 }).map((v) => v / 100), { minLength: 1, maxLength: 30 }), (x) => {
         const total = x.reduce((a, b) => a + b, 0);
         if (total === 0) return Number.isNaN(gini(x));
         return Math.abs(gini(x) - giniByDefinition(x)) < 1e-9;

@@ -90,7 +90,7 @@ export class SignalRows {
     let customerId = this.#ids.customers.get(customer);
     if (customerId === undefined) {
       if (!this.#create) {
-        const reason = `customer: unknown customer '${customer}'; import customers first or allow creating them (unknown: create)`;
+        const reason = `customer: unknown customer '${customer}'; import customers first, or let the import create them (--create-customers on the command line)`;
         this.#rejects.add(line, columnLabel(this.#ctx, this.#col.customer), reason);
         return;
       }

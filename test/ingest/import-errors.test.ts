@@ -74,6 +74,8 @@ describe('rows that fail: the whole import changes nothing and each row is named
   it('an unknown customer is rejected by default', async () => {
     const { r } = await rejected('signals', 'customer,item,kind\nstranger,b1,view\n');
     expect(r.errors[0]!.reason).toMatch(/unknown customer 'stranger'/);
+    // The message says what to do, in the words of the command line the user typed.
+    expect(r.errors[0]!.reason).toMatch(/import customers first, or let the import create them \(--create-customers/);
   });
   it('reports the first 100 errors and counts them all', async () => {
     const rows = Array.from({ length: 150 }, (_, i) => `x${i},T,-1`).join('\n');

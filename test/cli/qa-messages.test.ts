@@ -2,13 +2,11 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { generateDemoShop } from '../../demo-data/generator/index.ts';
-import { AppContext } from '../../src-main/services/context.ts';
-import { importFile } from '../../src-main/services/import.ts';
 import { describeApiError } from '../../src-main/shell/cli/call.ts';
 import { table } from '../../src-main/shell/cli/format.ts';
 import { main } from '../../src-main/shell/cli/main.ts';
 import { capture } from './capture.ts';
+import { importSmallShop } from './small-shop.ts';
 
 /**
  * What a new user reads after a mistake: one plain line naming the field once, and the right exit code
@@ -20,13 +18,7 @@ const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-cli-qa-msg-'));
 const ws = path.join(dir, 'shop.sqlite');
 afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 
-beforeAll(async () => {
-  const shop = await generateDemoShop({ seed: 5, items: 120, customers: 400, signals: 5000, outDir: path.join(dir, 'shop') });
-  const ctx = new AppContext();
-  ctx.open(ws, { create: true });
-  for (const target of ['items', 'customers', 'signals'] as const) await importFile(ctx.db, { target, file: shop.files[target] });
-  ctx.close();
-}, 30_000);
+beforeAll(() => importSmallShop(ws, path.join(dir, 'shop'), 5), 30_000);
 
 async function run(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
   const io = capture();

@@ -28,26 +28,15 @@ const external = ['electron', 'better-sqlite3', ...builtinModules, ...builtinMod
  * Run: vite build --config src-main/shell/electron/vite.electron.config.ts --mode main|preload|workers
  */
 export default defineConfig(({ mode }) => {
-  if (mode === 'workers') {
-    return {
-      root,
-      publicDir: false,
-      build: {
-        outDir: path.join(root, 'dist-electron'),
-        emptyOutDir: false,
-        target: 'node22',
-        minify: false,
-        sourcemap: false,
-        lib: {
-          entry: Object.fromEntries(Object.entries(WORKERS).map(([name, file]) => [name, path.join(root, file)])),
-          formats: ['es'],
-          fileName: (_format: string, name: string) => `${name}.js`,
-        },
-        rollupOptions: { external },
-      },
-    };
-  }
   const entry = mode === 'preload' ? 'preload' : 'main';
+  const lib =
+    mode === 'workers'
+      ? {
+          entry: Object.fromEntries(Object.entries(WORKERS).map(([name, file]) => [name, path.join(root, file)])),
+          formats: ['es' as const],
+          fileName: (_format: string, name: string) => `${name}.js`,
+        }
+      : { entry: path.join(here, `${entry}.ts`), formats: ['cjs' as const], fileName: () => `${entry}.cjs` };
   return {
     root,
     publicDir: false,
@@ -57,7 +46,7 @@ export default defineConfig(({ mode }) => {
       target: 'node22',
       minify: false,
       sourcemap: false,
-      lib: { entry: path.join(here, `${entry}.ts`), formats: ['cjs'], fileName: () => `${entry}.cjs` },
+      lib,
       rollupOptions: { external },
     },
   };

@@ -35,7 +35,7 @@ export function seedSmallShop(db: Db): void {
     SHOP.titles.forEach((t, i) => item.run(`i-${i + 1}`, t, categories[i % 4], suppliers[i % 3], i === 1 || i === 6 ? 1 : 0, t0 + i * day));
     const customer = db.prepare('INSERT INTO customer (external_id) VALUES (?)');
     for (let c = 1; c <= SHOP.customers; c++) customer.run(`c-${c}`);
-    const signal = db.prepare('INSERT INTO signal (customer_id, item_id, kind, at) VALUES (?, ?, ?, ?)');
+    const signal = db.prepare('INSERT INTO signal (customer_id, item_id, kind, at) VALUES (?, ?, (SELECT code FROM signal_kind WHERE name = ?), ?)');
     for (let k = 0; k < SHOP.signals; k++) signal.run((k % 6) + 1, ((k * 5) % 12) + 1, k % 3 === 0 ? 'purchase' : 'view', t0 + (20 + k) * day);
   })();
 }

@@ -82,13 +82,13 @@ export class SignalRows {
 
   #resolve(customer: string, item: string, k: SignalKind, value: number, at: number, line: number): void {
     const itemId = this.#ids.items.get(item);
-    if (itemId === undefined) {
+    if (itemId < 0) {
       this.#rejects.add(line, columnLabel(this.#ctx, this.#col.item), `item: unknown item '${item}'; signals never create items, import the catalogue first`);
       return;
     }
     const b = this.#batch;
     let customerId = this.#ids.customers.get(customer);
-    if (customerId === undefined) {
+    if (customerId < 0) {
       if (!this.#create) {
         const reason = `customer: unknown customer '${customer}'; import customers first, or let the import create them (--create-customers on the command line)`;
         this.#rejects.add(line, columnLabel(this.#ctx, this.#col.customer), reason);

@@ -45,8 +45,6 @@ export function signalWorkerAvailable(): boolean {
   return url.protocol !== 'file:' || fs.existsSync(fileURLToPath(url));
 }
 
-const plain = (m: Map<string, number>) => ({ keys: [...m.keys()], ids: [...m.values()] });
-
 /**
  * `readSignals` with the parsing in a worker thread. `emit` runs here, once per batch, in file order; if
  * it throws, the worker is stopped and the promise rejects with that error. `ids.nextCustomerId` and
@@ -56,8 +54,8 @@ export function readSignalsInThread(o: SignalReadOptions, ids: IdMaps, emit: (b:
   const unwritten = new Int32Array(new SharedArrayBuffer(4));
   const data: SignalThreadData = {
     options: o,
-    items: plain(ids.items),
-    customers: plain(ids.customers),
+    items: ids.items.entries(),
+    customers: ids.customers.entries(),
     nextCustomerId: ids.nextCustomerId,
     unwritten: unwritten.buffer as SharedArrayBuffer,
   };

@@ -1,5 +1,6 @@
 import { parentPort, workerData } from 'node:worker_threads';
 import { InputError } from '../core/errors.ts';
+import { StringIdTable } from '../core/util/string-id-table.ts';
 import type { IdMaps, SignalBatch } from '../store/catalogue-writes.ts';
 import { readSignals } from './signal-read.ts';
 import { AHEAD, type SignalThreadData, type SignalThreadMessage } from './signal-thread.ts';
@@ -14,8 +15,8 @@ const port = parentPort!;
 const post = (m: SignalThreadMessage, transfer: ArrayBuffer[] = []) => port.postMessage(m, transfer);
 
 const ids: IdMaps = {
-  items: new Map(data.items.keys.map((k, i) => [k, data.items.ids[i]!])),
-  customers: new Map(data.customers.keys.map((k, i) => [k, data.customers.ids[i]!])),
+  items: StringIdTable.from(data.items.keys, data.items.ids),
+  customers: StringIdTable.from(data.customers.keys, data.customers.ids),
   nextCustomerId: data.nextCustomerId,
 };
 const unwritten = new Int32Array(data.unwritten);

@@ -1,11 +1,12 @@
 import type Database from 'better-sqlite3';
-import { SIGNAL_KINDS, type AttributeValue, type SignalKind } from '../core/types.ts';
+import type { AttributeValue, SignalKind } from '../core/types.ts';
+import { StringIdTable } from '../core/util/string-id-table.ts';
 import type { Db } from './workspace.ts';
 
 /**
  * Bulk writes of the catalogue, customers and signals for the importer. The caller owns the transaction;
  * everything here is synchronous and uses statements prepared once. External id -> row id maps live in
- * memory so a signal row costs two Map lookups and one INSERT, never a SELECT.
+ * memory (StringIdTable) so a signal row costs two lookups and a share of one INSERT, never a SELECT.
  */
 export interface ItemWrite {
   externalId: string;
@@ -42,7 +43,7 @@ export interface SignalBatch {
   n: number;
   customer: Float64Array;
   item: Float64Array;
-  /** Index into SIGNAL_KINDS. */
+  /** The kind's code: its index in SIGNAL_KINDS, as stored (migration 004). */
   kind: Uint8Array;
   value: Float64Array;
   /** Unix ms; NaN = no time (stored as NULL). */
@@ -55,8 +56,8 @@ export interface SignalBatch {
 
 /** External id -> row id for the catalogue and the customers, and the row id the next new customer gets. */
 export interface IdMaps {
-  items: Map<string, number>;
-  customers: Map<string, number>;
+  items: StringIdTable;
+  customers: StringIdTable;
   nextCustomerId: number;
 }
 
@@ -83,13 +84,10 @@ const ITEM_COLUMNS: readonly [keyof ItemWrite, string, (v: never) => unknown][] 
   ['attributes', 'attributes', (v: Record<string, AttributeValue>) => JSON.stringify(v)],
 ];
 
-/** Secondary signal indexes rebuilt after a bulk load (their definitions as in migration 001). */
-const SIGNAL_INDEXES = [
-  'CREATE UNIQUE INDEX signal_identity ON signal(customer_id, item_id, kind, ifnull(at, -1))',
-  'CREATE INDEX signal_item ON signal(item_id)',
-  'CREATE INDEX signal_at ON signal(at)',
-];
-const SIGNAL_KEY = 'customer_id, item_id, kind, ifnull(at, -1)';
+/** A signal's identity, as the unique index of migration 004 lists it (an upsert must name it exactly). */
+const SIGNAL_KEY = 'item_id, customer_id, kind, ifnull(at, -1)';
+/** The only signal index, dropped before a bulk load and rebuilt after it. */
+const SIGNAL_INDEX = `CREATE UNIQUE INDEX signal_identity ON signal(${SIGNAL_KEY})`;
 /**
  * Rows per multi-row INSERT: 5 parameters a row stays under SQLite's 32,766 bound parameters
  * (sqlite.org/limits.html, SQLITE_MAX_VARIABLE_NUMBER since 3.32.0).
@@ -98,8 +96,8 @@ export const SIGNAL_BATCH = 6_000;
 
 export class CatalogueWriter {
   readonly #db: Db;
-  readonly #itemIds = new Map<string, number>();
-  readonly #customerIds = new Map<string, number>();
+  readonly #itemIds = new StringIdTable();
+  readonly #customerIds = new StringIdTable();
   readonly #itemStatements = new Map<string, { sql: Stmt; binders: ((v: never) => unknown)[]; keys: (keyof ItemWrite)[] }>();
   #customerInsert: Stmt | undefined;
   #customerUpsert: Stmt | undefined;
@@ -182,20 +180,15 @@ export class CatalogueWriter {
   }
 
   /**
-   * Call once before the first signal. On an empty signal table the indexes are dropped and rebuilt by
-   * `finishSignals` (inside the caller's transaction, so a rollback restores them): building a B-tree from
-   * sorted data beats a million random inserts into three of them (SQLite docs, "CREATE INDEX" builds by
-   * sorting; measured 2-3x faster here on 1M rows).
+   * Call once before the first signal. On an empty signal table the identity index is dropped and rebuilt
+   * by `finishSignals` (inside the caller's transaction, so a rollback restores it): building a B-tree from
+   * sorted data beats a million random inserts into it (SQLite docs, "CREATE INDEX" builds by sorting;
+   * 1M rows: 0.9 s to build after vs 8 s kept up to date, measured 2026-12-02).
    */
   startSignals(): void {
     this.#signalsBefore = this.#db.prepare('SELECT count(*) FROM signal').pluck().get() as number;
     this.#bulk = this.#signalsBefore === 0;
-    if (this.#bulk) {
-      // All three dropped even when reading runs in another thread: keeping signal_item and signal_at up to
-      // date during the load measured slower there too (1M rows, main thread 7.0-9.0 CPU-s vs 3.9;
-      // measured 2026-12-02).
-      this.#db.exec('DROP INDEX IF EXISTS signal_identity; DROP INDEX IF EXISTS signal_item; DROP INDEX IF EXISTS signal_at;');
-    }
+    if (this.#bulk) this.#db.exec('DROP INDEX IF EXISTS signal_identity');
     // Rows go out SIGNAL_BATCH at a time in one multi-row INSERT: one statement step per batch instead of per
     // row cut the binding overhead ~2x (measured). Rows in one VALUES list are applied in order, so a
     // repeated identity later in the batch still upserts over the earlier one.
@@ -238,7 +231,7 @@ export class CatalogueWriter {
       for (let r = start, j = 0; r < start + n; r++, j += 5) {
         p[j] = b.customer[r];
         p[j + 1] = b.item[r];
-        p[j + 2] = SIGNAL_KINDS[b.kind[r]!];
+        p[j + 2] = b.kind[r];
         p[j + 3] = b.value[r];
         const at = b.at[r]!;
         p[j + 4] = at === at ? at : null; // NaN marks a missing time
@@ -248,30 +241,37 @@ export class CatalogueWriter {
   }
 
   /**
-   * Rebuilds dropped indexes and splits the written rows into added / updated / unchanged, counting rows
-   * before and after instead of asking per row. In bulk mode a repeated identity within the file keeps its
+   * Rebuilds the dropped index and splits the written rows into added / updated / unchanged, from the
+   * statements' change counts instead of asking per row. In bulk mode a repeated identity within the file keeps its
    * last row (the file's order is the row id order); a repeat counts as updated when its value differs from
    * the repeat before it, as the upsert path would count it.
    */
   finishSignals(validRows: number): SignalCounts {
-    let updated = 0;
+    let added: number;
+    let updated: number;
     if (this.#bulk) {
       // No sorter helper threads (PRAGMA threads), no bigger cache_size, no temp_store = MEMORY: each made
-      // the three builds slower in wall and CPU time on the shared two-core machine (1M rows; threads 1-2:
+      // the index builds slower in wall and CPU time on the shared two-core machine (1M rows; threads 1-2:
       // 3.1-4.3 s vs 2.5-3.6 s; cache_size 64 MB or temp_store MEMORY: 4.7-8.7 s; measured 2026-12-02).
-      updated = this.#rebuildIndexes();
+      const r = this.#rebuildIndex();
+      added = this.#signalChanges - r.removed; // every row was inserted; in-file repeats then removed
+      updated = r.updated;
+    } else {
+      added = (this.#db.prepare('SELECT count(*) FROM signal').pluck().get() as number) - this.#signalsBefore;
+      updated = this.#signalChanges - added;
     }
-    const after = this.#db.prepare('SELECT count(*) FROM signal').pluck().get() as number;
-    const added = after - this.#signalsBefore;
-    if (!this.#bulk) updated = this.#signalChanges - added;
     return { added, updated, unchanged: validRows - added - updated, customersCreated: this.#customersCreated };
   }
 
-  /** Builds the signal indexes after a bulk load; returns how many in-file repeats changed a value. */
-  #rebuildIndexes(): number {
+  /**
+   * Builds the identity index after a bulk load. Returns how many in-file repeats were removed (all but
+   * the last of each identity) and how many of those repeats changed a value.
+   */
+  #rebuildIndex(): { removed: number; updated: number } {
     let updated = 0;
+    let removed = 0;
     try {
-      this.#db.exec(SIGNAL_INDEXES[0]!);
+      this.#db.exec(SIGNAL_INDEX);
     } catch (e) {
       if ((e as { code?: string }).code !== 'SQLITE_CONSTRAINT_UNIQUE') throw e;
       updated = this.#db
@@ -281,11 +281,10 @@ export class CatalogueWriter {
         )
         .pluck()
         .get() as number;
-      this.#db.exec(`DELETE FROM signal WHERE id NOT IN (SELECT max(id) FROM signal GROUP BY ${SIGNAL_KEY})`);
-      this.#db.exec(SIGNAL_INDEXES[0]!);
+      removed = this.#db.prepare(`DELETE FROM signal WHERE id NOT IN (SELECT max(id) FROM signal GROUP BY ${SIGNAL_KEY})`).run().changes;
+      this.#db.exec(SIGNAL_INDEX);
     }
-    for (const sql of SIGNAL_INDEXES.slice(1)) this.#db.exec(sql);
-    return updated;
+    return { removed, updated };
   }
 }
 

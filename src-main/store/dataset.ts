@@ -1,4 +1,4 @@
-import { SIGNAL_KIND_CODE, type Dataset, type SignalKind } from '../core/types.ts';
+import type { Dataset } from '../core/types.ts';
 import { ItemRepo } from './items.ts';
 import type { Db } from './workspace.ts';
 
@@ -30,10 +30,10 @@ export function loadDataset(db: Db): Dataset {
   const at = new Float64Array(n);
   const stmt = db.prepare('SELECT customer_id, item_id, kind, value, at FROM signal ORDER BY id').raw();
   let k = 0;
-  for (const row of stmt.iterate() as IterableIterator<[number, number, SignalKind, number, number | null]>) {
+  for (const row of stmt.iterate() as IterableIterator<[number, number, number, number, number | null]>) {
     customer[k] = customerIndex.get(row[0])!;
     item[k] = itemIndex.get(row[1])!;
-    kind[k] = SIGNAL_KIND_CODE[row[2]];
+    kind[k] = row[2]; // stored as the SIGNAL_KINDS code (migration 004)
     value[k] = row[3];
     at[k] = row[4] ?? Number.NaN;
     k++;

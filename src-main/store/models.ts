@@ -1,3 +1,4 @@
+import { SIGNAL_KINDS } from '../core/types.ts';
 import type { ModelKind } from '../core/models/scorer.ts';
 import type { Db } from './workspace.ts';
 
@@ -142,6 +143,12 @@ export class ModelRepo {
  *   leaves every sum equal (two signals swapping times) would not, which we accept for a one-scan check.
  * Cost: one scan of the item table and one aggregate over the signal table (tens of ms on the demo shop).
  */
+/**
+ * The kind term of the fingerprint: length(name) * 128 + unicode(name) of the kind's name, as computed
+ * when kinds were stored as text (before migration 004), so models trained before that step stay current.
+ */
+const KIND_TERM = `CASE kind ${SIGNAL_KINDS.map((k, code) => `WHEN ${code} THEN ${k.length * 128 + k.codePointAt(0)!}`).join(' ')} END`;
+
 export function dataFingerprint(db: Db): string {
   let h = FNV_OFFSET;
   const items = db.prepare('SELECT * FROM item ORDER BY id').raw();
@@ -155,7 +162,7 @@ export function dataFingerprint(db: Db): string {
     .prepare(
       `SELECT count(*) AS n, ifnull(max(id), 0) AS maxId, total(at) AS at, total(value) AS value,
               total((customer_id * 1000003 + item_id) % 2147483647) AS pairs,
-              total(length(kind) * 128 + unicode(kind)) AS kinds
+              total(${KIND_TERM}) AS kinds
        FROM signal`,
     )
     .get() as { n: number; maxId: number; at: number; value: number; pairs: number; kinds: number };

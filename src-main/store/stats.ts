@@ -35,7 +35,8 @@ export function workspaceStats(db: Db): WorkspaceStats {
   const signals = one<number>('SELECT count(*) FROM signal');
   const range = db.prepare('SELECT min(at) AS lo, max(at) AS hi FROM signal').get() as { lo: number | null; hi: number | null };
   const byKind: Partial<Record<SignalKind, number>> = {};
-  for (const r of db.prepare('SELECT kind, count(*) AS n FROM signal GROUP BY kind ORDER BY kind').all() as { kind: SignalKind; n: number }[]) {
+  const byKindSql = 'SELECT k.name AS kind, n FROM (SELECT kind, count(*) AS n FROM signal GROUP BY kind) JOIN signal_kind k ON k.code = kind ORDER BY k.name';
+  for (const r of db.prepare(byKindSql).all() as { kind: SignalKind; n: number }[]) {
     byKind[r.kind] = r.n;
   }
   return {
@@ -58,6 +59,7 @@ export function workspaceStats(db: Db): WorkspaceStats {
       )
       .all(TOP_CATEGORIES) as { category: string; signals: number }[],
     longTailShare: longTailShare(db, items, signals),
+    // Leads with item_id, so the identity index answers this by item (migration 004).
     coldItems: one<number>('SELECT count(*) FROM item WHERE NOT EXISTS (SELECT 1 FROM signal s WHERE s.item_id = item.id)'),
     lastImportAt: one<number | null>('SELECT max(at) FROM import_log'),
   };

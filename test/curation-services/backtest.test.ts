@@ -62,7 +62,7 @@ describe('backtest', () => {
     const members = db
       .prepare(
         `SELECT count(DISTINCT s.customer_id) FROM signal s JOIN item i ON i.id = s.item_id
-         WHERE i.category = 'teapots' AND s.kind = 'purchase' AND s.at >= ? AND s.at < ?
+         WHERE i.category = 'teapots' AND s.kind = (SELECT code FROM signal_kind WHERE name = 'purchase') AND s.at >= ? AND s.at < ?
            AND s.customer_id IN (SELECT customer_id FROM signal WHERE at >= ? AND at < ?)`,
       )
       .pluck()

@@ -39,7 +39,7 @@ export function seedWorkspace(db: Db, seed = 3): void {
       item.run(i, `SKU-${String(i).padStart(3, '0')}`, `${cat.slice(0, -1)} no. ${i}`, cat, tags, SUPPLIERS[i % 5]!, 5 + i, END - (i * 3 + 1) * DAY, i % 5 === 0 ? 1 : 0);
     }
     const customer = db.prepare('INSERT INTO customer (id, external_id) VALUES (?, ?)');
-    const signal = db.prepare('INSERT OR IGNORE INTO signal (customer_id, item_id, kind, value, at) VALUES (?, ?, ?, 1, ?)');
+    const signal = db.prepare('INSERT OR IGNORE INTO signal (customer_id, item_id, kind, value, at) VALUES (?, ?, (SELECT code FROM signal_kind WHERE name = ?), 1, ?)');
     for (let u = 1; u <= 30; u++) {
       customer.run(u, `C-${u}`);
       const camp = u % 3; // camp c prefers category c

@@ -23,7 +23,7 @@ const KINDS = ['view', 'purchase', 'rating', 'click'];
 const row = (i: number, value = 1 + (i % 5)) => `r${1 + (i % 2)},b${i % 50},${KINDS[i % 4]},${value},${1_700_000_000 + i}`;
 const file = (name: string, rows: string[]) => write(dir, name, 'customer,item,kind,value,at\n' + rows.join('\n') + '\n');
 const stored = (db: ReturnType<typeof freshWorkspace>) =>
-  db.prepare('SELECT c.external_id AS c, i.external_id AS i, s.kind, s.value, s.at FROM signal s JOIN customer c ON c.id = s.customer_id JOIN item i ON i.id = s.item_id ORDER BY s.at').raw().all() as unknown[][];
+  db.prepare('SELECT c.external_id AS c, i.external_id AS i, k.name AS kind, s.value, s.at FROM signal s JOIN signal_kind k ON k.code = s.kind JOIN customer c ON c.id = s.customer_id JOIN item i ON i.id = s.item_id ORDER BY s.at').raw().all() as unknown[][];
 
 describe('signal import across several batches', () => {
   it('bulk load, then an upsert into the non-empty table reports added / updated / unchanged exactly', async () => {

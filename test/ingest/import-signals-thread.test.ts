@@ -1,6 +1,7 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import fs from 'node:fs';
 import { InputError } from '../../src-main/core/errors.ts';
+import { StringIdTable } from '../../src-main/core/util/string-id-table.ts';
 import { importFile } from '../../src-main/services/import.ts';
 import { MAX_ERRORS, runImport, type ImportReport, type RunOptions } from '../../src-main/ingest/run.ts';
 import { readSignalsInThread } from '../../src-main/ingest/signal-thread.ts';
@@ -147,7 +148,11 @@ describe('signal import with parsing in a worker thread', () => {
 
   it('a write that fails stops the parsing thread and rejects with that error, after the batches before it', async () => {
     const f = file('stop.csv', Array.from({ length: 5 * SIGNAL_BATCH }, (_, i) => row(i)));
-    const ids = { items: new Map(Array.from({ length: 60 }, (_, i) => [`b${i}`, i + 1])), customers: new Map([['r1', 1], ['r2', 2]]), nextCustomerId: 3 };
+    const ids = {
+      items: StringIdTable.from(Array.from({ length: 60 }, (_, i) => `b${i}`), Array.from({ length: 60 }, (_, i) => i + 1)),
+      customers: StringIdTable.from(['r1', 'r2'], [1, 2]),
+      nextCustomerId: 3,
+    };
     const seen: number[] = [];
     const failure = new Error('disk full (simulated)');
     const e = await readSignalsInThread({ file: f, format: 'csv', createCustomers: false }, ids, (b) => {

@@ -15,7 +15,7 @@ async function catalogue() {
 }
 const signals = (db: ReturnType<typeof freshWorkspace>) =>
   db.prepare(
-    'SELECT c.external_id AS customer, i.external_id AS item, s.kind, s.value, s.at FROM signal s ' +
+    'SELECT c.external_id AS customer, i.external_id AS item, k.name AS kind, s.value, s.at FROM signal s JOIN signal_kind k ON k.code = s.kind ' +
       'JOIN customer c ON c.id = s.customer_id JOIN item i ON i.id = s.item_id ORDER BY customer, item, kind, at',
   ).all();
 
@@ -31,9 +31,9 @@ describe('importFile: signals', () => {
       { customer: 'r2', item: 'b3', kind: 'read', value: 1, at: null },
     ]);
     expect(loadDataset(db).signals.length).toBe(4);
-    // The indexes dropped for the bulk load of an empty table are all back, with the migration's definitions.
-    const idx = db.prepare("SELECT name FROM sqlite_master WHERE type = 'index' AND tbl_name = 'signal' ORDER BY name").pluck().all();
-    expect(idx).toEqual(['signal_at', 'signal_identity', 'signal_item']);
+    // The index dropped for the bulk load of an empty table is back, with the migration's definition.
+    const idx = db.prepare("SELECT sql FROM sqlite_master WHERE type = 'index' AND tbl_name = 'signal' ORDER BY name").pluck().all();
+    expect(idx).toEqual(['CREATE UNIQUE INDEX signal_identity ON signal(item_id, customer_id, kind, ifnull(at, -1))']);
   });
 
   it('importing the same file twice: 0 added, 0 updated, N unchanged, same state', async () => {

@@ -23,9 +23,11 @@ describe('workspace schema versions', () => {
     const now = openWorkspace(file);
     expect(userVersion(now)).toBe(MIGRATIONS.length);
     expect(now.prepare('SELECT external_id, title, tags FROM item').all()).toEqual([{ external_id: 'b1', title: 'Moss Lantern', tags: '["night"]' }]);
-    expect(now.prepare('SELECT customer_id, item_id, kind, value, at FROM signal').all()).toEqual([
-      { customer_id: 1, item_id: 1, kind: 'view', value: 1, at: 1_773_480_413_000 },
+    // Migration 004 stores the kind as a code named in signal_kind, and keeps the row id.
+    expect(now.prepare('SELECT s.id, customer_id, item_id, k.name AS kind, value, at FROM signal s JOIN signal_kind k ON k.code = s.kind').all()).toEqual([
+      { id: 1, customer_id: 1, item_id: 1, kind: 'view', value: 1, at: 1_773_480_413_000 },
     ]);
+    expect(now.prepare("SELECT name FROM sqlite_master WHERE type = 'index' AND tbl_name = 'signal'").pluck().all()).toEqual(['signal_identity']);
     expect(now.pragma('integrity_check', { simple: true })).toBe('ok');
     now.close();
   });

@@ -23,7 +23,7 @@ export function smallWorkspace(opts: { items?: number; customers?: number; seed?
       item.run(i, `it-${i}`, `${cat} thing ${i}`, `a sturdy ${cat} thing, model ${i}`, cat, JSON.stringify([cat, `t${i % 5}`]), `maker-${i % 4}`, 5 + i, 1_700_000_000_000 + i * 86_400_000);
     }
     const cust = db.prepare('INSERT INTO customer (id, external_id) VALUES (?, ?)');
-    const sig = db.prepare('INSERT OR IGNORE INTO signal (customer_id, item_id, kind, value, at) VALUES (?, ?, ?, 1, ?)');
+    const sig = db.prepare('INSERT OR IGNORE INTO signal (customer_id, item_id, kind, value, at) VALUES (?, ?, (SELECT code FROM signal_kind WHERE name = ?), 1, ?)');
     for (let c = 1; c <= customers; c++) {
       cust.run(c, `cu-${c}`);
       const home = c % 3;

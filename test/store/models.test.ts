@@ -70,7 +70,7 @@ describe('dataFingerprint and modelStatus', () => {
     const { db } = workspace();
     const f0 = dataFingerprint(db);
     expect(dataFingerprint(db)).toBe(f0);
-    db.prepare("INSERT INTO signal (customer_id, item_id, kind, value, at) VALUES (1, 2, 'click', 1, 5)").run();
+    db.prepare("INSERT INTO signal (customer_id, item_id, kind, value, at) VALUES (1, 2, (SELECT code FROM signal_kind WHERE name = 'click'), 1, 5)").run();
     const f1 = dataFingerprint(db);
     expect(f1).not.toBe(f0);
     db.prepare('UPDATE signal SET value = 2 WHERE at = 5').run();
@@ -87,7 +87,7 @@ describe('dataFingerprint and modelStatus', () => {
     const { db } = workspace();
     new ModelRepo(db).saveAll([record('ials', dataFingerprint(db)), record('content', dataFingerprint(db))]);
     expect(modelStatus(db).map((m) => [m.kind, m.stale])).toEqual([['content', false], ['ials', false]]);
-    db.prepare("INSERT INTO signal (customer_id, item_id, kind, value, at) VALUES (2, 3, 'view', 1, 7)").run();
+    db.prepare("INSERT INTO signal (customer_id, item_id, kind, value, at) VALUES (2, 3, (SELECT code FROM signal_kind WHERE name = 'view'), 1, 7)").run();
     expect(modelStatus(db).map((m) => [m.kind, m.stale])).toEqual([['content', true], ['ials', true]]);
   });
 });

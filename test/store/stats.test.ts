@@ -19,7 +19,7 @@ describe('workspaceStats on a small hand-built workspace', () => {
     const addCustomer = db.prepare('INSERT INTO customer (external_id) VALUES (?)');
     for (const c of ['r1', 'r2', 'r3', 'r4']) addCustomer.run(c);
     // 20 signals: item 7 (maps) gets 8, item 8 (maps) gets 4, items 1-4 get 2 each; items 5, 6, 9, 10 none.
-    const addSignal = db.prepare('INSERT INTO signal (customer_id, item_id, kind, at) VALUES (?, ?, ?, ?)');
+    const addSignal = db.prepare('INSERT INTO signal (customer_id, item_id, kind, at) VALUES (?, ?, (SELECT code FROM signal_kind WHERE name = ?), ?)');
     let t = 1_000;
     const give = (item: number, n: number, kind: string) => {
       for (let k = 0; k < n; k++) addSignal.run(1 + (k % 4), item, kind, (t += 1000));

@@ -64,7 +64,7 @@ describe('training as a background job', () => {
     const status = modelStatus(ws.db);
     expect(status.map((m) => m.kind).sort()).toEqual(['content', 'ease', 'ials', 'itemknn', 'popularity']);
     expect(status.every((m) => !m.stale)).toBe(true);
-    ws.db.prepare("INSERT INTO signal (customer_id, item_id, kind, value, at) VALUES (1, 1, 'click', 1, 1)").run();
+    ws.db.prepare("INSERT INTO signal (customer_id, item_id, kind, value, at) VALUES (1, 1, (SELECT code FROM signal_kind WHERE name = 'click'), 1, 1)").run();
     expect(modelStatus(ws.db).every((m) => m.stale)).toBe(true);
   });
 

@@ -147,7 +147,7 @@ export class ModelRepo {
  * The kind term of the fingerprint: length(name) * 128 + unicode(name) of the kind's name, as computed
  * when kinds were stored as text (before migration 004), so models trained before that step stay current.
  */
-const KIND_TERM = `CASE kind ${SIGNAL_KINDS.map((k, code) => `WHEN ${code} THEN ${k.length * 128 + k.codePointAt(0)!}`).join(' ')} END`;
+export const FINGERPRINT_KIND_TERM = `CASE kind ${SIGNAL_KINDS.map((k, code) => `WHEN ${code} THEN ${k.length * 128 + k.codePointAt(0)!}`).join(' ')} END`;
 
 export function dataFingerprint(db: Db): string {
   let h = FNV_OFFSET;
@@ -162,7 +162,7 @@ export function dataFingerprint(db: Db): string {
     .prepare(
       `SELECT count(*) AS n, ifnull(max(id), 0) AS maxId, total(at) AS at, total(value) AS value,
               total((customer_id * 1000003 + item_id) % 2147483647) AS pairs,
-              total(${KIND_TERM}) AS kinds
+              total(${FINGERPRINT_KIND_TERM}) AS kinds
        FROM signal`,
     )
     .get() as { n: number; maxId: number; at: number; value: number; pairs: number; kinds: number };

@@ -5,6 +5,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { InputError } from '../../src-main/core/errors.ts';
 import { MIGRATIONS } from '../../src-main/store/migrations/index.ts';
+import { FINGERPRINT_KIND_TERM } from '../../src-main/store/models.ts';
 import { openWorkspace, userVersion } from '../../src-main/store/workspace.ts';
 
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-migrate-'));
@@ -29,6 +30,26 @@ describe('workspace schema versions', () => {
     ]);
     expect(now.prepare("SELECT name FROM sqlite_master WHERE type = 'index' AND tbl_name = 'signal'").pluck().all()).toEqual(['signal_identity']);
     expect(now.pragma('integrity_check', { simple: true })).toBe('ok');
+    now.close();
+  });
+
+  it('keeps the data fingerprint across schema 4, so models trained before it stay current', () => {
+    const file = path.join(dir, 'v3.shelf');
+    const v3 = openWorkspace(file, { migrations: MIGRATIONS.slice(0, 3) });
+    v3.prepare("INSERT INTO item (external_id, title) VALUES ('b1', 'Moss Lantern'), ('b2', 'Fern Tray')").run();
+    v3.prepare("INSERT INTO customer (external_id) VALUES ('r1'), ('r2')").run();
+    const add = v3.prepare('INSERT INTO signal (customer_id, item_id, kind, value, at) VALUES (?, ?, ?, ?, ?)');
+    ['view', 'basket', 'purchase', 'rating', 'read', 'click', 'other'].forEach((kind, i) => add.run(1 + (i % 2), 1 + (i % 2), kind, i + 1, i === 3 ? null : 1_773_480_413_000 + i));
+    // The fingerprint's kind term as computed before schema 4, on text kinds.
+    const before = v3.prepare('SELECT total(length(kind) * 128 + unicode(kind)) FROM signal').pluck().get();
+    v3.close();
+    const now = openWorkspace(file);
+    // Its other terms (counts, ids, times, values, pairs, items) read columns schema 4 copies unchanged.
+    expect(now.prepare(`SELECT total(${FINGERPRINT_KIND_TERM}) FROM signal`).pluck().get()).toBe(before);
+    // Every kind kept its name through the code.
+    expect(now.prepare('SELECT k.name FROM signal s JOIN signal_kind k ON k.code = s.kind ORDER BY s.id').pluck().all()).toEqual([
+      'view', 'basket', 'purchase', 'rating', 'read', 'click', 'other',
+    ]);
     now.close();
   });
 

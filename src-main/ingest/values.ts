@@ -66,8 +66,10 @@ const KIND_SYNONYMS: Readonly<Record<string, SignalKind>> = {
   reading: 'read', open: 'read', opened: 'read',
   clicked: 'click', tap: 'click',
 };
+const CANONICAL_KINDS: ReadonlySet<string> = new Set(SIGNAL_KINDS);
 export function kind(v: unknown): SignalKind | Bad {
   if (typeof v !== 'string') return bad(`expected a kind, got ${describe(v)}`);
+  if (CANONICAL_KINDS.has(v)) return v as SignalKind; // the usual case: no trimming or lower-casing to do
   const s = v.trim().toLowerCase();
   if ((SIGNAL_KINDS as readonly string[]).includes(s)) return s as SignalKind;
   const k = KIND_SYNONYMS[s.replace(/[\s_-]/g, '')];

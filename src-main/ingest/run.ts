@@ -55,10 +55,10 @@ export { MAX_ERRORS, type RowError } from './rejects.ts';
 export const PROGRESS_EVERY = 10_000;
 /**
  * Signal files from this size on are parsed in a worker thread (when `parseThread` is not given and the
- * worker's file is there). Starting the thread under the TypeScript loader (tsx) costs ~0.85 CPU-s, so on
- * small files it loses: 250,000 rows (11 MB) took 2.1 s vs 1.8 s in one thread; 600,000 rows (27 MB)
- * 4.2 s vs 4.5-5.5 s; 1M rows (45 MB) 6.0 s vs 7.0 s (bench/import.bench.ts, load 1.5 on two cores,
- * measured 2026-12-02). Under a saturated machine (load 5-6) the two paths tie.
+ * worker's file is there). The thread costs ~0.4 s to start under the TypeScript loader (tsx) and then saves
+ * the INSERT time (~0.5 s per 1M rows) by overlapping it with parsing: on 1M rows (42 MB) the two paths tie,
+ * 235,000 rows/s each; on 3M rows (126 MB) the thread wins, 257,000 vs 240,000 rows/s (bench/import.bench.ts,
+ * load 1.2-1.6 on two cores, measured 2026-12-02). Below 32 MiB one thread is as fast and lighter.
  */
 export const PIPELINE_MIN_BYTES = 32 << 20;
 

@@ -3,6 +3,7 @@
  * offline evaluation stored with the models. A model's evaluation record holds up to two parts:
  * `tuning` (train --tune, services/tune) and `offline` (the latest evaluation run, stored here).
  */
+import { plural } from '../core/util/plural.ts';
 import { CancelledError, InputError } from '../core/errors.ts';
 import type { EaseParams } from '../core/models/ease.ts';
 import type { IalsParams } from '../core/models/ials-params.ts';
@@ -75,6 +76,6 @@ export function evaluateJob(db: Db, file: string, options: Omit<EvaluateOptions,
     report({ stage: 'evaluate', fraction: 0.05 });
     const r = await evaluateAndStore(db, file, options, signal);
     const best = r.test[0];
-    return `evaluated ${r.test.length} models at K=${r.k}${best ? `; best ${best.model} NDCG ${best.ndcg.toFixed(3)}` : ''}`;
+    return `evaluated ${plural(r.test.length, 'model')} at K=${r.k}${best ? `; best ${best.model} NDCG ${best.ndcg.toFixed(3)}` : ''}`;
   };
 }

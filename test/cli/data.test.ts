@@ -85,4 +85,19 @@ describe('shelfwright import and stats', () => {
     await main(['stats', '-w', ws, '--json'], stats, {});
     expect(JSON.parse(stats.stdout.join('')).items).toBe(2);
   });
+
+  it('reads a mapping file given with --mapping-file, --map overriding its entries', async () => {
+    const f = write('odd-headers.csv', 'ref,label,grp,section\nM1,Mulch Fork,tools,beds\n');
+    const mapping = write('odd-headers.json', JSON.stringify({ id: 'ref', title: 'label', category: 'grp' }));
+    const io = capture();
+    expect(await main(['import', 'items', f, '-w', ws, '--mapping-file', mapping, '--map', 'category=section', '--json'], io, {})).toBe(0);
+    expect(JSON.parse(io.stdout.join(''))).toMatchObject({ added: 1, mapping: { id: 'ref', title: 'label', category: 'section' } });
+    const once = capture();
+    expect(await main(['import', 'items', write('one.csv', 'id,title\nN1,Net Bag\n'), '-w', ws], once, {})).toBe(0);
+    expect(once.stdout.join('\n')).toMatch(/ 1 row: 1 added,/);
+    const bad = write('bad-mapping.json', '{"id": 3}');
+    const err = capture();
+    expect(await main(['import', 'items', f, '-w', ws, '--mapping-file', bad], err, {})).toBe(2);
+    expect(err.stderr.join('\n')).toMatch(/mapping file/);
+  });
 });

@@ -49,4 +49,30 @@ describe('shelfwright command line', () => {
     expect(JSON.parse(io.stdout.join(''))).toMatchObject({ open: true, file, items: 0 });
     fs.rmSync(dir, { recursive: true, force: true });
   });
+
+  it('with --json, reports a failure as one JSON object on stdout, with the same exit code', async () => {
+    const usage = capture();
+    expect(await main(['stats', '--jsn', '--json'], usage, {})).toBe(1);
+    expect(usage.stderr).toEqual([]);
+    expect(JSON.parse(usage.stdout.join(''))).toMatchObject({ error: { exit: 1, kind: 'usage', message: expect.stringMatching(/--jsn/) } });
+
+    const missing = capture();
+    const nowhere = path.join(os.tmpdir(), 'sw-no-such-dir', 'nothing.sqlite');
+    expect(await main(['stats', '-w', nowhere, '--json'], missing, {})).toBe(2);
+    expect(JSON.parse(missing.stdout.join(''))).toMatchObject({ error: { exit: 2, kind: 'data', message: expect.stringMatching(/no workspace at/) } });
+
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-json-err-'));
+    const png = path.join(dir, 'photo.csv');
+    fs.writeFileSync(png, Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a, 0x00, 0x00]));
+    const api = capture();
+    expect(await main(['import', 'items', png, '-w', path.join(dir, 'w.sqlite'), '--json'], api, {})).toBe(2);
+    const failure = JSON.parse(api.stdout.join('')).error;
+    expect(failure).toMatchObject({ exit: 2, kind: 'data', code: expect.any(String), where: { file: png, line: 3 } }); // the PNG signature's two line breaks come before its first NUL
+    expect(failure.message).toMatch(/not a text file/);
+    fs.rmSync(dir, { recursive: true, force: true });
+
+    const unknownCommand = capture();
+    expect(await main(['stat', '--json'], unknownCommand, {})).toBe(1);
+    expect(JSON.parse(unknownCommand.stdout.join('')).error.message).toMatch(/unknown command 'stat'/);
+  });
 });

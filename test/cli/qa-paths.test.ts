@@ -93,11 +93,16 @@ describe('edition export --out', () => {
   });
 
   it('refuses a folder as the file to write', async () => {
-    const r = await run('edition', 'export', 'week 1', '--format', 'html', '--out', dir, '-w', ws, '--json');
+    const r = await run('edition', 'export', 'week 1', '--format', 'html', '--out', dir, '-w', ws);
     expect(r.code).toBe(2);
     expect(r.err).toContain(`${dir}: cannot write the output file: this is a folder; give the name of a file`);
     expect(r.out).toBe('');
     noSystemCodes(r.err);
+    // With --json the same failure is one JSON object on stdout, nothing on stderr.
+    const j = await run('edition', 'export', 'week 1', '--format', 'html', '--out', dir, '-w', ws, '--json');
+    expect(j.code).toBe(2);
+    expect(j.err).toBe('');
+    expect(JSON.parse(j.out).error).toMatchObject({ exit: 2, kind: 'data', message: expect.stringContaining('cannot write the output file: this is a folder') });
   });
 
   it('writes the whole file and leaves no partial file beside it', async () => {

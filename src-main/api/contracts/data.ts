@@ -20,6 +20,8 @@ export const ImportRequest = z
     delimiter: z.string().length(1).optional(),
     dateOrder: z.enum(['dmy', 'mdy']).optional(),
     mapping: z.record(z.string(), z.string()).optional(),
+    /** A JSON file {"field": "Header"} on this machine; `mapping` entries override its own. */
+    mappingFile: z.string().min(1).optional(),
     unknown: z.enum(['reject', 'create']).optional(),
     acceptPartial: z.boolean().optional(),
   })

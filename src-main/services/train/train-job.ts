@@ -1,3 +1,4 @@
+import { plural } from '../../core/util/plural.ts';
 import { CancelledError } from '../../core/errors.ts';
 import type { ModelKind } from '../../core/models/scorer.ts';
 import { ModelRepo } from '../../store/models.ts';
@@ -59,6 +60,6 @@ export function trainJob(db: Db, file: string, options: TrainOptions = {}, hooks
   return async (report, signal) => {
     const s = await trainAndSave(db, file, options, { ...hooks, onProgress: report, signal });
     const notes = s.notes.length ? ` (${s.notes.length} notes)` : '';
-    return `trained ${s.models.length} models in ${(s.elapsedMs / 1000).toFixed(1)} s${notes}`;
+    return `trained ${plural(s.models.length, 'model')} in ${(s.elapsedMs / 1000).toFixed(1)} s${notes}`;
   };
 }

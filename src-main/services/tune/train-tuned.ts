@@ -4,6 +4,7 @@
  * model's evaluation record, key `tuning`). Nothing is written until training has finished; a cancel
  * during tuning or training writes nothing.
  */
+import { plural } from '../../core/util/plural.ts';
 import { CancelledError } from '../../core/errors.ts';
 import { ModelRepo } from '../../store/models.ts';
 import type { Db } from '../../store/workspace.ts';
@@ -76,6 +77,6 @@ export function tunedTrainJob(db: Db, file: string, options: TrainOptions, tune:
   return async (report, signal) => {
     const { summary, tuning } = await tuneAndTrain(db, file, options, tune, report, signal);
     const best = tuning.models.map((m) => `${m.model} NDCG@${tuning.k} ${m.ndcg.toFixed(3)}`).join(', ');
-    return `tuned (${tuning.split.method} split; ${best}) and trained ${summary.models.length} models in ${((tuning.elapsedMs + summary.elapsedMs) / 1000).toFixed(1)} s`;
+    return `tuned (${tuning.split.method} split; ${best}) and trained ${plural(summary.models.length, 'model')} in ${((tuning.elapsedMs + summary.elapsedMs) / 1000).toFixed(1)} s`;
   };
 }

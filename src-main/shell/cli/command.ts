@@ -42,7 +42,9 @@ export interface CliCommand {
   /** Lines shown under "usage:" in --help, without the program name. */
   usage: string[];
   options: OptionSpec;
-  /** Extra help text: what each flag means, examples. */
+  /** One line per option in `options`: what it does, its values and default (shown by --help; tested). */
+  about: Record<string, string>;
+  /** Extra help text: how the flags combine, examples. */
   help?: string;
   run(env: CommandEnv): Promise<number>;
 }

@@ -30,26 +30,26 @@ function programHelp(): string {
     '',
     'global options:',
     `  -w, --workspace PATH  the workspace file (default: $SHELFWRIGHT_WORKSPACE or ${DEFAULT_WORKSPACE})`,
-    '  --json                machine-readable output on stdout',
+    '  --json                machine-readable output on stdout; a failure too, as {"error": {...}}',
     '  -h, --help            help for any command',
     '',
     'exit codes: 0 ok, 1 usage error, 2 data error',
   ].join('\n');
 }
 
-function commandHelp(c: CliCommand): string {
-  const opts = Object.entries(c.options).map(([name, o]) => {
-    const flag = `${o.short ? `-${o.short}, ` : '    '}--${name}${o.type === 'string' ? ' VALUE' : ''}`;
-    return `  ${flag}`;
-  });
+export function commandHelp(c: CliCommand): string {
+  const flags = Object.entries(c.options).map(([name, o]) => [`${o.short ? `-${o.short}, ` : '    '}--${name}${o.type === 'string' ? ' VALUE' : ''}`, c.about[name] ?? '']);
+  flags.push(['-w, --workspace PATH', 'the workspace file'], ['    --json', 'machine-readable output on stdout']);
+  const width = Math.max(...flags.map(([f]) => f!.length)) + 2;
+  const opts = flags.map(([f, about]) => `  ${f!.padEnd(width)}${about}`.trimEnd());
   return [
     `shelfwright ${c.name}: ${c.summary}`,
     '',
     'usage:',
     ...c.usage.map((u) => `  shelfwright ${c.name} ${u}`.trimEnd()),
-    ...(opts.length ? ['', 'options:', ...opts] : []),
-    '  -w, --workspace PATH',
-    '  --json',
+    '',
+    'options:',
+    ...opts,
     ...(c.help ? ['', c.help] : []),
   ].join('\n');
 }
@@ -74,6 +74,21 @@ function checkWorkspacePath(file: string, create: boolean): void {
   }
 }
 
+interface FailureDetail {
+  message: string;
+  code?: string;
+  where?: unknown;
+}
+
+/** Reports a failure as text on stderr, or (with --json) as {"error": {...}} on stdout; returns the exit code. */
+function failWith(io: CliIo, json: boolean) {
+  return (exit: number, text: string, detail: FailureDetail): number => {
+    if (json) io.out(JSON.stringify({ error: { exit, kind: exit === EXIT.usage ? 'usage' : 'data', ...detail } }, null, 2));
+    else io.err(text);
+    return exit;
+  };
+}
+
 /** Finds the longest command name (two words, then one) at the start of argv. */
 function findCommand(argv: string[]): { command: CliCommand; rest: string[] } | undefined {
   for (const words of [2, 1]) {
@@ -90,18 +105,20 @@ export async function main(argv: string[], io: CliIo, env: NodeJS.ProcessEnv = p
     io.out(programHelp());
     return argv.length === 0 ? EXIT.usage : EXIT.ok;
   }
+  // With --json a failure is a JSON object on stdout too (exit code unchanged), so a script reads one stream.
+  const fail = failWith(io, argv.includes('--json'));
   const found = findCommand(argv);
   if (!found) {
-    io.err(`shelfwright: unknown command '${argv.slice(0, 2).join(' ')}'. Run 'shelfwright --help' for the list.`);
-    return EXIT.usage;
+    const words = argv.filter((a) => !a.startsWith('-')).slice(0, 2).join(' ');
+    return fail(EXIT.usage, `shelfwright: unknown command '${words}'. Run 'shelfwright --help' for the list.`, { message: `unknown command '${words}'` });
   }
   const { command, rest } = found;
   let parsed;
   try {
     parsed = parseArgs({ args: rest, options: { ...GLOBAL_OPTIONS, ...command.options }, allowPositionals: true, strict: true });
   } catch (e) {
-    io.err(`shelfwright ${command.name}: ${(e as Error).message}\nRun 'shelfwright ${command.name} --help'.`);
-    return EXIT.usage;
+    const message = (e as Error).message;
+    return fail(EXIT.usage, `shelfwright ${command.name}: ${message}\nRun 'shelfwright ${command.name} --help'.`, { message });
   }
   const values = parsed.values as CommandEnv['values'];
   if (values['help']) {
@@ -130,12 +147,14 @@ export async function main(argv: string[], io: CliIo, env: NodeJS.ProcessEnv = p
     return await command.run(cenv);
   } catch (e) {
     if (e instanceof UsageError) {
-      io.err(`shelfwright ${command.name}: ${e.message}\nRun 'shelfwright ${command.name} --help'.`);
-      return EXIT.usage;
+      return fail(EXIT.usage, `shelfwright ${command.name}: ${e.message}\nRun 'shelfwright ${command.name} --help'.`, { message: e.message });
     }
-    if (e instanceof CliApiError || e instanceof InputError) {
-      io.err(`shelfwright ${command.name}: ${e instanceof InputError ? e.describe() : e.message}`);
-      return EXIT.data;
+    if (e instanceof InputError) {
+      return fail(EXIT.data, `shelfwright ${command.name}: ${e.describe()}`, { message: e.message, ...(Object.keys(e.where).length > 0 && { where: e.where }) });
+    }
+    if (e instanceof CliApiError) {
+      const { code, message, where } = e.error;
+      return fail(EXIT.data, `shelfwright ${command.name}: ${e.message}`, { code, message, ...(where && { where }) });
     }
     throw e;
   } finally {

@@ -47,7 +47,6 @@ function printShelf(env: CommandEnv, v: ShelfView): number {
   return EXIT.ok;
 }
 
-const QUOTA_HELP = '--quota FACET:MAX[:VALUE]  at most MAX items per category|supplier|tag (repeatable)';
 
 const BRIEF_OPTIONS: OptionSpec = {
   size: { type: 'string' },
@@ -59,6 +58,31 @@ const BRIEF_OPTIONS: OptionSpec = {
   category: { type: 'string', multiple: true },
   audience: { type: 'string' },
 };
+
+/** One line per brief flag; `changing` is `shelf brief`, where a flag left out keeps what the brief has. */
+function briefAbout(changing: boolean): Record<string, string> {
+  const keep = ' (default: unchanged)';
+  return {
+    size: changing ? 'number of slots, 1 to 200 (default: keep the current size)' : 'number of slots, 1 to 200 (required unless --brief sets it)',
+    brief: changing ? "a whole brief as JSON, replacing the shelf's brief; other flags apply on top" : 'a whole brief as JSON; the other flags apply on top of it',
+    quota: changing
+      ? 'repeatable: FACET:MAX[:VALUE], added to the quotas the brief already has'
+      : 'repeatable: FACET:MAX[:VALUE], at most MAX items per category, supplier or tag',
+    'promoted-max': `largest share of slots sponsored items may take, 0 to 1${changing ? keep : ' (default no limit)'}`,
+    'promoted-min': `smallest share of slots sponsored items must take, 0 to 1${changing ? keep : ' (default none)'}`,
+    rest: changing
+      ? 'skip items shown on this many recent published editions unless pinned; 0 is off'
+      : 'skip items shown on this many recent published editions unless pinned (default 0: off)',
+    category: changing
+      ? "repeatable: only items of this category; replaces the brief's category list"
+      : 'repeatable: only items of this category (default every category)',
+    audience: changing
+      ? 'who it is for: everyone, group:N or bought:CATEGORY[:DAYS], DAYS default 90'
+      : 'who it is for: everyone (default), group:N or bought:CATEGORY[:DAYS], DAYS default 90',
+  };
+}
+
+const REASON_ABOUT = "why, in your own words; kept in the shelf's action log (optional)";
 
 /** A brief from --brief JSON (or a base brief), with the convenience flags on top. */
 function briefFrom(env: CommandEnv, base: Brief | undefined): Brief {
@@ -111,8 +135,8 @@ function actionCommand(
   summary: string,
   usage: string,
   options: OptionSpec,
+  about: Record<string, string>,
   build: (env: CommandEnv, rest: string[]) => RequestOf<'shelf.act'>['action'],
-  extra: string[] = [],
   example = '',
 ): CliCommand {
   return {
@@ -120,7 +144,8 @@ function actionCommand(
     summary,
     usage: [usage],
     options: { ...options, ...reasonOpt },
-    help: `${['  --reason TEXT  why (kept in the shelf\'s action log)', ...extra].join('\n')}\n\nexample:\n  shelfwright shelf ${name} ${example}`,
+    about: { ...about, reason: REASON_ABOUT },
+    help: `example:\n  shelfwright shelf ${name} ${example}`,
     async run(env) {
       const [edition, shelf, ...rest] = env.positionals;
       if (!edition || !shelf) throw new UsageError('name the EDITION and the SHELF');
@@ -155,6 +180,7 @@ function shelfCommand(name: 'fill' | 'meter' | 'undo' | 'redo', summary: string,
     summary,
     usage: ['EDITION SHELF'],
     options: {},
+    about: {},
     help: `example:\n  shelfwright shelf ${name} "week 10" Front`,
     async run(env) {
       const [edition, shelf] = positionals(env, ['EDITION', 'SHELF']);
@@ -170,6 +196,10 @@ export const curationCommands: CliCommand[] = [
     summary: 'start an edition on a date (optionally from an earlier one: shelves and briefs, not slots)',
     usage: ['LABEL --date YYYY-MM-DD [--from LABEL]'],
     options: { date: { type: 'string' }, from: { type: 'string' } },
+    about: {
+      date: 'the date the edition runs, YYYY-MM-DD (required)',
+      from: 'copy the shelves and briefs (not the slots) of this earlier edition',
+    },
     help: 'example:\n  shelfwright edition new "week 11" --date 2026-03-09 --from "week 10"',
     async run(env) {
       const [label] = positionals(env, ['LABEL']);
@@ -188,6 +218,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'every edition with its date and status',
     usage: [''],
     options: {},
+    about: {},
     help: 'example:\n  shelfwright edition list --json',
     async run(env) {
       positionals(env, []);
@@ -203,6 +234,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'an edition: every shelf with its meter, and the edition meter',
     usage: ['LABEL'],
     options: {},
+    about: {},
     help: 'example:\n  shelfwright edition show "week 10"',
     async run(env) {
       const [label] = positionals(env, ['LABEL']);
@@ -227,6 +259,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'freeze an edition into read-only history',
     usage: ['LABEL'],
     options: {},
+    about: {},
     help: 'example:\n  shelfwright edition publish "week 10"',
     async run(env) {
       const [label] = positionals(env, ['LABEL']);
@@ -241,6 +274,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'per shelf, what edition B added, removed and moved relative to edition A',
     usage: ['A B'],
     options: {},
+    about: {},
     help: 'example:\n  shelfwright edition compare "week 10" "week 11"',
     async run(env) {
       const [a, b] = positionals(env, ['A', 'B']);
@@ -269,6 +303,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'an edition as CSV, JSON or a standalone HTML preview',
     usage: ['LABEL --format csv|json|html [--out FILE]'],
     options: { format: { type: 'string' }, out: { type: 'string' } },
+    about: { format: 'csv, json or html (required)', out: 'write the export to this file (default: print it on stdout)' },
     help: '  without --out the export is written to stdout\n\nexample:\n  shelfwright edition export "week 10" --format html --out week10.html',
     async run(env) {
       const [label] = positionals(env, ['LABEL']);
@@ -288,17 +323,10 @@ export const curationCommands: CliCommand[] = [
   {
     name: 'shelf add',
     summary: 'add a shelf to a draft edition and fill it',
-    usage: ['EDITION LABEL --size N [--quota FACET:MAX[:VALUE]]... [--promoted-max SHARE] [--rest N] [--brief JSON]'],
+    usage: ['EDITION LABEL --size N [--quota FACET:MAX[:VALUE]]... [--promoted-max SHARE] [--promoted-min SHARE] [--rest N] [--category NAME]... [--audience WHO] [--brief JSON]'],
     options: BRIEF_OPTIONS,
+    about: briefAbout(false),
     help: [
-      '  --size N                 slots on the shelf',
-      `  ${QUOTA_HELP}`,
-      '  --promoted-max SHARE     at most this share of slots sponsored (0..1); --promoted-min likewise',
-      '  --rest N                 items on the last N published editions are not proposed unless pinned',
-      '  --category NAME          only this category (repeatable)',
-      '  --audience WHO           everyone, group:N or bought:CATEGORY[:DAYS]',
-      '  --brief JSON             a whole brief; the flags above apply on top',
-      '',
       'example:',
       '  shelfwright shelf add "week 10" Front --size 8 --quota category:3 --promoted-max 0.25 --rest 1',
     ].join('\n'),
@@ -314,7 +342,8 @@ export const curationCommands: CliCommand[] = [
     summary: "change a shelf's brief (quotas, promoted bounds, rest period, size) and fill it again",
     usage: ['EDITION SHELF [--size N] [--quota FACET:MAX[:VALUE]]... [--promoted-max SHARE] [--rest N] [--brief JSON]'],
     options: BRIEF_OPTIONS,
-    help: `  ${QUOTA_HELP}\n  quotas add to the ones the brief has\n\nexample:\n  shelfwright shelf brief "week 10" Front --quota supplier:2 --promoted-max 0.2`,
+    about: briefAbout(true),
+    help: `Flags left out keep the brief's current value; a --quota adds to the quotas it has.\n\nexample:\n  shelfwright shelf brief "week 10" Front --quota supplier:2 --promoted-max 0.2`,
     async run(env) {
       const [edition, shelf] = positionals(env, ['EDITION', 'SHELF']);
       const { table: t } = env.api();
@@ -325,20 +354,26 @@ export const curationCommands: CliCommand[] = [
   },
   shelfCommand('fill', 'fill a shelf again (a locked shelf stays as it is)', 'shelf.fill'),
   shelfCommand('meter', 'a shelf as it stands with its meter and the rules it could not meet', 'shelf.show'),
-  actionCommand('pin', 'fix an item at a slot', 'EDITION SHELF ITEM --slot N', { slot: { type: 'string' } }, (env, rest) => ({
+  actionCommand('pin', 'fix an item at a slot', 'EDITION SHELF ITEM --slot N', { slot: { type: 'string' } }, { slot: 'the slot to fix the item at, counting from 1 (required)' }, (env, rest) => ({
     kind: 'pin',
     item: oneItem(rest),
     slot: slotFlag(env, 'slot'),
-  }), ['  --slot N       the slot, from 1'], '"week 10" Front SKU-014 --slot 1 --reason "launch week"'),
-  actionCommand('unpin', 'release a pinned slot', 'EDITION SHELF --slot N', { slot: { type: 'string' } }, (env, rest) => {
+  }), '"week 10" Front SKU-014 --slot 1 --reason "launch week"'),
+  actionCommand('unpin', 'release a pinned slot', 'EDITION SHELF --slot N', { slot: { type: 'string' } }, { slot: 'the pinned slot to release, counting from 1 (required)' }, (env, rest) => {
     if (rest.length) throw new UsageError(`unexpected argument '${rest[0]}'`);
     return { kind: 'unpin', slot: slotFlag(env, 'slot') };
-  }, [], '"week 10" Front --slot 1'),
+  }, '"week 10" Front --slot 1'),
   actionCommand(
     'ban',
     'exclude an item, or every item of a category, supplier or tag',
     'EDITION SHELF (ITEM | --category X | --supplier X | --tag X) [--scope shelf|edition|always]',
     { scope: { type: 'string' }, category: { type: 'string' }, supplier: { type: 'string' }, tag: { type: 'string' } },
+    {
+      scope: 'where the ban holds: shelf (default), edition, or always (every shelf, every edition)',
+      category: 'ban every item of this category instead of one item',
+      supplier: 'ban every item from this supplier instead of one item',
+      tag: 'ban every item with this tag instead of one item',
+    },
     (env, rest) => {
       const scope = scopeOf(env);
       const rules = (['category', 'supplier', 'tag'] as const).filter((f) => str(env, f) !== undefined);
@@ -346,31 +381,33 @@ export const curationCommands: CliCommand[] = [
       if (rules.length) return { kind: 'banRule', facet: rules[0]!, value: str(env, rules[0]!)!, scope };
       return { kind: 'ban', item: rest[0]!, scope };
     },
-    ['  --scope S      shelf (default), edition, or always (every future edition too)'],
     '"week 10" Front SKU-007 --scope edition',
   ),
-  actionCommand('boost', "raise an item's score by a factor", 'EDITION SHELF ITEM --factor F', { factor: { type: 'string' } }, (env, rest) => ({
+  actionCommand('boost', "raise an item's score by a factor", 'EDITION SHELF ITEM --factor F', { factor: { type: 'string' } }, { factor: "multiply the item's score by this number above 0 (default 2)" }, (env, rest) => ({
     kind: 'boost',
     item: oneItem(rest),
     factor: num(env, 'factor', (x) => x > 0, 'a number above 0') ?? 2,
-  }), ['  --factor F     multiply the score by F (default 2)'], '"week 10" Front SKU-021 --factor 1.5'),
-  actionCommand('sink', "lower an item's score by a factor", 'EDITION SHELF ITEM --factor F', { factor: { type: 'string' } }, (env, rest) => ({
+  }), '"week 10" Front SKU-021 --factor 1.5'),
+  actionCommand('sink', "lower an item's score by a factor", 'EDITION SHELF ITEM --factor F', { factor: { type: 'string' } }, { factor: "divide the item's score by this number above 0 (default 2)" }, (env, rest) => ({
     kind: 'sink',
     item: oneItem(rest),
     factor: num(env, 'factor', (x) => x > 0, 'a number above 0') ?? 2,
-  }), ['  --factor F     divide the score by F (default 2)'], '"week 10" Front SKU-021 --factor 3'),
-  actionCommand('lock', 'freeze a shelf: later actions are recorded but it is not filled again', 'EDITION SHELF', {}, (_env, rest) => {
+  }), '"week 10" Front SKU-021 --factor 3'),
+  actionCommand('lock', 'freeze a shelf: later actions are recorded but it is not filled again', 'EDITION SHELF', {}, {}, (_env, rest) => {
     if (rest.length) throw new UsageError(`unexpected argument '${rest[0]}'`);
     return { kind: 'lock' };
-  }, [], '"week 10" Front'),
-  actionCommand('unlock', 'unfreeze a shelf and fill it again', 'EDITION SHELF', {}, (_env, rest) => {
+  }, '"week 10" Front'),
+  actionCommand('unlock', 'unfreeze a shelf and fill it again', 'EDITION SHELF', {}, {}, (_env, rest) => {
     if (rest.length) throw new UsageError(`unexpected argument '${rest[0]}'`);
     return { kind: 'unlock' };
-  }, [], '"week 10" Front'),
-  actionCommand('move', 'move the item at one slot to another by hand (it is pinned there)', 'EDITION SHELF --from A --to B', { from: { type: 'string' }, to: { type: 'string' } }, (env, rest) => {
+  }, '"week 10" Front'),
+  actionCommand('move', 'move the item at one slot to another by hand (it is pinned there)', 'EDITION SHELF --from A --to B', { from: { type: 'string' }, to: { type: 'string' } }, {
+    from: 'the slot whose item moves, counting from 1 (required)',
+    to: 'the slot it moves to and is pinned at, counting from 1 (required)',
+  }, (env, rest) => {
     if (rest.length) throw new UsageError(`unexpected argument '${rest[0]}'`);
     return { kind: 'move', from: slotFlag(env, 'from'), to: slotFlag(env, 'to') };
-  }, [], '"week 10" Front --from 5 --to 1'),
+  }, '"week 10" Front --from 5 --to 1'),
   shelfCommand('undo', "undo the shelf's last action", 'shelf.undo'),
   shelfCommand('redo', "redo the shelf's last undone action", 'shelf.redo'),
   {
@@ -378,6 +415,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'for one slot, the best candidates and the change each would make to the meter',
     usage: ['EDITION SHELF --slot N [--n COUNT]'],
     options: { slot: { type: 'string' }, n: { type: 'string' } },
+    about: { slot: 'the slot to look at, counting from 1 (required)', n: 'how many candidates to list, 1 to 200 (default 10)' },
     help: '  --slot N   the slot, from 1\n  --n COUNT  how many candidates (default 10)\n\nexample:\n  shelfwright shelf whatif "week 10" Front --slot 3 --n 5',
     async run(env) {
       const [edition, shelf] = positionals(env, ['EDITION', 'SHELF']);
@@ -412,6 +450,7 @@ export const curationCommands: CliCommand[] = [
     summary: "share of the shelf's audience who engaged with its items in the latest window, beside a popularity list",
     usage: ['EDITION SHELF [--window DAYS]'],
     options: { window: { type: 'string' } },
+    about: { window: 'days of the most recent signals held out for the check, 1 to 365 (default 28)' },
     help: '  --window DAYS  the held-out window (default 28)\n\nexample:\n  shelfwright shelf backtest "week 10" Front --window 28',
     async run(env) {
       const [edition, shelf] = positionals(env, ['EDITION', 'SHELF']);
@@ -436,6 +475,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'the taste groups found in the iALS customer factors, by their top categories and tags',
     usage: [''],
     options: {},
+    about: {},
     help: '  use a group in a brief with --audience group:N\n\nexample:\n  shelfwright audience groups',
     async run(env) {
       positionals(env, []);
@@ -452,6 +492,7 @@ export const curationCommands: CliCommand[] = [
     summary: "erase one customer's signals and row on request",
     usage: ['CUSTOMER'],
     options: {},
+    about: {},
     help: 'example:\n  shelfwright forget C-1042',
     async run(env) {
       const [customer] = positionals(env, ['CUSTOMER']);

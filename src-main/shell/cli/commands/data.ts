@@ -2,6 +2,7 @@ import type { ImportReport } from '../../../api/contracts/data.ts';
 import { call } from '../call.ts';
 import { followJob } from '../follow-job.ts';
 import { EXIT, UsageError, type CliCommand } from '../command.ts';
+import { plural } from '../../../core/util/plural.ts';
 import { formatDate, formatNumber, table } from '../format.ts';
 
 
@@ -22,13 +23,13 @@ function printReport(r: ImportReport, out: (t: string) => void): void {
   const verdict = r.committed ? 'imported' : 'NOT imported: nothing was changed';
   out(`${r.file} (${r.format}${r.delimiter ? `, delimiter '${r.delimiter === '\t' ? '\\t' : r.delimiter}'` : ''}): ${verdict}`);
   out(
-    `  ${formatNumber(r.rows)} rows: ${formatNumber(r.added)} added, ${formatNumber(r.updated)} updated, ` +
+    `  ${plural(r.rows, 'row')}: ${formatNumber(r.added)} added, ${formatNumber(r.updated)} updated, ` +
       `${formatNumber(r.unchanged)} unchanged, ${formatNumber(r.rejected)} rejected` +
-      (r.customersCreated ? `, ${formatNumber(r.customersCreated)} customers created` : '') +
+      (r.customersCreated ? `, ${plural(r.customersCreated, 'customer created', 'customers created')}` : '') +
       ` in ${(r.elapsedMs / 1000).toFixed(2)} s`,
   );
   for (const e of r.errors) out(`  ${e.message}`);
-  if (r.errorCount > r.errors.length) out(`  ... and ${formatNumber(r.errorCount - r.errors.length)} more rejected rows`);
+  if (r.errorCount > r.errors.length) out(`  ... and ${plural(r.errorCount - r.errors.length, 'more rejected row', 'more rejected rows')}`);
 }
 
 export const importCommand: CliCommand = {
@@ -37,12 +38,23 @@ export const importCommand: CliCommand = {
   usage: ['items|customers|signals FILE [--map FIELD=HEADER ...] [--mapping-file F] [--date-order dmy|mdy] [--create-customers] [--accept-partial]'],
   options: {
     map: { type: 'string', multiple: true },
+    'mapping-file': { type: 'string' },
     format: { type: 'string' },
     delimiter: { type: 'string' },
     'date-order': { type: 'string' },
     'create-customers': { type: 'boolean', default: false },
     'accept-partial': { type: 'boolean', default: false },
     preview: { type: 'boolean', default: false },
+  },
+  about: {
+    map: 'repeatable: FIELD=HEADER, read the field from that column (overrides detection)',
+    'mapping-file': 'a JSON file {"field": "Header", ...}; --map entries override it',
+    format: 'csv, json or jsonl (default: from the file extension)',
+    delimiter: "one character (default: ',', ';' or tab, whichever the header line uses)",
+    'date-order': 'dmy or mdy, for dates like 03/04/2026 (ISO 8601 dates need none)',
+    'create-customers': 'signals: add customers the workspace does not know yet (default: reject the row)',
+    'accept-partial': 'keep the valid rows when some are rejected (default: change nothing)',
+    preview: 'show the detected mapping and the first rows; import nothing',
   },
   help: [
     'The whole file is one transaction: if any row is rejected nothing changes (unless --accept-partial),',
@@ -72,6 +84,7 @@ export const importCommand: CliCommand = {
       ...(v['delimiter'] !== undefined && { delimiter: v['delimiter'] as string }),
       ...(dateOrder && { dateOrder: dateOrder as 'dmy' | 'mdy' }),
       ...(Object.keys(mapping).length > 0 && { mapping }),
+      ...(v['mapping-file'] !== undefined && { mappingFile: v['mapping-file'] as string }),
     };
     const { table: api } = env.api({ create: true });
     if (v['preview']) {
@@ -102,6 +115,7 @@ export const statsCommand: CliCommand = {
   summary: 'what the workspace holds: counts, dates, density, kinds, top categories, long tail',
   usage: ['[--json]'],
   options: {},
+  about: {},
   async run(env) {
     const { table: api } = env.api();
     const s = await call(api, 'workspace.stats', {});
@@ -133,6 +147,10 @@ export const demoCommand: CliCommand = {
   summary: 'rebuild the demo workspace (an invented garden-supply shop) and train its models',
   usage: ['[--workspace PATH] [--seed N] [--no-train]'],
   options: { seed: { type: 'string' }, 'no-train': { type: 'boolean', default: false } },
+  about: {
+    seed: 'a whole number >= 0: which invented shop to generate (default 7)',
+    'no-train': 'only generate and import the shop; train no models',
+  },
   help: 'Replaces the workspace file with a freshly generated demo shop. The same seed always gives the same shop.',
   async run(env) {
     const seedText = env.values['seed'] as string | undefined;

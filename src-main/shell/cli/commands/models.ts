@@ -33,6 +33,21 @@ const trainCommand: CliCommand = {
     tune: { type: 'boolean', default: false },
     k: { type: 'string' },
   },
+  about: {
+    models: 'comma-separated: content, itemknn, ials, ease, popularity (default all five)',
+    factors: 'iALS: size of the taste vectors, 1 to 1024 (default 64)',
+    iterations: 'iALS: training sweeps over customers and items (default 15)',
+    regularization: 'iALS: how strongly large factors are held back, >= 0 (default 0.01)',
+    alpha: 'iALS: how much more a repeated signal counts, >= 0 (default 1)',
+    scaling: 'iALS: confidence grows linear or log with the signal (default linear)',
+    neighbours: 'item-kNN: similar items kept per item (default 50)',
+    shrink: 'item-kNN: damping of similarities built on few customers, >= 0 (default 10)',
+    lambda: "the EASE model's regularisation, above 0 (default 500)",
+    threads: "threads to train with, 1 to 8 (default the machine's cores, at most 8)",
+    seed: 'random seed for iALS and, with --tune, the validation split (default 1)',
+    tune: "search each model's small grid first, then train the best settings on all signals",
+    k: 'with --tune: the list length the grid is judged on, NDCG@K (default 10)',
+  },
   help: [
     'iALS: --factors, --iterations, --regularization, --alpha, --scaling linear|log (confidence 1+a*r or 1+a*log(1+r)), --seed',
     'item-kNN: --neighbours, --shrink.  EASE: --lambda.',
@@ -112,6 +127,14 @@ const evaluateCommand: CliCommand = {
     format: { type: 'string' },
     delimiter: { type: 'string' },
   },
+  about: {
+    k: 'list length scored: 1 to 200 (default 10), with --holdout 1 to 500 (default 20)',
+    sample: 'most customers measured per window (default 2000); not used with --holdout',
+    holdout: 'score the models against the customer and item pairs in this file instead',
+    map: 'repeatable, with --holdout: FIELD=HEADER, read FIELD from column HEADER',
+    format: 'with --holdout: csv, json or jsonl (default: from the file extension)',
+    delimiter: 'with --holdout: the CSV column separator, one character (default: detected)',
+  },
   help: [
     'Recall@K divides by min(K, |held-out items|) (Liang et al. 2018); NDCG@K is binary with a log2 discount.',
     'Holdout file: customer, item, optional value and time, headers matched as for a signal import;',
@@ -178,6 +201,7 @@ const similarCommand: CliCommand = {
   summary: 'the items most like ITEM, with content and collaborative similarity for each',
   usage: ['ITEM [--n N] [--json]'],
   options: { n: { type: 'string' } },
+  about: { n: 'how many similar items to list, 1 to 200 (default 10)' },
   async run(env) {
     if (env.positionals.length !== 1) throw new UsageError(env.positionals.length ? `unexpected argument '${env.positionals[1]}'` : 'missing ITEM');
     const { table: t } = env.api();
@@ -208,6 +232,18 @@ const proposeCommand: CliCommand = {
     'max-age-days': { type: 'string' },
     n: { type: 'string' },
     date: { type: 'string' },
+  },
+  about: {
+    anchor: 'repeatable: an item id to build the pool around',
+    category: 'repeatable: only items of this category (default every category)',
+    'exclude-category': 'repeatable: leave out items of this category',
+    tag: 'repeatable: only items with this tag (any of those given)',
+    supplier: 'repeatable: only items from this supplier (any of those given)',
+    'min-price': 'lowest price, >= 0; items without a price are then left out',
+    'max-price': 'highest price, >= 0; items without a price are then left out',
+    'max-age-days': 'only items added within this many days of --date (default any age)',
+    n: 'how many items to list, 1 to 500 (default 20)',
+    date: 'the day to rank for, YYYY-MM-DD (default today)',
   },
   async run(env) {
     if (env.positionals.length) throw new UsageError(`unexpected argument '${env.positionals[0]}'`);
@@ -242,6 +278,13 @@ const recommendCommand: CliCommand = {
   summary: "write each customer's top-N (CSV or JSON Lines) with per-component contributions",
   usage: ['(--customers FILE | --all) --top N --out FILE [--format csv|jsonl] [--json]'],
   options: { customers: { type: 'string' }, all: { type: 'boolean', default: false }, top: { type: 'string' }, out: { type: 'string' }, format: { type: 'string' } },
+  about: {
+    customers: 'a file of customer ids, one a line (use this or --all)',
+    all: 'every customer in the workspace (use this or --customers)',
+    top: 'items per customer, 1 to 1000 (required)',
+    out: 'the file to write (required)',
+    format: 'csv or jsonl (default: jsonl when --out ends in .jsonl, else csv)',
+  },
   help: 'Customers file: one external id per line (a header line is skipped). Ties: higher score, then lower item id.',
   async run(env) {
     const customersFile = str(env, 'customers');

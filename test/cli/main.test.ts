@@ -75,4 +75,15 @@ describe('shelfwright command line', () => {
     expect(await main(['stat', '--json'], unknownCommand, {})).toBe(1);
     expect(JSON.parse(unknownCommand.stdout.join('')).error.message).toMatch(/unknown command 'stat'/);
   });
+
+  it('a flag value past a limit the api sets is a usage error (exit 1) naming the field', async () => {
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-limits-'));
+    const ws = path.join(dir, 'w.sqlite');
+    fs.writeFileSync(path.join(dir, 'items.csv'), 'id,title\nA1,Rake\n');
+    expect(await main(['import', 'items', path.join(dir, 'items.csv'), '-w', ws], capture(), {})).toBe(0);
+    const io = capture();
+    expect(await main(['train', '--threads', '9', '-w', ws], io, {})).toBe(1);
+    expect(io.stderr.join('\n')).toMatch(/threads: too big: expected number to be <=8\nRun 'shelfwright train --help'/);
+    fs.rmSync(dir, { recursive: true, force: true });
+  });
 });

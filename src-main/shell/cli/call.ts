@@ -1,6 +1,7 @@
 import { invoke, type HandlerTable } from '../../api/handler-table.ts';
-import type { MethodName, RequestOf, ResponseOf } from '../../api/contract.ts';
+import { CONTRACT, type MethodName, type RequestOf, type ResponseOf } from '../../api/contract.ts';
 import type { ApiError } from '../../api/define.ts';
+import { UsageError } from './command.ts';
 
 const REPEATED = /^([\w.[\]-]+): \1[: ]/;
 
@@ -27,8 +28,18 @@ export class CliApiError extends Error {
   }
 }
 
-/** Calls one api method through the same handler table (and schemas) as the app's shells. */
+/**
+ * Calls one api method through the same handler table (and schemas) as the app's shells. A request the
+ * method's schema refuses was built from the command line's flags, so it is a usage error (exit 1), said
+ * with the field the schema names.
+ */
 export async function call<M extends MethodName>(table: HandlerTable, name: M, payload: RequestOf<M>): Promise<ResponseOf<M>> {
+  const checked = CONTRACT[name].request.safeParse(payload);
+  if (!checked.success) {
+    const issue = checked.error.issues[0]!;
+    const field = issue.path.join('.');
+    throw new UsageError(`${field ? `${field}: ` : ''}${issue.message.replace(/^Too (big|small): /, 'too $1: ')}`);
+  }
   const r = await invoke(table, name, payload);
   if (!r.ok) throw new CliApiError(r.error);
   return r.value as ResponseOf<M>;

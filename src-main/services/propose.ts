@@ -1,3 +1,4 @@
+import { catalogueNames, checkBriefNames } from '../core/curation/brief-names.ts';
 import { buildCandidatePool, type EditorialState } from '../core/curation/candidates.ts';
 import type { Brief } from '../core/curation/types.ts';
 import { InputError } from '../core/errors.ts';
@@ -142,6 +143,7 @@ export function propose(db: Db, brief: Brief, options: ProposeOptions): Proposal
   if (!Number.isInteger(n) || n < 1) throw new InputError(`n must be a whole number >= 1, got ${n}`, { column: 'n' });
   const world = loadWorld(db, storedModelSource);
   const { ds, ctx } = world;
+  checkBriefNames(catalogueNames(ds.items), brief);
   const loaded = loadCurrentModels(db, ds);
   const notes = [...loaded.notes];
 

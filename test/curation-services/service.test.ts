@@ -105,4 +105,17 @@ describe('curation service', () => {
     // The failed action changed nothing.
     expect(svc.fill('w', 'Front', false).actions).toEqual([]);
   });
+
+  it('refuses a category, supplier or tag no item carries, in a brief or a ban, and changes nothing', () => {
+    const svc = setup();
+    svc.newEdition('w', '2026-03-02');
+    expect(() => svc.addShelf('w', 'Front', { size: 4, include: { categories: ['teapot'] } })).toThrow(
+      "include.categories.0: no item has the category 'teapot' (did you mean 'teapots'?)",
+    );
+    expect(svc.showEdition('w').shelves).toHaveLength(0);
+    const v = svc.addShelf('w', 'Front', { size: 4 });
+    expect(() => svc.act('w', 'Front', { kind: 'banRule', facet: 'category', value: 'kite', scope: 'shelf' })).toThrow(/did you mean 'kites'/);
+    expect(svc.fill('w', 'Front', false).slots).toEqual(v.slots);
+    expect(svc.fill('w', 'Front', false).actions).toHaveLength(0);
+  });
 });

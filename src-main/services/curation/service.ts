@@ -21,6 +21,7 @@ import {
   type ShelfEdits,
 } from '../../core/editing/index.ts';
 import { parseBrief } from '../../core/editing/brief-schema.ts';
+import { catalogueNames, checkBriefNames, checkName, type CatalogueNames } from '../../core/curation/brief-names.ts';
 import type { Item } from '../../core/types.ts';
 import type { EditionRepo, Edition } from '../../store/editions.ts';
 import type { EditorialRepo } from '../../store/editorial-actions.ts';
@@ -171,6 +172,7 @@ export class CurationService {
   addShelf(edition: string, label: string, brief: unknown): ShelfView {
     const world = this.world();
     const b = parseBrief(brief);
+    checkBriefNames(namesOf(world), b);
     return this.db.transaction(() => {
       const e = this.#draft(edition);
       return this.#refillEdition(world, e, this.shelves.add(e.id, label, b).id, 'fromTarget');
@@ -180,6 +182,7 @@ export class CurationService {
   setBrief(edition: string, label: string, brief: unknown): ShelfView {
     const world = this.world();
     const b = parseBrief(brief);
+    checkBriefNames(namesOf(world), b);
     return this.db.transaction(() => {
       const e = this.#draft(edition);
       const s = this.shelves.byLabel(e.id, label);
@@ -205,7 +208,7 @@ export class CurationService {
     })();
   }
 
-  #resolve(shelf: Shelf, a: ActionRequest): EditAction {
+  #resolve(world: CurationWorld, shelf: Shelf, a: ActionRequest): EditAction {
     const item = (ext: string): number => {
       const it = this.items.byExternalId(ext);
       if (!it) throw new NotFoundError(`no item with id '${ext}'`);
@@ -219,6 +222,7 @@ export class CurationService {
       case 'ban':
         return { kind: 'ban', item: item(a.item), scope: a.scope };
       case 'banRule':
+        checkName(namesOf(world), a.facet, a.value, a.facet);
         return { kind: 'banRule', facet: a.facet, value: a.value, scope: a.scope };
       case 'boost':
         return { kind: 'boost', item: item(a.item), factor: a.factor };
@@ -243,7 +247,7 @@ export class CurationService {
     return this.db.transaction(() => {
       const e = this.#draft(edition);
       const shelf = this.shelves.byLabel(e.id, label);
-      const action = this.#resolve(shelf, request);
+      const action = this.#resolve(world, shelf, request);
       checkAction(action, shelf.size);
       const log = this.editorial.log(shelf.id);
       const r = doAction(replay(emptyEdits(), log), log, action);
@@ -311,4 +315,11 @@ export class CurationService {
   editsOf(shelf: Shelf): ShelfEdits {
     return this.#edits(shelf);
   }
+}
+
+/** The catalogue's category, supplier and tag names, read once per loaded world. */
+function namesOf(world: CurationWorld): CatalogueNames {
+  let names = world.memo.get('catalogueNames') as CatalogueNames | undefined;
+  if (!names) world.memo.set('catalogueNames', (names = catalogueNames(world.ds.items)));
+  return names;
 }

@@ -1,4 +1,5 @@
 import { useState } from 'react';
+import { describeExclusions } from '../../src-main/core/curation/exclusion-words.ts';
 import { AnchorPicker } from '../components/AnchorPicker.tsx';
 import { BriefEditor } from '../components/BriefEditor.tsx';
 import { CandidatePool } from '../components/CandidatePool.tsx';
@@ -72,6 +73,7 @@ export function ShelfEditor() {
         {shelf.locked ? ' · locked: unlock to change it' : ''}
         {lastMs !== null ? ` · last change shown in ${Math.round(lastMs)} ms` : ''}
       </p>
+      {describeExclusions(shelf.excluded) && <p className="muted small">Left out of the pool: {describeExclusions(shelf.excluded)}</p>}
       {shelf.violations.length > 0 && (
         <div className="warn" role="status">
           <p>Rules not met:</p>

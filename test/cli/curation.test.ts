@@ -92,7 +92,7 @@ describe('shelfwright edition and shelf commands', () => {
       for (const x of s.slots) expect(ran.has(x.item)).toBe(false);
       expect(s.excluded.resting).toBeGreaterThan(0);
     }
-    expect((await run('shelf', 'meter', 'week 11', 'Front')).out).toMatch(/resting \(rest period\): \d+ items held back/);
+    expect((await run('shelf', 'meter', 'week 11', 'Front')).out).toMatch(/left out of the pool: .*\d+ resting \(rest period\)/);
 
     const cmp = await json('edition', 'compare', 'week 10', 'week 11');
     expect(cmp.shelves[0].label).toBe('Front');

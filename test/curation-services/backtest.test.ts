@@ -34,11 +34,11 @@ describe('backtest', () => {
     const popular = db
       .prepare(
         `SELECT i.external_id FROM item i LEFT JOIN signal s ON s.item_id = i.id AND s.at >= ? AND s.at < ?
-         WHERE i.category IN ('teapots', 'lanterns')
+         WHERE i.category IN ('teapots', 'lanterns') AND (i.added_at IS NULL OR i.added_at <= ?)
          GROUP BY i.id ORDER BY count(DISTINCT s.customer_id) DESC, i.id LIMIT 5`,
       )
       .pluck()
-      .all(start - 28 * DAY, start) as string[];
+      .all(start - 28 * DAY, start, start) as string[]; // only items that existed when the window opened
 
     expect(r.audienceActive).toBe(active);
     expect(r.shelf.items).toHaveLength(5);

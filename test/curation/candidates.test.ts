@@ -16,6 +16,7 @@ const ctx = context([
   item(9, { addedAt: EDITION - 400 * DAY }), // 8: too old
   item(10), // 9: already in the edition
   item(11, { price: null }), // 10: unknown price fails a set band
+  item(12, { addedAt: EDITION + 3 * DAY }), // 11: added after the edition date
 ]);
 
 const b = brief(
@@ -40,6 +41,7 @@ describe('buildCandidatePool', () => {
     expect(Array.from(pool.items)).toEqual([0]);
     expect(pool.excluded).toEqual({
       outOfStock: 1,
+      notYetAdded: 1,
       banned: 1,
       banRule: 1,
       resting: 1,
@@ -50,6 +52,16 @@ describe('buildCandidatePool', () => {
       age: 1,
       inEdition: 1,
     });
+  });
+
+  it('leaves out an item added after the edition date, but not one whose date is unknown', () => {
+    const open = brief({}, { restPeriod: 0 });
+    const later = buildCandidatePool(ctx, open, state({}), EDITION);
+    expect(later.items).not.toContain(11);
+    expect(later.excluded.notYetAdded).toBe(1);
+    expect(buildCandidatePool(context([item(1, { addedAt: null })]), open, state({}), EDITION).items).toContain(0);
+    // Four days on, the item exists and is proposed.
+    expect(buildCandidatePool(ctx, open, state({}), EDITION + 4 * DAY).items).toContain(11);
   });
 
   it('lets pinned items past rest, bans and filters but never out-of-stock ones', () => {

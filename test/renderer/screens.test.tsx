@@ -59,4 +59,14 @@ describe('shelf editor', () => {
     expect(screen.getByRole('button', { name: 'Undo' }).hasAttribute('disabled')).toBe(false);
     expect(screen.getByText(/^Pinned$/, { selector: '.history li' })).toBeTruthy();
   });
+
+  it('says why items are missing from the pool: here, added after a back-dated edition', async () => {
+    // The seed adds item k (0-based) on 1 October 2026 + k days: on 5 October, seven of twelve are still to come.
+    await store.getState().newEdition('Early', '2026-10-05');
+    await store.getState().addShelf('Row', { size: 4 });
+    store.getState().openShelf('Row');
+    store.getState().go('shelf');
+    renderApp();
+    expect(await screen.findByText('Left out of the pool: 7 added after the edition date')).toBeTruthy();
+  });
 });

@@ -25,6 +25,7 @@ export interface EditorialState {
 /** Why an item is not in the pool. Each item counts once, under the first reason in this order. */
 export const EXCLUSION_REASONS = [
   'outOfStock',
+  'notYetAdded',
   'banned',
   'banRule',
   'resting',
@@ -53,6 +54,8 @@ export interface CompiledFilters {
   priceMax: number;
   /** Items added before this time (unix ms) are too old; -Infinity = any age. */
   addedAfter: number;
+  /** The edition's date (unix ms): items added later are not proposed. */
+  editionDate: number;
   allowRepeat: boolean;
   restOn: boolean;
 }
@@ -98,6 +101,7 @@ export function compileFilters(
     priceMin: brief.priceBand.min ?? -Infinity,
     priceMax: brief.priceBand.max ?? Infinity,
     addedAfter: brief.maxAgeDays === undefined ? -Infinity : editionDate - brief.maxAgeDays * DAY_MS,
+    editionDate,
     allowRepeat: brief.rules.allowRepeatInEdition,
     restOn: brief.rules.restPeriod > 0,
   };
@@ -138,6 +142,9 @@ export function exclusionReasons(
     return firstOnly;
   };
   if (ctx.available[i] === 0 && add('outOfStock')) return out;
+  // An item added after the edition's date did not exist yet for that edition (a back-dated edition, or
+  // one built to compare against history); an unknown date is no reason to leave it out.
+  if ((ctx.addedAt[i] as number) > cf.editionDate && add('notYetAdded')) return out;
   if (state.bans.has(i) && add('banned')) return out;
   let ruled = false;
   for (const f of FACETS) {

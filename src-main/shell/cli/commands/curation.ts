@@ -4,6 +4,7 @@ import { checkOutputFile, writeFileWhole } from '../../../services/user-file.ts'
 import { call } from '../call.ts';
 import { EXIT, type CliCommand, type CommandEnv, type OptionSpec } from '../command.ts';
 import { list, num, positionals, str } from '../flags.ts';
+import { describeExclusions } from '../../../core/curation/exclusion-words.ts';
 import { formatNumber, table } from '../format.ts';
 import { UsageError } from '../command.ts';
 
@@ -37,7 +38,8 @@ export function renderShelf(v: ShelfView): string {
     `relevance ${val(m.predictedRelevance)}`,
     `saturated slots ${m.saturatedSlots.length}`,
   ].join(' · ');
-  const resting = v.excluded['resting'] ? `\nresting (rest period): ${v.excluded['resting']} items held back` : '';
+  const left = describeExclusions(v.excluded);
+  const resting = left ? `\nleft out of the pool: ${left}` : '';
   const viol = v.violations.length ? `\nrules not met:\n${v.violations.map((x) => `  ${x.rule}: ${x.reason}`).join('\n')}` : '';
   return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\nmeter: ${meter}${resting}${viol}`;
 }

@@ -7,7 +7,6 @@ import { fitContent, loadContent } from '../core/models/content.ts';
 import { loadEase } from '../core/models/ease.ts';
 import { loadIals } from '../core/models/ials.ts';
 import { fitItemKnn, loadItemKnn } from '../core/models/itemknn.ts';
-import { trendRatios } from '../core/models/popularity.ts';
 import type { ModelKind, Scorer } from '../core/models/scorer.ts';
 import {
   audienceAffinityInto,
@@ -20,7 +19,7 @@ import {
 import type { Dataset } from '../core/types.ts';
 import { ModelRepo } from '../store/models.ts';
 import type { Db } from '../store/workspace.ts';
-import { loadWorld, type ModelSource } from './curation/world.ts';
+import { loadWorld, trendFor, type ModelSource } from './curation/world.ts';
 
 export interface LoadedModels {
   models: HybridModels;
@@ -161,7 +160,8 @@ export function propose(db: Db, brief: Brief, options: ProposeOptions): Proposal
   };
   const pool = buildCandidatePool(ctx, brief, state, editionDate);
   const addedAt = Float64Array.from(ds.items, (it) => it.addedAt ?? Number.NaN);
-  const trend = ds.signals.length > 0 ? Float32Array.from(trendRatios(ds, { now: editionDate })) : null;
+  // The same trend as a shelf of an edition on this date (curation/world.ts trendFor).
+  const trend = trendFor(world, editionDate) ?? world.hybrid.data.trend;
   const hybrid = new HybridScorer(loaded.models, { customersPerItem: world.customersPerItem, trend, addedAt });
 
   const audience = resolveAudience(ds, brief.audience, editionDate, world.groups);

@@ -56,6 +56,8 @@ export interface PoolRequest {
   audienceAffinity?: Float32Array | null;
   /** Boost (> 1) / sink (< 1) factor per dense item index, applied after blending. */
   multipliers?: ReadonlyMap<number, number>;
+  /** Trend ratios measured at another time than the scorer's own (a back-dated edition); absent = its own. */
+  trend?: Float32Array | null;
 }
 
 /**
@@ -143,7 +145,7 @@ export class HybridScorer {
       anchors.length > 0 && this.models.collaborative !== null,
       affinity !== null,
       true,
-      this.data.trend !== null,
+      (req.trend === undefined ? this.data.trend : req.trend) !== null,
       true,
     ];
     const w = effectiveWeights(req.weights, available);
@@ -155,7 +157,8 @@ export class HybridScorer {
     const cold = new Uint8Array(n);
     const fresh = this.freshnessAt(req.editionDate);
     const cpi = this.data.customersPerItem;
-    const trend = this.data.trend;
+    const trend = req.trend === undefined ? this.data.trend : req.trend;
+    if (trend && trend.length !== N) throw new InputError(`trend has ${trend.length} items, expected ${N}`);
     const invA = anchors.length > 0 ? 1 / anchors.length : 0;
     for (let p = 0; p < n; p++) {
       const i = pool[p]!;

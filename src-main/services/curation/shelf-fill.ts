@@ -18,7 +18,7 @@ import type { Shelf, SlotRow } from '../../store/shelves.ts';
 import type { Db } from '../../store/workspace.ts';
 import { scoredPool } from './pool-cache.ts';
 import { curationRepos } from './repos.ts';
-import type { CurationWorld } from './world.ts';
+import { trendFor, type CurationWorld } from './world.ts';
 
 export interface FilledShelf {
   slots: SlotRow[];
@@ -168,7 +168,8 @@ export function fillAndMeter(
   const scored = scoredPool(world, brief, state, editionDate, multipliers, (pool) => {
     const anchors = Int32Array.from(brief.anchors.map((id) => ctx.indexOfId.get(id) ?? -1).filter((i) => i >= 0));
     const audienceAffinity = audienceAffinityOf(world, brief, editionDate);
-    return hybrid.scorePool({ pool: pool.items, anchors, weights: brief.weights, editionDate, audienceAffinity, multipliers });
+    const trend = trendFor(world, editionDate);
+    return hybrid.scorePool({ pool: pool.items, anchors, weights: brief.weights, editionDate, audienceAffinity, multipliers, ...(trend !== undefined && { trend }) });
   });
   const { pool, scores, posOf, relevance } = scored;
 

@@ -121,12 +121,35 @@ export function loadWorld(db: Db, source: ModelSource = noModels): CurationWorld
   const vectors = m.vectors ?? attributeVectors(ds);
   const ctx = buildCurationContext(ds.items, { vectors: vectors.data, dim: vectors.dim, popularity, customerCount: nC });
   const addedAt = Float64Array.from(ds.items, (it) => it.addedAt ?? NaN);
-  // Trend at the end of the history (trendRatios' documented default: 14-day windows ending just after the
-  // latest signal). An edition is usually dated after the last signal; measuring at its date would leave
-  // the recent window partly empty, so "rising" means rising in the latest data we hold.
+  // Trend at the end of the history (trendRatios' default: 14-day windows ending just after the latest
+  // signal), the reading for any edition dated after it; `trendFor` gives back-dated editions their own.
   const trend = ds.signals.length > 0 ? Float32Array.from(trendRatios(ds)) : null;
   const hybrid = new HybridScorer(m.models, { customersPerItem, trend, addedAt });
   const world: CurationWorld = { ds, ctx, hybrid, customersPerItem, groups: m.groups, byCustomer, memo: new Map() };
   bySource.set(source, { stamp: st, world });
   return world;
+}
+
+/**
+ * The trend ratios an edition is scored with, one rule for shelves and `propose`: measured at the edition's
+ * date, or at the end of the history when the edition is dated after the last signal. An edition is usually
+ * planned ahead of the data, and measuring at its date would leave the recent window partly empty; a
+ * back-dated edition must not see signals from after its date. Returns undefined for "the world's own".
+ */
+export function trendFor(world: CurationWorld, editionDate: number): Float32Array | null | undefined {
+  const s = world.ds.signals;
+  if (s.length === 0) return undefined;
+  let last = -Infinity;
+  const key = 'trend:last';
+  const known = world.memo.get(key) as number | undefined;
+  if (known !== undefined) last = known;
+  else {
+    for (let k = 0; k < s.length; k++) if (s.at[k]! > last) last = s.at[k]!;
+    world.memo.set(key, last);
+  }
+  if (!(editionDate < last + 1)) return undefined;
+  const at = `trend@${editionDate}`;
+  let trend = world.memo.get(at) as Float32Array | undefined;
+  if (!trend) world.memo.set(at, (trend = Float32Array.from(trendRatios(world.ds, { now: editionDate }))));
+  return trend;
 }

@@ -61,6 +61,17 @@ const BRIEF_OPTIONS: OptionSpec = {
   audience: { type: 'string' },
 };
 
+/** Only on `shelf brief`: taking quotas off the brief the shelf has. */
+const DROP_QUOTA_OPTIONS: OptionSpec = {
+  'drop-quota': { type: 'string', multiple: true },
+  'no-quotas': { type: 'boolean' },
+};
+
+const DROP_QUOTA_ABOUT: Record<string, string> = {
+  'drop-quota': 'repeatable: FACET[:VALUE], take that quota off first (FACET alone: the one naming no VALUE)',
+  'no-quotas': 'remove every quota the brief has before any --quota is added',
+};
+
 /** One line per brief flag; `changing` is `shelf brief`, where a flag left out keeps what the brief has. */
 function briefAbout(changing: boolean): Record<string, string> {
   const keep = ' (default: unchanged)';
@@ -68,7 +79,7 @@ function briefAbout(changing: boolean): Record<string, string> {
     size: changing ? 'number of slots, 1 to 200 (default: keep the current size)' : 'number of slots, 1 to 200 (required unless --brief sets it)',
     brief: changing ? "a whole brief as JSON, replacing the shelf's brief; other flags apply on top" : 'a whole brief as JSON; the other flags apply on top of it',
     quota: changing
-      ? 'repeatable: FACET:MAX[:VALUE], added to the quotas the brief already has'
+      ? 'repeatable: FACET:MAX[:VALUE], added to the quotas the brief already has (after --drop-quota, --no-quotas)'
       : 'repeatable: FACET:MAX[:VALUE], at most MAX items per category, supplier or tag',
     'promoted-max': `largest share of slots sponsored items may take, 0 to 1${changing ? keep : ' (default no limit)'}`,
     'promoted-min': `smallest share of slots sponsored items must take, 0 to 1${changing ? keep : ' (default none)'}`,
@@ -82,6 +93,43 @@ function briefAbout(changing: boolean): Record<string, string> {
       ? 'who it is for: everyone, group:N or bought:CATEGORY[:DAYS], DAYS default 90'
       : 'who it is for: everyone (default), group:N or bought:CATEGORY[:DAYS], DAYS default 90',
   };
+}
+
+const QUOTA_FACETS = ['category', 'supplier', 'tag'];
+
+/** A quota as a brief may hold it; a --brief JSON is not checked yet when the flags are applied. */
+type QuotaLike = { facet?: unknown; max?: unknown; value?: unknown };
+
+/** How --drop-quota names a quota: FACET, or FACET:VALUE when the quota names a value. */
+const quotaKey = (q: QuotaLike): string => (q.value === undefined ? String(q.facet) : `${String(q.facet)}:${String(q.value)}`);
+
+/**
+ * The quotas left after --no-quotas or --drop-quota (the array given back unchanged when neither is set).
+ * A --drop-quota that matches none of the brief's quotas is a usage error listing the quotas it has.
+ */
+function dropQuotas(env: CommandEnv, current: unknown): unknown {
+  const drops = list(env, 'drop-quota');
+  const clear = env.values['no-quotas'] === true;
+  if (!clear && drops.length === 0) return current;
+  if (clear && drops.length > 0) throw new UsageError('--no-quotas already removes every quota; leave out --drop-quota');
+  if (clear) return [];
+  const have = Array.isArray(current) ? (current as QuotaLike[]) : [];
+  const keys = drops.map((d) => {
+    const [facet, ...value] = d.split(':');
+    if (!QUOTA_FACETS.includes(facet ?? '') || (value.length > 0 && value.join(':') === '')) {
+      throw new UsageError(`--drop-quota expects FACET[:VALUE] with FACET category, supplier or tag, got '${d}'`);
+    }
+    return d;
+  });
+  const missing = keys.filter((k) => !have.some((q) => quotaKey(q) === k));
+  if (missing.length > 0) {
+    const listed = have.map((q) => `${quotaKey(q)} (max ${String(q.max)})`).join(', ');
+    throw new UsageError(
+      `--drop-quota ${missing.map((k) => `'${k}'`).join(', ')}: no such quota on the brief; ` +
+        (have.length ? `its quotas are ${listed}` : 'it has no quotas'),
+    );
+  }
+  return have.filter((q) => !keys.includes(quotaKey(q)));
 }
 
 const REASON_ABOUT = "why, in your own words; kept in the shelf's action log (optional)";
@@ -98,6 +146,8 @@ function briefFrom(env: CommandEnv, base: Brief | undefined): Brief {
   const size = num(env, 'size', (x) => Number.isInteger(x) && x >= 1, 'a whole number >= 1');
   if (size !== undefined) b['size'] = size;
   const rules = { ...((b['rules'] as Record<string, unknown> | undefined) ?? {}) };
+  const kept = dropQuotas(env, rules['quotas']);
+  if (kept !== rules['quotas']) rules['quotas'] = kept;
   const quotas = list(env, 'quota').map((q) => {
     const [facet, max, ...value] = q.split(':');
     if (!['category', 'supplier', 'tag'].includes(facet ?? '') || !/^\d+$/.test(max ?? '')) {
@@ -342,10 +392,19 @@ export const curationCommands: CliCommand[] = [
   {
     name: 'shelf brief',
     summary: "change a shelf's brief (quotas, promoted bounds, rest period, size) and fill it again",
-    usage: ['EDITION SHELF [--size N] [--quota FACET:MAX[:VALUE]]... [--promoted-max SHARE] [--rest N] [--brief JSON]'],
-    options: BRIEF_OPTIONS,
-    about: briefAbout(true),
-    help: `Flags left out keep the brief's current value; a --quota adds to the quotas it has.\n\nexample:\n  shelfwright shelf brief "week 10" Front --quota supplier:2 --promoted-max 0.2`,
+    usage: [
+      'EDITION SHELF [--size N] [--quota FACET:MAX[:VALUE]]... [--drop-quota FACET[:VALUE]]... [--no-quotas] [--promoted-max SHARE] [--promoted-min SHARE] [--rest N] [--category NAME]... [--audience WHO] [--brief JSON]',
+    ],
+    options: { ...BRIEF_OPTIONS, ...DROP_QUOTA_OPTIONS },
+    about: { ...briefAbout(true), ...DROP_QUOTA_ABOUT },
+    help: [
+      "Flags left out keep the brief's current value. Quotas: --no-quotas or --drop-quota first take quotas off,",
+      'then each --quota is added; dropping a quota the brief does not have is refused and changes nothing.',
+      '',
+      'examples:',
+      '  shelfwright shelf brief "week 10" Front --quota supplier:2 --promoted-max 0.2',
+      '  shelfwright shelf brief "week 10" Front --drop-quota category --quota category:3',
+    ].join('\n'),
     async run(env) {
       const [edition, shelf] = positionals(env, ['EDITION', 'SHELF']);
       const { table: t } = env.api();

@@ -119,7 +119,7 @@ export function time(v: unknown, dateOrder: DateOrder | undefined): number | Bad
   }
   m = SLASH.exec(s);
   if (m) {
-    if (!dateOrder) return bad(`ambiguous date ${describe(v)}: pass dateOrder 'dmy' or 'mdy'`);
+    if (!dateOrder) return bad(`ambiguous date ${describe(v)}: day first or month first? Choose the date order, dmy or mdy (--date-order on the command line)`);
     const [, a, b, y, h, mi, sec] = m;
     const [d, mo] = dateOrder === 'dmy' ? [+a!, +b!] : [+b!, +a!];
     const at = civil(+y!, mo, d, h ? +h : 0, mi ? +mi : 0, sec ? +sec : 0, 0);

@@ -94,6 +94,44 @@ describe('shelfwright train / evaluate / similar / propose / recommend', () => {
     expect(text.out).toMatch(/NDCG@20/);
   }, 30_000);
 
+  it('evaluate refuses flags of the other mode: --sample with --holdout, holdout-file flags without it', async () => {
+    const cases: [string[], RegExp][] = [
+      [['--holdout', holdout, '--sample', '100'], /--sample only works without --holdout/],
+      [['--map', 'customer=User'], /--map only works with --holdout FILE/],
+      [['--format', 'csv'], /--format only works with --holdout FILE/],
+      [['--delimiter', ';'], /--delimiter only works with --holdout FILE/],
+      [['--date-order', 'dmy'], /--date-order only works with --holdout FILE/],
+      [['--holdout', holdout, '--date-order', 'ymd'], /--date-order must be dmy or mdy/],
+    ];
+    for (const [flags, message] of cases) {
+      const r = await run('evaluate', ...flags);
+      expect(r.code, flags.join(' ')).toBe(1);
+      expect(r.err, flags.join(' ')).toMatch(message);
+      expect(r.err).toMatch(/Run 'shelfwright evaluate --help'/);
+    }
+    const help = await run('evaluate', '--help');
+    expect(help.out).toMatch(/--holdout FILE .*\[--delimiter C\] \[--date-order dmy\|mdy\]/);
+    expect(help.out).toMatch(/--date-order .*dmy or mdy/);
+  });
+
+  it('evaluate --holdout --date-order reads day/month dates in the holdout file', async () => {
+    // The held-out pairs (customer, item) with slash dates: 25/04/2026 is only a date read day-first.
+    const pairs = fs.readFileSync(holdout, 'utf8').trim().split('\n').slice(1).map((l) => l.split(',').slice(0, 2));
+    const file = path.join(dir, 'dated.csv');
+    fs.writeFileSync(file, ['customer;item;at', ...pairs.map(([c, i], q) => `${c};${i};${q % 2 ? '25/04/2026' : '03/04/2026'}`)].join('\n'));
+    const ambiguous = await run('evaluate', '--holdout', file, '--delimiter', ';');
+    expect(ambiguous.code).toBe(2);
+    expect(ambiguous.err).toMatch(/ambiguous date/);
+    const r = await json('evaluate', '--holdout', file, '--delimiter', ';', '--date-order', 'dmy');
+    expect(r.rows).toBe(pairs.length);
+    expect(r.unknownCustomers.examples).toEqual(['nobody-at-all']);
+    expect(r.pairs).toBeGreaterThan(0);
+    // Month-first, 25/04/2026 has no month 25: the order really reaches the reader.
+    const mdy = await run('evaluate', '--holdout', file, '--delimiter', ';', '--date-order', 'mdy');
+    expect(mdy.code).toBe(2);
+    expect(mdy.err).toMatch(/25\/04\/2026/);
+  }, 30_000);
+
   it('similar explains each neighbour; unknown items are data errors, a missing one a usage error', async () => {
     const r = await json('similar', firstItem, '--n', '5');
     expect(r.neighbours).toHaveLength(5);

@@ -54,7 +54,7 @@ describe('rows that fail: the whole import changes nothing and each row is named
     const { r } = await rejected('signals', 'customer,item,kind,at\nr1,b1,view,2026-02-30\nr1,b2,view,03/04/2026\n');
     expect(r.errors.map((e) => [e.line, e.column])).toEqual([[2, 4], [3, 4]]);
     expect(r.errors[0]!.reason).toMatch(/day out of range/);
-    expect(r.errors[1]!.reason).toMatch(/pass dateOrder/);
+    expect(r.errors[1]!.reason).toMatch(/day first or month first\? Choose the date order, dmy or mdy/);
   });
   it('negative or non-numeric prices and values', async () => {
     const { r } = await rejected('items', 'id,title,price\nb1,X,-2\nb2,Y,cheap\n');

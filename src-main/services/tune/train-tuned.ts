@@ -73,10 +73,46 @@ export function storeTuning(db: Db, summary: TrainSummary, tuning: TuneResult): 
   })();
 }
 
+/** One grid setting that the caller's own parameter replaced in the final training. */
+export interface TunedOverride {
+  model: 'itemknn' | 'ials' | 'ease';
+  param: string;
+  /** The value trained with (the caller's). */
+  used: number | string;
+  /** The grid's best, which was not used. */
+  best: number | string;
+}
+
+/**
+ * The grid's best settings that the caller's own parameters overrode: tuneAndTrain trains with the caller's
+ * value wherever one was given, so the grid's best is then only what the search found, not what was trained.
+ */
+export function tunedOverrides(params: TrainOptions['params'], tuning: Pick<TuneResult, 'models'>): TunedOverride[] {
+  const out: TunedOverride[] = [];
+  for (const m of tuning.models) {
+    if (m.model === 'hybrid') continue;
+    const given = params?.[m.model] as Record<string, unknown> | undefined;
+    for (const [param, best] of Object.entries(m.best)) {
+      const used = given?.[param];
+      if ((typeof used === 'number' || typeof used === 'string') && used !== best) out.push({ model: m.model, param, used, best });
+    }
+  }
+  return out;
+}
+
+/** The job summary of a tuned training: the grid results, and any setting of the caller's that was trained instead. */
+export function tunedSummary(summary: Pick<TrainSummary, 'models' | 'elapsedMs'>, tuning: TuneResult, overrides: readonly TunedOverride[]): string {
+  const best = tuning.models.map((m) => `${m.model} NDCG@${tuning.k} ${m.ndcg.toFixed(3)}`).join(', ');
+  const text = `tuned (${tuning.split.method} split; ${best}) and trained ${plural(summary.models.length, 'model')} in ${((tuning.elapsedMs + summary.elapsedMs) / 1000).toFixed(1)} s`;
+  if (!overrides.length) return text;
+  const given = overrides.map((o) => `${o.model} ${o.param}=${o.used} (the grid's best was ${o.best})`).join(', ');
+  return `${text}; trained with your own ${given}`;
+}
+
 export function tunedTrainJob(db: Db, file: string, options: TrainOptions, tune: Omit<TuneOptions, 'signal' | 'onProgress'> = {}): JobBody {
   return async (report, signal) => {
     const { summary, tuning } = await tuneAndTrain(db, file, options, tune, report, signal);
-    const best = tuning.models.map((m) => `${m.model} NDCG@${tuning.k} ${m.ndcg.toFixed(3)}`).join(', ');
-    return `tuned (${tuning.split.method} split; ${best}) and trained ${plural(summary.models.length, 'model')} in ${((tuning.elapsedMs + summary.elapsedMs) / 1000).toFixed(1)} s`;
+    const trained = new Set<string>(summary.models);
+    return tunedSummary(summary, tuning, tunedOverrides(options.params, tuning).filter((o) => trained.has(o.model)));
   };
 }

@@ -14,6 +14,28 @@ const only = <T extends object>(o: T) => Object.fromEntries(Object.entries(o).fi
 
 const MODEL_KINDS = ['content', 'itemknn', 'ials', 'ease', 'popularity'] as const;
 
+type StoredModel = ResponseOf<'models.list'>['models'][number];
+
+/**
+ * The "tuned" column of `train`: the settings the model was trained with, the grid's best beside any that a
+ * flag replaced (train.start trains with the caller's value over the grid's), and the grid's best NDCG.
+ */
+function tunedCell(m: StoredModel, given: Record<string, Record<string, unknown>>): string {
+  const t = m.tuning;
+  if (!t) return '';
+  const ndcg = `NDCG@${t.k} ${val(t.grid.ndcg)}`;
+  if (t.grid.model === 'hybrid') return `hybrid ${Object.entries(t.grid.best).map(([a, b]) => `${a}=${b}`).join(' ')} (${ndcg})`;
+  let overridden = false;
+  const parts = Object.entries(t.grid.best).map(([param, best]) => {
+    const used = m.params[param];
+    if ((typeof used !== 'number' && typeof used !== 'string') || used === best) return `${param}=${best}`;
+    overridden = true;
+    const why = given[m.kind]?.[param] === used ? 'your flag' : 'set by hand';
+    return `${param}=${used} (${why}; the grid's best was ${best})`;
+  });
+  return `${parts.join(' ')} (${overridden ? `the grid's best scored ${ndcg}` : ndcg})`;
+}
+
 const trainCommand: CliCommand = {
   name: 'train',
   summary: 'train the models (progress on stderr, a summary at the end); --tune searches each model\'s grid first',
@@ -91,14 +113,13 @@ const trainCommand: CliCommand = {
       env.io.out(JSON.stringify({ job: end, models: stored }, null, 2));
       return EXIT.ok;
     }
+    const given: Record<string, Record<string, unknown>> = { ials, itemknn, ease: only({ lambda }) };
     const rows = stored.map((m) => [
       m.kind,
       m.trainMs / 1000,
       m.iterations ?? '–',
       m.losses.length ? (m.losses.at(-1) as number) : '–',
-      m.tuning
-        ? `${m.tuning.grid.model === 'hybrid' ? 'hybrid ' : ''}${Object.entries(m.tuning.grid.best).map(([a, b]) => `${a}=${b}`).join(' ')} (NDCG@${m.tuning.k} ${val(m.tuning.grid.ndcg)})`
-        : '',
+      tunedCell(m, given),
       m.notes.join('; '),
     ]);
     env.io.out(`${end.summary ?? 'done'}\n${table(['model', 'seconds', 'iterations', 'final loss', 'tuned', 'notes'], rows)}`);
@@ -118,7 +139,10 @@ function metricsTable(rows: Row[], k: number, extra: (r: Row) => (string | numbe
 const evaluateCommand: CliCommand = {
   name: 'evaluate',
   summary: 'evaluate every model against baselines on a time split, or against your own holdout file (--holdout)',
-  usage: ['[--k K] [--sample N] [--json]', '--holdout FILE [--k K] [--map FIELD=HEADER ...] [--format csv|jsonl|json] [--json]'],
+  usage: [
+    '[--k K] [--sample N] [--json]',
+    '--holdout FILE [--k K] [--map FIELD=HEADER ...] [--format csv|jsonl|json] [--delimiter C] [--date-order dmy|mdy] [--json]',
+  ],
   options: {
     k: { type: 'string' },
     sample: { type: 'string' },
@@ -126,6 +150,7 @@ const evaluateCommand: CliCommand = {
     map: { type: 'string', multiple: true },
     format: { type: 'string' },
     delimiter: { type: 'string' },
+    'date-order': { type: 'string' },
   },
   about: {
     k: 'list length scored: 1 to 200 (default 10), with --holdout 1 to 500 (default 20)',
@@ -134,14 +159,25 @@ const evaluateCommand: CliCommand = {
     map: 'repeatable, with --holdout: FIELD=HEADER, read FIELD from column HEADER',
     format: 'with --holdout: csv, json or jsonl (default: from the file extension)',
     delimiter: 'with --holdout: the CSV column separator, one character (default: detected)',
+    'date-order': 'with --holdout: dmy or mdy, for dates like 03/04/2026 in the file (ISO 8601 dates need none)',
   },
   help: [
     'Recall@K divides by min(K, |held-out items|) (Liang et al. 2018); NDCG@K is binary with a log2 discount.',
     'Holdout file: customer, item, optional value and time, headers matched as for a signal import;',
-    '--map customer=User maps a column by hand. Unknown customers and items are counted and reported.',
+    '--map customer=User maps a column by hand; day/month dates like 03/04/2026 need --date-order dmy or mdy.',
+    'Unknown customers and items are counted and reported.',
   ].join('\n'),
   async run(env) {
     const holdout = str(env, 'holdout');
+    if (holdout === '') throw new UsageError('--holdout takes a FILE');
+    // Each flag belongs to one of the two modes; one given to the other would be silently ignored.
+    if (holdout !== undefined && env.values['sample'] !== undefined) {
+      throw new UsageError('--sample only works without --holdout (a holdout file is scored on all its customers)');
+    }
+    if (holdout === undefined) {
+      const holdoutOnly = ['map', 'format', 'delimiter', 'date-order'].find((f) => env.values[f] !== undefined);
+      if (holdoutOnly) throw new UsageError(`--${holdoutOnly} only works with --holdout FILE`);
+    }
     const maxK = holdout ? 500 : 200; // the api's bounds for evaluate.holdout and evaluate.start
     const k = num(env, 'k', (x) => Number.isInteger(x) && x >= 1 && x <= maxK, `a whole number from 1 to ${maxK}`);
     const { table: t } = env.api();
@@ -154,12 +190,15 @@ const evaluateCommand: CliCommand = {
       }
       const format = str(env, 'format');
       if (format !== undefined && !['csv', 'json', 'jsonl'].includes(format)) throw new UsageError(`--format must be csv, json or jsonl, got '${format}'`);
+      const dateOrder = str(env, 'date-order');
+      if (dateOrder !== undefined && dateOrder !== 'dmy' && dateOrder !== 'mdy') throw new UsageError(`--date-order must be dmy or mdy, got '${dateOrder}'`);
       const r = await call(t, 'evaluate.holdout', only({
         source: { file: holdout },
         k: k ?? 20,
         mapping: Object.keys(mapping).length ? mapping : undefined,
         format: format as 'csv' | 'json' | 'jsonl' | undefined,
         delimiter: str(env, 'delimiter'),
+        dateOrder: dateOrder as 'dmy' | 'mdy' | undefined,
       }));
       if (env.json) {
         env.io.out(JSON.stringify(r, null, 2));

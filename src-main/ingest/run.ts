@@ -57,10 +57,11 @@ export const PROGRESS_EVERY = 10_000;
  * Signal files from this size on are parsed in a worker thread (when `parseThread` is not given and the
  * worker's file is there). The thread costs ~0.4 s to start under the TypeScript loader (tsx) and then saves
  * the INSERT time (~0.5 s per 1M rows) by overlapping it with parsing: on 1M rows (42 MB) the two paths tie,
- * 235,000 rows/s each; on 3M rows (126 MB) the thread wins, 257,000 vs 240,000 rows/s (bench/import.bench.ts,
- * load 1.2-1.6 on two cores, measured 2026-12-02). Below 32 MiB one thread is as fast and lighter.
+ * 235,000 rows/s each at load 1.6, and one thread wins at load 2 (241,000 vs 223,000); on 3M rows (126 MB)
+ * the thread wins, 257,000 vs 240,000 rows/s at load 1.2 (bench/import.bench.ts, two cores, measured
+ * 2026-12-02). Below 64 MiB (about 1.5M signal rows) one thread is as fast or faster, and lighter.
  */
-export const PIPELINE_MIN_BYTES = 32 << 20;
+export const PIPELINE_MIN_BYTES = 64 << 20;
 
 /**
  * One import as ONE transaction. better-sqlite3's `transaction()` cannot span the awaits of a stream, so

@@ -1,8 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { main } from '../../src-main/shell/cli/main.ts';
-import { openWorkspace } from '../../src-main/store/workspace.ts';
-import { seedWorkspace, tempFile } from '../curation-services/fixture.ts';
 import { capture } from './capture.ts';
+import { seededCli } from './seeded-cli.ts';
 
 interface Slot {
   item: string | null;
@@ -17,21 +16,8 @@ interface Quota {
 
 /** A seeded workspace (40 items, 4 categories, 5 suppliers) with a draft edition and a four-slot shelf. */
 async function setUp() {
-  const w = tempFile('quotas.sqlite');
-  const db = openWorkspace(w);
-  seedWorkspace(db);
-  db.close();
-  const run = async (...argv: string[]) => {
-    const io = capture();
-    const code = await main([...argv, '-w', w], io, {});
-    return { code, out: io.stdout.join('\n'), err: io.stderr.join('\n') };
-  };
-  const json = async (...argv: string[]) => {
-    const r = await run(...argv, '--json');
-    expect(r.err).toBe('');
-    expect(r.code).toBe(0);
-    return JSON.parse(r.out) as { brief: { rules: { quotas: Quota[] } }; slots: Slot[]; violations: unknown[] };
-  };
+  const { run, json: anyJson } = seededCli('quotas.sqlite');
+  const json = (...argv: string[]) => anyJson<{ brief: { rules: { quotas: Quota[] } }; slots: Slot[]; violations: unknown[] }>(...argv);
   expect((await run('edition', 'new', 'week 10', '--date', '2026-03-02')).code).toBe(0);
   expect((await run('shelf', 'add', 'week 10', 'Front', '--size', '4')).code).toBe(0);
   return { run, json };

@@ -3,38 +3,12 @@ import path from 'node:path';
 import { parse } from 'csv-parse/sync';
 import { describe, expect, it } from 'vitest';
 import { main } from '../../src-main/shell/cli/main.ts';
-import type { CliIo } from '../../src-main/shell/cli/command.ts';
-import { openWorkspace } from '../../src-main/store/workspace.ts';
-import { seedWorkspace, tempFile } from '../curation-services/fixture.ts';
-
-function capture(): CliIo & { stdout: string[]; stderr: string[] } {
-  const stdout: string[] = [];
-  const stderr: string[] = [];
-  return { stdout, stderr, out: (t) => stdout.push(t), err: (t) => stderr.push(t), errIsTty: false };
-}
-
-function workspace(): string {
-  const file = tempFile('cli.sqlite');
-  const db = openWorkspace(file);
-  seedWorkspace(db);
-  db.close();
-  return file;
-}
+import { capture } from './capture.ts';
+import { seededCli } from './seeded-cli.ts';
 
 describe('shelfwright edition and shelf commands', () => {
   it('walks an edition from shelves to publish, rest period, compare and export', async () => {
-    const w = workspace();
-    const run = async (...argv: string[]) => {
-      const io = capture();
-      const code = await main([...argv, '-w', w], io, {});
-      return { code, out: io.stdout.join('\n'), err: io.stderr.join('\n') };
-    };
-    const json = async (...argv: string[]) => {
-      const r = await run(...argv, '--json');
-      expect(r.err).toBe('');
-      expect(r.code).toBe(0);
-      return JSON.parse(r.out);
-    };
+    const { file: w, run, json } = seededCli();
 
     expect((await run('edition', 'new', 'week 10', '--date', '2026-03-02')).code).toBe(0);
     for (const [label, size] of [['Front', '6'], ['Gifts', '4'], ['Newsletter', '5']] as const) {
@@ -121,7 +95,7 @@ describe('shelfwright edition and shelf commands', () => {
   });
 
   it('exits 1 on a usage error and 2 on a data error, and has --help with an example', async () => {
-    const w = workspace();
+    const { file: w } = seededCli();
     const io = capture();
     expect(await main(['shelf', 'pin', 'x', 'y', 'SKU-001', '-w', w], io, {})).toBe(1);
     expect(io.stderr.join('\n')).toMatch(/give --slot N/);

@@ -5,7 +5,7 @@ import { App } from '../../src-renderer/App.tsx';
 import { audienceOf, draftOf, type Audience } from '../../src-renderer/components/AudienceField.tsx';
 import { topPercent } from '../../src-renderer/components/format.ts';
 import { createAppStore, StoreContext, type AppStore } from '../../src-renderer/state/store.ts';
-import { seededHarness, type Harness } from './seed.ts';
+import { openRowInEditor, seededHarness, type Harness } from './seed.ts';
 
 describe('topPercent', () => {
   // "Top N%" = the share of the pool ranked at or above the item: the usual reading of a percentile rank
@@ -87,10 +87,7 @@ describe('forget a customer', () => {
 
 describe('anchors in the shelf editor', () => {
   it('searches, adds and removes anchors, then ranks the pool towards them on the "top N%" scale', async () => {
-    await store.getState().newEdition('Week 49', '2026-12-07');
-    await store.getState().addShelf('Row', { size: 4 });
-    store.getState().openShelf('Row');
-    store.getState().go('shelf');
+    await openRowInEditor(store, '2026-12-07', 4);
     renderApp();
     const panel = await screen.findByRole('region', { name: 'Anchors: rank towards items like these' });
     fireEvent.change(within(panel).getByLabelText('Find items by title or id'), { target: { value: 'Quiet' } });

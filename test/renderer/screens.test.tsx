@@ -3,7 +3,7 @@ import { cleanup, fireEvent, render, screen, waitFor, within } from '@testing-li
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { App } from '../../src-renderer/App.tsx';
 import { createAppStore, StoreContext, type AppStore } from '../../src-renderer/state/store.ts';
-import { seededHarness, type Harness } from './seed.ts';
+import { openRowInEditor, seededHarness, type Harness } from './seed.ts';
 
 let h: Harness;
 let store: AppStore;
@@ -44,10 +44,7 @@ describe('overview screen', () => {
 
 describe('shelf editor', () => {
   it('labels sponsored items in words and pins an item from its slot', async () => {
-    await store.getState().newEdition('Week 49', '2026-12-07');
-    await store.getState().addShelf('Row', { size: 12 });
-    store.getState().openShelf('Row');
-    store.getState().go('shelf');
+    await openRowInEditor(store, '2026-12-07', 12);
     renderApp();
     const slots = await screen.findByRole('list', { name: 'Slots' });
     // Two of the twelve invented items are promoted; a 12-slot shelf holds the whole catalogue.
@@ -62,10 +59,7 @@ describe('shelf editor', () => {
 
   it('says why items are missing from the pool: here, added after a back-dated edition', async () => {
     // The seed adds item k (0-based) on 1 October 2026 + k days: on 5 October, seven of twelve are still to come.
-    await store.getState().newEdition('Early', '2026-10-05');
-    await store.getState().addShelf('Row', { size: 4 });
-    store.getState().openShelf('Row');
-    store.getState().go('shelf');
+    await openRowInEditor(store, '2026-10-05', 4, 'Early');
     renderApp();
     expect(await screen.findByText('Left out of the pool: 7 added after the edition date')).toBeTruthy();
   });

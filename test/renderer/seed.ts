@@ -4,6 +4,7 @@ import path from 'node:path';
 import { createHandlerTable, invoke } from '../../src-main/api/handler-table.ts';
 import { AppContext } from '../../src-main/services/context.ts';
 import { createClient, type Client } from '../../src-renderer/client/client.ts';
+import type { AppStore } from '../../src-renderer/state/store.ts';
 
 /** Invented catalogue for renderer tests: names are made up, as the project rules ask. */
 export const TITLES = ['Lanterns of Ferrow Bay', 'Quiet Gardens', 'The Copper Kettle Atlas', 'Moss and Mortar', 'Paper Harbours', 'A Year of Small Soups', 'Ridgeline Notes', 'The Glass Orchard', 'Tin Whistle Mornings', 'Salt Road Sketches', 'Umber Hours', 'Wicker and Wool'];
@@ -47,4 +48,12 @@ export function seededHarness(): Harness {
       fs.rmSync(dir, { recursive: true, force: true });
     },
   };
+}
+
+/** A draft edition on `date` with one shelf 'Row' of `size` slots, open in the shelf editor. */
+export async function openRowInEditor(store: AppStore, date: string, size: number, edition = 'Week 49'): Promise<void> {
+  await store.getState().newEdition(edition, date);
+  await store.getState().addShelf('Row', { size });
+  store.getState().openShelf('Row');
+  store.getState().go('shelf');
 }

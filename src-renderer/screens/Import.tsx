@@ -1,4 +1,5 @@
 import { useId, useState, type FormEvent } from 'react';
+import { MAX_UPLOAD_BYTES } from '../../src-main/api/contracts/data.ts';
 import type { ImportSource, ImportTarget } from '../state/import-slice.ts';
 import { useApp } from '../state/store.ts';
 
@@ -55,6 +56,8 @@ function MappingTable({ target, headers, mapping, onChange }: { target: ImportTa
   );
 }
 
+const megabytes = (bytes: number) => `${(bytes / (1024 * 1024)).toFixed(bytes < 10 * 1024 * 1024 ? 1 : 0)} MB`;
+
 /** Import a catalogue, customers or signals: pick a file, check the mapping and the first rows, import. */
 export function Import() {
   const { preview, report, busy, error } = useApp((s) => s.importer);
@@ -64,6 +67,7 @@ export function Import() {
   const [target, setTarget] = useState<ImportTarget>('items');
   const [path, setPath] = useState('');
   const [upload, setUpload] = useState<{ fileName: string; content: string } | null>(null);
+  const [tooBig, setTooBig] = useState<string | null>(null);
   const [mapping, setMapping] = useState<Record<string, string>>({});
   const id = useId();
   const source: ImportSource | null = upload ?? (path.trim() ? { file: path.trim() } : null);
@@ -92,7 +96,7 @@ export function Import() {
           </div>
           <div className="field">
             <label htmlFor={`${id}-p`}>Path on this computer</label>
-            <input id={`${id}-p`} value={path} onChange={(e) => { setPath(e.target.value); setUpload(null); }} placeholder="/home/me/items.csv" />
+            <input id={`${id}-p`} value={path} onChange={(e) => { setPath(e.target.value); setUpload(null); setTooBig(null); }} placeholder="/home/me/items.csv" />
           </div>
           <div className="field">
             <label htmlFor={`${id}-u`}>…or upload a file (CSV, JSON, JSON Lines)</label>
@@ -103,8 +107,17 @@ export function Import() {
               onChange={async (e) => {
                 const f = e.target.files?.[0];
                 if (!f) return;
-                setUpload({ fileName: f.name, content: await f.text() });
                 setPath('');
+                if (f.size > MAX_UPLOAD_BYTES) {
+                  setUpload(null);
+                  setTooBig(
+                    `${f.name} is ${megabytes(f.size)}: files over ${megabytes(MAX_UPLOAD_BYTES)} are not sent through the window. ` +
+                      'Type its path in the field above instead; the app reads it straight from this computer.',
+                  );
+                  return;
+                }
+                setTooBig(null);
+                setUpload({ fileName: f.name, content: await f.text() });
               }}
             />
           </div>
@@ -114,6 +127,11 @@ export function Import() {
         </button>
       </form>
 
+      {tooBig && (
+        <p className="error" role="alert">
+          {tooBig}
+        </p>
+      )}
       {error && (
         <p className="error" role="alert">
           {error} Fix the file or the mapping, then preview again. Nothing was imported.

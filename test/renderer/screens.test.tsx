@@ -64,3 +64,23 @@ describe('shelf editor', () => {
     expect(await screen.findByText('Left out of the pool: 7 added after the edition date')).toBeTruthy();
   });
 });
+
+describe('import screen', () => {
+  it('does not read a file too big to upload, and says to give its path instead', async () => {
+    store.getState().go('import');
+    renderApp();
+    const input = await screen.findByLabelText('…or upload a file (CSV, JSON, JSON Lines)');
+    const big = new File(['customer,item,kind\n'], 'clicks.csv', { type: 'text/csv' });
+    Object.defineProperty(big, 'size', { value: 42 * 1024 * 1024 }); // a 1M-row signal file is about this size
+    let read = false;
+    big.text = async () => {
+      read = true;
+      return '';
+    };
+    fireEvent.change(input, { target: { files: [big] } });
+    expect((await screen.findByRole('alert')).textContent).toMatch(/^clicks\.csv is 42 MB: files over 24 MB are not sent through the window\. Type its path/);
+    expect(read).toBe(false);
+    expect(screen.getByRole('button', { name: 'Preview' }).hasAttribute('disabled')).toBe(true);
+  });
+});
+

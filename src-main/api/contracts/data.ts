@@ -10,6 +10,13 @@ export const ImportFormat = z.enum(['csv', 'json', 'jsonl']);
  * What to import: a file on this machine (CLI, Electron) or its content sent by a page (web shell upload,
  * where a browser cannot hand over a path), exactly one of the two; and how to read it.
  */
+/**
+ * The largest file a page uploads as `content`. The web shell refuses request bodies over 32 MiB, and a file
+ * grows when it is sent as a JSON string (every line break and quote is escaped), so uploads stop well below
+ * that; a bigger file is imported by its path, which the main process reads as a stream.
+ */
+export const MAX_UPLOAD_BYTES = 24 * 1024 * 1024;
+
 export const ImportRequest = z
   .object({
     file: z.string().min(1).optional(),

@@ -82,9 +82,14 @@ async function readCsv(file: string, sink: RowSink, given?: string): Promise<Sou
   // The delimiter and the line break are read from the first text, before Papa Parse starts (it copies
   // its options when it starts).
   let head = '';
-  for (let c = await chunks.next(); !c.done; c = await chunks.next()) {
-    head = c.value.replace(/^\uFEFF/, '');
-    if (head.length > 0) break;
+  try {
+    for (let c = await chunks.next(); !c.done; c = await chunks.next()) {
+      head = c.value.replace(/^\uFEFF/, '');
+      if (head.length > 0) break;
+    }
+  } catch (e) {
+    bytes.destroy(); // a binary or non-UTF-8 start: close the file now, not when collected
+    throw e;
   }
   const nl = head.indexOf('\n');
   const delimiter = given ?? detectDelimiter(nl < 0 ? head : head.slice(0, nl), file);

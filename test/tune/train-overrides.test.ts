@@ -3,14 +3,17 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createHandlerTable, invoke } from '../../src-main/api/handler-table.ts';
 import { AppContext } from '../../src-main/services/context.ts';
 import { main } from '../../src-main/shell/cli/main.ts';
-import { tunedOverrides } from '../../src-main/services/tune/train-tuned.ts';
+import { EASE_GRID, fixedParams, fullyFixed, IALS_CONFIDENCE_GRID, IALS_SIZE_GRID, itemKnnTrials, withFixed } from '../../src-main/services/tune/grid.ts';
+import { tunedSummary } from '../../src-main/services/tune/train-tuned.ts';
+import type { ModelTuning } from '../../src-main/services/tune/tune.ts';
 import { capture } from '../cli/capture.ts';
 import { handWorkspace, tempDir } from '../holdout/fixture.ts';
 
 /**
- * `train --tune` with hyper-parameter flags of the user's own: the flags win over the grid's best, and the
- * summary (the job's line and the "tuned" column) says so instead of showing the grid's best as trained.
- * The hand-worked workspace is the smallest the tune tests use.
+ * `train --tune` with hyper-parameter flags of the user's own: each flag's value is held fixed while the rest
+ * of that model's grid is searched, a model whose whole grid is fixed is not searched, and the summary (the
+ * job's line and the "tuned" column) shows the fixed values as fixed by the user. The hand-worked workspace
+ * is the smallest the tune tests use.
  */
 let dir: string;
 let ws: string;
@@ -31,50 +34,101 @@ async function run(...argv: string[]) {
   return { code, out: io.stdout.join('\n'), err: io.stderr.join('\n') };
 }
 
-describe('train --tune with flags of the user', () => {
-  it('shows the values trained, and the grid best beside each one a flag overrode', async () => {
-    // 3 factors and 2 neighbours are in no grid (factors 32/64, neighbours 20/50/100): always overrides.
-    const r = await run('train', '--tune', '--k', '3', '--iterations', '2', '--threads', '1', '--factors', '3', '--neighbours', '2');
-    expect(r.code, r.err).toBe(0);
-    const line = (kind: string) => r.out.split('\n').find((l) => l.startsWith(`${kind} `)) ?? '';
-    expect(line('ials')).toMatch(/factors=3 \(your flag; the grid's best was (32|64)\)/);
-    expect(line('ials')).not.toMatch(/factors=(32|64)/);
-    expect(line('ials')).toMatch(/the grid's best scored NDCG@3/);
-    expect(line('itemknn')).toMatch(/k=2 \(your flag; the grid's best was (20|50|100)\)/);
-    // Settings without a flag are the grid's best, shown as before.
-    expect(line('ease')).toMatch(/lambda=\d+ \(NDCG@3 /);
-    expect(line('ease')).not.toMatch(/your flag/);
-    // The job's summary line says which of the user's settings were trained instead of the grid's best.
-    const summary = r.out.split('\n')[0]!;
-    expect(summary).toMatch(/^tuned \(random split; .*\) and trained 5 models/);
-    expect(summary).toMatch(/trained with your own itemknn k=2 \(the grid's best was (20|50|100)\), ials factors=3 \(the grid's best was (32|64)\)/);
+type Stored = { kind: string; params: Record<string, unknown>; tuning: { grid: { best: Record<string, unknown>; ndcg: number | null; trials: { params: Record<string, unknown> }[] } } | null };
 
-    // What the column shows is what was stored and trained.
+describe('train --tune with flags of the user', () => {
+  it('searches only the settings not given: every trial holds the flags, fewer trials, the flag trained', async () => {
+    // 3 factors and 2 neighbours are in no grid (factors 32/64, neighbours 20/50/100); --lambda is EASE's whole grid.
+    const r = await run('train', '--tune', '--k', '3', '--iterations', '2', '--threads', '1', '--factors', '3', '--neighbours', '2', '--lambda', '300');
+    expect(r.code, r.err).toBe(0);
+
     const ctx = new AppContext();
     ctx.open(ws, { create: false });
+    let models: Stored[];
     try {
       const list = await invoke(createHandlerTable(ctx), 'models.list', {});
       if (!list.ok) throw new Error(list.error.message);
-      const models = (list.value as { models: { kind: string; params: Record<string, unknown> }[] }).models;
-      expect(models.find((m) => m.kind === 'ials')!.params['factors']).toBe(3);
-      expect(models.find((m) => m.kind === 'itemknn')!.params['k']).toBe(2);
+      models = (list.value as { models: Stored[] }).models;
     } finally {
       ctx.close();
     }
+    const model = (kind: string) => models.find((m) => m.kind === kind)!;
+
+    // iALS: the stored grid tried factors 3 only, in fewer trials than the full grid's 7; 3 was trained.
+    const ials = model('ials');
+    const ialsTrials = ials.tuning!.grid.trials;
+    expect(ialsTrials.length).toBeGreaterThan(1);
+    expect(ialsTrials.length).toBeLessThan(IALS_CONFIDENCE_GRID.length + IALS_SIZE_GRID.length - 1);
+    for (const t of ialsTrials) expect(t.params['factors']).toBe(3);
+    // The other settings were still searched: both scalings and both regularisations were tried.
+    expect(new Set(ialsTrials.map((t) => t.params['scaling']))).toEqual(new Set(['linear', 'log']));
+    expect(new Set(ialsTrials.map((t) => t.params['regularization'])).size).toBe(2);
+    expect(ials.params['factors']).toBe(3);
+    expect(ials.params).toMatchObject(ials.tuning!.grid.best);
+
+    // item-kNN: neighbours 2 in every trial, shrink varied; no point tried twice.
+    const knnTrials = model('itemknn').tuning!.grid.trials;
+    expect(knnTrials).toHaveLength(new Set(itemKnnTrials().map((p) => p.shrink)).size);
+    for (const t of knnTrials) expect(t.params['k']).toBe(2);
+    expect(new Set(knnTrials.map((t) => JSON.stringify(t.params))).size).toBe(knnTrials.length);
+    expect(model('itemknn').params['k']).toBe(2);
+
+    // EASE: its only grid parameter was given, so it was not searched at all.
+    const ease = model('ease');
+    expect(ease.tuning!.grid.trials).toEqual([]);
+    expect(ease.tuning!.grid.ndcg).toBeNull();
+    expect(ease.tuning!.grid.best).toEqual({ lambda: 300 });
+    expect(ease.params['lambda']).toBe(300);
+    // The api says so too (models.list, hence --json): what was fixed, and whether anything was searched.
+    expect(ease.tuning!.grid).toMatchObject({ fixed: { lambda: 300 }, searched: false });
+    expect(ials.tuning!.grid).toMatchObject({ fixed: { factors: 3 }, searched: true });
+
+    // The column: flags shown as fixed by the user; no "your flag replaced the grid's best" wording any more.
+    const line = (kind: string) => r.out.split('\n').find((l) => l.startsWith(`${kind} `)) ?? '';
+    expect(line('ials')).toMatch(/factors=3 \(fixed by you\)/);
+    expect(line('ials')).toMatch(/regularization=[\d.]+ alpha=\d+ scaling=(linear|log) \(NDCG@3 /);
+    expect(line('itemknn')).toMatch(/k=2 \(fixed by you\) shrink=\d+ \(NDCG@3 /);
+    expect(line('ease')).toMatch(/lambda=300 \(fixed by you: not searched\)/);
+    expect(r.out).not.toMatch(/your flag|grid's best was/);
+    // The job's summary line.
+    const summary = r.out.split('\n')[0]!;
+    expect(summary).toMatch(/^tuned \(random split; itemknn NDCG@3 [\d.]+, ease not searched, ials NDCG@3 [\d.]+, hybrid NDCG@3 [\d.]+\) and trained 5 models/);
+    expect(summary).toMatch(/; fixed by you: itemknn k=2, ease lambda=300 \(every setting of its grid, so not searched\), ials factors=3$/);
   }, 60_000);
 
-  it('a flag equal to the grid best, or for a parameter no grid searches, overrides nothing', () => {
+  it('without flags nothing is fixed and the summary says nothing of it', () => {
     const tuning = {
+      k: 10,
+      split: { method: 'time' as const, train: 1, validation: 1, customers: 1, from: 0 },
+      elapsedMs: 1000,
       models: [
-        { model: 'ials' as const, trials: [], best: { factors: 64, regularization: 0.01, alpha: 1, scaling: 'linear' }, ndcg: 0.5 },
-        { model: 'hybrid' as const, trials: [], best: { content: 0.3 }, ndcg: 0.6 },
-      ],
+        { model: 'ials', trials: [], best: { factors: 64, regularization: 0.01, alpha: 1, scaling: 'linear' }, ndcg: 0.5, fixed: {}, searched: true },
+        { model: 'hybrid', trials: [], best: { content: 0.3 }, ndcg: 0.6, fixed: {}, searched: true },
+      ] satisfies ModelTuning[],
     };
-    expect(tunedOverrides({ ials: { factors: 64, iterations: 3, seed: 2 } }, tuning)).toEqual([]);
-    expect(tunedOverrides({ ials: { factors: 32, scaling: 'log' } }, tuning)).toEqual([
-      { model: 'ials', param: 'factors', used: 32, best: 64 },
-      { model: 'ials', param: 'scaling', used: 'log', best: 'linear' },
+    expect(tunedSummary({ models: ['ials', 'content'], elapsedMs: 500 }, tuning)).toBe(
+      'tuned (time split; ials NDCG@10 0.500, hybrid NDCG@10 0.600) and trained 2 models in 1.5 s',
+    );
+  });
+});
+
+describe('fixing grid parameters', () => {
+  it('keeps only grid parameters of the training parameters', () => {
+    expect(fixedParams({ ials: { factors: 32, iterations: 3, seed: 2 }, itemknn: {}, ease: { lambda: 300 } })).toEqual({ ials: { factors: 32 }, ease: { lambda: 300 } });
+    expect(fixedParams(undefined)).toEqual({});
+    expect(fullyFixed('ease', { ease: { lambda: 300 } })).toBe(true);
+    expect(fullyFixed('ials', { ials: { factors: 3, regularization: 0.1, alpha: 1 } })).toBe(false);
+    expect(fullyFixed('ials', { ials: { factors: 3, regularization: 0.1, alpha: 1, scaling: 'log' } })).toBe(true);
+  });
+
+  it('sets the fixed values in every grid point and drops the points that became equal, grid order kept', () => {
+    expect(withFixed(IALS_SIZE_GRID, { factors: 3 })).toEqual([
+      { factors: 3, regularization: 0.01 },
+      { factors: 3, regularization: 0.1 },
     ]);
-    expect(tunedOverrides(undefined, tuning)).toEqual([]);
+    // A fixed parameter the points do not have (factors, in the confidence grid) changes nothing.
+    expect(withFixed(IALS_CONFIDENCE_GRID, { factors: 3 })).toEqual(IALS_CONFIDENCE_GRID);
+    expect(withFixed(IALS_CONFIDENCE_GRID, { scaling: 'log', alpha: 10 })).toEqual([{ scaling: 'log', alpha: 10 }]);
+    expect(withFixed(EASE_GRID.lambda.map((lambda) => ({ lambda })), undefined)).toHaveLength(EASE_GRID.lambda.length);
   });
 });

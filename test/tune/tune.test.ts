@@ -93,6 +93,35 @@ describe('tuneDataset', () => {
   }, 30_000);
 });
 
+describe('tuneDataset with fixed parameters', () => {
+  it('does not search a model whose every grid parameter is fixed, and still tunes the hybrid over it', async () => {
+    const d = tempDir('tune-fixed');
+    const { db } = await handWorkspace(d);
+    try {
+      const fixed = { ials: { factors: 3, regularization: 0.1, alpha: 10, scaling: 'log' as const }, itemknn: { shrink: 0 } };
+      const seen: { trial: number; trials: number }[] = [];
+      const r = await tuneDataset(loadDataset(db), { k: 3, iterations: 2, threads: 1, fixed, onProgress: (p) => seen.push(p) });
+      const grid = (m: string) => r.models.find((x) => x.model === m)!;
+      expect(grid('ials')).toMatchObject({ trials: [], searched: false, best: fixed.ials, fixed: fixed.ials });
+      expect(grid('ials').ndcg).toBeNaN();
+      expect(r.params.ials).toMatchObject(fixed.ials);
+      // item-kNN: shrink held at 0, one trial per neighbour count.
+      expect(grid('itemknn')).toMatchObject({ searched: true, fixed: { shrink: 0 } });
+      expect(grid('itemknn').trials.map((t) => t.params)).toEqual(itemKnnTrials().filter((p) => p.shrink === 0));
+      expect(grid('ease')).toMatchObject({ searched: true, fixed: {} });
+      expect(grid('hybrid').trials).toHaveLength(HYBRID_CONTENT_GRID.length);
+      // The progress count matches the fits made: the unsearched iALS is fitted once, for the hybrid.
+      const total = seen[0]!.trials;
+      expect(total).toBe(grid('itemknn').trials.length + grid('ease').trials.length + 1 + HYBRID_CONTENT_GRID.length);
+      expect(seen.filter((p) => p.trial <= total).length).toBe(total + 1);
+      expect(seen.at(-1)).toMatchObject({ trial: total, trials: total, fraction: 1 });
+    } finally {
+      db.close();
+      fs.rmSync(d, { recursive: true, force: true });
+    }
+  }, 30_000);
+});
+
 describe('train.start with tune', () => {
   it('tunes a workspace with no times, tags but no descriptions and untouched items, and stores the grids with the models', async () => {
     const d = tempDir('tune-api');

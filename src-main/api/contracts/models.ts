@@ -68,7 +68,16 @@ export const TuningView = z.object({
   tunedAt: z.number(),
   split: z.object({ method: z.enum(['time', 'random']), train: z.number().int(), validation: z.number().int(), customers: z.number().int() }),
   /** 'hybrid' on the content model: the grid of the hybrid's content weight. */
-  grid: z.object({ model: z.string(), best: z.record(z.string(), z.union([z.number(), z.string()])), ndcg: reading, trials: z.array(GridTrialView) }),
+  grid: z.object({
+    model: z.string(),
+    best: z.record(z.string(), z.union([z.number(), z.string()])),
+    ndcg: reading,
+    trials: z.array(GridTrialView),
+    /** Grid parameters the user fixed with their own flags (absent for models tuned before they could). */
+    fixed: z.record(z.string(), z.union([z.number(), z.string()])).optional(),
+    /** False when every grid parameter was fixed, so nothing was searched. */
+    searched: z.boolean().optional(),
+  }),
   hybridContentWeight: z.number().optional(),
 });
 

@@ -3,6 +3,9 @@
  * signals in the training thread (train/train-job.ts), and store each model's grid results with it (the
  * model's evaluation record, key `tuning`). Nothing is written until training has finished; a cancel
  * during tuning or training writes nothing.
+ *
+ * A grid parameter the caller gave (e.g. iALS factors) is held at the caller's value during the search, so
+ * the other settings are chosen for the value that is trained; the summary lists such values as fixed.
  */
 import { plural } from '../../core/util/plural.ts';
 import { CancelledError } from '../../core/errors.ts';
@@ -11,8 +14,9 @@ import type { Db } from '../../store/workspace.ts';
 import type { JobBody } from '../jobs.ts';
 import { trainAndSave, type TrainSummary } from '../train/train-job.ts';
 import type { TrainOptions } from '../train/train-models.ts';
+import { fixedParams } from './grid.ts';
 import { tuneInThread } from './offline-thread.ts';
-import type { TuneOptions, TuneResult } from './tune.ts';
+import type { ModelTuning, TuneOptions, TuneResult } from './tune.ts';
 
 /** Share of the progress bar taken by tuning (it fits about 20 models; training fits 5). */
 const TUNE_SHARE = 0.75;
@@ -30,10 +34,13 @@ export async function tuneAndTrain(
   report: (p: { stage: string; fraction: number; model?: string; iteration?: number; iterations?: number }) => void,
   signal: AbortSignal,
 ): Promise<TunedTraining> {
+  const fixed = fixedParams(options.params);
   const tuning = await tuneInThread(
     file,
     {
       ...tune,
+      // The caller's own grid parameters are held during the search, not only applied afterwards.
+      ...(Object.keys(fixed).length && { fixed }),
       ...(options.threads !== undefined && { threads: options.threads }),
       // Trials run as many sweeps as the final training will.
       ...(options.params?.ials?.iterations !== undefined && tune.iterations === undefined && { iterations: options.params.ials.iterations }),
@@ -44,6 +51,7 @@ export async function tuneAndTrain(
     },
   );
   if (signal.aborted) throw new CancelledError('training cancelled');
+  // The grid's best already holds the caller's fixed values; the caller's other parameters (iterations...) are added.
   const params = {
     ...options.params,
     itemknn: { ...tuning.params.itemknn, ...options.params?.itemknn },
@@ -73,46 +81,24 @@ export function storeTuning(db: Db, summary: TrainSummary, tuning: TuneResult): 
   })();
 }
 
-/** One grid setting that the caller's own parameter replaced in the final training. */
-export interface TunedOverride {
-  model: 'itemknn' | 'ials' | 'ease';
-  param: string;
-  /** The value trained with (the caller's). */
-  used: number | string;
-  /** The grid's best, which was not used. */
-  best: number | string;
-}
+const setting = (p: ModelTuning['fixed']) => Object.entries(p).map(([a, b]) => `${a}=${b}`).join(' ');
 
 /**
- * The grid's best settings that the caller's own parameters overrode: tuneAndTrain trains with the caller's
- * value wherever one was given, so the grid's best is then only what the search found, not what was trained.
+ * The job summary of a tuned training: each grid's best NDCG (or "not searched" for a model whose every grid
+ * parameter the caller fixed), and the values the caller fixed, which every trial of that grid used.
  */
-export function tunedOverrides(params: TrainOptions['params'], tuning: Pick<TuneResult, 'models'>): TunedOverride[] {
-  const out: TunedOverride[] = [];
-  for (const m of tuning.models) {
-    if (m.model === 'hybrid') continue;
-    const given = params?.[m.model] as Record<string, unknown> | undefined;
-    for (const [param, best] of Object.entries(m.best)) {
-      const used = given?.[param];
-      if ((typeof used === 'number' || typeof used === 'string') && used !== best) out.push({ model: m.model, param, used, best });
-    }
-  }
-  return out;
-}
-
-/** The job summary of a tuned training: the grid results, and any setting of the caller's that was trained instead. */
-export function tunedSummary(summary: Pick<TrainSummary, 'models' | 'elapsedMs'>, tuning: TuneResult, overrides: readonly TunedOverride[]): string {
-  const best = tuning.models.map((m) => `${m.model} NDCG@${tuning.k} ${m.ndcg.toFixed(3)}`).join(', ');
+export function tunedSummary(summary: Pick<TrainSummary, 'models' | 'elapsedMs'>, tuning: Pick<TuneResult, 'k' | 'split' | 'models' | 'elapsedMs'>): string {
+  const best = tuning.models.map((m) => (m.searched ? `${m.model} NDCG@${tuning.k} ${m.ndcg.toFixed(3)}` : `${m.model} not searched`)).join(', ');
   const text = `tuned (${tuning.split.method} split; ${best}) and trained ${plural(summary.models.length, 'model')} in ${((tuning.elapsedMs + summary.elapsedMs) / 1000).toFixed(1)} s`;
-  if (!overrides.length) return text;
-  const given = overrides.map((o) => `${o.model} ${o.param}=${o.used} (the grid's best was ${o.best})`).join(', ');
-  return `${text}; trained with your own ${given}`;
+  const fixed = tuning.models
+    .filter((m) => Object.keys(m.fixed).length)
+    .map((m) => `${m.model} ${setting(m.fixed)}${m.searched ? '' : ' (every setting of its grid, so not searched)'}`);
+  return fixed.length ? `${text}; fixed by you: ${fixed.join(', ')}` : text;
 }
 
 export function tunedTrainJob(db: Db, file: string, options: TrainOptions, tune: Omit<TuneOptions, 'signal' | 'onProgress'> = {}): JobBody {
   return async (report, signal) => {
     const { summary, tuning } = await tuneAndTrain(db, file, options, tune, report, signal);
-    const trained = new Set<string>(summary.models);
-    return tunedSummary(summary, tuning, tunedOverrides(options.params, tuning).filter((o) => trained.has(o.model)));
+    return tunedSummary(summary, tuning);
   };
 }

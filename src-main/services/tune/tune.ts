@@ -5,6 +5,11 @@
  * best item-kNN and iALS of the grid, so it can reach items nobody has interacted with (cold start: the
  * hybrid substitutes content for the collaborative and audience components of such items).
  *
+ * Parameters the caller fixed (TuneOptions.fixed, the user's own training values) are held at the caller's
+ * value: the grid varies only the rest of that model's parameters (grid points de-duplicated after fixing),
+ * and a model whose every grid parameter is fixed is not searched (its record has no trials and
+ * `searched: false`; item-kNN and iALS are then fitted once all the same, as the hybrid's components).
+ *
  * Choice rule: the highest NDCG@K; a later trial must beat the best so far by more than 1e-9, so ties keep
  * the earlier (grid-order) setting and the outcome does not depend on floating-point noise.
  */
@@ -24,7 +29,16 @@ import type { Dataset } from '../../core/types.ts';
 import { columnCounts, datasetDate } from '../holdout/trained.ts';
 import { fitIalsThreaded } from '../train/ials-threads.ts';
 import { TRAIN_EASE_DEFAULTS, type TrainOptions } from '../train/train-models.ts';
-import { EASE_GRID, HYBRID_CONTENT_GRID, IALS_CONFIDENCE_GRID, IALS_SIZE_GRID, itemKnnTrials } from './grid.ts';
+import {
+  EASE_GRID,
+  fullyFixed,
+  HYBRID_CONTENT_GRID,
+  IALS_CONFIDENCE_GRID,
+  IALS_SIZE_GRID,
+  itemKnnTrials,
+  withFixed,
+  type FixedParams,
+} from './grid.ts';
 import { validationSplit } from './split.ts';
 
 export type TrialParams = Record<string, number | string>;
@@ -39,9 +53,16 @@ export interface GridTrial {
 
 export interface ModelTuning {
   model: 'itemknn' | 'ials' | 'ease' | 'hybrid';
+  /** Grid order; empty when the model was not searched. */
   trials: GridTrial[];
+  /** The best trial's setting; when not searched, the caller's fixed setting. */
   best: TrialParams;
+  /** NDCG@K of the best trial; NaN when not searched. */
   ndcg: number;
+  /** The grid parameters held at the caller's value in every trial (empty when none). */
+  fixed: TrialParams;
+  /** False when the caller fixed every parameter of the model's grid, so no grid point was tried. */
+  searched: boolean;
 }
 
 export interface TuneResult {
@@ -66,6 +87,8 @@ export interface TuneOptions {
   /** iALS sweeps per trial. Default 15 (the training default). */
   iterations?: number;
   threads?: number;
+  /** Grid parameters held at these values (the caller's own training parameters); the rest is searched. */
+  fixed?: FixedParams;
   signal?: AbortSignal;
   onProgress?: (p: { model: string; trial: number; trials: number; fraction: number }) => void;
 }
@@ -86,8 +109,19 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   const useEase = ds.items.length <= (TRAIN_EASE_DEFAULTS.maxItems ?? 5000);
   if (!useEase) notes.push(`EASE not tuned: ${ds.items.length} items (training restricts it to the most active items)`);
 
-  const itemknn = itemKnnTrials();
-  const total = itemknn.length + (useEase ? EASE_GRID.lambda.length : 0) + IALS_CONFIDENCE_GRID.length + IALS_SIZE_GRID.length - 1 + HYBRID_CONTENT_GRID.length;
+  const fixed = o.fixed ?? {};
+  const itemknn = withFixed(itemKnnTrials(), fixed.itemknn);
+  const knnSearched = !fullyFixed('itemknn', fixed);
+  const easeSearched = useEase && !fullyFixed('ease', fixed);
+  const easeLambdas = withFixed(EASE_GRID.lambda.map((lambda) => ({ lambda })), fixed.ease);
+  // iALS: the size grid's first point is the setting the confidence stage runs at (grid.ts), so the size
+  // stage skips it; fixing can merge points of either stage.
+  const ialsSearched = !fullyFixed('ials', fixed);
+  const confidences = withFixed(IALS_CONFIDENCE_GRID, fixed.ials);
+  const sizes = withFixed(IALS_SIZE_GRID, fixed.ials);
+  // A model not searched still costs one fit when the hybrid needs it (item-kNN, iALS), none for EASE.
+  const total =
+    itemknn.length + (easeSearched ? easeLambdas.length : 0) + (ialsSearched ? confidences.length + sizes.length - 1 : 1) + HYBRID_CONTENT_GRID.length;
   let done = 0;
   // Fits run on this thread; yielding to the event loop before each one lets a poller (the CLI, the app's
   // job status) see the progress and a cancel arrive between trials.
@@ -108,40 +142,47 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   const models: ModelTuning[] = [];
 
   // item-kNN: neighbours × shrinkage.
-  const knn = new Search<Scorer>('itemknn');
+  const knn = new Search<Scorer>('itemknn', { ...fixed.itemknn });
   for (const p of itemknn) {
     await step('itemknn');
     const t0 = performance.now();
     const m = fitItemKnn(train, p, fitOpts).model;
-    knn.offer(trial(p, measure('itemknn', m), t0), m);
+    if (knnSearched) knn.offer(trial(p, measure('itemknn', m), t0), m);
+    else knn.hold(p, m);
   }
   models.push(knn.result());
 
   // EASE: λ.
   if (useEase) {
-    const ease = new Search<Scorer>('ease');
-    for (const lambda of EASE_GRID.lambda) {
-      await step('ease');
-      const t0 = performance.now();
-      const m = fitEase(train, { ...TRAIN_EASE_DEFAULTS, lambda }, fitOpts).model;
-      ease.offer(trial({ lambda }, measure('ease', m), t0), null);
+    const ease = new Search<Scorer>('ease', { ...fixed.ease });
+    if (!easeSearched) ease.hold(easeLambdas[0]!, null);
+    else {
+      for (const { lambda } of easeLambdas) {
+        await step('ease');
+        const t0 = performance.now();
+        const m = fitEase(train, { ...TRAIN_EASE_DEFAULTS, lambda }, fitOpts).model;
+        ease.offer(trial({ lambda }, measure('ease', m), t0), null);
+      }
     }
     models.push(ease.result());
   }
 
   // iALS: confidence first, then size.
-  const ials = new Search<Scorer>('ials');
-  const base = { ...IALS_SIZE_GRID[0]!, iterations: o.iterations ?? 15, seed };
+  const ials = new Search<Scorer>('ials', { ...fixed.ials });
+  const base = { ...sizes[0]!, iterations: o.iterations ?? 15, seed };
   const fitI = async (p: Partial<IalsParams>): Promise<void> => {
     await step('ials');
     const t0 = performance.now();
     const m = (await fitIalsThreaded(train, p, { ...fitOpts, ...(o.threads !== undefined && { threads: o.threads }) })).model;
     const shown: TrialParams = { factors: p.factors!, regularization: p.regularization!, alpha: p.alpha!, scaling: p.scaling! };
-    ials.offer(trial(shown, measure('ials', m), t0), m);
+    if (ialsSearched) ials.offer(trial(shown, measure('ials', m), t0), m);
+    else ials.hold(shown, m);
   };
-  for (const c of IALS_CONFIDENCE_GRID) await fitI({ ...base, ...c });
-  const conf = { scaling: ials.best!.params['scaling'] as 'linear' | 'log', alpha: ials.best!.params['alpha'] as number };
-  for (const size of IALS_SIZE_GRID.slice(1)) await fitI({ ...base, ...size, ...conf });
+  for (const c of confidences) await fitI({ ...base, ...c });
+  if (ialsSearched) {
+    const conf = { scaling: ials.best!.params['scaling'] as 'linear' | 'log', alpha: ials.best!.params['alpha'] as number };
+    for (const size of sizes.slice(1)) await fitI({ ...base, ...size, ...conf });
+  }
   models.push(ials.result());
 
   // The hybrid's content weight, over the best collaborative and affinity models.
@@ -157,7 +198,7 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   );
   const hybrid = new CustomerHybrid(h, train, date);
   hybrid.precompute(ev.customers);
-  const hy = new Search<Scorer>('hybrid');
+  const hy = new Search<Scorer>('hybrid', {});
   for (const content of HYBRID_CONTENT_GRID) {
     await step('hybrid');
     const t0 = performance.now();
@@ -195,12 +236,21 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   };
 }
 
-/** The running best of one model's grid (first of equals kept). */
+/** The running best of one model's grid (first of equals kept), or the one setting of a model not searched. */
 class Search<M> {
   readonly trials: GridTrial[] = [];
   best: GridTrial | null = null;
   bestModel: M | null = null;
-  constructor(readonly model: ModelTuning['model']) {}
+  private held: TrialParams | null = null;
+  constructor(
+    readonly model: ModelTuning['model'],
+    readonly fixed: TrialParams,
+  ) {}
+  /** Every grid parameter fixed by the caller: this setting is the result, with no trial (model: its fit, if any). */
+  hold(params: TrialParams, model: M | null): void {
+    this.held = params;
+    this.bestModel = model;
+  }
   offer(t: GridTrial, model: M | null): void {
     this.trials.push(t);
     const score = Number.isNaN(t.ndcg) ? -1 : t.ndcg;
@@ -210,6 +260,7 @@ class Search<M> {
     }
   }
   result(): ModelTuning {
-    return { model: this.model, trials: this.trials, best: this.best!.params, ndcg: this.best!.ndcg };
+    if (this.held) return { model: this.model, trials: [], best: this.held, ndcg: Number.NaN, fixed: this.fixed, searched: false };
+    return { model: this.model, trials: this.trials, best: this.best!.params, ndcg: this.best!.ndcg, fixed: this.fixed, searched: true };
   }
 }

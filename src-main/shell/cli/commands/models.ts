@@ -17,23 +17,28 @@ const MODEL_KINDS = ['content', 'itemknn', 'ials', 'ease', 'popularity'] as cons
 type StoredModel = ResponseOf<'models.list'>['models'][number];
 
 /**
- * The "tuned" column of `train`: the settings the model was trained with, the grid's best beside any that a
- * flag replaced (train.start trains with the caller's value over the grid's), and the grid's best NDCG.
+ * The "tuned" column of `train`: the settings the model was trained with and the grid's best NDCG. With
+ * --tune a flag's value is held fixed during the search (train.start passes it to the tuner), so it is the
+ * grid's best by construction and shown as "fixed by you"; a model whose every grid setting was fixed was
+ * not searched. `given` are this run's flags, which apply only to the models this run trained.
  */
-function tunedCell(m: StoredModel, given: Record<string, Record<string, unknown>>): string {
+function tunedCell(m: StoredModel, given: Record<string, Record<string, unknown>> | null): string {
   const t = m.tuning;
   if (!t) return '';
   const ndcg = `NDCG@${t.k} ${val(t.grid.ndcg)}`;
   if (t.grid.model === 'hybrid') return `hybrid ${Object.entries(t.grid.best).map(([a, b]) => `${a}=${b}`).join(' ')} (${ndcg})`;
-  let overridden = false;
+  if (t.grid.trials.length === 0) return `${Object.entries(t.grid.best).map(([a, b]) => `${a}=${b}`).join(' ')} (fixed by you: not searched)`;
+  let differs = false;
   const parts = Object.entries(t.grid.best).map(([param, best]) => {
     const used = m.params[param];
-    if ((typeof used !== 'number' && typeof used !== 'string') || used === best) return `${param}=${best}`;
-    overridden = true;
-    const why = given[m.kind]?.[param] === used ? 'your flag' : 'set by hand';
-    return `${param}=${used} (${why}; the grid's best was ${best})`;
+    // Trained with a value the grid did not hold (a model tuned before fixed values were searched with).
+    if ((typeof used === 'number' || typeof used === 'string') && used !== best) {
+      differs = true;
+      return `${param}=${used} (set by hand; the grid's best was ${best})`;
+    }
+    return given?.[m.kind]?.[param] === best ? `${param}=${best} (fixed by you)` : `${param}=${best}`;
   });
-  return `${parts.join(' ')} (${overridden ? `the grid's best scored ${ndcg}` : ndcg})`;
+  return `${parts.join(' ')} (${differs ? `the grid's best scored ${ndcg}` : ndcg})`;
 }
 
 const trainCommand: CliCommand = {
@@ -75,6 +80,8 @@ const trainCommand: CliCommand = {
     'item-kNN: --neighbours, --shrink.  EASE: --lambda.',
     '--tune: a seeded validation split (by time when the signals have times, else per customer at random), a small',
     'grid per model chosen by NDCG@K (--k, default 10), the best refitted on all signals and stored with the grid.',
+    'A setting given with --tune (e.g. --factors 32) is held fixed while the rest of that model\'s grid is searched;',
+    'a model with every grid setting given (e.g. EASE with --lambda) is not searched.',
   ].join('\n'),
   async run(env) {
     const models = str(env, 'models')?.split(',').map((m) => m.trim()).filter(Boolean);
@@ -114,12 +121,13 @@ const trainCommand: CliCommand = {
       return EXIT.ok;
     }
     const given: Record<string, Record<string, unknown>> = { ials, itemknn, ease: only({ lambda }) };
+    const trained = (kind: string) => models === undefined || models.includes(kind);
     const rows = stored.map((m) => [
       m.kind,
       m.trainMs / 1000,
       m.iterations ?? '–',
       m.losses.length ? (m.losses.at(-1) as number) : '–',
-      tunedCell(m, given),
+      tunedCell(m, trained(m.kind) ? given : null),
       m.notes.join('; '),
     ]);
     env.io.out(`${end.summary ?? 'done'}\n${table(['model', 'seconds', 'iterations', 'final loss', 'tuned', 'notes'], rows)}`);

@@ -258,8 +258,8 @@ const similarCommand: CliCommand = {
       env.io.out(JSON.stringify(r, null, 2));
       return EXIT.ok;
     }
-    const rows = r.neighbours.map((x, q) => [q + 1, x.item, x.title, x.category, val(x.score), val(x.content), val(x.collaborative), x.mainReason, x.coldStart ? 'cold start' : '', x.promoted ? 'Sponsored' : '']);
-    env.io.out(`${r.item.item}  ${r.item.title} (${r.item.category})\n${table(['#', 'item', 'title', 'category', 'score', 'content', 'collaborative', 'mostly', '', ''], rows)}${r.notes.length ? `\n${r.notes.join('\n')}` : ''}`);
+    const rows = r.neighbours.map((x, q) => [q + 1, x.item, x.title, x.category, val(x.score), val(x.content), val(x.collaborative), x.mainReason, flags(x.coldStart, x.promoted)]);
+    env.io.out(`${r.item.item}  ${r.item.title} (${r.item.category})\n${table(['#', 'item', 'title', 'category', 'score', 'content', 'collaborative', 'mostly', 'notes'], rows)}${r.notes.length ? `\n${r.notes.join('\n')}` : ''}`);
     return EXIT.ok;
   },
 };
@@ -314,11 +314,16 @@ const proposeCommand: CliCommand = {
     const why = (c: Record<string, number>) =>
       Object.entries(c).filter(([, v]) => v > 0).sort((a, b) => b[1] - a[1]).slice(0, 3).map(([k, v]) => `${k} ${formatNumber(v)}`).join(', ');
     const rows = r.items.map((x, q) => [q + 1, x.item, x.title, x.category, Math.round(x.percentile), why(x.contributions),
-      x.evidence.content[0]?.title ?? x.evidence.collaborative[0]?.title ?? '', x.coldStart ? 'cold start' : '', x.sponsored ? 'Sponsored' : '']);
-    env.io.out(`pool of ${r.poolSize} on ${r.date}\n${table(['#', 'item', 'title', 'category', 'pct', 'because', 'like', '', ''], rows)}${r.notes.length ? `\n${r.notes.join('\n')}` : ''}`);
+      x.evidence.content[0]?.title ?? x.evidence.collaborative[0]?.title ?? '', flags(x.coldStart, x.sponsored)]);
+    env.io.out(`pool of ${r.poolSize} on ${r.date}\n${table(['#', 'item', 'title', 'category', 'pct', 'because', 'like', 'notes'], rows)}${r.notes.length ? `\n${r.notes.join('\n')}` : ''}`);
     return EXIT.ok;
   },
 };
+
+/** The notes column of a ranked list: "cold start" (scored by content, too few customers), "Sponsored". */
+function flags(coldStart: boolean, sponsored: boolean): string {
+  return [coldStart ? 'cold start' : '', sponsored ? 'Sponsored' : ''].filter(Boolean).join(', ');
+}
 
 const recommendCommand: CliCommand = {
   name: 'recommend',

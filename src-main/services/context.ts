@@ -1,6 +1,7 @@
 import { InputError } from '../core/errors.ts';
 import { openWorkspace, type Db, type OpenOptions } from '../store/workspace.ts';
 import { JobRegistry } from './jobs.ts';
+import { UploadStore } from './uploads.ts';
 
 /**
  * The state one running app (or one CLI command) works in: the open workspace. Composed once per
@@ -12,6 +13,7 @@ export class AppContext {
   readonly #openOptions: OpenOptions;
   /** Training and evaluation running in the background for this app. */
   readonly jobs = new JobRegistry();
+  #uploads: UploadStore | null = null;
 
   constructor(openOptions: OpenOptions = {}) {
     this.#openOptions = openOptions;
@@ -21,7 +23,7 @@ export class AppContext {
   open(file: string, options: { create?: boolean } = {}): void {
     const db = openWorkspace(file, { ...this.#openOptions, create: options.create ?? true });
     this.jobs.cancelAll();
-    this.close();
+    this.#closeWorkspace(); // uploads stay: a file chosen before switching workspaces can still be imported
     this.#db = db;
     this.#file = file;
   }
@@ -40,7 +42,18 @@ export class AppContext {
     return this.#file;
   }
 
+  /** Files the page streamed here (web shell), removed when the context closes. Made on first use. */
+  get uploads(): UploadStore {
+    return (this.#uploads ??= new UploadStore());
+  }
+
+  /** Closes the workspace and removes every upload with its private folder. */
   close(): void {
+    this.#closeWorkspace();
+    this.#uploads?.close();
+  }
+
+  #closeWorkspace(): void {
     this.#db?.close();
     this.#db = null;
     this.#file = null;

@@ -48,7 +48,8 @@ function launchElectron(binary: string, workspace: string): void {
 async function launchWeb(args: StartArgs, workspace: string): Promise<void> {
   const ctx = new AppContext();
   ctx.open(workspace, { create: true });
-  const shell = await startWebShell({ table: createHandlerTable(ctx), staticDir: RENDERER_DIST, port: args.port });
+  // Files the page streams to POST /upload land in the context's store; ctx.close() removes them.
+  const shell = await startWebShell({ table: createHandlerTable(ctx), uploads: ctx.uploads, staticDir: RENDERER_DIST, port: args.port });
   console.log(`Shelfwright is running at ${shell.pageUrl}`);
   console.log('Press Ctrl+C to stop.');
   const stop = async () => {

@@ -86,6 +86,16 @@ describe('evaluateHoldout on the hand-worked case', () => {
     expect(strip(a)).toEqual(strip(b));
   });
 
+  it('stages uploaded content inside its own folder whatever the name says (.., a path)', async () => {
+    const content = 'customer,item\nu9,i1\nu1,i1\n';
+    for (const fileName of ['../../outside.csv', 'C:\\Users\\me\\week.csv']) {
+      // The same reading as for x.csv below: the file was staged and read, not written outside its folder.
+      await expect(evaluateHoldout(db, { fileName, content }, { k: 2 })).rejects.toThrow(/unknown customers/);
+    }
+    // A bare '..' once named the temporary folder's parent (a write error); now it is only a name without a format.
+    await expect(evaluateHoldout(db, { fileName: '..', content }, { k: 2 })).rejects.toThrow(/cannot tell the format/);
+  });
+
   it('refuses a file with no usable pair, saying why', async () => {
     const only = evaluateHoldout(db, { fileName: 'x.csv', content: 'customer,item\nu9,i1\nu1,i1\n' }, { k: 2 });
     await expect(only).rejects.toThrow(/1 unknown customers, 0 unknown items, 1 pairs already in the workspace/);

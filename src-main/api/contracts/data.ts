@@ -7,21 +7,34 @@ export const ImportTarget = z.enum(['items', 'customers', 'signals']);
 export const ImportFormat = z.enum(['csv', 'json', 'jsonl']);
 
 /**
- * What to import: a file on this machine (CLI, Electron) or its content sent by a page (web shell upload,
- * where a browser cannot hand over a path), exactly one of the two; and how to read it.
- */
-/**
  * The largest file a page uploads as `content`. The web shell refuses request bodies over 32 MiB, and a file
  * grows when it is sent as a JSON string (every line break and quote is escaped), so uploads stop well below
  * that; a bigger file is imported by its path, which the main process reads as a stream.
  */
 export const MAX_UPLOAD_BYTES = 24 * 1024 * 1024;
 
+/**
+ * The largest file the web shell takes as a streamed upload (`POST /upload`, raw bytes, written to disk as
+ * they arrive); the answer's id is then given to import.preview / import.run as `upload`.
+ */
+export const MAX_STREAMED_UPLOAD_BYTES = 4 * 1024 ** 3;
+
+/**
+ * What to import, exactly one of: a file on this machine (CLI, Electron); its content sent by a page
+ * (`fileName` with `content`, for small files); or the id of a file the page streamed to `POST /upload`
+ * (web shell, where a browser cannot hand over a path); and how to read it.
+ */
+
 export const ImportRequest = z
   .object({
     file: z.string().min(1).optional(),
     fileName: z.string().min(1).optional(),
     content: z.string().optional(),
+    /** The id `POST /upload` answered with. import.run removes the upload when it ends; import.preview keeps it. */
+    upload: z
+      .string()
+      .regex(/^[0-9a-f]{32}$/)
+      .optional(),
     target: ImportTarget,
     format: ImportFormat.optional(),
     delimiter: z.string().length(1).optional(),
@@ -33,9 +46,14 @@ export const ImportRequest = z
     acceptPartial: z.boolean().optional(),
   })
   .strict()
-  .refine((s) => (s.file !== undefined) !== (s.fileName !== undefined && s.content !== undefined), {
-    message: 'give either file, or fileName with content',
-  });
+  .refine(
+    (s) => {
+      const named = s.fileName !== undefined;
+      if (named !== (s.content !== undefined)) return false; // fileName and content go together
+      return [s.file !== undefined, named, s.upload !== undefined].filter(Boolean).length === 1;
+    },
+    { message: 'give exactly one of: file, fileName with content, or upload' },
+  );
 export type ImportRequest = z.infer<typeof ImportRequest>;
 
 export const RowProblem = z.object({

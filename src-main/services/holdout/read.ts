@@ -8,6 +8,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { InputError } from '../../core/errors.ts';
+import { safeBaseName } from '../staged-file.ts';
 import { planColumns, type ColumnPlan, type Mapping } from '../../ingest/fields.ts';
 import { formatOf, readSource, type ImportFormat } from '../../ingest/source.ts';
 import { isBad, isBlank, nonNegative, text, time, type DateOrder } from '../../ingest/values.ts';
@@ -41,7 +42,7 @@ export async function readHoldout(source: HoldoutSource, o: HoldoutReadOptions =
   if ('file' in source) return readHoldoutFile(source.file, source.file, o);
   // Uploaded content goes through the same streaming reader via a private temporary file.
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-holdout-'));
-  const tmp = path.join(dir, path.basename(source.fileName) || 'holdout.csv');
+  const tmp = path.join(dir, safeBaseName(source.fileName, 'holdout.csv')); // never outside `dir`, whatever the name
   try {
     fs.writeFileSync(tmp, source.content, { mode: 0o600 });
     return await readHoldoutFile(tmp, source.fileName, o);

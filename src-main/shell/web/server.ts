@@ -5,6 +5,8 @@ import path from 'node:path';
 import type { AddressInfo } from 'node:net';
 import { invoke, type HandlerTable } from '../../api/handler-table.ts';
 import type { ApiError, ApiResult } from '../../api/define.ts';
+import { MAX_STREAMED_UPLOAD_BYTES } from '../../api/contracts/data.ts';
+import { UploadRefused, type UploadStore } from '../../services/uploads.ts';
 import { hostIsAllowed, originIsAllowed, requestToken, setSecurityHeaders, tokenMatches } from './guard.ts';
 import { contentTypeOf, indexWithToken, resolveStaticFile } from './static.ts';
 
@@ -18,6 +20,10 @@ export interface WebShellOptions {
   token?: string;
   /** Largest accepted request body; uploads of CSV files go through the api, so this is generous. */
   maxBodyBytes?: number;
+  /** Where `POST /upload` streams files to (the context's store); without it that route answers 404. */
+  uploads?: UploadStore;
+  /** Largest streamed upload; MAX_STREAMED_UPLOAD_BYTES (4 GiB) by default, lowered in tests. */
+  maxUploadBytes?: number;
 }
 
 export interface WebShell {
@@ -32,6 +38,11 @@ export interface WebShell {
 
 const API_PREFIX = '/api/';
 const DEFAULT_MAX_BODY = 32 * 1024 * 1024;
+const UPLOAD_PATH = '/upload';
+/** The header carrying the original file name of an upload, as encodeURIComponent wrote it. */
+const FILE_NAME_HEADER = 'x-file-name';
+/** A 4 GiB upload from a slow disk may take longer than Node's default five minutes per request. */
+const REQUEST_TIMEOUT_MS = 60 * 60 * 1000;
 
 /** HTTP status per api error code, so tools that read only the status still see failure. */
 const STATUS: Record<ApiError['code'], number> = { input: 400, not_found: 404, cancelled: 409, conflict: 409, internal: 500 };
@@ -43,6 +54,7 @@ const STATUS: Record<ApiError['code'], number> = { input: 400, not_found: 404, c
 export async function startWebShell(options: WebShellOptions): Promise<WebShell> {
   const token = options.token ?? randomBytes(32).toString('hex');
   const maxBody = options.maxBodyBytes ?? DEFAULT_MAX_BODY;
+  const maxUpload = options.maxUploadBytes ?? MAX_STREAMED_UPLOAD_BYTES;
   let port = 0;
   const server = http.createServer((req, res) => {
     setSecurityHeaders(res);
@@ -51,11 +63,13 @@ export async function startWebShell(options: WebShellOptions): Promise<WebShell>
       else res.destroy();
     });
   });
+  server.requestTimeout = REQUEST_TIMEOUT_MS;
 
   async function handle(req: IncomingMessage, res: ServerResponse): Promise<void> {
     if (!hostIsAllowed(req.headers.host, port)) return sendError(res, 403, 'input', 'forbidden host');
     const url = new URL(req.url ?? '/', `http://127.0.0.1:${port}`);
     if (url.pathname.startsWith(API_PREFIX)) return handleApi(req, res, url.pathname.slice(API_PREFIX.length));
+    if (url.pathname === UPLOAD_PATH) return handleUpload(req, res);
     if (req.method !== 'GET' && req.method !== 'HEAD') return sendError(res, 405, 'input', 'method not allowed');
     return handleStatic(req, res, url.pathname);
   }
@@ -79,6 +93,35 @@ export async function startWebShell(options: WebShellOptions): Promise<WebShell>
     }
     const result = await invoke(options.table, decodeURIComponent(method), payload);
     sendJson(res, result.ok ? 200 : STATUS[result.error.code], result);
+  }
+
+  /**
+   * `POST /upload`: the raw bytes of one file, streamed to a private folder (never held in memory) so files
+   * too big for a JSON string can still be imported. Answers `{ ok: true, value: { upload, bytes } }`.
+   */
+  async function handleUpload(req: IncomingMessage, res: ServerResponse): Promise<void> {
+    if (req.method !== 'POST') return refuse(req, res, 405, 'input', 'uploads use POST');
+    if (!tokenMatches(requestToken(req), token)) return refuse(req, res, 401, 'input', 'missing or wrong launch token');
+    if (!originIsAllowed(req.headers.origin, port)) return refuse(req, res, 403, 'input', 'forbidden origin');
+    if (!options.uploads) return refuse(req, res, 404, 'not_found', 'uploads are not available here');
+    const type = req.headers['content-type'] ?? '';
+    if (!type.startsWith('application/octet-stream')) {
+      return refuse(req, res, 415, 'input', 'send the file as application/octet-stream');
+    }
+    const fileName = decodedFileName(req.headers[FILE_NAME_HEADER]);
+    if (fileName === null) {
+      return refuse(req, res, 400, 'input', `name the file in the ${FILE_NAME_HEADER} header (encodeURIComponent of its name)`);
+    }
+    if (Number(req.headers['content-length'] ?? '0') > maxUpload) {
+      return refuse(req, res, 413, 'input', `the file is larger than ${maxUpload} bytes`);
+    }
+    try {
+      const upload = await options.uploads.receive(fileName, req, maxUpload);
+      sendJson(res, 200, { ok: true, value: { upload: upload.id, bytes: upload.bytes } });
+    } catch (e) {
+      if (!(e instanceof UploadRefused)) throw e;
+      refuse(req, res, e.reason === 'too_large' ? 413 : 400, 'input', e.message);
+    }
   }
 
   function handleStatic(req: IncomingMessage, res: ServerResponse, pathname: string): void {
@@ -112,6 +155,36 @@ export async function startWebShell(options: WebShellOptions): Promise<WebShell>
         server.close(() => resolve());
       }),
   };
+}
+
+/** How long a refused body is still read and dropped before its connection is cut. */
+const REFUSED_BODY_GRACE_MS = 2_000;
+
+/**
+ * Answers an error before (or without) reading the whole request body. The rest of the body is read and
+ * dropped for a moment, so a browser still sending sees the answer instead of a reset connection; then
+ * the connection is cut, so a refused multi-gigabyte upload is not received in full. Nothing of it is kept.
+ */
+function refuse(req: IncomingMessage, res: ServerResponse, status: number, code: ApiError['code'], message: string): void {
+  if (!req.readableEnded && !req.destroyed) {
+    res.setHeader('Connection', 'close');
+    req.resume();
+    const cut = setTimeout(() => req.destroy(), REFUSED_BODY_GRACE_MS);
+    cut.unref();
+    req.once('end', () => clearTimeout(cut));
+  }
+  sendError(res, status, code, message);
+}
+
+/** The x-file-name header decoded, or null when it is missing, empty, repeated or not valid percent-encoding. */
+function decodedFileName(header: string | string[] | undefined): string | null {
+  if (typeof header !== 'string' || header === '') return null;
+  try {
+    const name = decodeURIComponent(header);
+    return name.trim() === '' || name.includes('\0') ? null : name;
+  } catch {
+    return null;
+  }
 }
 
 /** The body, or null once it passes the limit (the rest is not read: the connection is closed). */

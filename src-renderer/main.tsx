@@ -1,30 +1,30 @@
 import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
 import { App } from './App.tsx';
-import { createClient, type Transport } from './client/client.ts';
-import { createHttpTransport, readLaunchToken } from './client/http-transport.ts';
+import { createClient, type Transport, type Uploader } from './client/client.ts';
+import { createHttpTransport, createHttpUploader, readLaunchToken } from './client/http-transport.ts';
 import { createIpcTransport } from './client/ipc-transport.ts';
 import { createAppStore, StoreContext } from './state/store.ts';
 import './styles.css';
 
 /** Electron's preload provides window.shelfwright; otherwise the web shell's token signs HTTP calls. */
-function pickTransport(): Transport | string {
-  if (window.shelfwright) return createIpcTransport(window.shelfwright);
+function pickTransport(): { transport: Transport; uploader?: Uploader } | string {
+  if (window.shelfwright) return { transport: createIpcTransport(window.shelfwright) };
   const token = readLaunchToken(document, window.location, window.history);
   if (!token) return 'This page needs the address Shelfwright printed when it started (it carries a one-time key). Open that address, or restart with npm start.';
-  return createHttpTransport(token);
+  return { transport: createHttpTransport(token), uploader: createHttpUploader(token) };
 }
 
 const root = createRoot(document.getElementById('root') as HTMLElement);
-const transport = pickTransport();
-if (typeof transport === 'string') {
+const picked = pickTransport();
+if (typeof picked === 'string') {
   root.render(
     <p className="error" role="alert">
-      {transport}
+      {picked}
     </p>,
   );
 } else {
-  const store = createAppStore(createClient(transport));
+  const store = createAppStore(createClient(picked.transport, picked.uploader));
   root.render(
     <StrictMode>
       <StoreContext.Provider value={store}>

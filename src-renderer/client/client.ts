@@ -16,8 +16,18 @@ export class ApiCallError extends Error {
   }
 }
 
+/** A file sent to the main side as a stream (web shell: POST /upload), for files too big for an api call. */
+export interface StagedUpload {
+  /** The id `import.preview` and `import.run` take as `upload`. */
+  upload: string;
+  bytes: number;
+}
+export type Uploader = (file: File) => Promise<StagedUpload>;
+
 export interface Client {
   call<M extends MethodName>(method: M, payload: RequestOf<M>): Promise<ResponseOf<M>>;
+  /** Present where the shell can take a streamed file (the web shell); absent in Electron for now. */
+  upload?: Uploader;
 }
 
 /**
@@ -25,8 +35,18 @@ export interface Client {
  * other side already; here a failed result becomes an ApiCallError so screens can catch it where the
  * user acted.
  */
-export function createClient(transport: Transport): Client {
+export function createClient(transport: Transport, uploader?: Uploader): Client {
   return {
+    ...(uploader && {
+      async upload(file: File) {
+        try {
+          return await uploader(file);
+        } catch (e) {
+          if (e instanceof ApiCallError) throw e;
+          throw new ApiCallError({ code: 'internal', message: `The file could not be sent to Shelfwright (${(e as Error).message}).` });
+        }
+      },
+    }),
     async call(method, payload) {
       if (!isMethodName(method)) throw new ApiCallError({ code: 'input', message: `unknown method: ${String(method)}` });
       let result: ApiResult<unknown>;

@@ -1,5 +1,5 @@
 import type { ApiResult } from '../../src-main/api/define.ts';
-import type { Transport } from './client.ts';
+import { ApiCallError, type StagedUpload, type Transport, type Uploader } from './client.ts';
 
 /** Same header name as the web shell's guard (src-main/shell/web/guard.ts); the renderer may not import shell code. */
 const TOKEN_HEADER = 'x-shelfwright-token';
@@ -25,5 +25,24 @@ export function createHttpTransport(token: string, fetchImpl: typeof fetch = fet
     const type = res.headers.get('content-type') ?? '';
     if (!type.includes('application/json')) throw new Error(`HTTP ${res.status}`);
     return (await res.json()) as ApiResult<unknown>;
+  };
+}
+
+/**
+ * Sends a file as a stream to the web shell's POST /upload (the body is the File itself, which the browser
+ * streams from disk), for files too big to send inside an api call. Answers the id the import calls take.
+ */
+export function createHttpUploader(token: string, fetchImpl: typeof fetch = fetch, base = ''): Uploader {
+  return async (file) => {
+    const res = await fetchImpl(`${base}/upload`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/octet-stream', 'x-file-name': encodeURIComponent(file.name), [TOKEN_HEADER]: token },
+      body: file,
+    });
+    const type = res.headers.get('content-type') ?? '';
+    if (!type.includes('application/json')) throw new Error(`HTTP ${res.status}`);
+    const result = (await res.json()) as ApiResult<StagedUpload>;
+    if (!result.ok) throw new ApiCallError(result.error);
+    return result.value;
   };
 }

@@ -66,8 +66,11 @@ export function Import() {
   const reset = useApp((s) => s.resetImport);
   const [target, setTarget] = useState<ImportTarget>('items');
   const [path, setPath] = useState('');
-  const [upload, setUpload] = useState<{ fileName: string; content: string } | null>(null);
+  const [upload, setUpload] = useState<ImportSource | null>(null);
+  const [uploading, setUploading] = useState<string | null>(null);
   const [tooBig, setTooBig] = useState<string | null>(null);
+  const canStage = useApp((s) => s.canStageUploads);
+  const stageUpload = useApp((s) => s.stageUpload);
   const [mapping, setMapping] = useState<Record<string, string>>({});
   const id = useId();
   const source: ImportSource | null = upload ?? (path.trim() ? { file: path.trim() } : null);
@@ -108,16 +111,25 @@ export function Import() {
                 const f = e.target.files?.[0];
                 if (!f) return;
                 setPath('');
-                if (f.size > MAX_UPLOAD_BYTES) {
-                  setUpload(null);
+                setUpload(null);
+                setTooBig(null);
+                reset();
+                if (f.size <= MAX_UPLOAD_BYTES) {
+                  setUpload({ fileName: f.name, content: await f.text() });
+                  return;
+                }
+                if (!canStage) {
                   setTooBig(
-                    `${f.name} is ${megabytes(f.size)}: files over ${megabytes(MAX_UPLOAD_BYTES)} are not sent through the window. ` +
+                    `${f.name} is ${megabytes(f.size)}: files over ${megabytes(MAX_UPLOAD_BYTES)} are not sent through the window here. ` +
                       'Type its path in the field above instead; the app reads it straight from this computer.',
                   );
                   return;
                 }
-                setTooBig(null);
-                setUpload({ fileName: f.name, content: await f.text() });
+                // A big file goes ahead as a stream, read from disk by the browser, never whole into the page.
+                setUploading(`Sending ${f.name} (${megabytes(f.size)}) to Shelfwright…`);
+                const staged = await stageUpload(f);
+                setUploading(null);
+                if (staged) setUpload(staged);
               }}
             />
           </div>
@@ -127,6 +139,11 @@ export function Import() {
         </button>
       </form>
 
+      {uploading && (
+        <p className="muted small" role="status">
+          {uploading}
+        </p>
+      )}
       {tooBig && (
         <p className="error" role="alert">
           {tooBig}
@@ -178,7 +195,15 @@ export function Import() {
           </div>
           <h2>3. Import</h2>
           <p className="muted small">All rows go in together: if any row is wrong, nothing is imported and every problem is listed.</p>
-          <button type="button" disabled={busy} onClick={() => void runImport(source, target, effective)}>
+          <button
+            type="button"
+            disabled={busy}
+            onClick={async () => {
+              await runImport(source, target, effective);
+              // The main side removes a streamed file once it is imported (or refused): choose it again to retry.
+              if ('upload' in source) setUpload(null);
+            }}
+          >
             {busy ? 'Importing…' : 'Import'}
           </button>
         </section>

@@ -7,7 +7,8 @@ export type ImportPreview = ResponseOf<'import.preview'>;
 export type ImportReport = ResponseOf<'import.run'>;
 export type ImportTarget = RequestOf<'import.run'>['target'];
 /** A path on this machine, or the text of a file the editor picked in the page. */
-export type ImportSource = { file: string } | { fileName: string; content: string };
+/** A path on this machine, a small file's content, or a big file streamed ahead (`client.upload`). */
+export type ImportSource = { file: string } | { fileName: string; content: string } | { upload: string };
 
 export interface ImportSlice {
   importer: {
@@ -19,6 +20,10 @@ export interface ImportSlice {
   previewImport(source: ImportSource, target: ImportTarget, mapping?: Record<string, string>): Promise<void>;
   runImport(source: ImportSource, target: ImportTarget, mapping: Record<string, string>): Promise<void>;
   resetImport(): void;
+  /** Streams a big file to the main side; the source to preview and import it by, or null (error shown). */
+  stageUpload(file: File): Promise<ImportSource | null>;
+  /** Whether this shell can take a streamed file (else a big file is imported by its path). */
+  canStageUploads: boolean;
 }
 
 export function createImportSlice(client: Client): StateCreator<AppState, [], [], ImportSlice> {
@@ -48,6 +53,19 @@ export function createImportSlice(client: Client): StateCreator<AppState, [], []
       },
       resetImport() {
         put({ preview: null, report: null, error: null, busy: false });
+      },
+      canStageUploads: client.upload !== undefined,
+      async stageUpload(file) {
+        if (!client.upload) return null;
+        put({ busy: true, error: null, preview: null, report: null });
+        try {
+          const staged = await client.upload(file);
+          put({ busy: false });
+          return { upload: staged.upload };
+        } catch (e) {
+          put({ busy: false, error: describeError(e) });
+          return null;
+        }
       },
     };
   };

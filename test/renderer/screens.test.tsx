@@ -2,6 +2,7 @@
 import { cleanup, fireEvent, render, screen, waitFor, within } from '@testing-library/react';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { App } from '../../src-renderer/App.tsx';
+import type { Client } from '../../src-renderer/client/client.ts';
 import { createAppStore, StoreContext, type AppStore } from '../../src-renderer/state/store.ts';
 import { openRowInEditor, seededHarness, type Harness } from './seed.ts';
 
@@ -66,7 +67,7 @@ describe('shelf editor', () => {
 });
 
 describe('import screen', () => {
-  it('does not read a file too big to upload, and says to give its path instead', async () => {
+  it('does not read a big file into the page; where the shell cannot stream it, asks for its path', async () => {
     store.getState().go('import');
     renderApp();
     const input = await screen.findByLabelText('…or upload a file (CSV, JSON, JSON Lines)');
@@ -78,9 +79,45 @@ describe('import screen', () => {
       return '';
     };
     fireEvent.change(input, { target: { files: [big] } });
-    expect((await screen.findByRole('alert')).textContent).toMatch(/^clicks\.csv is 42 MB: files over 24 MB are not sent through the window\. Type its path/);
+    expect((await screen.findByRole('alert')).textContent).toMatch(/^clicks\.csv is 42 MB: files over 24 MB are not sent through the window here\. Type its path/);
     expect(read).toBe(false);
     expect(screen.getByRole('button', { name: 'Preview' }).hasAttribute('disabled')).toBe(true);
+  });
+
+  it('streams a big file ahead where the shell can, and previews it by the id it got back', async () => {
+    const sent: File[] = [];
+    const requests: [string, unknown][] = [];
+    const upload = 'ab'.repeat(16);
+    // The page's side only: the main side's upload and its import by id have their own tests (test/shell).
+    const client: Client = {
+      async call(method, payload) {
+        requests.push([method, payload]);
+        if (method === 'import.preview' && (payload as { upload?: string }).upload === upload) {
+          return h.client.call('import.preview', { fileName: 'clicks.csv', content: 'customer,item,kind\nc-1,i-1,view\n', target: 'signals' }) as never;
+        }
+        return h.client.call(method, payload);
+      },
+      upload: async (file) => {
+        sent.push(file);
+        return { upload, bytes: file.size };
+      },
+    };
+    cleanup();
+    store = createAppStore(client);
+    store.getState().go('import');
+    renderApp();
+    const big = new File(['customer,item,kind\n'], 'clicks.csv', { type: 'text/csv' });
+    Object.defineProperty(big, 'size', { value: 42 * 1024 * 1024 });
+    big.text = async () => {
+      throw new Error('a big file must not be read into the page');
+    };
+    fireEvent.change(await screen.findByLabelText('…or upload a file (CSV, JSON, JSON Lines)'), { target: { files: [big] } });
+    await waitFor(() => expect(sent).toEqual([big]));
+    const preview = screen.getByRole('button', { name: 'Preview' });
+    await waitFor(() => expect(preview.hasAttribute('disabled')).toBe(false));
+    fireEvent.click(preview);
+    expect(await screen.findByRole('region', { name: 'Preview' })).toBeTruthy();
+    expect(requests.find(([m]) => m === 'import.preview')?.[1]).toMatchObject({ upload, target: 'items' });
   });
 });
 

@@ -22,7 +22,7 @@ async function main(): Promise<void> {
   for (const suffix of ['', '-wal', '-shm']) if (fs.existsSync(source + suffix)) fs.copyFileSync(source + suffix, copy + suffix);
   const ctx = new AppContext();
   ctx.open(copy, { create: false });
-  const shell = await startWebShell({ table: createHandlerTable(ctx), staticDir: path.join(ROOT, 'dist', 'renderer') });
+  const shell = await startWebShell({ table: createHandlerTable(ctx), uploads: ctx.uploads, staticDir: path.join(ROOT, 'dist', 'renderer') });
   const browser = await chromium.launch(config.use?.launchOptions);
   const out = path.join(ROOT, 'docs', 'screenshots');
   fs.mkdirSync(out, { recursive: true });

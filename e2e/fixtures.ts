@@ -12,7 +12,7 @@ import { startWebShell, type WebShell } from '../src-main/shell/web/server.ts';
 import { seedSmallShop } from './seed.ts';
 
 export const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
-const DIST = path.join(ROOT, 'dist', 'renderer');
+export const DIST = path.join(ROOT, 'dist', 'renderer');
 
 /** Builds the renderer once per run when it is missing or older than its sources. */
 export function ensureBuilt(): void {
@@ -49,7 +49,7 @@ export const test = base.extend<object, { app: App }>({
       ctx.open(workspace, { create: true });
       seedSmallShop(ctx.db);
       const startedAt = performance.now();
-      const shell = await startWebShell({ table: createHandlerTable(ctx), staticDir: DIST });
+      const shell = await startWebShell({ table: createHandlerTable(ctx), uploads: ctx.uploads, staticDir: DIST });
       await use({ shell, ctx, dir, workspace, startedAt });
       await shell.close();
       ctx.close();
@@ -122,7 +122,7 @@ export const journeyTest = base.extend<{ fresh: FreshApp }>({
     const ctx = new AppContext();
     ctx.open(path.join(dir, 'journey.sqlite'), { create: true });
     const startedAt = performance.now();
-    const shell = await startWebShell({ table: createHandlerTable(ctx), staticDir: DIST });
+    const shell = await startWebShell({ table: createHandlerTable(ctx), uploads: ctx.uploads, staticDir: DIST });
     await use({ shell, ctx, files, startedAt });
     await shell.close();
     ctx.close();

@@ -62,8 +62,8 @@ async function trainAndEvaluate(page: Page, o: JourneyOptions): Promise<void> {
   await panel.getByRole('button', { name: 'Evaluate against this file' }).click();
   const table = panel.getByRole('table', { name: 'Models scored on the file' });
   await expect(table).toBeVisible({ timeout: 60_000 });
-  await expect(panel.getByLabel('Holdout summary')).toContainText('1 unknown customers');
-  await expect(panel.getByLabel('Holdout summary')).toContainText('1 unknown items');
+  await expect(panel.getByLabel('Holdout summary')).toContainText('1 unknown customer (1 row)');
+  await expect(panel.getByLabel('Holdout summary')).toContainText('1 unknown item (1 row)');
   await expect(table.getByRole('columnheader')).toContainText(['Model', 'NDCG@10', 'Recall@10', 'HitRate@10', 'Coverage@10', 'Novelty (bits)']);
   const shown = await table.locator('tbody th').allInnerTexts();
   const api = await o.api('evaluate.holdout', { source: { file: o.files.holdout }, k: 10 });

@@ -1,10 +1,8 @@
+import { plural } from '../../src-main/core/util/plural.ts';
 import { useId, useMemo, useState, type FormEvent } from 'react';
 import { useApp } from '../state/store.ts';
 import { num, pct } from './format.ts';
 import { MetricsChart } from './MetricsChart.tsx';
-
-const count = (n: number) => n.toLocaleString('en');
-const rowsWord = (n: number) => `${count(n)} row${n === 1 ? '' : 's'}`;
 
 /**
  * "Evaluate against a file": the editor brings held-out pairs (customer, item; CSV or JSON Lines, mapped
@@ -72,10 +70,10 @@ export function HoldoutPanel() {
       {result && (
         <div aria-live="polite">
           <p aria-label="Holdout summary">
-            {result.file}: {count(result.rows)} rows, {count(result.pairs)} pairs for {count(result.customers)} customers ·{' '}
-            <strong>{count(result.unknownCustomers.distinct)} unknown customers</strong> ({rowsWord(result.unknownCustomers.rows)}) ·{' '}
-            <strong>{count(result.unknownItems.distinct)} unknown items</strong> ({rowsWord(result.unknownItems.rows)}) ·{' '}
-            {count(result.alreadyInWorkspace)} pairs already in the workspace
+            {result.file}: {plural(result.rows, 'row')}, {plural(result.pairs, 'pair')} for {plural(result.customers, 'customer')} ·{' '}
+            <strong>{plural(result.unknownCustomers.distinct, 'unknown customer')}</strong> ({plural(result.unknownCustomers.rows, 'row')}) ·{' '}
+            <strong>{plural(result.unknownItems.distinct, 'unknown item')}</strong> ({plural(result.unknownItems.rows, 'row')}) ·{' '}
+            {plural(result.alreadyInWorkspace, 'pair')} already in the workspace
           </p>
           <table aria-label="Models scored on the file">
             <thead>

@@ -90,7 +90,7 @@ describe('shelfwright train / evaluate / similar / propose / recommend', () => {
     expect(r.usableRows + r.unknownCustomers.rows).toBe(r.rows);
     expect(r.customers).toBeGreaterThan(50);
     const text = await run('evaluate', '--holdout', holdout);
-    expect(text.out).toMatch(/1 unknown customers \(1 rows\), e\.g\. nobody-at-all/);
+    expect(text.out).toMatch(/1 unknown customer \(1 row\), e\.g\. nobody-at-all/);
     expect(text.out).toMatch(/NDCG@20/);
   }, 30_000);
 

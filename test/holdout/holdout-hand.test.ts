@@ -90,7 +90,7 @@ describe('evaluateHoldout on the hand-worked case', () => {
     const content = 'customer,item\nu9,i1\nu1,i1\n';
     for (const fileName of ['../../outside.csv', 'C:\\Users\\me\\week.csv']) {
       // The same reading as for x.csv below: the file was staged and read, not written outside its folder.
-      await expect(evaluateHoldout(db, { fileName, content }, { k: 2 })).rejects.toThrow(/unknown customers/);
+      await expect(evaluateHoldout(db, { fileName, content }, { k: 2 })).rejects.toThrow(/unknown customer/);
     }
     // A bare '..' once named the temporary folder's parent (a write error); now it is only a name without a format.
     await expect(evaluateHoldout(db, { fileName: '..', content }, { k: 2 })).rejects.toThrow(/cannot tell the format/);
@@ -98,6 +98,6 @@ describe('evaluateHoldout on the hand-worked case', () => {
 
   it('refuses a file with no usable pair, saying why', async () => {
     const only = evaluateHoldout(db, { fileName: 'x.csv', content: 'customer,item\nu9,i1\nu1,i1\n' }, { k: 2 });
-    await expect(only).rejects.toThrow(/1 unknown customers, 0 unknown items, 1 pairs already in the workspace/);
+    await expect(only).rejects.toThrow(/1 unknown customer, 0 unknown items, 1 pair already in the workspace/);
   });
 });

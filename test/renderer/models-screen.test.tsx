@@ -101,7 +101,7 @@ describe('evaluate against a file', () => {
     expect(sent).toEqual([{ source: { fileName: 'week.csv', content: 'customer,item\nc1,i1\n' }, k: 5 }]);
     expect(within(table).getAllByRole('rowheader').map((c) => c.textContent)).toEqual(['ials', 'random']);
     expect(within(table).getAllByRole('row')[2]?.textContent).toContain('baseline or blend');
-    expect(within(region).getByLabelText('Holdout summary').textContent).toContain('2 unknown customers (2 rows) · 1 unknown items (1 row)');
+    expect(within(region).getByLabelText('Holdout summary').textContent).toContain('2 unknown customers (2 rows) · 1 unknown item (1 row)');
     expect(plots.at(-1)?.opts.series.slice(1).map((s) => s.label)).toEqual(['NDCG@5', 'Recall@5', 'HitRate@5']);
   });
 });

@@ -13,6 +13,7 @@
  *   Coverage@K over the catalogue and Novelty (mean self-information, Zhou et al. 2010) with an item's
  *   popularity = the number of workspace customers who have it.
  */
+import { plural } from '../../core/util/plural.ts';
 import { InputError } from '../../core/errors.ts';
 import { RankingEvaluator, type EvalResult, type EvalTruth } from '../../core/eval/index.ts';
 import { randomScorer } from '../../core/models/popularity.ts';
@@ -102,8 +103,8 @@ export function evaluateHoldoutRows(db: Db, ds: Dataset, rows: HoldoutRows, k: n
   const { truth } = truthAndCounts;
   if (truth.customers.length === 0) {
     throw new InputError(
-      `no held-out pair can be evaluated: ${truthAndCounts.unknownCustomers.distinct} unknown customers, ` +
-        `${truthAndCounts.unknownItems.distinct} unknown items, ${truthAndCounts.alreadyInWorkspace} pairs already in the workspace`,
+      `no held-out pair can be evaluated: ${plural(truthAndCounts.unknownCustomers.distinct, 'unknown customer')}, ` +
+        `${plural(truthAndCounts.unknownItems.distinct, 'unknown item')}, ${plural(truthAndCounts.alreadyInWorkspace, 'pair')} already in the workspace`,
       { file: rows.file },
     );
   }

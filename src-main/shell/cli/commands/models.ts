@@ -1,3 +1,4 @@
+import { plural } from '../../../core/util/plural.ts';
 import type { ResponseOf } from '../../../api/contract.ts';
 import { call, CliApiError } from '../call.ts';
 import { EXIT, type CliCommand, type CommandEnv } from '../command.ts';
@@ -213,13 +214,13 @@ const evaluateCommand: CliCommand = {
         return EXIT.ok;
       }
       const unk = (what: string, u: typeof r.unknownCustomers) =>
-        u.distinct ? `${u.distinct} unknown ${what} (${u.rows} rows), e.g. ${u.examples.join(', ')}` : `no unknown ${what}`;
+        u.distinct ? `${plural(u.distinct, `unknown ${what}`)} (${plural(u.rows, 'row')}), e.g. ${u.examples.join(', ')}` : `no unknown ${what}s`;
       env.io.out(
         [
-          `${r.file}: ${r.rows} rows, ${r.pairs} held-out pairs, ${r.customers} customers evaluated at K=${r.k}`,
-          `${unk('customers', r.unknownCustomers)}; ${unk('items', r.unknownItems)}`,
-          `${r.alreadyInWorkspace} pairs already in the workspace, ${r.duplicateRows} duplicate rows, ` +
-            `${r.customersWithoutNewItems} customers with nothing new, ${r.coldCustomers} customers with no history`,
+          `${r.file}: ${plural(r.rows, 'row')}, ${plural(r.pairs, 'held-out pair')}, ${plural(r.customers, 'customer')} evaluated at K=${r.k}`,
+          `${unk('customer', r.unknownCustomers)}; ${unk('item', r.unknownItems)}`,
+          `${plural(r.alreadyInWorkspace, 'pair')} already in the workspace, ${plural(r.duplicateRows, 'duplicate row')}, ` +
+            `${plural(r.customersWithoutNewItems, 'customer')} with nothing new, ${plural(r.coldCustomers, 'customer')} with no history`,
           r.models.some((m) => m.stale)
             ? metricsTable(r.models, r.k, (m) => [(m as { stale?: boolean | null }).stale ? 'stale: retrain' : ''], ['model data'])
             : metricsTable(r.models, r.k),

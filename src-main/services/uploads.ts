@@ -63,7 +63,7 @@ export class UploadStore {
     const counter = new Transform({
       transform(chunk: Buffer, _encoding, done) {
         bytes += chunk.length;
-        if (bytes > limit) done(new UploadRefused('too_large', `the file is larger than ${limit} bytes`));
+        if (bytes > limit) done(new UploadRefused('too_large', `the file is larger than ${sizeInWords(limit)}`));
         else done(null, chunk);
       },
     });
@@ -118,4 +118,12 @@ export class UploadStore {
     }
     return this.#root;
   }
+}
+
+/** "4 GiB", "24 MiB", "4096 bytes": a size limit as people read it. */
+export function sizeInWords(bytes: number): string {
+  for (const [unit, size] of [['GiB', 2 ** 30], ['MiB', 2 ** 20]] as const) {
+    if (bytes >= size && bytes % size === 0) return `${bytes / size} ${unit}`;
+  }
+  return `${bytes} bytes`;
 }

@@ -5,7 +5,7 @@ import { Readable } from 'node:stream';
 import { afterEach, describe, expect, it } from 'vitest';
 import { InputError } from '../../src-main/core/errors.ts';
 import { safeBaseName } from '../../src-main/services/staged-file.ts';
-import { UploadRefused, UploadStore } from '../../src-main/services/uploads.ts';
+import { sizeInWords, UploadRefused, UploadStore } from '../../src-main/services/uploads.ts';
 
 describe('safeBaseName', () => {
   it('keeps only the last path part, with its extension', () => {
@@ -65,5 +65,11 @@ describe('UploadStore', () => {
     expect(e).toBeInstanceOf(UploadRefused);
     expect((e as UploadRefused).reason).toBe('too_large');
     expect(fs.readdirSync(s.folder!)).toEqual([]);
+  });
+});
+
+describe('sizeInWords', () => {
+  it('says a limit in the unit it is a whole number of', () => {
+    expect([4 * 2 ** 30, 32 * 2 ** 20, 4096, 2 ** 20 + 1].map(sizeInWords)).toEqual(['4 GiB', '32 MiB', '4096 bytes', '1048577 bytes']);
   });
 });

@@ -6,7 +6,7 @@ import type { AddressInfo } from 'node:net';
 import { invoke, type HandlerTable } from '../../api/handler-table.ts';
 import type { ApiError, ApiResult } from '../../api/define.ts';
 import { MAX_STREAMED_UPLOAD_BYTES } from '../../api/contracts/data.ts';
-import { UploadRefused, type UploadStore } from '../../services/uploads.ts';
+import { sizeInWords, UploadRefused, type UploadStore } from '../../services/uploads.ts';
 import { hostIsAllowed, originIsAllowed, requestToken, setSecurityHeaders, tokenMatches } from './guard.ts';
 import { contentTypeOf, indexWithToken, resolveStaticFile } from './static.ts';
 
@@ -83,7 +83,7 @@ export async function startWebShell(options: WebShellOptions): Promise<WebShell>
     const body = await readBody(req, maxBody);
     if (body === null) {
       res.setHeader('Connection', 'close');
-      return sendError(res, 413, 'input', `request larger than ${maxBody} bytes`);
+      return sendError(res, 413, 'input', `request larger than ${sizeInWords(maxBody)}`);
     }
     let payload: unknown;
     try {
@@ -113,7 +113,7 @@ export async function startWebShell(options: WebShellOptions): Promise<WebShell>
       return refuse(req, res, 400, 'input', `name the file in the ${FILE_NAME_HEADER} header (encodeURIComponent of its name)`);
     }
     if (Number(req.headers['content-length'] ?? '0') > maxUpload) {
-      return refuse(req, res, 413, 'input', `the file is larger than ${maxUpload} bytes`);
+      return refuse(req, res, 413, 'input', `the file is larger than ${sizeInWords(maxUpload)}`);
     }
     try {
       const upload = await options.uploads.receive(fileName, req, maxUpload);

@@ -5,6 +5,7 @@
  * when the catalogue, the signals or the trained models change.
  */
 import { buildCurationContext, type CurationContext } from '../../core/curation/context.ts';
+import { signalsByCustomer } from '../../core/matrix/by-customer.ts';
 import { trendRatios } from '../../core/models/popularity.ts';
 import { HybridScorer, type HybridModels } from '../../core/scoring/index.ts';
 import type { Dataset } from '../../core/types.ts';
@@ -25,18 +26,6 @@ export interface CurationWorld {
   memo: Map<string, unknown>;
 }
 
-/** Counting sort of signal indices by customer: one pass to count, one to place. */
-function signalsByCustomer(ds: Dataset): { ptr: Int32Array; signal: Int32Array } {
-  const nC = ds.customerIds.length;
-  const s = ds.signals;
-  const ptr = new Int32Array(nC + 1);
-  for (let k = 0; k < s.length; k++) ptr[s.customer[k]! + 1]!++;
-  for (let u = 0; u < nC; u++) ptr[u + 1]! += ptr[u]!;
-  const next = ptr.slice(0, nC);
-  const signal = new Int32Array(s.length);
-  for (let k = 0; k < s.length; k++) signal[next[s.customer[k]!]!++] = k;
-  return { ptr, signal };
-}
 
 /**
  * Trained models for the hybrid, when the workspace has them. Until a models store is wired in, every
@@ -113,7 +102,7 @@ export function loadWorld(db: Db, source: ModelSource = noModels): CurationWorld
   const hit = bySource.get(source);
   if (hit && hit.stamp === st) return hit.world;
   const ds = loadDataset(db);
-  const byCustomer = signalsByCustomer(ds);
+  const byCustomer = signalsByCustomer(ds.signals, ds.customerIds.length);
   const customersPerItem = customersPerItemOf(ds, byCustomer);
   const nC = ds.customerIds.length;
   const popularity = Float64Array.from(customersPerItem, (c) => (nC === 0 ? 0 : c / nC));

@@ -5,6 +5,7 @@
  */
 import type { BlendWeights } from '../../core/curation/types.ts';
 import { DEFAULT_WEIGHTS } from '../../core/editing/brief-schema.ts';
+import { customerItemSets } from '../../core/matrix/by-customer.ts';
 import { buildInteractionMatrix } from '../../core/matrix/build.ts';
 import type { Csr } from '../../core/matrix/csr.ts';
 import { loadContent } from '../../core/models/content.ts';
@@ -123,28 +124,6 @@ export function columnCounts(m: Csr): Int32Array {
  * from their list even though it carries no positive weight in the interaction matrix.
  */
 export function ownedMatrix(ds: Dataset): Csr {
-  return markAllPairs(ds, ds.customerIds.length, ds.items.length);
+  return customerItemSets(ds.signals, ds.customerIds.length, ds.items.length);
 }
 
-function markAllPairs(ds: Dataset, rows: number, cols: number): Csr {
-  const s = ds.signals;
-  const perRow = new Int32Array(rows + 1);
-  for (let k = 0; k < s.length; k++) perRow[s.customer[k]! + 1]!++;
-  for (let r = 0; r < rows; r++) perRow[r + 1]! += perRow[r]!;
-  const next = perRow.slice(0, rows);
-  const idx = new Int32Array(s.length);
-  for (let k = 0; k < s.length; k++) idx[next[s.customer[k]!]!++] = s.item[k]!;
-  // Sort and de-duplicate each row in place (the write position never passes the read position).
-  const indptr = new Int32Array(rows + 1);
-  let q = 0;
-  for (let r = 0; r < rows; r++) {
-    const row = idx.subarray(perRow[r]!, perRow[r + 1]!).sort();
-    let last = -1;
-    for (const i of row) {
-      if (i !== last) idx[q++] = i;
-      last = i;
-    }
-    indptr[r + 1] = q;
-  }
-  return { rows, cols, indptr, indices: idx.slice(0, q), data: new Float32Array(q).fill(1) };
-}

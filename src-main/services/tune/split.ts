@@ -8,6 +8,7 @@
  *   so a held-out pair cannot leak into train through a second signal (common practice, no source).
  */
 import { InputError } from '../../core/errors.ts';
+import { customerItemSets } from '../../core/matrix/by-customer.ts';
 import { quantileCuts, splitByTime } from '../../core/matrix/split.ts';
 import { seededRng } from '../../core/rng.ts';
 import type { Dataset } from '../../core/types.ts';
@@ -38,18 +39,13 @@ export function validationSplit(ds: Dataset, o: { share?: number; seed?: number 
 function randomSplit(ds: Dataset, share: number, seed: number): { train: Int32Array; validation: Int32Array } {
   const s = ds.signals;
   const nC = ds.customerIds.length;
-  // Distinct items of each customer, in ascending item order (a CSR built by counting).
-  const ptr = new Int32Array(nC + 1);
-  for (let k = 0; k < s.length; k++) ptr[s.customer[k]! + 1]!++;
-  for (let u = 0; u < nC; u++) ptr[u + 1]! += ptr[u]!;
-  const next = ptr.slice(0, nC);
-  const items = new Int32Array(s.length);
-  for (let k = 0; k < s.length; k++) items[next[s.customer[k]!]!++] = s.item[k]!;
+  // Distinct items of each customer, in ascending item order.
+  const owned = customerItemSets(s, nC, ds.items.length);
   const rng = seededRng(seed);
   const held = new Set<number>(); // key u * nItems + i
   const nI = ds.items.length;
   for (let u = 0; u < nC; u++) {
-    const row = Array.from(new Set(items.subarray(ptr[u]!, ptr[u + 1]!))).sort((a, b) => a - b);
+    const row = Array.from(owned.indices.subarray(owned.indptr[u]!, owned.indptr[u + 1]!), Number);
     if (row.length < 2) continue;
     const take = Math.min(row.length - 1, Math.max(1, Math.round(share * row.length)));
     // Partial Fisher–Yates with the seeded rng: the first `take` positions are the held-out items.

@@ -3,6 +3,7 @@ import type { ShelfView } from '../state/curation-slice.ts';
 import type { ItemRef } from '../state/insight-slice.ts';
 import { useApp } from '../state/store.ts';
 import { topPercent } from './format.ts';
+import { SlotSelect } from './SlotSelect.tsx';
 
 /**
  * Anchors: items the shelf should be "like". The editor searches the catalogue (`item.search`), adds or
@@ -111,16 +112,7 @@ export function AnchorPicker({ shelf, readOnly }: { shelf: ShelfView; readOnly: 
       )}
       {proposal && rankedFor === anchorKey && (
         <div aria-live="polite">
-          <div className="field">
-            <label htmlFor={`${id}-slot`}>Pin a proposal into slot</label>
-            <select id={`${id}-slot`} value={slot} onChange={(e) => setSlot(Number(e.target.value))}>
-              {shelf.slots.map((s) => (
-                <option key={s.slot} value={s.slot}>
-                  {s.slot}
-                </option>
-              ))}
-            </select>
-          </div>
+          <SlotSelect id={`${id}-slot`} label="Pin a proposal into slot" shelf={shelf} value={slot} onChange={setSlot} />
           <ol className="results" aria-label="Proposals ranked towards the anchors">
             {proposal.items.map((p) => (
               <li key={p.item}>

@@ -3,6 +3,7 @@ import { useEffect, useId, useRef } from 'react';
 import type { ShelfAction, ShelfView } from '../state/curation-slice.ts';
 import { useApp } from '../state/store.ts';
 import { topPercent } from './format.ts';
+import { SlotSelect } from './SlotSelect.tsx';
 
 const ROW_PX = 56;
 
@@ -30,16 +31,7 @@ export function CandidatePool({ shelf, slot, onSlot, readOnly, onAct }: { shelf:
   return (
     <section className="panel pool" aria-labelledby={`${id}-h`}>
       <h2 id={`${id}-h`}>Candidates</h2>
-      <div className="field">
-        <label htmlFor={`${id}-slot`}>For slot</label>
-        <select id={`${id}-slot`} value={slot} onChange={(e) => onSlot(Number(e.target.value))}>
-          {shelf.slots.map((s) => (
-            <option key={s.slot} value={s.slot}>
-              {s.slot}
-            </option>
-          ))}
-        </select>
-      </div>
+      <SlotSelect id={`${id}-slot`} label="For slot" shelf={shelf} value={slot} onChange={onSlot} />
       {whatif.error && (
         <p className="error" role="alert">
           Could not rank the candidates: {whatif.error}

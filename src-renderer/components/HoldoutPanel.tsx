@@ -3,6 +3,7 @@ import { useId, useMemo, useState, type FormEvent } from 'react';
 import { useApp } from '../state/store.ts';
 import { num, pct } from './format.ts';
 import { MetricsChart } from './MetricsChart.tsx';
+import { Notes } from './Notes.tsx';
 
 /**
  * "Evaluate against a file": the editor brings held-out pairs (customer, item; CSV or JSON Lines, mapped
@@ -102,13 +103,7 @@ export function HoldoutPanel() {
             </tbody>
           </table>
           <MetricsChart labels={labels} series={series} title={`Scored on ${result.file} at K = ${result.k}`} />
-          {result.notes.length > 0 && (
-            <ul className="small muted">
-              {result.notes.map((n, i) => (
-                <li key={i}>{n}</li>
-              ))}
-            </ul>
-          )}
+          <Notes notes={result.notes} />
         </div>
       )}
     </section>

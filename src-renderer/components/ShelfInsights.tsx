@@ -2,6 +2,7 @@ import { useId, useState } from 'react';
 import type { ShelfView } from '../state/curation-slice.ts';
 import { useApp } from '../state/store.ts';
 import { num, pct } from './format.ts';
+import { Notes } from './Notes.tsx';
 
 /**
  * Backtest (`shelf.backtest`): the share of the shelf's audience that engaged with its items in the most
@@ -51,13 +52,7 @@ export function BacktestPanel({ shelf }: { shelf: ShelfView }) {
             {bar('This shelf', result.shelf.share, result.shelf.engaged)}
             {bar('Popularity only', result.popularity.share, result.popularity.engaged)}
           </div>
-          {result.notes.length > 0 && (
-            <ul className="small muted">
-              {result.notes.map((n, i) => (
-                <li key={i}>{n}</li>
-              ))}
-            </ul>
-          )}
+          <Notes notes={result.notes} />
         </div>
       )}
     </section>

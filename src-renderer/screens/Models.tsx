@@ -3,6 +3,7 @@ import { HoldoutPanel } from '../components/HoldoutPanel.tsx';
 import { MetricsChart } from '../components/MetricsChart.tsx';
 import { num, pct } from '../components/format.ts';
 import { useApp } from '../state/store.ts';
+import { Notes } from '../components/Notes.tsx';
 
 function TrainPanel() {
   const job = useApp((s) => s.models.job);
@@ -116,13 +117,7 @@ function EvaluationPanel() {
             </tbody>
           </table>
           <MetricsChart labels={labels} series={series} title={`Models and baselines at K = ${evaluation.k}`} />
-          {evaluation.notes.length > 0 && (
-            <ul className="small muted">
-              {evaluation.notes.map((n, i) => (
-                <li key={i}>{n}</li>
-              ))}
-            </ul>
-          )}
+          <Notes notes={evaluation.notes} />
         </>
       ) : (
         <p className="muted">No evaluation yet. Train the models, then evaluate.</p>

@@ -157,16 +157,11 @@ export function evaluateHoldoutRows(db: Db, ds: Dataset, rows: HoldoutRows, k: n
   };
 }
 
-interface TruthAndCounts {
-  truth: EvalTruth;
-  usableRows: number;
-  unknownCustomers: UnknownIds;
-  unknownItems: UnknownIds;
-  alreadyInWorkspace: number;
-  duplicateRows: number;
-  customersWithoutNewItems: number;
-  coldCustomers: number;
-}
+/** The truth, and the counts the report gives about how the file's rows were used. */
+type TruthAndCounts = { truth: EvalTruth } & Pick<
+  HoldoutEvaluation,
+  'usableRows' | 'unknownCustomers' | 'unknownItems' | 'alreadyInWorkspace' | 'duplicateRows' | 'customersWithoutNewItems' | 'coldCustomers'
+>;
 
 function buildTruth(ds: Dataset, rows: HoldoutRows, owned: { indptr: Int32Array; indices: Int32Array }): TruthAndCounts {
   const customerIndex = new Map<string, number>();

@@ -34,7 +34,6 @@ export function ShelfEditor() {
   const refill = useApp((s) => s.refill);
   const go = useApp((s) => s.go);
   if (!shelf) return <p className="notice">Choose a shelf on the edition board.</p>;
-  const leftOut = describeExclusions(shelf.excluded);
   const focused = whatif.result?.candidates.find((c) => c.item === whatif.focus) ?? null;
   const preview = focused && whatif.result ? { title: focused.title, slot: whatif.result.slot, delta: focused.delta } : null;
   const readOnly = published || shelf.locked;
@@ -73,13 +72,8 @@ export function ShelfEditor() {
         {shelf.slots.filter((s) => s.item).length} of {shelf.size} slots filled from a pool of {shelf.poolSize}
         {shelf.locked ? ' · locked: unlock to change it' : ''}
         {lastMs !== null ? ` · last change shown in ${Math.round(lastMs)} ms` : ''}
-        {leftOut ? (
-          <>
-            <br />
-            Left out of the pool: {leftOut}
-          </>
-        ) : null}
       </p>
+      {describeExclusions(shelf.excluded) && <p className="muted small">Left out of the pool: {describeExclusions(shelf.excluded)}</p>}
       {shelf.violations.length > 0 && (
         <div className="warn" role="status">
           <p>Rules not met:</p>

@@ -1,10 +1,14 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
 import AxeBuilder from '@axe-core/playwright';
+import { writeLaunchPage } from '../src-main/shell/launch/launch-page.ts';
 import { expect, test } from './fixtures.ts';
 import { SHOP } from './seed.ts';
 
 test('overview of a small workspace shows its real counts and passes an accessibility check', async ({ page, app }) => {
   const t0 = performance.now();
-  await page.goto(app.shell.origin);
+  await page.goto(app.shell.pageUrl);
   const counts = page.getByRole('definition');
   await expect(page.getByRole('heading', { name: 'Workspace overview' })).toBeVisible();
   await expect(counts).toHaveText([String(SHOP.items), String(SHOP.customers), String(SHOP.signals)]);
@@ -18,7 +22,7 @@ test('overview of a small workspace shows its real counts and passes an accessib
 });
 
 test('opening a missing file shows the error beside the form and keeps the workspace', async ({ page, app }) => {
-  await page.goto(app.shell.origin);
+  await page.goto(app.shell.pageUrl);
   await expect(page.getByRole('definition').first()).toHaveText(String(SHOP.items));
   await page.getByLabel('Workspace file (path on this computer)').fill(`${app.dir}/nowhere.sqlite`);
   await page.getByRole('button', { name: 'Open' }).click();
@@ -30,4 +34,25 @@ test('the api refuses a call that lacks the launch token', async ({ page, app })
   const res = await page.request.post(`${app.shell.origin}api/workspace.info`, { data: {} });
   expect(res.status()).toBe(401);
   expect(await res.json()).toEqual({ ok: false, error: { code: 'input', message: 'missing or wrong launch token' } });
+});
+
+test('the private launch page opens the app, the token leaves the address bar, and a reload still works', async ({ page, app }) => {
+  const profile = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-launch-'));
+  try {
+    // What `npm start` hands the browser: a file address, so the token is never on a command line.
+    await page.goto(writeLaunchPage(profile, app.shell.pageUrl));
+    await expect(page.getByRole('definition').first()).toHaveText(String(SHOP.items));
+    expect(page.url()).toBe(app.shell.origin);
+    expect(page.url()).not.toContain(app.shell.token);
+    await page.reload();
+    await expect(page.getByRole('definition').first()).toHaveText(String(SHOP.items));
+  } finally {
+    fs.rmSync(profile, { recursive: true, force: true });
+  }
+});
+
+test('the page served without the fragment holds no token and asks for the address the launcher printed', async ({ page, app }) => {
+  const res = await page.goto(app.shell.origin);
+  expect(await res?.text()).not.toContain(app.shell.token);
+  await expect(page.getByRole('alert')).toContainText('This page needs the address Shelfwright printed when it started');
 });

@@ -21,13 +21,22 @@ test('overview of a small workspace shows its real counts and passes an accessib
   await page.screenshot({ path: 'test-results/overview.png', fullPage: true });
 });
 
-test('opening a missing file shows the error beside the form and keeps the workspace', async ({ page, app }) => {
+test('the web page names no file on this computer: no path fields, and another workspace is chosen at launch', async ({ page, app }) => {
   await page.goto(app.shell.pageUrl);
   await expect(page.getByRole('definition').first()).toHaveText(String(SHOP.items));
-  await page.getByLabel('Workspace file (path on this computer)').fill(`${app.dir}/nowhere.sqlite`);
-  await page.getByRole('button', { name: 'Open' }).click();
-  await expect(page.getByRole('alert')).toContainText('Could not open that file: no workspace at');
-  await expect(page.getByRole('definition').first()).toHaveText(String(SHOP.items));
+  await expect(page.getByRole('heading', { name: 'Another workspace' })).toBeVisible();
+  await expect(page.getByText('npm start -- --workspace FILE')).toBeVisible();
+  await expect(page.getByLabel('Workspace file (path on this computer)')).toHaveCount(0);
+  await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Import' }).click();
+  await expect(page.getByLabel('Upload a file (CSV, JSON, JSON Lines)')).toBeVisible();
+  await expect(page.getByLabel('Path on this computer')).toHaveCount(0);
+  // And the shell behind it refuses a path even with the token (test/shell/web-path-fields.test.ts tries them all).
+  const res = await page.request.post(`${app.shell.origin}api/workspace.open`, {
+    headers: { 'x-shelfwright-token': app.shell.token },
+    data: { file: `${app.dir}/elsewhere.sqlite`, create: true },
+  });
+  expect(res.status()).toBe(400);
+  expect((await res.json()).error.message).toMatch(/^file: the web shell takes no paths/);
 });
 
 test('the api refuses a call that lacks the launch token', async ({ page, app }) => {

@@ -98,7 +98,8 @@ export async function startWebShell(options: WebShellOptions): Promise<WebShell>
     }
     const name = decodedMethod(method);
     if (name === null) return sendError(res, 400, 'input', 'the method name in the address is not valid percent-encoding');
-    const result = await invoke(options.table, name, payload);
+    // Files come in as uploads and go out as downloads here: a field naming a server path is refused.
+    const result = await invoke(options.table, name, payload, { serverPaths: 'refuse' });
     sendJson(res, result.ok ? 200 : STATUS[result.error.code], result);
   }
 

@@ -39,6 +39,13 @@ export function readLaunchToken(loc: Location, hist: History | null, storage: St
   }
 }
 
+/**
+ * What a 401 means to the person at the window: the key it holds is not this run's (Shelfwright was restarted,
+ * or the address was opened without its `#token=` part), so the fix is the address the launcher printed.
+ */
+export const WRONG_KEY_MESSAGE =
+  'Shelfwright does not recognise this window (it may have been restarted). Open the address it printed when it started, including the part after #.';
+
 export function createHttpTransport(token: string, fetchImpl: typeof fetch = fetch, base = ''): Transport {
   return async (method, payload) => {
     const res = await fetchImpl(`${base}/api/${encodeURIComponent(method)}`, {
@@ -46,6 +53,7 @@ export function createHttpTransport(token: string, fetchImpl: typeof fetch = fet
       headers: { 'content-type': 'application/json', [TOKEN_HEADER]: token },
       body: JSON.stringify(payload ?? {}),
     });
+    if (res.status === 401) return { ok: false, error: { code: 'input', message: WRONG_KEY_MESSAGE } };
     const type = res.headers.get('content-type') ?? '';
     if (!type.includes('application/json')) throw new Error(`HTTP ${res.status}`);
     return (await res.json()) as ApiResult<unknown>;
@@ -63,6 +71,7 @@ export function createHttpUploader(token: string, fetchImpl: typeof fetch = fetc
       headers: { 'content-type': 'application/octet-stream', 'x-file-name': encodeURIComponent(file.name), [TOKEN_HEADER]: token },
       body: file,
     });
+    if (res.status === 401) throw new ApiCallError({ code: 'input', message: WRONG_KEY_MESSAGE });
     const type = res.headers.get('content-type') ?? '';
     if (!type.includes('application/json')) throw new Error(`HTTP ${res.status}`);
     const result = (await res.json()) as ApiResult<StagedUpload>;

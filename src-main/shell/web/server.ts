@@ -83,6 +83,8 @@ export async function startWebShell(options: WebShellOptions): Promise<WebShell>
     if (req.method !== 'POST') return sendError(res, 405, 'input', 'api calls use POST');
     if (!tokenMatches(requestToken(req), token)) return sendError(res, 401, 'input', 'missing or wrong launch token');
     if (!originIsAllowed(req.headers.origin, port)) return sendError(res, 403, 'input', 'forbidden origin');
+    const name = decodedMethod(method);
+    if (name === null) return refuse(req, res, 400, 'input', 'the method name in the address is not valid percent-encoding');
     const type = req.headers['content-type'] ?? '';
     if (!type.startsWith('application/json')) return sendError(res, 415, 'input', 'send the request as application/json');
     const body = await readBody(req, maxBody);
@@ -96,8 +98,6 @@ export async function startWebShell(options: WebShellOptions): Promise<WebShell>
     } catch {
       return sendError(res, 400, 'input', 'the request body is not valid JSON');
     }
-    const name = decodedMethod(method);
-    if (name === null) return sendError(res, 400, 'input', 'the method name in the address is not valid percent-encoding');
     // Files come in as uploads and go out as downloads here: a field naming a server path is refused.
     const result = await invoke(options.table, name, payload, { serverPaths: 'refuse' });
     sendJson(res, result.ok ? 200 : STATUS[result.error.code], result);

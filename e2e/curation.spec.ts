@@ -9,7 +9,7 @@ import { expect, test } from './fixtures.ts';
  * meter follow, publish and export. Timings are printed, not asserted (DESIGN.md: benchmarks measure them).
  */
 test('an edition with two shelves: pin, boost, ban, live meter, publish, export', async ({ page, app }) => {
-  await page.goto(app.shell.origin);
+  await page.goto(app.shell.pageUrl);
   await page.getByRole('button', { name: 'Editions' }).click();
   await page.getByLabel('Name').fill('Week 49');
   await page.getByLabel('Date').fill('2026-12-07');
@@ -111,7 +111,7 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
 });
 
 test('history compares a new edition copied from the published one', async ({ page, app }) => {
-  await page.goto(app.shell.origin);
+  await page.goto(app.shell.pageUrl);
   await page.getByRole('button', { name: 'Editions' }).click();
   await page.getByLabel('Name').fill('Week 50');
   await page.getByLabel('Date').fill('2026-12-14');

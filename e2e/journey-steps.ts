@@ -8,7 +8,7 @@ export type { Api, JourneyOptions } from './journey-screen.ts';
 async function upload(page: Page, target: string, file: string | { name: string; mimeType: string; buffer: Buffer }): Promise<void> {
   await nav(page, 'Import');
   await page.getByLabel('What the file holds').selectOption(target);
-  await page.getByLabel('…or upload a file (CSV, JSON, JSON Lines)').setInputFiles(file);
+  await page.getByLabel('Upload a file (CSV, JSON, JSON Lines)').setInputFiles(file);
   await page.getByRole('button', { name: 'Preview' }).click();
   await expect(page.getByRole('region', { name: 'Preview' })).toContainText('Format csv');
   await page.getByRole('region', { name: 'Preview' }).getByRole('button', { name: 'Import', exact: true }).click();

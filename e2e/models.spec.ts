@@ -2,7 +2,7 @@ import { expect, seriousA11yViolations, test } from './fixtures.ts';
 
 /** Training runs as a job the page polls: the bar moves, the job ends, the models appear on the overview. */
 test('train the models with progress, then see them on the overview', async ({ page, app }) => {
-  await page.goto(app.shell.origin);
+  await page.goto(app.shell.pageUrl);
   await expect(page.getByText('No models trained yet')).toBeVisible();
   await page.getByRole('button', { name: 'Go to models' }).click();
   const t0 = performance.now();

@@ -47,7 +47,7 @@ test('a signal file too big for an api call is streamed ahead, previewed and imp
   await nav(page, 'Import');
   await page.getByLabel('What the file holds').selectOption('signals');
   const t = performance.now();
-  await page.getByLabel('…or upload a file (CSV, JSON, JSON Lines)').setInputFiles(file);
+  await page.getByLabel('Upload a file (CSV, JSON, JSON Lines)').setInputFiles(file);
   await page.getByRole('button', { name: 'Preview' }).click();
   await expect(page.getByRole('region', { name: 'Preview' })).toContainText('Format csv', { timeout: 60_000 });
   await page.getByRole('region', { name: 'Preview' }).getByRole('button', { name: 'Import', exact: true }).click();

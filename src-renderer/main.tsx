@@ -8,11 +8,20 @@ import { createAppStore, StoreContext } from './state/store.ts';
 import './styles.css';
 
 /** Electron's preload provides window.shelfwright; otherwise the web shell's token signs HTTP calls. */
-function pickTransport(): { transport: Transport; uploader?: Uploader } | string {
-  if (window.shelfwright) return { transport: createIpcTransport(window.shelfwright) };
-  const token = readLaunchToken(document, window.location, window.history);
-  if (!token) return 'This page needs the address Shelfwright printed when it started (it carries a one-time key). Open that address, or restart with npm start.';
-  return { transport: createHttpTransport(token), uploader: createHttpUploader(token) };
+function pickTransport(): { transport: Transport; uploader?: Uploader; serverPaths: boolean } | string {
+  if (window.shelfwright) return { transport: createIpcTransport(window.shelfwright), serverPaths: true };
+  const token = readLaunchToken(window.location, window.history, sessionStorageOrNull());
+  if (!token) return 'This page needs the address Shelfwright printed when it started (the part after # carries the key of this launch). Open that address, or restart with npm start.';
+  return { transport: createHttpTransport(token), uploader: createHttpUploader(token), serverPaths: false };
+}
+
+/** Reading window.sessionStorage throws where storage is disabled; the page then works until a reload. */
+function sessionStorageOrNull(): Storage | null {
+  try {
+    return window.sessionStorage;
+  } catch {
+    return null;
+  }
 }
 
 const root = createRoot(document.getElementById('root') as HTMLElement);
@@ -24,7 +33,7 @@ if (typeof picked === 'string') {
     </p>,
   );
 } else {
-  const store = createAppStore(createClient(picked.transport, picked.uploader));
+  const store = createAppStore(createClient(picked.transport, picked.uploader, { serverPaths: picked.serverPaths }));
   root.render(
     <StrictMode>
       <StoreContext.Provider value={store}>

@@ -2,6 +2,7 @@ import type { AppContext } from '../services/context.ts';
 import { CONTRACT, isMethodName, type Contract, type MethodName, type RequestOf, type ResponseOf } from './contract.ts';
 import type { ApiResult } from './define.ts';
 import { toApiError } from './errors.ts';
+import { pathFieldsIn, pathRefusal } from './path-fields.ts';
 import { curationHandlers } from './handlers/curation.ts';
 import { dataHandlers } from './handlers/data.ts';
 import { jobHandlers } from './handlers/jobs.ts';
@@ -23,15 +24,27 @@ export function createHandlerTable(ctx: AppContext): HandlerTable {
   };
 }
 
+export interface InvokeOptions {
+  /**
+   * 'allow' (the command line, Electron's main process): request fields that name files on this machine
+   * are used. 'refuse' (the web shell): a request carrying any field of PATH_FIELDS is refused before its
+   * handler runs, so no file outside the workspace is read or written on a web request.
+   */
+  serverPaths?: 'allow' | 'refuse';
+}
+
 /**
  * Calls one method by name with an untrusted payload: the request is parsed with its schema, the
  * response too (a handler returning the wrong shape is our bug, caught here before it reaches a client).
  */
-export async function invoke(table: HandlerTable, name: string, payload: unknown): Promise<ApiResult<unknown>> {
+export async function invoke(table: HandlerTable, name: string, payload: unknown, options: InvokeOptions = {}): Promise<ApiResult<unknown>> {
   if (!isMethodName(name)) return { ok: false, error: { code: 'input', message: `unknown method: ${name}` } };
   try {
     const spec = CONTRACT[name];
     const req = spec.request.parse(payload ?? {});
+    // Checked on the parsed request: exactly what the handler would be given.
+    const named = options.serverPaths === 'refuse' ? pathFieldsIn(name, req)[0] : undefined;
+    if (named) return { ok: false, error: { code: 'input', message: pathRefusal(named) } };
     const handler = table[name] as (r: unknown) => unknown;
     const res = await handler(req);
     return { ok: true, value: spec.response.parse(res) };

@@ -2,7 +2,8 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { generateDemoShop } from '../../demo-data/generator/index.ts';
-import { BugError, CancelledError } from '../core/errors.ts';
+import { BugError, CancelledError, InputError } from '../core/errors.ts';
+import { replaceRefusal } from '../store/replaceable.ts';
 import { openWorkspace } from '../store/workspace.ts';
 import { importFile, type ImportReport } from './import.ts';
 import { trainAndSave, type TrainSummary } from './train/train-job.ts';
@@ -29,12 +30,24 @@ export interface DemoBuildReport {
 }
 
 /**
+ * The build replaces `file` whole (and a leftover `<file>.building`): only a workspace, or nothing, may be
+ * there, never some other file, whoever asks. Exported so a caller can say so before starting a job.
+ */
+export function checkDemoTarget(file: string): void {
+  for (const f of [file, `${file}.building`]) {
+    const refusal = replaceRefusal(f);
+    if (refusal) throw new InputError(`will not build the demo at ${f}: ${refusal}; choose a new file name`, { file: f });
+  }
+}
+
+/**
  * Builds the demo workspace from the invented shop in demo-data/: generate the files, import catalogue,
  * customers and signals, train. It is built beside the target as `<file>.building` and moved into place
  * only when complete, so an interrupted build never leaves a half-made workspace where the app looks.
  */
 export async function buildDemoWorkspace(file: string, options: DemoBuildOptions = {}): Promise<DemoBuildReport> {
   const started = performance.now();
+  checkDemoTarget(file);
   const step = (message: string) => {
     if (options.signal?.aborted) throw new CancelledError('demo build cancelled');
     options.onStep?.(message);

@@ -17,6 +17,7 @@ import { loadDataset } from '../store/dataset.ts';
 import type { Db } from '../store/workspace.ts';
 import { csvCell } from './export/csv.ts';
 import { SPONSORED } from './export/labels.ts';
+import { checkReplaceableExport } from './recommend-out.ts';
 import { checkInputFile, checkOutputFile } from './user-file.ts';
 import type { UnknownIds } from './holdout/evaluate.ts';
 import { loadTrainedModels, ownedMatrix } from './holdout/trained.ts';
@@ -74,6 +75,7 @@ export function recommend(db: Db, o: RecommendOptions): RecommendReport {
   if (!Number.isInteger(o.n) || o.n < 1 || o.n > 1000) throw new InputError(`top must be a whole number from 1 to 1000, got ${o.n}`, { column: 'top' });
   if (!o.all && !(o.customers && o.customers.length > 0)) throw new InputError('give a list of customers or ask for all of them');
   checkOutputFile(o.out); // before the work, so a long run never ends in a failed write
+  checkReplaceableExport(o.out, RECOMMEND_CSV_HEADER.join(',')); // an older export may be replaced, nothing else
   const ds = loadDataset(db);
   const models = loadTrainedModels(db, ds);
   const hybrid = models.hybrid;
@@ -210,7 +212,7 @@ function round6(x: number): number {
 
 function openOut(file: string): number {
   try {
-    return fs.openSync(file, 'w');
+    return fs.openSync(file, 'wx', 0o600); // new only: the scratch file never replaces anything
   } catch (e) {
     throw new InputError(`cannot write the output file: ${(e as Error).message}`, { file: file.replace(/\.partial-\d+$/, '') });
   }

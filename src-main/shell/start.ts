@@ -14,6 +14,7 @@ import { AppContext } from '../services/context.ts';
 import { parseStartArgs, type StartArgs } from './launch/args.ts';
 import { chromiumAppArgs, findChromium } from './launch/browser.ts';
 import { ensureDemo } from './launch/demo.ts';
+import { writeLaunchPage } from './launch/launch-page.ts';
 import { electronNativeBinding } from './electron/native-binding.ts';
 import { findElectronBinary } from './launch/electron.ts';
 import { rendererNeedsBuild } from './launch/renderer-build.ts';
@@ -66,7 +67,9 @@ async function launchWeb(args: StartArgs, workspace: string): Promise<void> {
     return;
   }
   const profile = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-profile-'));
-  const child = spawn(browser, chromiumAppArgs(shell.pageUrl, profile), { stdio: 'ignore' });
+  // The browser is started on a private forwarding page, never on the address with the token: its command
+  // line is visible to every account on the machine (launch/launch-page.ts).
+  const child = spawn(browser, chromiumAppArgs(writeLaunchPage(profile, shell.pageUrl), profile), { stdio: 'ignore' });
   child.on('error', (e) => console.log(`Could not open ${browser} (${e.message}); open the address above instead.`));
   // Closing the app window ends the session and removes the throw-away profile.
   child.on('exit', () => {

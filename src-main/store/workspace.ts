@@ -42,13 +42,14 @@ export function openWorkspace(file: string, options: OpenOptions = {}): Db {
     throw new InputError(`cannot open workspace: ${(e as Error).message}`, { file });
   }
   try {
+    db.pragma('foreign_keys = ON');
+    db.pragma('busy_timeout = 5000');
+    // Before anything is written (switching to WAL rewrites the header): a file that is not ours keeps its bytes.
+    checkIsWorkspace(db, file);
     if (!options.readonly) {
       db.pragma('journal_mode = WAL');
       db.pragma('synchronous = NORMAL');
     }
-    db.pragma('foreign_keys = ON');
-    db.pragma('busy_timeout = 5000');
-    checkIsWorkspace(db, file);
     if (!options.readonly) migrate(db, migrations);
     else {
       const v = userVersion(db);
@@ -73,7 +74,13 @@ export function userVersion(db: Db): number {
   return db.pragma('user_version', { simple: true }) as number;
 }
 
-/** Refuses files that are SQLite but not ours (a user pointing at the wrong file). */
+/** Tables every workspace has had since schema 1 (migrations/001-foundation.ts): how a workspace is told apart. */
+export const WORKSPACE_TABLES: readonly string[] = ['item', 'customer', 'signal', 'import_log'];
+
+/**
+ * Refuses files that are SQLite but not ours (a user pointing at the wrong file), before any migration
+ * could write to them: another program's database may set a user_version of its own.
+ */
 function checkIsWorkspace(db: Db, file: string): void {
   let tables: { name: string }[];
   try {
@@ -81,7 +88,8 @@ function checkIsWorkspace(db: Db, file: string): void {
   } catch {
     throw new InputError('not a workspace file (not an SQLite database)', { file });
   }
-  if (tables.length > 0 && userVersion(db) === 0) {
+  const ours = WORKSPACE_TABLES.every((t) => tables.some((x) => x.name === t));
+  if (tables.length > 0 && (userVersion(db) === 0 || !ours)) {
     throw new InputError('not a Shelfwright workspace: the file holds other tables', { file });
   }
 }

@@ -26,6 +26,11 @@ export type Uploader = (file: File) => Promise<StagedUpload>;
 
 export interface Client {
   call<M extends MethodName>(method: M, payload: RequestOf<M>): Promise<ResponseOf<M>>;
+  /**
+   * Whether this shell takes paths on the main side's machine (api/path-fields.ts): Electron does; the web
+   * shell refuses them, so there the page offers uploads and downloads only, never a path field.
+   */
+  serverPaths: boolean;
   /** Present where the shell can take a streamed file (the web shell); absent in Electron for now. */
   upload?: Uploader;
 }
@@ -35,8 +40,10 @@ export interface Client {
  * other side already; here a failed result becomes an ApiCallError so screens can catch it where the
  * user acted.
  */
-export function createClient(transport: Transport, uploader?: Uploader): Client {
+export function createClient(transport: Transport, uploader?: Uploader, options: { serverPaths?: boolean } = {}): Client {
   return {
+    // Off unless the shell says so: a path field the shell refuses would only lead to an error.
+    serverPaths: options.serverPaths ?? false,
     ...(uploader && {
       async upload(file: File) {
         try {

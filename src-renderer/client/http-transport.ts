@@ -4,16 +4,47 @@ import { ApiCallError, type StagedUpload, type Transport, type Uploader } from '
 /** Same header name as the web shell's guard (src-main/shell/web/guard.ts); the renderer may not import shell code. */
 const TOKEN_HEADER = 'x-shelfwright-token';
 
+/** Where a reload finds the token again (see readLaunchToken). */
+export const TOKEN_STORAGE_KEY = 'shelfwright-token';
+
 /**
- * The launch token: from the meta tag the web shell injects into index.html, else from the `#token=`
- * fragment of the address the shell printed. The fragment is then removed from the address bar.
+ * The launch token, from the `#token=` fragment of the address the launcher printed and opened. The server
+ * never hands it out (any local account can fetch the page), and a fragment is never sent in a request, so
+ * the token travels only from the launcher to this page. The fragment is then removed from the address bar
+ * (and from history), so it is not shown, bookmarked or copied along with the address.
+ *
+ * It is kept in sessionStorage, not only in memory, so that a reload (F5) keeps working. We judge that
+ * acceptable: sessionStorage belongs to this origin and this one window, is dropped when the window closes,
+ * and lives in the browser profile of the account that launched us (the launcher's throw-away profile is a
+ * 0700 folder removed on exit); anything that could read it there could read the launcher's own output too.
+ * Script injected into the page could read it, but such script could call the api from the page anyway,
+ * and the CSP admits no script but our own. A fragment given again always wins over a stored token (a new
+ * launch on a port used before).
  */
-export function readLaunchToken(doc: Document, loc: Location, hist: History | null): string | null {
-  const meta = doc.querySelector<HTMLMetaElement>('meta[name="shelfwright-token"]');
+export function readLaunchToken(loc: Location, hist: History | null, storage: Storage | null): string | null {
   const fromFragment = new URLSearchParams(loc.hash.replace(/^#/, '')).get('token');
-  if (fromFragment && hist) hist.replaceState(null, '', loc.pathname + loc.search);
-  return meta?.content || fromFragment || null;
+  if (fromFragment) {
+    hist?.replaceState(null, '', loc.pathname + loc.search);
+    try {
+      storage?.setItem(TOKEN_STORAGE_KEY, fromFragment);
+    } catch {
+      // Storage refused (private mode, quota): the token still works until the page is reloaded.
+    }
+    return fromFragment;
+  }
+  try {
+    return storage?.getItem(TOKEN_STORAGE_KEY) || null;
+  } catch {
+    return null;
+  }
 }
+
+/**
+ * What a 401 means to the person at the window: the key it holds is not this run's (Shelfwright was restarted,
+ * or the address was opened without its `#token=` part), so the fix is the address the launcher printed.
+ */
+export const WRONG_KEY_MESSAGE =
+  'Shelfwright does not recognise this window (it may have been restarted). Open the address it printed when it started, including the part after #.';
 
 export function createHttpTransport(token: string, fetchImpl: typeof fetch = fetch, base = ''): Transport {
   return async (method, payload) => {
@@ -22,6 +53,7 @@ export function createHttpTransport(token: string, fetchImpl: typeof fetch = fet
       headers: { 'content-type': 'application/json', [TOKEN_HEADER]: token },
       body: JSON.stringify(payload ?? {}),
     });
+    if (res.status === 401) return { ok: false, error: { code: 'input', message: WRONG_KEY_MESSAGE } };
     const type = res.headers.get('content-type') ?? '';
     if (!type.includes('application/json')) throw new Error(`HTTP ${res.status}`);
     return (await res.json()) as ApiResult<unknown>;
@@ -39,6 +71,7 @@ export function createHttpUploader(token: string, fetchImpl: typeof fetch = fetc
       headers: { 'content-type': 'application/octet-stream', 'x-file-name': encodeURIComponent(file.name), [TOKEN_HEADER]: token },
       body: file,
     });
+    if (res.status === 401) throw new ApiCallError({ code: 'input', message: WRONG_KEY_MESSAGE });
     const type = res.headers.get('content-type') ?? '';
     if (!type.includes('application/json')) throw new Error(`HTTP ${res.status}`);
     const result = (await res.json()) as ApiResult<StagedUpload>;

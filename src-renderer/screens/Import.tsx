@@ -70,10 +70,12 @@ export function Import() {
   const [uploading, setUploading] = useState<string | null>(null);
   const [tooBig, setTooBig] = useState<string | null>(null);
   const canStage = useApp((s) => s.canStageUploads);
+  // Only Electron takes a typed path; the web shell refuses paths (another account could name any file).
+  const canNamePaths = useApp((s) => s.canNamePaths);
   const stageUpload = useApp((s) => s.stageUpload);
   const [mapping, setMapping] = useState<Record<string, string>>({});
   const id = useId();
-  const source: ImportSource | null = upload ?? (path.trim() ? { file: path.trim() } : null);
+  const source: ImportSource | null = upload ?? (canNamePaths && path.trim() ? { file: path.trim() } : null);
 
   const onPreview = async (e: FormEvent) => {
     e.preventDefault();
@@ -97,12 +99,14 @@ export function Import() {
               <option value="signals">Signals (views, purchases…)</option>
             </select>
           </div>
+          {canNamePaths && (
+            <div className="field">
+              <label htmlFor={`${id}-p`}>Path on this computer</label>
+              <input id={`${id}-p`} value={path} onChange={(e) => { setPath(e.target.value); setUpload(null); setTooBig(null); }} placeholder="/home/me/items.csv" />
+            </div>
+          )}
           <div className="field">
-            <label htmlFor={`${id}-p`}>Path on this computer</label>
-            <input id={`${id}-p`} value={path} onChange={(e) => { setPath(e.target.value); setUpload(null); setTooBig(null); }} placeholder="/home/me/items.csv" />
-          </div>
-          <div className="field">
-            <label htmlFor={`${id}-u`}>…or upload a file (CSV, JSON, JSON Lines)</label>
+            <label htmlFor={`${id}-u`}>{canNamePaths ? '…or upload a file' : 'Upload a file'} (CSV, JSON, JSON Lines)</label>
             <input
               id={`${id}-u`}
               type="file"

@@ -70,6 +70,22 @@ function OpenForm() {
   );
 }
 
+/**
+ * In the web shell the page names no file on the machine it runs on (the shell refuses paths: any account
+ * there could otherwise open or create any file through it), so another workspace is chosen at launch.
+ */
+function OtherWorkspace() {
+  return (
+    <div className="panel" aria-labelledby="other-workspace-h">
+      <h2 id="other-workspace-h">Another workspace</h2>
+      <p className="muted">
+        This window works on the workspace Shelfwright was started with. To open another, stop it and start it again with{' '}
+        <code>npm start -- --workspace FILE</code>.
+      </p>
+    </div>
+  );
+}
+
 function ModelStatus() {
   const models = useApp((s) => s.models.list);
   const load = useApp((s) => s.loadModels);
@@ -103,6 +119,7 @@ export function Overview() {
   const readAt = useApp((s) => s.workspace.readAt);
   const stats = useApp((s) => s.workspace.stats);
   const load = useApp((s) => s.loadWorkspace);
+  const canNamePaths = useApp((s) => s.canNamePaths);
   const [now, setNow] = useState(() => Date.now());
   useEffect(() => {
     const t = setInterval(() => setNow(Date.now()), 30_000);
@@ -151,7 +168,7 @@ export function Overview() {
       )}
       <ModelStatus />
       {info?.open && <ForgetCustomer />}
-      <OpenForm />
+      {canNamePaths ? <OpenForm /> : <OtherWorkspace />}
     </section>
   );
 }

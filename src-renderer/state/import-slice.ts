@@ -6,8 +6,7 @@ import type { AppState } from './store.ts';
 export type ImportPreview = ResponseOf<'import.preview'>;
 export type ImportReport = ResponseOf<'import.run'>;
 export type ImportTarget = RequestOf<'import.run'>['target'];
-/** A path on this machine, or the text of a file the editor picked in the page. */
-/** A path on this machine, a small file's content, or a big file streamed ahead (`client.upload`). */
+/** A path on the main side's machine (Electron only), a small file's content, or a big file streamed ahead (`client.upload`). */
 export type ImportSource = { file: string } | { fileName: string; content: string } | { upload: string };
 
 export interface ImportSlice {

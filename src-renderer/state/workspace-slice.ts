@@ -21,6 +21,8 @@ export interface WorkspaceSlice {
     /** Date range, last import and more; null until read or when no workspace is open. */
     stats: WorkspaceStats | null;
   };
+  /** The shell takes paths on its machine (Electron): the page may offer path fields (see Client.serverPaths). */
+  canNamePaths: boolean;
   loadWorkspace(): Promise<void>;
   openWorkspace(file: string, create: boolean): Promise<boolean>;
   loadStats(): Promise<void>;
@@ -39,6 +41,7 @@ export const initialWorkspace: WorkspaceSlice['workspace'] = {
 export function createWorkspaceSlice(client: Client, now: () => number): StateCreator<AppState, [], [], WorkspaceSlice> {
   return (set, get) => ({
     workspace: initialWorkspace,
+    canNamePaths: client.serverPaths,
     async loadWorkspace() {
       set((s) => ({ workspace: { ...s.workspace, status: 'loading', loadError: null } }));
       try {

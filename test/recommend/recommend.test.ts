@@ -90,6 +90,34 @@ describe('recommend (per-customer top-N)', () => {
     expect(r.unknownCustomers).toEqual({ distinct: 1, rows: 1, examples: ['ghost'] });
   });
 
+  it('replaces an older export of its own, CSV or JSON Lines, but no other file, a link to one, or an empty file', () => {
+    for (const name of ['again.csv', 'again.jsonl']) {
+      const out = path.join(dir, name);
+      recommend(db, { all: true, n: 2, out });
+      recommend(db, { customers: ['u1'], n: 1, out }); // a second run over the first: allowed
+      expect(fs.readFileSync(out, 'utf8')).toContain('u1');
+      expect(fs.readFileSync(out, 'utf8')).not.toContain('u2');
+    }
+    // The issue-11 exploit: a customer id becomes a line of a file the caller chose. Any file that is not an
+    // export keeps its bytes, whatever its name says; so does an empty one (a marker file's existence matters).
+    const others: [string, string][] = [
+      ['notes.csv', 'customer;rank\nmine\n'],
+      ['config.jsonl', '{"customer":"u1"}\n'],
+      ['empty.csv', ''],
+    ];
+    for (const [name, text] of others) {
+      const victim = path.join(dir, name);
+      fs.writeFileSync(victim, text);
+      expect(() => recommend(db, { customers: ['u1'], n: 1, out: victim }), name).toThrow(/will not overwrite this file: it is not a top-N export written by Shelfwright/);
+      expect(fs.readFileSync(victim, 'utf8')).toBe(text);
+    }
+    const link = path.join(dir, 'link.csv');
+    fs.symlinkSync(path.join(dir, 'notes.csv'), link);
+    expect(() => recommend(db, { customers: ['u1'], n: 1, out: link })).toThrow(/through a link/);
+    expect(fs.readlinkSync(link)).toBe(path.join(dir, 'notes.csv'));
+    expect(fs.readdirSync(dir).some((f) => f.includes('.partial-'))).toBe(false);
+  });
+
   it('refuses a bad top and leaves no partial file behind a failed write', () => {
     expect(() => recommend(db, { all: true, n: 0, out: path.join(dir, 'x.csv') })).toThrow(InputError);
     const missing = path.join(dir, 'no-such-dir', 'x.csv');

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { ApiCallError } from '../../src-renderer/client/client.ts';
-import { createHttpUploader } from '../../src-renderer/client/http-transport.ts';
+import { createHttpTransport, createHttpUploader, WRONG_KEY_MESSAGE } from '../../src-renderer/client/http-transport.ts';
 
 const json = (status: number, body: unknown) => new Response(JSON.stringify(body), { status, headers: { 'content-type': 'application/json' } });
 
@@ -27,5 +27,12 @@ describe('createHttpUploader', () => {
     const e = await createHttpUploader('tok', fetchImpl)(new File(['x'], 'x.csv')).catch((x: unknown) => x);
     expect(e).toBeInstanceOf(ApiCallError);
     expect((e as ApiCallError).message).toBe('the file is larger than 4 GiB');
+  });
+
+  it('says what to do when the shell does not know the key (401), for calls and uploads alike', async () => {
+    const fetchImpl = (async () => json(401, { ok: false, error: { code: 'input', message: 'missing or wrong launch token' } })) as unknown as typeof fetch;
+    expect(await createHttpTransport('stale', fetchImpl)('workspace.info', {})).toEqual({ ok: false, error: { code: 'input', message: WRONG_KEY_MESSAGE } });
+    const e = await createHttpUploader('stale', fetchImpl)(new File(['x'], 'x.csv')).catch((x: unknown) => x);
+    expect((e as ApiCallError).message).toMatch(/^Shelfwright does not recognise this window/);
   });
 });

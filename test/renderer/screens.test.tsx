@@ -43,6 +43,22 @@ describe('overview screen', () => {
   });
 });
 
+describe('in a shell that takes no paths (the web shell)', () => {
+  it('offers no path field anywhere: uploads only, and another workspace is chosen at launch', async () => {
+    const { createClient } = await import('../../src-renderer/client/client.ts');
+    const { invoke, createHandlerTable } = await import('../../src-main/api/handler-table.ts');
+    const table = createHandlerTable(h.ctx);
+    store = createAppStore(createClient((m, p) => invoke(table, m, p, { serverPaths: 'refuse' })));
+    renderApp();
+    await screen.findByText(h.file);
+    expect(screen.getByRole('heading', { name: 'Another workspace' })).toBeTruthy();
+    expect(screen.queryByLabelText('Workspace file (path on this computer)')).toBeNull();
+    store.getState().go('import');
+    expect(await screen.findByLabelText('Upload a file (CSV, JSON, JSON Lines)')).toBeTruthy();
+    expect(screen.queryByLabelText('Path on this computer')).toBeNull();
+  });
+});
+
 describe('shelf editor', () => {
   it('labels sponsored items in words and pins an item from its slot', async () => {
     await openRowInEditor(store, '2026-12-07', 12);
@@ -90,6 +106,7 @@ describe('import screen', () => {
     const upload = 'ab'.repeat(16);
     // The page's side only: the main side's upload and its import by id have their own tests (test/shell).
     const client: Client = {
+      serverPaths: false, // the web shell: the one with an upload route
       async call(method, payload) {
         requests.push([method, payload]);
         if (method === 'import.preview' && (payload as { upload?: string }).upload === upload) {
@@ -111,7 +128,7 @@ describe('import screen', () => {
     big.text = async () => {
       throw new Error('a big file must not be read into the page');
     };
-    fireEvent.change(await screen.findByLabelText('…or upload a file (CSV, JSON, JSON Lines)'), { target: { files: [big] } });
+    fireEvent.change(await screen.findByLabelText('Upload a file (CSV, JSON, JSON Lines)'), { target: { files: [big] } });
     await waitFor(() => expect(sent).toEqual([big]));
     const preview = screen.getByRole('button', { name: 'Preview' });
     await waitFor(() => expect(preview.hasAttribute('disabled')).toBe(false));

@@ -37,7 +37,8 @@ export function seededHarness(): Harness {
     for (let k = 0; k < 30; k++) signal.run((k % 6) + 1, ((k * 5) % 12) + 1, k % 3 === 0 ? 'purchase' : 'view', t0 + (20 + k) * day);
   })();
   const table = createHandlerTable(ctx);
-  const client = createClient((m, p) => invoke(table, m, p));
+  // Like Electron's main process: invoke() with its default, which takes paths (the open form is tested here).
+  const client = createClient((m, p) => invoke(table, m, p), undefined, { serverPaths: true });
   return {
     ctx,
     client,

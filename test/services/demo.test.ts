@@ -3,6 +3,9 @@ import os from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { CancelledError } from '../../src-main/core/errors.ts';
+import Database from 'better-sqlite3';
+import { createHandlerTable, invoke } from '../../src-main/api/handler-table.ts';
+import { AppContext } from '../../src-main/services/context.ts';
 import { buildDemoWorkspace, ensureDemoWorkspace } from '../../src-main/services/demo.ts';
 import { openWorkspace } from '../../src-main/store/workspace.ts';
 
@@ -44,5 +47,34 @@ describe('the demo workspace', () => {
     await expect(build).rejects.toBeInstanceOf(CancelledError);
     expect(fs.readFileSync(file).equals(bytes)).toBe(true);
     expect(fs.existsSync(`${file}.building`)).toBe(false);
+  });
+
+  it('replaces only a workspace or nothing: a text file, another program’s database and a folder are refused untouched', async () => {
+    const text = path.join(dir, 'notes.txt');
+    fs.writeFileSync(text, 'root-only line\n');
+    const other = path.join(dir, 'other-app.db');
+    const db = new Database(other);
+    db.exec('CREATE TABLE settings (k TEXT, v TEXT); PRAGMA user_version = 7;');
+    db.close();
+    const otherBytes = fs.readFileSync(other);
+    const folder = path.join(dir, 'a-folder');
+    fs.mkdirSync(folder);
+    await expect(buildDemoWorkspace(text, { size })).rejects.toThrow(/will not build the demo at .*notes\.txt: the file there is not a Shelfwright workspace \(not an SQLite database\); choose a new file name/);
+    await expect(buildDemoWorkspace(other, { size })).rejects.toThrow(/another program’s database, not a Shelfwright workspace/);
+    await expect(buildDemoWorkspace(folder, { size })).rejects.toThrow(/something other than a file is there/);
+    expect(fs.readFileSync(text, 'utf8')).toBe('root-only line\n');
+    expect(fs.readFileSync(other).equals(otherBytes)).toBe(true);
+    // A stray `<file>.building` that is not ours is refused too (the build would remove it).
+    fs.writeFileSync(path.join(dir, 'fresh.sqlite.building'), 'someone else’s');
+    await expect(buildDemoWorkspace(path.join(dir, 'fresh.sqlite'), { size })).rejects.toThrow(/fresh\.sqlite\.building: the file there is not a Shelfwright workspace/);
+    expect(fs.readFileSync(path.join(dir, 'fresh.sqlite.building'), 'utf8')).toBe('someone else’s');
+  });
+
+  it('through the api, says so at once as an input error instead of a job that fails later', async () => {
+    const ctx = new AppContext();
+    const text = path.join(dir, 'notes.txt');
+    const r = await invoke(createHandlerTable(ctx), 'workspace.demo', { file: text, train: false });
+    expect(r).toMatchObject({ ok: false, error: { code: 'input', where: { file: text } } });
+    expect(fs.readFileSync(text, 'utf8')).toBe('root-only line\n');
   });
 });

@@ -6,6 +6,7 @@ import { parseStartArgs } from '../../src-main/shell/launch/args.ts';
 import { chromiumAppArgs, findChromium } from '../../src-main/shell/launch/browser.ts';
 import { ensureDemo } from '../../src-main/shell/launch/demo.ts';
 import { findElectronBinary } from '../../src-main/shell/launch/electron.ts';
+import { LAUNCH_PAGE_NAME, writeLaunchPage } from '../../src-main/shell/launch/launch-page.ts';
 import { rendererNeedsBuild } from '../../src-main/shell/launch/renderer-build.ts';
 
 let dir: string;
@@ -64,6 +65,31 @@ describe('findChromium', () => {
     for (const f of ['--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync']) {
       expect(args).toContain(f);
     }
+  });
+});
+
+describe('writeLaunchPage', () => {
+  const pageUrl = `http://127.0.0.1:4321/#token=${'ab'.repeat(32)}`;
+
+  it('puts the token in a private file and gives the browser only that file address', () => {
+    fs.chmodSync(dir, 0o700);
+    const address = writeLaunchPage(dir, pageUrl);
+    const file = path.join(dir, LAUNCH_PAGE_NAME);
+    expect(address).toBe(`file://${file}`);
+    expect(fs.statSync(file).mode & 0o777).toBe(0o600);
+    // The browser's command line (readable by every account through /proc/<pid>/cmdline) holds no token.
+    expect(chromiumAppArgs(address, dir).join(' ')).not.toContain('ab'.repeat(32));
+    expect(fs.readFileSync(file, 'utf8')).toContain(`<meta http-equiv="refresh" content="0; url=${pageUrl}">`);
+  });
+
+  it('refuses a folder other accounts can enter, and never writes over an existing file', () => {
+    fs.chmodSync(dir, 0o755);
+    expect(() => writeLaunchPage(dir, pageUrl)).toThrow(/other accounts can enter it \(mode 755\)/);
+    expect(fs.existsSync(path.join(dir, LAUNCH_PAGE_NAME))).toBe(false);
+    fs.chmodSync(dir, 0o700);
+    fs.writeFileSync(path.join(dir, LAUNCH_PAGE_NAME), 'planted');
+    expect(() => writeLaunchPage(dir, pageUrl)).toThrow(/EEXIST/);
+    expect(fs.readFileSync(path.join(dir, LAUNCH_PAGE_NAME), 'utf8')).toBe('planted');
   });
 });
 

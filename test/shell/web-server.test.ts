@@ -106,11 +106,13 @@ describe('web shell', () => {
     expect(r.status).toBe(403);
   });
 
-  it('serves index.html with the token injected and the security headers set', async () => {
+  it('serves index.html exactly as built, with no token in it, and the security headers set', async () => {
     const r = await request(shell, { path: '/' });
     expect(r.status).toBe(200);
     expect(r.headers['content-type']).toBe('text/html; charset=utf-8');
-    expect(r.body).toContain(`<meta name="shelfwright-token" content="${shell.token}">`);
+    // DESIGN.md: the web shell serves no secret to an unauthenticated request.
+    expect(r.body).toBe(fs.readFileSync(path.join(dir, 'renderer', 'index.html'), 'utf8'));
+    expect(JSON.stringify(r.headers) + r.body).not.toContain(shell.token);
     expect(r.headers['content-security-policy']).toBe(CONTENT_SECURITY_POLICY);
     expect(r.headers['content-security-policy']).toContain("default-src 'self'");
     expect(r.headers['x-content-type-options']).toBe('nosniff');
@@ -148,6 +150,23 @@ describe('web shell', () => {
     expect(resolveStaticFile(root, '../secret.txt')).toBeNull();
     expect(resolveStaticFile(root, '/assets/../../secret.txt')).toBeNull();
     expect(resolveStaticFile(root, '%E0%A4%A')).toBeNull();
+  });
+
+  it('answers 400, not 500, to a malformed % sequence in the method name or the address', async () => {
+    const call = await request(shell, {
+      method: 'POST',
+      path: '/api/workspace.info%E0%A4%A',
+      headers: { 'content-type': 'application/json', 'x-shelfwright-token': shell.token },
+      body: '{}',
+    });
+    expect(call.status).toBe(400);
+    expect(JSON.parse(call.body)).toEqual({ ok: false, error: { code: 'input', message: 'the method name in the address is not valid percent-encoding' } });
+    expect((await request(shell, { path: '/assets/%E0%A4%A' })).status).toBe(404);
+  });
+
+  it('gives the page address with the token only in its fragment', () => {
+    expect(shell.pageUrl).toBe(`${shell.origin}#token=${shell.token}`);
+    expect(new URL(shell.pageUrl).pathname + new URL(shell.pageUrl).search).toBe('/');
   });
 
   it('names an unknown method clearly', async () => {

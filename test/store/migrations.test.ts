@@ -74,6 +74,16 @@ describe('workspace schema versions', () => {
     check.close();
   });
 
+  it('refuses another program’s database that sets a user_version of its own, and leaves every byte as it was', () => {
+    const file = path.join(dir, 'other-versioned.db');
+    const raw = new Database(file);
+    raw.exec('CREATE TABLE settings (k TEXT, v TEXT); PRAGMA user_version = 2;');
+    raw.close();
+    const bytes = fs.readFileSync(file);
+    expect(() => openWorkspace(file)).toThrow(/not a Shelfwright workspace: the file holds other tables/);
+    expect(fs.readFileSync(file).equals(bytes)).toBe(true);
+  });
+
   it('refuses a file that is not SQLite at all', () => {
     const file = path.join(dir, 'notes.shelf');
     fs.writeFileSync(file, 'these are my shelf notes, not a database\n'.repeat(200));

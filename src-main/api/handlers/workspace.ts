@@ -1,5 +1,5 @@
 import type { AppContext } from '../../services/context.ts';
-import { buildDemoWorkspace } from '../../services/demo.ts';
+import { buildDemoWorkspace, checkDemoTarget } from '../../services/demo.ts';
 import { workspaceInfo } from '../../services/workspace-info.ts';
 import type { Handler } from '../handler-table.ts';
 
@@ -14,8 +14,9 @@ export function workspaceHandlers(ctx: AppContext): {
       ctx.open(req.file, { create: req.create });
       return workspaceInfo(ctx);
     },
-    'workspace.demo': (req) =>
-      ctx.jobs.start('demo', async (report, signal) => {
+    'workspace.demo': (req) => {
+      checkDemoTarget(req.file); // refused now, as an input error, rather than as a failed job later
+      return ctx.jobs.start('demo', async (report, signal) => {
         // The file is replaced whole; a connection to the old one must not outlive it.
         if (ctx.isOpen && ctx.file === req.file) ctx.close();
         let fraction = 0;
@@ -36,6 +37,7 @@ export function workspaceHandlers(ctx: AppContext): {
         ctx.open(req.file, { create: false });
         const rows = built.imports.map((r) => `${r.added} ${r.target}`).join(', ');
         return `${built.shop}: ${rows}${built.training ? `, ${built.training.models.length} models` : ''} in ${(built.elapsedMs / 1000).toFixed(1)} s`;
-      }),
+      });
+    },
   };
 }

@@ -79,7 +79,9 @@ if (!app.requestSingleInstanceLock()) {
       if (!event.senderFrame || !event.senderFrame.url.startsWith(`${APP_ORIGIN}/`)) {
         return { ok: false, error: { code: 'input', message: 'calls are accepted only from the Shelfwright window' } };
       }
-      return invoke(table, typeof method === 'string' ? method : '', payload);
+      // Paths are taken here (api/path-fields.ts): no other account can reach this window's IPC, and the
+      // person at it names their own files, as at the command line.
+      return invoke(table, typeof method === 'string' ? method : '', payload, { serverPaths: 'allow' });
     });
     const workspace = workspaceArg(process.argv);
     if (workspace) {

@@ -1,7 +1,10 @@
 import { timingSafeEqual } from 'node:crypto';
 import type { IncomingMessage, ServerResponse } from 'node:http';
 
-/** The header every api request must carry; the page gets the value from the index.html it was served. */
+/**
+ * The header every api and upload request must carry. The page gets the value from the `#token=` fragment of
+ * the address the launcher opened (never from the server: it serves no secret to anyone).
+ */
 export const TOKEN_HEADER = 'x-shelfwright-token';
 
 /**

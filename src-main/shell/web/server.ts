@@ -8,7 +8,7 @@ import type { ApiError, ApiResult } from '../../api/define.ts';
 import { MAX_STREAMED_UPLOAD_BYTES } from '../../api/contracts/data.ts';
 import { sizeInWords, UploadRefused, type UploadStore } from '../../services/uploads.ts';
 import { hostIsAllowed, originIsAllowed, requestToken, setSecurityHeaders, tokenMatches } from './guard.ts';
-import { contentTypeOf, indexWithToken, resolveStaticFile } from './static.ts';
+import { contentTypeOf, resolveStaticFile } from './static.ts';
 
 export interface WebShellOptions {
   table: HandlerTable;
@@ -67,7 +67,12 @@ export async function startWebShell(options: WebShellOptions): Promise<WebShell>
 
   async function handle(req: IncomingMessage, res: ServerResponse): Promise<void> {
     if (!hostIsAllowed(req.headers.host, port)) return sendError(res, 403, 'input', 'forbidden host');
-    const url = new URL(req.url ?? '/', `http://127.0.0.1:${port}`);
+    let url: URL;
+    try {
+      url = new URL(req.url ?? '/', `http://127.0.0.1:${port}`);
+    } catch {
+      return sendError(res, 400, 'input', 'malformed address');
+    }
     if (url.pathname.startsWith(API_PREFIX)) return handleApi(req, res, url.pathname.slice(API_PREFIX.length));
     if (url.pathname === UPLOAD_PATH) return handleUpload(req, res);
     if (req.method !== 'GET' && req.method !== 'HEAD') return sendError(res, 405, 'input', 'method not allowed');
@@ -78,6 +83,8 @@ export async function startWebShell(options: WebShellOptions): Promise<WebShell>
     if (req.method !== 'POST') return sendError(res, 405, 'input', 'api calls use POST');
     if (!tokenMatches(requestToken(req), token)) return sendError(res, 401, 'input', 'missing or wrong launch token');
     if (!originIsAllowed(req.headers.origin, port)) return sendError(res, 403, 'input', 'forbidden origin');
+    const name = decodedMethod(method);
+    if (name === null) return refuse(req, res, 400, 'input', 'the method name in the address is not valid percent-encoding');
     const type = req.headers['content-type'] ?? '';
     if (!type.startsWith('application/json')) return sendError(res, 415, 'input', 'send the request as application/json');
     const body = await readBody(req, maxBody);
@@ -91,7 +98,8 @@ export async function startWebShell(options: WebShellOptions): Promise<WebShell>
     } catch {
       return sendError(res, 400, 'input', 'the request body is not valid JSON');
     }
-    const result = await invoke(options.table, decodeURIComponent(method), payload);
+    // Files come in as uploads and go out as downloads here: a field naming a server path is refused.
+    const result = await invoke(options.table, name, payload, { serverPaths: 'refuse' });
     sendJson(res, result.ok ? 200 : STATUS[result.error.code], result);
   }
 
@@ -124,16 +132,20 @@ export async function startWebShell(options: WebShellOptions): Promise<WebShell>
     }
   }
 
+  /**
+   * The built page, as built: it holds no token (DESIGN.md, Reliability and safety). The page reads the token
+   * from the address's fragment, which only the launcher prints and opens and which browsers never send.
+   */
   function handleStatic(req: IncomingMessage, res: ServerResponse, pathname: string): void {
     const wanted = pathname === '/' ? '/index.html' : pathname;
     const file = resolveStaticFile(options.staticDir, wanted);
     if (!file) return sendError(res, 404, 'not_found', 'not found');
     const isIndex = path.basename(file) === 'index.html' && path.dirname(file) === fs.realpathSync(options.staticDir);
-    const bytes = isIndex ? Buffer.from(indexWithToken(fs.readFileSync(file, 'utf8'), token)) : fs.readFileSync(file);
+    const bytes = fs.readFileSync(file);
     res.statusCode = 200;
     res.setHeader('Content-Type', contentTypeOf(file));
     res.setHeader('Content-Length', bytes.length);
-    // The page carries the token: it must never be cached; hashed assets may be.
+    // The page names this build's hashed assets: always fetched fresh; the hashed assets themselves may be cached.
     res.setHeader('Cache-Control', isIndex ? 'no-store' : 'public, max-age=31536000, immutable');
     res.end(req.method === 'HEAD' ? undefined : bytes);
   }
@@ -182,6 +194,15 @@ function decodedFileName(header: string | string[] | undefined): string | null {
   try {
     const name = decodeURIComponent(header);
     return name.trim() === '' || name.includes('\0') ? null : name;
+  } catch {
+    return null;
+  }
+}
+
+/** The method named in `/api/<method>`, decoded; null for a malformed `%` sequence (a 400, not a 500). */
+function decodedMethod(raw: string): string | null {
+  try {
+    return decodeURIComponent(raw);
   } catch {
     return null;
   }

@@ -49,10 +49,3 @@ export function resolveStaticFile(root: string, urlPath: string): string | null 
   if (!fs.statSync(real).isFile()) return null;
   return real;
 }
-
-/** The page with the launch token in a meta tag, so the renderer can sign its api calls. */
-export function indexWithToken(html: string, token: string): string {
-  const meta = `<meta name="shelfwright-token" content="${token}">`;
-  if (html.includes('</head>')) return html.replace('</head>', `  ${meta}\n  </head>`);
-  return meta + html;
-}

@@ -18,8 +18,12 @@ export function erasureGeneration(db: Db): number {
   return db.prepare("SELECT value FROM workspace_meta WHERE key = 'erasure_generation'").pluck().get() as number;
 }
 
-/** Raises the generation; call it inside the erasing transaction, so readers see both or neither. */
+/**
+ * Raises the generation and marks the freed bytes as still to be scrubbed; call it inside the erasing
+ * transaction, so readers see the erasure and the new generation together or neither.
+ */
 export function raiseErasureGeneration(db: Db): number {
+  db.prepare("UPDATE workspace_meta SET value = 1 WHERE key = 'scrub_pending'").run();
   return db.prepare("UPDATE workspace_meta SET value = value + 1 WHERE key = 'erasure_generation' RETURNING value").pluck().get() as number;
 }
 
@@ -66,7 +70,21 @@ export interface ScrubReport {
 export function scrubFreedBytes(db: Db): ScrubReport {
   db.exec('VACUUM');
   const [r] = db.pragma('wal_checkpoint(TRUNCATE)') as { busy: number; log: number; checkpointed: number }[];
-  return { vacuumed: true, walTruncated: r !== undefined && r.busy === 0 && r.log === 0 };
+  const walTruncated = r !== undefined && r.busy === 0 && r.log === 0;
+  // Cleared only once the log is empty; this small write holds no erased byte (they were zeroed and vacuumed).
+  if (walTruncated) db.prepare("UPDATE workspace_meta SET value = 0 WHERE key = 'scrub_pending'").run();
+  return { vacuumed: true, walTruncated };
+}
+
+/**
+ * Finishes an erasure's scrub that another connection's read held up (`scrubFreedBytes` returned
+ * walTruncated false). Called where such a reader has just gone: when a training run ends, and when a
+ * workspace is opened for writing. Does nothing when no scrub is pending, or inside a transaction.
+ */
+export function scrubIfPending(db: Db): ScrubReport | null {
+  if (db.inTransaction) return null;
+  const pending = db.prepare("SELECT value FROM workspace_meta WHERE key = 'scrub_pending'").pluck().get() as number | undefined;
+  return pending === 1 ? scrubFreedBytes(db) : null;
 }
 
 const REMOVED = '[removed: it named an erased customer]';

@@ -2,6 +2,7 @@ import Database from 'better-sqlite3';
 import fs from 'node:fs';
 import path from 'node:path';
 import { InputError } from '../core/errors.ts';
+import { scrubIfPending } from './erasure.ts';
 import { MIGRATIONS } from './migrations/index.ts';
 import type { Migration } from './migrations/types.ts';
 
@@ -53,8 +54,11 @@ export function openWorkspace(file: string, options: OpenOptions = {}): Db {
     db.pragma('foreign_keys = ON');
     db.pragma('busy_timeout = 5000');
     checkIsWorkspace(db, file);
-    if (!options.readonly) migrate(db, migrations);
-    else {
+    if (!options.readonly) {
+      migrate(db, migrations);
+      // An erasure whose freed bytes a reader held in the log last time is finished now (store/erasure.ts).
+      if (migrations.length >= MIGRATIONS.length) scrubIfPending(db);
+    } else {
       const v = userVersion(db);
       if (v !== migrations.length) {
         throw new InputError(`workspace is at schema ${v}, expected ${migrations.length}; open it once for writing`, {

@@ -1,7 +1,7 @@
 import { plural } from '../../core/util/plural.ts';
 import { CancelledError } from '../../core/errors.ts';
 import type { ModelKind } from '../../core/models/scorer.ts';
-import { saveUnlessErasedSince } from '../../store/erasure.ts';
+import { saveUnlessErasedSince, scrubIfPending } from '../../store/erasure.ts';
 import { ModelRepo } from '../../store/models.ts';
 import type { JobBody } from '../jobs.ts';
 import type { Db } from '../../store/workspace.ts';
@@ -51,7 +51,13 @@ export async function trainAndSave(
   options: TrainOptions = {},
   hooks: TrainHooks & { keepHistory?: number } = {},
 ): Promise<TrainSummary> {
-  const out = await trainAll(file, options, hooks);
+  let out: TrainOutput;
+  try {
+    out = await trainAll(file, options, hooks);
+  } finally {
+    // The thread's reads are over: an erasure made while it was reading can now empty the log.
+    scrubIfPending(db);
+  }
   if (hooks.signal?.aborted) throw new CancelledError('training cancelled');
   const repo = new ModelRepo(db, hooks.keepHistory ?? 1);
   const ids = saveUnlessErasedSince(db, out.erasureGeneration, 'training', () => repo.saveAll(out.records));

@@ -58,11 +58,19 @@ export function forgetCustomer(db: Db, externalId: string): ForgetReport {
       .map((m) => m.kind);
     return { signals, modelsDeleted: kinds.sort(), modelsStale: stale.sort(), importLogScrubbed };
   })();
-  const { walTruncated } = scrubFreedBytes(db);
-  return { customer: externalId, ...erased, bytesRemoved: walTruncated, message: describe(externalId, erased, walTruncated) };
+  // The erasure has committed; a scrub that fails (a full disk) stays pending (store/erasure.ts) and is said so.
+  let lingering: string | null;
+  try {
+    lingering = scrubFreedBytes(db).walTruncated
+      ? null
+      : 'another program is still reading the workspace, so the erased rows may linger in its log file until that reading is over (the next training run or opening of the workspace clears it)';
+  } catch (e) {
+    lingering = `the file could not be rewritten (${(e as Error).message}), so the erased rows may linger in its free space until it is next opened`;
+  }
+  return { customer: externalId, ...erased, bytesRemoved: lingering === null, message: describe(externalId, erased, lingering) };
 }
 
-function describe(customer: string, r: { signals: number; modelsDeleted: string[]; modelsStale: string[] }, bytesRemoved: boolean): string {
+function describe(customer: string, r: { signals: number; modelsDeleted: string[]; modelsStale: string[] }, lingering: string | null): string {
   const parts = [`erased customer ${customer}: ${r.signals} signal${r.signals === 1 ? '' : 's'} and the customer row`];
   if (r.modelsDeleted.length) parts.push(`deleted the ${named(r.modelsDeleted)} model (it kept a row for every customer)`);
   if (r.modelsStale.length) {
@@ -72,10 +80,6 @@ function describe(customer: string, r: { signals: number; modelsDeleted: string[
         `(trained with this customer's signals, though holding no row for them)`,
     );
   }
-  parts.push(
-    bytesRemoved
-      ? 'the workspace file was rewritten, so no trace of the erased rows is left in it'
-      : 'another program is still reading the workspace, so the erased rows may linger in its log file until every program has closed it',
-  );
+  parts.push(lingering ?? 'the workspace file was rewritten, so no trace of the erased rows is left in it');
   return parts.join('; ');
 }

@@ -77,7 +77,7 @@ export function ForgetCustomer() {
           Customer {done.customer} erased: {done.signals.toLocaleString('en')} signals removed
           {done.modelsDeleted.length > 0 ? `; models removed: ${done.modelsDeleted.join(', ')}` : ''}
           {done.modelsStale.length > 0 ? `; out of date until retrained: ${done.modelsStale.join(', ')}` : ''}.
-          {!done.bytesRemoved && ' Another program is still reading this workspace: traces may remain in its log file until it is done.'}
+          {!done.bytesRemoved && ' The file could not be rewritten yet (another program was reading it): traces may remain until the next training run or opening of the workspace.'}
         </p>
       )}
     </form>

@@ -34,7 +34,6 @@ export function openWorkspace(file: string, options: OpenOptions = {}): Db {
     throw new InputError(`no workspace at ${file}`, { file });
   }
   if (!exists) createPrivateFile(file);
-  else if (!options.readonly) makePrivate(file);
   const dbOptions: Database.Options = { readonly: options.readonly ?? false, fileMustExist: exists };
   if (options.nativeBinding) dbOptions.nativeBinding = options.nativeBinding;
   let db: Db;
@@ -55,6 +54,7 @@ export function openWorkspace(file: string, options: OpenOptions = {}): Db {
     db.pragma('busy_timeout = 5000');
     checkIsWorkspace(db, file);
     if (!options.readonly) {
+      makePrivate(file); // only once it is known to be a workspace: another program's file keeps its mode
       migrate(db, migrations);
       // An erasure whose freed bytes a reader held in the log last time is finished now (store/erasure.ts).
       if (migrations.length >= MIGRATIONS.length) scrubIfPending(db);

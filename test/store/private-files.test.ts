@@ -55,6 +55,13 @@ describe.skipIf(process.platform === 'win32')('private files', () => {
     }
   });
 
+  it("leaves the mode of a file that is not a workspace alone when it refuses to open it", () => {
+    const file = path.join(dir, 'notes.txt');
+    fs.writeFileSync(file, 'a shopping list, not a database\n', { mode: 0o644 });
+    expect(() => openWorkspace(file)).toThrow(/not a workspace file/);
+    expect(mode(file)).toBe(0o644);
+  });
+
   it('builds the demo workspace 0600 (built beside the target, then renamed into place)', async () => {
     const file = path.join(dir, 'demo.sqlite');
     await buildDemoWorkspace(file, { size: { items: 60, customers: 80, signals: 800 }, train: false });

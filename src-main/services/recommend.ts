@@ -210,7 +210,7 @@ function round6(x: number): number {
 
 function openOut(file: string): number {
   try {
-    return fs.openSync(file, 'w', 0o600); // one line per customer, by id: private to the user, like the workspace
+    return fs.openSync(file, 'wx', 0o600); // new only: the scratch file never replaces anything
   } catch (e) {
     throw new InputError(`cannot write the output file: ${(e as Error).message}`, { file: file.replace(/\.partial-\d+$/, '') });
   }

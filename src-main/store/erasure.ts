@@ -79,12 +79,19 @@ export function scrubFreedBytes(db: Db): ScrubReport {
 /**
  * Finishes an erasure's scrub that another connection's read held up (`scrubFreedBytes` returned
  * walTruncated false). Called where such a reader has just gone: when a training run ends, and when a
- * workspace is opened for writing. Does nothing when no scrub is pending, or inside a transaction.
+ * workspace is opened for writing. Does nothing when no scrub is pending, or inside a transaction. Never
+ * throws: a scrub that fails (a full disk) must not fail the opening or the training that called it; it
+ * stays pending and is tried again at the next of those.
  */
 export function scrubIfPending(db: Db): ScrubReport | null {
   if (db.inTransaction) return null;
   const pending = db.prepare("SELECT value FROM workspace_meta WHERE key = 'scrub_pending'").pluck().get() as number | undefined;
-  return pending === 1 ? scrubFreedBytes(db) : null;
+  if (pending !== 1) return null;
+  try {
+    return scrubFreedBytes(db);
+  } catch {
+    return { vacuumed: false, walTruncated: false };
+  }
 }
 
 const REMOVED = '[removed: it named an erased customer]';

@@ -53,12 +53,8 @@ export function openWorkspace(file: string, options: OpenOptions = {}): Db {
     db.pragma('foreign_keys = ON');
     db.pragma('busy_timeout = 5000');
     checkIsWorkspace(db, file);
-    if (!options.readonly) {
-      makePrivate(file); // only once it is known to be a workspace: another program's file keeps its mode
-      migrate(db, migrations);
-      // An erasure whose freed bytes a reader held in the log last time is finished now (store/erasure.ts).
-      if (migrations.length >= MIGRATIONS.length) scrubIfPending(db);
-    } else {
+    if (!options.readonly) migrate(db, migrations);
+    else {
       const v = userVersion(db);
       if (v !== migrations.length) {
         throw new InputError(`workspace is at schema ${v}, expected ${migrations.length}; open it once for writing`, {
@@ -73,6 +69,11 @@ export function openWorkspace(file: string, options: OpenOptions = {}): Db {
       throw new InputError('not a workspace file (not an SQLite database)', { file });
     }
     throw e;
+  }
+  if (!options.readonly) {
+    makePrivate(file); // only now that it is known to be a workspace: another program's file keeps its mode
+    // An erasure whose freed bytes a reader held in the log last time is finished now (store/erasure.ts).
+    if (migrations.length >= MIGRATIONS.length) scrubIfPending(db);
   }
   return db;
 }

@@ -1,12 +1,19 @@
 /**
  * Erasing one customer on request (DESIGN.md "Customer data stays on the machine; a customer's data can be
- * erased on request"). One transaction removes the customer's signals and the customer row. Stored
- * models that hold a row per customer (iALS keeps a factor vector for every customer) are deleted too,
- * because the erased person's factors live inside their bytes; every other model is left in place and
- * reads as stale, since the data fingerprint (store/models.ts) covers the signal and customer tables and
- * no longer matches. Published editions hold items only, never customers, so history is untouched.
+ * erased on request": erasure is final and leaves no bytes). One transaction removes the customer's
+ * signals and the customer row, deletes stored models that hold a row per customer (iALS keeps a factor
+ * vector for every customer, so the person's factors live inside its bytes), removes the id from the
+ * import log, and raises the erasure generation, so a training run that read the data before this moment
+ * cannot store its models afterwards (store/erasure.ts). Every other model is left in place and reads as
+ * stale, since the data fingerprint (store/models.ts) covers the signal and customer tables and no longer
+ * matches. Published editions hold items only, never customers, so history is untouched.
+ *
+ * Then the file is rewritten (VACUUM) and its write-ahead log emptied, so the deleted rows leave no bytes
+ * in the workspace's files. Copies made outside the tool (backups, exports of the source systems) are out
+ * of its reach; the README's "Responsible use" says so.
  */
-import { NotFoundError } from '../core/errors.ts';
+import { BugError, NotFoundError } from '../core/errors.ts';
+import { raiseErasureGeneration, scrubFreedBytes, scrubImportLog } from '../store/erasure.ts';
 import { dataFingerprint, ModelRepo } from '../store/models.ts';
 import type { Db } from '../store/workspace.ts';
 
@@ -17,24 +24,62 @@ export interface ForgetReport {
   modelsDeleted: string[];
   /** Model kinds kept but now stale (retrain to bring them up to date). */
   modelsStale: string[];
+  /** Import log entries whose file name or messages named the customer, now replaced. */
+  importLogScrubbed: number;
+  /** The file was rewritten and its write-ahead log emptied: no byte of the erased rows is left. */
+  bytesRemoved: boolean;
+  /** What was done, in a sentence an editor reads. */
+  message: string;
 }
 
 /** Model kinds whose stored bytes include per-customer data. */
 const PER_CUSTOMER_KINDS = ['ials'];
 
+const NAMES: Record<string, string> = { ials: 'iALS', itemknn: 'item-kNN', ease: 'EASE', content: 'content', popularity: 'popularity' };
+const named = (kinds: string[]) => kinds.map((k) => NAMES[k] ?? k).join(', ');
+
 export function forgetCustomer(db: Db, externalId: string): ForgetReport {
-  return db.transaction(() => {
+  // VACUUM cannot run inside a transaction; a caller that wraps this in one is a bug, not user input.
+  if (db.inTransaction) throw new BugError('forgetCustomer must not run inside a transaction');
+  const erased = db.transaction(() => {
     const row = db.prepare('SELECT id FROM customer WHERE external_id = ?').get(externalId) as { id: number } | undefined;
     if (!row) throw new NotFoundError(`no customer with id '${externalId}'`);
     const signals = db.prepare('DELETE FROM signal WHERE customer_id = ?').run(row.id).changes;
     db.prepare('DELETE FROM customer WHERE id = ?').run(row.id);
-    const kinds = db.prepare(`SELECT DISTINCT kind FROM model WHERE kind IN (${PER_CUSTOMER_KINDS.map(() => '?').join(',')})`).pluck().all(...PER_CUSTOMER_KINDS) as string[];
-    db.prepare(`DELETE FROM model WHERE kind IN (${PER_CUSTOMER_KINDS.map(() => '?').join(',')})`).run(...PER_CUSTOMER_KINDS);
+    const list = PER_CUSTOMER_KINDS.map(() => '?').join(',');
+    const kinds = db.prepare(`SELECT DISTINCT kind FROM model WHERE kind IN (${list})`).pluck().all(...PER_CUSTOMER_KINDS) as string[];
+    db.prepare(`DELETE FROM model WHERE kind IN (${list})`).run(...PER_CUSTOMER_KINDS);
+    const importLogScrubbed = scrubImportLog(db, externalId);
+    raiseErasureGeneration(db);
     const now = dataFingerprint(db);
     const stale = new ModelRepo(db)
       .list()
       .filter((m) => m.current && m.fingerprint !== now)
       .map((m) => m.kind);
-    return { customer: externalId, signals, modelsDeleted: kinds.sort(), modelsStale: stale.sort() };
+    return { signals, modelsDeleted: kinds.sort(), modelsStale: stale.sort(), importLogScrubbed };
   })();
+  // The erasure has committed; a scrub that fails (a full disk) stays pending (store/erasure.ts) and is said so.
+  let lingering: string | null;
+  try {
+    lingering = scrubFreedBytes(db).walTruncated
+      ? null
+      : 'another program is still reading the workspace, so the erased rows may linger in its log file until that reading is over (the next training run or opening of the workspace clears it)';
+  } catch (e) {
+    lingering = `the file could not be rewritten (${(e as Error).message}), so the erased rows may linger in its free space until it is next opened`;
+  }
+  return { customer: externalId, ...erased, bytesRemoved: lingering === null, message: describe(externalId, erased, lingering) };
+}
+
+function describe(customer: string, r: { signals: number; modelsDeleted: string[]; modelsStale: string[] }, lingering: string | null): string {
+  const parts = [`erased customer ${customer}: ${r.signals} signal${r.signals === 1 ? '' : 's'} and the customer row`];
+  if (r.modelsDeleted.length) parts.push(`deleted the ${named(r.modelsDeleted)} model (it kept a row for every customer)`);
+  if (r.modelsStale.length) {
+    const one = r.modelsStale.length === 1;
+    parts.push(
+      `the ${named(r.modelsStale)} model${one ? ' is' : 's are'} out of date until you train again ` +
+        `(trained with this customer's signals, though holding no row for them)`,
+    );
+  }
+  parts.push(lingering ?? 'the workspace file was rewritten, so no trace of the erased rows is left in it');
+  return parts.join('; ');
 }

@@ -44,7 +44,7 @@ export async function withFile<T>(source: FileSource, use: (file: string, shownA
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-upload-'));
   const staged = path.join(dir, safeBaseName(source.fileName));
   try {
-    fs.writeFileSync(staged, source.content);
+    fs.writeFileSync(staged, source.content, { mode: 0o600 }); // customer data: private, like its folder
     return await renamingErrors(staged, source.fileName, use);
   } finally {
     fs.rmSync(dir, { recursive: true, force: true });

@@ -2,6 +2,7 @@ import Database from 'better-sqlite3';
 import fs from 'node:fs';
 import path from 'node:path';
 import { InputError } from '../core/errors.ts';
+import { scrubIfPending } from './erasure.ts';
 import { MIGRATIONS } from './migrations/index.ts';
 import type { Migration } from './migrations/types.ts';
 
@@ -32,7 +33,7 @@ export function openWorkspace(file: string, options: OpenOptions = {}): Db {
   if (!exists && (options.readonly || options.create === false)) {
     throw new InputError(`no workspace at ${file}`, { file });
   }
-  if (!exists) fs.mkdirSync(path.dirname(path.resolve(file)), { recursive: true });
+  if (!exists) createPrivateFile(file);
   const dbOptions: Database.Options = { readonly: options.readonly ?? false, fileMustExist: exists };
   if (options.nativeBinding) dbOptions.nativeBinding = options.nativeBinding;
   let db: Db;
@@ -49,6 +50,9 @@ export function openWorkspace(file: string, options: OpenOptions = {}): Db {
     if (!options.readonly) {
       db.pragma('journal_mode = WAL');
       db.pragma('synchronous = NORMAL');
+      // Deleted content is overwritten with zeros, not left in free space (SQLite "PRAGMA secure_delete"):
+      // part of erasing a customer (services/forget.ts). A per-connection setting, so set on every open.
+      db.pragma('secure_delete = ON');
     }
     if (!options.readonly) migrate(db, migrations);
     else {
@@ -67,7 +71,43 @@ export function openWorkspace(file: string, options: OpenOptions = {}): Db {
     }
     throw e;
   }
+  if (!options.readonly) {
+    makePrivate(file); // only now that it is known to be a workspace: another program's file keeps its mode
+    // An erasure whose freed bytes a reader held in the log last time is finished now (store/erasure.ts).
+    if (migrations.length >= MIGRATIONS.length) scrubIfPending(db);
+  }
   return db;
+}
+
+/**
+ * Creates the workspace file empty with mode 0600 (its folder, if new, 0700) before SQLite opens it:
+ * created with the mode at once, there is no moment when another local user could open it, and SQLite
+ * gives the -wal and -shm files it makes later the mode of the database file (its unix VFS copies it).
+ * A file someone else created in between is simply opened.
+ */
+function createPrivateFile(file: string): void {
+  fs.mkdirSync(path.dirname(path.resolve(file)), { recursive: true, mode: 0o700 });
+  try {
+    fs.closeSync(fs.openSync(file, 'wx', 0o600));
+  } catch (e) {
+    if ((e as { code?: string }).code !== 'EEXIST') throw new InputError(`cannot create workspace: ${(e as Error).message}`, { file });
+  }
+}
+
+/**
+ * Workspaces made before files were created private (0644: every local user could read customer data)
+ * are made private when opened for writing: the file and any -wal and -shm beside it. Only the owner
+ * may change a file's mode, so a file owned by someone else is left as it is.
+ */
+function makePrivate(file: string): void {
+  for (const f of [file, `${file}-wal`, `${file}-shm`]) {
+    try {
+      const st = fs.statSync(f);
+      if ((st.mode & 0o077) !== 0 && st.uid === process.getuid?.()) fs.chmodSync(f, st.mode & 0o700);
+    } catch {
+      // missing (-wal and -shm often are) or not ours: nothing to tighten
+    }
+  }
 }
 
 export function userVersion(db: Db): number {

@@ -21,9 +21,10 @@ export function ForgetCustomer() {
     <form className="panel" onSubmit={ask} aria-labelledby={`${id}-h`}>
       <h2 id={`${id}-h`}>Forget a customer</h2>
       <p className="muted small" id={`${id}-note`}>
-        Privacy: this workspace and everything in it stays on this machine. Erasing a customer removes their signals and their row here, and
-        models that held them are retrained or marked out of date. Erasure duties differ by country: follow your local law and your
-        data-protection adviser, and erase the customer in the systems the files came from too.
+        Privacy: this workspace and everything in it stays on this machine. Erasing a customer removes their signals, their row and any
+        model that kept a row for them, and leaves no trace of them in the workspace file; other models are marked out of date until you
+        train again. Backups and copies made outside this app are not reached. Erasure duties differ by country: follow your local law and
+        your data-protection adviser, and erase the customer in the systems the files came from too.
       </p>
       <div className="field">
         <label htmlFor={`${id}-c`}>Customer id</label>
@@ -76,6 +77,7 @@ export function ForgetCustomer() {
           Customer {done.customer} erased: {done.signals.toLocaleString('en')} signals removed
           {done.modelsDeleted.length > 0 ? `; models removed: ${done.modelsDeleted.join(', ')}` : ''}
           {done.modelsStale.length > 0 ? `; out of date until retrained: ${done.modelsStale.join(', ')}` : ''}.
+          {!done.bytesRemoved && ' The file could not be rewritten yet (another program was reading it): traces may remain until the next training run or opening of the workspace.'}
         </p>
       )}
     </form>

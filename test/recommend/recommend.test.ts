@@ -77,6 +77,8 @@ describe('recommend (per-customer top-N)', () => {
     const rows = parse(fs.readFileSync(a, 'utf8'), { columns: true }) as Record<string, string>[];
     expect(Object.keys(rows[0]!)).toEqual(RECOMMEND_CSV_HEADER);
     expect(rows).toHaveLength(12);
+    // Lists per customer id are customer data: owner-only (POSIX mode 0600), as the workspace itself.
+    if (process.platform !== 'win32') expect(fs.statSync(a).mode & 0o777).toBe(0o600);
   });
 
   it('reports unknown and repeated customers and writes the known ones', () => {

@@ -204,9 +204,18 @@ export const curationMethods = {
     response: BacktestView,
   }),
   'customer.forget': method({
-    summary: "Erase one customer's signals and row (and models holding per-customer rows); reports what was erased.",
+    summary: "Erase one customer's signals and row (and models holding per-customer rows, and their id in the import log), then rewrite the file so no bytes remain; reports what was erased.",
     request: z.object({ customer: z.string().trim().min(1, 'name the customer by its id') }).strict(),
-    response: z.object({ customer: z.string(), signals: z.number().int(), modelsDeleted: z.array(z.string()), modelsStale: z.array(z.string()) }),
+    response: z.object({
+      customer: z.string(),
+      signals: z.number().int(),
+      modelsDeleted: z.array(z.string()),
+      modelsStale: z.array(z.string()),
+      importLogScrubbed: z.number().int(),
+      /** The file was rewritten and its log emptied; false while another program still reads the workspace. */
+      bytesRemoved: z.boolean(),
+      message: z.string(),
+    }),
   }),
   'audience.groups': method({
     summary: 'The taste groups found in the iALS customer factors, each described by its top categories and tags by lift.',

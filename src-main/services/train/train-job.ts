@@ -1,6 +1,7 @@
 import { plural } from '../../core/util/plural.ts';
 import { CancelledError } from '../../core/errors.ts';
 import type { ModelKind } from '../../core/models/scorer.ts';
+import { saveUnlessErasedSince, scrubIfPending } from '../../store/erasure.ts';
 import { ModelRepo } from '../../store/models.ts';
 import type { JobBody } from '../jobs.ts';
 import type { Db } from '../../store/workspace.ts';
@@ -39,16 +40,27 @@ export interface TrainSummary {
   notes: string[];
 }
 
-/** Trains off-thread, then stores every model in one transaction (all become current, or none). */
+/**
+ * Trains off-thread, then stores every model in one transaction (all become current, or none). If a
+ * customer was erased after the thread read the data, nothing is stored (ErasedSinceReadError): the
+ * models were fitted on the erased person's signals, and iALS would hold their factor row again.
+ */
 export async function trainAndSave(
   db: Db,
   file: string,
   options: TrainOptions = {},
   hooks: TrainHooks & { keepHistory?: number } = {},
 ): Promise<TrainSummary> {
-  const out = await trainAll(file, options, hooks);
+  let out: TrainOutput;
+  try {
+    out = await trainAll(file, options, hooks);
+  } finally {
+    // The thread's reads are over: an erasure made while it was reading can now empty the log.
+    scrubIfPending(db);
+  }
   if (hooks.signal?.aborted) throw new CancelledError('training cancelled');
-  const ids = new ModelRepo(db, hooks.keepHistory ?? 1).saveAll(out.records);
+  const repo = new ModelRepo(db, hooks.keepHistory ?? 1);
+  const ids = saveUnlessErasedSince(db, out.erasureGeneration, 'training', () => repo.saveAll(out.records));
   return { ids, models: out.records.map((r) => r.kind), fingerprint: out.fingerprint, elapsedMs: out.elapsedMs, notes: out.notes };
 }
 

@@ -7,6 +7,7 @@ import { fitPopularity } from '../../core/models/popularity.ts';
 import type { FitReport, ModelKind, Scorer } from '../../core/models/scorer.ts';
 import type { Dataset } from '../../core/types.ts';
 import { loadDataset } from '../../store/dataset.ts';
+import { erasureGeneration } from '../../store/erasure.ts';
 import { dataFingerprint, type ModelRecord } from '../../store/models.ts';
 import type { Db } from '../../store/workspace.ts';
 import { fitEaseInThread } from './ease-thread.ts';
@@ -42,6 +43,8 @@ export interface TrainProgress {
 
 export interface TrainOutput {
   fingerprint: string;
+  /** The erasure generation the data was read at (store/erasure.ts): saving checks it has not moved. */
+  erasureGeneration: number;
   records: ModelRecord[];
   notes: string[];
   elapsedMs: number;
@@ -77,8 +80,9 @@ const WEIGHT: Record<'load' | 'matrix' | TrainedKind, number> = {
 
 /**
  * Loads the workspace and fits the chosen models; nothing is written (the caller stores the records in
- * one transaction). The dataset and its fingerprint are read in one read transaction, so the fingerprint
- * describes exactly the data the models saw.
+ * one transaction). The dataset, its fingerprint and the erasure generation are read in one read
+ * transaction, so the fingerprint describes exactly the data the models saw, and the save can tell
+ * whether a customer was erased since.
  */
 export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: TrainProgress) => void): Promise<TrainOutput> {
   const started = performance.now();
@@ -97,8 +101,10 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
   };
   report({ stage: 'load' });
   let fingerprint = '';
+  let generation = 0;
   let ds: Dataset | undefined;
   db.transaction(() => {
+    generation = erasureGeneration(db);
     fingerprint = dataFingerprint(db);
     ds = loadDataset(db);
   })();
@@ -164,5 +170,5 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
     easeThread?.stop();
   }
   onProgress({ stage: 'done', fraction: 1 });
-  return { fingerprint, records, notes, elapsedMs: performance.now() - started, timings };
+  return { fingerprint, erasureGeneration: generation, records, notes, elapsedMs: performance.now() - started, timings };
 }

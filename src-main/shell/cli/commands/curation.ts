@@ -560,12 +560,7 @@ export const curationCommands: CliCommand[] = [
       const { table: t } = env.api();
       const r = await call(t, 'customer.forget', { customer: customer! });
       if (env.json) env.io.out(JSON.stringify(r, null, 2));
-      else
-        env.io.out(
-          `erased customer ${r.customer}: ${r.signals} signals` +
-            (r.modelsDeleted.length ? `; deleted models holding their data: ${r.modelsDeleted.join(', ')}` : '') +
-            (r.modelsStale.length ? `; stale until retrained: ${r.modelsStale.join(', ')}` : ''),
-        );
+      else env.io.out(r.message);
       return EXIT.ok;
     },
   },

@@ -4,6 +4,9 @@ import path from 'node:path';
 import { InputError } from '../core/errors.ts';
 import { MIGRATIONS } from './migrations/index.ts';
 import type { Migration } from './migrations/types.ts';
+import { openForReading, writable } from './read-only.ts';
+import { damaged } from './store-errors.ts';
+import { busyTimeoutMs, immediateTransactions, setWaitListener, type WaitListener } from './write-lock.ts';
 
 export type Db = Database.Database;
 
@@ -16,6 +19,8 @@ export interface OpenOptions {
   migrations?: readonly Migration[];
   /** Path of a better-sqlite3 native binding built for another ABI (Electron). */
   nativeBinding?: string;
+  /** Told once per write that has to wait for another process (store/write-lock.ts). */
+  onWait?: WaitListener;
 }
 
 export const SCHEMA_VERSION = MIGRATIONS.length;
@@ -33,24 +38,29 @@ export function openWorkspace(file: string, options: OpenOptions = {}): Db {
     throw new InputError(`no workspace at ${file}`, { file });
   }
   if (!exists) fs.mkdirSync(path.dirname(path.resolve(file)), { recursive: true });
-  const dbOptions: Database.Options = { readonly: options.readonly ?? false, fileMustExist: exists };
+  // A file (or folder) we may not write opens for reading: reading a catalogue needs no write permission.
+  const readonly = (options.readonly ?? false) || (exists && !writable(file));
+  const dbOptions: Database.Options = { readonly, fileMustExist: exists };
   if (options.nativeBinding) dbOptions.nativeBinding = options.nativeBinding;
   let db: Db;
   try {
-    db = new Database(file, dbOptions);
+    db = readonly ? openForReading(file, dbOptions) : new Database(file, dbOptions);
   } catch (e) {
     throw new InputError(`cannot open workspace: ${(e as Error).message}`, { file });
   }
   try {
-    if (!options.readonly) {
+    if (!readonly) {
       db.pragma('journal_mode = WAL');
       db.pragma('synchronous = NORMAL');
     }
     db.pragma('foreign_keys = ON');
-    db.pragma('busy_timeout = 5000');
+    db.pragma(`busy_timeout = ${busyTimeoutMs()}`);
     checkIsWorkspace(db, file);
-    if (!options.readonly) migrate(db, migrations);
-    else {
+    if (!readonly) {
+      immediateTransactions(db);
+      setWaitListener(db, options.onWait);
+      migrate(db, migrations);
+    } else {
       const v = userVersion(db);
       if (v !== migrations.length) {
         throw new InputError(`workspace is at schema ${v}, expected ${migrations.length}; open it once for writing`, {
@@ -61,9 +71,11 @@ export function openWorkspace(file: string, options: OpenOptions = {}): Db {
   } catch (e) {
     db.close();
     // SQLite notices a file that is not a database only on its first read (here, the first pragma).
-    if ((e as { code?: string }).code === 'SQLITE_NOTADB') {
+    const code = (e as { code?: string }).code;
+    if (code === 'SQLITE_NOTADB') {
       throw new InputError('not a workspace file (not an SQLite database)', { file });
     }
+    if (code?.startsWith('SQLITE_CORRUPT')) throw damaged(e as Error, file);
     throw e;
   }
   return db;
@@ -78,7 +90,8 @@ function checkIsWorkspace(db: Db, file: string): void {
   let tables: { name: string }[];
   try {
     tables = db.prepare("SELECT name FROM sqlite_master WHERE type = 'table'").all() as { name: string }[];
-  } catch {
+  } catch (e) {
+    if ((e as { code?: string }).code?.startsWith('SQLITE_CORRUPT')) throw damaged(e as Error, file);
     throw new InputError('not a workspace file (not an SQLite database)', { file });
   }
   if (tables.length > 0 && userVersion(db) === 0) {

@@ -1,9 +1,10 @@
 import { plural } from '../../core/util/plural.ts';
 import { CancelledError } from '../../core/errors.ts';
 import type { ModelKind } from '../../core/models/scorer.ts';
-import { ModelRepo } from '../../store/models.ts';
 import type { JobBody } from '../jobs.ts';
 import type { Db } from '../../store/workspace.ts';
+import { waitingLine, type WaitListener } from '../../store/write-lock.ts';
+import { saveRun, STALE_NOTE } from './save-run.ts';
 import { runWorkerTask, siblingModule } from './worker-task.ts';
 import type { TrainOptions, TrainOutput, TrainProgress } from './train-models.ts';
 import type { TrainWorkerData } from './train-worker.ts';
@@ -14,6 +15,8 @@ export interface TrainHooks {
   signal?: AbortSignal;
   /** better-sqlite3 binding for another ABI (Electron), passed to the thread's own connection. */
   nativeBinding?: string;
+  /** Told when saving has to wait for another process's write (default: the connection's listener). */
+  onWait?: WaitListener;
 }
 
 
@@ -37,6 +40,8 @@ export interface TrainSummary {
   fingerprint: string;
   elapsedMs: number;
   notes: string[];
+  /** The data changed while training: the models were saved all the same and read as stale. */
+  stale: boolean;
 }
 
 /** Trains off-thread, then stores every model in one transaction (all become current, or none). */
@@ -48,8 +53,13 @@ export async function trainAndSave(
 ): Promise<TrainSummary> {
   const out = await trainAll(file, options, hooks);
   if (hooks.signal?.aborted) throw new CancelledError('training cancelled');
-  const ids = new ModelRepo(db, hooks.keepHistory ?? 1).saveAll(out.records);
-  return { ids, models: out.records.map((r) => r.kind), fingerprint: out.fingerprint, elapsedMs: out.elapsedMs, notes: out.notes };
+  const { ids, stale } = await saveRun(db, out.records, out.fingerprint, {
+    ...(hooks.keepHistory !== undefined && { keepHistory: hooks.keepHistory }),
+    ...(hooks.signal && { signal: hooks.signal }),
+    ...(hooks.onWait && { onWait: hooks.onWait }),
+  });
+  const notes = stale ? [...out.notes, STALE_NOTE] : out.notes;
+  return { ids, models: out.records.map((r) => r.kind), fingerprint: out.fingerprint, elapsedMs: out.elapsedMs, notes, stale };
 }
 
 /**
@@ -58,8 +68,9 @@ export async function trainAndSave(
  */
 export function trainJob(db: Db, file: string, options: TrainOptions = {}, hooks: Omit<TrainHooks, 'signal' | 'onProgress'> = {}): JobBody {
   return async (report, signal) => {
-    const s = await trainAndSave(db, file, options, { ...hooks, onProgress: report, signal });
+    const onWait = (holder: string) => report({ stage: waitingLine(holder), fraction: 1 });
+    const s = await trainAndSave(db, file, options, { ...hooks, onProgress: report, signal, onWait });
     const notes = s.notes.length ? ` (${s.notes.length} notes)` : '';
-    return `trained ${plural(s.models.length, 'model')} in ${(s.elapsedMs / 1000).toFixed(1)} s${notes}`;
+    return `trained ${plural(s.models.length, 'model')} in ${(s.elapsedMs / 1000).toFixed(1)} s${notes}${s.stale ? `; ${STALE_NOTE}` : ''}`;
   };
 }

@@ -98,10 +98,11 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
   report({ stage: 'load' });
   let fingerprint = '';
   let ds: Dataset | undefined;
+  // A read transaction (deferred): it must not take the write lock when the connection can write.
   db.transaction(() => {
     fingerprint = dataFingerprint(db);
     ds = loadDataset(db);
-  })();
+  }).deferred();
   const data = ds!;
   lap('load');
   doneShare += WEIGHT.load;

@@ -90,7 +90,7 @@ export async function runImport(db: Db, o: RunOptions): Promise<ImportReport> {
 async function inTransaction(db: Db, o: RunOptions, format: ImportFormat, started: number): Promise<ImportReport> {
   // Another process writing: wait for it without blocking the event loop, say so once, refuse after the busy
   // timeout (store/write-lock.ts); the note lets a process waiting on us say "an import of signals".
-  await beginWriteAsync(db, { work: `an import of ${o.target}` });
+  await beginWriteAsync(db, { work: `an import of ${o.target}`, acrossAwaits: true });
   try {
     const report = await readAndWrite(db, o, format);
     report.elapsedMs = Math.round(performance.now() - started);

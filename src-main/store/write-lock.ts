@@ -120,6 +120,13 @@ export interface AsyncWriteOptions {
   signal?: AbortSignal;
   /** What this process is doing, for the note other processes read ("an import of signals"). */
   work?: string;
+  /**
+   * The transaction stays open across awaits (an import reading its file). Meanwhile another request of
+   * this same process (the app) must not slip its writes into it, to be committed or rolled back with the
+   * import: a `db.transaction` is refused then (it cannot wait without stopping the import it waits for).
+   * Only for writers that never call `db.transaction` themselves while open.
+   */
+  acrossAwaits?: boolean;
 }
 
 /** A slice of waiting done inside SQLite's busy handler before the event loop gets a turn. */
@@ -138,7 +145,11 @@ export async function beginWriteAsync(db: Db, o: AsyncWriteOptions = {}): Promis
     throw e;
   }
   if (o.work) writeNote(db, o.work);
+  if (o.acrossAwaits) openAcrossAwaits.set(db, o.work ?? 'a long write');
 }
+
+/** Connections whose transaction is held open across awaits, with what holds it. */
+const openAcrossAwaits = new WeakMap<Db, string>();
 
 /**
  * One connection holds one transaction: two async writers of the same process (the app's import and its
@@ -183,6 +194,7 @@ export function endWrite(db: Db, commit: boolean): void {
   try {
     if (db.inTransaction) db.exec(commit ? 'COMMIT' : 'ROLLBACK');
   } finally {
+    openAcrossAwaits.delete(db);
     removeNote(db);
     releaseConnection(db);
   }
@@ -216,6 +228,13 @@ export function immediateTransactions(db: Db): void {
   const wrapped = ((fn: (...args: never[]) => unknown) => {
     const t = plain(fn);
     const run = (...args: never[]) => {
+      const holder = openAcrossAwaits.get(db);
+      if (holder !== undefined && db.inTransaction) {
+        throw new WorkspaceBusyError(
+          `the workspace is busy: this app is still writing to it (${holder}). Nothing was changed; try again when it has finished.`,
+          db.name,
+        );
+      }
       if (db.inTransaction) return t(...args);
       beginWrite(db);
       try {

@@ -6,7 +6,7 @@ import { MIGRATIONS } from './migrations/index.ts';
 import type { Migration } from './migrations/types.ts';
 import { openForReading, writable } from './read-only.ts';
 import { damaged } from './store-errors.ts';
-import { busyTimeoutMs, immediateTransactions, setWaitListener, type WaitListener } from './write-lock.ts';
+import { busyTimeoutMs, immediateTransactions, setBlockingWait, setWaitListener, type WaitListener } from './write-lock.ts';
 
 export type Db = Database.Database;
 
@@ -21,7 +21,12 @@ export interface OpenOptions {
   nativeBinding?: string;
   /** Told once per write that has to wait for another process (store/write-lock.ts). */
   onWait?: WaitListener;
+  /** At most this long a synchronous write blocks the process waiting for another one (apps: APP_BLOCKING_WAIT_MS). */
+  blockingWaitMs?: number;
 }
+
+/** What an app (web shell, Electron) lets a synchronous write block it: the busy timeout SQLite had here before. */
+export const APP_BLOCKING_WAIT_MS = 5000;
 
 export const SCHEMA_VERSION = MIGRATIONS.length;
 
@@ -54,11 +59,12 @@ export function openWorkspace(file: string, options: OpenOptions = {}): Db {
       db.pragma('synchronous = NORMAL');
     }
     db.pragma('foreign_keys = ON');
-    db.pragma(`busy_timeout = ${busyTimeoutMs()}`);
+    db.pragma(`busy_timeout = ${Math.min(busyTimeoutMs(), options.blockingWaitMs ?? Infinity)}`);
     checkIsWorkspace(db, file);
     if (!readonly) {
       immediateTransactions(db);
       setWaitListener(db, options.onWait);
+      setBlockingWait(db, options.blockingWaitMs);
       migrate(db, migrations);
     } else {
       const v = userVersion(db);

@@ -28,6 +28,22 @@ export function busyTimeoutMs(env: NodeJS.ProcessEnv = process.env): number {
   return Number.isFinite(n) && n >= 0 ? n : 30_000;
 }
 
+/**
+ * How long a synchronous write on this connection may block its process while it waits. An app serving a
+ * page sets less than the busy timeout (`OpenOptions.blockingWaitMs`): while a synchronous write waits,
+ * nothing else in that process runs. Async writes (imports, saves) do not block and keep the busy timeout.
+ */
+const blockingWaits = new WeakMap<Db, number>();
+
+export function setBlockingWait(db: Db, ms: number | undefined): void {
+  if (ms === undefined) blockingWaits.delete(db);
+  else blockingWaits.set(db, ms);
+}
+
+function blockingWaitMs(db: Db): number {
+  return blockingWaits.get(db) ?? busyTimeoutMs();
+}
+
 /** Told once when a write has to wait; `holder` says for whom ("an import (pid 123)" or a generic phrase). */
 export type WaitListener = (holder: string) => void;
 
@@ -90,7 +106,7 @@ function tryBegin(db: Db, timeoutMs: number): boolean {
     if (isBusy(e)) return false;
     throw e;
   } finally {
-    db.pragma(`busy_timeout = ${busyTimeoutMs()}`);
+    db.pragma(`busy_timeout = ${blockingWaitMs(db)}`);
   }
 }
 
@@ -108,7 +124,7 @@ function refuse(db: Db, waitedMs: number): WorkspaceBusyError {
 export function beginWrite(db: Db, onWait: WaitListener | undefined = listeners.get(db)): void {
   if (tryBegin(db, 0)) return;
   onWait?.(describeHolder(db));
-  const limit = busyTimeoutMs();
+  const limit = blockingWaitMs(db);
   if (!tryBegin(db, limit)) throw refuse(db, limit);
 }
 

@@ -10,6 +10,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createHandlerTable, invoke } from '../../src-main/api/handler-table.ts';
 import { AppContext } from '../../src-main/services/context.ts';
+import { forgetCustomer } from '../../src-main/services/forget.ts';
 import { main } from '../../src-main/shell/cli/main.ts';
 import { modelStatus } from '../../src-main/store/models.ts';
 import { openWorkspace } from '../../src-main/store/workspace.ts';
@@ -206,6 +207,24 @@ describe('two processes on one workspace', () => {
       expect(signals(file)).toBe(before + NEW_ROWS.length + 1);
     } finally {
       ctx.close();
+    }
+  }, 60_000);
+
+  it('app × CLI import: a synchronous write in the app waits only as long as the app allows, then is refused naming the import', async () => {
+    const file = workspace();
+    const pipe = signalPipe(dir, HEADER);
+    const importing = cli(['import', 'signals', pipe.file, '-w', file]);
+    await pipe.opened;
+    const db = openWorkspace(file, { blockingWaitMs: 200 });
+    try {
+      expect(() => forgetCustomer(db, 'C000006')).toThrow(
+        new RegExp(`^the workspace is busy: another Shelfwright process \\(an import of signals, pid ${importing.pid}, since [0-9:]{8}\\) has been writing to it for more than 0\\.2 s\\. Nothing was changed`),
+      );
+      await pipe.end(NEW_ROWS);
+      expect(await importing.exit, importing.err()).toBe(0);
+      expect(forgetCustomer(db, 'C000006').customer).toBe('C000006');
+    } finally {
+      db.close();
     }
   }, 60_000);
 });

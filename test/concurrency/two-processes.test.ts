@@ -8,12 +8,13 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createHandlerTable, invoke } from '../../src-main/api/handler-table.ts';
+import { createHandlerTable } from '../../src-main/api/handler-table.ts';
 import { AppContext } from '../../src-main/services/context.ts';
 import { forgetCustomer } from '../../src-main/services/forget.ts';
 import { main } from '../../src-main/shell/cli/main.ts';
 import { modelStatus } from '../../src-main/store/models.ts';
-import { openWorkspace } from '../../src-main/store/workspace.ts';
+import { startWebShell } from '../../src-main/shell/web/server.ts';
+import { APP_BLOCKING_WAIT_MS, openWorkspace } from '../../src-main/store/workspace.ts';
 import { capture } from '../cli/capture.ts';
 import { importSmallShop } from '../cli/small-shop.ts';
 import { cli, holder, signalPipe } from './processes.ts';
@@ -171,41 +172,50 @@ describe('two processes on one workspace', () => {
     expect(count(file, "SELECT count(*) FROM customer WHERE external_id = 'C000004'")).toBe(1);
   }, 60_000);
 
-  it('web shell × CLI import: the app keeps answering while its import and its training wait, and shows the wait in the job status', async () => {
+  it('web shell × CLI import: the web shell keeps answering while its import and its training wait, and shows the wait in the job status', async () => {
     const file = workspace();
     const before = signals(file);
-    const ctx = new AppContext();
+    const ctx = new AppContext({ blockingWaitMs: APP_BLOCKING_WAIT_MS });
     ctx.open(file, { create: false });
-    const table = createHandlerTable(ctx);
+    const staticDir = path.join(dir, `page${n}`);
+    fs.mkdirSync(staticDir);
+    fs.writeFileSync(path.join(staticDir, 'index.html'), '<!doctype html><title>t</title>');
+    const shell = await startWebShell({ table: createHandlerTable(ctx), staticDir });
+    // The page's calls, over HTTP as the renderer makes them.
+    const api = async <T>(method: string, payload: unknown): Promise<T> => {
+      const r = await fetch(`${shell.origin}api/${method}`, {
+        method: 'POST',
+        headers: { 'content-type': 'application/json', 'x-shelfwright-token': shell.token },
+        body: JSON.stringify(payload),
+      });
+      const body = (await r.json()) as { ok: boolean; value?: T; error?: { message: string } };
+      if (!body.ok) throw new Error(`${method}: ${body.error?.message}`);
+      return body.value as T;
+    };
     try {
       const pipe = signalPipe(dir, HEADER);
       const importing = cli(['import', 'signals', pipe.file, '-w', file]);
       await pipe.opened;
-      const job = await invoke(table, 'train.start', { models: ['popularity'] });
-      if (!job.ok) throw new Error(job.error.message);
-      const id = (job.value as { id: string }).id;
-      // The job's stage turns to the waiting line: polled through the api, as the app does.
+      const { id } = await api<{ id: string }>('train.start', { models: ['popularity'] });
+      // The job's stage turns to the waiting line: polled as the page polls.
       for (;;) {
-        const s = await invoke(table, 'job.status', { id });
-        if (!s.ok) throw new Error(s.error.message);
-        const state = s.value as { state: string; progress: { stage: string } };
+        const state = await api<{ state: string; progress: { stage: string } }>('job.status', { id });
         expect(state.state).toBe('running');
         if (state.progress.stage.startsWith(`${WAITING} (an import of signals, pid ${importing.pid}`)) break;
-        await new Promise((r) => setTimeout(r, 20)); // a poll interval, as the app polls; the loop ends on state
+        await new Promise((r) => setTimeout(r, 20)); // a poll interval, as the page polls; the loop ends on state
       }
-      // The app's own import queues behind its training run's save, which waits for the command line's import.
-      const appImport = invoke(table, 'import.run', { target: 'signals', fileName: 'more.csv', content: `${HEADER}\nC000005,I00009,view,1,2026-12-02T09:00:00Z\n` });
-      const info = await invoke(table, 'workspace.info', {});
-      expect(info.ok).toBe(true);
+      // The page's own import queues behind its training run's save, which waits for the command line's import.
+      const pageImport = api<{ committed: boolean }>('import.run', { target: 'signals', fileName: 'more.csv', content: `${HEADER}\nC000005,I00009,view,1,2026-12-02T09:00:00Z\n` });
+      expect(await api<{ open: boolean }>('workspace.info', {})).toMatchObject({ open: true });
       await pipe.end(NEW_ROWS);
       expect(await importing.exit, importing.err()).toBe(0);
-      const imported = await appImport;
-      expect(imported.ok && (imported.value as { committed: boolean }).committed, JSON.stringify(imported)).toBe(true);
+      expect((await pageImport).committed).toBe(true);
       const done = await ctx.jobs.settled(id);
       expect(done.state).toBe('done');
       expect(done.summary).toContain('marked stale');
       expect(signals(file)).toBe(before + NEW_ROWS.length + 1);
     } finally {
+      await shell.close();
       ctx.close();
     }
   }, 60_000);

@@ -10,9 +10,9 @@ import type { Db } from './workspace.ts';
  * Every write transaction begins IMMEDIATE. A deferred transaction that has read and then writes while
  * another connection holds the write lock gets SQLITE_BUSY at once, without the busy handler being asked
  * (SQLite "Transaction" docs, BEGIN DEFERRED / IMMEDIATE; sqlite3BtreeBeginTrans only retries a lock taken
- * from no transaction), so it could neither wait nor say it was waiting. The lock is first tried with a
- * zero timeout: when that fails we know we are waiting, tell the user once, and then wait out the busy
- * timeout. better-sqlite3 has no busy-handler callback, hence the two tries.
+ * from no transaction), so it could neither wait nor say it was waiting. The lock is first tried for a
+ * short moment (QUIET_MS): when that fails we know we are waiting, tell the user once, and then wait out
+ * the busy timeout. better-sqlite3 has no busy-handler callback, hence the two tries.
  *
  * A long writer (an import, saving trained models, the demo build) also leaves a note beside the file
  * (`<file>-writer`: pid and what it is doing), so a waiting process can say who it waits for. The note is
@@ -43,6 +43,13 @@ export function setBlockingWait(db: Db, ms: number | undefined): void {
 function blockingWaitMs(db: Db): number {
   return blockingWaits.get(db) ?? busyTimeoutMs();
 }
+
+/**
+ * A wait shorter than this goes unmentioned (another process's editorial action takes milliseconds):
+ * 0.1 s is the limit for a response to feel instantaneous (Nielsen, "Response Times: The 3 Important
+ * Limits", 1993, after Miller 1968).
+ */
+const QUIET_MS = 100;
 
 /** Told once when a write has to wait; `holder` says for whom ("an import (pid 123)" or a generic phrase). */
 export type WaitListener = (holder: string) => void;
@@ -122,10 +129,11 @@ function refuse(db: Db, waitedMs: number): WorkspaceBusyError {
 
 /** BEGIN IMMEDIATE, waiting (blocking) up to the busy timeout; says once that it waits. */
 export function beginWrite(db: Db, onWait: WaitListener | undefined = listeners.get(db)): void {
-  if (tryBegin(db, 0)) return;
-  onWait?.(describeHolder(db));
   const limit = blockingWaitMs(db);
-  if (!tryBegin(db, limit)) throw refuse(db, limit);
+  const quiet = Math.min(QUIET_MS, limit);
+  if (tryBegin(db, quiet)) return;
+  onWait?.(describeHolder(db));
+  if (!tryBegin(db, limit - quiet)) throw refuse(db, limit);
 }
 
 export interface AsyncWriteOptions {
@@ -192,15 +200,21 @@ function releaseConnection(db: Db): void {
 
 async function takeLock(db: Db, o: AsyncWriteOptions): Promise<void> {
   if (!tryBegin(db, 0)) {
-    (o.onWait ?? listeners.get(db))?.(describeHolder(db));
+    const onWait = o.onWait ?? listeners.get(db);
+    let told = false;
     const limit = o.waitMs ?? busyTimeoutMs();
     const started = performance.now();
     for (;;) {
       if (o.signal?.aborted) throw new CancelledError('cancelled while waiting for the workspace');
       await nextTurn();
-      const left = limit - (performance.now() - started);
+      const waited = performance.now() - started;
+      if (!told && waited >= QUIET_MS) {
+        onWait?.(describeHolder(db));
+        told = true;
+      }
+      const left = limit - waited;
       if (left <= 0) throw refuse(db, limit);
-      if (tryBegin(db, Math.min(SLICE_MS, left))) break;
+      if (tryBegin(db, Math.max(0, Math.min(told ? SLICE_MS : QUIET_MS - waited, left)))) break;
     }
   }
 }

@@ -58,8 +58,7 @@ export async function trainAndSave(
     ...(hooks.signal && { signal: hooks.signal }),
     ...(hooks.onWait && { onWait: hooks.onWait }),
   });
-  const notes = stale ? [...out.notes, STALE_NOTE] : out.notes;
-  return { ids, models: out.records.map((r) => r.kind), fingerprint: out.fingerprint, elapsedMs: out.elapsedMs, notes, stale };
+  return { ids, models: out.records.map((r) => r.kind), fingerprint: out.fingerprint, elapsedMs: out.elapsedMs, notes: out.notes, stale };
 }
 
 /**

@@ -47,4 +47,23 @@ describe('one app, one connection', () => {
       db.close();
     }
   }, 60_000);
+
+  it('two imports of the same app take turns on its one connection: both are kept', async () => {
+    const db = openWorkspace(file);
+    try {
+      const before = db.prepare('SELECT count(*) FROM signal').pluck().get() as number;
+      const pipe = signalPipe(dir, 'customer,item,kind,value,at');
+      const first = importFile(db, { target: 'signals', file: pipe.file });
+      await pipe.opened;
+      const other = path.join(dir, 'other.csv');
+      fs.writeFileSync(other, 'customer,item,kind,value,at\nC000005,I00003,view,1,2026-12-02T08:00:00Z\n');
+      const second = importFile(db, { target: 'signals', file: other });
+      await pipe.end(['C000005,I00004,view,1,2026-12-02T07:00:00Z']);
+      expect((await first).committed).toBe(true);
+      expect((await second).committed).toBe(true);
+      expect(db.prepare('SELECT count(*) FROM signal').pluck().get()).toBe(before + 2);
+    } finally {
+      db.close();
+    }
+  }, 60_000);
 });

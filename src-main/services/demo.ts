@@ -43,8 +43,7 @@ export async function buildDemoWorkspace(file: string, options: DemoBuildOptions
   };
   const building = `${file}.building`;
   // Refused before any work (another build of the same file shows as its `.building` being open) ...
-  refuseInUse(file);
-  refuseInUse(building);
+  refuseDemoTarget(file);
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-demo-'));
   removeWorkspaceFiles(building);
   try {
@@ -89,6 +88,12 @@ export async function buildDemoWorkspace(file: string, options: DemoBuildOptions
 export async function ensureDemoWorkspace(file: string, options: DemoBuildOptions = {}): Promise<DemoBuildReport | null> {
   if (fs.existsSync(file)) return null;
   return buildDemoWorkspace(file, options);
+}
+
+/** Refuses (WorkspaceBusyError) a target that another process has open, or that another build is making. */
+export function refuseDemoTarget(file: string): void {
+  refuseInUse(file);
+  refuseInUse(`${file}.building`);
 }
 
 /**

@@ -119,7 +119,9 @@ describe('two processes on one workspace', () => {
     await app.waitFor('stdout', 'ready');
     const demo = cli(['demo', '-w', file, '--no-train', '--json']);
     expect(await demo.exit).toBe(2);
-    expect(JSON.parse(demo.out()).error.message).toContain('is open in another Shelfwright process (the app, an import or a training run)');
+    const error = JSON.parse(demo.out()).error;
+    expect(error.code).toBe('conflict');
+    expect(error.message).toContain('is open in another Shelfwright process (the app, an import or a training run)');
     app.send('done');
     expect(await app.exit).toBe(0);
     expect(fs.statSync(file).ino).toBe(ino);

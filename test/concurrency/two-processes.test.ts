@@ -128,6 +128,20 @@ describe('two processes on one workspace', () => {
     expect(count(file, 'SELECT count(*) FROM edition')).toBe(1);
   }, 60_000);
 
+  it('demo × demo: a second build of the same workspace is refused while the first is building it', async () => {
+    const file = workspace();
+    // The first build's half-made file, open in its process (write-holder.ts stands in for that build).
+    fs.copyFileSync(file, `${file}.building`);
+    const building = holder(`${file}.building`, 'open');
+    await building.waitFor('stdout', 'ready');
+    const second = cli(['demo', '-w', file, '--no-train']);
+    expect(await second.exit).toBe(2);
+    expect(second.err()).toContain(`the workspace ${file}.building is open in another Shelfwright process`);
+    expect(fs.existsSync(`${file}.building`)).toBe(true); // the first build's file is left alone
+    building.send('done');
+    expect(await building.exit).toBe(0);
+  }, 60_000);
+
   it('forget × train: a train whose data an erasure changed waits for it, then saves marked stale and says so', async () => {
     const file = workspace();
     const erasing = holder(file, 'forget', 'C000003');

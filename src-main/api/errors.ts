@@ -1,9 +1,15 @@
 import { z } from 'zod';
-import { BugError, CancelledError, InputError, NotFoundError } from '../core/errors.ts';
+import { BugError, CancelledError, InputError, NotFoundError, WorkspaceBusyError } from '../core/errors.ts';
+import { explainStoreError } from '../store/store-errors.ts';
 import type { ApiError } from './define.ts';
 
-/** Turns any thrown value into the api's error shape; unexpected errors keep their message, never a stack. */
-export function toApiError(e: unknown): ApiError {
+/**
+ * Turns any thrown value into the api's error shape; unexpected errors keep their message, never a stack.
+ * SQLite's own errors (busy, damaged, read-only) are said with `file`, the open workspace, and what to do.
+ */
+export function toApiError(thrown: unknown, file?: string): ApiError {
+  const e = explainStoreError(thrown, file);
+  if (e instanceof WorkspaceBusyError) return { code: 'conflict', message: e.message };
   if (e instanceof InputError) {
     const where = e.where;
     const out: ApiError = { code: 'input', message: e.message };

@@ -15,14 +15,19 @@ export type HandlerTable = { [M in MethodName]: Handler<M> };
 
 /** The one handler table every shell maps its transport onto. Areas contribute their part. */
 export function createHandlerTable(ctx: AppContext): HandlerTable {
-  return {
+  const table: HandlerTable = {
     ...workspaceHandlers(ctx),
     ...jobHandlers(ctx),
     ...dataHandlers(ctx),
     ...curationHandlers(ctx),
     ...modelHandlers(ctx),
   };
+  contexts.set(table, ctx);
+  return table;
 }
+
+/** Each table's context, so an error can name the open workspace's file. */
+const contexts = new WeakMap<HandlerTable, AppContext>();
 
 export interface InvokeOptions {
   /**
@@ -49,7 +54,8 @@ export async function invoke(table: HandlerTable, name: string, payload: unknown
     const res = await handler(req);
     return { ok: true, value: spec.response.parse(res) };
   } catch (e) {
-    return { ok: false, error: toApiError(e) };
+    const ctx = contexts.get(table);
+    return { ok: false, error: toApiError(e, ctx?.isOpen ? ctx.file : undefined) };
   }
 }
 

@@ -48,3 +48,16 @@ export class BugError extends Error {
 export class ModelFitError extends Error {
   override readonly name = 'ModelFitError';
 }
+
+/**
+ * Another process holds the workspace (it is writing, or it has the file open when the whole file would be
+ * replaced). Nothing was changed; the message says who holds it when that is known and what to do.
+ */
+export class WorkspaceBusyError extends Error {
+  override readonly name = 'WorkspaceBusyError';
+  readonly file: string;
+  constructor(message: string, file: string) {
+    super(message);
+    this.file = file;
+  }
+}

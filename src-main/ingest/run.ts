@@ -1,7 +1,8 @@
 import fs from 'node:fs';
-import { BugError, InputError } from '../core/errors.ts';
+import { InputError } from '../core/errors.ts';
 import { CatalogueWriter, logImport, type CustomerWrite, type ItemWrite, type SignalBatch } from '../store/catalogue-writes.ts';
 import type { Db } from '../store/workspace.ts';
+import { beginWriteAsync, endWrite } from '../store/write-lock.ts';
 import { planColumns, type ColumnPlan, type ImportTarget, type Mapping } from './fields.ts';
 import { RejectLog, type RowError } from './rejects.ts';
 import { rowConverter, type Problem } from './rows.ts';
@@ -72,7 +73,7 @@ export const PIPELINE_MIN_BYTES = 64 << 20;
 export async function runImport(db: Db, o: RunOptions): Promise<ImportReport> {
   const started = performance.now();
   const format = formatOf(o.file, o.format);
-  if (db.inTransaction) throw new BugError('another write is in progress on this connection');
+  // Another import of this app on the same connection is waited for in beginWriteAsync (one turn at a time).
   // Signals reference items and customers by row ids this import reads from those very tables inside its
   // own transaction, so every reference is valid by construction; the per-row foreign-key probe cost ~40%
   // of insert time (measured). The pragma is a no-op inside a transaction (SQLite docs, "PRAGMA
@@ -87,20 +88,22 @@ export async function runImport(db: Db, o: RunOptions): Promise<ImportReport> {
 }
 
 async function inTransaction(db: Db, o: RunOptions, format: ImportFormat, started: number): Promise<ImportReport> {
-  db.exec('BEGIN IMMEDIATE');
+  // Another process writing: wait for it without blocking the event loop, say so once, refuse after the busy
+  // timeout (store/write-lock.ts); the note lets a process waiting on us say "an import of signals".
+  await beginWriteAsync(db, { work: `an import of ${o.target}`, acrossAwaits: true });
   try {
     const report = await readAndWrite(db, o, format);
     report.elapsedMs = Math.round(performance.now() - started);
     if (report.rejected > 0 && !o.acceptPartial) {
-      db.exec('ROLLBACK');
+      endWrite(db, false);
       return { ...report, added: 0, updated: 0, unchanged: 0, customersCreated: 0, committed: false };
     }
     report.committed = true;
     logImport(db, o.target, o.file, { ...report, errors: report.errors.slice(0, 10) });
-    db.exec('COMMIT');
+    endWrite(db, true);
     return report;
   } catch (e) {
-    if (db.inTransaction) db.exec('ROLLBACK');
+    endWrite(db, false);
     throw e;
   }
 }

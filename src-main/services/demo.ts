@@ -2,9 +2,11 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { generateDemoShop } from '../../demo-data/generator/index.ts';
-import { BugError, CancelledError, InputError } from '../core/errors.ts';
+import { BugError, CancelledError, InputError, WorkspaceBusyError } from '../core/errors.ts';
+import { workspaceInUse } from '../store/in-use.ts';
 import { replaceRefusal } from '../store/replaceable.ts';
 import { openWorkspace } from '../store/workspace.ts';
+import { describeHolder } from '../store/write-lock.ts';
 import { importFile, type ImportReport } from './import.ts';
 import { trainAndSave, type TrainSummary } from './train/train-job.ts';
 import type { TrainProgress } from './train/train-models.ts';
@@ -52,8 +54,10 @@ export async function buildDemoWorkspace(file: string, options: DemoBuildOptions
     if (options.signal?.aborted) throw new CancelledError('demo build cancelled');
     options.onStep?.(message);
   };
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-demo-'));
   const building = `${file}.building`;
+  // Refused before any work (another build of the same file shows as its `.building` being open) ...
+  refuseDemoTarget(file);
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-demo-'));
   removeWorkspaceFiles(building);
   try {
     step('generating the demo shop');
@@ -80,6 +84,8 @@ export async function buildDemoWorkspace(file: string, options: DemoBuildOptions
     } finally {
       db.close();
     }
+    // ... and again at the last moment, since the build takes a while; nothing is awaited from here to the rename.
+    refuseInUse(file);
     removeWorkspaceFiles(file);
     fs.renameSync(building, file);
     return { file, shop: summary.shop, imports, training, elapsedMs: performance.now() - started };
@@ -95,6 +101,27 @@ export async function buildDemoWorkspace(file: string, options: DemoBuildOptions
 export async function ensureDemoWorkspace(file: string, options: DemoBuildOptions = {}): Promise<DemoBuildReport | null> {
   if (fs.existsSync(file)) return null;
   return buildDemoWorkspace(file, options);
+}
+
+/** Refuses (WorkspaceBusyError) a target that another process has open, or that another build is making. */
+export function refuseDemoTarget(file: string): void {
+  refuseInUse(file);
+  refuseInUse(`${file}.building`);
+}
+
+/**
+ * The demo replaces the whole file: over a workspace another process has open (the app, an import, a
+ * training run), that process would go on writing into the replaced file and lose its work. Refuse instead.
+ */
+function refuseInUse(file: string): void {
+  if (!workspaceInUse(file)) return;
+  const holder = describeHolder(file);
+  throw new WorkspaceBusyError(
+    `the workspace ${file} is open in another Shelfwright process${holder ? ` (${holder})` : ' (the app, an import or a training run)'}; ` +
+      'demo replaces the whole file, which would lose that process\'s work. Nothing was changed. Close it or let it ' +
+      'finish, then run demo again, or build the demo into another file with -w.',
+    file,
+  );
 }
 
 function removeWorkspaceFiles(file: string): void {

@@ -13,6 +13,7 @@
  * of its reach; the README's "Responsible use" says so.
  */
 import { BugError, NotFoundError } from '../core/errors.ts';
+import { refuseWhileAppWrites } from '../store/write-lock.ts';
 import { raiseErasureGeneration, scrubFreedBytes, scrubImportLog } from '../store/erasure.ts';
 import { dataFingerprint, ModelRepo } from '../store/models.ts';
 import type { Db } from '../store/workspace.ts';
@@ -39,25 +40,10 @@ const NAMES: Record<string, string> = { ials: 'iALS', itemknn: 'item-kNN', ease:
 const named = (kinds: string[]) => kinds.map((k) => NAMES[k] ?? k).join(', ');
 
 export function forgetCustomer(db: Db, externalId: string): ForgetReport {
+  refuseWhileAppWrites(db); // this app's import still writing: busy, not a bug
   // VACUUM cannot run inside a transaction; a caller that wraps this in one is a bug, not user input.
   if (db.inTransaction) throw new BugError('forgetCustomer must not run inside a transaction');
-  const erased = db.transaction(() => {
-    const row = db.prepare('SELECT id FROM customer WHERE external_id = ?').get(externalId) as { id: number } | undefined;
-    if (!row) throw new NotFoundError(`no customer with id '${externalId}'`);
-    const signals = db.prepare('DELETE FROM signal WHERE customer_id = ?').run(row.id).changes;
-    db.prepare('DELETE FROM customer WHERE id = ?').run(row.id);
-    const list = PER_CUSTOMER_KINDS.map(() => '?').join(',');
-    const kinds = db.prepare(`SELECT DISTINCT kind FROM model WHERE kind IN (${list})`).pluck().all(...PER_CUSTOMER_KINDS) as string[];
-    db.prepare(`DELETE FROM model WHERE kind IN (${list})`).run(...PER_CUSTOMER_KINDS);
-    const importLogScrubbed = scrubImportLog(db, externalId);
-    raiseErasureGeneration(db);
-    const now = dataFingerprint(db);
-    const stale = new ModelRepo(db)
-      .list()
-      .filter((m) => m.current && m.fingerprint !== now)
-      .map((m) => m.kind);
-    return { signals, modelsDeleted: kinds.sort(), modelsStale: stale.sort(), importLogScrubbed };
-  })();
+  const erased = db.transaction(() => eraseCustomerRows(db, externalId))();
   // The erasure has committed; a scrub that fails (a full disk) stays pending (store/erasure.ts) and is said so.
   let lingering: string | null;
   try {
@@ -68,6 +54,29 @@ export function forgetCustomer(db: Db, externalId: string): ForgetReport {
     lingering = `the file could not be rewritten (${(e as Error).message}), so the erased rows may linger in its free space until it is next opened`;
   }
   return { customer: externalId, ...erased, bytesRemoved: lingering === null, message: describe(externalId, erased, lingering) };
+}
+
+/**
+ * The transactional part of an erasure: the customer's signals and row, per-customer models, the import log's
+ * mentions and the erasure generation. Runs inside the caller's write transaction; `forgetCustomer` wraps it
+ * in one and then scrubs the freed bytes, which must happen after the commit.
+ */
+export function eraseCustomerRows(db: Db, externalId: string): Omit<ForgetReport, 'customer' | 'bytesRemoved' | 'message'> {
+  const row = db.prepare('SELECT id FROM customer WHERE external_id = ?').get(externalId) as { id: number } | undefined;
+  if (!row) throw new NotFoundError(`no customer with id '${externalId}'`);
+  const signals = db.prepare('DELETE FROM signal WHERE customer_id = ?').run(row.id).changes;
+  db.prepare('DELETE FROM customer WHERE id = ?').run(row.id);
+  const list = PER_CUSTOMER_KINDS.map(() => '?').join(',');
+  const kinds = db.prepare(`SELECT DISTINCT kind FROM model WHERE kind IN (${list})`).pluck().all(...PER_CUSTOMER_KINDS) as string[];
+  db.prepare(`DELETE FROM model WHERE kind IN (${list})`).run(...PER_CUSTOMER_KINDS);
+  const importLogScrubbed = scrubImportLog(db, externalId);
+  raiseErasureGeneration(db);
+  const now = dataFingerprint(db);
+  const stale = new ModelRepo(db)
+    .list()
+    .filter((m) => m.current && m.fingerprint !== now)
+    .map((m) => m.kind);
+  return { signals, modelsDeleted: kinds.sort(), modelsStale: stale.sort(), importLogScrubbed };
 }
 
 function describe(customer: string, r: { signals: number; modelsDeleted: string[]; modelsStale: string[] }, lingering: string | null): string {

@@ -11,6 +11,7 @@ import { fileURLToPath } from 'node:url';
 import { InputError } from '../core/errors.ts';
 import { createHandlerTable } from '../api/handler-table.ts';
 import { AppContext } from '../services/context.ts';
+import { APP_BLOCKING_WAIT_MS } from '../store/workspace.ts';
 import { parseStartArgs, type StartArgs } from './launch/args.ts';
 import { chromiumAppArgs, findChromium } from './launch/browser.ts';
 import { ensureDemo } from './launch/demo.ts';
@@ -47,7 +48,8 @@ function launchElectron(binary: string, workspace: string): void {
 }
 
 async function launchWeb(args: StartArgs, workspace: string): Promise<void> {
-  const ctx = new AppContext();
+  // A synchronous write waiting for another process blocks the page's every request: kept short here.
+  const ctx = new AppContext({ blockingWaitMs: APP_BLOCKING_WAIT_MS });
   ctx.open(workspace, { create: true });
   // Files the page streams to POST /upload land in the context's store; ctx.close() removes them.
   const shell = await startWebShell({ table: createHandlerTable(ctx), uploads: ctx.uploads, staticDir: RENDERER_DIST, port: args.port });

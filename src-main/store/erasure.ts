@@ -38,15 +38,20 @@ export function raiseErasureGeneration(db: Db): number {
 export function saveUnlessErasedSince<T>(db: Db, readAt: number, what: string, save: () => T): T {
   return db
     .transaction(() => {
-      if (erasureGeneration(db) !== readAt) {
-        throw new ErasedSinceReadError(
-          `a customer was erased (forget) while ${what} ran, after it had read the data: nothing was saved, ` +
-            `since the result was built from the erased person's data. Run it again.`,
-        );
-      }
+      assertNotErasedSince(db, readAt, what);
       return save();
     })
     .immediate();
+}
+
+/** Throws ErasedSinceReadError when an erasure happened since generation `readAt`; call it inside the saving write transaction. */
+export function assertNotErasedSince(db: Db, readAt: number, what: string): void {
+  if (erasureGeneration(db) !== readAt) {
+    throw new ErasedSinceReadError(
+      `a customer was erased (forget) while ${what} ran, after it had read the data: nothing was saved, ` +
+        `since the result was built from the erased person's data. Run it again.`,
+    );
+  }
 }
 
 export interface ScrubReport {

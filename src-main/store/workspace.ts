@@ -5,6 +5,9 @@ import { InputError } from '../core/errors.ts';
 import { scrubIfPending } from './erasure.ts';
 import { MIGRATIONS } from './migrations/index.ts';
 import type { Migration } from './migrations/types.ts';
+import { openForReading, writable } from './read-only.ts';
+import { damaged } from './store-errors.ts';
+import { busyTimeoutMs, immediateTransactions, setBlockingWait, setWaitListener, type WaitListener } from './write-lock.ts';
 
 export type Db = Database.Database;
 
@@ -17,7 +20,14 @@ export interface OpenOptions {
   migrations?: readonly Migration[];
   /** Path of a better-sqlite3 native binding built for another ABI (Electron). */
   nativeBinding?: string;
+  /** Told once per write that has to wait for another process (store/write-lock.ts). */
+  onWait?: WaitListener;
+  /** At most this long a synchronous write blocks the process waiting for another one (apps: APP_BLOCKING_WAIT_MS). */
+  blockingWaitMs?: number;
 }
+
+/** What an app (web shell, Electron) lets a synchronous write block it: the busy timeout SQLite had here before. */
+export const APP_BLOCKING_WAIT_MS = 5000;
 
 export const SCHEMA_VERSION = MIGRATIONS.length;
 
@@ -34,28 +44,32 @@ export function openWorkspace(file: string, options: OpenOptions = {}): Db {
     throw new InputError(`no workspace at ${file}`, { file });
   }
   if (!exists) createPrivateFile(file);
-  const dbOptions: Database.Options = { readonly: options.readonly ?? false, fileMustExist: exists };
+  // A file (or folder) we may not write opens for reading: reading a catalogue needs no write permission.
+  const readonly = (options.readonly ?? false) || (exists && !writable(file));
+  const dbOptions: Database.Options = { readonly, fileMustExist: exists };
   if (options.nativeBinding) dbOptions.nativeBinding = options.nativeBinding;
   let db: Db;
   try {
-    db = new Database(file, dbOptions);
+    db = readonly ? openForReading(file, dbOptions) : new Database(file, dbOptions);
   } catch (e) {
     throw new InputError(`cannot open workspace: ${(e as Error).message}`, { file });
   }
   try {
     db.pragma('foreign_keys = ON');
-    db.pragma('busy_timeout = 5000');
+    db.pragma(`busy_timeout = ${Math.min(busyTimeoutMs(), options.blockingWaitMs ?? Infinity)}`);
     // Before anything is written (switching to WAL rewrites the header): a file that is not ours keeps its bytes.
     checkIsWorkspace(db, file);
-    if (!options.readonly) {
+    if (!readonly) {
       db.pragma('journal_mode = WAL');
       db.pragma('synchronous = NORMAL');
       // Deleted content is overwritten with zeros, not left in free space (SQLite "PRAGMA secure_delete"):
       // part of erasing a customer (services/forget.ts). A per-connection setting, so set on every open.
       db.pragma('secure_delete = ON');
-    }
-    if (!options.readonly) migrate(db, migrations);
-    else {
+      immediateTransactions(db);
+      setWaitListener(db, options.onWait);
+      setBlockingWait(db, options.blockingWaitMs);
+      migrate(db, migrations);
+    } else {
       const v = userVersion(db);
       if (v !== migrations.length) {
         throw new InputError(`workspace is at schema ${v}, expected ${migrations.length}; open it once for writing`, {
@@ -66,12 +80,14 @@ export function openWorkspace(file: string, options: OpenOptions = {}): Db {
   } catch (e) {
     db.close();
     // SQLite notices a file that is not a database only on its first read (here, the first pragma).
-    if ((e as { code?: string }).code === 'SQLITE_NOTADB') {
+    const code = (e as { code?: string }).code;
+    if (code === 'SQLITE_NOTADB') {
       throw new InputError('not a workspace file (not an SQLite database)', { file });
     }
+    if (code?.startsWith('SQLITE_CORRUPT')) throw damaged(e as Error, file);
     throw e;
   }
-  if (!options.readonly) {
+  if (!readonly) {
     makePrivate(file); // only now that it is known to be a workspace: another program's file keeps its mode
     // An erasure whose freed bytes a reader held in the log last time is finished now (store/erasure.ts).
     if (migrations.length >= MIGRATIONS.length) scrubIfPending(db);
@@ -125,7 +141,8 @@ function checkIsWorkspace(db: Db, file: string): void {
   let tables: { name: string }[];
   try {
     tables = db.prepare("SELECT name FROM sqlite_master WHERE type = 'table'").all() as { name: string }[];
-  } catch {
+  } catch (e) {
+    if ((e as { code?: string }).code?.startsWith('SQLITE_CORRUPT')) throw damaged(e as Error, file);
     throw new InputError('not a workspace file (not an SQLite database)', { file });
   }
   const ours = WORKSPACE_TABLES.every((t) => tables.some((x) => x.name === t));

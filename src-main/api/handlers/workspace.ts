@@ -17,8 +17,10 @@ export function workspaceHandlers(ctx: AppContext): {
     'workspace.demo': (req) => {
       checkDemoTarget(req.file); // refused now, as an input error, rather than as a failed job later
       return ctx.jobs.start('demo', async (report, signal) => {
-        // The file is replaced whole; a connection to the old one must not outlive it.
-        if (ctx.isOpen && ctx.file === req.file) ctx.close();
+        // The file is replaced whole; a connection to the old one must not outlive it. If the build is
+        // refused (another process has the file open) or fails, the app gets its workspace back.
+        const reopen = ctx.isOpen && ctx.file === req.file;
+        if (reopen) ctx.close();
         let fraction = 0;
         const built = await buildDemoWorkspace(req.file, {
           ...(req.seed !== undefined && { seed: req.seed }),
@@ -33,6 +35,9 @@ export function workspaceHandlers(ctx: AppContext): {
               ...(p.iteration !== undefined && { iteration: p.iteration }),
               ...(p.iterations !== undefined && { iterations: p.iterations }),
             }),
+        }).catch((e: unknown) => {
+          if (reopen && !ctx.isOpen) ctx.open(req.file, { create: false });
+          throw e;
         });
         ctx.open(req.file, { create: false });
         const rows = built.imports.map((r) => `${r.added} ${r.target}`).join(', ');

@@ -1,10 +1,11 @@
 import { plural } from '../../core/util/plural.ts';
 import { CancelledError } from '../../core/errors.ts';
 import type { ModelKind } from '../../core/models/scorer.ts';
-import { saveUnlessErasedSince, scrubIfPending } from '../../store/erasure.ts';
-import { ModelRepo } from '../../store/models.ts';
+import { scrubIfPending } from '../../store/erasure.ts';
 import type { JobBody } from '../jobs.ts';
 import type { Db } from '../../store/workspace.ts';
+import { waitingLine, type WaitListener } from '../../store/write-lock.ts';
+import { saveRun, STALE_NOTE } from './save-run.ts';
 import { runWorkerTask, siblingModule } from './worker-task.ts';
 import type { TrainOptions, TrainOutput, TrainProgress } from './train-models.ts';
 import type { TrainWorkerData } from './train-worker.ts';
@@ -15,6 +16,8 @@ export interface TrainHooks {
   signal?: AbortSignal;
   /** better-sqlite3 binding for another ABI (Electron), passed to the thread's own connection. */
   nativeBinding?: string;
+  /** Told when saving has to wait for another process's write (default: the connection's listener). */
+  onWait?: WaitListener;
 }
 
 
@@ -38,6 +41,8 @@ export interface TrainSummary {
   fingerprint: string;
   elapsedMs: number;
   notes: string[];
+  /** The data changed while training: the models were saved all the same and read as stale. */
+  stale: boolean;
 }
 
 /**
@@ -59,9 +64,12 @@ export async function trainAndSave(
     scrubIfPending(db);
   }
   if (hooks.signal?.aborted) throw new CancelledError('training cancelled');
-  const repo = new ModelRepo(db, hooks.keepHistory ?? 1);
-  const ids = saveUnlessErasedSince(db, out.erasureGeneration, 'training', () => repo.saveAll(out.records));
-  return { ids, models: out.records.map((r) => r.kind), fingerprint: out.fingerprint, elapsedMs: out.elapsedMs, notes: out.notes };
+  const { ids, stale } = await saveRun(db, out.records, out.fingerprint, out.erasureGeneration, {
+    ...(hooks.keepHistory !== undefined && { keepHistory: hooks.keepHistory }),
+    ...(hooks.signal && { signal: hooks.signal }),
+    ...(hooks.onWait && { onWait: hooks.onWait }),
+  });
+  return { ids, models: out.records.map((r) => r.kind), fingerprint: out.fingerprint, elapsedMs: out.elapsedMs, notes: out.notes, stale };
 }
 
 /**
@@ -70,8 +78,9 @@ export async function trainAndSave(
  */
 export function trainJob(db: Db, file: string, options: TrainOptions = {}, hooks: Omit<TrainHooks, 'signal' | 'onProgress'> = {}): JobBody {
   return async (report, signal) => {
-    const s = await trainAndSave(db, file, options, { ...hooks, onProgress: report, signal });
-    const notes = s.notes.length ? ` (${s.notes.length} notes)` : '';
-    return `trained ${plural(s.models.length, 'model')} in ${(s.elapsedMs / 1000).toFixed(1)} s${notes}`;
+    const onWait = (holder: string) => report({ stage: waitingLine(holder), fraction: 1 });
+    const s = await trainAndSave(db, file, options, { ...hooks, onProgress: report, signal, onWait });
+    const notes = s.notes.length ? ` (${plural(s.notes.length, 'note')})` : '';
+    return `trained ${plural(s.models.length, 'model')} in ${(s.elapsedMs / 1000).toFixed(1)} s${notes}${s.stale ? `; ${STALE_NOTE}` : ''}`;
   };
 }

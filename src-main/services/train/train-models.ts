@@ -103,11 +103,12 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
   let fingerprint = '';
   let generation = 0;
   let ds: Dataset | undefined;
+  // A read transaction (deferred): it must not take the write lock when the connection can write.
   db.transaction(() => {
     generation = erasureGeneration(db);
     fingerprint = dataFingerprint(db);
     ds = loadDataset(db);
-  })();
+  }).deferred();
   const data = ds!;
   lap('load');
   doneShare += WEIGHT.load;

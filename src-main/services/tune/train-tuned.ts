@@ -12,6 +12,8 @@ import { CancelledError } from '../../core/errors.ts';
 import { ModelRepo } from '../../store/models.ts';
 import type { Db } from '../../store/workspace.ts';
 import type { JobBody } from '../jobs.ts';
+import { waitingLine } from '../../store/write-lock.ts';
+import { STALE_NOTE } from '../train/save-run.ts';
 import { trainAndSave, type TrainSummary } from '../train/train-job.ts';
 import type { TrainOptions } from '../train/train-models.ts';
 import { fixedParams } from './grid.ts';
@@ -61,6 +63,7 @@ export async function tuneAndTrain(
   const summary = await trainAndSave(db, file, { ...options, params }, {
     signal,
     onProgress: (p) => report({ ...p, fraction: TUNE_SHARE + (1 - TUNE_SHARE) * p.fraction }),
+    onWait: (holder) => report({ stage: waitingLine(holder), fraction: 1 }),
   });
   storeTuning(db, summary, tuning);
   return { summary, tuning };
@@ -99,6 +102,6 @@ export function tunedSummary(summary: Pick<TrainSummary, 'models' | 'elapsedMs'>
 export function tunedTrainJob(db: Db, file: string, options: TrainOptions, tune: Omit<TuneOptions, 'signal' | 'onProgress'> = {}): JobBody {
   return async (report, signal) => {
     const { summary, tuning } = await tuneAndTrain(db, file, options, tune, report, signal);
-    return tunedSummary(summary, tuning);
+    return `${tunedSummary(summary, tuning)}${summary.stale ? `; ${STALE_NOTE}` : ''}`;
   };
 }

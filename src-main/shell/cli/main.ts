@@ -2,8 +2,10 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { parseArgs } from 'node:util';
 import { createHandlerTable, type HandlerTable } from '../../api/handler-table.ts';
-import { InputError } from '../../core/errors.ts';
+import { InputError, WorkspaceBusyError } from '../../core/errors.ts';
 import { AppContext } from '../../services/context.ts';
+import { explainStoreError } from '../../store/store-errors.ts';
+import { waitingLine } from '../../store/write-lock.ts';
 import { CliApiError } from './call.ts';
 import { EXIT, UsageError, type CliCommand, type CliIo, type CommandEnv, type OptionSpec } from './command.ts';
 
@@ -126,7 +128,13 @@ export async function main(argv: string[], io: CliIo, env: NodeJS.ProcessEnv = p
     return EXIT.ok;
   }
   const workspace = (values['workspace'] as string | undefined) ?? env['SHELFWRIGHT_WORKSPACE'] ?? DEFAULT_WORKSPACE;
-  const ctx = new AppContext();
+  // A write that must wait for another process says so on stderr, once per command (stdout stays the result).
+  let waited = false;
+  const onWait = (holder: string) => {
+    if (!waited) io.err(waitingLine(holder));
+    waited = true;
+  };
+  const ctx = new AppContext({ onWait });
   let table: HandlerTable | undefined;
   const cenv: CommandEnv = {
     values,
@@ -145,12 +153,16 @@ export async function main(argv: string[], io: CliIo, env: NodeJS.ProcessEnv = p
   };
   try {
     return await command.run(cenv);
-  } catch (e) {
+  } catch (thrown) {
+    const e = explainStoreError(thrown, workspace);
     if (e instanceof UsageError) {
       return fail(EXIT.usage, `shelfwright ${command.name}: ${e.message}\nRun 'shelfwright ${command.name} --help'.`, { message: e.message });
     }
     if (e instanceof InputError) {
       return fail(EXIT.data, `shelfwright ${command.name}: ${e.describe()}`, { message: e.message, ...(Object.keys(e.where).length > 0 && { where: e.where }) });
+    }
+    if (e instanceof WorkspaceBusyError) {
+      return fail(EXIT.data, `shelfwright ${command.name}: ${e.message}`, { code: 'conflict', message: e.message });
     }
     if (e instanceof CliApiError) {
       const { code, message, where } = e.error;

@@ -7,6 +7,7 @@ import path from 'node:path';
 import { app, dialog, ipcMain, Menu, protocol, type BrowserWindow } from 'electron';
 import { createHandlerTable, invoke } from '../../api/handler-table.ts';
 import { AppContext } from '../../services/context.ts';
+import { APP_BLOCKING_WAIT_MS } from '../../store/workspace.ts';
 import { APP_ORIGIN, INVOKE_CHANNEL, MENU_EVENT, type MenuCommand } from './channel.ts';
 import { buildMenuTemplate } from './menu.ts';
 import { electronNativeBinding } from './native-binding.ts';
@@ -29,7 +30,8 @@ if (!app.requestSingleInstanceLock()) {
   app.quit();
 } else {
   const binding = electronNativeBinding(appRoot);
-  const ctx = new AppContext(binding ? { nativeBinding: binding } : {});
+  // A synchronous write waiting for another process blocks the window's every request: kept short here.
+  const ctx = new AppContext({ blockingWaitMs: APP_BLOCKING_WAIT_MS, ...(binding && { nativeBinding: binding }) });
   const table = createHandlerTable(ctx);
   const recentFile = () => path.join(app.getPath('userData'), 'recent.json');
   let win: BrowserWindow | null = null;

@@ -1,4 +1,5 @@
 import type { ImportReport } from '../../../api/contracts/data.ts';
+import { refuseDemoTarget } from '../../../services/demo.ts';
 import { call } from '../call.ts';
 import { followJob } from '../follow-job.ts';
 import { EXIT, UsageError, type CliCommand } from '../command.ts';
@@ -156,6 +157,8 @@ export const demoCommand: CliCommand = {
     const seedText = env.values['seed'] as string | undefined;
     const seed = seedText === undefined ? undefined : Number(seedText);
     if (seed !== undefined && !(Number.isInteger(seed) && seed >= 0)) throw new UsageError('--seed is a whole number >= 0');
+    // Said before the job starts, so the refusal is a plain data error (code conflict), not a failed job.
+    refuseDemoTarget(env.workspace);
     const { table: api } = env.api({ detached: true });
     const job = await call(api, 'workspace.demo', {
       file: env.workspace,

@@ -8,8 +8,8 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 
+/** The checkout this harness lives in (the reference and the metric cross-check come from here). */
 export const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
-const BIN = path.join(ROOT, 'bin', 'shelfwright.js');
 
 export interface Finished {
   code: number;
@@ -39,9 +39,12 @@ export function run(cmd: string, args: string[], o: { log?: string; env?: NodeJS
   });
 }
 
-/** `shelfwright <args> -w workspace --json`, its JSON answer parsed; a failure stops the benchmark with the CLI's own message. */
-export async function cli<T>(workspace: string, args: string[], log?: string): Promise<{ body: T; ms: number }> {
-  const r = await run(process.execPath, [BIN, ...args, '-w', workspace, '--json'], log ? { log } : {});
+/**
+ * `shelfwright <args> -w workspace --json` of the checkout at `root` (another worktree can be measured with
+ * this harness), its JSON answer parsed; a failure stops the benchmark with the CLI's own message.
+ */
+export async function cli<T>(root: string, workspace: string, args: string[], log?: string): Promise<{ body: T; ms: number }> {
+  const r = await run(process.execPath, [path.join(root, 'bin', 'shelfwright.js'), ...args, '-w', workspace, '--json'], log ? { log } : {});
   if (r.code !== 0) throw new Error(`shelfwright ${args.join(' ')} failed (exit ${r.code}): ${r.stdout.slice(0, 2000)} ${r.stderr.slice(-2000)}`);
   return { body: JSON.parse(r.stdout) as T, ms: r.ms };
 }

@@ -12,7 +12,8 @@
  *
  * Options: --data DIR (default $SHELFWRIGHT_QUALITY_DATA, else /work/data/online-retail/shelfwright),
  * --k K (default 20), --skip-reference, --skip-plain, --skip-tuned, --quick (the reference's small grids),
- * --keep (keep the temporary workspaces and print where they are).
+ * --keep (keep the temporary workspaces and print where they are), --root DIR (measure the `shelfwright` of another
+ * checkout, e.g. a teammate's worktree, with this harness; results go to DIR/bench/out).
  */
 import fs from 'node:fs';
 import os from 'node:os';
@@ -29,7 +30,9 @@ const option = (name: string): string | undefined => {
 };
 const k = Number(option('k') ?? 20);
 const data = path.resolve(option('data') ?? process.env.SHELFWRIGHT_QUALITY_DATA ?? '/work/data/online-retail/shelfwright');
-const out = path.join(ROOT, 'bench', 'out');
+/** The checkout whose `shelfwright` is measured (default this one); results go to its bench/out. */
+const root = path.resolve(option('root') ?? ROOT);
+const out = path.join(root, 'bench', 'out');
 
 for (const f of ['items.csv', 'train.csv', 'test.csv']) {
   if (!fs.existsSync(path.join(data, f))) {
@@ -40,7 +43,7 @@ for (const f of ['items.csv', 'train.csv', 'test.csv']) {
 fs.mkdirSync(out, { recursive: true });
 const tmp = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-quality-'));
 const say = (s: string) => console.log(`[${new Date().toISOString().slice(11, 19)}] ${s}`);
-say(`data ${data}; K = ${k}; load average ${os.loadavg().map((x) => x.toFixed(1)).join(' ')} on ${os.availableParallelism()} cores`);
+say(`measuring ${root}; data ${data}; K = ${k}; load average ${os.loadavg().map((x) => x.toFixed(1)).join(' ')} on ${os.availableParallelism()} cores`);
 
 interface HoldoutAnswer {
   customers: number;
@@ -56,9 +59,9 @@ async function ours(mode: 'tuned' | 'plain', base: string) {
   const ws = path.join(tmp, `${mode}.sqlite`);
   fs.copyFileSync(base, ws);
   const trainArgs = mode === 'tuned' ? ['train', '--tune', '--k', String(k)] : ['train'];
-  const trained = await cli<TrainAnswer>(ws, trainArgs, path.join(out, `train-${mode}.log`));
+  const trained = await cli<TrainAnswer>(root, ws, trainArgs, path.join(out, `train-${mode}.log`));
   say(`ours, ${trainArgs.join(' ')}: ${(trained.ms / 1000).toFixed(1)} s`);
-  const evaluated = await cli<HoldoutAnswer>(ws, ['evaluate', '--holdout', path.join(data, 'test.csv'), '--k', String(k)]);
+  const evaluated = await cli<HoldoutAnswer>(root, ws, ['evaluate', '--holdout', path.join(data, 'test.csv'), '--k', String(k)]);
   const metrics: Record<string, Metrics> = {};
   for (const m of evaluated.body.models) metrics[m.model] = { ndcg: m.ndcg, recall: m.recall };
   const params = Object.fromEntries(trained.body.models.map((m) => [m.kind, m.params]));
@@ -86,8 +89,8 @@ async function main() {
   // The reference runs beside our side (quality, not speed, is measured here).
   const refRun = flag('skip-reference') ? Promise.resolve(null) : reference();
   const base = path.join(tmp, 'imported.sqlite');
-  const items = await cli<{ added: number }>(base, ['import', 'items', path.join(data, 'items.csv')]);
-  const signals = await cli<{ added: number; customersCreated: number }>(base, ['import', 'signals', path.join(data, 'train.csv'), '--create-customers']);
+  const items = await cli<{ added: number }>(root, base, ['import', 'items', path.join(data, 'items.csv')]);
+  const signals = await cli<{ added: number; customersCreated: number }>(root, base, ['import', 'signals', path.join(data, 'train.csv'), '--create-customers']);
   say(`imported ${items.body.added} items, ${signals.body.added} signals, ${signals.body.customersCreated} customers (${((items.ms + signals.ms) / 1000).toFixed(1)} s)`);
   const plain = flag('skip-plain') ? null : await ours('plain', base);
   const tuned = flag('skip-tuned') ? null : await ours('tuned', base);
@@ -100,7 +103,7 @@ async function main() {
     reference: ref ? Object.fromEntries(Object.entries(ref.report.models).map(([m, v]) => [m, { ndcg: v.ndcg, recall: v.recall }])) : null,
   });
   const lines = [
-    `Quality on UCI Online Retail (CC BY 4.0), ${data}`,
+    `Quality on UCI Online Retail (CC BY 4.0), ${data}; measured: ${root}`,
     `test: ${tuned?.customers ?? plain?.customers ?? '?'} customers, ${tuned?.pairs ?? plain?.pairs ?? '?'} held-out pairs; K = ${k}; items bought in training are not ranked`,
     `machine: ${os.availableParallelism()} cores, load average ${os.loadavg().map((x) => x.toFixed(1)).join(' ')} at the end`,
     '',

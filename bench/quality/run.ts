@@ -13,7 +13,8 @@
  * Options: --data DIR (default $SHELFWRIGHT_QUALITY_DATA, else /work/data/online-retail/shelfwright),
  * --k K (default 20), --skip-reference, --skip-plain, --skip-tuned, --quick (the reference's small grids),
  * --keep (keep the temporary workspaces and print where they are), --root DIR (measure the `shelfwright` of another
- * checkout, e.g. a teammate's worktree, with this harness; results go to DIR/bench/out).
+ * checkout, e.g. a teammate's worktree, with this harness; results go to DIR/bench/out), --reference-from DIR
+ * (reuse reference.json and reference-lists.json of an earlier run instead of running the reference again).
  */
 import fs from 'node:fs';
 import os from 'node:os';
@@ -68,7 +69,16 @@ async function ours(mode: 'tuned' | 'plain', base: string) {
   return { metrics, params, trainSeconds: trained.ms / 1000, customers: evaluated.body.customers, pairs: evaluated.body.pairs, weightsFrom: evaluated.body.weightsFrom };
 }
 
+/** A reference run kept from before (its report and ranked lists): it changes only when the split does. */
+function keptReference(dir: string) {
+  const read = (f: string): unknown => JSON.parse(fs.readFileSync(path.join(dir, f), 'utf8'));
+  say(`reference: kept from ${dir}`);
+  return { report: read('reference.json') as { models: Record<string, Metrics & { params: unknown }> }, lists: read('reference-lists.json') as ReferenceLists };
+}
+
 async function reference() {
+  const kept = option('reference-from');
+  if (kept) return keptReference(path.resolve(kept));
   const py = await findPython();
   if ('missing' in py) {
     say(`reference skipped: ${py.missing}`);

@@ -54,10 +54,12 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
   await expect(slot(2).getByText('Pinned', { exact: true })).toBeVisible();
 
   // What-if: pointing at a candidate, or focusing it by keyboard, shows on the meter what it would change.
+  // The pool shows no candidates for slot 5 until they are ranked for it (whatif-slice), so the first row
+  // read below is slot 5's.
   await page.getByLabel('For slot').selectOption('5');
   const pool = page.getByRole('list', { name: 'Candidates for this slot' });
   const first = pool.getByRole('listitem').first();
-  await expect(first).toBeVisible();
+  await expect(first.getByRole('button', { name: /into slot 5$/ })).toBeVisible();
   const candidate = (await first.locator('.slot-title').innerText()).trim();
   const meterPanel = page.getByLabel('Shelf meter');
   const whatif = await invoke(createHandlerTable(app.ctx), 'shelf.whatif', { edition: 'Week 49', shelf: 'Homepage row', slot: 5, n: 200 });
@@ -77,11 +79,19 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
   await expect(slot(5).getByText('Pinned', { exact: true })).toBeVisible();
 
   // Reordering by keyboard alone: Space lifts, ArrowDown moves, Space drops (dnd-kit KeyboardSensor).
+  // A move can start only once the pin and the edition re-read after it are in (the handle's aria-disabled).
   const third = (await slot(3).locator('.slot-title').innerText()).replace(/\s*(Sponsored|Pinned)\s*/g, '').trim();
-  await slot(3).getByRole('button', { name: /^Move / }).focus();
+  const handle = slot(3).getByRole('button', { name: /^Move / });
+  await expect(handle).toHaveAttribute('aria-disabled', 'false');
+  await handle.focus();
   const announcer = page.locator('[id^=DndLiveRegion]');
   await page.keyboard.press('Space');
   await expect(announcer).toContainText(`${third} is over slot 3.`);
+  // dnd-kit's KeyboardSensor starts listening for the arrows in a setTimeout(0) after the lift
+  // (@dnd-kit/core KeyboardSensor.attach), and Chromium runs input ahead of timers: on a busy machine an
+  // arrow sent now can arrive before that listener and be lost. Timers run in the order they were set (HTML
+  // "timer initialisation steps"), so once a timer set now has fired, the sensor is listening.
+  await page.evaluate(() => new Promise<void>((resolve) => setTimeout(resolve, 0)));
   await page.keyboard.press('ArrowDown');
   await expect(announcer).toContainText(`${third} is over slot 4.`);
   await page.keyboard.press('Space');
@@ -111,6 +121,16 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
 });
 
 test('history compares a new edition copied from the published one', async ({ page, app }) => {
+  // Its own published edition, made through the api: the screens that make one are the test above's job.
+  const handlers = createHandlerTable(app.ctx);
+  const api = async (method: string, payload: unknown) => {
+    const r = await invoke(handlers, method, payload);
+    if (!r.ok) throw new Error(`${method}: ${r.error.message}`);
+  };
+  await api('edition.new', { label: 'Week 49', date: '2026-12-07' });
+  await api('shelf.add', { edition: 'Week 49', label: 'Homepage row', brief: { size: 6 } });
+  await api('shelf.add', { edition: 'Week 49', label: 'Newsletter block', brief: { size: 4 } });
+  await api('edition.publish', { edition: 'Week 49' });
   await page.goto(app.shell.pageUrl);
   await page.getByRole('button', { name: 'Editions' }).click();
   await page.getByLabel('Name').fill('Week 50');

@@ -35,28 +35,26 @@ export interface App {
 }
 
 /**
- * A fresh temp workspace holding the small invented shop (seed.ts) and a web shell on a random port, once
- * per worker. Tests that change it use labels of their own, so the order of files does not matter.
+ * A fresh temp workspace holding the small invented shop (seed.ts) and a web shell on a random port, for each
+ * test: no test sees another's editions or models, so any order, `--repeat-each` and one spec alone all pass.
+ * Seeding 12 items and starting the shell takes milliseconds, far less than sharing costs in flaky reruns.
  */
-export const test = base.extend<object, { app: App }>({
-  app: [
-    // eslint-disable-next-line no-empty-pattern -- Playwright reads a fixture's dependencies from this pattern; it has none
-    async ({}, use) => {
-      ensureBuilt();
-      const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-e2e-'));
-      const workspace = path.join(dir, 'e2e.sqlite');
-      const ctx = new AppContext();
-      ctx.open(workspace, { create: true });
-      seedSmallShop(ctx.db);
-      const startedAt = performance.now();
-      const shell = await startWebShell({ table: createHandlerTable(ctx), uploads: ctx.uploads, staticDir: DIST });
-      await use({ shell, ctx, dir, workspace, startedAt });
-      await shell.close();
-      ctx.close();
-      fs.rmSync(dir, { recursive: true, force: true });
-    },
-    { scope: 'worker' },
-  ],
+export const test = base.extend<{ app: App }>({
+  // eslint-disable-next-line no-empty-pattern -- Playwright reads a fixture's dependencies from this pattern; it has none
+  app: async ({}, use) => {
+    ensureBuilt();
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-e2e-'));
+    const workspace = path.join(dir, 'e2e.sqlite');
+    const ctx = new AppContext();
+    ctx.open(workspace, { create: true });
+    seedSmallShop(ctx.db);
+    const startedAt = performance.now();
+    const shell = await startWebShell({ table: createHandlerTable(ctx), uploads: ctx.uploads, staticDir: DIST });
+    await use({ shell, ctx, dir, workspace, startedAt });
+    await shell.close();
+    ctx.close();
+    fs.rmSync(dir, { recursive: true, force: true });
+  },
 });
 
 export { expect } from '@playwright/test';

@@ -180,7 +180,8 @@ async function editShelf(page: Page, o: JourneyOptions): Promise<void> {
   // propose reports 0–100 percentiles; the screen shows them on the same "top N%" scale as the slots.
   await expect(proposals.getByRole('listitem').first()).toContainText(/top \d+% of pool/);
   await anchors.getByLabel('Pin a proposal into slot').selectOption('8');
-  const pick = proposals.getByRole('button', { name: /^Pin / }).first();
+  // The buttons name the chosen slot: read a label only once it says slot 8.
+  const pick = proposals.getByRole('button', { name: /^Pin .* into slot 8$/ }).first();
   const picked = ((await pick.getAttribute('aria-label')) ?? '').replace(/^Pin | into slot 8$/g, '');
   await pick.click();
   await expect(slot(8).locator('.slot-title')).toContainText(picked);

@@ -28,6 +28,9 @@ const test = base.extend<{ own: { shell: WebShell; ctx: AppContext; dir: string 
 });
 
 test('a signal file too big for an api call is streamed ahead, previewed and imported from the page', async ({ page, own }) => {
+  // Legitimately long: writing, streaming, previewing and importing ~25 MB (about 600,000 rows) takes well
+  // over a minute when other work holds both cores. The budget covers the two waits below (60 s + 120 s).
+  test.setTimeout(240_000);
   // Unique (customer, item, kind, time) rows for the small shop, just over the in-call limit.
   const file = path.join(own.dir, 'big-clicks.csv');
   const out = fs.openSync(file, 'w');

@@ -28,13 +28,16 @@ export function ExplanationBars({ contributions }: { contributions: Record<strin
 interface RowProps {
   slot: Slot;
   readOnly: boolean;
+  /** An action is in flight: no move may start until its result is shown (a move names slots by position). */
+  busy: boolean;
   onAct(action: ShelfAction): void;
 }
 
-function SlotRow({ slot, readOnly, onAct }: RowProps) {
+function SlotRow({ slot, readOnly, busy, onAct }: RowProps) {
+  // Busy only disables the sortable (aria-disabled on the handle), not the button, so keyboard focus stays put.
   const { attributes, listeners, setNodeRef, transform, transition, isDragging } = useSortable({
     id: String(slot.slot),
-    disabled: readOnly || !slot.item,
+    disabled: readOnly || busy || !slot.item,
   });
   const style = {
     transform: transform ? `translate3d(${transform.x}px, ${transform.y}px, 0)` : undefined,
@@ -91,7 +94,7 @@ function SlotRow({ slot, readOnly, onAct }: RowProps) {
  * The slots, reorderable by pointer or keyboard (space to lift, arrows to move, space to drop: dnd-kit's
  * KeyboardSensor with sortableKeyboardCoordinates). A drop becomes one `move` action, so undo covers it.
  */
-export function SlotList({ slots, readOnly, onAct }: { slots: readonly Slot[]; readOnly: boolean; onAct(a: ShelfAction): void }) {
+export function SlotList({ slots, readOnly, busy = false, onAct }: { slots: readonly Slot[]; readOnly: boolean; busy?: boolean; onAct(a: ShelfAction): void }) {
   const sensors = useSensors(useSensor(PointerSensor), useSensor(KeyboardSensor, { coordinateGetter: sortableKeyboardCoordinates }));
   const onDragEnd = (e: DragEndEvent) => {
     if (!e.over || e.active.id === e.over.id) return;
@@ -115,7 +118,7 @@ export function SlotList({ slots, readOnly, onAct }: { slots: readonly Slot[]; r
       <SortableContext items={slots.map((s) => String(s.slot))} strategy={verticalListSortingStrategy}>
         <ol className="slots" aria-label="Slots">
           {slots.map((s) => (
-            <SlotRow key={s.slot} slot={s} readOnly={readOnly} onAct={onAct} />
+            <SlotRow key={s.slot} slot={s} readOnly={readOnly} busy={busy} onAct={onAct} />
           ))}
         </ol>
       </SortableContext>

@@ -87,7 +87,7 @@ export function ShelfEditor() {
         </div>
       )}
       <div className="editor-grid">
-        <SlotList slots={shelf.slots} readOnly={readOnly} onAct={(a) => void act(a)} />
+        <SlotList slots={shelf.slots} readOnly={readOnly} busy={busy} onAct={(a) => void act(a)} />
         <div className="side">
           <ShelfMeterPanel meter={shelf.meter} title="Shelf meter" preview={preview} />
           <CandidatePool shelf={shelf} slot={Math.min(slot, shelf.size)} onSlot={setSlot} readOnly={readOnly} onAct={(a) => void act(a)} />

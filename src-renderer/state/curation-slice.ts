@@ -76,15 +76,21 @@ export function createCurationSlice(client: Client, clock: () => number): StateC
       if (!c.edition || !c.shelf) throw new Error('Open a shelf first.');
       return { edition: c.edition.label, shelf: c.shelf };
     };
-    /** Applies a shelf change, then re-reads the edition so its meter (overlaps, Gini) follows. */
+    /**
+     * Applies a shelf change, then re-reads the edition so its meter (overlaps, Gini) follows. The slice stays
+     * busy until that re-read is in: a move names slots by position, so the next one may only start from the
+     * order the store holds (a keyboard move pressed while one is in flight would act on a stale order).
+     */
     const shelfChanged = async (s: ShelfView, t0: number) => {
       const e = get().curation.edition;
-      if (e) patch({ edition: withShelf(e, s), lastActionMs: clock() - t0 });
+      if (e) set((st) => ({ curation: { ...st.curation, edition: withShelf(e, s), lastActionMs: clock() - t0 } }));
       try {
         const fresh = await client.call('edition.show', { edition: s.edition });
         if (get().curation.edition?.label === fresh.label) patch({ edition: fresh });
+        else patch({});
       } catch {
         // The shelf is already current; a stale edition meter is refreshed on the next action.
+        patch({});
       }
     };
     const shelfCall = async (area: ErrorArea, call: () => Promise<ShelfView>): Promise<boolean> => {

@@ -21,18 +21,22 @@ export interface WhatIfSlice {
 }
 
 export function createWhatIfSlice(client: Client): StateCreator<AppState, [], [], WhatIfSlice> {
+  // Only the latest request may land: an earlier one (another slot, or this slot before an action) can answer last.
+  let latest = 0;
   return (set, get) => ({
     whatif: { key: null, result: null, loading: false, error: null, focus: null },
     async loadWhatIf(slot, n = 200) {
       const c = get().curation;
       if (!c.edition || !c.shelf) return;
       const key = `${c.edition.label}/${c.shelf}/${slot}`;
-      set((s) => ({ whatif: { ...s.whatif, key, loading: true, error: null } }));
+      const ticket = ++latest;
+      // Another slot's candidates are not shown under this slot while its own are ranked.
+      set((s) => ({ whatif: { ...s.whatif, key, result: s.whatif.key === key ? s.whatif.result : null, loading: true, error: null } }));
       try {
         const result = await client.call('shelf.whatif', { edition: c.edition.label, shelf: c.shelf, slot, n });
-        if (get().whatif.key === key) set((s) => ({ whatif: { ...s.whatif, result, loading: false } }));
+        if (ticket === latest) set((s) => ({ whatif: { ...s.whatif, result, loading: false } }));
       } catch (e) {
-        set((s) => ({ whatif: { ...s.whatif, result: null, loading: false, error: describeError(e) } }));
+        if (ticket === latest) set((s) => ({ whatif: { ...s.whatif, result: null, loading: false, error: describeError(e) } }));
       }
     },
     focusCandidate(item) {

@@ -1,7 +1,7 @@
 import { SectionReader, packSections } from '../matrix/bytes.ts';
 import { nnz, type Csr } from '../matrix/csr.ts';
-import { spdInverseInPlace, type InverseHooks } from '../linalg/cholesky.ts';
-import { CancelledError, InputError, ModelFitError } from '../errors.ts';
+import { easeWeights } from './ease-weights.ts';
+import { CancelledError, InputError } from '../errors.ts';
 import type { FitOptions, FitReport, Scorer, TopN } from './scorer.ts';
 import { topN } from './topn.ts';
 
@@ -111,41 +111,12 @@ export function fitEase(x: Csr, params: EaseParams = {}, o: FitOptions = {}): { 
     for (let c = 0; c < x.cols; c++) kept[c] = c;
   }
   const m = kept.length;
-  const local = new Int32Array(x.cols).fill(-1);
-  for (let r = 0; r < m; r++) local[kept[r]!] = r;
-
-  // G = XᵀX + λI, accumulated row by row of X over pairs of the row's kept items (lower triangle).
-  const g = new Float64Array(m * m);
-  for (let u = 0; u < x.rows; u++) {
-    const s = x.indptr[u]!;
-    const e = x.indptr[u + 1]!;
-    for (let p = s; p < e; p++) {
-      const a = local[x.indices[p]!]!;
-      if (a < 0) continue;
-      const va = x.data[p]!;
-      const ra = a * m;
-      for (let q = s; q <= p; q++) {
-        const c = local[x.indices[q]!]!;
-        if (c >= 0) g[ra + c]! += va * x.data[q]!;
-      }
-    }
-  }
-  for (let a = 0; a < m; a++) g[a * m + a]! += lambda;
   if (o.signal?.aborted) throw new CancelledError();
-  // Symmetric result: lower and upper both hold P. Progress: one "iteration" per phase of the inverse.
-  const hooks: InverseHooks = {
+  // Progress: one "iteration" per phase of the inverse (Cholesky, L⁻¹, product), then the weights.
+  const b = easeWeights(x, kept, lambda, {
+    ...(o.signal && { signal: o.signal }),
     onPhase: (phase, phases) => o.onIteration?.({ iteration: phase, iterations: phases + 1, elapsedMs: performance.now() - start }),
-  };
-  if (o.signal) hooks.signal = o.signal;
-  spdInverseInPlace(g, m, hooks);
-
-  const b = new Float32Array(m * m);
-  for (let r = 0; r < m; r++) {
-    for (let c = 0; c < m; c++) b[r * m + c] = r === c ? 0 : -g[r * m + c]! / g[c * m + c]!;
-  }
-  for (let k = 0; k < b.length; k++) {
-    if (!Number.isFinite(b[k]!)) throw new ModelFitError(`EASE weights are not finite at entry ${k}`);
-  }
+  });
   const elapsedMs = performance.now() - start;
   o.onIteration?.({ iteration: 4, iterations: 4, elapsedMs });
   notes.push(`EASE on ${m} items, ${nnz(x)} interactions, lambda ${lambda}`);

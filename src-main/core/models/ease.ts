@@ -1,6 +1,7 @@
 import { SectionReader, packSections } from '../matrix/bytes.ts';
 import { nnz, type Csr } from '../matrix/csr.ts';
 import { easeWeights } from './ease-weights.ts';
+import { EASE_DENSE_MAX_BYTES, EASE_MAGIC, EASE_TOP_K, EaseTopKModel, sparsifyEase } from './ease-topk.ts';
 import { CancelledError, InputError } from '../errors.ts';
 import type { FitOptions, FitReport, Scorer, TopN } from './scorer.ts';
 import { topN } from './topn.ts';
@@ -75,15 +76,25 @@ export class EaseModel implements Scorer {
     return topN(row, n, i, skip);
   }
 
+  /**
+   * Dense B (format 1) up to EASE_DENSE_MAX_BYTES; above, the top EASE_TOP_K weights of each row (format 2,
+   * ease-topk.ts): a 20,000-item dense B is 1.6 GB, beyond a SQLite blob.
+   */
   serialize(): Uint8Array {
-    return packSections(MAGIC, 1, [Int32Array.of(this.itemCount), this.kept, this.b]);
+    if (this.b.byteLength > EASE_DENSE_MAX_BYTES) return sparsifyEase(this.itemCount, this.kept, this.b, EASE_TOP_K).serialize();
+    return packSections(EASE_MAGIC, 1, [Int32Array.of(this.itemCount), this.kept, this.b]);
   }
 }
 
-const MAGIC = 'SWEASE  ';
-
-export function loadEase(bytes: Uint8Array): EaseModel {
-  const r = new SectionReader(bytes, MAGIC, 1);
+/** Restores either stored form: dense (format 1) or top-k per item (format 2). */
+export function loadEase(bytes: Uint8Array): EaseModel | EaseTopKModel {
+  const version = bytes.length >= 12 ? new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength).getUint32(8, true) : 1;
+  if (version === 2) {
+    const r = new SectionReader(bytes, EASE_MAGIC, 2);
+    const head = r.i32();
+    return new EaseTopKModel(head[0]!, r.i32(), r.i32(), r.i32(), r.f32());
+  }
+  const r = new SectionReader(bytes, EASE_MAGIC, 1);
   const head = r.i32();
   return new EaseModel(head[0]!, r.i32(), r.f32());
 }
@@ -120,6 +131,9 @@ export function fitEase(x: Csr, params: EaseParams = {}, o: FitOptions = {}): { 
   const elapsedMs = performance.now() - start;
   o.onIteration?.({ iteration: 4, iterations: 4, elapsedMs });
   notes.push(`EASE on ${m} items, ${nnz(x)} interactions, lambda ${lambda}`);
+  if (b.byteLength > EASE_DENSE_MAX_BYTES) {
+    notes.push(`EASE stored with the ${EASE_TOP_K} largest weights per item (dense weights would be ${(b.byteLength / 2 ** 30).toFixed(1)} GiB)`);
+  }
   return { model: new EaseModel(x.cols, kept, b), report: { kind: 'ease', elapsedMs, notes } };
 }
 

@@ -34,6 +34,10 @@ export interface TileSchedule {
   waitRow(j: number): void;
   /** Phase 1: row block i is final. */
   rowDone(i: number): void;
+  /** Returns once every thread has finished `phase` (the next phase reads what all of them wrote). */
+  barrier(phase: number): void;
+  /** This thread failed: the others stop at their next wait instead of waiting forever. */
+  fail(): void;
 }
 
 export function sequentialSchedule(blocks: number): TileSchedule {
@@ -42,7 +46,104 @@ export function sequentialSchedule(blocks: number): TileSchedule {
     next: (phase) => (cursor[phase]! < blocks ? cursor[phase]!++ : -1),
     waitRow: () => undefined,
     rowDone: () => undefined,
+    barrier: () => undefined,
+    fail: () => undefined,
   };
+}
+
+/** Int32 slots the shared schedule needs for `blocks` row blocks and `threads` threads. */
+export function scheduleSlots(blocks: number, threads: number): number {
+  return ROW + blocks + threads;
+}
+
+const FAILED = 0;
+const CURSOR = 1; // + phase − 1 (0..2)
+const BARRIER = 4; // + phase − 1 (0..2)
+const STARTED = 7; // helper threads running
+const ROW = 8; // + row block; then one count of claimed blocks per thread
+
+/**
+ * The schedule of `threads` threads sharing one workspace, over an Int32Array on a SharedArrayBuffer
+ * (scheduleSlots(blocks), zeroed): blocks are claimed with Atomics.add, row blocks flagged final for
+ * phase 1's waits, phases separated by a counting barrier. Waits wake every 100 ms to see whether a
+ * thread failed, so an error anywhere ends every thread instead of leaving one blocked.
+ */
+export function sharedSchedule(slots: Int32Array, blocks: number, threads: number, thread: number): TileSchedule {
+  const waitUntil = (index: number, value: number) => {
+    for (let v = Atomics.load(slots, index); v < value; v = Atomics.load(slots, index)) {
+      if (Atomics.load(slots, FAILED) !== 0) throw new CancelledError('another thread of the inverse failed');
+      Atomics.wait(slots, index, v, 100);
+    }
+  };
+  return {
+    next: (phase) => {
+      if (Atomics.load(slots, FAILED) !== 0) throw new CancelledError('another thread of the inverse failed');
+      const b = Atomics.add(slots, CURSOR + phase - 1, 1);
+      if (b >= blocks) return -1;
+      Atomics.add(slots, ROW + blocks + thread, 1);
+      return b;
+    },
+    waitRow: (j) => waitUntil(ROW + j, 1),
+    rowDone: (i) => {
+      Atomics.store(slots, ROW + i, 1);
+      Atomics.notify(slots, ROW + i);
+    },
+    barrier: (phase) => {
+      Atomics.add(slots, BARRIER + phase - 1, 1);
+      Atomics.notify(slots, BARRIER + phase - 1);
+      waitUntil(BARRIER + phase - 1, threads);
+    },
+    fail: () => {
+      Atomics.store(slots, FAILED, 1);
+      for (let k = 0; k < slots.length; k++) Atomics.notify(slots, k);
+    },
+  };
+}
+
+/** A helper thread says it runs (the starting thread waits for all, so the barriers count right). */
+export function helperStarted(slots: Int32Array): void {
+  Atomics.add(slots, STARTED, 1);
+  Atomics.notify(slots, STARTED);
+}
+
+/**
+ * Waits until `helpers` helper threads run, or up to `limitMs` (a thread that cannot even start must not
+ * leave the others waiting at a barrier); false when they did not all start in time.
+ */
+export function awaitHelpers(slots: Int32Array, helpers: number, limitMs: number): boolean {
+  const end = Date.now() + limitMs;
+  for (let v = Atomics.load(slots, STARTED); v < helpers; v = Atomics.load(slots, STARTED)) {
+    const left = end - Date.now();
+    if (left <= 0) return false;
+    Atomics.wait(slots, STARTED, v, left);
+  }
+  return true;
+}
+
+/** Blocks claimed by each thread so far (to see that every thread took part). */
+export function claimsPerThread(slots: Int32Array, blocks: number, threads: number): number[] {
+  return Array.from({ length: threads }, (_, t) => Atomics.load(slots, ROW + blocks + t));
+}
+
+/** This thread's share of the three phases (every thread of a shared workspace runs this). */
+export function runInverse(
+  ws: SpdWorkspace,
+  schedule: TileSchedule,
+  hooks: { signal?: AbortSignal; onPhase?: (phase: number, phases: number) => void } = {},
+): void {
+  try {
+    ws.cholesky(schedule, hooks.signal);
+    schedule.barrier(1);
+    hooks.onPhase?.(1, 3);
+    ws.upperInverse(schedule, hooks.signal);
+    schedule.barrier(2);
+    hooks.onPhase?.(2, 3);
+    ws.product(schedule, hooks.signal);
+    schedule.barrier(3);
+  } catch (e) {
+    schedule.fail();
+    throw e;
+  }
 }
 
 export interface SpdLayout {
@@ -300,13 +401,7 @@ export function spdInverseF32(
   const ws = new SpdWorkspace(layout, spdMemory(layout, false));
   ws.reset();
   writeLower(ws);
-  const blocks = layout.size / TILE;
-  const schedule = sequentialSchedule(blocks);
-  ws.cholesky(schedule, hooks.signal);
-  hooks.onPhase?.(1, 3);
-  ws.upperInverse(schedule, hooks.signal);
-  hooks.onPhase?.(2, 3);
-  ws.product(schedule, hooks.signal);
+  runInverse(ws, sequentialSchedule(layout.size / TILE), hooks);
   ws.mirrorLower();
   hooks.onPhase?.(3, 3);
   return ws;

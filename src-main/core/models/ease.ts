@@ -1,6 +1,6 @@
 import { SectionReader, packSections } from '../matrix/bytes.ts';
 import { nnz, type Csr } from '../matrix/csr.ts';
-import { easeWeights } from './ease-weights.ts';
+import { easeWeights, type EaseSolveHooks } from './ease-weights.ts';
 import { EASE_DENSE_MAX_BYTES, EASE_MAGIC, EASE_TOP_K, EaseTopKModel, sparsifyEase } from './ease-topk.ts';
 import { CancelledError, InputError } from '../errors.ts';
 import type { FitOptions, FitReport, Scorer, TopN } from './scorer.ts';
@@ -99,8 +99,16 @@ export function loadEase(bytes: Uint8Array): EaseModel | EaseTopKModel {
   return new EaseModel(head[0]!, r.i32(), r.f32());
 }
 
-/** Fits EASE on an interaction matrix (customers × items). */
-export function fitEase(x: Csr, params: EaseParams = {}, o: FitOptions = {}): { model: EaseModel; report: FitReport } {
+/**
+ * Fits EASE on an interaction matrix (customers × items). `solver.invert` runs the inverse elsewhere
+ * than on this thread alone (services/train/ease-inverse-threads.ts: several threads, same result).
+ */
+export function fitEase(
+  x: Csr,
+  params: EaseParams = {},
+  o: FitOptions = {},
+  solver: Pick<EaseSolveHooks, 'invert'> = {},
+): { model: EaseModel; report: FitReport } {
   const start = performance.now();
   const lambda = params.lambda ?? EASE_DEFAULTS.lambda;
   const maxItems = params.maxItems ?? EASE_DEFAULTS.maxItems;
@@ -126,6 +134,7 @@ export function fitEase(x: Csr, params: EaseParams = {}, o: FitOptions = {}): { 
   // Progress: one "iteration" per phase of the inverse (Cholesky, L⁻¹, product), then the weights.
   const b = easeWeights(x, kept, lambda, {
     ...(o.signal && { signal: o.signal }),
+    ...(solver.invert && { invert: solver.invert }),
     onPhase: (phase, phases) => o.onIteration?.({ iteration: phase, iterations: phases + 1, elapsedMs: performance.now() - start }),
   });
   const elapsedMs = performance.now() - start;

@@ -119,7 +119,7 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
   const easeParams = { ...TRAIN_EASE_DEFAULTS, maxItems: limit.maxItems, ...p.ease };
   const easeNotes = limit.note && p.ease?.maxItems === undefined && matrix.cols > limit.maxItems ? [limit.note] : [];
   const threads = opts.threads ?? defaultThreads();
-  const easeThread = kinds.includes('ease') && threads > 1 ? fitEaseInThread(matrix, easeParams) : null;
+  const easeThread = kinds.includes('ease') && threads > 1 ? fitEaseInThread(matrix, easeParams, threads) : null;
 
   const records: ModelRecord[] = [];
   const notes: string[] = [];

@@ -5,7 +5,8 @@
  * times, our fit (Gram, Cholesky, inverse, weights timed apart) with bench/ease_reference.py under
  * Debian's /usr/bin/python3 + numpy on the same X (written to a temporary file), and prints medians and
  * the ratio. Alternating keeps both in the same window of a shared, loaded machine.
- * Flags: --items=N (default 5000), --customers=N (default 6 × items), --reps=N (default 3),
+ * Flags: --items=N (default 5000), --customers=N (default 6 × items), --reps=N (default 3), --threads=N
+ * (default 2: ours runs on 1 and on N threads; numpy's OpenBLAS uses the machine's cores),
  * --no-reference (ours only: for 20,000 items, whose float64 numpy inverse needs ~10 GB), --lambda=X.
  * Peak RSS is the process's maxRSS, so run one size per process.
  */
@@ -16,7 +17,8 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Csr } from '../src-main/core/matrix/csr.ts';
 import { easeWeights } from '../src-main/core/models/ease-weights.ts';
-import { TILE, sequentialSchedule, spdLayout, spdMemory, SpdWorkspace } from '../src-main/core/linalg/spd-f32.ts';
+import { spdInverseF32, type SpdWorkspace } from '../src-main/core/linalg/spd-f32.ts';
+import { invertInThreads } from '../src-main/services/train/ease-inverse-threads.ts';
 import { seededRng } from '../src-main/core/rng.ts';
 
 const args = process.argv.slice(2);
@@ -29,6 +31,7 @@ const customers = value('customers', 6 * items);
 const reps = value('reps', 3);
 const lambda = value('lambda', 500);
 const reference = !args.includes('--no-reference');
+const threads = value('threads', Math.min(2, os.availableParallelism()));
 
 const median = (xs: number[]) => {
   const s = [...xs].sort((a, b) => a - b);
@@ -92,40 +95,36 @@ interface OurTimes {
   checksum: number;
 }
 
-/** Our fit through the model's own code (easeWeights), with the inverse's phases timed apart. */
-function ours(x: Csr): OurTimes {
+/**
+ * Our fit through the model's own code (easeWeights with the inverse of the training's EASE thread:
+ * spdInverseF32 on one thread, invertInThreads on several), the phases timed apart by its hooks.
+ */
+function ours(x: Csr, threads: number): OurTimes {
   const kept = Int32Array.from({ length: x.cols }, (_, i) => i);
-  const t: Partial<OurTimes> = {};
   const t0 = performance.now();
-  let mark = t0;
-  const lap = (k: keyof OurTimes) => {
-    const now = performance.now();
-    t[k] = (now - mark) / 1000;
-    mark = now;
-  };
+  const at: Record<string, number> = {};
+  const onPhase = (phase: number) => (at[`phase${phase}`] = performance.now());
   const b = easeWeights(x, kept, lambda, {
     invert: (m, writeLower) => {
-      const layout = spdLayout(m);
-      const ws = new SpdWorkspace(layout, spdMemory(layout, false));
-      ws.reset();
-      writeLower(ws);
-      lap('gram');
-      const schedule = sequentialSchedule(layout.size / TILE);
-      ws.cholesky(schedule);
-      lap('cholesky');
-      ws.upperInverse(schedule);
-      ws.product(schedule);
-      ws.mirrorLower();
-      lap('inverse');
-      return ws;
+      const timedWrite = (ws: SpdWorkspace) => {
+        writeLower(ws);
+        at['gram'] = performance.now();
+      };
+      return threads > 1 ? invertInThreads(m, timedWrite, threads, { onPhase }) : spdInverseF32(m, timedWrite, { onPhase });
     },
   });
-  lap('weights');
-  t.total = (performance.now() - t0) / 1000;
+  const end = performance.now();
   let checksum = 0;
   for (let k = 0; k < b.length; k++) checksum += Math.abs(b[k]!);
-  t.checksum = checksum;
-  return t as OurTimes;
+  const s = (a: number, z: number) => (z - a) / 1000;
+  return {
+    gram: s(t0, at['gram']!),
+    cholesky: s(at['gram']!, at['phase1']!),
+    inverse: s(at['phase1']!, at['phase3']!),
+    weights: s(at['phase3']!, end),
+    total: s(t0, end),
+    checksum,
+  };
 }
 
 interface RefOut {
@@ -159,29 +158,39 @@ function main(): void {
     file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-bench-ease-')), 'x.bin');
     writeX(x, file);
   }
-  const mine: OurTimes[] = [];
+  // Ours on one thread and (when --threads > 1) on several, then numpy, in turn: the same window of load.
+  const variants = threads > 1 ? [1, threads] : [1];
+  const mine = new Map<number, OurTimes[]>(variants.map((t) => [t, []]));
   const refs: RefOut[] = [];
+  const show = (m: OurTimes) =>
+    `${sec(m.total)} (gram ${sec(m.gram)}, cholesky ${sec(m.cholesky)}, inverse ${sec(m.inverse)}, weights ${sec(m.weights)})`;
   try {
     for (let r = 0; r < reps; r++) {
-      mine.push(ours(x));
-      const m = mine[mine.length - 1]!;
-      let line = `  rep ${r + 1}: ours ${sec(m.total)} (gram ${sec(m.gram)}, cholesky ${sec(m.cholesky)}, inverse ${sec(m.inverse)}, weights ${sec(m.weights)})`;
+      let line = `  rep ${r + 1}:`;
+      for (const t of variants) {
+        const m = ours(x, t);
+        mine.get(t)!.push(m);
+        line += ` ours ${t} thread${t > 1 ? 's' : ''} ${show(m)};`;
+      }
       if (reference) {
         const ref = numpy(file);
         refs.push(ref);
-        line += `; numpy inv ${sec(ref.inv.total)}` + (ref.cholesky ? `, numpy potrf+potri ${sec(ref.cholesky.total)}` : '');
+        line += ` numpy inv ${sec(ref.inv.total)}` + (ref.cholesky ? `, numpy potrf+potri ${sec(ref.cholesky.total)}` : '') + ';';
       }
-      console.log(line + `; load ${loadAverage()}`);
+      console.log(line + ` load ${loadAverage()}`);
     }
   } finally {
     if (file) fs.rmSync(path.dirname(file), { recursive: true, force: true });
   }
-  const med = (f: (t: OurTimes) => number) => median(mine.map(f));
-  console.log(
-    `\nours (float32, WebAssembly SIMD, 1 thread), median of ${reps}: total ${sec(med((t) => t.total))}; ` +
-      `gram ${sec(med((t) => t.gram))}, cholesky ${sec(med((t) => t.cholesky))}, inverse ${sec(med((t) => t.inverse))}, weights ${sec(med((t) => t.weights))}`,
-  );
-  console.log(`  peak RSS ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB`);
+  console.log('');
+  for (const t of variants) {
+    const med = (f: (t: OurTimes) => number) => median(mine.get(t)!.map(f));
+    console.log(
+      `ours (float32, WebAssembly SIMD, ${t} thread${t > 1 ? 's' : ''}), median of ${reps}: total ${sec(med((q) => q.total))}; ` +
+        `gram ${sec(med((q) => q.gram))}, cholesky ${sec(med((q) => q.cholesky))}, inverse ${sec(med((q) => q.inverse))}, weights ${sec(med((q) => q.weights))}`,
+    );
+  }
+  console.log(`  peak RSS ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MB (whole process, all runs)`);
   if (!reference) return;
   const ref = refs[0]!;
   console.log(`numpy: Gram by ${ref.gram}; BLAS: ${JSON.stringify(ref.blas)}`);
@@ -197,10 +206,13 @@ function main(): void {
         `inverse ${sec(median(refs.map((r) => r.cholesky!.inverse)))}`,
     );
   }
-  const ourTotal = med((t) => t.total);
-  const ourSum = median(mine.map((t) => t.checksum));
+  const best = variants[variants.length - 1]!;
+  const ourTotal = median(mine.get(best)!.map((t) => t.total));
+  const ourSum = median(mine.get(best)!.map((t) => t.checksum));
   console.log(`sum |B|: ours ${ourSum.toFixed(4)}, numpy ${ref.checksum.toFixed(4)} (relative difference ${(Math.abs(ourSum - ref.checksum) / ref.checksum).toExponential(1)})`);
-  console.log(`RATIO ours / numpy inv = ${(ourTotal / inv).toFixed(2)} (target ≤ 3)` + (Number.isNaN(ch) ? '' : `; ours / numpy potrf+potri = ${(ourTotal / ch).toFixed(2)}`));
+  const one = median(mine.get(1)!.map((t) => t.total));
+  console.log(`RATIO ours (${best} thread${best > 1 ? 's' : ''}) / numpy inv = ${(ourTotal / inv).toFixed(2)} (target ≤ 3)` + (Number.isNaN(ch) ? '' : `; / numpy potrf+potri = ${(ourTotal / ch).toFixed(2)}`));
+  if (best > 1) console.log(`  ours (1 thread) / numpy inv = ${(one / inv).toFixed(2)}` + (Number.isNaN(ch) ? '' : `; / numpy potrf+potri = ${(one / ch).toFixed(2)}`));
 }
 
 main();

@@ -7,6 +7,7 @@
  * the ratio. Alternating keeps both in the same window of a shared, loaded machine.
  * Flags: --items=N (default 5000), --customers=N (default 6 × items), --reps=N (default 3), --threads=N
  * (default 2: ours runs on 1 and on N threads; numpy's OpenBLAS uses the machine's cores),
+ * --threads-only (ours on N threads only), --store (also time serializing the model as training stores it),
  * --no-reference (ours only: for 20,000 items, whose float64 numpy inverse needs ~10 GB), --lambda=X.
  * Peak RSS is the process's maxRSS, so run one size per process.
  */
@@ -16,6 +17,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Csr } from '../src-main/core/matrix/csr.ts';
+import { EaseModel } from '../src-main/core/models/ease.ts';
 import { easeWeights } from '../src-main/core/models/ease-weights.ts';
 import { spdInverseF32, type SpdWorkspace } from '../src-main/core/linalg/spd-f32.ts';
 import { invertInThreads } from '../src-main/services/train/ease-inverse-threads.ts';
@@ -32,6 +34,7 @@ const reps = value('reps', 3);
 const lambda = value('lambda', 500);
 const reference = !args.includes('--no-reference');
 const threads = value('threads', Math.min(2, os.availableParallelism()));
+const store = args.includes('--store');
 
 const median = (xs: number[]) => {
   const s = [...xs].sort((a, b) => a - b);
@@ -92,7 +95,11 @@ interface OurTimes {
   inverse: number;
   weights: number;
   total: number;
+  /** CPU seconds of the whole process (all threads): on a loaded machine, what the fit cost. */
+  cpu: number;
   checksum: number;
+  /** Serialized model size and time (what training stores), when --store. */
+  stored?: { bytes: number; seconds: number };
 }
 
 /**
@@ -101,6 +108,7 @@ interface OurTimes {
  */
 function ours(x: Csr, threads: number): OurTimes {
   const kept = Int32Array.from({ length: x.cols }, (_, i) => i);
+  const c0 = process.cpuUsage();
   const t0 = performance.now();
   const at: Record<string, number> = {};
   const onPhase = (phase: number) => (at[`phase${phase}`] = performance.now());
@@ -114,6 +122,13 @@ function ours(x: Csr, threads: number): OurTimes {
     },
   });
   const end = performance.now();
+  const c1 = process.cpuUsage(c0);
+  let stored: OurTimes['stored'];
+  if (store) {
+    const ts = performance.now();
+    const bytes = new EaseModel(x.cols, kept, b).serialize().byteLength;
+    stored = { bytes, seconds: (performance.now() - ts) / 1000 };
+  }
   let checksum = 0;
   for (let k = 0; k < b.length; k++) checksum += Math.abs(b[k]!);
   const s = (a: number, z: number) => (z - a) / 1000;
@@ -123,7 +138,9 @@ function ours(x: Csr, threads: number): OurTimes {
     inverse: s(at['phase1']!, at['phase3']!),
     weights: s(at['phase3']!, end),
     total: s(t0, end),
+    cpu: (c1.user + c1.system) / 1e6,
     checksum,
+    ...(stored && { stored }),
   };
 }
 
@@ -159,11 +176,12 @@ function main(): void {
     writeX(x, file);
   }
   // Ours on one thread and (when --threads > 1) on several, then numpy, in turn: the same window of load.
-  const variants = threads > 1 ? [1, threads] : [1];
+  const variants = args.includes('--threads-only') || threads === 1 ? [threads] : [1, threads];
   const mine = new Map<number, OurTimes[]>(variants.map((t) => [t, []]));
   const refs: RefOut[] = [];
   const show = (m: OurTimes) =>
-    `${sec(m.total)} (gram ${sec(m.gram)}, cholesky ${sec(m.cholesky)}, inverse ${sec(m.inverse)}, weights ${sec(m.weights)})`;
+    `${sec(m.total)} (gram ${sec(m.gram)}, cholesky ${sec(m.cholesky)}, inverse ${sec(m.inverse)}, weights ${sec(m.weights)}; ${m.cpu.toFixed(1)} CPU-s)` +
+    (m.stored ? ` stored model ${(m.stored.bytes / 2 ** 20).toFixed(1)} MiB in ${sec(m.stored.seconds)}` : '');
   try {
     for (let r = 0; r < reps; r++) {
       let line = `  rep ${r + 1}:`;
@@ -210,7 +228,7 @@ function main(): void {
   const ourTotal = median(mine.get(best)!.map((t) => t.total));
   const ourSum = median(mine.get(best)!.map((t) => t.checksum));
   console.log(`sum |B|: ours ${ourSum.toFixed(4)}, numpy ${ref.checksum.toFixed(4)} (relative difference ${(Math.abs(ourSum - ref.checksum) / ref.checksum).toExponential(1)})`);
-  const one = median(mine.get(1)!.map((t) => t.total));
+  const one = median(mine.get(variants[0]!)!.map((t) => t.total));
   console.log(`RATIO ours (${best} thread${best > 1 ? 's' : ''}) / numpy inv = ${(ourTotal / inv).toFixed(2)} (target ≤ 3)` + (Number.isNaN(ch) ? '' : `; / numpy potrf+potri = ${(ourTotal / ch).toFixed(2)}`));
   if (best > 1) console.log(`  ours (1 thread) / numpy inv = ${(one / inv).toFixed(2)}` + (Number.isNaN(ch) ? '' : `; / numpy potrf+potri = ${(one / ch).toFixed(2)}`));
 }

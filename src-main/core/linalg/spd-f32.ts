@@ -234,10 +234,12 @@ export class SpdWorkspace {
     return this.layout.matrix / 4 + i * this.N + j;
   }
 
-  /** Zeroes the matrix and puts ones on the padding's diagonal (call once, before writing A). */
+  /**
+   * Puts ones on the padding's diagonal (call once, on a fresh memory, before writing A). A new
+   * WebAssembly memory is zero-filled (core spec, memory allocation: every byte starts at 0), so the padding's other entries already are 0.
+   */
   reset(): void {
     const { n } = this.layout;
-    this.f32.fill(0, this.at(0, 0), this.at(this.N, 0));
     for (let i = n; i < this.N; i++) this.f32[this.at(i, i)] = 1;
   }
 

@@ -10,12 +10,12 @@ import { topN } from './topn.ts';
  * EASE, Steck (2019), "Embarrassingly Shallow Autoencoders for Sparse Data", eq. (8): the item–item
  * weights minimising ‖X − XB‖² + λ‖B‖² subject to diag(B) = 0 are
  *   P = (XᵀX + λI)⁻¹,   B = I − P · diag(1 / diag(P)),   i.e. B_ij = −P_ij / P_jj (i ≠ j), B_jj = 0.
- * Scores are x_u · B. The inverse is dense (n² doubles), so the catalogue size is bounded by `maxItems`.
+ * Scores are x_u · B. The inverse is dense (n² float32, ease-weights.ts), so the catalogue size is bounded by `maxItems`.
  */
 export interface EaseParams {
   /** λ in the paper. Default 500 (from memory: the paper's tuned values lie in the hundreds). */
   lambda?: number;
-  /** Largest item count fitted. Default 20,000 (DESIGN.md; about 3.2 GB for the inverse at that size). */
+  /** Largest item count fitted. Default 20,000 (DESIGN.md; 1.6 GB for the float32 inverse at that size). */
   maxItems?: number;
   /** Above maxItems: false (default) refuses with an InputError; true keeps the maxItems most active items. */
   restrict?: boolean;

@@ -19,6 +19,7 @@ function check(h: InverseHooks | undefined): void {
  * segments, and is blocked 4 rows × 4 rows (kernel.ts): each loaded value serves four products, which is
  * what lets scalar JavaScript approach one multiply-add per cycle on a matrix far larger than the cache.
  * Cost ≈ n³/2 multiply-adds in all: Cholesky n³/6, L⁻¹ n³/6, L⁻ᵀL⁻¹ n³/6 (as LAPACK's potrf + potri).
+ * EASE now fits with the float32 SIMD path (spd-f32.ts); this float64 path is its accuracy reference in tests.
  */
 
 /**

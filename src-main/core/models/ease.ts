@@ -1,7 +1,8 @@
 import { SectionReader, packSections } from '../matrix/bytes.ts';
 import { nnz, type Csr } from '../matrix/csr.ts';
-import { spdInverseInPlace, type InverseHooks } from '../linalg/cholesky.ts';
-import { CancelledError, InputError, ModelFitError } from '../errors.ts';
+import { easeWeights, type EaseSolveHooks } from './ease-weights.ts';
+import { EASE_DENSE_MAX_BYTES, EASE_MAGIC, EASE_TOP_K, EaseTopKModel, sparsifyEase } from './ease-topk.ts';
+import { CancelledError, InputError } from '../errors.ts';
 import type { FitOptions, FitReport, Scorer, TopN } from './scorer.ts';
 import { topN } from './topn.ts';
 
@@ -9,12 +10,12 @@ import { topN } from './topn.ts';
  * EASE, Steck (2019), "Embarrassingly Shallow Autoencoders for Sparse Data", eq. (8): the item–item
  * weights minimising ‖X − XB‖² + λ‖B‖² subject to diag(B) = 0 are
  *   P = (XᵀX + λI)⁻¹,   B = I − P · diag(1 / diag(P)),   i.e. B_ij = −P_ij / P_jj (i ≠ j), B_jj = 0.
- * Scores are x_u · B. The inverse is dense (n² doubles), so the catalogue size is bounded by `maxItems`.
+ * Scores are x_u · B. The inverse is dense (n² float32, ease-weights.ts), so the catalogue size is bounded by `maxItems`.
  */
 export interface EaseParams {
   /** λ in the paper. Default 500 (from memory: the paper's tuned values lie in the hundreds). */
   lambda?: number;
-  /** Largest item count fitted. Default 20,000 (DESIGN.md; about 3.2 GB for the inverse at that size). */
+  /** Largest item count fitted. Default 20,000 (DESIGN.md; 1.6 GB for the float32 inverse at that size). */
   maxItems?: number;
   /** Above maxItems: false (default) refuses with an InputError; true keeps the maxItems most active items. */
   restrict?: boolean;
@@ -75,21 +76,39 @@ export class EaseModel implements Scorer {
     return topN(row, n, i, skip);
   }
 
+  /**
+   * Dense B (format 1) up to EASE_DENSE_MAX_BYTES; above, the top EASE_TOP_K weights of each row (format 2,
+   * ease-topk.ts): a 20,000-item dense B is 1.6 GB, beyond a SQLite blob.
+   */
   serialize(): Uint8Array {
-    return packSections(MAGIC, 1, [Int32Array.of(this.itemCount), this.kept, this.b]);
+    if (this.b.byteLength > EASE_DENSE_MAX_BYTES) return sparsifyEase(this.itemCount, this.kept, this.b, EASE_TOP_K).serialize();
+    return packSections(EASE_MAGIC, 1, [Int32Array.of(this.itemCount), this.kept, this.b]);
   }
 }
 
-const MAGIC = 'SWEASE  ';
-
-export function loadEase(bytes: Uint8Array): EaseModel {
-  const r = new SectionReader(bytes, MAGIC, 1);
+/** Restores either stored form: dense (format 1) or top-k per item (format 2). */
+export function loadEase(bytes: Uint8Array): EaseModel | EaseTopKModel {
+  const version = bytes.length >= 12 ? new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength).getUint32(8, true) : 1;
+  if (version === 2) {
+    const r = new SectionReader(bytes, EASE_MAGIC, 2);
+    const head = r.i32();
+    return new EaseTopKModel(head[0]!, r.i32(), r.i32(), r.i32(), r.f32());
+  }
+  const r = new SectionReader(bytes, EASE_MAGIC, 1);
   const head = r.i32();
   return new EaseModel(head[0]!, r.i32(), r.f32());
 }
 
-/** Fits EASE on an interaction matrix (customers × items). */
-export function fitEase(x: Csr, params: EaseParams = {}, o: FitOptions = {}): { model: EaseModel; report: FitReport } {
+/**
+ * Fits EASE on an interaction matrix (customers × items). `solver.invert` runs the inverse elsewhere
+ * than on this thread alone (services/train/ease-inverse-threads.ts: several threads, same result).
+ */
+export function fitEase(
+  x: Csr,
+  params: EaseParams = {},
+  o: FitOptions = {},
+  solver: Pick<EaseSolveHooks, 'invert'> = {},
+): { model: EaseModel; report: FitReport } {
   const start = performance.now();
   const lambda = params.lambda ?? EASE_DEFAULTS.lambda;
   const maxItems = params.maxItems ?? EASE_DEFAULTS.maxItems;
@@ -111,44 +130,19 @@ export function fitEase(x: Csr, params: EaseParams = {}, o: FitOptions = {}): { 
     for (let c = 0; c < x.cols; c++) kept[c] = c;
   }
   const m = kept.length;
-  const local = new Int32Array(x.cols).fill(-1);
-  for (let r = 0; r < m; r++) local[kept[r]!] = r;
-
-  // G = XᵀX + λI, accumulated row by row of X over pairs of the row's kept items (lower triangle).
-  const g = new Float64Array(m * m);
-  for (let u = 0; u < x.rows; u++) {
-    const s = x.indptr[u]!;
-    const e = x.indptr[u + 1]!;
-    for (let p = s; p < e; p++) {
-      const a = local[x.indices[p]!]!;
-      if (a < 0) continue;
-      const va = x.data[p]!;
-      const ra = a * m;
-      for (let q = s; q <= p; q++) {
-        const c = local[x.indices[q]!]!;
-        if (c >= 0) g[ra + c]! += va * x.data[q]!;
-      }
-    }
-  }
-  for (let a = 0; a < m; a++) g[a * m + a]! += lambda;
   if (o.signal?.aborted) throw new CancelledError();
-  // Symmetric result: lower and upper both hold P. Progress: one "iteration" per phase of the inverse.
-  const hooks: InverseHooks = {
+  // Progress: one "iteration" per phase of the inverse (Cholesky, L⁻¹, product), then the weights.
+  const b = easeWeights(x, kept, lambda, {
+    ...(o.signal && { signal: o.signal }),
+    ...(solver.invert && { invert: solver.invert }),
     onPhase: (phase, phases) => o.onIteration?.({ iteration: phase, iterations: phases + 1, elapsedMs: performance.now() - start }),
-  };
-  if (o.signal) hooks.signal = o.signal;
-  spdInverseInPlace(g, m, hooks);
-
-  const b = new Float32Array(m * m);
-  for (let r = 0; r < m; r++) {
-    for (let c = 0; c < m; c++) b[r * m + c] = r === c ? 0 : -g[r * m + c]! / g[c * m + c]!;
-  }
-  for (let k = 0; k < b.length; k++) {
-    if (!Number.isFinite(b[k]!)) throw new ModelFitError(`EASE weights are not finite at entry ${k}`);
-  }
+  });
   const elapsedMs = performance.now() - start;
   o.onIteration?.({ iteration: 4, iterations: 4, elapsedMs });
   notes.push(`EASE on ${m} items, ${nnz(x)} interactions, lambda ${lambda}`);
+  if (b.byteLength > EASE_DENSE_MAX_BYTES) {
+    notes.push(`EASE stored with the ${EASE_TOP_K} largest weights per item (dense weights would be ${(b.byteLength / 2 ** 30).toFixed(1)} GiB)`);
+  }
   return { model: new EaseModel(x.cols, kept, b), report: { kind: 'ease', elapsedMs, notes } };
 }
 

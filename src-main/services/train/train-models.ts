@@ -10,6 +10,7 @@ import { loadDataset } from '../../store/dataset.ts';
 import { erasureGeneration } from '../../store/erasure.ts';
 import { dataFingerprint, type ModelRecord } from '../../store/models.ts';
 import type { Db } from '../../store/workspace.ts';
+import { easeItemLimit, EASE_MAX_ITEMS } from './ease-limit.ts';
 import { fitEaseInThread } from './ease-thread.ts';
 import { defaultThreads, fitIalsThreaded } from './ials-threads.ts';
 
@@ -27,10 +28,11 @@ export interface TrainOptions {
 }
 
 /**
- * EASE's inverse is dense and its Cholesky costs n³/3: on a 2-core machine 5,000 items take tens of
- * seconds, so by default larger catalogues fit EASE on their 5,000 most active items (a note says so).
+ * EASE's inverse is dense (float32 WebAssembly SIMD, n³/2 multiply-adds: seconds at 5,000 items, minutes at
+ * 20,000), so by default catalogues above 20,000 items, or above what free memory holds (ease-limit.ts),
+ * fit EASE on their most active items (a note says so).
  */
-export const TRAIN_EASE_DEFAULTS: EaseParams = { maxItems: 5_000, restrict: true };
+export const TRAIN_EASE_DEFAULTS: EaseParams = { maxItems: EASE_MAX_ITEMS, restrict: true };
 
 export interface TrainProgress {
   stage: 'load' | 'matrix' | 'fit' | 'done';
@@ -120,9 +122,11 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
   // EASE's inverse is the longest single-threaded stage: with two or more threads it starts now in a
   // thread of its own and overlaps the other models (ease-thread.ts); it is collected in its turn.
   const p = opts.params ?? {};
-  const easeParams = { ...TRAIN_EASE_DEFAULTS, ...p.ease };
+  const limit = easeItemLimit();
+  const easeParams = { ...TRAIN_EASE_DEFAULTS, maxItems: limit.maxItems, ...p.ease };
+  const easeNotes = limit.note && p.ease?.maxItems === undefined && matrix.cols > limit.maxItems ? [limit.note] : [];
   const threads = opts.threads ?? defaultThreads();
-  const easeThread = kinds.includes('ease') && threads > 1 ? fitEaseInThread(matrix, easeParams) : null;
+  const easeThread = kinds.includes('ease') && threads > 1 ? fitEaseInThread(matrix, easeParams, threads) : null;
 
   const records: ModelRecord[] = [];
   const notes: string[] = [];
@@ -152,10 +156,13 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
       else if (kind === 'popularity') keep(kind, {}, fitPopularity(matrix));
       else if (kind === 'ease' && easeThread) {
         const fit = await easeThread.done;
-        keepBytes(kind, easeParams, fit.report, fit.bytes);
+        keepBytes(kind, easeParams, { ...fit.report, notes: [...easeNotes, ...fit.report.notes] }, fit.bytes);
         timings.push({ stage: kind, wallMs: fit.report.elapsedMs, cpuMs: fit.cpuMs, inThread: true });
         mark = { wall: performance.now(), cpu: cpuMs() }; // the wait is not a stage of this thread
-      } else if (kind === 'ease') keep(kind, easeParams, fitEase(matrix, easeParams));
+      } else if (kind === 'ease') {
+        const fit = fitEase(matrix, easeParams);
+        keep(kind, easeParams, { ...fit, report: { ...fit.report, notes: [...easeNotes, ...fit.report.notes] } });
+      }
       else {
         const fit = await fitIalsThreaded(matrix, p.ials ?? {}, {
           threads,

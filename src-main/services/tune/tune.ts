@@ -41,6 +41,9 @@ import {
 } from './grid.ts';
 import { validationSplit } from './split.ts';
 
+/** Largest catalogue whose EASE λ is searched (each fit costs n³/2: seconds here, minutes at 20,000). */
+const EASE_TUNE_MAX_ITEMS = 5000;
+
 export type TrialParams = Record<string, number | string>;
 
 export interface GridTrial {
@@ -106,8 +109,8 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   const truth = sampleTruth(evalTruth(train, validation), o.sampleCustomers ?? 1000, seededRng(seed));
   const ev = new RankingEvaluator(train, truth, k);
   if (ev.customerCount === 0) throw new InputError('no customer has both train history and new validation items: too little data to tune');
-  const useEase = ds.items.length <= (TRAIN_EASE_DEFAULTS.maxItems ?? 5000);
-  if (!useEase) notes.push(`EASE not tuned: ${ds.items.length} items (training restricts it to the most active items)`);
+  const useEase = ds.items.length <= EASE_TUNE_MAX_ITEMS;
+  if (!useEase) notes.push(`EASE not tuned: ${ds.items.length} items, above ${EASE_TUNE_MAX_ITEMS} (each fit would take minutes); it trains with the default lambda`);
 
   const fixed = o.fixed ?? {};
   const itemknn = withFixed(itemKnnTrials(), fixed.itemknn);

@@ -15,6 +15,7 @@ export const WORKERS: Record<string, string> = {
   'train-worker': 'src-main/services/train/train-worker.ts',
   'ials-worker': 'src-main/services/train/ials-worker.ts',
   'ease-worker': 'src-main/services/train/ease-worker.ts',
+  'ease-inverse-worker': 'src-main/services/train/ease-inverse-worker.ts',
   'offline-worker': 'src-main/services/tune/offline-worker.ts',
   'signal-worker': 'src-main/ingest/signal-worker.ts',
 };

@@ -69,7 +69,11 @@ export class BlendScorer {
       this.parts[0]!.scorer.scoreInto(u, history, out);
       return;
     }
-    const cols = this.columnsFor(u, history);
+    this.blendInto(this.columnsFor(u, history), out);
+  }
+
+  /** The blend of columns from `columnsFor`, into out. */
+  blendInto(cols: { parts: Float32Array[]; content: Float32Array | null }, out: Float32Array): void {
     blendColumnsInto(cols.parts, this.#weights, this.#cold, cols.content, out);
   }
 

@@ -1,6 +1,8 @@
 import { plural } from '../../core/util/plural.ts';
 import { CancelledError } from '../../core/errors.ts';
+import type { ValidatedBlend } from '../../core/eval/validated-blend.ts';
 import type { ModelKind } from '../../core/models/scorer.ts';
+import { BlendRepo } from '../../store/blends.ts';
 import { ModelRepo } from '../../store/models.ts';
 import type { JobBody } from '../jobs.ts';
 import type { Db } from '../../store/workspace.ts';
@@ -37,6 +39,8 @@ export interface TrainSummary {
   fingerprint: string;
   elapsedMs: number;
   notes: string[];
+  /** The validated blend stored with the models. */
+  blend?: ValidatedBlend;
 }
 
 /** Trains off-thread, then stores every model in one transaction (all become current, or none). */
@@ -48,8 +52,13 @@ export async function trainAndSave(
 ): Promise<TrainSummary> {
   const out = await trainAll(file, options, hooks);
   if (hooks.signal?.aborted) throw new CancelledError('training cancelled');
-  const ids = new ModelRepo(db, hooks.keepHistory ?? 1).saveAll(out.records);
-  return { ids, models: out.records.map((r) => r.kind), fingerprint: out.fingerprint, elapsedMs: out.elapsedMs, notes: out.notes };
+  // The models and the blend learned for them become current together, or nothing changes.
+  const ids = db.transaction(() => {
+    const saved = new ModelRepo(db, hooks.keepHistory ?? 1).saveAll(out.records);
+    if (out.blend) new BlendRepo(db).save(out.blend, out.fingerprint, saved);
+    return saved;
+  })();
+  return { ids, models: out.records.map((r) => r.kind), fingerprint: out.fingerprint, elapsedMs: out.elapsedMs, notes: out.notes, ...(out.blend && { blend: out.blend }) };
 }
 
 /**
@@ -60,6 +69,7 @@ export function trainJob(db: Db, file: string, options: TrainOptions = {}, hooks
   return async (report, signal) => {
     const s = await trainAndSave(db, file, options, { ...hooks, onProgress: report, signal });
     const notes = s.notes.length ? ` (${s.notes.length} notes)` : '';
-    return `trained ${plural(s.models.length, 'model')} in ${(s.elapsedMs / 1000).toFixed(1)} s${notes}`;
+    const hybrid = s.blend ? `; hybrid: ${s.blend.reason}` : '';
+    return `trained ${plural(s.models.length, 'model')} in ${(s.elapsedMs / 1000).toFixed(1)} s${notes}${hybrid}`;
   };
 }

@@ -7,7 +7,8 @@
 import { buildCurationContext, type CurationContext } from '../../core/curation/context.ts';
 import { signalsByCustomer } from '../../core/matrix/by-customer.ts';
 import { trendRatios } from '../../core/models/popularity.ts';
-import { HybridScorer, type HybridModels } from '../../core/scoring/index.ts';
+import type { Csr } from '../../core/matrix/csr.ts';
+import { HybridScorer, type BlendScorer, type HybridModels } from '../../core/scoring/index.ts';
 import type { Dataset } from '../../core/types.ts';
 import { loadDataset } from '../../store/dataset.ts';
 import type { Db } from '../../store/workspace.ts';
@@ -20,6 +21,11 @@ export interface CurationWorld {
   customersPerItem: Int32Array;
   /** Taste group of each dense customer (k-means over iALS customer factors), when discovered. */
   groups: Int32Array | undefined;
+  /**
+   * The validated blend (services/tune/blend.ts) with the interaction matrix it reads customers' histories
+   * from: what "relevance" means for an audience. null without trained models.
+   */
+  blend: { scorer: BlendScorer; history: Csr } | null;
   /** Signals by customer, CSR-like: the signals of customer u are bySignal[ptr[u] .. ptr[u + 1]). */
   byCustomer: { ptr: Int32Array; signal: Int32Array };
   /** Readings that depend only on the data and an argument (e.g. an audience's mix), keyed by it. */
@@ -32,7 +38,10 @@ export interface CurationWorld {
  * model is absent and the hybrid blends what needs no training (popularity, freshness): the components
  * it cannot use are dropped and the remaining weights renormalised (scoring/components.ts).
  */
-export type ModelSource = (db: Db, ds: Dataset) => { models: HybridModels; vectors?: { data: Float32Array; dim: number }; groups?: Int32Array };
+export type ModelSource = (
+  db: Db,
+  ds: Dataset,
+) => { models: HybridModels; vectors?: { data: Float32Array; dim: number }; groups?: Int32Array; blend?: { scorer: BlendScorer; history: Csr } | null };
 
 export const noModels: ModelSource = () => ({ models: { content: null, collaborative: null, affinity: null } });
 
@@ -114,7 +123,7 @@ export function loadWorld(db: Db, source: ModelSource = noModels): CurationWorld
   // signal), the reading for any edition dated after it; `trendFor` gives back-dated editions their own.
   const trend = ds.signals.length > 0 ? Float32Array.from(trendRatios(ds)) : null;
   const hybrid = new HybridScorer(m.models, { customersPerItem, trend, addedAt });
-  const world: CurationWorld = { ds, ctx, hybrid, customersPerItem, groups: m.groups, byCustomer, memo: new Map() };
+  const world: CurationWorld = { ds, ctx, hybrid, customersPerItem, groups: m.groups, blend: m.blend ?? null, byCustomer, memo: new Map() };
   bySource.set(source, { stamp: st, world });
   return world;
 }

@@ -109,7 +109,8 @@ function ownedOf(world: CurationWorld): Csr {
  * The validated relevance of every item any shelf could show at the date (NaN elsewhere), for this brief's
  * audience and anchors: the hybrid's relevance components only (anchor similarity by content and
  * collaborative models, and the validated blend for the audience), with the brief's relevance weights and
- * none of its dials, percentile-normalised over that universe. `best` prefixes the most relevant items'
+ * none of its dials, normalised over that universe as the world's hybrid normalises a pool (min–max: 0 = the
+ * least relevant item, 1 = the most). `best` prefixes the most relevant items'
  * sums: the price of the editor's choices is measured against them (core/curation/choice-cost.ts).
  * null when no model can say anything about relevance.
  */

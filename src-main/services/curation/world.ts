@@ -122,7 +122,11 @@ export function loadWorld(db: Db, source: ModelSource = noModels): CurationWorld
   // Trend at the end of the history (trendRatios' default: 14-day windows ending just after the latest
   // signal), the reading for any edition dated after it; `trendFor` gives back-dated editions their own.
   const trend = ds.signals.length > 0 ? Float32Array.from(trendRatios(ds)) : null;
-  const hybrid = new HybridScorer(m.models, { customersPerItem, trend, addedAt });
+  // Min–max within the pool, not percentiles: the validated relevance of a pool's best few hundred items
+  // differs by tenths, which percentiles flatten to 0.99-and-up, and the fill's MMR then trades that
+  // flattened relevance for variety alone (a 'bought indoor plants' shelf opened with a fire bowl, a watering
+  // timer and a butterfly bush; with min–max it opens with palms, pots and saucers at 1% of relevance).
+  const hybrid = new HybridScorer(m.models, { customersPerItem, trend, addedAt }, { normalisation: 'minmax' });
   const world: CurationWorld = { ds, ctx, hybrid, customersPerItem, groups: m.groups, blend: m.blend ?? null, byCustomer, memo: new Map() };
   bySource.set(source, { stamp: st, world });
   return world;

@@ -195,8 +195,12 @@ export function recommend(db: Db, o: RecommendOptions): RecommendReport {
 function explain(blend: BlendScorer, cols: { parts: Float32Array[]; content: Float32Array | null } | null, i: number, score: number): Record<BlendModel, number> {
   const out = Object.fromEntries(BLEND_MODELS.map((m) => [m, 0])) as Record<BlendModel, number>;
   if (!cols) out[blend.parts[0]!.model] = round6(score);
-  else if (cols.content && blend.isCold(i)) out.content = round6(cols.content[i]!);
-  else blend.parts.forEach((p, q) => (out[p.model] = round6(p.weight * cols.parts[q]![i]!)));
+  else {
+    // A cold item: each part shrunk by (1 − share), content's share added on top.
+    const share = cols.content && blend.isCold(i) ? (blend.spec.coldShare ?? 1) : 0;
+    blend.parts.forEach((p, q) => (out[p.model] = round6((1 - share) * p.weight * cols.parts[q]![i]!)));
+    if (share > 0) out.content = round6(out.content + share * cols.content![i]!);
+  }
   return out;
 }
 

@@ -36,5 +36,8 @@ describe('blendColumnsInto', () => {
     const out = new Float32Array(3);
     blendColumnsInto([content, collab], [0.25, 0.75], Uint8Array.from([0, 0, 1]), content, out);
     expect(Array.from(out)).toEqual([0.25 + 7.5, 0.5 + 15, 3]);
+    // Half way: 0.5 · 3 + 0.5 · (0.75 + 22.5).
+    blendColumnsInto([content, collab], [0.25, 0.75], Uint8Array.from([0, 0, 1]), content, out, 0.5);
+    expect(out[2]).toBeCloseTo(0.5 * 3 + 0.5 * 23.25, 5);
   });
 });

@@ -10,8 +10,9 @@
  * improves NDCG@K by more than 1e-9. A blend is therefore only ever chosen when it scores strictly higher
  * on validation than the best single model: never worse than its best part on validation, by construction.
  * It runs once per normalisation (z-score, rank) and keeps the better. The content path for cold items
- * (items with fewer than `coldMinCustomers` customers take the content model's normalised score) is kept
- * when it costs nothing on validation, and dropped when it would make the result worse.
+ * (items with fewer than `coldMinCustomers` customers move to the content model's normalised score, by a
+ * share of 1, 0.5 or 0.25) is kept at the strongest share that costs nothing on validation, and dropped
+ * when every share would make the result worse.
  *
  * Cost: each customer's normalised columns are computed once per normalisation (customers × models ×
  * items float32, which the caller bounds by sampling customers); each trial then re-blends and re-ranks.
@@ -43,9 +44,14 @@ export interface BlendSpec {
   normalisation: CustomerNormalisation;
   /** Weight of each model in the blend, summing to 1 (a single model: that model at 1). */
   weights: Partial<Record<BlendModel, number>>;
-  /** Cold items take the content model's normalised score. */
+  /** Cold items take (a share of) the content model's normalised score. */
   coldContent: boolean;
+  /** That share, in (0, 1]: cold score = share·content + (1 − share)·blend. Absent = 1 (stored before shares). */
+  coldShare?: number;
 }
+
+/** Content-path shares tried, strongest first: the strongest that costs nothing on validation is kept. */
+export const COLD_SHARES = [1, 0.5, 0.25] as const;
 
 export interface ValidatedBlend extends BlendSpec {
   /** False when too few validation customers: the result is the best single model, unvalidated. */
@@ -82,7 +88,8 @@ export interface ValidatedBlendOptions {
 
 /** A blend spec in words: "is item-kNN" or "0.6 item-kNN + 0.4 iALS (z-score)". */
 export function describeBlend(b: BlendSpec): string {
-  const cold = b.coldContent ? ', content for cold items' : '';
+  const share = b.coldShare ?? 1;
+  const cold = b.coldContent ? (share === 1 ? ', content for cold items' : `, content at ${share} for cold items`) : '';
   if (b.kind === 'single') return `is ${b.model}${cold}`;
   const parts = BLEND_MODELS.filter((m) => (b.weights[m] ?? 0) > 0).map((m) => `${round(b.weights[m]!)} ${m}`);
   return `${parts.join(' + ')} (${b.normalisation === 'zscore' ? 'z-scores' : 'ranks'} per customer${cold})`;
@@ -105,12 +112,13 @@ export function validateBlend(
   let best = singles[0]!;
   for (const s of singles) if (s.ndcg > best.ndcg + 1e-9 || (Number.isNaN(best.ndcg) && !Number.isNaN(s.ndcg))) best = s;
   if (customers === 0) best = { model: PRIOR_ORDER.find((m) => ordered.some((x) => x.name === m))!, ndcg: Number.NaN };
-  const single = (validated: boolean, reason: string, coldContent = false, ndcg = best.ndcg, trials = singles.length): ValidatedBlend => ({
+  const single = (validated: boolean, reason: string, coldShare = 0, ndcg = best.ndcg, trials = singles.length): ValidatedBlend => ({
     kind: 'single',
     model: best.model,
     normalisation: 'zscore',
     weights: { [best.model]: 1 },
-    coldContent,
+    coldContent: coldShare > 0,
+    ...(coldShare > 0 && { coldShare }),
     validated,
     validation: { k, customers, ndcg, singles, bestSingle: best.model, trials },
     reason,
@@ -140,7 +148,7 @@ export function validateBlend(
   const views: Float32Array[] = new Array<Float32Array>(M);
   let trials = singles.length;
 
-  interface Outcome { weights: Float64Array; coldContent: boolean; ndcg: number; normalisation: CustomerNormalisation }
+  interface Outcome { weights: Float64Array; coldShare: number; ndcg: number; normalisation: CustomerNormalisation }
   let winner: Outcome | null = null;
   for (const how of options.normalisations ?? CUSTOMER_NORMALISATIONS) {
     // Each customer's normalised columns, once.
@@ -153,25 +161,30 @@ export function validateBlend(
         normaliseForCustomer(how, raw, hist, cols.subarray((c * M + m) * N, (c * M + m + 1) * N), scratch);
       }
     }
-    const measure = (w: Float64Array, withCold: boolean): EvalResult => {
+    const measure = (w: Float64Array, share: number): EvalResult => {
       trials++;
       return evaluator.evaluateFill('hybrid', (_u, c, out) => {
         for (let m = 0; m < M; m++) views[m] = cols.subarray((c * M + m) * N, (c * M + m + 1) * N);
-        blendColumnsInto(views, w, withCold ? cold : null, withCold ? views[contentAt]! : null, out);
+        blendColumnsInto(views, w, share > 0 ? cold : null, share > 0 ? views[contentAt]! : null, out, share);
       });
+    };
+    // The strongest content path for cold items that costs nothing against `score`, else none.
+    const coldPath = (w: Float64Array): number => {
+      if (!cold) return 0;
+      for (const share of COLD_SHARES) {
+        const r = measure(w, share);
+        if (r.ndcg >= score) {
+          score = r.ndcg;
+          return share;
+        }
+      }
+      return 0;
     };
     let w: Float64Array = new Float64Array(M);
     w[bestAt] = 1;
     let score = best.ndcg; // the raw single model's, as `evaluate` shows it
     // The content path for cold items is kept unless it makes the single model worse.
-    let withCold = false;
-    if (cold) {
-      const r = measure(w, true);
-      if (r.ndcg >= score) {
-        withCold = true;
-        score = r.ndcg;
-      }
-    }
+    let withCold = coldPath(w);
     for (;;) {
       let step: { w: Float64Array; ndcg: number } | null = null as { w: Float64Array; ndcg: number } | null;
       for (let m = 0; m < M; m++) {
@@ -187,21 +200,15 @@ export function validateBlend(
       w = step.w;
       score = step.ndcg;
     }
-    if (cold && !withCold && w[bestAt]! < 1) {
-      // A blend found without the content path: keep the path too if it costs nothing.
-      const r = measure(w, true);
-      if (r.ndcg >= score) {
-        withCold = true;
-        score = r.ndcg;
-      }
-    }
-    if (!winner || score > winner.ndcg + 1e-9) winner = { weights: w, coldContent: withCold, ndcg: score, normalisation: how };
+    // A blend found without the content path: keep a path too if it costs nothing.
+    if (withCold === 0 && w[bestAt]! < 1) withCold = coldPath(w);
+    if (!winner || score > winner.ndcg + 1e-9) winner = { weights: w, coldShare: withCold, ndcg: score, normalisation: how };
   }
   const o = winner!;
   if (o.weights[bestAt] === 1) {
-    const path = o.coldContent ? '; cold items keep a content path' : '';
+    const path = o.coldShare > 0 ? `; cold items keep a content path${o.coldShare < 1 ? ` (share ${o.coldShare})` : ''}` : '';
     return {
-      ...single(true, `no blend beat ${best.model} on validation, so the hybrid is ${best.model}${path}`, o.coldContent, o.ndcg, trials),
+      ...single(true, `no blend beat ${best.model} on validation, so the hybrid is ${best.model}${path}`, o.coldShare, o.ndcg, trials),
       normalisation: o.normalisation,
     };
   }
@@ -209,7 +216,14 @@ export function validateBlend(
   ordered.forEach((m, q) => {
     if (o.weights[q]! > 0) weights[m.name] = o.weights[q]!;
   });
-  const spec: BlendSpec = { kind: 'blend', model: null, normalisation: o.normalisation, weights, coldContent: o.coldContent };
+  const spec: BlendSpec = {
+    kind: 'blend',
+    model: null,
+    normalisation: o.normalisation,
+    weights,
+    coldContent: o.coldShare > 0,
+    ...(o.coldShare > 0 && { coldShare: o.coldShare }),
+  };
   return {
     ...spec,
     validated: true,

@@ -74,7 +74,7 @@ export class BlendScorer {
 
   /** The blend of columns from `columnsFor`, into out. */
   blendInto(cols: { parts: Float32Array[]; content: Float32Array | null }, out: Float32Array): void {
-    blendColumnsInto(cols.parts, this.#weights, this.#cold, cols.content, out);
+    blendColumnsInto(cols.parts, this.#weights, this.#cold, cols.content, out, this.spec.coldShare ?? 1);
   }
 
   /**

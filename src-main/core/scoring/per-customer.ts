@@ -65,9 +65,10 @@ export function normaliseForCustomer(
 }
 
 /**
- * The blend of normalised columns: out[i] = Σ_m w_m · col_m[i], with `cold` items (mask 1) taking the
- * content column's value instead (the content path of items too new to have collaborative evidence).
- * `columns[m]` is a view of length n; `contentColumn` is null when there is no content model.
+ * The blend of normalised columns: out[i] = Σ_m w_m · col_m[i], with `cold` items (mask 1) moved towards the
+ * content column's value, share·content + (1 − share)·blend (the content path of items too new to have
+ * collaborative evidence; share 1 replaces the blend). `columns[m]` is a view of length n; `contentColumn`
+ * is null when there is no content model.
  */
 export function blendColumnsInto(
   columns: readonly Float32Array[],
@@ -75,6 +76,7 @@ export function blendColumnsInto(
   cold: Uint8Array | null,
   contentColumn: Float32Array | null,
   out: Float32Array,
+  share = 1,
 ): void {
   const n = out.length;
   out.fill(0);
@@ -84,5 +86,5 @@ export function blendColumnsInto(
     const col = columns[m]!;
     for (let i = 0; i < n; i++) out[i]! += w * col[i]!;
   }
-  if (cold && contentColumn) for (let i = 0; i < n; i++) if (cold[i]) out[i] = contentColumn[i]!;
+  if (cold && contentColumn && share > 0) for (let i = 0; i < n; i++) if (cold[i]) out[i] = share * contentColumn[i]! + (1 - share) * out[i]!;
 }

@@ -10,9 +10,7 @@ import { IalsModel } from '../../core/models/ials.ts';
 import { seededRng } from '../../core/rng.ts';
 import type { Dataset } from '../../core/types.ts';
 import type { Db } from '../../store/workspace.ts';
-import type { Csr } from '../../core/matrix/csr.ts';
-import type { BlendScorer } from '../../core/scoring/index.ts';
-import { loadTrainedModels } from '../holdout/trained.ts';
+import { blendOf } from '../holdout/trained.ts';
 import { loadCurrentModels } from '../propose.ts';
 import type { ModelSource } from './world.ts';
 
@@ -47,16 +45,10 @@ function groupsFor(ds: Dataset, r: KMeansResult): Int32Array {
   return out;
 }
 
-/** The validated blend over the current models, for audiences' relevance; null without trained models. */
-export function blendOf(db: Db, ds: Dataset): { scorer: BlendScorer; history: Csr } | null {
-  const t = loadTrainedModels(db, ds);
-  return t.blend ? { scorer: t.blend, history: t.matrix } : null;
-}
-
 export const curationModelSource: ModelSource = (db, ds) => {
   const loaded = loadCurrentModels(db, ds);
   const ials = ialsOf(db, ds);
-  const blend = blendOf(db, ds);
+  const blend = () => blendOf(db, ds);
   if (!ials || ials.customerCount < GROUP_COUNT) return { models: loaded.models, blend };
   return {
     models: loaded.models,

@@ -23,9 +23,10 @@ export interface CurationWorld {
   groups: Int32Array | undefined;
   /**
    * The validated blend (services/tune/blend.ts) with the interaction matrix it reads customers' histories
-   * from: what "relevance" means for an audience. null without trained models.
+   * from: what "relevance" means for an audience. null without trained models. Loaded on first use (it
+   * builds the interaction matrix), so a world that never reads an audience never pays for it.
    */
-  blend: { scorer: BlendScorer; history: Csr } | null;
+  readonly blend: BlendRef | null;
   /** Signals by customer, CSR-like: the signals of customer u are bySignal[ptr[u] .. ptr[u + 1]). */
   byCustomer: { ptr: Int32Array; signal: Int32Array };
   /** Readings that depend only on the data and an argument (e.g. an audience's mix), keyed by it. */
@@ -38,10 +39,15 @@ export interface CurationWorld {
  * model is absent and the hybrid blends what needs no training (popularity, freshness): the components
  * it cannot use are dropped and the remaining weights renormalised (scoring/components.ts).
  */
+export interface BlendRef {
+  scorer: BlendScorer;
+  history: Csr;
+}
+
 export type ModelSource = (
   db: Db,
   ds: Dataset,
-) => { models: HybridModels; vectors?: { data: Float32Array; dim: number }; groups?: Int32Array; blend?: { scorer: BlendScorer; history: Csr } | null };
+) => { models: HybridModels; vectors?: { data: Float32Array; dim: number }; groups?: Int32Array; blend?: () => BlendRef | null };
 
 export const noModels: ModelSource = () => ({ models: { content: null, collaborative: null, affinity: null } });
 
@@ -127,7 +133,20 @@ export function loadWorld(db: Db, source: ModelSource = noModels): CurationWorld
   // flattened relevance for variety alone (a 'bought indoor plants' shelf opened with a fire bowl, a watering
   // timer and a butterfly bush; with min–max it opens with palms, pots and saucers at 1% of relevance).
   const hybrid = new HybridScorer(m.models, { customersPerItem, trend, addedAt }, { normalisation: 'minmax' });
-  const world: CurationWorld = { ds, ctx, hybrid, customersPerItem, groups: m.groups, blend: m.blend ?? null, byCustomer, memo: new Map() };
+  let blend: BlendRef | null | undefined;
+  const world: CurationWorld = {
+    ds,
+    ctx,
+    hybrid,
+    customersPerItem,
+    groups: m.groups,
+    get blend() {
+      if (blend === undefined) blend = m.blend ? m.blend() : null;
+      return blend;
+    },
+    byCustomer,
+    memo: new Map(),
+  };
   bySource.set(source, { stamp: st, world });
   return world;
 }

@@ -97,6 +97,12 @@ export function loadTrainedModels(db: Db, ds: Dataset): TrainedModels {
   return { matrix, scorers, blend, blendInfo: spec, weightsFrom: `${describeBlend(spec)}${spec.validated ? '' : ', not validated'}`, date, notes };
 }
 
+/** The validated blend over the current models, for audiences' relevance (the curation world); null without models. */
+export function blendOf(db: Db, ds: Dataset): { scorer: BlendScorer; history: Csr } | null {
+  const t = loadTrainedModels(db, ds);
+  return t.blend ? { scorer: t.blend, history: t.matrix } : null;
+}
+
 /** Customers per item (stored entries per column). */
 export function columnCounts(m: Csr): Int32Array {
   const out = new Int32Array(m.cols);

@@ -5,11 +5,12 @@ import { createHandlerTable, invoke } from '../../src-main/api/handler-table.ts'
 import type { ShelfView } from '../../src-main/api/contracts/curation.ts';
 import { IalsModel, loadIals } from '../../src-main/core/models/ials.ts';
 import type { Brief } from '../../src-main/core/curation/types.ts';
+import { parseBrief } from '../../src-main/core/editing/brief-schema.ts';
 import { audienceAffinityInto } from '../../src-main/core/scoring/index.ts';
 import { AppContext } from '../../src-main/services/context.ts';
 import { ownedMatrix } from '../../src-main/services/holdout/trained.ts';
 import { curationModelSource } from '../../src-main/services/curation/model-source.ts';
-import { audienceAffinityOf } from '../../src-main/services/curation/shelf-fill.ts';
+import { audienceAffinityOf, validatedRelevance } from '../../src-main/services/curation/shelf-fill.ts';
 import { loadWorld } from '../../src-main/services/curation/world.ts';
 import { trainAndSave } from '../../src-main/services/train/train-job.ts';
 import { ModelRepo } from '../../src-main/store/models.ts';
@@ -72,6 +73,17 @@ describe('the curation world follows training (issue 5)', () => {
     const front = (await call('shelf.fill', { edition: 'w', shelf: 'Front' })) as ShelfView;
     expect(front.slots.some((s) => (s.contributions['audience'] ?? 0) > 0)).toBe(true);
     expect(front.slots.some((s) => (s.contributions['trend'] ?? 0) > 0)).toBe(true);
+    // The price of the editor's choices (issue 10 item 4): a number in [0, 1] once models are trained;
+    // boosting the least relevant item of the pool into the list, and pinning it first, can only raise it.
+    const price = front.meter.choiceCost!;
+    expect(price).toBeGreaterThanOrEqual(0);
+    expect(price).toBeLessThanOrEqual(1);
+    const world = loadWorld(app!.db, curationModelSource);
+    const v = validatedRelevance(world, parseBrief({ size: 6 }), Date.parse('2026-03-02'))!;
+    const worst = [...v.relevance.keys()].filter((i) => !Number.isNaN(v.relevance[i]!)).sort((a, b) => v.relevance[a]! - v.relevance[b]!)[0]!;
+    const action = { kind: 'pin', slot: 1, item: world.ds.items[worst]!.externalId };
+    const pinned = (await call('shelf.act', { edition: 'w', shelf: 'Front', action })) as ShelfView;
+    expect(pinned.meter.choiceCost!).toBeGreaterThan(price);
   });
 
   it('rebuilds the world again after a retrain, with the new model', async () => {

@@ -7,8 +7,10 @@
  * Search: greedy forward selection (common practice, no source). It starts from the best single model,
  * measured raw by the evaluator exactly as `evaluate` measures it. Each step tries mixing one model not yet
  * in the blend into it, w ← (1 − α)·w + α·e_m for α in `alphas`, keeps the best, and stops when no mix
- * improves NDCG@K by more than 1e-9. A blend is therefore only ever chosen when it scores strictly higher
- * on validation than the best single model: never worse than its best part on validation, by construction.
+ * improves NDCG@K by more than 1e-9. The blend found is kept only when its paired per-customer gain over the
+ * best single model exceeds one standard error (the one-standard-error rule); otherwise the hybrid is that
+ * model. A blend is therefore only ever chosen when it scores higher on validation than the best single
+ * model: never worse than its best part on validation, by construction.
  * It runs once per normalisation (z-score, rank) and keeps the better. The content path for cold items
  * (items with fewer than `coldMinCustomers` customers move to the content model's normalised score, by a
  * share of 1, 0.5 or 0.25) is kept at the strongest share that costs nothing on validation, and dropped
@@ -108,7 +110,11 @@ export function validateBlend(
   const minCustomers = options.minCustomers ?? MIN_BLEND_CUSTOMERS;
   const k = evaluator.k;
   const customers = evaluator.customerCount;
-  const singles = ordered.map((m) => ({ model: m.name, ndcg: customers > 0 ? evaluator.evaluate(m.scorer).ndcg : Number.NaN }));
+  const perSingle = ordered.map(() => new Float64Array(customers));
+  const singles = ordered.map((m, q) => ({
+    model: m.name,
+    ndcg: customers > 0 ? evaluator.evaluateFill(m.name, (u, _c, out) => m.scorer.scoreInto(u, history, out), perSingle[q]).ndcg : Number.NaN,
+  }));
   let best = singles[0]!;
   for (const s of singles) if (s.ndcg > best.ndcg + 1e-9 || (Number.isNaN(best.ndcg) && !Number.isNaN(s.ndcg))) best = s;
   if (customers === 0) best = { model: PRIOR_ORDER.find((m) => ordered.some((x) => x.name === m))!, ndcg: Number.NaN };
@@ -149,6 +155,9 @@ export function validateBlend(
   let trials = singles.length;
 
   interface Outcome { weights: Float64Array; coldShare: number; ndcg: number; normalisation: CustomerNormalisation }
+  const bestPer = perSingle[bestAt]!;
+  const blendPer = new Float64Array(customers);
+  let guarded: { gain: number; se: number } | null = null;
   let winner: Outcome | null = null;
   for (const how of options.normalisations ?? CUSTOMER_NORMALISATIONS) {
     // Each customer's normalised columns, once.
@@ -185,6 +194,8 @@ export function validateBlend(
     let score = best.ndcg; // the raw single model's, as `evaluate` shows it
     // The content path for cold items is kept unless it makes the single model worse.
     let withCold = coldPath(w);
+    const startCold = withCold;
+    const startScore = score;
     for (;;) {
       let step: { w: Float64Array; ndcg: number } | null = null as { w: Float64Array; ndcg: number } | null;
       for (let m = 0; m < M; m++) {
@@ -202,13 +213,35 @@ export function validateBlend(
     }
     // A blend found without the content path: keep a path too if it costs nothing.
     if (withCold === 0 && w[bestAt]! < 1) withCold = coldPath(w);
+    if (w[bestAt]! < 1) {
+      // The one-standard-error rule (Hastie, Tibshirani & Friedman, The Elements of Statistical Learning,
+      // 2nd ed., §7.10): prefer the simpler model unless the richer one wins by more than one standard error.
+      // Here the gain is paired per customer, blend minus the best single model alone; a gain within its
+      // standard error is noise that a later window need not repeat, and the hybrid stays that model.
+      trials++;
+      evaluator.evaluateFill('hybrid', (_u, c, out) => {
+        for (let m = 0; m < M; m++) views[m] = cols.subarray((c * M + m) * N, (c * M + m + 1) * N);
+        blendColumnsInto(views, w, withCold > 0 ? cold : null, withCold > 0 ? views[contentAt]! : null, out, withCold);
+      }, blendPer);
+      const { mean, se } = pairedGain(blendPer, bestPer);
+      if (!(mean > se)) {
+        guarded = { gain: mean, se };
+        w = new Float64Array(M);
+        w[bestAt] = 1;
+        withCold = startCold;
+        score = startScore;
+      }
+    }
     if (!winner || score > winner.ndcg + 1e-9) winner = { weights: w, coldShare: withCold, ndcg: score, normalisation: how };
   }
   const o = winner!;
   if (o.weights[bestAt] === 1) {
     const path = o.coldShare > 0 ? `; cold items keep a content path${o.coldShare < 1 ? ` (share ${o.coldShare})` : ''}` : '';
+    const why = guarded
+      ? `no blend beat ${best.model} on validation by more than its standard error (best gain ${guarded.gain.toFixed(4)} ± ${guarded.se.toFixed(4)} NDCG@${k})`
+      : `no blend beat ${best.model} on validation`;
     return {
-      ...single(true, `no blend beat ${best.model} on validation, so the hybrid is ${best.model}${path}`, o.coldShare, o.ndcg, trials),
+      ...single(true, `${why}, so the hybrid is ${best.model}${path}`, o.coldShare, o.ndcg, trials),
       normalisation: o.normalisation,
     };
   }
@@ -230,4 +263,15 @@ export function validateBlend(
     validation: { k, customers, ndcg: o.ndcg, singles, bestSingle: best.model, trials },
     reason: `${describeBlend(spec)}: NDCG@${k} ${o.ndcg.toFixed(4)} on validation against ${best.ndcg.toFixed(4)} for ${best.model} alone`,
   };
+}
+
+/** Mean and standard error of the paired differences a − b (per customer). */
+function pairedGain(a: Float64Array, b: Float64Array): { mean: number; se: number } {
+  const n = a.length;
+  let s = 0;
+  for (let c = 0; c < n; c++) s += a[c]! - b[c]!;
+  const mean = s / n;
+  let ss = 0;
+  for (let c = 0; c < n; c++) ss += (a[c]! - b[c]! - mean) ** 2;
+  return { mean, se: n > 1 ? Math.sqrt(ss / (n - 1) / n) : Infinity };
 }

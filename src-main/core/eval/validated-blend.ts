@@ -211,6 +211,26 @@ export function validateBlend(
       w = step.w;
       score = step.ndcg;
     }
+    // Refinement: forward selection fixes each weight when its model joins; a few coordinate moves (each
+    // member's weight halved or 1.5×, then renormalised) let earlier weights follow later members.
+    for (let round = 0; round < 2 && w[bestAt]! < 1; round++) {
+      let moved = false;
+      for (let m = 0; m < M; m++) {
+        if (!(w[m]! > 0)) continue;
+        for (const f of [0.5, 1.5]) {
+          const t = Float64Array.from(w, (x, q) => (q === m ? x * f : x));
+          const total = t.reduce((a, b) => a + b, 0);
+          for (let q = 0; q < M; q++) t[q]! /= total;
+          const r = measure(t, withCold);
+          if (r.ndcg > score + 1e-9) {
+            w = t;
+            score = r.ndcg;
+            moved = true;
+          }
+        }
+      }
+      if (!moved) break;
+    }
     // A blend found without the content path: keep a path too if it costs nothing.
     if (withCold === 0 && w[bestAt]! < 1) withCold = coldPath(w);
     if (w[bestAt]! < 1) {

@@ -1,6 +1,15 @@
-import type { BlendWeights } from '../core/curation/types.ts';
 import { InputError } from '../core/errors.ts';
-import { customersPerItem, evalTruth, RankingEvaluator, sampleTruth, searchBlendWeights, type EvalResult } from '../core/eval/index.ts';
+import {
+  customersPerItem,
+  evalTruth,
+  RankingEvaluator,
+  sampleTruth,
+  validateBlend,
+  type BlendModel,
+  type BlendModelInput,
+  type EvalResult,
+  type ValidatedBlend,
+} from '../core/eval/index.ts';
 import { buildInteractionMatrix, type BuildOptions } from '../core/matrix/build.ts';
 import type { Csr } from '../core/matrix/csr.ts';
 import { quantileCuts, splitByTime, type TimeCuts } from '../core/matrix/split.ts';
@@ -9,10 +18,10 @@ import { fitEase, type EaseParams } from '../core/models/ease.ts';
 import { fitIals } from '../core/models/ials.ts';
 import type { IalsParams } from '../core/models/ials-params.ts';
 import { fitItemKnn, type ItemKnnParams } from '../core/models/itemknn.ts';
-import { fitPopularity, randomScorer, trendRatios } from '../core/models/popularity.ts';
+import { fitPopularity, randomScorer } from '../core/models/popularity.ts';
 import type { Scorer } from '../core/models/scorer.ts';
 import { seededRng } from '../core/rng.ts';
-import { CustomerHybrid, HybridScorer } from '../core/scoring/index.ts';
+import { BlendScorer } from '../core/scoring/blend-scorer.ts';
 import type { Dataset } from '../core/types.ts';
 import { loadDataset } from '../store/dataset.ts';
 import { ModelRepo } from '../store/models.ts';
@@ -26,23 +35,21 @@ export interface EvaluateOptions {
   seed?: number;
   /** Split cuts; default the last 10% of timed signals is test and the 10% before it validation. */
   cuts?: TimeCuts;
-  /** Which model supplies the hybrid's collaborative similarity. Default item-kNN. */
-  collaborative?: 'itemknn' | 'ease' | 'ials';
   /** Leave EASE out (large catalogues: its inverse is dense). Default: in when items <= 5,000. */
   ease?: boolean;
   params?: { content?: ContentParams; itemknn?: ItemKnnParams; ease?: EaseParams; ials?: Partial<IalsParams> };
   matrix?: Omit<BuildOptions, 'rows' | 'window'>;
-  /** Blend-search grid (see searchBlendWeights). */
-  grid?: readonly number[];
   signal?: AbortSignal;
 }
 
 export interface WorkspaceEvaluation {
   k: number;
   split: { validationFrom: number; testFrom: number; train: number; validation: number; test: number };
-  /** Chosen on the validation window. */
-  weights: BlendWeights;
-  validation: { hybrid: EvalResult; trials: number; searchMs: number };
+  /** The hybrid's weight of each model, chosen on the validation window (one model at 1: the hybrid is that model). */
+  weights: Partial<Record<BlendModel, number>>;
+  /** What the hybrid is and why, in words ("no blend beat itemknn on validation, so the hybrid is itemknn"). */
+  hybrid: string;
+  validation: { blend: ValidatedBlend; trials: number; searchMs: number };
   /** One row per model on the test window, best NDCG first: single models, the hybrid, the baselines. */
   test: EvalResult[];
   fits: { model: string; elapsedMs: number; notes: string[] }[];
@@ -58,7 +65,8 @@ export function evaluateWorkspace(db: Db, options: EvaluateOptions = {}): Worksp
  * Offline evaluation of every model, the hybrid and two baselines on a global temporal split
  * (train | validation | test, split.ts):
  * 1. learned models (content, item-kNN, EASE, iALS) are fitted on train only;
- * 2. the hybrid's blend weights are searched on validation, with train as each customer's history;
+ * 2. the validated blend (core/eval/validated-blend.ts) is chosen on validation over every model, with
+ *    train as each customer's history (popularity counted on train);
  * 3. everything is measured on test, with train + validation as history: those items are excluded from
  *    the lists and read by history-based scorers (item-kNN, content, EASE); iALS keeps its train factors.
  * Counting components (popularity, trend, the cold-start test) and the popularity baseline read all
@@ -99,34 +107,27 @@ export function evaluateDataset(ds: Dataset, options: EvaluateOptions = {}): Wor
   if (useEase) models.set('ease', record('ease', fitEase(train, options.params?.ease, fitOpts)));
   else notes.push(`EASE left out: ${ds.items.length} items (its dense inverse is costly above 5,000)`);
   models.set('ials', record('ials', fitIals(train, { seed, ...options.params?.ials }, fitOpts)));
-  const collabName = options.collaborative ?? 'itemknn';
-  const collaborative = models.get(collabName);
-  if (!collaborative) throw new InputError(`collaborative model '${collabName}' was not fitted`);
 
-  const addedAt = Float64Array.from(ds.items, (it) => it.addedAt ?? Number.NaN);
-  const hybridFor = (history: Csr, date: number): CustomerHybrid => {
-    const h = new HybridScorer(
-      { content: models.get('content')!, collaborative, affinity: models.get('ials')! },
-      { customersPerItem: customersPerItem(history), trend: Float32Array.from(trendRatios(ds, { now: date })), addedAt },
-    );
-    return new CustomerHybrid(h, history, date);
-  };
-
-  // Validation: choose the blend weights.
+  // Validation: the validated blend over every model (services/tune/blend.ts does the same for training).
   const valEval = new RankingEvaluator(train, sampleTruth(evalTruth(train, validation), cap, seededRng(seed)), k);
   if (valEval.customerCount === 0) throw new InputError('no customer has both history and new items in the validation window');
-  const search = searchBlendWeights(valEval, hybridFor(train, cuts.validationFrom), options.grid ? { grid: options.grid } : {});
+  const t0 = performance.now();
+  const inputs: BlendModelInput[] = [...models].map(([name, m]) => ({ name: name as BlendModel, scorer: { name, scoreInto: (u, h, out) => m.scoreInto(u, h, out) } }));
+  const trainPopularity = fitPopularity(train).model;
+  inputs.push({ name: 'popularity', scorer: { name: 'popularity', scoreInto: (u, h, out) => trainPopularity.scoreInto(u, h, out) } });
+  const blend = validateBlend(valEval, train, inputs, { customersPerItem: customersPerItem(train) });
+  const searchMs = performance.now() - t0;
+  if (!blend.validated) notes.push(blend.reason);
 
-  // Test: every model, the hybrid with the chosen weights, and the baselines, on one customer sample.
+  // Test: every model, the hybrid as chosen, and the baselines, on one customer sample.
   const testEval = new RankingEvaluator(trainVal, sampleTruth(evalTruth(trainVal, test), cap, seededRng(seed + 1)), k);
   if (testEval.customerCount === 0) throw new InputError('no customer has both history and new items in the test window');
   const rows: EvalResult[] = [];
   for (const [name, model] of models) rows.push(testEval.evaluate({ name, scoreInto: (u, h, out) => model.scoreInto(u, h, out) }));
-  const testHybrid = hybridFor(trainVal, cuts.testFrom);
-  const eff = testHybrid.effective(search.weights);
-  testHybrid.precompute(testEval.customers);
-  rows.push(testEval.evaluateFill('hybrid', (_u, c, out) => testHybrid.blendCached(c, eff, out)));
   const popularity = fitPopularity(trainVal).model;
+  // The hybrid on test reads the learned models fitted on train and the counts of train + validation.
+  const served = new BlendScorer(blend, new Map<string, Scorer>([...models, ['popularity', popularity]]), customersPerItem(trainVal));
+  rows.push(testEval.evaluate(served));
   rows.push(testEval.evaluate({ name: 'popularity', scoreInto: (u, h, out) => popularity.scoreInto(u, h, out) }));
   const random = randomScorer(seed, ds.items.length);
   rows.push(testEval.evaluate({ name: 'random', scoreInto: (u, h, out) => random.scoreInto(u, h, out) }));
@@ -141,8 +142,9 @@ export function evaluateDataset(ds: Dataset, options: EvaluateOptions = {}): Wor
       validation: split.validation.length,
       test: split.test.length,
     },
-    weights: search.weights,
-    validation: { hybrid: search.result, trials: search.trials.length, searchMs: search.elapsedMs },
+    weights: { ...blend.weights },
+    hybrid: blend.reason,
+    validation: { blend, trials: blend.validation.trials, searchMs },
     test: rows,
     fits,
     notes,

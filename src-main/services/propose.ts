@@ -20,6 +20,7 @@ import type { Dataset } from '../core/types.ts';
 import { ModelRepo } from '../store/models.ts';
 import type { Db } from '../store/workspace.ts';
 import { loadWorld, trendFor, type ModelSource } from './curation/world.ts';
+import { blendOf, ownedMatrix } from './holdout/trained.ts';
 
 export interface LoadedModels {
   models: HybridModels;
@@ -80,7 +81,7 @@ export function loadCurrentModels(db: Db, ds: Dataset): LoadedModels {
 }
 
 /** The same models as a curation-world source (services/curation/world.ts). */
-export const storedModelSource: ModelSource = (db, ds) => ({ models: loadCurrentModels(db, ds).models });
+export const storedModelSource: ModelSource = (db, ds) => ({ models: loadCurrentModels(db, ds).models, blend: () => blendOf(db, ds) });
 
 export interface ProposeOptions {
   /** Unix ms of the edition date. */
@@ -162,12 +163,21 @@ export function propose(db: Db, brief: Brief, options: ProposeOptions): Proposal
   const addedAt = Float64Array.from(ds.items, (it) => it.addedAt ?? Number.NaN);
   // The same trend as a shelf of an edition on this date (curation/world.ts trendFor).
   const trend = trendFor(world, editionDate) ?? world.hybrid.data.trend;
-  const hybrid = new HybridScorer(loaded.models, { customersPerItem: world.customersPerItem, trend, addedAt });
+  // Normalised as a shelf's pool is (curation/world.ts: min–max).
+  const hybrid = new HybridScorer(loaded.models, { customersPerItem: world.customersPerItem, trend, addedAt }, { normalisation: world.hybrid.normalisation });
 
   const audience = resolveAudience(ds, brief.audience, editionDate, world.groups);
   let affinity: Float32Array | null = null;
   let report = { customersUsed: 0, exact: true };
-  if (loaded.models.affinity && audience.length > 0) {
+  if (world.blend && audience.length > 0) {
+    // The audience's relevance is the validated blend's, as on a shelf (curation/shelf-fill.ts).
+    affinity = new Float32Array(ds.items.length);
+    const used = world.blend.scorer.audienceInto(audience, world.blend.history, ownedMatrix(ds), affinity, {
+      ...(options.sampleAudience !== undefined && { sample: options.sampleAudience }),
+      seed: options.seed ?? 0,
+    });
+    report = { customersUsed: used, exact: used === audience.length };
+  } else if (loaded.models.affinity && audience.length > 0) {
     affinity = new Float32Array(ds.items.length);
     report = audienceAffinityInto(loaded.models.affinity, buildInteractionMatrix(ds), audience, affinity, {
       ...(options.sampleAudience !== undefined && { sample: options.sampleAudience }),

@@ -1,6 +1,6 @@
 /**
  * Per-customer top-N export (issue 6): for each customer, the hybrid's N best items over the whole catalogue
- * minus what the customer already has, with each component's contribution, as CSV or JSON Lines.
+ * minus what the customer already has, ranked by the validated blend (services/tune/blend.ts) with each model's part of the score, as CSV or JSON Lines.
  *
  * Tie rule (documented, deterministic): higher score first; equal scores are ordered by the item's external
  * id, lower first, comparing UTF-16 code units (JavaScript's `<` on strings), so the file depends on the data
@@ -11,8 +11,8 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { InputError } from '../core/errors.ts';
-import { COMPONENTS, type Component } from '../core/scoring/index.ts';
-import { normaliseInto } from '../core/scoring/normalise.ts';
+import { BLEND_MODELS, type BlendModel } from '../core/eval/validated-blend.ts';
+import type { BlendScorer } from '../core/scoring/blend-scorer.ts';
 import { loadDataset } from '../store/dataset.ts';
 import type { Db } from '../store/workspace.ts';
 import { csvCell } from './export/csv.ts';
@@ -49,7 +49,7 @@ export interface RecommendReport {
 }
 
 export const TIE_RULE = 'higher score first; equal scores by item external id, lower first (code-unit order)';
-export const RECOMMEND_CSV_HEADER = ['customer', 'rank', 'item', 'title', 'score', ...COMPONENTS, 'sponsored'];
+export const RECOMMEND_CSV_HEADER = ['customer', 'rank', 'item', 'title', 'score', ...BLEND_MODELS, 'sponsored'];
 
 /** Reads a customer list: one external id per line (or the first column of a CSV); a header line is skipped. */
 export function readCustomerList(file: string): string[] {
@@ -78,9 +78,8 @@ export function recommend(db: Db, o: RecommendOptions): RecommendReport {
   checkReplaceableExport(o.out, RECOMMEND_CSV_HEADER.join(',')); // an older export may be replaced, nothing else
   const ds = loadDataset(db);
   const models = loadTrainedModels(db, ds);
-  const hybrid = models.hybrid;
-  const h = models.hybridScorer;
-  if (!hybrid || !h) throw new InputError('no trained content or collaborative model: run train first');
+  const blend = models.blend;
+  if (!blend) throw new InputError('no trained model: run train first');
   const N = ds.items.length;
 
   // Which customers, in the order asked (all: workspace order).
@@ -103,15 +102,6 @@ export function recommend(db: Db, o: RecommendOptions): RecommendReport {
     }
   }
 
-  // Shop-wide normalised columns (as CustomerHybrid blends them) and the effective weights.
-  const { scratch } = h.scratchFor(N);
-  const global = new Float32Array(3 * N);
-  const raw = Float32Array.from(h.data.customersPerItem);
-  normaliseInto(h.normalisation, raw, N, global.subarray(0, N), scratch);
-  if (h.data.trend) normaliseInto(h.normalisation, h.data.trend, N, global.subarray(N, 2 * N), scratch);
-  normaliseInto(h.normalisation, h.freshnessAt(models.date), N, global.subarray(2 * N, 3 * N), scratch);
-  const w = hybrid.effective(models.weights);
-
   // Rank of each item's external id, so ties compare integers in the hot loop.
   const byExt = Array.from({ length: N }, (_, i) => i).sort((a, b) => {
     const x = ds.items[a]!.externalId;
@@ -123,7 +113,7 @@ export function recommend(db: Db, o: RecommendOptions): RecommendReport {
 
   const owned = ownedMatrix(ds);
   const mark = new Uint8Array(N);
-  const personal = new Float32Array(3 * N);
+  const scores = new Float32Array(N);
   const n = Math.min(o.n, N);
   const top = new Int32Array(n);
   const topScore = new Float64Array(n);
@@ -133,14 +123,14 @@ export function recommend(db: Db, o: RecommendOptions): RecommendReport {
   try {
     if (format === 'csv') fs.writeSync(fd, `${RECOMMEND_CSV_HEADER.join(',')}\r\n`);
     for (const u of targets) {
-      hybrid.personalInto(u, personal);
+      // The validated blend: one model's own scores, or the weighted per-customer normalised columns.
+      const cols = blend.isRawSingle ? null : blend.columnsFor(u, models.matrix);
+      if (cols) blend.blendInto(cols, scores);
+      else blend.scoreInto(u, models.matrix, scores);
       for (let p = owned.indptr[u]!; p < owned.indptr[u + 1]!; p++) mark[owned.indices[p]!] = 1;
       let filled = 0;
       for (let i = 0; i < N; i++) {
-        const s = round6(
-          w[0]! * personal[i]! + w[1]! * personal[N + i]! + w[2]! * personal[2 * N + i]! +
-            w[3]! * global[i]! + w[4]! * global[N + i]! + w[5]! * global[2 * N + i]!,
-        );
+        const s = round6(scores[i]!);
         if (mark[i]) continue;
         // Bounded insertion under the tie rule; most items fail the first comparison with the worst kept.
         if (filled === n && !better(s, i, topScore[n - 1]!, top[n - 1]!, extRank)) continue;
@@ -158,12 +148,11 @@ export function recommend(db: Db, o: RecommendOptions): RecommendReport {
       for (let r = 0; r < filled; r++) {
         const i = top[r]!;
         const it = ds.items[i]!;
-        const parts = [personal[i]!, personal[N + i]!, personal[2 * N + i]!, global[i]!, global[N + i]!, global[2 * N + i]!];
-        const contributions = Object.fromEntries(COMPONENTS.map((c, j) => [c, round6(w[j]! * parts[j]!)])) as Record<Component, number>;
+        const contributions = explain(blend, cols, i, scores[i]!);
         const customer = ds.customerExternalIds[u]!;
         if (format === 'csv') {
           lines.push(
-            [customer, r + 1, it.externalId, it.title, topScore[r]!, ...COMPONENTS.map((c) => contributions[c]), it.promoted ? SPONSORED : '']
+            [customer, r + 1, it.externalId, it.title, topScore[r]!, ...BLEND_MODELS.map((c) => contributions[c]), it.promoted ? SPONSORED : '']
               .map((v) => csvCell(v))
               .join(','),
           );
@@ -199,6 +188,22 @@ export function recommend(db: Db, o: RecommendOptions): RecommendReport {
     elapsedMs: performance.now() - started,
     notes: models.notes,
   };
+}
+
+/**
+ * Each model's part of item i's score: weight × its normalised value for the customer (a cold item's whole
+ * score is content's when the blend keeps the content path; a raw single model holds the whole score).
+ */
+function explain(blend: BlendScorer, cols: { parts: Float32Array[]; content: Float32Array | null } | null, i: number, score: number): Record<BlendModel, number> {
+  const out = Object.fromEntries(BLEND_MODELS.map((m) => [m, 0])) as Record<BlendModel, number>;
+  if (!cols) out[blend.parts[0]!.model] = round6(score);
+  else {
+    // A cold item: each part shrunk by (1 − share), content's share added on top.
+    const share = cols.content && blend.isCold(i) ? (blend.spec.coldShare ?? 1) : 0;
+    blend.parts.forEach((p, q) => (out[p.model] = round6((1 - share) * p.weight * cols.parts[q]![i]!)));
+    if (share > 0) out.content = round6(out.content + share * cols.content![i]!);
+  }
+  return out;
 }
 
 /** Item a (score sa) goes before item b (score sb) under the tie rule. */

@@ -1,4 +1,5 @@
 import type { EditionView, ShelfView } from '../state/curation-slice.ts';
+import { describeChoiceCost } from '../../src-main/core/curation/choice-cost.ts';
 import { days, num, pct } from './format.ts';
 
 type ShelfMeter = ShelfView['meter'];
@@ -23,7 +24,8 @@ export function shelfReadings(m: ShelfMeter): Reading[] {
     { key: 'promotedShareCount', unit: 'pp', label: 'Sponsored slots', value: pct(m.promotedShareCount), hint: 'share of slots taken by promoted items' },
     { key: 'promotedShareExposure', unit: 'pp', label: 'Sponsored exposure', value: pct(m.promotedShareExposure), hint: 'share of position-weighted attention on promoted items' },
     { key: 'calibrationGap', unit: 'n', label: 'Calibration gap', value: num(m.calibrationGap, 3), hint: "distance from the audience's category mix (0 = matches)" },
-    { key: 'predictedRelevance', unit: 'n', label: 'Predicted relevance', value: num(m.predictedRelevance), hint: 'mean blended score of the shelf' },
+    { key: 'predictedRelevance', unit: 'n', label: 'Predicted relevance', value: num(m.predictedRelevance), hint: "mean validated relevance of the shelf's items for its audience (0..1)" },
+    { key: 'choiceCost', unit: 'pp', label: 'Price of choices', value: pct(m.choiceCost), hint: 'relevance the dials and rules give up against the most relevant list for this audience' },
   ];
 }
 
@@ -60,6 +62,9 @@ export function ShelfMeterPanel({ meter, title = 'Meter', preview }: { meter: Sh
           </div>
         ))}
       </dl>
+      <p className="small" data-testid="choice-cost">
+        {describeChoiceCost(meter.choiceCost ?? NaN)}
+      </p>
       {meter.saturatedSlots.length > 0 && (
         <p className="warn">
           Slots {meter.saturatedSlots.join(', ')}: most of this audience already has these items.

@@ -129,6 +129,7 @@ function EvaluationPanel() {
 /** Model status, training with progress and cancel, and the offline evaluation. */
 export function Models() {
   const list = useApp((s) => s.models.list);
+  const hybrid = useApp((s) => s.models.hybrid);
   const error = useApp((s) => s.models.errors.list);
   const load = useApp((s) => s.loadModels);
   useEffect(() => {
@@ -168,6 +169,12 @@ export function Models() {
               ))}
             </tbody>
           </table>
+        )}
+        {hybrid && (
+          <p data-testid="hybrid-line">
+            <strong>Hybrid:</strong> {hybrid.reason}
+            {hybrid.stale ? ' (the data changed since: retrain)' : ''}
+          </p>
         )}
       </section>
       <EvaluationPanel />

@@ -5,12 +5,15 @@ import type { AppState } from './store.ts';
 
 export type JobState = ResponseOf<'job.status'>;
 export type ModelInfo = ResponseOf<'models.list'>['models'][number];
+export type HybridInfo = ResponseOf<'models.list'>['hybrid'];
 export type OfflineEvaluation = NonNullable<ResponseOf<'evaluate.latest'>['evaluation']>;
 export type TrainRequest = RequestOf<'train.start'>;
 
 export interface ModelsSlice {
   models: {
     list: ModelInfo[];
+    /** The validated blend stored with the models (null before the first training that learned one). */
+    hybrid: HybridInfo;
     /** The training or evaluation job being watched, as last polled. */
     job: JobState | null;
     evaluation: OfflineEvaluation | null;
@@ -56,11 +59,11 @@ export function createModelsSlice(client: Client, sleep: (ms: number) => Promise
     };
 
     return {
-      models: { list: [], job: null, evaluation: null, errors: {} },
+      models: { list: [], hybrid: null, job: null, evaluation: null, errors: {} },
       async loadModels() {
         try {
-          const [{ models }, { evaluation }] = await Promise.all([client.call('models.list', {}), client.call('evaluate.latest', {})]);
-          put({ list: models, evaluation });
+          const [{ models, hybrid }, { evaluation }] = await Promise.all([client.call('models.list', {}), client.call('evaluate.latest', {})]);
+          put({ list: models, hybrid, evaluation });
           setError('list', undefined);
         } catch (e) {
           setError('list', describeError(e));

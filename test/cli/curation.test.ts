@@ -43,6 +43,8 @@ describe('shelfwright edition and shelf commands', () => {
     const meter = await run('shelf', 'meter', 'week 10', 'Front');
     expect(meter.code).toBe(0);
     expect(meter.out).toMatch(/sponsored \d+% of slots/);
+    // The price of the editor's choices, in words (the pin of a low-ranked item in slot 1 costs something).
+    expect(meter.out).toMatch(/^These choices cost \d+% of predicted relevance against the most relevant list for this audience\.$/m);
 
     const undone = await json('shelf', 'undo', 'week 10', 'Front');
     expect(undone.canRedo).toBe(true);

@@ -77,6 +77,23 @@ describe('shelfwright train / evaluate / similar / propose / recommend', () => {
     expect(models).toBe(0);
   }, 30_000);
 
+  it('models and evaluate say which hybrid: the blend, or the single model it is, with the validation figures', async () => {
+    const list = await json('models');
+    const h = list.hybrid;
+    expect(h).not.toBeNull();
+    // Never worse than its best part on validation (issue 10 item 3).
+    const best = Math.max(...h.validation.singles.map((x: { ndcg: number }) => x.ndcg));
+    expect(h.validation.ndcg).toBeGreaterThanOrEqual(best);
+    if (h.kind === 'single') expect(h.reason).toMatch(new RegExp(`^(no blend beat ${h.model} on validation, so the hybrid is ${h.model}|the blend cannot be validated)`));
+    else expect(h.reason).toMatch(/ on validation against \d\.\d{4} for \w+ alone$/);
+    const text = await run('models');
+    expect(text.code, text.err).toBe(0);
+    expect(text.out).toContain(`hybrid: ${h.reason}`);
+    expect(text.out).toMatch(/NDCG@10 alone: content \d/);
+    const ev = await run('evaluate', '--k', '5', '--sample', '150');
+    expect(ev.out).toMatch(/^hybrid: (no blend beat|the blend cannot be validated|\d)/m);
+  }, 60_000);
+
   it('evaluate --holdout scores every model on the file and reports the unknown customer', async () => {
     const r = await json('evaluate', '--holdout', holdout, '--k', '10');
     expect(r.k).toBe(10);

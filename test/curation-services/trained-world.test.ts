@@ -5,9 +5,12 @@ import { createHandlerTable, invoke } from '../../src-main/api/handler-table.ts'
 import type { ShelfView } from '../../src-main/api/contracts/curation.ts';
 import { IalsModel, loadIals } from '../../src-main/core/models/ials.ts';
 import type { Brief } from '../../src-main/core/curation/types.ts';
+import { parseBrief } from '../../src-main/core/editing/brief-schema.ts';
+import { audienceAffinityInto } from '../../src-main/core/scoring/index.ts';
 import { AppContext } from '../../src-main/services/context.ts';
+import { ownedMatrix } from '../../src-main/services/holdout/trained.ts';
 import { curationModelSource } from '../../src-main/services/curation/model-source.ts';
-import { audienceAffinityOf } from '../../src-main/services/curation/shelf-fill.ts';
+import { audienceAffinityOf, validatedRelevance } from '../../src-main/services/curation/shelf-fill.ts';
 import { loadWorld } from '../../src-main/services/curation/world.ts';
 import { trainAndSave } from '../../src-main/services/train/train-job.ts';
 import { ModelRepo } from '../../src-main/store/models.ts';
@@ -70,6 +73,17 @@ describe('the curation world follows training (issue 5)', () => {
     const front = (await call('shelf.fill', { edition: 'w', shelf: 'Front' })) as ShelfView;
     expect(front.slots.some((s) => (s.contributions['audience'] ?? 0) > 0)).toBe(true);
     expect(front.slots.some((s) => (s.contributions['trend'] ?? 0) > 0)).toBe(true);
+    // The price of the editor's choices (issue 10 item 4): a number in [0, 1] once models are trained;
+    // boosting the least relevant item of the pool into the list, and pinning it first, can only raise it.
+    const price = front.meter.choiceCost!;
+    expect(price).toBeGreaterThanOrEqual(0);
+    expect(price).toBeLessThanOrEqual(1);
+    const world = loadWorld(app!.db, curationModelSource);
+    const v = validatedRelevance(world, parseBrief({ size: 6 }), Date.parse('2026-03-02'))!;
+    const worst = [...v.relevance.keys()].filter((i) => !Number.isNaN(v.relevance[i]!)).sort((a, b) => v.relevance[a]! - v.relevance[b]!)[0]!;
+    const action = { kind: 'pin', slot: 1, item: world.ds.items[worst]!.externalId };
+    const pinned = (await call('shelf.act', { edition: 'w', shelf: 'Front', action })) as ShelfView;
+    expect(pinned.meter.choiceCost!).toBeGreaterThan(price);
   });
 
   it('rebuilds the world again after a retrain, with the new model', async () => {
@@ -98,7 +112,7 @@ describe('the curation world follows training (issue 5)', () => {
     expect(second.ctx.available[second.ctx.indexOfId.get(2)!]).toBe(0);
   });
 
-  it("averages the audience's iALS scores exactly, and measures trend over the documented windows", async () => {
+  it("averages the audience's validated blend, its iALS scores exactly, and measures trend over the documented windows", async () => {
     api();
     await train(2);
     const world = loadWorld(app!.db, curationModelSource);
@@ -107,8 +121,24 @@ describe('the curation world follows training (issue 5)', () => {
     const brief = { audience: { kind: 'everyone' } } as Brief;
     const affinity = audienceAffinityOf(world, brief, date)!;
     expect(audienceAffinityOf(world, brief, date)).toBe(affinity); // remembered per audience
-    // Hu, Koren & Volinsky (2008): the predicted preference is p̂_ui = x_uᵀy_i; the audience's affinity is
-    // its mean over the audience, here summed customer by customer (the slow way).
+    // The audience's relevance is the validated blend's mean over its customers (every one: the audience is
+    // below the sample size), each customer's own items at that customer's lowest score; the slow way here.
+    const blend = world.blend!;
+    const owned = ownedMatrix(world.ds);
+    const n = world.ctx.n;
+    const sum = new Float64Array(n);
+    const buf = new Float32Array(n);
+    for (let u = 0; u < world.ds.customerIds.length; u++) {
+      blend.scorer.scoreInto(u, blend.history, buf);
+      const min = Math.min(...buf);
+      for (let p = owned.indptr[u]!; p < owned.indptr[u + 1]!; p++) buf[owned.indices[p]!] = min;
+      for (let i = 0; i < n; i++) sum[i]! += buf[i]!;
+    }
+    for (const i of [0, 7, 39]) expect(affinity[i]).toBeCloseTo(sum[i]! / world.ds.customerIds.length, 5);
+    // Without a blend the iALS mean is exact. Hu, Koren & Volinsky (2008): the predicted preference is
+    // p̂_ui = x_uᵀy_i; the audience's affinity is its mean over the audience, here summed customer by customer.
+    const exact = new Float32Array(n);
+    audienceAffinityInto(model, blend.history, Int32Array.from({ length: model.customerCount }, (_, u) => u), exact);
     const k = model.factors;
     for (const i of [0, 7, 39]) {
       let sum = 0;
@@ -117,7 +147,7 @@ describe('the curation world follows training (issue 5)', () => {
         for (let f = 0; f < k; f++) dot += model.customerFactors[u * k + f]! * model.itemFactors[i * k + f]!;
         sum += dot;
       }
-      expect(affinity[i]).toBeCloseTo(sum / model.customerCount, 5);
+      expect(exact[i]).toBeCloseTo(sum / model.customerCount, 5);
     }
     // Trend (core/models/popularity.ts): (recent + 5) / (previous + 5) over 14-day windows ending just
     // after the latest signal; the counts here come from SQL, independently of the code under test.

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { meterShelf } from '../../src-main/core/curation/meter.ts';
 import type { MeterInputs } from '../../src-main/core/curation/meter.ts';
 import { flatReadings, whatIf, whatIfBatch } from '../../src-main/core/curation/whatif.ts';
+import { bestRelevanceSums } from '../../src-main/core/curation/choice-cost.ts';
 import { WHAT_IF_READINGS } from '../../src-main/core/curation/types.ts';
 import { seededRng } from '../../src-main/core/rng.ts';
 import { EDITION, randomContext } from './helpers.ts';
@@ -12,9 +13,12 @@ function close(a: number, b: number): boolean {
 
 function inputsFor(seed: number, n: number, categories: number): MeterInputs {
   const rng = seededRng(seed);
+  const relevance = Float64Array.from({ length: n }, () => (rng.next() < 0.1 ? NaN : rng.next()));
   return {
     editionDate: EDITION,
-    relevance: Float64Array.from({ length: n }, () => (rng.next() < 0.1 ? NaN : rng.next())),
+    relevance,
+    // The price of choices is checked against the full meter like every other reading.
+    bestRelevance: bestRelevanceSums(relevance, n),
     audienceCategories: Float64Array.from({ length: categories }, () => (rng.next() < 0.2 ? 0 : rng.next())),
     ownedShare: Float64Array.from({ length: n }, () => rng.next()),
   };

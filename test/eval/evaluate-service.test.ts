@@ -43,8 +43,13 @@ describe('evaluateWorkspace', () => {
     expect(r.split.train + r.split.validation + r.split.test).toBe(loadDataset(db).signals.length);
     expect(r.split.test).toBeGreaterThan(0.05 * r.split.train);
     expect(r.split.validationFrom).toBeLessThanOrEqual(r.split.testFrom);
-    expect(r.validation.trials).toBeGreaterThan(6);
-    expect(r.validation.hybrid.ndcg).toBeGreaterThan(0);
+    expect(r.validation.trials).toBeGreaterThanOrEqual(5);
+    // The validated blend: never below its best model on validation, and it says what it is.
+    const v = r.validation.blend.validation;
+    expect(v.ndcg).toBeGreaterThanOrEqual(Math.max(...v.singles.map((x) => x.ndcg)));
+    expect(v.singles.map((x) => x.model)).toEqual(['content', 'itemknn', 'ials', 'ease', 'popularity']);
+    expect(r.hybrid).toBe(r.validation.blend.reason);
+    expect(Object.values(r.weights).reduce((a, b) => a + b, 0)).toBeCloseTo(1, 9);
   });
 
   it('attaches the rows to the current stored models of the same kind', () => {

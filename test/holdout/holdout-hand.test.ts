@@ -65,8 +65,11 @@ describe('evaluateHoldout on the hand-worked case', () => {
     expect(r.alreadyInWorkspace).toBe(1);
     expect(r.pairs).toBe(3);
     expect(r.customers).toBe(2);
-    expect(r.models.map((m) => m.model).sort()).toEqual(['popularity', 'random']);
-    expect(r.notes.join(' ')).toMatch(/hybrid is left out/);
+    // Only popularity is trained and no blend is stored: the hybrid is popularity, and scores as it does.
+    expect(r.models.map((m) => m.model).sort()).toEqual(['hybrid', 'popularity', 'random']);
+    expect(r.models.find((m) => m.model === 'hybrid')!.ndcg).toBe(r.models.find((m) => m.model === 'popularity')!.ndcg);
+    expect(r.notes.join(' ')).toMatch(/no validated blend is stored with these models: run train to learn one/);
+    expect(r.weightsFrom).toBe('is popularity, not validated');
   });
 
   it('reads uploaded JSON Lines content with a column mapping, and names the file in errors', async () => {

@@ -8,6 +8,7 @@ import { buildInteractionMatrix } from '../../src-main/core/matrix/build.ts';
 import { fitEase } from '../../src-main/core/models/ease.ts';
 import { TRAIN_EASE_DEFAULTS, type TrainProgress } from '../../src-main/services/train/train-models.ts';
 import { loadDataset } from '../../src-main/store/dataset.ts';
+import { BlendRepo } from '../../src-main/store/blends.ts';
 import { dataFingerprint, ModelRepo, modelStatus } from '../../src-main/store/models.ts';
 import { smallWorkspace } from '../store/models-fixture.ts';
 
@@ -64,6 +65,11 @@ describe('training as a background job', () => {
     const status = modelStatus(ws.db);
     expect(status.map((m) => m.kind).sort()).toEqual(['content', 'ease', 'ials', 'itemknn', 'popularity']);
     expect(status.every((m) => !m.stale)).toBe(true);
+    // The validated blend is stored with them, learned over the five models it may use.
+    const blend = new BlendRepo(ws.db).current()!;
+    expect(blend.modelIds.sort()).toEqual(status.map((m) => m.id).sort());
+    expect(blend.blend.validation.singles.map((s) => s.model)).toEqual(['content', 'itemknn', 'ials', 'ease', 'popularity']);
+    expect(end.summary).toContain(`; hybrid: ${blend.blend.reason}`);
     ws.db.prepare("INSERT INTO signal (customer_id, item_id, kind, value, at) VALUES (1, 1, (SELECT code FROM signal_kind WHERE name = 'click'), 1, 1)").run();
     expect(modelStatus(ws.db).every((m) => m.stale)).toBe(true);
   });

@@ -19,6 +19,8 @@ export const ShelfMeterView = z.object({
   promotedShareExposure: reading,
   calibrationGap: reading,
   predictedRelevance: reading,
+  /** Share of predicted relevance the brief's dials and rules give up against the most relevant list (0..1). */
+  choiceCost: reading,
   saturation: z.array(reading),
   saturatedSlots: z.array(z.number().int()),
 });

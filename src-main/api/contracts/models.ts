@@ -97,13 +97,43 @@ export const ModelInfo = z.object({
   tuning: TuningView.nullable(),
 });
 
+/** The validated blend stored with the models (issue 10 item 3): what the hybrid is, and the figures it was chosen by. */
+export const HybridView = z.object({
+  kind: z.enum(['single', 'blend']),
+  /** The single model the hybrid is (kind single), else null. */
+  model: z.string().nullable(),
+  weights: z.record(z.string(), z.number()),
+  normalisation: z.enum(['zscore', 'rank']),
+  coldContent: z.boolean(),
+  /** False when too few validation customers: the best single model, unvalidated. */
+  validated: z.boolean(),
+  /** The blend in a phrase ("0.6 itemknn + 0.4 ials (z-scores per customer)", "is ease"). */
+  description: z.string(),
+  /** Why, in words, with the validation figures. */
+  reason: z.string(),
+  validation: z.object({
+    k: z.number().int(),
+    customers: z.number().int(),
+    ndcg: z.number().nullable(),
+    singles: z.array(z.object({ model: z.string(), ndcg: z.number().nullable() })),
+    bestSingle: z.string(),
+    method: z.enum(['time', 'random']).nullable(),
+  }),
+  learnedAt: z.number(),
+  /** The workspace changed since the blend was learned. */
+  stale: z.boolean(),
+});
+
 export const OfflineEvaluation = z.object({
   k: z.number().int(),
   evaluatedAt: z.number(),
   /** The workspace changed since this evaluation ran. */
   stale: z.boolean(),
   split: z.object({ validationFrom: z.number(), testFrom: z.number(), train: z.number().int(), validation: z.number().int(), test: z.number().int() }),
+  /** The hybrid's weight of each model, chosen on the validation window. */
   weights: z.record(z.string(), z.number()),
+  /** What the hybrid is and why, in words (null for an evaluation stored before blends were validated). */
+  hybrid: z.string().nullable(),
   /** Best NDCG first: single models, the hybrid, popularity and random baselines. */
   rows: z.array(MetricsRow),
   notes: z.array(z.string()),
@@ -182,9 +212,9 @@ export const modelMethods = {
     response: JobState,
   }),
   'models.list': method({
-    summary: 'Each current model: kind, parameters, training time and losses, notes, stale flag, evaluation, tuning.',
+    summary: 'Each current model: kind, parameters, training time and losses, notes, stale flag, evaluation, tuning; and the hybrid (the validated blend).',
     request: z.object({}).strict(),
-    response: z.object({ models: z.array(ModelInfo) }),
+    response: z.object({ models: z.array(ModelInfo), hybrid: HybridView.nullable() }),
   }),
   'evaluate.start': method({
     summary: 'Evaluate every model and baseline on a time split as a job; the result is stored with the models.',

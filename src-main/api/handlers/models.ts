@@ -1,5 +1,7 @@
 import { DEFAULT_WEIGHTS, parseBrief } from '../../core/editing/brief-schema.ts';
-import type { EvalResult } from '../../core/eval/index.ts';
+import { describeBlend, type EvalResult } from '../../core/eval/index.ts';
+import { BlendRepo } from '../../store/blends.ts';
+import type { Db } from '../../store/workspace.ts';
 import { InputError } from '../../core/errors.ts';
 import type { AppContext } from '../../services/context.ts';
 import { evaluateHoldout } from '../../services/holdout/evaluate.ts';
@@ -56,6 +58,33 @@ function metricsRow(r: EvalResult) {
   });
 }
 
+/** The stored validated blend for `models.list` (null before the first training that learned one). */
+function hybridView(db: Db): ResponseOf<'models.list'>['hybrid'] {
+  const stored = new BlendRepo(db).current();
+  if (!stored) return null;
+  const b = stored.blend;
+  return finite({
+    kind: b.kind,
+    model: b.model,
+    weights: { ...b.weights } as Record<string, number>,
+    normalisation: b.normalisation,
+    coldContent: b.coldContent,
+    validated: b.validated,
+    description: describeBlend(b),
+    reason: b.reason,
+    validation: {
+      k: b.validation.k,
+      customers: b.validation.customers,
+      ndcg: b.validation.ndcg,
+      singles: b.validation.singles.map((x) => ({ model: x.model, ndcg: x.ndcg })),
+      bestSingle: b.validation.bestSingle,
+      method: b.validation.method ?? null,
+    },
+    learnedAt: stored.createdAt,
+    stale: stored.fingerprint !== dataFingerprint(db),
+  });
+}
+
 /** Drops keys whose value is undefined (zod's optional output meets exactOptionalPropertyTypes). */
 /** YYYY-MM-DD (UTC midnight) or unix ms; default today at UTC midnight. */
 export function parseDate(v: string | number | undefined, field = 'date'): number {
@@ -106,6 +135,7 @@ export function modelHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
           tuning: tuning ? finite(tuning) : null,
         };
       }),
+      hybrid: hybridView(ctx.db),
     }),
 
     'evaluate.start': (req) =>
@@ -121,6 +151,7 @@ export function modelHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
           stale: off.fingerprint !== dataFingerprint(ctx.db),
           split: off.split,
           weights: { ...off.weights },
+          hybrid: off.hybrid ?? null,
           rows: off.test.map(metricsRow),
           notes: off.notes,
         },

@@ -7,6 +7,7 @@ import { log2Discounts } from '../metrics/discount.ts';
 import { calibrationGap, CALIBRATION_ALPHA } from '../stats/kl.ts';
 import { mean, median } from '../stats/summary.ts';
 import { DAY_MS } from '../types.ts';
+import { costOf } from './choice-cost.ts';
 import type { CurationContext } from './context.ts';
 import type { ShelfMeter } from './types.ts';
 
@@ -17,8 +18,10 @@ export const YOUNG_DAYS = 30;
 export interface MeterInputs {
   /** Unix ms of the edition the shelf belongs to; item ages are measured to it. */
   editionDate: number;
-  /** Blended relevance per dense item; NaN for items outside the scored pool (skipped). */
+  /** Validated relevance per dense item, in [0, 1]; NaN for items no shelf could show (skipped). */
   relevance: Float64Array;
+  /** best[f]: the most relevance f items can reach (choice-cost.ts `bestRelevanceSums`); absent = no price shown. */
+  bestRelevance?: Float64Array;
   /** The audience's category mix, indexed by category code (weights; normalised here). */
   audienceCategories: Float64Array;
   /** Per dense item, the share of the shelf's audience who already have it. */
@@ -133,6 +136,7 @@ export function meterShelf(ctx: CurationContext, slots: Int32Array, inputs: Mete
     // Calibration, Steck (2018): KL(p‖q̃), p = audience's category mix, q = the shelf's, α = 0.01.
     calibrationGap: calibrationGap(inputs.audienceCategories, shelfCategories, CALIBRATION_ALPHA),
     predictedRelevance: relCount === 0 ? NaN : relSum / relCount,
+    choiceCost: inputs.bestRelevance ? costOf(relSum, filled, inputs.bestRelevance) : NaN,
     saturation,
     saturatedSlots,
   };

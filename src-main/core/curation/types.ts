@@ -88,6 +88,8 @@ export interface ShelfMeter {
   promotedShareExposure: number;
   calibrationGap: number;
   predictedRelevance: number;
+  /** The share of predicted relevance the dials and rules give up against the best list (choice-cost.ts). */
+  choiceCost: number;
   /** Per slot, the share of the audience who already have the item; flagged above the threshold. */
   saturation: number[];
   saturatedSlots: number[];
@@ -113,6 +115,7 @@ export const WHAT_IF_READINGS = [
   'promotedShareExposure',
   'calibrationGap',
   'predictedRelevance',
+  'choiceCost',
   /** The saturation of the slot the candidate goes into. */
   'slotSaturation',
   /** How many slots of the shelf are flagged as saturated. */

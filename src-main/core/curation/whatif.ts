@@ -10,6 +10,7 @@ import { log2Discounts } from '../metrics/discount.ts';
 import { CALIBRATION_ALPHA } from '../stats/kl.ts';
 import { medianOfSorted } from '../stats/summary.ts';
 import { DAY_MS } from '../types.ts';
+import { costOf } from './choice-cost.ts';
 import type { CurationContext } from './context.ts';
 import type { MeterInputs } from './meter.ts';
 import { meterShelf, SATURATION_THRESHOLD, YOUNG_DAYS } from './meter.ts';
@@ -39,6 +40,7 @@ export function flatReadings(m: ShelfMeter, slot: number): ShelfReadings {
     promotedShareExposure: m.promotedShareExposure,
     calibrationGap: m.calibrationGap,
     predictedRelevance: m.predictedRelevance,
+    choiceCost: m.choiceCost,
     slotSaturation: m.saturation[slot] ?? NaN,
     saturatedSlotCount: m.saturatedSlots.length,
   };
@@ -177,6 +179,7 @@ export function whatIfBatch(
         ? NaN
         : relSum / relCount
       : (relSum + r) / (relCount + 1);
+    after.choiceCost[k] = inputs.bestRelevance ? costOf(Number.isNaN(r) ? relSum : relSum + r, k1, inputs.bestRelevance) : NaN;
     const owned = inputs.ownedShare[c] as number;
     after.slotSaturation[k] = owned;
     after.saturatedSlotCount[k] = saturated + (owned > threshold ? 1 : 0);

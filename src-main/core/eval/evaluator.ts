@@ -86,8 +86,11 @@ export class RankingEvaluator {
     return this.evaluateFill(ranker.name, (u, _c, out) => ranker.scoreInto(u, this.#history, out));
   }
 
-  /** Like `evaluate`, with `fill(u, c, out)` scoring customer u, the c-th evaluated (for cached blends). */
-  evaluateFill(name: string, fill: (u: number, c: number, out: Float32Array) => void): EvalResult {
+  /**
+   * Like `evaluate`, with `fill(u, c, out)` scoring customer u, the c-th evaluated (for cached blends).
+   * `perCustomerNdcg`, when given (length customerCount), receives each customer's NDCG@K (paired comparisons).
+   */
+  evaluateFill(name: string, fill: (u: number, c: number, out: Float32Array) => void, perCustomerNdcg?: Float64Array): EvalResult {
     const start = performance.now();
     const { customers, ptr, items } = this.#truth;
     const k = this.k;
@@ -115,7 +118,9 @@ export class RankingEvaluator {
       for (let r = 0; r < got; r++) hits[r] = mark[list[r]!]!;
       for (let p = ts; p < te; p++) mark[items[p]!] = 0;
       const t = te - ts;
-      sNdcg += ndcgFromHits(hits, t, k);
+      const nd = ndcgFromHits(hits, t, k);
+      if (perCustomerNdcg) perCustomerNdcg[c] = nd;
+      sNdcg += nd;
       sP += precisionFromHits(hits, t, k);
       sR += recallFromHits(hits, t, k);
       sCr += cappedRecallFromHits(hits, t, k);

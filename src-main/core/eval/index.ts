@@ -2,3 +2,14 @@
 export { evalTruth, sampleTruth, customersPerItem, type EvalTruth } from './customers.ts';
 export { RankingEvaluator, type Ranker, type EvalResult } from './evaluator.ts';
 export { searchBlendWeights, type BlendSearchOptions, type BlendSearchResult, type BlendTrial } from './blend-search.ts';
+export {
+  validateBlend,
+  describeBlend,
+  BLEND_MODELS,
+  MIN_BLEND_CUSTOMERS,
+  type BlendModel,
+  type BlendSpec,
+  type ValidatedBlend,
+  type BlendModelInput,
+  type ValidatedBlendOptions,
+} from './validated-blend.ts';

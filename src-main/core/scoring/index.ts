@@ -6,3 +6,5 @@ export { resolveAudience, audienceAffinityInto, type AffinityOptions, type Affin
 export { HybridScorer, type HybridModels, type HybridItemData, type HybridOptions, type PoolRequest } from './hybrid.ts';
 export { PoolScores, type ScoredItem, type Evidence } from './pool-scores.ts';
 export { CustomerHybrid } from './customer-mode.ts';
+export { BlendScorer } from './blend-scorer.ts';
+export { normaliseForCustomer, blendColumnsInto, CUSTOMER_NORMALISATIONS, type CustomerNormalisation } from './per-customer.ts';

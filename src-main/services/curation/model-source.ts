@@ -10,6 +10,7 @@ import { IalsModel } from '../../core/models/ials.ts';
 import { seededRng } from '../../core/rng.ts';
 import type { Dataset } from '../../core/types.ts';
 import type { Db } from '../../store/workspace.ts';
+import { blendOf } from '../holdout/trained.ts';
 import { loadCurrentModels } from '../propose.ts';
 import type { ModelSource } from './world.ts';
 
@@ -47,9 +48,11 @@ function groupsFor(ds: Dataset, r: KMeansResult): Int32Array {
 export const curationModelSource: ModelSource = (db, ds) => {
   const loaded = loadCurrentModels(db, ds);
   const ials = ialsOf(db, ds);
-  if (!ials || ials.customerCount < GROUP_COUNT) return { models: loaded.models };
+  const blend = () => blendOf(db, ds);
+  if (!ials || ials.customerCount < GROUP_COUNT) return { models: loaded.models, blend };
   return {
     models: loaded.models,
+    blend,
     vectors: { data: ials.itemFactors, dim: ials.factors },
     groups: groupsFor(ds, tasteGroups(ials)),
   };

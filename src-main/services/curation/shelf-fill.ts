@@ -4,6 +4,7 @@
  * is read again.
  */
 import type { EditorialState } from '../../core/curation/candidates.ts';
+import { bestRelevanceSums, universeMask } from '../../core/curation/choice-cost.ts';
 import { fillShelf } from '../../core/curation/fill.ts';
 import { meterShelf, type MeterInputs } from '../../core/curation/meter.ts';
 import type { Brief, RuleViolation, ShelfMeter } from '../../core/curation/types.ts';
@@ -12,13 +13,15 @@ import { itemsOn } from '../../core/editing/snapshot.ts';
 import { buildInteractionMatrix } from '../../core/matrix/build.ts';
 import type { Csr } from '../../core/matrix/csr.ts';
 import { IalsModel } from '../../core/models/ials.ts';
-import { audienceAffinityInto, resolveAudience } from '../../core/scoring/index.ts';
+import { audienceAffinityInto, resolveAudience, type PoolScores } from '../../core/scoring/index.ts';
+import { InputError } from '../../core/errors.ts';
 import { dateMs, type Edition } from '../../store/editions.ts';
 import type { Shelf, SlotRow } from '../../store/shelves.ts';
 import type { Db } from '../../store/workspace.ts';
 import { scoredPool } from './pool-cache.ts';
 import { curationRepos } from './repos.ts';
 import { trendFor, type CurationWorld } from './world.ts';
+import { ownedMatrix } from '../holdout/trained.ts';
 
 export interface FilledShelf {
   slots: SlotRow[];
@@ -76,16 +79,69 @@ export function audienceReadings(world: CurationWorld, brief: Brief, editionDate
  */
 export function audienceAffinityOf(world: CurationWorld, brief: Brief, editionDate: number): Float32Array | null {
   const model = world.hybrid.models.affinity;
-  if (!model) return null;
+  if (!model && !world.blend) return null;
   const key = `affinity:${JSON.stringify(brief.audience)}@${editionDate}`;
   if (world.memo.has(key)) return world.memo.get(key) as Float32Array | null;
   const { audience } = audienceReadings(world, brief, editionDate);
   let out: Float32Array | null = null;
-  if (audience.length > 0) {
+  if (audience.length > 0 && world.blend) {
+    // The validated blend, averaged over the audience (seeded sample), each member's own items at their lowest.
+    out = new Float32Array(world.ctx.n);
+    world.blend.scorer.audienceInto(audience, world.blend.history, ownedOf(world), out, { seed: 0 });
+  } else if (audience.length > 0 && model) {
     out = new Float32Array(world.ctx.n);
     // iALS reads only its own factors; the histories are built only for a model that reads them.
     const history = model instanceof IalsModel ? NO_HISTORY : historyOf(world);
     audienceAffinityInto(model, history, audience, out, { seed: 0 });
+  }
+  world.memo.set(key, out);
+  return out;
+}
+
+/** What each customer already has (any signal), built once per world. */
+function ownedOf(world: CurationWorld): Csr {
+  let o = world.memo.get('owned') as Csr | undefined;
+  if (!o) world.memo.set('owned', (o = ownedMatrix(world.ds)));
+  return o;
+}
+
+/**
+ * The validated relevance of every item any shelf could show at the date (NaN elsewhere), for this brief's
+ * audience and anchors: the hybrid's relevance components only (anchor similarity by content and
+ * collaborative models, and the validated blend for the audience), with the brief's relevance weights and
+ * none of its dials, normalised over that universe as the world's hybrid normalises a pool (min–max: 0 = the
+ * least relevant item, 1 = the most). `best` prefixes the most relevant items'
+ * sums: the price of the editor's choices is measured against them (core/curation/choice-cost.ts).
+ * null when no model can say anything about relevance.
+ */
+export function validatedRelevance(world: CurationWorld, brief: Brief, editionDate: number): { relevance: Float64Array; best: Float64Array } | null {
+  const w = brief.weights;
+  const own = { content: w.content, collaborative: w.collaborative, audience: w.audience };
+  const rel = own.content + own.collaborative + own.audience > 0 ? own : { content: 1, collaborative: 1, audience: 1 };
+  const key = `relevance:${JSON.stringify([brief.anchors, brief.audience, rel, brief.size])}@${editionDate}`;
+  if (world.memo.has(key)) return world.memo.get(key) as ReturnType<typeof validatedRelevance>;
+  const { ctx } = world;
+  const mask = universeMask(ctx, editionDate);
+  const items: number[] = [];
+  for (let i = 0; i < ctx.n; i++) if (mask[i]) items.push(i);
+  const anchors = Int32Array.from(brief.anchors.map((id) => ctx.indexOfId.get(id) ?? -1).filter((i) => i >= 0));
+  const audienceAffinity = audienceAffinityOf(world, brief, editionDate);
+  let out: { relevance: Float64Array; best: Float64Array } | null = null;
+  const relevanceOnly = { ...rel, popularity: 0, trend: 0, freshness: 0 };
+  const usable = (anchors.length > 0 && (world.hybrid.models.content || world.hybrid.models.collaborative)) || audienceAffinity;
+  if (items.length > 0 && usable) {
+    let s: PoolScores;
+    try {
+      s = world.hybrid.scorePool({ pool: Int32Array.from(items), anchors, weights: relevanceOnly, editionDate, audienceAffinity });
+    } catch (e) {
+      // The brief weighs only relevance components this shelf cannot have (e.g. audience with an empty audience).
+      if (!(e instanceof InputError)) throw e;
+      world.memo.set(key, null);
+      return null;
+    }
+    const relevance = new Float64Array(ctx.n).fill(NaN);
+    for (let p = 0; p < s.n; p++) relevance[s.pool[p]!] = s.blended[p]!;
+    out = { relevance, best: bestRelevanceSums(relevance, brief.size) };
   }
   world.memo.set(key, out);
   return out;
@@ -192,7 +248,15 @@ export function fillAndMeter(
     violations = r.violations;
   }
   const readings = audienceReadings(world, brief, editionDate);
-  const inputs: MeterInputs = { editionDate, relevance, audienceCategories: readings.audienceCategories, ownedShare: readings.ownedShare };
+  // The meter's relevance is the validated one (the same for any dials), so the price of the dials shows.
+  const validated = validatedRelevance(world, brief, editionDate);
+  const inputs: MeterInputs = {
+    editionDate,
+    relevance: validated ? validated.relevance : relevance,
+    ...(validated && { bestRelevance: validated.best }),
+    audienceCategories: readings.audienceCategories,
+    ownedShare: readings.ownedShare,
+  };
   const meter = meterShelf(ctx, dense, inputs);
   const slots: SlotRow[] = stored ?? Array.from(dense, (i, slot) => {
     if (i < 0) return { slot, itemId: null, pinned: false, score: null, percentile: null, contributions: {} };

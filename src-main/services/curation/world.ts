@@ -7,7 +7,8 @@
 import { buildCurationContext, type CurationContext } from '../../core/curation/context.ts';
 import { signalsByCustomer } from '../../core/matrix/by-customer.ts';
 import { trendRatios } from '../../core/models/popularity.ts';
-import { HybridScorer, type HybridModels } from '../../core/scoring/index.ts';
+import type { Csr } from '../../core/matrix/csr.ts';
+import { HybridScorer, type BlendScorer, type HybridModels } from '../../core/scoring/index.ts';
 import type { Dataset } from '../../core/types.ts';
 import { loadDataset } from '../../store/dataset.ts';
 import type { Db } from '../../store/workspace.ts';
@@ -20,6 +21,12 @@ export interface CurationWorld {
   customersPerItem: Int32Array;
   /** Taste group of each dense customer (k-means over iALS customer factors), when discovered. */
   groups: Int32Array | undefined;
+  /**
+   * The validated blend (services/tune/blend.ts) with the interaction matrix it reads customers' histories
+   * from: what "relevance" means for an audience. null without trained models. Loaded on first use (it
+   * builds the interaction matrix), so a world that never reads an audience never pays for it.
+   */
+  readonly blend: BlendRef | null;
   /** Signals by customer, CSR-like: the signals of customer u are bySignal[ptr[u] .. ptr[u + 1]). */
   byCustomer: { ptr: Int32Array; signal: Int32Array };
   /** Readings that depend only on the data and an argument (e.g. an audience's mix), keyed by it. */
@@ -32,7 +39,15 @@ export interface CurationWorld {
  * model is absent and the hybrid blends what needs no training (popularity, freshness): the components
  * it cannot use are dropped and the remaining weights renormalised (scoring/components.ts).
  */
-export type ModelSource = (db: Db, ds: Dataset) => { models: HybridModels; vectors?: { data: Float32Array; dim: number }; groups?: Int32Array };
+export interface BlendRef {
+  scorer: BlendScorer;
+  history: Csr;
+}
+
+export type ModelSource = (
+  db: Db,
+  ds: Dataset,
+) => { models: HybridModels; vectors?: { data: Float32Array; dim: number }; groups?: Int32Array; blend?: () => BlendRef | null };
 
 export const noModels: ModelSource = () => ({ models: { content: null, collaborative: null, affinity: null } });
 
@@ -113,8 +128,25 @@ export function loadWorld(db: Db, source: ModelSource = noModels): CurationWorld
   // Trend at the end of the history (trendRatios' default: 14-day windows ending just after the latest
   // signal), the reading for any edition dated after it; `trendFor` gives back-dated editions their own.
   const trend = ds.signals.length > 0 ? Float32Array.from(trendRatios(ds)) : null;
-  const hybrid = new HybridScorer(m.models, { customersPerItem, trend, addedAt });
-  const world: CurationWorld = { ds, ctx, hybrid, customersPerItem, groups: m.groups, byCustomer, memo: new Map() };
+  // Min–max within the pool, not percentiles: the validated relevance of a pool's best few hundred items
+  // differs by tenths, which percentiles flatten to 0.99-and-up, and the fill's MMR then trades that
+  // flattened relevance for variety alone (a 'bought indoor plants' shelf opened with a fire bowl, a watering
+  // timer and a butterfly bush; with min–max it opens with palms, pots and saucers at 1% of relevance).
+  const hybrid = new HybridScorer(m.models, { customersPerItem, trend, addedAt }, { normalisation: 'minmax' });
+  let blend: BlendRef | null | undefined;
+  const world: CurationWorld = {
+    ds,
+    ctx,
+    hybrid,
+    customersPerItem,
+    groups: m.groups,
+    get blend() {
+      if (blend === undefined) blend = m.blend ? m.blend() : null;
+      return blend;
+    },
+    byCustomer,
+    memo: new Map(),
+  };
   bySource.set(source, { stamp: st, world });
   return world;
 }

@@ -128,9 +128,9 @@ export function evaluateHoldoutRows(db: Db, ds: Dataset, rows: HoldoutRows, k: n
   for (const [name, model] of models.scorers) {
     out.push(row(evaluator.evaluateFill(name, (u, _c, s) => model.scoreInto(u, models.matrix, s)), status.get(name) ?? null));
   }
-  if (models.hybrid) {
-    const hybrid = models.hybrid;
-    out.push(row(evaluator.evaluateFill('hybrid', (u, _c, s) => hybrid.hybridScoresForCustomer(u, models.weights, s)), null));
+  if (models.blend) {
+    const blend = models.blend;
+    out.push(row(evaluator.evaluateFill('hybrid', (u, _c, s) => blend.scoreInto(u, models.matrix, s)), null));
   }
   const random = randomScorer(seed, ds.items.length);
   out.push(row(evaluator.evaluateFill('random', (u, _c, s) => random.scoreInto(u, models.matrix, s)), null));

@@ -1,10 +1,9 @@
 /**
- * The workspace's current trained models as rankers over the whole catalogue, plus the hybrid in customer
- * mode, for everything that ranks per customer (the holdout evaluation, the per-customer export). Loaded
+ * The workspace's current trained models as rankers over the whole catalogue, plus the validated blend
+ * (the hybrid) per customer, for everything that ranks per customer (the holdout evaluation, the per-customer export). Loaded
  * once per call from the model store; a model trained on another catalogue size is left out with a note.
  */
-import type { BlendWeights } from '../../core/curation/types.ts';
-import { DEFAULT_WEIGHTS } from '../../core/editing/brief-schema.ts';
+import { describeBlend, type BlendSpec } from '../../core/eval/validated-blend.ts';
 import { customerItemSets } from '../../core/matrix/by-customer.ts';
 import { buildInteractionMatrix } from '../../core/matrix/build.ts';
 import type { Csr } from '../../core/matrix/csr.ts';
@@ -12,10 +11,11 @@ import { loadContent } from '../../core/models/content.ts';
 import { loadEase } from '../../core/models/ease.ts';
 import { loadIals } from '../../core/models/ials.ts';
 import { loadItemKnn } from '../../core/models/itemknn.ts';
-import { loadPopularity, trendRatios } from '../../core/models/popularity.ts';
+import { loadPopularity } from '../../core/models/popularity.ts';
 import type { ModelKind, Scorer } from '../../core/models/scorer.ts';
-import { CustomerHybrid, HybridScorer } from '../../core/scoring/index.ts';
+import { BlendScorer } from '../../core/scoring/blend-scorer.ts';
 import type { Dataset } from '../../core/types.ts';
+import { BlendRepo } from '../../store/blends.ts';
 import { ModelRepo } from '../../store/models.ts';
 import type { Db } from '../../store/workspace.ts';
 
@@ -34,12 +34,11 @@ export interface TrainedModels {
   /** The interaction matrix (kind weights, no decay) the history-based models read rows from. */
   matrix: Csr;
   scorers: Map<string, Scorer>;
-  /** The hybrid over the loaded models, per customer; null when nothing could be loaded. */
-  hybrid: CustomerHybrid | null;
-  /** The same hybrid's shop-wide part (normalisation, item data, freshness). */
-  hybridScorer: HybridScorer | null;
-  weights: BlendWeights;
-  /** Where the blend weights came from, in words. */
+  /** The validated blend over the loaded models, per customer; null when nothing could be loaded. */
+  blend: BlendScorer | null;
+  /** What the blend is and why, as stored by training (or the fallback used when none is stored). */
+  blendInfo: BlendSpec & { reason: string; validated: boolean };
+  /** What the hybrid is, in words ("0.65 itemknn + 0.35 popularity (ranks per customer)", "is ease"). */
   weightsFrom: string;
   /** The instant freshness and trend are measured at: the latest signal time (deterministic, never the clock). */
   date: number;
@@ -47,21 +46,19 @@ export interface TrainedModels {
 }
 
 /**
- * The hybrid's blend weights: those chosen by the latest offline evaluation (stored with the models; its
- * search covers all six weights), else the brief defaults with the content weight found by tuning, else
- * the brief defaults.
+ * The validated blend stored by the latest training (store/blends.ts). A workspace trained before blends
+ * were stored has none: the hybrid is then the first trained of item-kNN, EASE, iALS, content, popularity,
+ * unvalidated, with content for cold items, and a note asks for a retrain.
  */
-export function storedBlendWeights(db: Db): { weights: BlendWeights; from: string } {
-  const repo = new ModelRepo(db);
-  for (const m of repo.list()) {
-    if (!m.current) continue;
-    const ev = m.evaluation as { offline?: { weights?: BlendWeights } } | null;
-    if (ev?.offline?.weights) return { weights: { ...ev.offline.weights }, from: 'weights chosen by the latest evaluation' };
-  }
-  const content = repo.list().find((m) => m.current && m.kind === 'content');
-  const tuned = (content?.evaluation as { tuning?: { hybridContentWeight?: number } } | null)?.tuning?.hybridContentWeight;
-  if (tuned !== undefined) return { weights: { ...DEFAULT_WEIGHTS, content: tuned }, from: `default weights, content weight ${tuned} from tuning` };
-  return { weights: { ...DEFAULT_WEIGHTS }, from: 'default weights' };
+export function storedBlend(db: Db, available: ReadonlySet<string>): { spec: BlendSpec & { reason: string; validated: boolean }; note: string | null } {
+  const stored = new BlendRepo(db).current();
+  if (stored) return { spec: stored.blend, note: null };
+  const model = (['itemknn', 'ease', 'ials', 'content', 'popularity'] as const).find((m) => available.has(m)) ?? 'itemknn';
+  const coldContent = available.has('content') && model !== 'content';
+  return {
+    spec: { kind: 'single', model, normalisation: 'zscore', weights: { [model]: 1 }, coldContent, validated: false, reason: `no validated blend is stored: the hybrid is ${model} until the next training` },
+    note: 'no validated blend is stored with these models: run train to learn one',
+  };
 }
 
 /** Latest signal time, else latest item date, else 0: a reproducible "now" for freshness and trend. */
@@ -90,24 +87,20 @@ export function loadTrainedModels(db: Db, ds: Dataset): TrainedModels {
   }
   const matrix = buildInteractionMatrix(ds);
   const date = datasetDate(ds);
-  const { weights, from } = storedBlendWeights(db);
-  const content = scorers.get('content') ?? null;
-  const collaborative = scorers.get('itemknn') ?? scorers.get('ease') ?? scorers.get('ials') ?? null;
-  const affinity = scorers.get('ials') ?? collaborative;
-  let hybrid: CustomerHybrid | null = null;
-  let h: HybridScorer | null = null;
-  if (content || collaborative) {
-    h = new HybridScorer(
-      { content, collaborative, affinity },
-      {
-        customersPerItem: columnCounts(matrix),
-        trend: ds.signals.length > 0 ? Float32Array.from(trendRatios(ds, { now: date })) : null,
-        addedAt: Float64Array.from(ds.items, (it) => it.addedAt ?? Number.NaN),
-      },
-    );
-    hybrid = new CustomerHybrid(h, matrix, date);
-  } else notes.push('no content or collaborative model is trained: the hybrid is left out (run train first)');
-  return { matrix, scorers, hybrid, hybridScorer: h, weights, weightsFrom: from, date, notes };
+  const { spec, note } = storedBlend(db, new Set(scorers.keys()));
+  if (note) notes.push(note);
+  let blend: BlendScorer | null = null;
+  if (scorers.size > 0) {
+    blend = new BlendScorer(spec, scorers, columnCounts(matrix));
+    if (blend.missing.length) notes.push(`the validated blend's ${blend.missing.join(', ')} is no longer trained: left out, the other weights rescaled (retrain)`);
+  } else notes.push('no model is trained: the hybrid is left out (run train first)');
+  return { matrix, scorers, blend, blendInfo: spec, weightsFrom: `${describeBlend(spec)}${spec.validated ? '' : ', not validated'}`, date, notes };
+}
+
+/** The validated blend over the current models, for audiences' relevance (the curation world); null without models. */
+export function blendOf(db: Db, ds: Dataset): { scorer: BlendScorer; history: Csr } | null {
+  const t = loadTrainedModels(db, ds);
+  return t.blend ? { scorer: t.blend, history: t.matrix } : null;
 }
 
 /** Customers per item (stored entries per column). */

@@ -31,7 +31,7 @@ export async function saveRun(
   records: readonly ModelRecord[],
   fingerprint: string,
   readAt: number,
-  o: { keepHistory?: number; signal?: AbortSignal; onWait?: WaitListener } = {},
+  o: { keepHistory?: number; signal?: AbortSignal; onWait?: WaitListener; alsoStore?: (ids: number[]) => void } = {},
 ): Promise<SavedRun> {
   await beginWriteAsync(db, {
     waitMs: Infinity,
@@ -43,6 +43,7 @@ export async function saveRun(
     assertNotErasedSince(db, readAt, 'training');
     const stale = dataFingerprint(db) !== fingerprint;
     const ids = new ModelRepo(db, o.keepHistory ?? 1).saveAll(records);
+    o.alsoStore?.(ids); // what belongs with these models (their validated blend) commits with them
     endWrite(db, true);
     return { ids, stale };
   } catch (e) {

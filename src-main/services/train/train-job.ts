@@ -1,6 +1,8 @@
 import { plural } from '../../core/util/plural.ts';
 import { CancelledError } from '../../core/errors.ts';
+import type { ValidatedBlend } from '../../core/eval/validated-blend.ts';
 import type { ModelKind } from '../../core/models/scorer.ts';
+import { BlendRepo } from '../../store/blends.ts';
 import { scrubIfPending } from '../../store/erasure.ts';
 import type { JobBody } from '../jobs.ts';
 import type { Db } from '../../store/workspace.ts';
@@ -43,6 +45,8 @@ export interface TrainSummary {
   notes: string[];
   /** The data changed while training: the models were saved all the same and read as stale. */
   stale: boolean;
+  /** The validated blend stored with the models. */
+  blend?: ValidatedBlend;
 }
 
 /**
@@ -64,12 +68,22 @@ export async function trainAndSave(
     scrubIfPending(db);
   }
   if (hooks.signal?.aborted) throw new CancelledError('training cancelled');
+  // The models and the blend learned for them become current together, or nothing changes.
   const { ids, stale } = await saveRun(db, out.records, out.fingerprint, out.erasureGeneration, {
     ...(hooks.keepHistory !== undefined && { keepHistory: hooks.keepHistory }),
     ...(hooks.signal && { signal: hooks.signal }),
     ...(hooks.onWait && { onWait: hooks.onWait }),
+    ...(out.blend && { alsoStore: (saved: number[]) => void new BlendRepo(db).save(out.blend!, out.fingerprint, saved) }),
   });
-  return { ids, models: out.records.map((r) => r.kind), fingerprint: out.fingerprint, elapsedMs: out.elapsedMs, notes: out.notes, stale };
+  return {
+    ids,
+    models: out.records.map((r) => r.kind),
+    fingerprint: out.fingerprint,
+    elapsedMs: out.elapsedMs,
+    notes: out.notes,
+    stale,
+    ...(out.blend && { blend: out.blend }),
+  };
 }
 
 /**
@@ -81,6 +95,7 @@ export function trainJob(db: Db, file: string, options: TrainOptions = {}, hooks
     const onWait = (holder: string) => report({ stage: waitingLine(holder), fraction: 1 });
     const s = await trainAndSave(db, file, options, { ...hooks, onProgress: report, signal, onWait });
     const notes = s.notes.length ? ` (${plural(s.notes.length, 'note')})` : '';
-    return `trained ${plural(s.models.length, 'model')} in ${(s.elapsedMs / 1000).toFixed(1)} s${notes}${s.stale ? `; ${STALE_NOTE}` : ''}`;
+    const hybrid = s.blend ? `; hybrid: ${s.blend.reason}` : '';
+    return `trained ${plural(s.models.length, 'model')} in ${(s.elapsedMs / 1000).toFixed(1)} s${notes}${hybrid}${s.stale ? `; ${STALE_NOTE}` : ''}`;
   };
 }

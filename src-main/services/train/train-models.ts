@@ -7,8 +7,10 @@ import { fitPopularity } from '../../core/models/popularity.ts';
 import type { FitReport, ModelKind, Scorer } from '../../core/models/scorer.ts';
 import type { Dataset } from '../../core/types.ts';
 import { loadDataset } from '../../store/dataset.ts';
+import type { ValidatedBlend } from '../../core/eval/validated-blend.ts';
 import { erasureGeneration } from '../../store/erasure.ts';
-import { dataFingerprint, type ModelRecord } from '../../store/models.ts';
+import { dataFingerprint, ModelRepo, type ModelRecord, type ModelSummary } from '../../store/models.ts';
+import { learnBlend } from '../tune/blend.ts';
 import type { Db } from '../../store/workspace.ts';
 import { easeItemLimit, EASE_MAX_ITEMS } from './ease-limit.ts';
 import { fitEaseInThread } from './ease-thread.ts';
@@ -25,6 +27,8 @@ export interface TrainOptions {
   params?: { content?: ContentParams; itemknn?: ItemKnnParams; ials?: Partial<IalsParams>; ease?: EaseParams };
   /** Threads for iALS (default: the machine's cores); with more than one, EASE also fits in a thread of its own. */
   threads?: number;
+  /** The validated blend's split and cut-off (services/tune/blend.ts); false skips it (the blend then stays as it was). */
+  blend?: { k?: number; seed?: number } | false;
 }
 
 /**
@@ -35,7 +39,7 @@ export interface TrainOptions {
 export const TRAIN_EASE_DEFAULTS: EaseParams = { maxItems: EASE_MAX_ITEMS, restrict: true };
 
 export interface TrainProgress {
-  stage: 'load' | 'matrix' | 'fit' | 'done';
+  stage: 'load' | 'matrix' | 'fit' | 'blend' | 'done';
   model?: TrainedKind;
   iteration?: number;
   iterations?: number;
@@ -52,10 +56,12 @@ export interface TrainOutput {
   elapsedMs: number;
   /** Wall and CPU time of each stage (CPU of the whole process: iALS's worker threads included). */
   timings: StageTiming[];
+  /** The validated blend over the models current after this run, learned on the tuner's split; absent when skipped. */
+  blend?: ValidatedBlend;
 }
 
 export interface StageTiming {
-  stage: 'load' | 'matrix' | TrainedKind;
+  stage: 'load' | 'matrix' | 'blend' | TrainedKind;
   wallMs: number;
   /** -1 where unknown (a thread's own CPU is read from /proc, Linux only). */
   cpuMs: number;
@@ -70,7 +76,8 @@ const cpuMs = (): number => {
 };
 
 /** Each stage's share of the progress bar, roughly its share of the time on the demo shop. */
-const WEIGHT: Record<'load' | 'matrix' | TrainedKind, number> = {
+const WEIGHT: Record<'load' | 'matrix' | 'blend' | TrainedKind, number> = {
+  blend: 0.5,
   load: 0.1,
   matrix: 0.05,
   content: 0.1,
@@ -89,7 +96,7 @@ const WEIGHT: Record<'load' | 'matrix' | TrainedKind, number> = {
 export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: TrainProgress) => void): Promise<TrainOutput> {
   const started = performance.now();
   const kinds = MODEL_KINDS.filter((k) => (opts.models ?? MODEL_KINDS).includes(k));
-  const total = WEIGHT.load + WEIGHT.matrix + kinds.reduce((s, k) => s + WEIGHT[k], 0);
+  const total = WEIGHT.load + WEIGHT.matrix + kinds.reduce((s, k) => s + WEIGHT[k], 0) + (opts.blend === false ? 0 : WEIGHT.blend);
   let doneShare = 0;
   const report = (p: Omit<TrainProgress, 'fraction'>, within = 0, weight = 0) =>
     onProgress({ ...p, fraction: Math.min(1, (doneShare + within * weight) / total) });
@@ -105,11 +112,13 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
   let fingerprint = '';
   let generation = 0;
   let ds: Dataset | undefined;
+  let stored: ModelSummary[] = [];
   // A read transaction (deferred): it must not take the write lock when the connection can write.
   db.transaction(() => {
     generation = erasureGeneration(db);
     fingerprint = dataFingerprint(db);
     ds = loadDataset(db);
+    stored = new ModelRepo(db).list().filter((m) => m.current);
   }).deferred();
   const data = ds!;
   lap('load');
@@ -177,6 +186,17 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
   } finally {
     easeThread?.stop();
   }
+  let blend: ValidatedBlend | undefined;
+  if (opts.blend !== false) {
+    // Over every model that is current once this run is stored: this run's, and the others as stored.
+    report({ stage: 'blend' });
+    const params: NonNullable<TrainOptions['params']> = {};
+    for (const m of stored) if (!kinds.includes(m.kind as TrainedKind)) (params as Record<string, unknown>)[m.kind] = m.params;
+    Object.assign(params, p);
+    const all = MODEL_KINDS.filter((k) => kinds.includes(k) || stored.some((m) => m.kind === k));
+    blend = await learnBlend(data, all, params, { ...opts.blend, threads, ...(opts.matrix && { matrix: opts.matrix }) });
+    lap('blend');
+  }
   onProgress({ stage: 'done', fraction: 1 });
-  return { fingerprint, erasureGeneration: generation, records, notes, elapsedMs: performance.now() - started, timings };
+  return { fingerprint, erasureGeneration: generation, records, notes, elapsedMs: performance.now() - started, timings, ...(blend && { blend }) };
 }

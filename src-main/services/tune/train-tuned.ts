@@ -60,7 +60,9 @@ export async function tuneAndTrain(
     ials: { ...tuning.params.ials, ...options.params?.ials },
     ...((tuning.params.ease || options.params?.ease) && { ease: { ...tuning.params.ease, ...options.params?.ease } }),
   };
-  const summary = await trainAndSave(db, file, { ...options, params }, {
+  // The validated blend is learned on the tuner's own split (same seed and cut-off).
+  const blend = { ...(tune.k !== undefined && { k: tune.k }), ...(tune.seed !== undefined && { seed: tune.seed }) };
+  const summary = await trainAndSave(db, file, { ...options, params, blend }, {
     signal,
     onProgress: (p) => report({ ...p, fraction: TUNE_SHARE + (1 - TUNE_SHARE) * p.fraction }),
     onWait: (holder) => report({ stage: waitingLine(holder), fraction: 1 }),

@@ -1,3 +1,4 @@
+import { describeChoiceCost } from '../../../core/curation/choice-cost.ts';
 import type { ShelfView } from '../../../api/contracts/curation.ts';
 import type { RequestOf } from '../../../api/contract.ts';
 import { checkOutputFile, writeFileWhole } from '../../../services/user-file.ts';
@@ -41,7 +42,8 @@ export function renderShelf(v: ShelfView): string {
   const left = describeExclusions(v.excluded);
   const resting = left ? `\nleft out of the pool: ${left}` : '';
   const viol = v.violations.length ? `\nrules not met:\n${v.violations.map((x) => `  ${x.rule}: ${x.reason}`).join('\n')}` : '';
-  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\nmeter: ${meter}${resting}${viol}`;
+  const price = describeChoiceCost(m.choiceCost ?? NaN);
+  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\nmeter: ${meter}\n${price}${resting}${viol}`;
 }
 
 function printShelf(env: CommandEnv, v: ShelfView): number {

@@ -116,9 +116,9 @@ const trainCommand: CliCommand = {
       tune: env.values['tune'] ? only({ k: k ?? 10, seed: int(env, 'seed', 0) }) : undefined,
     }));
     const end = await followJob(t, job, env.io);
-    const { models: stored } = await call(t, 'models.list', {});
+    const { models: stored, hybrid } = await call(t, 'models.list', {});
     if (env.json) {
-      env.io.out(JSON.stringify({ job: end, models: stored }, null, 2));
+      env.io.out(JSON.stringify({ job: end, models: stored, hybrid }, null, 2));
       return EXIT.ok;
     }
     const given: Record<string, Record<string, unknown>> = { ials, itemknn, ease: only({ lambda }) };
@@ -131,7 +131,37 @@ const trainCommand: CliCommand = {
       tunedCell(m, trained(m.kind) ? given : null),
       m.notes.join('; '),
     ]);
-    env.io.out(`${end.summary ?? 'done'}\n${table(['model', 'seconds', 'iterations', 'final loss', 'tuned', 'notes'], rows)}`);
+    env.io.out(`${end.summary ?? 'done'}\n${table(['model', 'seconds', 'iterations', 'final loss', 'tuned', 'notes'], rows)}\n${hybridLines(hybrid).filter((l) => !(end.summary ?? '').includes(l.slice('hybrid: '.length))).join('\n')}`);
+    return EXIT.ok;
+  },
+};
+
+/** "hybrid: ..." — what the hybrid is, and how each model scored alone on validation. */
+function hybridLines(h: ResponseOf<'models.list'>['hybrid']): string[] {
+  if (!h) return ['hybrid: no validated blend stored yet (train to learn one)'];
+  const singles = h.validation.singles.map((x) => `${x.model} ${val(x.ndcg)}`).join(', ');
+  return [
+    `hybrid: ${h.reason}${h.stale ? ' (the data changed since: retrain)' : ''}`,
+    `validation (${h.validation.method ?? '–'} split, ${plural(h.validation.customers, 'customer')}), NDCG@${h.validation.k} alone: ${singles || '–'}`,
+  ];
+}
+
+const modelsCommand: CliCommand = {
+  name: 'models',
+  summary: 'the current models, and what the hybrid is (the validated blend, or the single model it is)',
+  usage: ['[--json]'],
+  options: {},
+  about: {},
+  async run(env) {
+    if (env.positionals.length) throw new UsageError(`unexpected argument '${env.positionals[0]}'`);
+    const { table: t } = env.api();
+    const r = await call(t, 'models.list', {});
+    if (env.json) {
+      env.io.out(JSON.stringify(r, null, 2));
+      return EXIT.ok;
+    }
+    const rows = r.models.map((m) => [m.kind, new Date(m.trainedAt).toISOString().slice(0, 16).replace('T', ' '), m.trainMs / 1000, m.stale ? 'stale: retrain' : 'current', m.evaluation ? val(m.evaluation.ndcg) : '–']);
+    env.io.out([r.models.length ? table(['model', 'trained (UTC)', 'seconds', 'status', 'NDCG (evaluate)'], rows) : 'no trained models', ...hybridLines(r.hybrid)].join('\n'));
     return EXIT.ok;
   },
 };
@@ -239,7 +269,8 @@ const evaluateCommand: CliCommand = {
       return EXIT.ok;
     }
     const w = Object.entries(e.weights).map(([a, b]) => `${a} ${formatNumber(b)}`).join(', ');
-    env.io.out(`${metricsTable(e.rows, e.k)}\nsplit: ${e.split.train} train, ${e.split.validation} validation, ${e.split.test} test signals; hybrid weights: ${w}${e.notes.length ? `\n${e.notes.join('\n')}` : ''}`);
+    const hybrid = e.hybrid ?? `weights ${w}`;
+    env.io.out(`${metricsTable(e.rows, e.k)}\nsplit: ${e.split.train} train, ${e.split.validation} validation, ${e.split.test} test signals\nhybrid: ${hybrid}${e.notes.length ? `\n${e.notes.join('\n')}` : ''}`);
     return EXIT.ok;
   },
 };
@@ -364,4 +395,4 @@ const recommendCommand: CliCommand = {
   },
 };
 
-export const modelCommands: readonly CliCommand[] = [trainCommand, evaluateCommand, similarCommand, proposeCommand, recommendCommand];
+export const modelCommands: readonly CliCommand[] = [trainCommand, modelsCommand, evaluateCommand, similarCommand, proposeCommand, recommendCommand];

@@ -1,0 +1,297 @@
+/**
+ * The validated blend (issue 10 item 3; DESIGN.md "Two kinds of score"): what "relevance" means for a
+ * customer everywhere — recommend, audience affinity, evaluation. Each available model's scores are
+ * normalised per customer (scoring/per-customer.ts) and summed with weights learned on a validation split;
+ * where no blend beats the best single model there, the hybrid *is* that model.
+ *
+ * Search: greedy forward selection (common practice, no source). It starts from the best single model,
+ * measured raw by the evaluator exactly as `evaluate` measures it. Each step tries mixing one model not yet
+ * in the blend into it, w ← (1 − α)·w + α·e_m for α in `alphas`, keeps the best, and stops when no mix
+ * improves NDCG@K by more than 1e-9. The blend found is kept only when its paired per-customer gain over the
+ * best single model exceeds one standard error (the one-standard-error rule); otherwise the hybrid is that
+ * model. A blend is therefore only ever chosen when it scores higher on validation than the best single
+ * model: never worse than its best part on validation, by construction.
+ * It runs once per normalisation (z-score, rank) and keeps the better. The content path for cold items
+ * (items with fewer than `coldMinCustomers` customers move to the content model's normalised score, by a
+ * share of 1, 0.5 or 0.25) is kept at the strongest share that costs nothing on validation, and dropped
+ * when every share would make the result worse.
+ *
+ * Cost: each customer's normalised columns are computed once per normalisation (customers × models ×
+ * items float32, which the caller bounds by sampling customers); each trial then re-blends and re-ranks.
+ * At most models × |alphas| trials per step and models − 1 steps.
+ */
+import type { Csr } from '../matrix/csr.ts';
+import { blendColumnsInto, CUSTOMER_NORMALISATIONS, normaliseForCustomer, type CustomerNormalisation } from '../scoring/per-customer.ts';
+import type { EvalResult, Ranker, RankingEvaluator } from './evaluator.ts';
+
+/** Every model a blend may draw on, in a fixed order (ties between singles keep the earlier). */
+export const BLEND_MODELS = ['content', 'itemknn', 'ials', 'ease', 'popularity'] as const;
+export type BlendModel = (typeof BLEND_MODELS)[number];
+
+/**
+ * Fewer validation customers than this and a blend's advantage is mostly noise: the standard error of a
+ * mean NDCG over n customers is about sd/√n, and below 50 customers it is of the order of the gaps between
+ * models (common practice, no source).
+ */
+export const MIN_BLEND_CUSTOMERS = 50;
+
+/** The model used when nothing can be measured at all (no validation customer): item-kNN, else the first available. */
+const PRIOR_ORDER: readonly BlendModel[] = ['itemknn', 'ease', 'ials', 'content', 'popularity'];
+
+export interface BlendSpec {
+  /** 'single': the hybrid is `model`, raw; 'blend': the weighted sum of normalised scores. */
+  kind: 'single' | 'blend';
+  /** The single model (kind 'single'), else null. */
+  model: BlendModel | null;
+  normalisation: CustomerNormalisation;
+  /** Weight of each model in the blend, summing to 1 (a single model: that model at 1). */
+  weights: Partial<Record<BlendModel, number>>;
+  /** Cold items take (a share of) the content model's normalised score. */
+  coldContent: boolean;
+  /** That share, in (0, 1]: cold score = share·content + (1 − share)·blend. Absent = 1 (stored before shares). */
+  coldShare?: number;
+}
+
+/** Content-path shares tried, strongest first: the strongest that costs nothing on validation is kept. */
+export const COLD_SHARES = [1, 0.5, 0.25] as const;
+
+export interface ValidatedBlend extends BlendSpec {
+  /** False when too few validation customers: the result is the best single model, unvalidated. */
+  validated: boolean;
+  validation: {
+    k: number;
+    customers: number;
+    /** NDCG@K of the chosen hybrid on validation (NaN with no customer). */
+    ndcg: number;
+    /** Each model alone, raw, on the same customers. */
+    singles: { model: BlendModel; ndcg: number }[];
+    bestSingle: BlendModel;
+    trials: number;
+    method?: 'time' | 'random';
+  };
+  /** In words, for `models` and `evaluate`. */
+  reason: string;
+}
+
+export interface BlendModelInput {
+  name: BlendModel;
+  scorer: Ranker;
+}
+
+export interface ValidatedBlendOptions {
+  /** Mixing shares tried per step. Default [0.1, 0.2, 0.35, 0.5]. */
+  alphas?: readonly number[];
+  normalisations?: readonly CustomerNormalisation[];
+  minCustomers?: number;
+  /** Customers per item in the history (the cold-item test); null = no cold path. */
+  customersPerItem?: Int32Array | null;
+  coldMinCustomers?: number;
+}
+
+/** A blend spec in words: "is item-kNN" or "0.6 item-kNN + 0.4 iALS (z-score)". */
+export function describeBlend(b: BlendSpec): string {
+  const share = b.coldShare ?? 1;
+  const cold = b.coldContent ? (share === 1 ? ', content for cold items' : `, content at ${share} for cold items`) : '';
+  if (b.kind === 'single') return `is ${b.model}${cold}`;
+  const parts = BLEND_MODELS.filter((m) => (b.weights[m] ?? 0) > 0).map((m) => `${round(b.weights[m]!)} ${m}`);
+  return `${parts.join(' + ')} (${b.normalisation === 'zscore' ? 'z-scores' : 'ranks'} per customer${cold})`;
+}
+
+const round = (x: number) => Math.round(x * 1000) / 1000;
+
+export function validateBlend(
+  evaluator: RankingEvaluator,
+  history: Csr,
+  models: readonly BlendModelInput[],
+  options: ValidatedBlendOptions = {},
+): ValidatedBlend {
+  if (models.length === 0) throw new RangeError('no model to blend');
+  const ordered = BLEND_MODELS.map((m) => models.find((x) => x.name === m)).filter((x): x is BlendModelInput => x !== undefined);
+  const minCustomers = options.minCustomers ?? MIN_BLEND_CUSTOMERS;
+  const k = evaluator.k;
+  const customers = evaluator.customerCount;
+  const perSingle = ordered.map(() => new Float64Array(customers));
+  const singles = ordered.map((m, q) => ({
+    model: m.name,
+    ndcg: customers > 0 ? evaluator.evaluateFill(m.name, (u, _c, out) => m.scorer.scoreInto(u, history, out), perSingle[q]).ndcg : Number.NaN,
+  }));
+  let best = singles[0]!;
+  for (const s of singles) if (s.ndcg > best.ndcg + 1e-9 || (Number.isNaN(best.ndcg) && !Number.isNaN(s.ndcg))) best = s;
+  if (customers === 0) best = { model: PRIOR_ORDER.find((m) => ordered.some((x) => x.name === m))!, ndcg: Number.NaN };
+  const single = (validated: boolean, reason: string, coldShare = 0, ndcg = best.ndcg, trials = singles.length): ValidatedBlend => ({
+    kind: 'single',
+    model: best.model,
+    normalisation: 'zscore',
+    weights: { [best.model]: 1 },
+    coldContent: coldShare > 0,
+    ...(coldShare > 0 && { coldShare }),
+    validated,
+    validation: { k, customers, ndcg, singles, bestSingle: best.model, trials },
+    reason,
+  });
+  if (customers < minCustomers) {
+    const what = customers === 0 ? `${best.model} (no customer to measure on; item-kNN is preferred when nothing can be measured)` : `${best.model}, the best single model on them`;
+    return single(
+      false,
+      `the blend cannot be validated: ${customers} validation customer${customers === 1 ? '' : 's'}, at least ${minCustomers} needed; the hybrid is ${what}`,
+    );
+  }
+
+  const N = history.cols;
+  const M = ordered.length;
+  const contentAt = ordered.findIndex((m) => m.name === 'content');
+  let cold: Uint8Array | null = null;
+  if (options.customersPerItem && contentAt >= 0) {
+    const min = options.coldMinCustomers ?? 5;
+    cold = Uint8Array.from(options.customersPerItem, (c) => (c < min ? 1 : 0));
+    if (!cold.some((x) => x === 1)) cold = null;
+  }
+  const alphas = options.alphas ?? [0.1, 0.2, 0.35, 0.5];
+  const bestAt = ordered.findIndex((m) => m.name === best.model);
+  const cols = new Float32Array(customers * M * N);
+  const raw = new Float32Array(N);
+  const scratch = new Float64Array(N);
+  const views: Float32Array[] = new Array<Float32Array>(M);
+  let trials = singles.length;
+
+  interface Outcome { weights: Float64Array; coldShare: number; ndcg: number; normalisation: CustomerNormalisation }
+  const bestPer = perSingle[bestAt]!;
+  const blendPer = new Float64Array(customers);
+  let guarded: { gain: number; se: number } | null = null;
+  let winner: Outcome | null = null;
+  for (const how of options.normalisations ?? CUSTOMER_NORMALISATIONS) {
+    // Each customer's normalised columns, once.
+    const us = evaluator.customers;
+    for (let c = 0; c < customers; c++) {
+      const u = us[c]!;
+      const hist = history.indices.subarray(history.indptr[u]!, history.indptr[u + 1]!);
+      for (let m = 0; m < M; m++) {
+        ordered[m]!.scorer.scoreInto(u, history, raw);
+        normaliseForCustomer(how, raw, hist, cols.subarray((c * M + m) * N, (c * M + m + 1) * N), scratch);
+      }
+    }
+    const measure = (w: Float64Array, share: number): EvalResult => {
+      trials++;
+      return evaluator.evaluateFill('hybrid', (_u, c, out) => {
+        for (let m = 0; m < M; m++) views[m] = cols.subarray((c * M + m) * N, (c * M + m + 1) * N);
+        blendColumnsInto(views, w, share > 0 ? cold : null, share > 0 ? views[contentAt]! : null, out, share);
+      });
+    };
+    // The strongest content path for cold items that costs nothing against `score`, else none.
+    const coldPath = (w: Float64Array): number => {
+      if (!cold) return 0;
+      for (const share of COLD_SHARES) {
+        const r = measure(w, share);
+        if (r.ndcg >= score) {
+          score = r.ndcg;
+          return share;
+        }
+      }
+      return 0;
+    };
+    let w: Float64Array = new Float64Array(M);
+    w[bestAt] = 1;
+    let score = best.ndcg; // the raw single model's, as `evaluate` shows it
+    // The content path for cold items is kept unless it makes the single model worse.
+    let withCold = coldPath(w);
+    const startCold = withCold;
+    const startScore = score;
+    for (;;) {
+      let step: { w: Float64Array; ndcg: number } | null = null as { w: Float64Array; ndcg: number } | null;
+      for (let m = 0; m < M; m++) {
+        if (w[m]! > 0) continue;
+        for (const a of alphas) {
+          const t = Float64Array.from(w, (x) => (1 - a) * x);
+          t[m] = a;
+          const r = measure(t, withCold);
+          if (r.ndcg > (step ? step.ndcg : score) + 1e-9) step = { w: t, ndcg: r.ndcg };
+        }
+      }
+      if (!step) break;
+      w = step.w;
+      score = step.ndcg;
+    }
+    // Refinement: forward selection fixes each weight when its model joins; a few coordinate moves (each
+    // member's weight halved or 1.5×, then renormalised) let earlier weights follow later members.
+    for (let round = 0; round < 2 && w[bestAt]! < 1; round++) {
+      let moved = false;
+      for (let m = 0; m < M; m++) {
+        if (!(w[m]! > 0)) continue;
+        for (const f of [0.5, 1.5]) {
+          const t = Float64Array.from(w, (x, q) => (q === m ? x * f : x));
+          const total = t.reduce((a, b) => a + b, 0);
+          for (let q = 0; q < M; q++) t[q]! /= total;
+          const r = measure(t, withCold);
+          if (r.ndcg > score + 1e-9) {
+            w = t;
+            score = r.ndcg;
+            moved = true;
+          }
+        }
+      }
+      if (!moved) break;
+    }
+    // A blend found without the content path: keep a path too if it costs nothing.
+    if (withCold === 0 && w[bestAt]! < 1) withCold = coldPath(w);
+    if (w[bestAt]! < 1) {
+      // The one-standard-error rule (Hastie, Tibshirani & Friedman, The Elements of Statistical Learning,
+      // 2nd ed., §7.10): prefer the simpler model unless the richer one wins by more than one standard error.
+      // Here the gain is paired per customer, blend minus the best single model alone; a gain within its
+      // standard error is noise that a later window need not repeat, and the hybrid stays that model.
+      trials++;
+      evaluator.evaluateFill('hybrid', (_u, c, out) => {
+        for (let m = 0; m < M; m++) views[m] = cols.subarray((c * M + m) * N, (c * M + m + 1) * N);
+        blendColumnsInto(views, w, withCold > 0 ? cold : null, withCold > 0 ? views[contentAt]! : null, out, withCold);
+      }, blendPer);
+      const { mean, se } = pairedGain(blendPer, bestPer);
+      if (!(mean > se)) {
+        guarded = { gain: mean, se };
+        w = new Float64Array(M);
+        w[bestAt] = 1;
+        withCold = startCold;
+        score = startScore;
+      }
+    }
+    if (!winner || score > winner.ndcg + 1e-9) winner = { weights: w, coldShare: withCold, ndcg: score, normalisation: how };
+  }
+  const o = winner!;
+  if (o.weights[bestAt] === 1) {
+    const path = o.coldShare > 0 ? `; cold items keep a content path${o.coldShare < 1 ? ` (share ${o.coldShare})` : ''}` : '';
+    const why = guarded
+      ? `no blend beat ${best.model} on validation by more than its standard error (best gain ${guarded.gain.toFixed(4)} ± ${guarded.se.toFixed(4)} NDCG@${k})`
+      : `no blend beat ${best.model} on validation`;
+    return {
+      ...single(true, `${why}, so the hybrid is ${best.model}${path}`, o.coldShare, o.ndcg, trials),
+      normalisation: o.normalisation,
+    };
+  }
+  const weights: Partial<Record<BlendModel, number>> = {};
+  ordered.forEach((m, q) => {
+    if (o.weights[q]! > 0) weights[m.name] = o.weights[q]!;
+  });
+  const spec: BlendSpec = {
+    kind: 'blend',
+    model: null,
+    normalisation: o.normalisation,
+    weights,
+    coldContent: o.coldShare > 0,
+    ...(o.coldShare > 0 && { coldShare: o.coldShare }),
+  };
+  return {
+    ...spec,
+    validated: true,
+    validation: { k, customers, ndcg: o.ndcg, singles, bestSingle: best.model, trials },
+    reason: `${describeBlend(spec)}: NDCG@${k} ${o.ndcg.toFixed(4)} on validation against ${best.ndcg.toFixed(4)} for ${best.model} alone`,
+  };
+}
+
+/** Mean and standard error of the paired differences a − b (per customer). */
+function pairedGain(a: Float64Array, b: Float64Array): { mean: number; se: number } {
+  const n = a.length;
+  let s = 0;
+  for (let c = 0; c < n; c++) s += a[c]! - b[c]!;
+  const mean = s / n;
+  let ss = 0;
+  for (let c = 0; c < n; c++) ss += (a[c]! - b[c]! - mean) ** 2;
+  return { mean, se: n > 1 ? Math.sqrt(ss / (n - 1) / n) : Infinity };
+}

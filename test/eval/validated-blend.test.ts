@@ -1,0 +1,139 @@
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { evalTruth, RankingEvaluator, validateBlend, type BlendModel } from '../../src-main/core/eval/index.ts';
+import type { Scorer } from '../../src-main/core/models/scorer.ts';
+import { BlendScorer } from '../../src-main/core/scoring/index.ts';
+import { binaryRows } from './csr-helper.ts';
+
+/** A model with fixed scores per customer (row u of `scores`), as a Scorer so the BlendScorer can serve it. */
+function table(kind: BlendModel, scores: Float32Array[]): Scorer {
+  return {
+    kind,
+    itemCount: scores[0]!.length,
+    scoreInto: (u, _h, out) => out.set(scores[u]!),
+    similarityInto: () => {
+      throw new Error('not used');
+    },
+    similarItems: () => {
+      throw new Error('not used');
+    },
+    serialize: () => new Uint8Array(0),
+  };
+}
+
+const NAMES: BlendModel[] = ['content', 'itemknn', 'ials', 'ease', 'popularity'];
+
+describe('validateBlend', () => {
+  // The issue's guarantee, checked over random score matrices: whatever the models say, the chosen
+  // hybrid's NDCG@K on validation is at least that of the best model measured alone, raw, by the same
+  // evaluator — and serving the stored spec (BlendScorer) reproduces the validation figure.
+  it('is never below the best single model on validation (property over random score matrices)', () => {
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 2, max: 4 }),
+        fc.integer({ min: 1, max: 1e9 }),
+        fc.boolean(),
+        (M, seed, withCold) => {
+          let s = seed;
+          const rnd = () => ((s = (Math.imul(s, 1103515245) + 12345) >>> 0) / 2 ** 32);
+          const C = 60;
+          const N = 25;
+          const history = binaryRows(Array.from({ length: C }, () => [Math.floor(rnd() * N)]), N);
+          const window = binaryRows(Array.from({ length: C }, () => [Math.floor(rnd() * N), Math.floor(rnd() * N)]), N);
+          const ev = new RankingEvaluator(history, evalTruth(history, window), 5);
+          const models = NAMES.slice(0, M).map((name) =>
+            table(name, Array.from({ length: C }, () => Float32Array.from({ length: N }, () => Math.round(rnd() * 8) / 2))),
+          );
+          const cpi = Int32Array.from({ length: N }, () => Math.floor(rnd() * 10));
+          const r = validateBlend(ev, history, models.map((m) => ({ name: m.kind as BlendModel, scorer: { name: m.kind, scoreInto: m.scoreInto } })), {
+            minCustomers: 10,
+            customersPerItem: withCold ? cpi : null,
+          });
+          const bestSingle = Math.max(...models.map((m) => ev.evaluate({ name: m.kind, scoreInto: m.scoreInto }).ndcg));
+          expect(r.validated).toBe(true);
+          expect(r.validation.ndcg).toBeGreaterThanOrEqual(bestSingle);
+          if (r.kind === 'blend') expect(r.validation.ndcg).toBeGreaterThan(bestSingle);
+          const served = new BlendScorer(r, new Map(models.map((m) => [m.kind, m])), cpi);
+          expect(ev.evaluate(served).ndcg).toBeCloseTo(r.validation.ndcg, 12);
+        },
+      ),
+      { numRuns: 40 },
+    );
+  });
+
+  it('blends two models that each know half of the customers, with both weights', () => {
+    // Model a scores each even customer's truth item 1 and the rest 0, and gives odd customers noise;
+    // model b the reverse. Alone each finds half; together, all.
+    const C = 60;
+    const N = 20;
+    const truthItem = (u: number) => (u * 7) % N;
+    const history = binaryRows(Array.from({ length: C }, (_, u) => [(truthItem(u) + 1) % N]), N);
+    const window = binaryRows(Array.from({ length: C }, (_, u) => [truthItem(u)]), N);
+    const ev = new RankingEvaluator(history, evalTruth(history, window), 3);
+    const noise = (u: number, i: number) => ((u * 31 + i * 17) % 13) / 100;
+    const col = (even: boolean) =>
+      Array.from({ length: C }, (_, u) => Float32Array.from({ length: N }, (_, i) => ((u % 2 === 0) === even ? (i === truthItem(u) ? 1 : 0) : noise(u, i))));
+    const a = table('itemknn', col(true));
+    const b = table('ials', col(false));
+    const r = validateBlend(ev, history, [
+      { name: 'itemknn', scorer: { name: 'itemknn', scoreInto: a.scoreInto } },
+      { name: 'ials', scorer: { name: 'ials', scoreInto: b.scoreInto } },
+    ]);
+    expect(r.kind).toBe('blend');
+    expect(r.weights.itemknn).toBeGreaterThan(0);
+    expect(r.weights.ials).toBeGreaterThan(0);
+    expect(r.validation.ndcg).toBeCloseTo(1, 9);
+    expect(Math.max(...r.validation.singles.map((x) => x.ndcg))).toBeLessThan(0.75);
+    expect(r.reason).toMatch(/on validation against/);
+  });
+
+  it('is the single model when no blend beats it, and says so', () => {
+    const C = 60;
+    const N = 10;
+    const history = binaryRows(Array.from({ length: C }, () => [0]), N);
+    const window = binaryRows(Array.from({ length: C }, () => [1]), N);
+    const ev = new RankingEvaluator(history, evalTruth(history, window), 3);
+    const perfect = table('ease', Array.from({ length: C }, () => Float32Array.from({ length: N }, (_, i) => (i === 1 ? 1 : 0))));
+    const bad = table('popularity', Array.from({ length: C }, () => Float32Array.from({ length: N }, (_, i) => i)));
+    const r = validateBlend(ev, history, [
+      { name: 'ease', scorer: { name: 'ease', scoreInto: perfect.scoreInto } },
+      { name: 'popularity', scorer: { name: 'popularity', scoreInto: bad.scoreInto } },
+    ]);
+    expect(r.kind).toBe('single');
+    expect(r.model).toBe('ease');
+    expect(r.weights).toEqual({ ease: 1 });
+    expect(r.reason).toBe('no blend beat ease on validation, so the hybrid is ease');
+  });
+
+  it('falls back to the best single model, unvalidated, when too few customers', () => {
+    const C = 12;
+    const N = 6;
+    const history = binaryRows(Array.from({ length: C }, () => [0]), N);
+    const window = binaryRows(Array.from({ length: C }, () => [2]), N);
+    const ev = new RankingEvaluator(history, evalTruth(history, window), 2);
+    const good = table('ials', Array.from({ length: C }, () => Float32Array.from({ length: N }, (_, i) => (i === 2 ? 1 : 0))));
+    const poor = table('itemknn', Array.from({ length: C }, () => Float32Array.from({ length: N }, (_, i) => -i)));
+    const r = validateBlend(ev, history, [
+      { name: 'itemknn', scorer: { name: 'itemknn', scoreInto: poor.scoreInto } },
+      { name: 'ials', scorer: { name: 'ials', scoreInto: good.scoreInto } },
+    ]);
+    expect(r.validated).toBe(false);
+    expect(r.kind).toBe('single');
+    expect(r.model).toBe('ials');
+    expect(r.reason).toBe('the blend cannot be validated: 12 validation customers, at least 50 needed; the hybrid is ials, the best single model on them');
+  });
+
+  it('with no validation customer at all, says so and takes item-kNN', () => {
+    const history = binaryRows([[0], [1]], 4);
+    const window = binaryRows([[0], [1]], 4); // repeats only: nobody to evaluate
+    const ev = new RankingEvaluator(history, evalTruth(history, window), 2);
+    const z = table('itemknn', [new Float32Array(4), new Float32Array(4)]);
+    const r = validateBlend(ev, history, [
+      { name: 'content', scorer: { name: 'content', scoreInto: z.scoreInto } },
+      { name: 'itemknn', scorer: { name: 'itemknn', scoreInto: z.scoreInto } },
+    ]);
+    expect(r.validated).toBe(false);
+    expect(r.model).toBe('itemknn');
+    expect(r.reason).toMatch(/^the blend cannot be validated: 0 validation customers, at least 50 needed; the hybrid is itemknn \(no customer/);
+  });
+});

@@ -131,7 +131,7 @@ function signalConverter(ctx: RowContext): Converter<SignalInput> {
     if (!checkWidth(ctx, values, problems)) return undefined;
     const customer = field(ctx, values, problems, 'customer', externalId);
     const item = field(ctx, values, problems, 'item', externalId);
-    const k = field(ctx, values, problems, 'kind', kind);
+    const k = ctx.plan.everyRowKind ?? field(ctx, values, problems, 'kind', kind);
     const v = ctx.plan.index.value! >= 0 ? field(ctx, values, problems, 'value', value) : 1;
     const t = ctx.plan.index.at! >= 0 ? field(ctx, values, problems, 'at', at) : null;
     if (problems.length > 0) return undefined;

@@ -1,5 +1,6 @@
 import fs from 'node:fs';
 import { BugError, InputError } from '../core/errors.ts';
+import type { SignalKind } from '../core/types.ts';
 import { CatalogueWriter, logImport, type CustomerWrite, type ItemWrite, type SignalBatch } from '../store/catalogue-writes.ts';
 import type { Db } from '../store/workspace.ts';
 import { planColumns, type ColumnPlan, type ImportTarget, type Mapping } from './fields.ts';
@@ -17,6 +18,8 @@ export interface RunOptions {
   mapping?: Mapping;
   delimiter?: string;
   dateOrder?: DateOrder;
+  /** Signals: the kind of every row, for a file without a kind column (a file with one is refused). */
+  kind?: SignalKind;
   /** Signals naming an unknown customer: reject the row (default) or create the customer. Items are never created. */
   unknown?: 'reject' | 'create';
   /** false (default): one rejected row fails the whole import. true: valid rows are committed, rejects reported. */
@@ -121,7 +124,7 @@ async function readAndWrite(db: Db, o: RunOptions, format: ImportFormat): Promis
     format,
     {
       header(headers, delimiter) {
-        plan = planColumns(o.file, o.target, headers, o.mapping);
+        plan = planColumns(o.file, o.target, headers, o.mapping, o.kind);
         report.mapping = plan.mapping;
         convert = rowConverter({ plan, dateOrder: o.dateOrder, delimiter });
       },
@@ -176,6 +179,7 @@ async function readAndWriteSignals(writer: CatalogueWriter, o: RunOptions, forma
     ...(o.mapping && { mapping: o.mapping }),
     ...(o.delimiter && { delimiter: o.delimiter }),
     ...(o.dateOrder && { dateOrder: o.dateOrder }),
+    ...(o.kind && { kind: o.kind }),
   };
   const r = await (thread ? readSignalsInThread : readSignals)(options, writer.idMaps(), write);
   Object.assign(report, {

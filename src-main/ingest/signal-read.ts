@@ -1,3 +1,4 @@
+import type { SignalKind } from '../core/types.ts';
 import type { IdMaps, SignalBatch } from '../store/catalogue-writes.ts';
 import { planColumns, type Mapping } from './fields.ts';
 import { RejectLog, type RowError } from './rejects.ts';
@@ -13,6 +14,8 @@ export interface SignalReadOptions {
   delimiter?: string;
   dateOrder?: DateOrder;
   createCustomers: boolean;
+  /** The kind of every row, for a file without a kind column (planColumns). */
+  kind?: SignalKind;
 }
 
 export interface SignalReadResult {
@@ -42,7 +45,7 @@ export async function readSignals(o: SignalReadOptions, ids: IdMaps, emit: (b: S
     o.format,
     {
       header(headers, delimiter) {
-        const plan = planColumns(o.file, 'signals', headers, o.mapping);
+        const plan = planColumns(o.file, 'signals', headers, o.mapping, o.kind);
         mapping = plan.mapping;
         rows = new SignalRows({ plan, dateOrder: o.dateOrder, delimiter }, ids, o.createCustomers, rejects, emit, transfer);
         rows.rows = early;

@@ -29,6 +29,7 @@ export class SignalRows {
   readonly #col: { customer: number; item: number; kind: number; value: number; at: number };
   readonly #value: (v: unknown) => number | Bad;
   readonly #at: (v: unknown) => number | Bad;
+  readonly #everyRowKind: SignalKind | undefined;
 
   constructor(ctx: RowContext, ids: IdMaps, createCustomers: boolean, rejects: RejectLog, emit: (b: SignalBatch) => void, transfer = false) {
     this.#ctx = ctx;
@@ -38,6 +39,7 @@ export class SignalRows {
     this.#rejects = rejects;
     this.#emit = emit;
     const at = (f: string) => ctx.plan.index[f] ?? -1;
+    this.#everyRowKind = ctx.plan.everyRowKind;
     this.#col = { customer: at('customer'), item: at('item'), kind: at('kind'), value: at('value'), at: at('at') };
     const commaDecimal = ctx.delimiter !== undefined && ctx.delimiter !== ',';
     this.#value = (v) => (isBlank(v) ? 1 : nonNegative(v, commaDecimal));
@@ -57,7 +59,7 @@ export class SignalRows {
     if (checkWidth(this.#ctx, values, problems)) {
       const customer = this.#field(values, c.customer, 'customer', externalId);
       const item = this.#field(values, c.item, 'item', externalId);
-      const k = this.#field(values, c.kind, 'kind', kind);
+      const k = this.#everyRowKind ?? this.#field(values, c.kind, 'kind', kind);
       const value = c.value >= 0 ? this.#field(values, c.value, 'value', this.#value) : 1;
       const at = c.at >= 0 ? this.#field(values, c.at, 'at', this.#at) : Number.NaN;
       if (problems.length === 0) {

@@ -1,5 +1,6 @@
 import { InputError } from '../core/errors.ts';
 import type { SignalKind } from '../core/types.ts';
+import { cut, quote } from '../core/util/cut.ts';
 
 /**
  * The canonical fields of each import target and the header words that name them. A file's headers are
@@ -86,7 +87,7 @@ export function planColumns(file: string, target: ImportTarget, headers: string[
     if (h === '') throw new InputError(`column ${i + 1} has no header name`, { file, line: 1, column: i + 1 });
     const prev = seen.get(h);
     if (prev !== undefined) {
-      throw new InputError(`duplicate header '${h}' (columns ${prev + 1} and ${i + 1})`, { file, line: 1, column: i + 1 });
+      throw new InputError(`duplicate header ${quote(h)} (columns ${prev + 1} and ${i + 1})`, { file, line: 1, column: i + 1 });
     }
     seen.set(h, i);
   });
@@ -95,12 +96,12 @@ export function planColumns(file: string, target: ImportTarget, headers: string[
   const mapping: Mapping = {};
   for (const [field, header] of Object.entries(explicit)) {
     if (!fields.includes(field)) {
-      throw new InputError(`mapping names '${field}', which is not a field of ${target} (fields: ${fields.join(', ')})`, { file });
+      throw new InputError(`mapping names ${quote(field)}, which is not a field of ${target} (fields: ${fields.join(', ')})`, { file });
     }
     if (header === undefined) continue;
     const at = trimmed.indexOf(header.trim());
     if (at < 0) {
-      throw new InputError(`mapping names column '${header}' for ${field}, but the file has no such column (columns: ${trimmed.join(', ')})`, {
+      throw new InputError(`mapping names column ${quote(header)} for ${field}, but the file has no such column (columns: ${cut(trimmed.join(', '))})`, {
         file,
         line: 1,
       });
@@ -117,7 +118,7 @@ export function planColumns(file: string, target: ImportTarget, headers: string[
       // Prefer the column named exactly like the field; otherwise refuse to guess.
       const exact = hits.filter((i) => foldHeader(trimmed[i]!) === foldHeader(field));
       if (exact.length !== 1) {
-        const names = hits.map((i) => `'${trimmed[i]}'`).join(' and ');
+        const names = hits.map((i) => quote(trimmed[i]!)).join(' and ');
         throw new InputError(`columns ${names} could both be ${field}; pass a mapping`, { file, line: 1, column: hits[1]! + 1 });
       }
       hits.splice(0, hits.length, exact[0]!);
@@ -130,7 +131,7 @@ export function planColumns(file: string, target: ImportTarget, headers: string[
   }
   if (everyRowKind !== undefined && index.kind! >= 0) {
     throw new InputError(
-      `the file has a kind column ('${trimmed[index.kind!]}'), and every row was also given the kind ${everyRowKind} ` +
+      `the file has a kind column (${quote(trimmed[index.kind!]!)}), and every row was also given the kind ${everyRowKind} ` +
         '(--kind on the command line); that is only for files without one: leave it out to read the kind from the column',
       { file, line: 1, column: index.kind! + 1 },
     );
@@ -139,7 +140,7 @@ export function planColumns(file: string, target: ImportTarget, headers: string[
   if (missing.length > 0) {
     const kindHint = missing.includes('kind') ? ', or give every row one kind (--kind on the command line)' : '';
     throw new InputError(
-      `missing required column${missing.length > 1 ? 's' : ''} ${missing.join(', ')} for ${target} (columns: ${trimmed.join(', ')}); rename them or pass a mapping${kindHint}`,
+      `missing required column${missing.length > 1 ? 's' : ''} ${missing.join(', ')} for ${target} (columns: ${cut(trimmed.join(', '))}); rename them or pass a mapping${kindHint}`,
       { file, line: 1 },
     );
   }

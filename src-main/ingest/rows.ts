@@ -1,4 +1,5 @@
 import type { AttributeValue } from '../core/types.ts';
+import { cut } from '../core/util/cut.ts';
 import type { CustomerWrite, ItemWrite, SignalWrite } from '../store/catalogue-writes.ts';
 import type { ColumnPlan } from './fields.ts';
 import { bool, describe, isBad, isBlank, kind, nonNegative, tags, text, time, type Bad, type DateOrder } from './values.ts';
@@ -39,7 +40,8 @@ export function rowConverter(ctx: RowContext): Converter<ItemInput | CustomerInp
 
 /** Column label for a problem: the column number for CSV, the key for JSON. */
 export function columnLabel(ctx: RowContext, i: number): number | string {
-  return ctx.delimiter !== undefined ? i + 1 : (ctx.plan.headers[i] ?? i + 1);
+  const key = ctx.plan.headers[i];
+  return ctx.delimiter !== undefined || key === undefined ? i + 1 : cut(key);
 }
 
 export function checkWidth(ctx: RowContext, values: unknown[], problems: Problem[]): boolean {
@@ -78,7 +80,7 @@ function attributes(ctx: RowContext, values: unknown[], problems: Problem[]): Re
     const v = values[i];
     if (v === undefined || v === '') continue;
     if (v === null || typeof v === 'string' || typeof v === 'number' || typeof v === 'boolean') out[ctx.plan.headers[i]!] = v;
-    else problems.push({ column: columnLabel(ctx, i), reason: `attribute ${ctx.plan.headers[i]}: expected a plain value, got ${describe(v)}` });
+    else problems.push({ column: columnLabel(ctx, i), reason: `attribute ${cut(ctx.plan.headers[i]!)}: expected a plain value, got ${describe(v)}` });
   }
   return out;
 }

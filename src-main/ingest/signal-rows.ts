@@ -2,7 +2,7 @@ import { SIGNAL_KINDS, type SignalKind } from '../core/types.ts';
 import { SIGNAL_BATCH, type IdMaps, type SignalBatch } from '../store/catalogue-writes.ts';
 import type { RejectLog } from './rejects.ts';
 import { checkWidth, columnLabel, externalId, type Problem, type RowContext } from './rows.ts';
-import { isBad, isBlank, kind, nonNegative, time, type Bad } from './values.ts';
+import { describe, isBad, isBlank, kind, nonNegative, time, type Bad } from './values.ts';
 
 const KIND_CODE = new Map<SignalKind, number>(SIGNAL_KINDS.map((k, i) => [k, i]));
 
@@ -85,14 +85,14 @@ export class SignalRows {
   #resolve(customer: string, item: string, k: SignalKind, value: number, at: number, line: number): void {
     const itemId = this.#ids.items.get(item);
     if (itemId < 0) {
-      this.#rejects.add(line, columnLabel(this.#ctx, this.#col.item), `item: unknown item '${item}'; signals never create items, import the catalogue first`);
+      this.#rejects.add(line, columnLabel(this.#ctx, this.#col.item), `item: unknown item ${describe(item)}; signals never create items, import the catalogue first`);
       return;
     }
     const b = this.#batch;
     let customerId = this.#ids.customers.get(customer);
     if (customerId < 0) {
       if (!this.#create) {
-        const reason = `customer: unknown customer '${customer}'; import customers first, or let the import create them (--create-customers on the command line)`;
+        const reason = `customer: unknown customer ${describe(customer)}; import customers first, or let the import create them (--create-customers on the command line)`;
         this.#rejects.add(line, columnLabel(this.#ctx, this.#col.customer), reason);
         return;
       }

@@ -1,4 +1,5 @@
 import { SIGNAL_KINDS, type SignalKind } from '../core/types.ts';
+import { cut, quote } from '../core/util/cut.ts';
 
 /**
  * Cell converters shared by every target. Each returns the value or a `Bad` with the reason an editor
@@ -187,9 +188,9 @@ function zoneOffsetMs(zone: string): number {
   return sign * (Number(digits.slice(0, 2)) * 3_600_000 + Number(digits.slice(2) || '0') * 60_000);
 }
 
-/** The value as an editor would recognise it in a message, shortened. */
+/** The value as an editor would recognise it in a message, cut (core/util/cut.ts). */
 export function describe(v: unknown): string {
   if (v === undefined) return 'nothing';
-  const s = typeof v === 'string' ? `'${v}'` : JSON.stringify(v) ?? String(v);
-  return s.length > 60 ? `${s.slice(0, 57)}...` : s;
+  if (typeof v === 'string') return quote(v);
+  return cut(JSON.stringify(v) ?? String(v));
 }

@@ -1,6 +1,7 @@
 import type Database from 'better-sqlite3';
 import type { AttributeValue, SignalKind } from '../core/types.ts';
 import { StringIdTable } from '../core/util/string-id-table.ts';
+import { cut, quote } from '../core/util/cut.ts';
 import type { Db } from './workspace.ts';
 
 /**
@@ -123,7 +124,7 @@ export class CatalogueWriter {
   writeItem(row: ItemWrite): WriteOutcome {
     const exists = this.#itemIds.has(row.externalId);
     if (row.title === '') return { reject: 'title: an item needs a title' };
-    if (!exists && row.title === undefined) return { reject: `title: item '${row.externalId}' is new and needs a title` };
+    if (!exists && row.title === undefined) return { reject: `title: item ${quote(row.externalId)} is new and needs a title` };
     const st = this.#itemStatement(row, exists);
     if (exists && st.keys.length === 0) return 'unchanged'; // an id-only row for a known item
     const params: unknown[] = [];
@@ -288,7 +289,15 @@ export class CatalogueWriter {
   }
 }
 
-/** Records a committed import for the workspace's history (and the stats' "last import"). */
+/** Longest text kept in a stored import report: the log is history, not a copy of the file. */
+const LOG_TEXT_CHARS = 500;
+
+/**
+ * Records a committed import for the workspace's history (and the stats' "last import"). Every text in the
+ * report is cut to LOG_TEXT_CHARS, so a row is bounded however big the file's cells or headers were (one
+ * row of 5 MB ids once grew a workspace by 100 MB through its messages).
+ */
 export function logImport(db: Db, target: string, file: string, report: unknown): void {
-  db.prepare('INSERT INTO import_log (at, target, file, report) VALUES (?, ?, ?, ?)').run(Date.now(), target, file, JSON.stringify(report));
+  const json = JSON.stringify(report, (_key, v: unknown) => (typeof v === 'string' ? cut(v, LOG_TEXT_CHARS) : v));
+  db.prepare('INSERT INTO import_log (at, target, file, report) VALUES (?, ?, ?, ?)').run(Date.now(), target, file, json);
 }

@@ -1,0 +1,37 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { afterAll, describe, expect, it } from 'vitest';
+import { MESSAGE_VALUE_CHARS } from '../../src-main/core/util/cut.ts';
+import { importFile } from '../../src-main/services/import.ts';
+import { CUSTOMERS_CSV, ITEMS_CSV, freshWorkspace, tempDir, write } from './helpers.ts';
+
+/** Issue 11 part 4: values echoed in messages are cut; the stored import log stays small. */
+const dir = tempDir();
+afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+
+describe('huge cells in messages and in the import log', () => {
+  it('cuts a 5 MB id to about 80 characters and an ellipsis in the message, and stores a small log row', async () => {
+    const db = freshWorkspace(dir, 'huge.shelf');
+    await importFile(db, { target: 'items', file: write(dir, 'items.csv', ITEMS_CSV) });
+    await importFile(db, { target: 'customers', file: write(dir, 'customers.csv', CUSTOMERS_CSV) });
+    const huge = 'x'.repeat(5 << 20);
+    const file = write(dir, 'huge.csv', `customer,item,kind\nr1,${huge},view\nr1,b1,view\n`);
+    const r = await importFile(db, { target: 'signals', file, acceptPartial: true });
+    expect(r).toMatchObject({ rejected: 1, added: 1, committed: true });
+    const reason = r.errors[0]!.reason;
+    expect(reason).toBe(`item: unknown item '${'x'.repeat(MESSAGE_VALUE_CHARS - 1)}…'; signals never create items, import the catalogue first`);
+    expect(r.errors[0]!.message.length).toBeLessThan(file.length + 300);
+    const logged = db.prepare('SELECT length(report) FROM import_log ORDER BY id DESC LIMIT 1').pluck().get() as number;
+    expect(logged).toBeLessThan(10_000);
+    db.pragma('wal_checkpoint(TRUNCATE)');
+    expect(fs.statSync(path.join(dir, 'huge.shelf')).size).toBeLessThan(1 << 20);
+  });
+
+  it('cuts a long header named in a header error', async () => {
+    const db = freshWorkspace(dir, 'header.shelf');
+    const long = 'h'.repeat(10_000);
+    const file = write(dir, 'dup-header.csv', `id,${long},${long}\nb1,x,y\n`);
+    const e = await importFile(db, { target: 'items', file }).then(() => undefined, (x: unknown) => x as Error);
+    expect(e?.message).toBe(`duplicate header '${'h'.repeat(MESSAGE_VALUE_CHARS - 1)}…' (columns 2 and 3)`);
+  });
+});

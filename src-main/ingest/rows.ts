@@ -67,10 +67,25 @@ function field<T>(
   return out;
 }
 
+/** C0, DEL and C1 (ECMA-48): invisible in a list, and able to drive a terminal that prints the id. */
+// eslint-disable-next-line no-control-regex -- refusing control characters is the point
+const CONTROL = /[\u0000-\u001f\u007f-\u009f]/;
+const CONTROLS = new RegExp(CONTROL.source, 'g');
+
+/**
+ * An id as the shop's system wrote it, trimmed. Control characters are refused: an id is looked up, typed
+ * and printed, and one that cannot be seen cannot be typed (titles keep theirs; the command line shows them
+ * escaped).
+ */
 export function externalId(v: unknown): string | Bad {
   if (isBlank(v)) return { bad: 'missing id' };
   const t = text(v);
-  return isBad(t) ? t : t.trim();
+  if (isBad(t)) return t;
+  const id = t.trim();
+  const at = id.search(CONTROL);
+  if (at < 0) return id;
+  const code = `U+${id.charCodeAt(at).toString(16).toUpperCase().padStart(4, '0')}`;
+  return { bad: `an id may not hold control characters; ${describe(id.replace(CONTROLS, '?'))} has ${code} at character ${at + 1}` };
 }
 
 function attributes(ctx: RowContext, values: unknown[], problems: Problem[]): Record<string, AttributeValue> | undefined {

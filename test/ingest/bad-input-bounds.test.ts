@@ -35,3 +35,25 @@ describe('huge cells in messages and in the import log', () => {
     expect(e?.message).toBe(`duplicate header '${'h'.repeat(MESSAGE_VALUE_CHARS - 1)}…' (columns 2 and 3)`);
   });
 });
+
+describe('control characters', () => {
+  it('refuses them in ids of items, customers and signals, naming the character (ECMA-48 C0, DEL and C1)', async () => {
+    const db = freshWorkspace(dir, 'controls.shelf');
+    const items = await importFile(db, { target: 'items', file: write(dir, 'ctl-items.csv', 'id,title\n"b\u001b[2J1",Lamp\nb\u00852,Jar\nb3,Bowl\n') });
+    expect(items).toMatchObject({ committed: false, rejected: 2 });
+    expect(items.errors.map((e) => e.reason)).toEqual([
+      "id: an id may not hold control characters; 'b?[2J1' has U+001B at character 2",
+      "id: an id may not hold control characters; 'b?2' has U+0085 at character 2",
+    ]);
+    const customers = await importFile(db, { target: 'customers', file: write(dir, 'ctl-customers.jsonl', '{"id":"r\\u0007"}\n') });
+    expect(customers.errors[0]?.reason).toBe("id: an id may not hold control characters; 'r?' has U+0007 at character 2");
+    const signals = await importFile(db, { target: 'signals', file: write(dir, 'ctl-signals.csv', 'customer,item,kind\nr\u007f,b3,view\n'), unknown: 'create' });
+    expect(signals.errors[0]?.reason).toBe("customer: an id may not hold control characters; 'r?' has U+007F at character 2");
+  });
+
+  it('keeps them in titles (they are the shop\'s text), where the command line shows them escaped', async () => {
+    const db = freshWorkspace(dir, 'title.shelf');
+    await importFile(db, { target: 'items', file: write(dir, 'ctl-title.csv', 'id,title\nb1,"Lamp\u001b]0;owned\u0007\u001b[2J"\n') });
+    expect(db.prepare("SELECT title FROM item WHERE external_id = 'b1'").pluck().get()).toBe('Lamp\u001b]0;owned\u0007\u001b[2J');
+  });
+});

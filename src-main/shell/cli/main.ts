@@ -5,6 +5,7 @@ import { createHandlerTable, type HandlerTable } from '../../api/handler-table.t
 import { InputError } from '../../core/errors.ts';
 import { AppContext } from '../../services/context.ts';
 import { CliApiError } from './call.ts';
+import { escapeControls } from './escape.ts';
 import { EXIT, UsageError, type CliCommand, type CliIo, type CommandEnv, type OptionSpec } from './command.ts';
 
 export { UsageError };
@@ -99,7 +100,10 @@ function findCommand(argv: string[]): { command: CliCommand; rest: string[] } | 
   return undefined;
 }
 
-export async function main(argv: string[], io: CliIo, env: NodeJS.ProcessEnv = process.env): Promise<number> {
+export async function main(argv: string[], rawIo: CliIo, env: NodeJS.ProcessEnv = process.env): Promise<number> {
+  // Every line printed passes one guard (escape.ts): no command can forget it for a title or an id.
+  const form = argv.includes('--json') ? 'json' : 'text';
+  const io: CliIo = { ...rawIo, out: (t) => rawIo.out(escapeControls(t, form)), err: (t) => rawIo.err(escapeControls(t)) };
   const first = argv.find((a) => !a.startsWith('-'));
   if (argv.length === 0 || (first === undefined && (argv.includes('--help') || argv.includes('-h')))) {
     io.out(programHelp());
@@ -132,6 +136,7 @@ export async function main(argv: string[], io: CliIo, env: NodeJS.ProcessEnv = p
     values,
     positionals: parsed.positionals,
     io,
+    printFile: (t) => (rawIo.outIsTty ? io.out(t) : rawIo.out(t)),
     json: values['json'] === true,
     workspace,
     api: (options = {}) => {

@@ -1,6 +1,7 @@
 import fs from 'node:fs';
 import { BugError, InputError } from '../core/errors.ts';
 import type { SignalKind } from '../core/types.ts';
+import { plural } from '../core/util/plural.ts';
 import { CatalogueWriter, logImport, type CustomerWrite, type ItemWrite, type SignalBatch } from '../store/catalogue-writes.ts';
 import type { Db } from '../store/workspace.ts';
 import { planColumns, type ColumnPlan, type ImportTarget, type Mapping } from './fields.ts';
@@ -48,6 +49,13 @@ export interface ImportReport {
   customersCreated: number;
   /** The first MAX_ERRORS rejected rows; `errorCount` has them all. */
   errors: RowError[];
+  /**
+   * Signals only: rows dated after today (UTC). Accepted, since clocks and zones differ, but counted and
+   * warned about: a backtest holds out the latest interactions, and rows from the future would be those.
+   */
+  futureDated: number;
+  /** What the editor should look at although the import went through (future-dated rows). */
+  warnings: string[];
   errorCount: number;
   committed: boolean;
   elapsedMs: number;
@@ -112,7 +120,7 @@ async function readAndWrite(db: Db, o: RunOptions, format: ImportFormat): Promis
   const writer = new CatalogueWriter(db);
   const report: ImportReport = {
     target: o.target, file: o.file, format, delimiter: null, rows: 0, added: 0, updated: 0, unchanged: 0,
-    rejected: 0, customersCreated: 0, errors: [], errorCount: 0, committed: false, elapsedMs: 0, mapping: {},
+    rejected: 0, customersCreated: 0, errors: [], errorCount: 0, futureDated: 0, warnings: [], committed: false, elapsedMs: 0, mapping: {},
   };
   if (o.target === 'signals') return readAndWriteSignals(writer, o, format, report);
   const rejects = new RejectLog(o.file);
@@ -180,18 +188,32 @@ async function readAndWriteSignals(writer: CatalogueWriter, o: RunOptions, forma
     ...(o.delimiter && { delimiter: o.delimiter }),
     ...(o.dateOrder && { dateOrder: o.dateOrder }),
     ...(o.kind && { kind: o.kind }),
+    futureAfter: endOfTodayUtc(Date.now()),
   };
   const r = await (thread ? readSignalsInThread : readSignals)(options, writer.idMaps(), write);
   Object.assign(report, {
     rows: r.rows, rejected: r.rejected, errorCount: r.errorCount, errors: r.errors, mapping: r.mapping ?? {}, delimiter: r.delimiter ?? null,
   });
   checkNotEmpty(o.file, r.mapping !== undefined, r.rows);
+  report.futureDated = r.futureDated;
+  if (r.futureDated > 0) {
+    report.warnings.push(
+      `${plural(r.futureDated, 'signal is', 'signals are')} dated after today (the latest ${new Date(r.latestFuture).toISOString().slice(0, 10)}): ` +
+        'check the file\'s dates; a backtest holds out the latest signals, and these would be them',
+    );
+  }
   // A failing all-or-nothing import is rolled back anyway: skip rebuilding indexes it would throw away.
   if (report.rejected === 0 || o.acceptPartial) {
     const c = writer.finishSignals(r.valid);
     Object.assign(report, { added: c.added, updated: c.updated, unchanged: c.unchanged, customersCreated: c.customersCreated });
   }
   return report;
+}
+
+/** The first instant after today in UTC: a row of today is never "future", whatever the shop's zone. */
+function endOfTodayUtc(now: number): number {
+  const d = new Date(now);
+  return Date.UTC(d.getUTCFullYear(), d.getUTCMonth(), d.getUTCDate() + 1) - 1;
 }
 
 function checkNotEmpty(file: string, sawHeader: boolean, rows: number): void {

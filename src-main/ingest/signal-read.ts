@@ -16,6 +16,8 @@ export interface SignalReadOptions {
   createCustomers: boolean;
   /** The kind of every row, for a file without a kind column (planColumns). */
   kind?: SignalKind;
+  /** Rows dated after this (unix ms) are counted as future-dated; none when absent. */
+  futureAfter?: number;
 }
 
 export interface SignalReadResult {
@@ -26,6 +28,9 @@ export interface SignalReadResult {
   rejected: number;
   errorCount: number;
   errors: RowError[];
+  /** Valid rows dated after `futureAfter`, and the latest of their times (NaN when none). */
+  futureDated: number;
+  latestFuture: number;
   /** undefined when the file had no header at all. */
   mapping: Mapping | undefined;
   delimiter: string | undefined;
@@ -47,7 +52,7 @@ export async function readSignals(o: SignalReadOptions, ids: IdMaps, emit: (b: S
       header(headers, delimiter) {
         const plan = planColumns(o.file, 'signals', headers, o.mapping, o.kind);
         mapping = plan.mapping;
-        rows = new SignalRows({ plan, dateOrder: o.dateOrder, delimiter }, ids, o.createCustomers, rejects, emit, transfer);
+        rows = new SignalRows({ plan, dateOrder: o.dateOrder, delimiter }, ids, o.createCustomers, rejects, emit, transfer, o.futureAfter);
         rows.rows = early;
       },
       newColumn() {
@@ -68,5 +73,8 @@ export async function readSignals(o: SignalReadOptions, ids: IdMaps, emit: (b: S
   );
   rows?.end();
   const { rejected, errorCount, errors } = rejects;
-  return { rows: rows?.rows ?? early, valid: rows?.valid ?? 0, rejected, errorCount, errors, mapping, delimiter: info.delimiter };
+  return {
+    rows: rows?.rows ?? early, valid: rows?.valid ?? 0, rejected, errorCount, errors, mapping, delimiter: info.delimiter,
+    futureDated: rows?.futureDated ?? 0, latestFuture: rows?.latestFuture ?? Number.NaN,
+  };
 }

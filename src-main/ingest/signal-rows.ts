@@ -18,6 +18,10 @@ export class SignalRows {
   rows = 0;
   /** Rows that went into a batch. */
   valid = 0;
+  /** Of those, rows dated after `futureAfter` (see SignalReadOptions), and the latest such time. */
+  futureDated = 0;
+  latestFuture = Number.NaN;
+  readonly #futureAfter: number;
   readonly #ctx: RowContext;
   readonly #ids: IdMaps;
   readonly #create: boolean;
@@ -31,8 +35,12 @@ export class SignalRows {
   readonly #at: (v: unknown) => number | Bad;
   readonly #everyRowKind: SignalKind | undefined;
 
-  constructor(ctx: RowContext, ids: IdMaps, createCustomers: boolean, rejects: RejectLog, emit: (b: SignalBatch) => void, transfer = false) {
+  constructor(
+    ctx: RowContext, ids: IdMaps, createCustomers: boolean, rejects: RejectLog, emit: (b: SignalBatch) => void, transfer = false,
+    futureAfter = Number.POSITIVE_INFINITY,
+  ) {
     this.#ctx = ctx;
+    this.#futureAfter = futureAfter;
     this.#transfer = transfer;
     this.#ids = ids;
     this.#create = createCustomers;
@@ -108,6 +116,10 @@ export class SignalRows {
     b.value[r] = value;
     b.at[r] = at;
     this.valid++;
+    if (at > this.#futureAfter) {
+      this.futureDated++;
+      if (!(at <= this.latestFuture)) this.latestFuture = at; // NaN at first
+    }
     if (b.n === SIGNAL_BATCH) this.#send();
   }
 

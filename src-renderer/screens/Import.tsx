@@ -247,6 +247,11 @@ export function Import() {
             {report.rows.toLocaleString('en')} rows read · {report.added.toLocaleString('en')} added · {report.updated.toLocaleString('en')} updated ·{' '}
             {report.unchanged.toLocaleString('en')} unchanged · {report.rejected.toLocaleString('en')} rejected · {(report.elapsedMs / 1000).toFixed(1)} s
           </p>
+          {report.warnings.map((w) => (
+            <p key={w} className="warn">
+              Warning: {w}
+            </p>
+          ))}
           {report.errorCount > 0 && (
             <>
               <p className="error" role="alert">

@@ -137,3 +137,12 @@ describe('shelfwright import signals --kind (issue 10 item 7: files without a ki
     expect(help).toMatch(/every row is this kind \(view, basket, purchase, rating, read, click, other\), for a file without a kind column; a file with one is refused/);
   });
 });
+
+describe('shelfwright import: warnings', () => {
+  it('prints the count of signals dated after today under the counts', async () => {
+    const f = write('future.csv', 'customer,item,kind,at\nK1,A1,view,2999-01-01T00:00:00Z\n');
+    const io = capture();
+    expect(await main(['import', 'signals', f, '-w', ws], io, {})).toBe(0);
+    expect(io.stdout.join('\n')).toContain('  warning: 1 signal is dated after today (the latest 2999-01-01)');
+  });
+});

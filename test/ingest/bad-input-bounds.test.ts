@@ -2,6 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { MESSAGE_VALUE_CHARS } from '../../src-main/core/util/cut.ts';
+import { runImport } from '../../src-main/ingest/run.ts';
 import { importFile } from '../../src-main/services/import.ts';
 import { CUSTOMERS_CSV, ITEMS_CSV, freshWorkspace, tempDir, write } from './helpers.ts';
 
@@ -55,5 +56,48 @@ describe('control characters', () => {
     const db = freshWorkspace(dir, 'title.shelf');
     await importFile(db, { target: 'items', file: write(dir, 'ctl-title.csv', 'id,title\nb1,"Lamp\u001b]0;owned\u0007\u001b[2J"\n') });
     expect(db.prepare("SELECT title FROM item WHERE external_id = 'b1'").pluck().get()).toBe('Lamp\u001b]0;owned\u0007\u001b[2J');
+  });
+});
+
+describe('dates: impossible years refused, dates after today counted', () => {
+  const catalogue = async (name: string) => {
+    const db = freshWorkspace(dir, name);
+    await importFile(db, { target: 'items', file: write(dir, 'items.csv', ITEMS_CSV) });
+    await importFile(db, { target: 'customers', file: write(dir, 'customers.csv', CUSTOMERS_CSV) });
+    return db;
+  };
+
+  it('refuses years before 1000 and after 9999 (ISO 8601 four-digit years), in every date form', async () => {
+    const db = await catalogue('years.shelf');
+    const file = write(dir, 'years.csv',
+      'customer,item,kind,at\n' +
+      'r1,b1,view,0099-01-01T00:00:00Z\n' + // the fast path's form; Date.UTC once made it 1999
+      'r1,b1,view,0999-06-01\n' +
+      'r1,b1,view,01/02/0050\n' +
+      'r1,b1,view,9999999999999999\n' + // unix ms in the year 318,857
+      'r1,b1,view,1000-01-01T00:00:00Z\n' +
+      'r1,b1,view,9999-12-31T23:59:59Z\n');
+    const r = await importFile(db, { target: 'signals', file, dateOrder: 'dmy' });
+    expect(r.errors.map((e) => `${e.line}: ${e.reason}`)).toEqual([
+      "2: at: year 99 out of range (years run from 1000 to 9999): '0099-01-01T00:00:00Z'",
+      "3: at: year 999 out of range (years run from 1000 to 9999): '0999-06-01'",
+      "4: at: year 50 out of range (years run from 1000 to 9999): '01/02/0050' (read as dmy)",
+      "5: at: year out of range: '9999999999999999' as unix milliseconds is after the year 9999; years run from 1000 to 9999",
+    ]);
+    // The bounds themselves are fine; both instants checked against the proleptic Gregorian calendar as
+    // ECMAScript's Date.UTC counts it for four-digit years (ECMA-262, "MakeDay").
+    const ok = await importFile(db, { target: 'signals', file: write(dir, 'bounds.csv', 'customer,item,kind,at\nr1,b1,view,1000-01-01T00:00:00Z\nr1,b2,view,9999-12-31T23:59:59Z\n') });
+    expect(ok).toMatchObject({ committed: true, added: 2 });
+    expect(db.prepare('SELECT at FROM signal ORDER BY at').pluck().all()).toEqual([-30_610_224_000_000, 253_402_300_799_000]);
+  });
+
+  it('counts signals dated after today and warns, in both parsing paths, without refusing them', async () => {
+    const file = write(dir, 'future.csv', 'customer,item,kind,at\nr1,b1,view,2026-01-02T00:00:00Z\nr1,b2,view,2999-05-01T00:00:00Z\nr2,b3,view,2998-01-01\n');
+    for (const parseThread of [false, true]) {
+      const db = await catalogue(`future-${parseThread}.shelf`);
+      const r = await runImport(db, { target: 'signals', file, parseThread });
+      expect(r).toMatchObject({ committed: true, added: 3, futureDated: 2 });
+      expect(r.warnings).toEqual(["2 signals are dated after today (the latest 2999-05-01): check the file's dates; a backtest holds out the latest signals, and these would be them"]);
+    }
   });
 });

@@ -80,6 +80,9 @@ export const ImportReport = z.object({
   customersCreated: z.number().int(),
   errors: z.array(RowProblem),
   errorCount: z.number().int(),
+  /** Signals dated after today: imported, but warned about (`warnings`). */
+  futureDated: z.number().int(),
+  warnings: z.array(z.string()),
   committed: z.boolean(),
   elapsedMs: z.number(),
   mapping: z.record(z.string(), z.string()),

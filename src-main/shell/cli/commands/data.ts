@@ -29,6 +29,7 @@ function printReport(r: ImportReport, out: (t: string) => void): void {
       (r.customersCreated ? `, ${plural(r.customersCreated, 'customer created', 'customers created')}` : '') +
       ` in ${(r.elapsedMs / 1000).toFixed(2)} s`,
   );
+  for (const w of r.warnings) out(`  warning: ${w}`);
   for (const e of r.errors) out(`  ${e.message}`);
   if (r.errorCount > r.errors.length) out(`  ... and ${plural(r.errorCount - r.errors.length, 'more rejected row', 'more rejected rows')}`);
 }

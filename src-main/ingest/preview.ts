@@ -59,11 +59,12 @@ export async function previewFile(file: string, target: ImportTarget, o: Preview
         broken(line, reason) {
           out.problems.push(new InputError(reason, { file, line }).describe());
         },
-        row(values, line) {
+        row(values, line, record) {
           out.sampleRows.push(values.map(asText));
           problems.length = 0;
           convert?.(values, problems);
-          for (const p of problems) out.problems.push(new InputError(p.reason, { file, line, column: p.column }).describe());
+          const inRecord = record === undefined ? '' : `record ${record}: `;
+          for (const p of problems) out.problems.push(new InputError(inRecord + p.reason, { file, line, column: p.column }).describe());
           return out.sampleRows.length < SAMPLE_ROWS;
         },
       },

@@ -141,10 +141,12 @@ async function readAndWrite(db: Db, o: RunOptions, format: ImportFormat): Promis
         plan!.extra.push(plan!.headers.length - 1);
       },
       broken(line, reason) {
+        rejects.record = undefined; // the reason names the record itself
         report.rows++;
         rejects.add(line, null, reason);
       },
-      row(values, line) {
+      row(values, line, record) {
+        rejects.record = record;
         report.rows++;
         problems.length = 0;
         const row = convert!(values, problems);

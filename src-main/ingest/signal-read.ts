@@ -59,13 +59,15 @@ export async function readSignals(o: SignalReadOptions, ids: IdMaps, emit: (b: S
         // An extra JSON key is no signal field; the width check applies to CSV only.
       },
       broken(line, reason) {
+        rejects.record = undefined; // the reason names the record itself
         if (rows) rows.broken(line, reason);
         else {
           early++;
           rejects.add(line, null, reason);
         }
       },
-      row(values, line) {
+      row(values, line, record) {
+        rejects.record = record;
         rows!.row(values, line);
       },
     },

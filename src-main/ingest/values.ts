@@ -53,7 +53,8 @@ export function nonNegative(v: unknown, commaDecimal: boolean): number | Bad {
     else if (commaDecimal && COMMA_DECIMAL.test(s)) n = Number(s.replace(',', '.'));
     else return bad(`not a number: ${describe(v)}${s.includes(',') ? ' (use a dot as decimal separator)' : ''}`);
   } else return bad(`not a number: ${describe(v)}`);
-  if (!Number.isFinite(n)) return bad(`not a finite number: ${describe(v)}`);
+  // '1e999' reads as Infinity (IEEE 754 binary64 overflows past about 1.8e308), in CSV text or JSON alike.
+  if (!Number.isFinite(n)) return bad(`out of range: ${describe(v)}; numbers go up to about 1.8e308`);
   if (n < 0) return bad(`must not be negative: ${describe(v)}`);
   return n;
 }
@@ -181,6 +182,7 @@ function twoDigits(s: string, i: number): number {
 }
 
 function unixNumber(n: number, raw: unknown): number | Bad {
+  if (n === Number.POSITIVE_INFINITY) return bad(`year out of range: ${describe(raw)}; ${YEARS}`);
   if (!Number.isFinite(n) || n < 0 || !Number.isInteger(n)) return bad(`not a unix time: ${describe(raw)}`);
   const ms = n < SECONDS_LIMIT ? n * 1000 : n;
   return ms > LAST_MS ? bad(`year out of range: ${describe(raw)} as unix milliseconds is after the year ${LAST_YEAR}; ${YEARS}`) : ms;
@@ -207,5 +209,7 @@ function zoneOffsetMs(zone: string): number {
 export function describe(v: unknown): string {
   if (v === undefined) return 'nothing';
   if (typeof v === 'string') return quote(v);
+  // JSON.stringify would say null for these (JSON has no Infinity): a JSON file's 1e999 arrives as Infinity.
+  if (typeof v === 'number' && !Number.isFinite(v)) return Number.isNaN(v) ? 'not a number' : `a number too large to hold (${v < 0 ? '-' : ''}1e999 or the like)`;
   return cut(JSON.stringify(v) ?? String(v));
 }

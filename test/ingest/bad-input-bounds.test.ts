@@ -101,3 +101,45 @@ describe('dates: impossible years refused, dates after today counted', () => {
     }
   });
 });
+
+describe('files that are not what they seem', () => {
+  const refused = async (file: string, target: 'items' | 'signals' = 'items') => {
+    const db = freshWorkspace(dir, `refused-${path.basename(file)}.shelf`);
+    return importFile(db, { target, file }).then(() => undefined, (e: unknown) => e as Error);
+  };
+
+  it('names UTF-16 as UTF-16, with or without a byte order mark (Unicode Standard section 23.8)', async () => {
+    const text = 'id,title\nb1,Moss Lantern\n';
+    const le = Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(text, 'utf16le')]);
+    const beNoMark = Buffer.from(text, 'utf16le').swap16();
+    expect((await refused(write(dir, 'le.csv', le)))?.message).toBe('the file is UTF-16 text (little-endian, by its byte order mark); save it as UTF-8 and import again');
+    expect((await refused(write(dir, 'be.csv', beNoMark)))?.message).toBe('the file is UTF-16 text (big-endian); save it as UTF-8 and import again');
+    expect((await refused(write(dir, 'le.json', Buffer.from('[{"id":"b1","title":"Moss"}]', 'utf16le'))))?.message).toMatch(/^the file is UTF-16 text \(little-endian\)/);
+  });
+
+  it('names a JSON root that is not a list of records', async () => {
+    expect((await refused(write(dir, 'wrapped.json', '{"items": [{"id": "b1", "title": "Moss"}], "total": 1}')))?.message).toBe(
+      "the file's top level is an object (keys 'items', 'total'; if the records sit under one key, save that list alone or as JSON Lines), not a list of records: a JSON import is a list of objects [{...}, {...}]",
+    );
+    expect((await refused(write(dir, 'string.json', '"b1"')))?.message).toMatch(/^the file's top level is a string, not a list of records/);
+  });
+
+  it('names the record in every error of a JSON list, where a minified file has them all on line 1', async () => {
+    const db = freshWorkspace(dir, 'records.shelf');
+    const file = write(dir, 'minified.json', '[{"id":"b1","title":"Moss","price":"x"},{"id":"b2","title":"Jar"},{"id":"b3","title":""},7]');
+    const r = await importFile(db, { target: 'items', file });
+    expect(r.errors.map((e) => e.message)).toEqual([
+      `${file}:1:price: record 1: price: not a number: 'x'`,
+      `${file}:1:title: record 3: title: an item needs a title`,
+      `${file}:1: record 4 is not a JSON object`,
+    ]);
+  });
+
+  it('reports 1e999 as out of range, not as null (IEEE 754 binary64 overflows past about 1.8e308)', async () => {
+    const db = freshWorkspace(dir, 'huge-number.shelf');
+    const json = await importFile(db, { target: 'items', file: write(dir, 'inf.jsonl', '{"id":"b1","title":"Moss","price":1e999}\n') });
+    expect(json.errors[0]?.reason).toBe('price: out of range: a number too large to hold (1e999 or the like); numbers go up to about 1.8e308');
+    const csv = await importFile(db, { target: 'items', file: write(dir, 'inf.csv', 'id,title,price\nb1,Moss,1e999\n') });
+    expect(csv.errors[0]?.reason).toBe("price: out of range: '1e999'; numbers go up to about 1.8e308");
+  });
+});

@@ -1,10 +1,9 @@
 import fs from 'node:fs';
-import os from 'node:os';
-import path from 'node:path';
 import { generateDemoShop } from '../../demo-data/generator/index.ts';
 import { BugError, CancelledError } from '../core/errors.ts';
 import { openWorkspace } from '../store/workspace.ts';
 import { importFile, type ImportReport } from './import.ts';
+import { makeTempFolder } from './temp-folders.ts';
 import { trainAndSave, type TrainSummary } from './train/train-job.ts';
 import type { TrainProgress } from './train/train-models.ts';
 
@@ -39,7 +38,7 @@ export async function buildDemoWorkspace(file: string, options: DemoBuildOptions
     if (options.signal?.aborted) throw new CancelledError('demo build cancelled');
     options.onStep?.(message);
   };
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-demo-'));
+  const dir = makeTempFolder('demo');
   const building = `${file}.building`;
   removeWorkspaceFiles(building);
   try {

@@ -5,12 +5,12 @@
  */
 import { spawn, spawnSync } from 'node:child_process';
 import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { InputError } from '../core/errors.ts';
 import { createHandlerTable } from '../api/handler-table.ts';
 import { AppContext } from '../services/context.ts';
+import { makeTempFolder, sweepTempFolders } from '../services/temp-folders.ts';
 import { parseStartArgs, type StartArgs } from './launch/args.ts';
 import { chromiumAppArgs, findChromium } from './launch/browser.ts';
 import { ensureDemo } from './launch/demo.ts';
@@ -65,7 +65,7 @@ async function launchWeb(args: StartArgs, workspace: string): Promise<void> {
     console.log('No Chromium or Chrome found on PATH: open the address above in a browser.');
     return;
   }
-  const profile = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-profile-'));
+  const profile = makeTempFolder('profile');
   const child = spawn(browser, chromiumAppArgs(shell.pageUrl, profile), { stdio: 'ignore' });
   child.on('error', (e) => console.log(`Could not open ${browser} (${e.message}); open the address above instead.`));
   // Closing the app window ends the session and removes the throw-away profile.
@@ -78,6 +78,7 @@ async function launchWeb(args: StartArgs, workspace: string): Promise<void> {
 async function main(): Promise<void> {
   const args = parseStartArgs(process.argv.slice(2));
   const workspace = path.resolve(args.workspace ?? path.join(ROOT, '.workspaces', 'demo.sqlite'));
+  sweepTempFolders(); // what a killed earlier run left behind (services/temp-folders.ts)
   ensureRenderer();
   if (!fs.existsSync(workspace)) console.log(`First launch: building the demo workspace at ${workspace}`);
   await ensureDemo(workspace);

@@ -146,3 +146,16 @@ describe('shelfwright import: warnings', () => {
     expect(io.stdout.join('\n')).toContain('  warning: 1 signal is dated after today (the latest 2999-01-01)');
   });
 });
+
+describe('shelfwright import -w to a new path', () => {
+  it('says it is creating a new workspace (a mistyped path would otherwise go unnoticed), and only then', async () => {
+    const fresh = path.join(dir, 'fresh.sqlite');
+    const items = write('fresh-items.csv', 'id,title\nF1,Fern Pot\n');
+    const first = capture();
+    expect(await main(['import', 'items', items, '-w', fresh], first, {})).toBe(0);
+    expect(first.stderr).toEqual([`no workspace at ${fresh} yet: creating a new one`]);
+    const again = capture();
+    expect(await main(['import', 'items', items, '-w', fresh], again, {})).toBe(0);
+    expect(again.stderr).toEqual([]);
+  });
+});

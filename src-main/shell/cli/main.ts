@@ -4,6 +4,7 @@ import { parseArgs } from 'node:util';
 import { createHandlerTable, type HandlerTable } from '../../api/handler-table.ts';
 import { InputError } from '../../core/errors.ts';
 import { AppContext } from '../../services/context.ts';
+import { sweepTempFolders } from '../../services/temp-folders.ts';
 import { CliApiError } from './call.ts';
 import { escapeControls } from './escape.ts';
 import { EXIT, UsageError, type CliCommand, type CliIo, type CommandEnv, type OptionSpec } from './command.ts';
@@ -117,6 +118,7 @@ export async function main(argv: string[], rawIo: CliIo, env: NodeJS.ProcessEnv 
     return fail(EXIT.usage, `shelfwright: unknown command '${words}'. Run 'shelfwright --help' for the list.`, { message: `unknown command '${words}'` });
   }
   const { command, rest } = found;
+  sweepTempFolders(); // what a killed earlier run left behind (services/temp-folders.ts)
   let parsed;
   try {
     parsed = parseArgs({ args: rest, options: { ...GLOBAL_OPTIONS, ...command.options }, allowPositionals: true, strict: true });

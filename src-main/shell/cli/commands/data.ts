@@ -1,3 +1,4 @@
+import fs from 'node:fs';
 import type { ImportReport } from '../../../api/contracts/data.ts';
 import { call } from '../call.ts';
 import { followJob } from '../follow-job.ts';
@@ -99,6 +100,8 @@ export const importCommand: CliCommand = {
       ...(Object.keys(mapping).length > 0 && { mapping }),
       ...(v['mapping-file'] !== undefined && { mappingFile: v['mapping-file'] as string }),
     };
+    // A mistyped -w path would otherwise quietly start an empty workspace: say so (stderr keeps stdout the report's).
+    if (!v['preview'] && !env.json && !fs.existsSync(env.workspace)) env.io.err(`no workspace at ${env.workspace} yet: creating a new one`);
     const { table: api } = env.api({ create: true });
     if (v['preview']) {
       const p = await call(api, 'import.preview', request);

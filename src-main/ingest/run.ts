@@ -32,6 +32,12 @@ export interface RunOptions {
    * files of PIPELINE_MIN_BYTES or more. Both paths give identical tables and reports.
    */
   parseThread?: boolean;
+  /**
+   * Signals into a table that has some: keep the identity index and upsert row by row ('upsert'), or drop
+   * it, resolve repeats in memory and rebuild it ('rebuild'). Default: 'rebuild' when the file is expected
+   * to bring at least APPEND_REBUILD_RATIO rows per stored row. Both leave identical tables and reports.
+   */
+  appendPath?: 'upsert' | 'rebuild';
 }
 
 export interface ImportReport {
@@ -174,9 +180,9 @@ async function readAndWrite(db: Db, o: RunOptions, format: ImportFormat): Promis
  * SIGNAL_BATCH rows, then counted once by `finishSignals`.
  */
 async function readAndWriteSignals(writer: CatalogueWriter, o: RunOptions, format: ImportFormat, report: ImportReport): Promise<ImportReport> {
-  const big = (fs.statSync(o.file, { throwIfNoEntry: false })?.size ?? 0) >= PIPELINE_MIN_BYTES;
-  const thread = o.parseThread ?? (big && signalWorkerAvailable());
-  writer.startSignals();
+  const bytes = fs.statSync(o.file, { throwIfNoEntry: false })?.size ?? 0;
+  const thread = o.parseThread ?? (bytes >= PIPELINE_MIN_BYTES && signalWorkerAvailable());
+  writer.startSignals(estimateRows(o.file, bytes), o.appendPath);
   let nextProgress = PROGRESS_EVERY;
   const write = (b: SignalBatch) => {
     writer.writeSignalBatch(b);
@@ -210,6 +216,28 @@ async function readAndWriteSignals(writer: CatalogueWriter, o: RunOptions, forma
     Object.assign(report, { added: c.added, updated: c.updated, unchanged: c.unchanged, customersCreated: c.customersCreated });
   }
   return report;
+}
+
+/** Bytes read from a file's start to estimate its rows. */
+const SAMPLE_BYTES = 64 << 10;
+
+/**
+ * About how many rows a file holds, from its size and the line length of its first 64 KiB (a file of
+ * one-line records; a JSON array written on one line counts as one). Only decides how to write (the
+ * writer's append path), never what is written.
+ */
+export function estimateRows(file: string, bytes: number): number {
+  if (bytes === 0) return 0;
+  const sample = Buffer.alloc(Math.min(SAMPLE_BYTES, bytes));
+  const fd = fs.openSync(file, 'r');
+  try {
+    fs.readSync(fd, sample, 0, sample.length, 0);
+  } finally {
+    fs.closeSync(fd);
+  }
+  let lines = 0;
+  for (let i = sample.indexOf(10); i >= 0; i = sample.indexOf(10, i + 1)) lines++;
+  return Math.round(bytes / (sample.length / Math.max(1, lines)));
 }
 
 /** The first instant after today in UTC: a row of today is never "future", whatever the shop's zone. */

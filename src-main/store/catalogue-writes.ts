@@ -2,6 +2,8 @@ import type Database from 'better-sqlite3';
 import type { AttributeValue, SignalKind } from '../core/types.ts';
 import { StringIdTable } from '../core/util/string-id-table.ts';
 import { cut, quote } from '../core/util/cut.ts';
+import { SignalIdentityTable } from '../core/util/signal-identity-table.ts';
+import { BugError } from '../core/errors.ts';
 import type { Db } from './workspace.ts';
 
 /**
@@ -94,6 +96,12 @@ const SIGNAL_INDEX = `CREATE UNIQUE INDEX signal_identity ON signal(${SIGNAL_KEY
  * (sqlite.org/limits.html, SQLITE_MAX_VARIABLE_NUMBER since 3.32.0).
  */
 export const SIGNAL_BATCH = 6_000;
+/**
+ * Appending takes the index-less path (`startSignals`) when the file is expected to bring at least this
+ * many rows per row already stored: below it, keeping the index up to date row by row costs less than
+ * rebuilding it over the whole table. Measured on bench/import.bench.ts (see the README's figures).
+ */
+export const APPEND_REBUILD_RATIO = 0.5;
 
 export class CatalogueWriter {
   readonly #db: Db;
@@ -110,6 +118,13 @@ export class CatalogueWriter {
   #signalChanges = 0;
   #customersCreated = 0;
   #bulk = false;
+  /** Appending with the index dropped: repeats are resolved in `#identities`, new rows queued in `#pending`. */
+  #identities: SignalIdentityTable | undefined;
+  #pending: unknown[] = [];
+  #pendingRows = 0;
+  #nextRowId = 0;
+  #firstNewRowId = 0;
+  #appendUpdated = 0;
 
   constructor(db: Db) {
     this.#db = db;
@@ -186,16 +201,18 @@ export class CatalogueWriter {
    * sorted data beats a million random inserts into it (SQLite docs, "CREATE INDEX" builds by sorting;
    * 1M rows: 0.9 s to build after vs 8 s kept up to date, measured 2026-12-02).
    */
-  startSignals(): void {
+  startSignals(estimatedRows = 0, appendPath?: 'upsert' | 'rebuild'): void {
     this.#signalsBefore = this.#db.prepare('SELECT count(*) FROM signal').pluck().get() as number;
     this.#bulk = this.#signalsBefore === 0;
-    if (this.#bulk) this.#db.exec('DROP INDEX IF EXISTS signal_identity');
+    const append = !this.#bulk && (appendPath ?? (estimatedRows >= this.#signalsBefore * APPEND_REBUILD_RATIO ? 'rebuild' : 'upsert')) === 'rebuild';
+    if (this.#bulk || append) this.#db.exec('DROP INDEX IF EXISTS signal_identity');
+    if (append) this.#startAppend(estimatedRows);
     // Rows go out SIGNAL_BATCH at a time in one multi-row INSERT: one statement step per batch instead of per
     // row cut the binding overhead ~2x (measured). Rows in one VALUES list are applied in order, so a
     // repeated identity later in the batch still upserts over the earlier one.
     const sql = (n: number) =>
       `INSERT INTO signal (customer_id, item_id, kind, value, at) VALUES ${Array.from({ length: n }, () => '(?, ?, ?, ?, ?)').join(', ')}` +
-      (this.#bulk ? '' : ` ON CONFLICT(${SIGNAL_KEY}) DO UPDATE SET value = excluded.value WHERE signal.value IS NOT excluded.value`);
+      (this.#bulk || append ? '' : ` ON CONFLICT(${SIGNAL_KEY}) DO UPDATE SET value = excluded.value WHERE signal.value IS NOT excluded.value`);
     this.#signalBatch = this.#db.prepare(sql(SIGNAL_BATCH));
     const tails = new Map<number, Stmt>(); // a file's last, shorter batch (usually one size per import)
     this.#signalTail = (n) => {
@@ -203,6 +220,30 @@ export class CatalogueWriter {
       if (!st) tails.set(n, (st = this.#db.prepare(sql(n))));
       return st;
     };
+  }
+
+  /**
+   * A big file into a table that has signals: the index goes (startSignals) and every stored identity is
+   * read into a hash table with its row id and value, so each file row is resolved as the upsert would
+   * resolve it, but without touching a B-tree: a new identity is INSERTed with the row id SQLite gives it
+   * (max(rowid) + 1, sqlite.org/autoinc.html), in file order; a repeat (of a stored row or of an earlier
+   * row of the file) only changes the value kept for its row, written back once by `finishSignals`. The
+   * table then ends exactly as the upserts would leave it: same rows, same row ids, last value wins.
+   */
+  #startAppend(estimatedRows: number): void {
+    const t = new SignalIdentityTable(this.#signalsBefore + estimatedRows);
+    const rows = this.#db.prepare('SELECT id, item_id, customer_id, kind, at, value FROM signal').raw().iterate() as IterableIterator<
+      [number, number, number, number, number | null, number]
+    >;
+    let max = 0;
+    for (const [id, item, customer, kind, at, value] of rows) {
+      if (t.find(item, customer, kind, at ?? -1) >= 0) throw new BugError('the signal table holds a repeated identity');
+      t.add(item, customer, kind, at ?? -1, id, value);
+      if (id > max) max = id;
+    }
+    this.#identities = t;
+    this.#nextRowId = this.#firstNewRowId = max + 1;
+    this.#pending = new Array<unknown>(SIGNAL_BATCH * 5);
   }
 
   /** The id maps signal rows are resolved with (in this thread or handed to the parsing thread). */
@@ -224,6 +265,10 @@ export class CatalogueWriter {
       }
       this.#customersCreated += externalIds.length;
     }
+    if (this.#identities) {
+      this.#appendBatch(b, this.#identities);
+      return;
+    }
     for (let start = 0; start < b.n; start += SIGNAL_BATCH) {
       const n = Math.min(SIGNAL_BATCH, b.n - start);
       const st = n === SIGNAL_BATCH ? this.#signalBatch! : this.#signalTail!(n);
@@ -241,6 +286,55 @@ export class CatalogueWriter {
     }
   }
 
+  /** Append path: repeats change the kept value (counted as the upsert counts them); new rows are queued. */
+  #appendBatch(b: SignalBatch, t: SignalIdentityTable): void {
+    const p = this.#pending;
+    for (let r = 0; r < b.n; r++) {
+      const item = b.item[r]!;
+      const customer = b.customer[r]!;
+      const kind = b.kind[r]!;
+      const at = b.at[r]!;
+      const value = b.value[r]!;
+      const e = t.find(item, customer, kind, at);
+      if (e >= 0) {
+        // The upsert's rule: DO UPDATE SET value = excluded.value WHERE signal.value IS NOT excluded.value.
+        if (t.value(e) !== value) {
+          t.setValue(e, value);
+          this.#appendUpdated++;
+        }
+        continue;
+      }
+      t.add(item, customer, kind, at, this.#nextRowId++, value);
+      const j = this.#pendingRows * 5;
+      p[j] = customer;
+      p[j + 1] = item;
+      p[j + 2] = kind;
+      p[j + 3] = value;
+      p[j + 4] = at === at ? at : null; // NaN marks a missing time
+      if (++this.#pendingRows === SIGNAL_BATCH) {
+        this.#signalChanges += this.#signalBatch!.run(p).changes;
+        this.#pendingRows = 0;
+      }
+    }
+  }
+
+  /** Append path: the last queued rows, the changed values written back, the index rebuilt; the counts. */
+  #finishAppend(t: SignalIdentityTable): { added: number; updated: number } {
+    const n = this.#pendingRows;
+    if (n > 0) this.#signalChanges += this.#signalTail!(n).run(this.#pending.slice(0, n * 5)).changes;
+    this.#pendingRows = 0;
+    const added = this.#nextRowId - this.#firstNewRowId;
+    const max = this.#db.prepare('SELECT max(id) FROM signal').pluck().get() as number;
+    if (this.#signalChanges !== added || max !== this.#nextRowId - 1) {
+      throw new BugError(`appended rows did not get the row ids expected (${this.#signalChanges} of ${added} rows, last id ${max})`);
+    }
+    const update = this.#db.prepare('UPDATE signal SET value = ? WHERE id = ?');
+    t.eachChanged((id, value) => update.run(value, id));
+    this.#db.exec(SIGNAL_INDEX);
+    this.#identities = undefined;
+    return { added, updated: this.#appendUpdated };
+  }
+
   /**
    * Rebuilds the dropped index and splits the written rows into added / updated / unchanged, from the
    * statements' change counts instead of asking per row. In bulk mode a repeated identity within the file keeps its
@@ -250,7 +344,9 @@ export class CatalogueWriter {
   finishSignals(validRows: number): SignalCounts {
     let added: number;
     let updated: number;
-    if (this.#bulk) {
+    if (this.#identities) {
+      ({ added, updated } = this.#finishAppend(this.#identities));
+    } else if (this.#bulk) {
       // No sorter helper threads (PRAGMA threads), no bigger cache_size, no temp_store = MEMORY: each made
       // the index builds slower in wall and CPU time on the shared two-core machine (1M rows; threads 1-2:
       // 3.1-4.3 s vs 2.5-3.6 s; cache_size 64 MB or temp_store MEMORY: 4.7-8.7 s; measured 2026-12-02).

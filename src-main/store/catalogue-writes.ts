@@ -125,6 +125,9 @@ export class CatalogueWriter {
   #nextRowId = 0;
   #firstNewRowId = 0;
   #appendUpdated = 0;
+  /** The largest identity time stored (a missing one keyed -1); rows timed above it cannot repeat a stored row. */
+  #storedMaxAt = Number.POSITIVE_INFINITY;
+  #storedLoaded = false;
 
   constructor(db: Db) {
     this.#db = db;
@@ -223,27 +226,37 @@ export class CatalogueWriter {
   }
 
   /**
-   * A big file into a table that has signals: the index goes (startSignals) and every stored identity is
-   * read into a hash table with its row id and value, so each file row is resolved as the upsert would
-   * resolve it, but without touching a B-tree: a new identity is INSERTed with the row id SQLite gives it
-   * (max(rowid) + 1, sqlite.org/autoinc.html), in file order; a repeat (of a stored row or of an earlier
-   * row of the file) only changes the value kept for its row, written back once by `finishSignals`. The
-   * table then ends exactly as the upserts would leave it: same rows, same row ids, last value wins.
+   * A big file into a table that has signals: the index goes (startSignals) and identities are resolved
+   * in a hash table holding each one's row id and value, as the upsert would resolve them but without
+   * touching a B-tree: a new identity is INSERTed with the row id SQLite gives it (max(rowid) + 1,
+   * sqlite.org/autoinc.html), in file order; a repeat (of a stored row or of an earlier row of the file)
+   * only changes the value kept for its row, written back once by `finishSignals`. The table then ends
+   * exactly as the upserts would leave it: same rows, same row ids, last value wins.
+   *
+   * The stored identities are read into the table only when a row could repeat one: a row timed after
+   * every stored signal cannot, and a log's new days are all such rows (reading 400k stored rows costs
+   * about 0.3 CPU-s, measured on the demo shop 2026-12-04).
    */
   #startAppend(estimatedRows: number): void {
-    const t = new SignalIdentityTable(this.#signalsBefore + estimatedRows);
-    const rows = this.#db.prepare('SELECT id, item_id, customer_id, kind, at, value FROM signal').raw().iterate() as IterableIterator<
+    const [maxId, maxAt] = this.#db.prepare('SELECT max(id), max(ifnull(at, -1)) FROM signal').raw().get() as [number, number];
+    this.#identities = new SignalIdentityTable(estimatedRows);
+    this.#nextRowId = this.#firstNewRowId = maxId + 1;
+    this.#storedMaxAt = maxAt;
+    this.#storedLoaded = false;
+    this.#pending = new Array<unknown>(SIGNAL_BATCH * 5);
+  }
+
+  /** Reads every stored identity into `t` (rows this import added are not among them: ids from `#firstNewRowId` on). */
+  #loadStored(t: SignalIdentityTable): void {
+    const rows = this.#db.prepare('SELECT id, item_id, customer_id, kind, at, value FROM signal WHERE id < ?').raw().iterate(this.#firstNewRowId) as IterableIterator<
       [number, number, number, number, number | null, number]
     >;
-    let max = 0;
     for (const [id, item, customer, kind, at, value] of rows) {
-      if (t.find(item, customer, kind, at ?? -1) >= 0) throw new BugError('the signal table holds a repeated identity');
+      // Rows queued so far are timed after every stored one, and stored rows are unique: no stored row is found.
+      if (t.find(item, customer, kind, at ?? -1) >= 0) throw new BugError('a stored signal identity was found twice');
       t.add(item, customer, kind, at ?? -1, id, value);
-      if (id > max) max = id;
     }
-    this.#identities = t;
-    this.#nextRowId = this.#firstNewRowId = max + 1;
-    this.#pending = new Array<unknown>(SIGNAL_BATCH * 5);
+    this.#storedLoaded = true;
   }
 
   /** The id maps signal rows are resolved with (in this thread or handed to the parsing thread). */
@@ -295,6 +308,7 @@ export class CatalogueWriter {
       const kind = b.kind[r]!;
       const at = b.at[r]!;
       const value = b.value[r]!;
+      if (!this.#storedLoaded && !((at === at ? at : -1) > this.#storedMaxAt)) this.#loadStored(t);
       const e = t.find(item, customer, kind, at);
       if (e >= 0) {
         // The upsert's rule: DO UPDATE SET value = excluded.value WHERE signal.value IS NOT excluded.value.

@@ -62,6 +62,20 @@ describe('appending signals: the rebuild path equals the upsert path', () => {
     expect(threaded.rows).toEqual(upsert.rows);
   });
 
+  it('new days first (stored rows not read yet), then repeats of stored rows: still the upsert\'s result', async () => {
+    const stored = signals(21, 2000);
+    const base = write(dir, 'base-late.csv', stored);
+    const later = Array.from({ length: 2 * SIGNAL_BATCH + 5 }, (_, i) => `r${i % 30},b${i % 40},view,1,${1_800_000_000 + i}`);
+    // The stored rows again, every value bumped by one, some twice: repeats of stored rows, after the new days.
+    const again = stored.trim().split('\n').slice(1).map((l) => l.replace(/,(\d),/, (_m, v: string) => `,${Number(v) + 1},`));
+    const extra = write(dir, 'extra-late.csv', ['customer,item,kind,value,at', ...later, ...again, ...again.slice(0, 300)].join('\n') + '\n');
+    const upsert = await appended('late', base, extra, 'upsert');
+    const rebuild = await appended('late', base, extra, 'rebuild');
+    expect(counts(rebuild.report)).toEqual(counts(upsert.report));
+    expect(rebuild.report.updated).toBeGreaterThan(1000);
+    expect(rebuild.rows).toEqual(upsert.rows);
+  });
+
   it('rolls back everything, the dropped index included, when a row is rejected', async () => {
     const db = freshWorkspace(dir, 'rejected.shelf');
     await importFile(db, { target: 'items', file: write(dir, 'items.csv', ITEMS) });

@@ -2,8 +2,7 @@ import type Database from 'better-sqlite3';
 import type { AttributeValue, SignalKind } from '../core/types.ts';
 import { StringIdTable } from '../core/util/string-id-table.ts';
 import { cut, quote } from '../core/util/cut.ts';
-import { SignalIdentityTable } from '../core/util/signal-identity-table.ts';
-import { BugError } from '../core/errors.ts';
+import { SignalAppender } from './signal-append.ts';
 import type { Db } from './workspace.ts';
 
 /**
@@ -118,16 +117,8 @@ export class CatalogueWriter {
   #signalChanges = 0;
   #customersCreated = 0;
   #bulk = false;
-  /** Appending with the index dropped: repeats are resolved in `#identities`, new rows queued in `#pending`. */
-  #identities: SignalIdentityTable | undefined;
-  #pending: unknown[] = [];
-  #pendingRows = 0;
-  #nextRowId = 0;
-  #firstNewRowId = 0;
-  #appendUpdated = 0;
-  /** The largest identity time stored (a missing one keyed -1); rows timed above it cannot repeat a stored row. */
-  #storedMaxAt = Number.POSITIVE_INFINITY;
-  #storedLoaded = false;
+  /** Appending with the index dropped (store/signal-append.ts). */
+  #appender: SignalAppender | undefined;
 
   constructor(db: Db) {
     this.#db = db;
@@ -209,7 +200,7 @@ export class CatalogueWriter {
     this.#bulk = this.#signalsBefore === 0;
     const append = !this.#bulk && (appendPath ?? (estimatedRows >= this.#signalsBefore * APPEND_REBUILD_RATIO ? 'rebuild' : 'upsert')) === 'rebuild';
     if (this.#bulk || append) this.#db.exec('DROP INDEX IF EXISTS signal_identity');
-    if (append) this.#startAppend(estimatedRows);
+    this.#appender = undefined;
     // Rows go out SIGNAL_BATCH at a time in one multi-row INSERT: one statement step per batch instead of per
     // row cut the binding overhead ~2x (measured). Rows in one VALUES list are applied in order, so a
     // repeated identity later in the batch still upserts over the earlier one.
@@ -223,40 +214,10 @@ export class CatalogueWriter {
       if (!st) tails.set(n, (st = this.#db.prepare(sql(n))));
       return st;
     };
-  }
-
-  /**
-   * A big file into a table that has signals: the index goes (startSignals) and identities are resolved
-   * in a hash table holding each one's row id and value, as the upsert would resolve them but without
-   * touching a B-tree: a new identity is INSERTed with the row id SQLite gives it (max(rowid) + 1,
-   * sqlite.org/autoinc.html), in file order; a repeat (of a stored row or of an earlier row of the file)
-   * only changes the value kept for its row, written back once by `finishSignals`. The table then ends
-   * exactly as the upserts would leave it: same rows, same row ids, last value wins.
-   *
-   * The stored identities are read into the table only when a row could repeat one: a row timed after
-   * every stored signal cannot, and a log's new days are all such rows (reading 400k stored rows costs
-   * about 0.3 CPU-s, measured on the demo shop 2026-12-04).
-   */
-  #startAppend(estimatedRows: number): void {
-    const [maxId, maxAt] = this.#db.prepare('SELECT max(id), max(ifnull(at, -1)) FROM signal').raw().get() as [number, number];
-    this.#identities = new SignalIdentityTable(estimatedRows);
-    this.#nextRowId = this.#firstNewRowId = maxId + 1;
-    this.#storedMaxAt = maxAt;
-    this.#storedLoaded = false;
-    this.#pending = new Array<unknown>(SIGNAL_BATCH * 5);
-  }
-
-  /** Reads every stored identity into `t` (rows this import added are not among them: ids from `#firstNewRowId` on). */
-  #loadStored(t: SignalIdentityTable): void {
-    const rows = this.#db.prepare('SELECT id, item_id, customer_id, kind, at, value FROM signal WHERE id < ?').raw().iterate(this.#firstNewRowId) as IterableIterator<
-      [number, number, number, number, number | null, number]
-    >;
-    for (const [id, item, customer, kind, at, value] of rows) {
-      // Rows queued so far are timed after every stored one, and stored rows are unique: no stored row is found.
-      if (t.find(item, customer, kind, at ?? -1) >= 0) throw new BugError('a stored signal identity was found twice');
-      t.add(item, customer, kind, at ?? -1, id, value);
+    if (append) {
+      const insert = (params: unknown[], n: number) => (n === SIGNAL_BATCH ? this.#signalBatch! : this.#signalTail!(n)).run(params).changes;
+      this.#appender = new SignalAppender(this.#db, insert, SIGNAL_BATCH, estimatedRows);
     }
-    this.#storedLoaded = true;
   }
 
   /** The id maps signal rows are resolved with (in this thread or handed to the parsing thread). */
@@ -278,8 +239,8 @@ export class CatalogueWriter {
       }
       this.#customersCreated += externalIds.length;
     }
-    if (this.#identities) {
-      this.#appendBatch(b, this.#identities);
+    if (this.#appender) {
+      this.#appender.write(b);
       return;
     }
     for (let start = 0; start < b.n; start += SIGNAL_BATCH) {
@@ -299,56 +260,6 @@ export class CatalogueWriter {
     }
   }
 
-  /** Append path: repeats change the kept value (counted as the upsert counts them); new rows are queued. */
-  #appendBatch(b: SignalBatch, t: SignalIdentityTable): void {
-    const p = this.#pending;
-    for (let r = 0; r < b.n; r++) {
-      const item = b.item[r]!;
-      const customer = b.customer[r]!;
-      const kind = b.kind[r]!;
-      const at = b.at[r]!;
-      const value = b.value[r]!;
-      if (!this.#storedLoaded && !((at === at ? at : -1) > this.#storedMaxAt)) this.#loadStored(t);
-      const e = t.find(item, customer, kind, at);
-      if (e >= 0) {
-        // The upsert's rule: DO UPDATE SET value = excluded.value WHERE signal.value IS NOT excluded.value.
-        if (t.value(e) !== value) {
-          t.setValue(e, value);
-          this.#appendUpdated++;
-        }
-        continue;
-      }
-      t.add(item, customer, kind, at, this.#nextRowId++, value);
-      const j = this.#pendingRows * 5;
-      p[j] = customer;
-      p[j + 1] = item;
-      p[j + 2] = kind;
-      p[j + 3] = value;
-      p[j + 4] = at === at ? at : null; // NaN marks a missing time
-      if (++this.#pendingRows === SIGNAL_BATCH) {
-        this.#signalChanges += this.#signalBatch!.run(p).changes;
-        this.#pendingRows = 0;
-      }
-    }
-  }
-
-  /** Append path: the last queued rows, the changed values written back, the index rebuilt; the counts. */
-  #finishAppend(t: SignalIdentityTable): { added: number; updated: number } {
-    const n = this.#pendingRows;
-    if (n > 0) this.#signalChanges += this.#signalTail!(n).run(this.#pending.slice(0, n * 5)).changes;
-    this.#pendingRows = 0;
-    const added = this.#nextRowId - this.#firstNewRowId;
-    const max = this.#db.prepare('SELECT max(id) FROM signal').pluck().get() as number;
-    if (this.#signalChanges !== added || max !== this.#nextRowId - 1) {
-      throw new BugError(`appended rows did not get the row ids expected (${this.#signalChanges} of ${added} rows, last id ${max})`);
-    }
-    const update = this.#db.prepare('UPDATE signal SET value = ? WHERE id = ?');
-    t.eachChanged((id, value) => update.run(value, id));
-    this.#db.exec(SIGNAL_INDEX);
-    this.#identities = undefined;
-    return { added, updated: this.#appendUpdated };
-  }
-
   /**
    * Rebuilds the dropped index and splits the written rows into added / updated / unchanged, from the
    * statements' change counts instead of asking per row. In bulk mode a repeated identity within the file keeps its
@@ -358,8 +269,9 @@ export class CatalogueWriter {
   finishSignals(validRows: number): SignalCounts {
     let added: number;
     let updated: number;
-    if (this.#identities) {
-      ({ added, updated } = this.#finishAppend(this.#identities));
+    if (this.#appender) {
+      ({ added, updated } = this.#appender.finish(() => this.#db.exec(SIGNAL_INDEX)));
+      this.#appender = undefined;
     } else if (this.#bulk) {
       // No sorter helper threads (PRAGMA threads), no bigger cache_size, no temp_store = MEMORY: each made
       // the index builds slower in wall and CPU time on the shared two-core machine (1M rows; threads 1-2:

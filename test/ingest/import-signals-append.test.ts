@@ -76,6 +76,31 @@ describe('appending signals: the rebuild path equals the upsert path', () => {
     expect(rebuild.rows).toEqual(upsert.rows);
   });
 
+  it('a time-ordered log with repeats inside runs of equal times, a run longer than the group, then disorder', async () => {
+    const base = write(dir, 'base-ordered.csv', signals(31, 1500));
+    const rng = seededRng(32);
+    const lines = ['customer,item,kind,value,at'];
+    // Runs of 1-4 rows per second over few identities, so repeats fall inside a run (the ordered mode's group).
+    for (let t = 0; t < 3000; t++) for (let k = rng.int(4); k >= 0; k--) lines.push(`r${rng.int(3)},b${rng.int(3)},view,${rng.int(3)},${1_800_000_000 + t}`);
+    // One second holding 100 distinct identities and repeats of them: longer than the group (64).
+    for (let k = 0; k < 130; k++) lines.push(`r${k % 30},b${Math.floor((k % 100) / 30)},click,${k % 4},1800005000`);
+    for (let t = 0; t < 500; t++) lines.push(`r${rng.int(30)},b${rng.int(40)},rating,${rng.int(3)},${1_800_006_000 + t}`);
+    lines.push('r1,b1,view,2,1800000001'); // back in time: a repeat of an earlier row of the file
+    const extra = write(dir, 'extra-ordered.csv', lines.join('\n') + '\n');
+    const upsert = await appended('ordered', base, extra, 'upsert');
+    const rebuild = await appended('ordered', base, extra, 'rebuild');
+    expect(counts(rebuild.report)).toEqual(counts(upsert.report));
+    expect(rebuild.report.updated).toBeGreaterThan(100);
+    expect(rebuild.rows).toEqual(upsert.rows);
+    // Ordered to the end (no run too long, no disorder): the group alone resolves the repeats.
+    const sorted = write(dir, 'extra-sorted.csv', lines.slice(0, 2000).join('\n') + '\n');
+    const a = await appended('sorted', base, sorted, 'upsert');
+    const b = await appended('sorted', base, sorted, 'rebuild');
+    expect(counts(b.report)).toEqual(counts(a.report));
+    expect(b.report.updated).toBeGreaterThan(50);
+    expect(b.rows).toEqual(a.rows);
+  });
+
   it('rolls back everything, the dropped index included, when a row is rejected', async () => {
     const db = freshWorkspace(dir, 'rejected.shelf');
     await importFile(db, { target: 'items', file: write(dir, 'items.csv', ITEMS) });

@@ -96,9 +96,12 @@ const SIGNAL_INDEX = `CREATE UNIQUE INDEX signal_identity ON signal(${SIGNAL_KEY
  */
 export const SIGNAL_BATCH = 6_000;
 /**
- * Appending takes the index-less path (`startSignals`) when the file is expected to bring at least this
- * many rows per row already stored: below it, keeping the index up to date row by row costs less than
- * rebuilding it over the whole table. Measured on bench/import.bench.ts (see the README's figures).
+ * Appending takes the index-less path (`startSignals`, store/signal-append.ts) when the file is expected to
+ * bring at least this many rows per row already stored: below it, keeping the index up to date row by row
+ * costs less than rebuilding it over the whole table. At 0.5 (200k rows into the demo's 400k) the two
+ * paths tied before the append path learnt to skip the stored rows (1.24 vs 1.18 CPU-s, one run at load 19,
+ * bench/import.bench.ts BENCH_SCENARIO=append BENCH_UPSERT=1, 2026-12-04); it is cheaper since, so this
+ * bound errs towards the upsert. At 2.5 (1M rows) the rebuild wins clearly (README, Performance).
  */
 export const APPEND_REBUILD_RATIO = 0.5;
 

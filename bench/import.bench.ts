@@ -11,14 +11,14 @@
  * in a worker thread (RunOptions.parseThread); runs alternate between the two so both see the same load.
  * Run: npm run bench:import (BENCH_SIGNALS and BENCH_RUNS override the size and the runs per mode).
  *
- * BENCH_SCENARIO=append (DESIGN.md target: appending 1M signals to a workspace that has 400k runs at
+ * BENCH_SCENARIO=bulk runs only the above; BENCH_SCENARIO=append (DESIGN.md target: appending 1M signals to a workspace that has 400k runs at
  * >= 0.8x the bulk-load rate) instead builds the demo shop once (no training: 2,500 items, 15,000
  * customers, ~400k signals), writes BENCH_SIGNALS new signals of its customers and items dated after its
  * history, and imports them, alternating per run, (a) into a copy of the demo (the append) and (b) into a
  * copy whose signals were deleted (the bulk load into an empty table), both by the default path. It prints
  * each run, the medians, and the ratio of the median rates. BENCH_UPSERT=1 adds (c): the append forced
  * through the row-by-row upsert (appendPath 'upsert'), the path every append took before.
- * BENCH_SCENARIO=both runs the bulk benchmark above, then this one.
+ * By default (BENCH_SCENARIO=both) the bulk benchmark above runs first, then this one.
  */
 import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
@@ -237,7 +237,7 @@ async function main(): Promise<void> {
 if (process.argv[2] === 'child') await child(process.argv[3]!, process.argv[4]!, process.argv[5]!);
 else if (process.argv[2] === 'append-child') await appendChild(process.argv[3]!, process.argv[4]!, process.argv[5]!);
 else {
-  const scenario = process.env.BENCH_SCENARIO ?? 'bulk';
+  const scenario = process.env.BENCH_SCENARIO ?? 'both';
   if (scenario === 'bulk' || scenario === 'both') await main();
   if (scenario === 'append' || scenario === 'both') await appendMain();
 }

@@ -108,6 +108,20 @@ describe('import screen', () => {
     expect(kinds).toEqual([{ kind: 'purchase', n: 12 }, { kind: 'view', n: 20 }]); // the seed holds 10 purchases and 20 views
   });
 
+  it('shows the warning about signals dated after today beside the counts', async () => {
+    store.getState().go('import');
+    renderApp();
+    fireEvent.change(await screen.findByLabelText('What the file holds'), { target: { value: 'signals' } });
+    const late = new File(['customer,item,kind,at\nc-1,i-2,view,2999-01-01T00:00:00Z\n'], 'late.csv', { type: 'text/csv' });
+    fireEvent.change(screen.getByLabelText('…or upload a file (CSV, JSON, JSON Lines)'), { target: { files: [late] } });
+    const preview = screen.getByRole('button', { name: 'Preview' });
+    await waitFor(() => expect(preview.hasAttribute('disabled')).toBe(false));
+    fireEvent.click(preview);
+    fireEvent.click(within(await screen.findByRole('region', { name: 'Preview' })).getByRole('button', { name: 'Import' }));
+    const report = await screen.findByRole('region', { name: 'Import report' });
+    await waitFor(() => expect(report.textContent).toContain('Warning: 1 signal is dated after today (the latest 2999-01-01)'));
+  });
+
   it('does not ask for a kind when the signal file has a kind column', async () => {
     store.getState().go('import');
     renderApp();

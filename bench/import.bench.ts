@@ -10,6 +10,15 @@
  * threads). BENCH_MODE=single|thread|both (default both) picks the signal path: single-thread or parsing
  * in a worker thread (RunOptions.parseThread); runs alternate between the two so both see the same load.
  * Run: npm run bench:import (BENCH_SIGNALS and BENCH_RUNS override the size and the runs per mode).
+ *
+ * BENCH_SCENARIO=bulk runs only the above; BENCH_SCENARIO=append (DESIGN.md target: appending 1M signals to a workspace that has 400k runs at
+ * >= 0.8x the bulk-load rate) instead builds the demo shop once (no training: 2,500 items, 15,000
+ * customers, ~400k signals), writes BENCH_SIGNALS new signals of its customers and items dated after its
+ * history, and imports them, alternating per run, (a) into a copy of the demo (the append) and (b) into a
+ * copy whose signals were deleted (the bulk load into an empty table), both by the default path. It prints
+ * each run, the medians, and the ratio of the median rates. BENCH_UPSERT=1 adds (c): the append forced
+ * through the row-by-row upsert (appendPath 'upsert'), the path every append took before.
+ * By default (BENCH_SCENARIO=both) the bulk benchmark above runs first, then this one.
  */
 import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
@@ -18,6 +27,7 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { seededRng } from '../src-main/core/rng.ts';
 import { runImport } from '../src-main/ingest/run.ts';
+import { buildDemoWorkspace } from '../src-main/services/demo.ts';
 import { importFile } from '../src-main/services/import.ts';
 import { openWorkspace } from '../src-main/store/workspace.ts';
 
@@ -91,6 +101,97 @@ async function child(dir: string, run: string, mode: string): Promise<void> {
   process.stdout.write(JSON.stringify(result));
 }
 
+/** One append-scenario run, in a child process: copy the prepared workspace, then the timed import. */
+async function appendChild(dir: string, run: string, mode: string): Promise<void> {
+  const ws = path.join(dir, `run-${run}.shelf`);
+  fs.copyFileSync(path.join(dir, mode === 'bulk' ? 'empty.shelf' : 'demo.shelf'), ws);
+  const db = openWorkspace(ws);
+  const before = db.prepare('SELECT count(*) FROM signal').pluck().get() as number;
+  const loadBefore = os.loadavg()[0]!;
+  const started = performance.now();
+  const cpu0 = process.cpuUsage();
+  const main0 = mainThreadCpu();
+  const r = await runImport(db, { target: 'signals', file: path.join(dir, 'append.csv'), ...(mode === 'upsert' && { appendPath: 'upsert' as const }) });
+  const seconds = (performance.now() - started) / 1000;
+  const cpu = process.cpuUsage(cpu0);
+  const mainCpuSeconds = mainThreadCpu() - main0;
+  if (!r.committed || r.rows !== SIGNALS) throw new Error(`benchmark import failed: ${JSON.stringify(r).slice(0, 500)}`);
+  db.close();
+  for (const suffix of ['', '-wal', '-shm']) fs.rmSync(`${ws}${suffix}`, { force: true });
+  const result: RunResult & { before: number } = {
+    before,
+    rows: r.rows,
+    added: r.added,
+    seconds,
+    cpuSeconds: (cpu.user + cpu.system) / 1e6,
+    mainCpuSeconds,
+    rssMb: process.resourceUsage().maxRSS / 1024,
+    loadBefore,
+    loadAfter: os.loadavg()[0]!,
+  };
+  process.stdout.write(JSON.stringify(result));
+}
+
+/** The append scenario (see the header): demo shop once, then alternating timed runs per mode. */
+async function appendMain(): Promise<void> {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-bench-append-'));
+  try {
+    const demo = path.join(dir, 'demo.shelf');
+    await buildDemoWorkspace(demo, { train: false });
+    const db = openWorkspace(demo);
+    const items = db.prepare('SELECT external_id FROM item ORDER BY id').pluck().all() as string[];
+    const customers = db.prepare('SELECT external_id FROM customer ORDER BY id').pluck().all() as string[];
+    const last = db.prepare('SELECT max(at) FROM signal').pluck().get() as number;
+    const stored = db.prepare('SELECT count(*) FROM signal').pluck().get() as number;
+    db.close();
+    fs.copyFileSync(demo, path.join(dir, 'empty.shelf'));
+    const empty = openWorkspace(path.join(dir, 'empty.shelf'));
+    empty.exec('DELETE FROM signal');
+    empty.exec('VACUUM');
+    empty.close();
+    const rng = seededRng(11);
+    // New days of the same shop's log: its customers and items, popularity skewed (squared uniform), after its last signal.
+    await writeLines(path.join(dir, 'append.csv'), 'customer,item,kind,value,at', SIGNALS, (i) => {
+      const item = items[Math.floor(rng.next() * rng.next() * items.length)]!;
+      const at = new Date(last + 1000 + i * 20_000 + rng.int(10) * 1000).toISOString().replace('.000', '');
+      return `${customers[rng.int(customers.length)]},${item},${KINDS[i % KINDS.length]},1,${at}`;
+    });
+    console.log(`append scenario: ${SIGNALS} signals into the demo shop (${stored} signals, ${items.length} items, ${customers.length} customers) vs into the same shop emptied of signals`);
+    const modes = ['bulk', 'append', ...(process.env.BENCH_UPSERT === '1' ? ['upsert'] : [])];
+    const self = fileURLToPath(import.meta.url);
+    const runs = new Map<string, RunResult[]>(modes.map((m) => [m, []]));
+    for (let run = 0; run < RUNS; run++) {
+      for (const mode of modes) {
+        const out = execFileSync(process.execPath, [...process.execArgv, self, 'append-child', dir, `${mode}${run}`, mode], { encoding: 'utf8', maxBuffer: 1 << 20 });
+        const r = JSON.parse(out) as RunResult & { before: number };
+        runs.get(mode)!.push(r);
+        console.log(
+          `${mode} run ${run + 1}: ${r.rows} rows into ${r.before} (${r.added} added) in ${r.seconds.toFixed(2)} s = ${Math.round(r.rows / r.seconds)} rows/s; ` +
+            `${r.cpuSeconds.toFixed(2)} CPU s = ${Math.round(r.rows / r.cpuSeconds)} rows/CPU-s; peak RSS ${r.rssMb.toFixed(0)} MB; ` +
+            `load ${r.loadBefore.toFixed(1)} -> ${r.loadAfter.toFixed(1)}`,
+        );
+      }
+    }
+    const medians = new Map<string, { rate: number; cpuRate: number }>();
+    for (const [mode, rs] of runs) {
+      const median = (f: (r: RunResult) => number) => rs.map(f).sort((a, b) => a - b)[Math.floor(rs.length / 2)]!;
+      const m = { rate: median((r) => r.rows / r.seconds), cpuRate: median((r) => r.rows / r.cpuSeconds) };
+      medians.set(mode, m);
+      console.log(
+        `${mode}, median of ${RUNS}: ${Math.round(m.rate)} rows/s wall, ${Math.round(m.cpuRate)} rows/CPU-s, ` +
+          `peak RSS ${median((r) => r.rssMb).toFixed(0)} MB, load ${median((r) => r.loadAfter).toFixed(1)} on ${os.cpus().length} cores`,
+      );
+    }
+    const bulk = medians.get('bulk')!;
+    for (const mode of modes.filter((m) => m !== 'bulk')) {
+      const m = medians.get(mode)!;
+      console.log(`${mode} / bulk: ${(m.rate / bulk.rate).toFixed(2)}x by wall time, ${(m.cpuRate / bulk.cpuRate).toFixed(2)}x by CPU time (target >= 0.8)`);
+    }
+  } finally {
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
+}
+
 async function main(): Promise<void> {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-bench-'));
   try {
@@ -134,4 +235,9 @@ async function main(): Promise<void> {
 }
 
 if (process.argv[2] === 'child') await child(process.argv[3]!, process.argv[4]!, process.argv[5]!);
-else await main();
+else if (process.argv[2] === 'append-child') await appendChild(process.argv[3]!, process.argv[4]!, process.argv[5]!);
+else {
+  const scenario = process.env.BENCH_SCENARIO ?? 'both';
+  if (scenario === 'bulk' || scenario === 'both') await main();
+  if (scenario === 'append' || scenario === 'both') await appendMain();
+}

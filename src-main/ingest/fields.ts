@@ -1,4 +1,6 @@
 import { InputError } from '../core/errors.ts';
+import type { SignalKind } from '../core/types.ts';
+import { cut, quote } from '../core/util/cut.ts';
 
 /**
  * The canonical fields of each import target and the header words that name them. A file's headers are
@@ -61,14 +63,23 @@ export interface ColumnPlan {
   index: Record<string, number>;
   /** Columns that are no field: item and customer attributes; ignored for signals. */
   extra: number[];
+  /** Signals from a file without a kind column: the kind every row gets (`kind` of the import options). */
+  everyRowKind?: SignalKind;
 }
 
 /**
  * Checks the header row and matches it to the target's fields. Explicit `mapping` entries win; the rest are
  * detected by synonym. Everything wrong with the header is a file-level InputError (line 1): no row could
  * be read correctly under a wrong header.
+ *
+ * `everyRowKind` (signals only) stands in for a kind column that a shop's export often lacks (a file of
+ * purchases only: customer, item, count). A file that has a kind column AND a kind for every row is
+ * refused rather than one silently overriding the other: the two disagree about where the kind comes from.
  */
-export function planColumns(file: string, target: ImportTarget, headers: string[], explicit: Mapping = {}): ColumnPlan {
+export function planColumns(file: string, target: ImportTarget, headers: string[], explicit: Mapping = {}, everyRowKind?: SignalKind): ColumnPlan {
+  if (everyRowKind !== undefined && target !== 'signals') {
+    throw new InputError(`a kind for every row is for signals only, not ${target}`, { file });
+  }
   const fields: readonly string[] = FIELDS[target];
   const seen = new Map<string, number>();
   headers.forEach((raw, i) => {
@@ -76,7 +87,7 @@ export function planColumns(file: string, target: ImportTarget, headers: string[
     if (h === '') throw new InputError(`column ${i + 1} has no header name`, { file, line: 1, column: i + 1 });
     const prev = seen.get(h);
     if (prev !== undefined) {
-      throw new InputError(`duplicate header '${h}' (columns ${prev + 1} and ${i + 1})`, { file, line: 1, column: i + 1 });
+      throw new InputError(`duplicate header ${quote(h)} (columns ${prev + 1} and ${i + 1})`, { file, line: 1, column: i + 1 });
     }
     seen.set(h, i);
   });
@@ -85,12 +96,12 @@ export function planColumns(file: string, target: ImportTarget, headers: string[
   const mapping: Mapping = {};
   for (const [field, header] of Object.entries(explicit)) {
     if (!fields.includes(field)) {
-      throw new InputError(`mapping names '${field}', which is not a field of ${target} (fields: ${fields.join(', ')})`, { file });
+      throw new InputError(`mapping names ${quote(field)}, which is not a field of ${target} (fields: ${fields.join(', ')})`, { file });
     }
     if (header === undefined) continue;
     const at = trimmed.indexOf(header.trim());
     if (at < 0) {
-      throw new InputError(`mapping names column '${header}' for ${field}, but the file has no such column (columns: ${trimmed.join(', ')})`, {
+      throw new InputError(`mapping names column ${quote(header)} for ${field}, but the file has no such column (columns: ${cut(trimmed.join(', '))})`, {
         file,
         line: 1,
       });
@@ -107,7 +118,7 @@ export function planColumns(file: string, target: ImportTarget, headers: string[
       // Prefer the column named exactly like the field; otherwise refuse to guess.
       const exact = hits.filter((i) => foldHeader(trimmed[i]!) === foldHeader(field));
       if (exact.length !== 1) {
-        const names = hits.map((i) => `'${trimmed[i]}'`).join(' and ');
+        const names = hits.map((i) => quote(trimmed[i]!)).join(' and ');
         throw new InputError(`columns ${names} could both be ${field}; pass a mapping`, { file, line: 1, column: hits[1]! + 1 });
       }
       hits.splice(0, hits.length, exact[0]!);
@@ -118,13 +129,21 @@ export function planColumns(file: string, target: ImportTarget, headers: string[
       taken.add(hits[0]!);
     } else index[field] = -1;
   }
-  const missing = REQUIRED[target].filter((f) => index[f] === -1);
-  if (missing.length > 0) {
+  if (everyRowKind !== undefined && index.kind! >= 0) {
     throw new InputError(
-      `missing required column${missing.length > 1 ? 's' : ''} ${missing.join(', ')} for ${target} (columns: ${trimmed.join(', ')}); rename them or pass a mapping`,
+      `the file has a kind column (${quote(trimmed[index.kind!]!)}), and every row was also given the kind ${everyRowKind} ` +
+        '(--kind on the command line); that is only for files without one: leave it out to read the kind from the column',
+      { file, line: 1, column: index.kind! + 1 },
+    );
+  }
+  const missing = REQUIRED[target].filter((f) => index[f] === -1 && !(f === 'kind' && everyRowKind !== undefined));
+  if (missing.length > 0) {
+    const kindHint = missing.includes('kind') ? ', or give every row one kind (--kind on the command line)' : '';
+    throw new InputError(
+      `missing required column${missing.length > 1 ? 's' : ''} ${missing.join(', ')} for ${target} (columns: ${cut(trimmed.join(', '))}); rename them or pass a mapping${kindHint}`,
       { file, line: 1 },
     );
   }
   const extra = trimmed.map((_, i) => i).filter((i) => !taken.has(i));
-  return { target, headers: trimmed, mapping, index, extra };
+  return { target, headers: trimmed, mapping, index, extra, ...(everyRowKind !== undefined && { everyRowKind }) };
 }

@@ -1,5 +1,6 @@
 import fs from 'node:fs';
 import { InputError } from '../core/errors.ts';
+import { quote } from '../core/util/cut.ts';
 import type { RowSink, SourceInfo } from './source.ts';
 import { TextCheck } from './text-check.ts';
 
@@ -93,7 +94,9 @@ export async function readJsonArray(file: string, sink: RowSink): Promise<Source
     const where = pos ? lineColumn(text, Number(pos[1])) : line !== undefined ? { line } : {};
     throw new InputError(`not valid JSON: ${msg.replace(/ in JSON at position \d+.*$/, '').replace(/, "[\s\S]*$/, '')}`, { file, ...where });
   }
-  if (!Array.isArray(data)) throw new InputError('a JSON import must be an array of objects ([{...}, {...}])', { file, line: 1 });
+  if (!Array.isArray(data)) {
+    throw new InputError(`the file's top level is ${jsonKind(data)}, not a list of records: a JSON import is a list of objects [{...}, {...}]`, { file, line: 1 });
+  }
   const lines = elementSpans(text).lines;
   const keys = new KeyColumns(sink);
   // The header is every key of every record, so a field first present in record 500 is still a field.
@@ -111,9 +114,21 @@ export async function readJsonArray(file: string, sink: RowSink): Promise<Source
       started = true;
       keys.header([...union]);
     }
-    if (sink.row(keys.values(v), line) === false) break;
+    if (sink.row(keys.values(v), line, i + 1) === false) break;
   }
   return { format: 'json' };
+}
+
+/** What a JSON value is, for a message: "an object (keys 'items', 'total')", "a string". */
+function jsonKind(v: unknown): string {
+  if (v === null) return 'null';
+  if (typeof v === 'object') {
+    const keys = Object.keys(v);
+    if (keys.length === 0) return 'an empty object';
+    const named = keys.slice(0, 3).map(quote).join(', ') + (keys.length > 3 ? ', …' : '');
+    return `an object (key${keys.length > 1 ? 's' : ''} ${named}; if the records sit under one key, save that list alone or as JSON Lines)`;
+  }
+  return typeof v === 'string' ? 'a string' : typeof v === 'number' ? 'a number' : 'true or false';
 }
 
 function lineColumn(text: string, pos: number): { line: number; column: number } {

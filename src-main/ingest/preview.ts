@@ -1,4 +1,5 @@
 import { InputError } from '../core/errors.ts';
+import type { SignalKind } from '../core/types.ts';
 import { planColumns, type ImportTarget, type Mapping } from './fields.ts';
 import { rowConverter, type Problem } from './rows.ts';
 import { formatOf, readSource, type ImportFormat } from './source.ts';
@@ -9,6 +10,8 @@ export interface PreviewOptions {
   delimiter?: string;
   mapping?: Mapping;
   dateOrder?: DateOrder;
+  /** Signals: the kind of every row, for a file without a kind column. */
+  kind?: SignalKind;
 }
 
 export interface ImportPreview {
@@ -45,7 +48,7 @@ export async function previewFile(file: string, target: ImportTarget, o: Preview
         header(headers, delimiter) {
           out.headers = headers.map((h) => h.trim());
           out.delimiter = delimiter ?? null;
-          const plan = planColumns(file, target, headers, o.mapping);
+          const plan = planColumns(file, target, headers, o.mapping, o.kind);
           out.mapping = plan.mapping;
           out.extraColumns = plan.extra.map((i) => plan.headers[i]!);
           convert = rowConverter({ plan, dateOrder: o.dateOrder, delimiter });
@@ -56,11 +59,12 @@ export async function previewFile(file: string, target: ImportTarget, o: Preview
         broken(line, reason) {
           out.problems.push(new InputError(reason, { file, line }).describe());
         },
-        row(values, line) {
+        row(values, line, record) {
           out.sampleRows.push(values.map(asText));
           problems.length = 0;
           convert?.(values, problems);
-          for (const p of problems) out.problems.push(new InputError(p.reason, { file, line, column: p.column }).describe());
+          const inRecord = record === undefined ? '' : `record ${record}: `;
+          for (const p of problems) out.problems.push(new InputError(inRecord + p.reason, { file, line, column: p.column }).describe());
           return out.sampleRows.length < SAMPLE_ROWS;
         },
       },

@@ -19,13 +19,16 @@ export class RejectLog {
   rejected = 0;
   errorCount = 0;
   readonly errors: RowError[] = [];
+  /** The JSON array record now being read (1-based), named in each of its messages; undefined elsewhere. */
+  record: number | undefined;
   readonly #file: string;
   constructor(file: string) {
     this.#file = file;
   }
 
   /** One problem on `line`; `newRow` false adds another problem to the row rejected just before. */
-  add(line: number, column: number | string | null, reason: string, newRow = true): void {
+  add(line: number, column: number | string | null, raw: string, newRow = true): void {
+    const reason = this.record === undefined ? raw : `record ${this.record}: ${raw}`;
     if (newRow) this.rejected++;
     this.errorCount++;
     if (this.errors.length < MAX_ERRORS) {

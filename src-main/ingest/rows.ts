@@ -1,4 +1,5 @@
 import type { AttributeValue } from '../core/types.ts';
+import { cut } from '../core/util/cut.ts';
 import type { CustomerWrite, ItemWrite, SignalWrite } from '../store/catalogue-writes.ts';
 import type { ColumnPlan } from './fields.ts';
 import { bool, describe, isBad, isBlank, kind, nonNegative, tags, text, time, type Bad, type DateOrder } from './values.ts';
@@ -39,7 +40,8 @@ export function rowConverter(ctx: RowContext): Converter<ItemInput | CustomerInp
 
 /** Column label for a problem: the column number for CSV, the key for JSON. */
 export function columnLabel(ctx: RowContext, i: number): number | string {
-  return ctx.delimiter !== undefined ? i + 1 : (ctx.plan.headers[i] ?? i + 1);
+  const key = ctx.plan.headers[i];
+  return ctx.delimiter !== undefined || key === undefined ? i + 1 : cut(key);
 }
 
 export function checkWidth(ctx: RowContext, values: unknown[], problems: Problem[]): boolean {
@@ -65,10 +67,25 @@ function field<T>(
   return out;
 }
 
+/** C0, DEL and C1 (ECMA-48): invisible in a list, and able to drive a terminal that prints the id. */
+// eslint-disable-next-line no-control-regex -- refusing control characters is the point
+const CONTROL = /[\u0000-\u001f\u007f-\u009f]/;
+const CONTROLS = new RegExp(CONTROL.source, 'g');
+
+/**
+ * An id as the shop's system wrote it, trimmed. Control characters are refused: an id is looked up, typed
+ * and printed, and one that cannot be seen cannot be typed (titles keep theirs; the command line shows them
+ * escaped).
+ */
 export function externalId(v: unknown): string | Bad {
   if (isBlank(v)) return { bad: 'missing id' };
   const t = text(v);
-  return isBad(t) ? t : t.trim();
+  if (isBad(t)) return t;
+  const id = t.trim();
+  const at = id.search(CONTROL);
+  if (at < 0) return id;
+  const code = `U+${id.charCodeAt(at).toString(16).toUpperCase().padStart(4, '0')}`;
+  return { bad: `an id may not hold control characters; ${describe(id.replace(CONTROLS, '?'))} has ${code} at character ${at + 1}` };
 }
 
 function attributes(ctx: RowContext, values: unknown[], problems: Problem[]): Record<string, AttributeValue> | undefined {
@@ -78,7 +95,7 @@ function attributes(ctx: RowContext, values: unknown[], problems: Problem[]): Re
     const v = values[i];
     if (v === undefined || v === '') continue;
     if (v === null || typeof v === 'string' || typeof v === 'number' || typeof v === 'boolean') out[ctx.plan.headers[i]!] = v;
-    else problems.push({ column: columnLabel(ctx, i), reason: `attribute ${ctx.plan.headers[i]}: expected a plain value, got ${describe(v)}` });
+    else problems.push({ column: columnLabel(ctx, i), reason: `attribute ${cut(ctx.plan.headers[i]!)}: expected a plain value, got ${describe(v)}` });
   }
   return out;
 }
@@ -131,7 +148,7 @@ function signalConverter(ctx: RowContext): Converter<SignalInput> {
     if (!checkWidth(ctx, values, problems)) return undefined;
     const customer = field(ctx, values, problems, 'customer', externalId);
     const item = field(ctx, values, problems, 'item', externalId);
-    const k = field(ctx, values, problems, 'kind', kind);
+    const k = ctx.plan.everyRowKind ?? field(ctx, values, problems, 'kind', kind);
     const v = ctx.plan.index.value! >= 0 ? field(ctx, values, problems, 'value', value) : 1;
     const t = ctx.plan.index.at! >= 0 ? field(ctx, values, problems, 'at', at) : null;
     if (problems.length > 0) return undefined;

@@ -1,5 +1,7 @@
 import fs from 'node:fs';
 import { InputError } from '../core/errors.ts';
+import type { SignalKind } from '../core/types.ts';
+import { plural } from '../core/util/plural.ts';
 import { CatalogueWriter, logImport, type CustomerWrite, type ItemWrite, type SignalBatch } from '../store/catalogue-writes.ts';
 import type { Db } from '../store/workspace.ts';
 import { beginWriteAsync, endWrite } from '../store/write-lock.ts';
@@ -18,6 +20,8 @@ export interface RunOptions {
   mapping?: Mapping;
   delimiter?: string;
   dateOrder?: DateOrder;
+  /** Signals: the kind of every row, for a file without a kind column (a file with one is refused). */
+  kind?: SignalKind;
   /** Signals naming an unknown customer: reject the row (default) or create the customer. Items are never created. */
   unknown?: 'reject' | 'create';
   /** false (default): one rejected row fails the whole import. true: valid rows are committed, rejects reported. */
@@ -29,6 +33,12 @@ export interface RunOptions {
    * files of PIPELINE_MIN_BYTES or more. Both paths give identical tables and reports.
    */
   parseThread?: boolean;
+  /**
+   * Signals into a table that has some: keep the identity index and upsert row by row ('upsert'), or drop
+   * it, resolve repeats in memory and rebuild it ('rebuild'). Default: 'rebuild' when the file is expected
+   * to bring at least APPEND_REBUILD_RATIO rows per stored row. Both leave identical tables and reports.
+   */
+  appendPath?: 'upsert' | 'rebuild';
 }
 
 export interface ImportReport {
@@ -46,6 +56,13 @@ export interface ImportReport {
   customersCreated: number;
   /** The first MAX_ERRORS rejected rows; `errorCount` has them all. */
   errors: RowError[];
+  /**
+   * Signals only: rows dated after today (UTC). Accepted, since clocks and zones differ, but counted and
+   * warned about: a backtest holds out the latest interactions, and rows from the future would be those.
+   */
+  futureDated: number;
+  /** What the editor should look at although the import went through (future-dated rows). */
+  warnings: string[];
   errorCount: number;
   committed: boolean;
   elapsedMs: number;
@@ -112,7 +129,7 @@ async function readAndWrite(db: Db, o: RunOptions, format: ImportFormat): Promis
   const writer = new CatalogueWriter(db);
   const report: ImportReport = {
     target: o.target, file: o.file, format, delimiter: null, rows: 0, added: 0, updated: 0, unchanged: 0,
-    rejected: 0, customersCreated: 0, errors: [], errorCount: 0, committed: false, elapsedMs: 0, mapping: {},
+    rejected: 0, customersCreated: 0, errors: [], errorCount: 0, futureDated: 0, warnings: [], committed: false, elapsedMs: 0, mapping: {},
   };
   if (o.target === 'signals') return readAndWriteSignals(writer, o, format, report);
   const rejects = new RejectLog(o.file);
@@ -124,7 +141,7 @@ async function readAndWrite(db: Db, o: RunOptions, format: ImportFormat): Promis
     format,
     {
       header(headers, delimiter) {
-        plan = planColumns(o.file, o.target, headers, o.mapping);
+        plan = planColumns(o.file, o.target, headers, o.mapping, o.kind);
         report.mapping = plan.mapping;
         convert = rowConverter({ plan, dateOrder: o.dateOrder, delimiter });
       },
@@ -133,10 +150,12 @@ async function readAndWrite(db: Db, o: RunOptions, format: ImportFormat): Promis
         plan!.extra.push(plan!.headers.length - 1);
       },
       broken(line, reason) {
+        rejects.record = undefined; // the reason names the record itself
         report.rows++;
         rejects.add(line, null, reason);
       },
-      row(values, line) {
+      row(values, line, record) {
+        rejects.record = record;
         report.rows++;
         problems.length = 0;
         const row = convert!(values, problems);
@@ -164,9 +183,9 @@ async function readAndWrite(db: Db, o: RunOptions, format: ImportFormat): Promis
  * SIGNAL_BATCH rows, then counted once by `finishSignals`.
  */
 async function readAndWriteSignals(writer: CatalogueWriter, o: RunOptions, format: ImportFormat, report: ImportReport): Promise<ImportReport> {
-  const big = (fs.statSync(o.file, { throwIfNoEntry: false })?.size ?? 0) >= PIPELINE_MIN_BYTES;
-  const thread = o.parseThread ?? (big && signalWorkerAvailable());
-  writer.startSignals();
+  const bytes = fs.statSync(o.file, { throwIfNoEntry: false })?.size ?? 0;
+  const thread = o.parseThread ?? (bytes >= PIPELINE_MIN_BYTES && signalWorkerAvailable());
+  writer.startSignals(estimateRows(o.file, bytes), o.appendPath);
   let nextProgress = PROGRESS_EVERY;
   const write = (b: SignalBatch) => {
     writer.writeSignalBatch(b);
@@ -179,18 +198,55 @@ async function readAndWriteSignals(writer: CatalogueWriter, o: RunOptions, forma
     ...(o.mapping && { mapping: o.mapping }),
     ...(o.delimiter && { delimiter: o.delimiter }),
     ...(o.dateOrder && { dateOrder: o.dateOrder }),
+    ...(o.kind && { kind: o.kind }),
+    futureAfter: endOfTodayUtc(Date.now()),
   };
   const r = await (thread ? readSignalsInThread : readSignals)(options, writer.idMaps(), write);
   Object.assign(report, {
     rows: r.rows, rejected: r.rejected, errorCount: r.errorCount, errors: r.errors, mapping: r.mapping ?? {}, delimiter: r.delimiter ?? null,
   });
   checkNotEmpty(o.file, r.mapping !== undefined, r.rows);
+  report.futureDated = r.futureDated;
+  if (r.futureDated > 0) {
+    report.warnings.push(
+      `${plural(r.futureDated, 'signal is', 'signals are')} dated after today (the latest ${new Date(r.latestFuture).toISOString().slice(0, 10)}): ` +
+        'check the file\'s dates; a backtest holds out the latest signals, and these would be them',
+    );
+  }
   // A failing all-or-nothing import is rolled back anyway: skip rebuilding indexes it would throw away.
   if (report.rejected === 0 || o.acceptPartial) {
     const c = writer.finishSignals(r.valid);
     Object.assign(report, { added: c.added, updated: c.updated, unchanged: c.unchanged, customersCreated: c.customersCreated });
   }
   return report;
+}
+
+/** Bytes read from a file's start to estimate its rows. */
+const SAMPLE_BYTES = 64 << 10;
+
+/**
+ * About how many rows a file holds, from its size and the line length of its first 64 KiB (a file of
+ * one-line records; a JSON array written on one line counts as one). Only decides how to write (the
+ * writer's append path), never what is written.
+ */
+export function estimateRows(file: string, bytes: number): number {
+  if (bytes === 0) return 0;
+  const sample = Buffer.alloc(Math.min(SAMPLE_BYTES, bytes));
+  const fd = fs.openSync(file, 'r');
+  try {
+    fs.readSync(fd, sample, 0, sample.length, 0);
+  } finally {
+    fs.closeSync(fd);
+  }
+  let lines = 0;
+  for (let i = sample.indexOf(10); i >= 0; i = sample.indexOf(10, i + 1)) lines++;
+  return Math.round(bytes / (sample.length / Math.max(1, lines)));
+}
+
+/** The first instant after today in UTC: a row of today is never "future", whatever the shop's zone. */
+function endOfTodayUtc(now: number): number {
+  const d = new Date(now);
+  return Date.UTC(d.getUTCFullYear(), d.getUTCMonth(), d.getUTCDate() + 1) - 1;
 }
 
 function checkNotEmpty(file: string, sawHeader: boolean, rows: number): void {

@@ -1,3 +1,4 @@
+import type { SignalKind } from '../core/types.ts';
 import type { IdMaps, SignalBatch } from '../store/catalogue-writes.ts';
 import { planColumns, type Mapping } from './fields.ts';
 import { RejectLog, type RowError } from './rejects.ts';
@@ -13,6 +14,10 @@ export interface SignalReadOptions {
   delimiter?: string;
   dateOrder?: DateOrder;
   createCustomers: boolean;
+  /** The kind of every row, for a file without a kind column (planColumns). */
+  kind?: SignalKind;
+  /** Rows dated after this (unix ms) are counted as future-dated; none when absent. */
+  futureAfter?: number;
 }
 
 export interface SignalReadResult {
@@ -23,6 +28,9 @@ export interface SignalReadResult {
   rejected: number;
   errorCount: number;
   errors: RowError[];
+  /** Valid rows dated after `futureAfter`, and the latest of their times (NaN when none). */
+  futureDated: number;
+  latestFuture: number;
   /** undefined when the file had no header at all. */
   mapping: Mapping | undefined;
   delimiter: string | undefined;
@@ -42,22 +50,24 @@ export async function readSignals(o: SignalReadOptions, ids: IdMaps, emit: (b: S
     o.format,
     {
       header(headers, delimiter) {
-        const plan = planColumns(o.file, 'signals', headers, o.mapping);
+        const plan = planColumns(o.file, 'signals', headers, o.mapping, o.kind);
         mapping = plan.mapping;
-        rows = new SignalRows({ plan, dateOrder: o.dateOrder, delimiter }, ids, o.createCustomers, rejects, emit, transfer);
+        rows = new SignalRows({ plan, dateOrder: o.dateOrder, delimiter }, ids, o.createCustomers, rejects, emit, transfer, o.futureAfter);
         rows.rows = early;
       },
       newColumn() {
         // An extra JSON key is no signal field; the width check applies to CSV only.
       },
       broken(line, reason) {
+        rejects.record = undefined; // the reason names the record itself
         if (rows) rows.broken(line, reason);
         else {
           early++;
           rejects.add(line, null, reason);
         }
       },
-      row(values, line) {
+      row(values, line, record) {
+        rejects.record = record;
         rows!.row(values, line);
       },
     },
@@ -65,5 +75,8 @@ export async function readSignals(o: SignalReadOptions, ids: IdMaps, emit: (b: S
   );
   rows?.end();
   const { rejected, errorCount, errors } = rejects;
-  return { rows: rows?.rows ?? early, valid: rows?.valid ?? 0, rejected, errorCount, errors, mapping, delimiter: info.delimiter };
+  return {
+    rows: rows?.rows ?? early, valid: rows?.valid ?? 0, rejected, errorCount, errors, mapping, delimiter: info.delimiter,
+    futureDated: rows?.futureDated ?? 0, latestFuture: rows?.latestFuture ?? Number.NaN,
+  };
 }

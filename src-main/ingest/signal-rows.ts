@@ -2,7 +2,7 @@ import { SIGNAL_KINDS, type SignalKind } from '../core/types.ts';
 import { SIGNAL_BATCH, type IdMaps, type SignalBatch } from '../store/catalogue-writes.ts';
 import type { RejectLog } from './rejects.ts';
 import { checkWidth, columnLabel, externalId, type Problem, type RowContext } from './rows.ts';
-import { isBad, isBlank, kind, nonNegative, time, type Bad } from './values.ts';
+import { describe, isBad, isBlank, kind, nonNegative, time, type Bad } from './values.ts';
 
 const KIND_CODE = new Map<SignalKind, number>(SIGNAL_KINDS.map((k, i) => [k, i]));
 
@@ -18,6 +18,10 @@ export class SignalRows {
   rows = 0;
   /** Rows that went into a batch. */
   valid = 0;
+  /** Of those, rows dated after `futureAfter` (see SignalReadOptions), and the latest such time. */
+  futureDated = 0;
+  latestFuture = Number.NaN;
+  readonly #futureAfter: number;
   readonly #ctx: RowContext;
   readonly #ids: IdMaps;
   readonly #create: boolean;
@@ -29,15 +33,21 @@ export class SignalRows {
   readonly #col: { customer: number; item: number; kind: number; value: number; at: number };
   readonly #value: (v: unknown) => number | Bad;
   readonly #at: (v: unknown) => number | Bad;
+  readonly #everyRowKind: SignalKind | undefined;
 
-  constructor(ctx: RowContext, ids: IdMaps, createCustomers: boolean, rejects: RejectLog, emit: (b: SignalBatch) => void, transfer = false) {
+  constructor(
+    ctx: RowContext, ids: IdMaps, createCustomers: boolean, rejects: RejectLog, emit: (b: SignalBatch) => void, transfer = false,
+    futureAfter = Number.POSITIVE_INFINITY,
+  ) {
     this.#ctx = ctx;
+    this.#futureAfter = futureAfter;
     this.#transfer = transfer;
     this.#ids = ids;
     this.#create = createCustomers;
     this.#rejects = rejects;
     this.#emit = emit;
     const at = (f: string) => ctx.plan.index[f] ?? -1;
+    this.#everyRowKind = ctx.plan.everyRowKind;
     this.#col = { customer: at('customer'), item: at('item'), kind: at('kind'), value: at('value'), at: at('at') };
     const commaDecimal = ctx.delimiter !== undefined && ctx.delimiter !== ',';
     this.#value = (v) => (isBlank(v) ? 1 : nonNegative(v, commaDecimal));
@@ -57,7 +67,7 @@ export class SignalRows {
     if (checkWidth(this.#ctx, values, problems)) {
       const customer = this.#field(values, c.customer, 'customer', externalId);
       const item = this.#field(values, c.item, 'item', externalId);
-      const k = this.#field(values, c.kind, 'kind', kind);
+      const k = this.#everyRowKind ?? this.#field(values, c.kind, 'kind', kind);
       const value = c.value >= 0 ? this.#field(values, c.value, 'value', this.#value) : 1;
       const at = c.at >= 0 ? this.#field(values, c.at, 'at', this.#at) : Number.NaN;
       if (problems.length === 0) {
@@ -83,14 +93,14 @@ export class SignalRows {
   #resolve(customer: string, item: string, k: SignalKind, value: number, at: number, line: number): void {
     const itemId = this.#ids.items.get(item);
     if (itemId < 0) {
-      this.#rejects.add(line, columnLabel(this.#ctx, this.#col.item), `item: unknown item '${item}'; signals never create items, import the catalogue first`);
+      this.#rejects.add(line, columnLabel(this.#ctx, this.#col.item), `item: unknown item ${describe(item)}; signals never create items, import the catalogue first`);
       return;
     }
     const b = this.#batch;
     let customerId = this.#ids.customers.get(customer);
     if (customerId < 0) {
       if (!this.#create) {
-        const reason = `customer: unknown customer '${customer}'; import customers first, or let the import create them (--create-customers on the command line)`;
+        const reason = `customer: unknown customer ${describe(customer)}; import customers first, or let the import create them (--create-customers on the command line)`;
         this.#rejects.add(line, columnLabel(this.#ctx, this.#col.customer), reason);
         return;
       }
@@ -106,6 +116,10 @@ export class SignalRows {
     b.value[r] = value;
     b.at[r] = at;
     this.valid++;
+    if (at > this.#futureAfter) {
+      this.futureDated++;
+      if (!(at <= this.latestFuture)) this.latestFuture = at; // NaN at first
+    }
     if (b.n === SIGNAL_BATCH) this.#send();
   }
 

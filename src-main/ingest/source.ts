@@ -18,8 +18,11 @@ export interface RowSink {
   header(headers: string[], delimiter?: string): void;
   /** A JSON record brought a key the header lacked; it becomes the next column. */
   newColumn(name: string): void;
-  /** One data row; return false to stop reading (the preview does). */
-  row(values: unknown[], line: number): boolean | void;
+  /**
+   * One data row; return false to stop reading (the preview does). `record` is the 1-based record number
+   * in a JSON array, where many records may share a line (a minified file is one line): messages name it.
+   */
+  row(values: unknown[], line: number, record?: number): boolean | void;
   /** A row that could not even be split into values (JSON Lines: invalid JSON on that line). */
   broken(line: number, reason: string): void;
 }

@@ -13,12 +13,20 @@ export class TextCheck {
   #linesBefore = 0;
   /** The decoder may hold the first bytes of a character split across two chunks. */
   #mayHoldBytes = false;
+  #first = true;
   constructor(file: string) {
     this.#file = file;
   }
 
   /** Checks one chunk; returns its decoded text (callers that parse bytes themselves may ignore it). */
   chunk(bytes: Uint8Array, last = false): string {
+    if (this.#first) {
+      this.#first = false;
+      const utf16 = utf16Order(bytes);
+      if (utf16) {
+        throw new InputError(`the file is UTF-16 text (${utf16}); save it as UTF-8 and import again`, { file: this.#file, line: 1 });
+      }
+    }
     const nul = bytes.indexOf(0);
     if (nul >= 0) {
       throw new InputError('this is not a text file (binary content: a NUL byte); import CSV, JSON or JSON Lines', {
@@ -52,6 +60,30 @@ export class TextCheck {
   end(): string {
     return this.chunk(new Uint8Array(0), true);
   }
+}
+
+/**
+ * Whether a file's first bytes are UTF-16, and which byte order: by its byte order mark (FF FE or FE FF,
+ * Unicode Standard section 23.8), or, without one, by the zero high bytes of ASCII text, which in UTF-16
+ * put a NUL at every other byte (the heuristic every text editor uses; common practice, no source).
+ * Spreadsheets save "Unicode text" as UTF-16 LE, which the NUL check alone called binary.
+ */
+function utf16Order(b: Uint8Array): string | undefined {
+  if (b[0] === 0xff && b[1] === 0xfe) return 'little-endian, by its byte order mark';
+  if (b[0] === 0xfe && b[1] === 0xff) return 'big-endian, by its byte order mark';
+  const n = Math.min(b.length, 512) & ~1;
+  if (n < 4) return undefined;
+  let evenZero = 0;
+  let oddZero = 0;
+  for (let i = 0; i < n; i += 2) {
+    if (b[i] === 0) evenZero++;
+    if (b[i + 1] === 0) oddZero++;
+  }
+  const pairs = n / 2;
+  // Nearly every other byte zero, and the others not: text, not a binary format's zero padding.
+  if (oddZero >= 0.9 * pairs && evenZero === 0) return 'little-endian';
+  if (evenZero >= 0.9 * pairs && oddZero === 0) return 'big-endian';
+  return undefined;
 }
 
 function countNewlines(bytes: Uint8Array, end: number): number {

@@ -1,4 +1,5 @@
 import { SIGNAL_KINDS, type SignalKind } from '../core/types.ts';
+import { cut, quote } from '../core/util/cut.ts';
 
 /**
  * Cell converters shared by every target. Each returns the value or a `Bad` with the reason an editor
@@ -52,7 +53,8 @@ export function nonNegative(v: unknown, commaDecimal: boolean): number | Bad {
     else if (commaDecimal && COMMA_DECIMAL.test(s)) n = Number(s.replace(',', '.'));
     else return bad(`not a number: ${describe(v)}${s.includes(',') ? ' (use a dot as decimal separator)' : ''}`);
   } else return bad(`not a number: ${describe(v)}`);
-  if (!Number.isFinite(n)) return bad(`not a finite number: ${describe(v)}`);
+  // '1e999' reads as Infinity (IEEE 754 binary64 overflows past about 1.8e308), in CSV text or JSON alike.
+  if (!Number.isFinite(n)) return bad(`out of range: ${describe(v)}; numbers go up to about 1.8e308`);
   if (n < 0) return bad(`must not be negative: ${describe(v)}`);
   return n;
 }
@@ -101,6 +103,18 @@ const DIGITS = /^\d{1,16}$/;
  */
 const SECONDS_LIMIT = 1e11;
 
+/**
+ * The years a date may have: ISO 8601's four-digit years end at 9999 (a later year needs the expanded
+ * form, by prior agreement: ISO 8601-1:2019 section 4.3.2), and years before 1000 are refused too: no
+ * shop's history reaches back that far, and `Date.UTC` reads years 0-99 as 1900-1999, which once stored
+ * '0099-01-01' as 1999 (common practice, no source, for the lower bound).
+ */
+export const FIRST_YEAR = 1000;
+export const LAST_YEAR = 9999;
+const YEARS = `years run from ${FIRST_YEAR} to ${LAST_YEAR}`;
+/** The last instant of LAST_YEAR, as unix ms. */
+const LAST_MS = Date.UTC(LAST_YEAR, 11, 31, 23, 59, 59, 999);
+
 /** A time as unix ms UTC. Slash dates are ambiguous (3/4/2026) and need an explicit `dateOrder`. */
 export function time(v: unknown, dateOrder: DateOrder | undefined): number | Bad {
   if (typeof v === 'number') return unixNumber(v, v);
@@ -147,6 +161,7 @@ function isoUtcSeconds(s: string): number {
   const sec = twoDigits(s, 17);
   if (c < 0 || yy < 0 || mo < 1 || mo > 12 || d < 1 || h < 0 || h > 23 || mi < 0 || mi > 59 || sec < 0 || sec > 59) return -1;
   const y = c * 100 + yy;
+  if (y < FIRST_YEAR) return -1;
   const leap = y % 4 === 0 && (y % 100 !== 0 || y % 400 === 0);
   if (d > (mo === 2 ? (leap ? 29 : 28) : MONTH_DAYS[mo - 1]!)) return -1;
   const yr = mo <= 2 ? y - 1 : y;
@@ -167,11 +182,14 @@ function twoDigits(s: string, i: number): number {
 }
 
 function unixNumber(n: number, raw: unknown): number | Bad {
+  if (n === Number.POSITIVE_INFINITY) return bad(`year out of range: ${describe(raw)}; ${YEARS}`);
   if (!Number.isFinite(n) || n < 0 || !Number.isInteger(n)) return bad(`not a unix time: ${describe(raw)}`);
-  return n < SECONDS_LIMIT ? n * 1000 : n;
+  const ms = n < SECONDS_LIMIT ? n * 1000 : n;
+  return ms > LAST_MS ? bad(`year out of range: ${describe(raw)} as unix milliseconds is after the year ${LAST_YEAR}; ${YEARS}`) : ms;
 }
 
 function civil(y: number, mo: number, d: number, h: number, mi: number, s: number, ms: number): number | Bad {
+  if (y < FIRST_YEAR || y > LAST_YEAR) return bad(`year ${y} out of range (${YEARS})`);
   if (mo < 1 || mo > 12) return bad('month out of range');
   const days = new Date(Date.UTC(y, mo, 0)).getUTCDate();
   if (d < 1 || d > days) return bad('day out of range');
@@ -187,9 +205,11 @@ function zoneOffsetMs(zone: string): number {
   return sign * (Number(digits.slice(0, 2)) * 3_600_000 + Number(digits.slice(2) || '0') * 60_000);
 }
 
-/** The value as an editor would recognise it in a message, shortened. */
+/** The value as an editor would recognise it in a message, cut (core/util/cut.ts). */
 export function describe(v: unknown): string {
   if (v === undefined) return 'nothing';
-  const s = typeof v === 'string' ? `'${v}'` : JSON.stringify(v) ?? String(v);
-  return s.length > 60 ? `${s.slice(0, 57)}...` : s;
+  if (typeof v === 'string') return quote(v);
+  // JSON.stringify would say null for these (JSON has no Infinity): a JSON file's 1e999 arrives as Infinity.
+  if (typeof v === 'number' && !Number.isFinite(v)) return Number.isNaN(v) ? 'not a number' : `a number too large to hold (${v < 0 ? '-' : ''}1e999 or the like)`;
+  return cut(JSON.stringify(v) ?? String(v));
 }

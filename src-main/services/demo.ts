@@ -1,6 +1,4 @@
 import fs from 'node:fs';
-import os from 'node:os';
-import path from 'node:path';
 import { generateDemoShop } from '../../demo-data/generator/index.ts';
 import { BugError, CancelledError, InputError, WorkspaceBusyError } from '../core/errors.ts';
 import { workspaceInUse } from '../store/in-use.ts';
@@ -8,6 +6,7 @@ import { replaceRefusal } from '../store/replaceable.ts';
 import { openWorkspace } from '../store/workspace.ts';
 import { describeHolder } from '../store/write-lock.ts';
 import { importFile, type ImportReport } from './import.ts';
+import { makeTempFolder } from './temp-folders.ts';
 import { trainAndSave, type TrainSummary } from './train/train-job.ts';
 import type { TrainProgress } from './train/train-models.ts';
 
@@ -57,7 +56,7 @@ export async function buildDemoWorkspace(file: string, options: DemoBuildOptions
   const building = `${file}.building`;
   // Refused before any work (another build of the same file shows as its `.building` being open) ...
   refuseDemoTarget(file);
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-demo-'));
+  const dir = makeTempFolder('demo');
   removeWorkspaceFiles(building);
   try {
     step('generating the demo shop');

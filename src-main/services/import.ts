@@ -1,6 +1,7 @@
 import fs from 'node:fs';
 import { z } from 'zod';
 import { InputError } from '../core/errors.ts';
+import { SIGNAL_KINDS, type SignalKind } from '../core/types.ts';
 import { FIELDS, type ImportTarget, type Mapping } from '../ingest/fields.ts';
 import { previewFile, type ImportPreview } from '../ingest/preview.ts';
 import { runImport, type ImportReport } from '../ingest/run.ts';
@@ -22,6 +23,8 @@ export const ImportOptionsSchema = z.strictObject({
   mappingFile: z.string().min(1).optional(),
   delimiter: z.string().length(1).optional(),
   dateOrder: z.enum(['dmy', 'mdy']).optional(),
+  /** Signals: the kind of every row, for a file without a kind column. */
+  kind: z.enum(SIGNAL_KINDS).optional(),
   unknown: z.enum(['reject', 'create']).optional(),
   acceptPartial: z.boolean().optional(),
 });
@@ -46,6 +49,7 @@ export async function importFile(db: Db, opts: ImportOptions): Promise<ImportRep
     ...(mapping && { mapping }),
     ...(o.delimiter && { delimiter: o.delimiter }),
     ...(o.dateOrder && { dateOrder: o.dateOrder }),
+    ...(o.kind && { kind: o.kind }),
     ...(o.unknown && { unknown: o.unknown }),
     ...(o.acceptPartial !== undefined && { acceptPartial: o.acceptPartial }),
     ...(onProgress && { onProgress }),
@@ -58,6 +62,7 @@ export interface PreviewImportOptions {
   mapping?: Mapping;
   mappingFile?: string;
   dateOrder?: 'dmy' | 'mdy';
+  kind?: SignalKind;
 }
 
 /** What the column-mapping screen shows before an import: format, headers, detected mapping, 20 rows, problems. */
@@ -69,6 +74,7 @@ export async function previewImport(file: string, target: ImportTarget, opts: Pr
     ...(o.delimiter && { delimiter: o.delimiter }),
     ...(mapping && { mapping }),
     ...(o.dateOrder && { dateOrder: o.dateOrder }),
+    ...(o.kind && { kind: o.kind }),
   });
 }
 

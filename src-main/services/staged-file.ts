@@ -1,7 +1,7 @@
 import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
 import { InputError } from '../core/errors.ts';
+import { makeTempFolder } from './temp-folders.ts';
 
 export interface FileSource {
   file?: string | undefined;
@@ -41,7 +41,7 @@ export async function withFile<T>(source: FileSource, use: (file: string, shownA
   if (source.fileName === undefined || source.content === undefined) {
     throw new InputError('give either a file path, or a file name with its content');
   }
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-upload-'));
+  const dir = makeTempFolder('upload');
   const staged = path.join(dir, safeBaseName(source.fileName));
   try {
     fs.writeFileSync(staged, source.content, { mode: 0o600 }); // customer data: private, like its folder

@@ -6,6 +6,7 @@ import { Transform, type Readable } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
 import { InputError } from '../core/errors.ts';
 import { safeBaseName } from './staged-file.ts';
+import { makeTempFolder } from './temp-folders.ts';
 
 /** A file the page streamed to this machine, waiting to be previewed and imported. */
 export interface Upload {
@@ -112,9 +113,7 @@ export class UploadStore {
 
   #ensureRoot(): string {
     if (!this.#root || !fs.existsSync(this.#root)) {
-      const root = fs.mkdtempSync(path.join(this.#parent, 'shelfwright-uploads-'));
-      fs.chmodSync(root, 0o700); // mkdtemp already makes it 0700; said explicitly, as the folder holds user data
-      this.#root = root;
+      this.#root = makeTempFolder('uploads', this.#parent);
     }
     return this.#root;
   }

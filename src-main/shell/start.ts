@@ -5,12 +5,12 @@
  */
 import { spawn, spawnSync } from 'node:child_process';
 import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { InputError } from '../core/errors.ts';
 import { createHandlerTable } from '../api/handler-table.ts';
 import { AppContext } from '../services/context.ts';
+import { makeTempFolder, sweepTempFolders } from '../services/temp-folders.ts';
 import { APP_BLOCKING_WAIT_MS } from '../store/workspace.ts';
 import { parseStartArgs, type StartArgs } from './launch/args.ts';
 import { chromiumAppArgs, findChromium } from './launch/browser.ts';
@@ -68,7 +68,7 @@ async function launchWeb(args: StartArgs, workspace: string): Promise<void> {
     console.log('No Chromium or Chrome found on PATH: open the address above in a browser.');
     return;
   }
-  const profile = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-profile-'));
+  const profile = makeTempFolder('profile');
   // The browser is started on a private forwarding page, never on the address with the token: its command
   // line is visible to every account on the machine (launch/launch-page.ts).
   const child = spawn(browser, chromiumAppArgs(writeLaunchPage(profile, shell.pageUrl), profile), { stdio: 'ignore' });
@@ -83,6 +83,7 @@ async function launchWeb(args: StartArgs, workspace: string): Promise<void> {
 async function main(): Promise<void> {
   const args = parseStartArgs(process.argv.slice(2));
   const workspace = path.resolve(args.workspace ?? path.join(ROOT, '.workspaces', 'demo.sqlite'));
+  sweepTempFolders(); // what a killed earlier run left behind (services/temp-folders.ts)
   ensureRenderer();
   if (!fs.existsSync(workspace)) console.log(`First launch: building the demo workspace at ${workspace}`);
   await ensureDemo(workspace);

@@ -1,6 +1,8 @@
 import type Database from 'better-sqlite3';
 import type { AttributeValue, SignalKind } from '../core/types.ts';
 import { StringIdTable } from '../core/util/string-id-table.ts';
+import { cut, quote } from '../core/util/cut.ts';
+import { SignalAppender } from './signal-append.ts';
 import type { Db } from './workspace.ts';
 
 /**
@@ -93,6 +95,15 @@ const SIGNAL_INDEX = `CREATE UNIQUE INDEX signal_identity ON signal(${SIGNAL_KEY
  * (sqlite.org/limits.html, SQLITE_MAX_VARIABLE_NUMBER since 3.32.0).
  */
 export const SIGNAL_BATCH = 6_000;
+/**
+ * Appending takes the index-less path (`startSignals`, store/signal-append.ts) when the file is expected to
+ * bring at least this many rows per row already stored: below it, keeping the index up to date row by row
+ * costs less than rebuilding it over the whole table. At 0.5 (200k rows into the demo's 400k) the two
+ * paths tied before the append path learnt to skip the stored rows (1.24 vs 1.18 CPU-s, one run at load 19,
+ * bench/import.bench.ts BENCH_SCENARIO=append BENCH_UPSERT=1, 2026-12-04); it is cheaper since, so this
+ * bound errs towards the upsert. At 2.5 (1M rows) the rebuild wins clearly (README, Performance).
+ */
+export const APPEND_REBUILD_RATIO = 0.5;
 
 export class CatalogueWriter {
   readonly #db: Db;
@@ -109,6 +120,8 @@ export class CatalogueWriter {
   #signalChanges = 0;
   #customersCreated = 0;
   #bulk = false;
+  /** Appending with the index dropped (store/signal-append.ts). */
+  #appender: SignalAppender | undefined;
 
   constructor(db: Db) {
     this.#db = db;
@@ -123,7 +136,7 @@ export class CatalogueWriter {
   writeItem(row: ItemWrite): WriteOutcome {
     const exists = this.#itemIds.has(row.externalId);
     if (row.title === '') return { reject: 'title: an item needs a title' };
-    if (!exists && row.title === undefined) return { reject: `title: item '${row.externalId}' is new and needs a title` };
+    if (!exists && row.title === undefined) return { reject: `title: item ${quote(row.externalId)} is new and needs a title` };
     const st = this.#itemStatement(row, exists);
     if (exists && st.keys.length === 0) return 'unchanged'; // an id-only row for a known item
     const params: unknown[] = [];
@@ -185,16 +198,18 @@ export class CatalogueWriter {
    * sorted data beats a million random inserts into it (SQLite docs, "CREATE INDEX" builds by sorting;
    * 1M rows: 0.9 s to build after vs 8 s kept up to date, measured 2026-12-02).
    */
-  startSignals(): void {
+  startSignals(estimatedRows = 0, appendPath?: 'upsert' | 'rebuild'): void {
     this.#signalsBefore = this.#db.prepare('SELECT count(*) FROM signal').pluck().get() as number;
     this.#bulk = this.#signalsBefore === 0;
-    if (this.#bulk) this.#db.exec('DROP INDEX IF EXISTS signal_identity');
+    const append = !this.#bulk && (appendPath ?? (estimatedRows >= this.#signalsBefore * APPEND_REBUILD_RATIO ? 'rebuild' : 'upsert')) === 'rebuild';
+    if (this.#bulk || append) this.#db.exec('DROP INDEX IF EXISTS signal_identity');
+    this.#appender = undefined;
     // Rows go out SIGNAL_BATCH at a time in one multi-row INSERT: one statement step per batch instead of per
     // row cut the binding overhead ~2x (measured). Rows in one VALUES list are applied in order, so a
     // repeated identity later in the batch still upserts over the earlier one.
     const sql = (n: number) =>
       `INSERT INTO signal (customer_id, item_id, kind, value, at) VALUES ${Array.from({ length: n }, () => '(?, ?, ?, ?, ?)').join(', ')}` +
-      (this.#bulk ? '' : ` ON CONFLICT(${SIGNAL_KEY}) DO UPDATE SET value = excluded.value WHERE signal.value IS NOT excluded.value`);
+      (this.#bulk || append ? '' : ` ON CONFLICT(${SIGNAL_KEY}) DO UPDATE SET value = excluded.value WHERE signal.value IS NOT excluded.value`);
     this.#signalBatch = this.#db.prepare(sql(SIGNAL_BATCH));
     const tails = new Map<number, Stmt>(); // a file's last, shorter batch (usually one size per import)
     this.#signalTail = (n) => {
@@ -202,6 +217,10 @@ export class CatalogueWriter {
       if (!st) tails.set(n, (st = this.#db.prepare(sql(n))));
       return st;
     };
+    if (append) {
+      const insert = (params: unknown[], n: number) => (n === SIGNAL_BATCH ? this.#signalBatch! : this.#signalTail!(n)).run(params).changes;
+      this.#appender = new SignalAppender(this.#db, insert, SIGNAL_BATCH, estimatedRows);
+    }
   }
 
   /** The id maps signal rows are resolved with (in this thread or handed to the parsing thread). */
@@ -222,6 +241,10 @@ export class CatalogueWriter {
         this.#customerIds.set(externalIds[i]!, ids[i]!);
       }
       this.#customersCreated += externalIds.length;
+    }
+    if (this.#appender) {
+      this.#appender.write(b);
+      return;
     }
     for (let start = 0; start < b.n; start += SIGNAL_BATCH) {
       const n = Math.min(SIGNAL_BATCH, b.n - start);
@@ -249,7 +272,10 @@ export class CatalogueWriter {
   finishSignals(validRows: number): SignalCounts {
     let added: number;
     let updated: number;
-    if (this.#bulk) {
+    if (this.#appender) {
+      ({ added, updated } = this.#appender.finish(() => this.#db.exec(SIGNAL_INDEX)));
+      this.#appender = undefined;
+    } else if (this.#bulk) {
       // No sorter helper threads (PRAGMA threads), no bigger cache_size, no temp_store = MEMORY: each made
       // the index builds slower in wall and CPU time on the shared two-core machine (1M rows; threads 1-2:
       // 3.1-4.3 s vs 2.5-3.6 s; cache_size 64 MB or temp_store MEMORY: 4.7-8.7 s; measured 2026-12-02).
@@ -288,7 +314,15 @@ export class CatalogueWriter {
   }
 }
 
-/** Records a committed import for the workspace's history (and the stats' "last import"). */
+/** Longest text kept in a stored import report: the log is history, not a copy of the file. */
+const LOG_TEXT_CHARS = 500;
+
+/**
+ * Records a committed import for the workspace's history (and the stats' "last import"). Every text in the
+ * report is cut to LOG_TEXT_CHARS, so a row is bounded however big the file's cells or headers were (one
+ * row of 5 MB ids once grew a workspace by 100 MB through its messages).
+ */
 export function logImport(db: Db, target: string, file: string, report: unknown): void {
-  db.prepare('INSERT INTO import_log (at, target, file, report) VALUES (?, ?, ?, ?)').run(Date.now(), target, file, JSON.stringify(report));
+  const json = JSON.stringify(report, (_key, v: unknown) => (typeof v === 'string' ? cut(v, LOG_TEXT_CHARS) : v));
+  db.prepare('INSERT INTO import_log (at, target, file, report) VALUES (?, ?, ?, ?)').run(Date.now(), target, file, json);
 }

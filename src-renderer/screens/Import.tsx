@@ -1,6 +1,7 @@
 import { useId, useState, type FormEvent } from 'react';
 import { MAX_UPLOAD_BYTES } from '../../src-main/api/contracts/data.ts';
-import type { ImportSource, ImportTarget } from '../state/import-slice.ts';
+import { SIGNAL_KINDS } from '../../src-main/core/types.ts';
+import type { ImportSource, ImportTarget, SignalKind } from '../state/import-slice.ts';
 import { useApp } from '../state/store.ts';
 
 /**
@@ -74,16 +75,23 @@ export function Import() {
   const canNamePaths = useApp((s) => s.canNamePaths);
   const stageUpload = useApp((s) => s.stageUpload);
   const [mapping, setMapping] = useState<Record<string, string>>({});
+  const [kind, setKind] = useState<SignalKind | ''>('');
   const id = useId();
   const source: ImportSource | null = upload ?? (canNamePaths && path.trim() ? { file: path.trim() } : null);
 
   const onPreview = async (e: FormEvent) => {
     e.preventDefault();
     if (!source) return;
+    // A file looked at afresh: whether it has a kind column is learnt from this preview.
+    setKind('');
     await previewImport(source, target);
   };
   const detected = preview?.mapping ?? {};
   const effective = { ...detected, ...mapping };
+  // A signal file without a kind column (a shop's export of purchases: customer, item, count) takes one
+  // kind for every row; with a kind column the main side refuses a kind for every row, so none is sent.
+  const noKindColumn = target === 'signals' && !effective['kind'];
+  const everyRowKind = noKindColumn && kind ? { kind } : {};
 
   return (
     <section className="screen" aria-labelledby="import-h">
@@ -93,7 +101,7 @@ export function Import() {
         <div className="row">
           <div className="field">
             <label htmlFor={`${id}-t`}>What the file holds</label>
-            <select id={`${id}-t`} value={target} onChange={(e) => { setTarget(e.target.value as ImportTarget); setMapping({}); reset(); }}>
+            <select id={`${id}-t`} value={target} onChange={(e) => { setTarget(e.target.value as ImportTarget); setMapping({}); setKind(''); reset(); }}>
               <option value="items">Items (the catalogue)</option>
               <option value="customers">Customers</option>
               <option value="signals">Signals (views, purchases…)</option>
@@ -174,6 +182,28 @@ export function Import() {
             </ul>
           )}
           <MappingTable target={target} headers={preview.headers} mapping={effective} onChange={setMapping} />
+          {noKindColumn && (
+            <div className="field">
+              <label htmlFor={`${id}-k`}>The file has no kind column: every row is a…</label>
+              <select
+                id={`${id}-k`}
+                value={kind}
+                onChange={(e) => {
+                  const k = e.target.value as SignalKind | '';
+                  setKind(k);
+                  // Look again with the kind, so the problems listed are those of the import to come.
+                  if (source) void previewImport(source, target, k ? { kind: k } : {});
+                }}
+              >
+                <option value="">(choose the kind)</option>
+                {SIGNAL_KINDS.map((k) => (
+                  <option key={k} value={k}>
+                    {k}
+                  </option>
+                ))}
+              </select>
+            </div>
+          )}
           <div className="sample">
             <table>
               <caption className="muted small">First rows of the file</caption>
@@ -199,11 +229,12 @@ export function Import() {
           </div>
           <h2>3. Import</h2>
           <p className="muted small">All rows go in together: if any row is wrong, nothing is imported and every problem is listed.</p>
+          {noKindColumn && !kind && <p className="muted small">Choose the kind of every row above, or the column that holds it, to import.</p>}
           <button
             type="button"
-            disabled={busy}
+            disabled={busy || (noKindColumn && !kind)}
             onClick={async () => {
-              await runImport(source, target, effective);
+              await runImport(source, target, { mapping: effective, ...everyRowKind });
               // The main side removes a streamed file once it is imported (or refused): choose it again to retry.
               if ('upload' in source) setUpload(null);
             }}
@@ -220,6 +251,11 @@ export function Import() {
             {report.rows.toLocaleString('en')} rows read · {report.added.toLocaleString('en')} added · {report.updated.toLocaleString('en')} updated ·{' '}
             {report.unchanged.toLocaleString('en')} unchanged · {report.rejected.toLocaleString('en')} rejected · {(report.elapsedMs / 1000).toFixed(1)} s
           </p>
+          {report.warnings.map((w) => (
+            <p key={w} className="warn">
+              Warning: {w}
+            </p>
+          ))}
           {report.errorCount > 0 && (
             <>
               <p className="error" role="alert">

@@ -6,6 +6,12 @@ import type { AppState } from './store.ts';
 export type ImportPreview = ResponseOf<'import.preview'>;
 export type ImportReport = ResponseOf<'import.run'>;
 export type ImportTarget = RequestOf<'import.run'>['target'];
+export type SignalKind = NonNullable<RequestOf<'import.run'>['kind']>;
+/** How to read the file: columns for fields, and (signals without a kind column) the kind of every row. */
+export interface ImportChoices {
+  mapping?: Record<string, string>;
+  kind?: SignalKind;
+}
 /** A path on the main side's machine (Electron only), a small file's content, or a big file streamed ahead (`client.upload`). */
 export type ImportSource = { file: string } | { fileName: string; content: string } | { upload: string };
 
@@ -16,8 +22,8 @@ export interface ImportSlice {
     busy: boolean;
     error: string | null;
   };
-  previewImport(source: ImportSource, target: ImportTarget, mapping?: Record<string, string>): Promise<void>;
-  runImport(source: ImportSource, target: ImportTarget, mapping: Record<string, string>): Promise<void>;
+  previewImport(source: ImportSource, target: ImportTarget, choices?: ImportChoices): Promise<void>;
+  runImport(source: ImportSource, target: ImportTarget, choices: ImportChoices): Promise<void>;
   resetImport(): void;
   /** Streams a big file to the main side; the source to preview and import it by, or null (error shown). */
   stageUpload(file: File): Promise<ImportSource | null>;
@@ -30,19 +36,19 @@ export function createImportSlice(client: Client): StateCreator<AppState, [], []
     const put = (p: Partial<ImportSlice['importer']>) => set((s) => ({ importer: { ...s.importer, ...p } }));
     return {
       importer: { preview: null, report: null, busy: false, error: null },
-      async previewImport(source, target, mapping) {
+      async previewImport(source, target, choices = {}) {
         put({ busy: true, error: null, report: null });
         try {
-          const preview = await client.call('import.preview', { ...source, target, ...(mapping ? { mapping } : {}) });
+          const preview = await client.call('import.preview', { ...source, target, ...choices });
           put({ preview, busy: false });
         } catch (e) {
           put({ preview: null, busy: false, error: describeError(e) });
         }
       },
-      async runImport(source, target, mapping) {
+      async runImport(source, target, choices) {
         put({ busy: true, error: null });
         try {
-          const report = await client.call('import.run', { ...source, target, mapping });
+          const report = await client.call('import.run', { ...source, target, ...choices });
           put({ report, busy: false });
           // Counts, freshness and model staleness all follow the data.
           await Promise.all([get().loadWorkspace(), get().loadStats()]);

@@ -101,3 +101,61 @@ describe('shelfwright import and stats', () => {
     expect(err.stderr.join('\n')).toMatch(/mapping file/);
   });
 });
+
+describe('shelfwright import signals --kind (issue 10 item 7: files without a kind column)', () => {
+  const plays = () => write('plays.csv', 'customer,item,count\nK1,A1,2\nK2,A2,1\n');
+  it('gives every row of a (customer, item, count) file the kind', async () => {
+    const io = capture();
+    expect(await main(['import', 'signals', plays(), '--kind', 'purchase', '-w', ws, '--create-customers', '--json'], io, {})).toBe(0);
+    expect(JSON.parse(io.stdout.join(''))).toMatchObject({ rows: 2, added: 2, committed: true, mapping: { value: 'count' } });
+    const stats = capture();
+    await main(['stats', '-w', ws, '--json'], stats, {});
+    expect(JSON.parse(stats.stdout.join('')).signalsByKind).toMatchObject({ purchase: 3 }); // 1 from the mapped file above
+  });
+
+  it('exits 1 naming the flag and the valid kinds for an unknown kind, or for a target other than signals', async () => {
+    const io = capture();
+    expect(await main(['import', 'signals', plays(), '--kind', 'listen', '-w', ws], io, {})).toBe(1);
+    expect(io.stderr.join('\n')).toContain("--kind is one of view, basket, purchase, rating, read, click, other, got 'listen'");
+    const items = capture();
+    expect(await main(['import', 'items', plays(), '--kind', 'view', '-w', ws], items, {})).toBe(1);
+    expect(items.stderr.join('\n')).toContain('--kind is for signals only, not items');
+  });
+
+  it('exits 2 and changes nothing when the file has a kind column too', async () => {
+    const f = write('with-kind.csv', 'customer,item,kind\nK1,A1,view\n');
+    const io = capture();
+    expect(await main(['import', 'signals', f, '--kind', 'purchase', '-w', ws], io, {})).toBe(2);
+    expect(io.stderr.join('\n')).toMatch(/the file has a kind column \('kind'\), and every row was also given the kind purchase/);
+  });
+
+  it('says so in the help', async () => {
+    const io = capture();
+    expect(await main(['import', '--help'], io, {})).toBe(0);
+    const help = io.stdout.join('\n');
+    expect(help).toMatch(/--kind KIND/);
+    expect(help).toMatch(/every row is this kind \(view, basket, purchase, rating, read, click, other\), for a file without a kind column; a file with one is refused/);
+  });
+});
+
+describe('shelfwright import: warnings', () => {
+  it('prints the count of signals dated after today under the counts', async () => {
+    const f = write('future.csv', 'customer,item,kind,at\nK1,A1,view,2999-01-01T00:00:00Z\n');
+    const io = capture();
+    expect(await main(['import', 'signals', f, '-w', ws], io, {})).toBe(0);
+    expect(io.stdout.join('\n')).toContain('  warning: 1 signal is dated after today (the latest 2999-01-01)');
+  });
+});
+
+describe('shelfwright import -w to a new path', () => {
+  it('says it is creating a new workspace (a mistyped path would otherwise go unnoticed), and only then', async () => {
+    const fresh = path.join(dir, 'fresh.sqlite');
+    const items = write('fresh-items.csv', 'id,title\nF1,Fern Pot\n');
+    const first = capture();
+    expect(await main(['import', 'items', items, '-w', fresh], first, {})).toBe(0);
+    expect(first.stderr).toEqual([`no workspace at ${fresh} yet: creating a new one`]);
+    const again = capture();
+    expect(await main(['import', 'items', items, '-w', fresh], again, {})).toBe(0);
+    expect(again.stderr).toEqual([]);
+  });
+});

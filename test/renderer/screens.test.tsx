@@ -100,6 +100,58 @@ describe('import screen', () => {
     expect(screen.getByRole('button', { name: 'Preview' }).hasAttribute('disabled')).toBe(true);
   });
 
+  it('asks the kind of every row for a signal file without a kind column, and imports it so', async () => {
+    // Issue 10 item 7: a shop's export of purchases (customer, item, count) has no kind column.
+    store.getState().go('import');
+    renderApp();
+    fireEvent.change(await screen.findByLabelText('What the file holds'), { target: { value: 'signals' } });
+    const plays = new File(['customer,item,count\nc-1,i-2,3\nc-2,i-3,1\n'], 'plays.csv', { type: 'text/csv' });
+    fireEvent.change(screen.getByLabelText('…or upload a file (CSV, JSON, JSON Lines)'), { target: { files: [plays] } });
+    const preview = screen.getByRole('button', { name: 'Preview' });
+    await waitFor(() => expect(preview.hasAttribute('disabled')).toBe(false));
+    fireEvent.click(preview);
+    const every = await screen.findByLabelText('The file has no kind column: every row is a…');
+    const run = within(screen.getByRole('region', { name: 'Preview' })).getByRole('button', { name: 'Import' });
+    expect(run.hasAttribute('disabled')).toBe(true);
+    fireEvent.change(every, { target: { value: 'purchase' } });
+    // Looked at again with the kind: the missing-column problem is gone.
+    await waitFor(() => expect(screen.queryByRole('list', { name: 'Problems found in the preview' })).toBeNull());
+    await waitFor(() => expect(run.hasAttribute('disabled')).toBe(false));
+    fireEvent.click(run);
+    const report = await screen.findByRole('region', { name: 'Import report' });
+    await waitFor(() => expect(report.textContent).toMatch(/2 rows read · 2 added/));
+    const kinds = h.ctx.db.prepare('SELECT k.name AS kind, count(*) AS n FROM signal s JOIN signal_kind k ON k.code = s.kind GROUP BY k.name ORDER BY k.name').all();
+    expect(kinds).toEqual([{ kind: 'purchase', n: 12 }, { kind: 'view', n: 20 }]); // the seed holds 10 purchases and 20 views
+  });
+
+  it('shows the warning about signals dated after today beside the counts', async () => {
+    store.getState().go('import');
+    renderApp();
+    fireEvent.change(await screen.findByLabelText('What the file holds'), { target: { value: 'signals' } });
+    const late = new File(['customer,item,kind,at\nc-1,i-2,view,2999-01-01T00:00:00Z\n'], 'late.csv', { type: 'text/csv' });
+    fireEvent.change(screen.getByLabelText('…or upload a file (CSV, JSON, JSON Lines)'), { target: { files: [late] } });
+    const preview = screen.getByRole('button', { name: 'Preview' });
+    await waitFor(() => expect(preview.hasAttribute('disabled')).toBe(false));
+    fireEvent.click(preview);
+    fireEvent.click(within(await screen.findByRole('region', { name: 'Preview' })).getByRole('button', { name: 'Import' }));
+    const report = await screen.findByRole('region', { name: 'Import report' });
+    await waitFor(() => expect(report.textContent).toContain('Warning: 1 signal is dated after today (the latest 2999-01-01)'));
+  });
+
+  it('does not ask for a kind when the signal file has a kind column', async () => {
+    store.getState().go('import');
+    renderApp();
+    fireEvent.change(await screen.findByLabelText('What the file holds'), { target: { value: 'signals' } });
+    const clicks = new File(['customer,item,kind\nc-1,i-2,view\n'], 'clicks.csv', { type: 'text/csv' });
+    fireEvent.change(screen.getByLabelText('…or upload a file (CSV, JSON, JSON Lines)'), { target: { files: [clicks] } });
+    const preview = screen.getByRole('button', { name: 'Preview' });
+    await waitFor(() => expect(preview.hasAttribute('disabled')).toBe(false));
+    fireEvent.click(preview);
+    const region = await screen.findByRole('region', { name: 'Preview' });
+    expect(screen.queryByLabelText('The file has no kind column: every row is a…')).toBeNull();
+    expect(within(region).getByRole('button', { name: 'Import' }).hasAttribute('disabled')).toBe(false);
+  });
+
   it('streams a big file ahead where the shell can, and previews it by the id it got back', async () => {
     const sent: File[] = [];
     const requests: [string, unknown][] = [];

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { SIGNAL_KINDS } from '../../core/types.ts';
 import { method } from '../define.ts';
 
 /** Import and workspace statistics: the data a workspace holds. */
@@ -39,6 +40,8 @@ export const ImportRequest = z
     format: ImportFormat.optional(),
     delimiter: z.string().length(1).optional(),
     dateOrder: z.enum(['dmy', 'mdy']).optional(),
+    /** Signals from a file without a kind column: the kind every row gets (a file with one is refused). */
+    kind: z.enum(SIGNAL_KINDS).optional(),
     mapping: z.record(z.string(), z.string()).optional(),
     /** A JSON file {"field": "Header"} on this machine; `mapping` entries override its own. */
     mappingFile: z.string().min(1).optional(),
@@ -77,6 +80,9 @@ export const ImportReport = z.object({
   customersCreated: z.number().int(),
   errors: z.array(RowProblem),
   errorCount: z.number().int(),
+  /** Signals dated after today: imported, but warned about (`warnings`). */
+  futureDated: z.number().int(),
+  warnings: z.array(z.string()),
   committed: z.boolean(),
   elapsedMs: z.number(),
   mapping: z.record(z.string(), z.string()),

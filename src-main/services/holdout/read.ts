@@ -5,10 +5,10 @@
  * whole read with file, line and column — a metric computed on a silently shortened file would mislead.
  */
 import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
 import { InputError } from '../../core/errors.ts';
 import { safeBaseName } from '../staged-file.ts';
+import { makeTempFolder } from '../temp-folders.ts';
 import { planColumns, type ColumnPlan, type Mapping } from '../../ingest/fields.ts';
 import { formatOf, readSource, type ImportFormat } from '../../ingest/source.ts';
 import { isBad, isBlank, nonNegative, text, time, type DateOrder } from '../../ingest/values.ts';
@@ -41,7 +41,7 @@ const KIND_PLACEHOLDER = '\u0000kind';
 export async function readHoldout(source: HoldoutSource, o: HoldoutReadOptions = {}): Promise<HoldoutRows> {
   if ('file' in source) return readHoldoutFile(source.file, source.file, o);
   // Uploaded content goes through the same streaming reader via a private temporary file.
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-holdout-'));
+  const dir = makeTempFolder('holdout');
   const tmp = path.join(dir, safeBaseName(source.fileName, 'holdout.csv')); // never outside `dir`, whatever the name
   try {
     fs.writeFileSync(tmp, source.content, { mode: 0o600 });

@@ -16,12 +16,19 @@ export interface CliIo {
   err(text: string): void;
   /** True when stderr is a terminal (progress bars only then). */
   errIsTty: boolean;
+  /** True when stdout is a terminal: a file printed there (an export without --out) is shown escaped. */
+  outIsTty?: boolean;
 }
 
 export interface CommandEnv {
   values: OptionValues;
   positionals: string[];
   io: CliIo;
+  /**
+   * A file's content on stdout (an export without --out): its exact bytes when piped (`> week10.csv` keeps
+   * the CSV's CRLF), escaped like every other output when stdout is a terminal.
+   */
+  printFile(text: string): void;
   json: boolean;
   /** The workspace path from --workspace (or its default). */
   workspace: string;

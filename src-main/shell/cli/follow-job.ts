@@ -2,6 +2,7 @@ import type { JobState } from '../../api/contracts/jobs.ts';
 import type { HandlerTable } from '../../api/handler-table.ts';
 import { call, CliApiError } from './call.ts';
 import type { CliIo } from './command.ts';
+import { escapeControls } from './escape.ts';
 
 function describe(j: JobState): string {
   const p = j.progress;
@@ -29,7 +30,7 @@ export async function followJob(table: HandlerTable, job: JobState, io: CliIo, e
     for (;;) {
       const line = describe(state);
       if (line !== last) {
-        if (io.errIsTty) process.stderr.write(`\r${line.padEnd(Math.max(last.length, line.length))}`);
+        if (io.errIsTty) process.stderr.write(`\r${escapeControls(line).padEnd(Math.max(last.length, line.length))}`);
         else io.err(line);
         last = line;
       }

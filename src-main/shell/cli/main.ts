@@ -4,9 +4,11 @@ import { parseArgs } from 'node:util';
 import { createHandlerTable, type HandlerTable } from '../../api/handler-table.ts';
 import { InputError, WorkspaceBusyError } from '../../core/errors.ts';
 import { AppContext } from '../../services/context.ts';
+import { sweepTempFolders } from '../../services/temp-folders.ts';
 import { explainStoreError } from '../../store/store-errors.ts';
 import { waitingLine } from '../../store/write-lock.ts';
 import { CliApiError } from './call.ts';
+import { escapeControls } from './escape.ts';
 import { EXIT, UsageError, type CliCommand, type CliIo, type CommandEnv, type OptionSpec } from './command.ts';
 
 export { UsageError };
@@ -101,7 +103,10 @@ function findCommand(argv: string[]): { command: CliCommand; rest: string[] } | 
   return undefined;
 }
 
-export async function main(argv: string[], io: CliIo, env: NodeJS.ProcessEnv = process.env): Promise<number> {
+export async function main(argv: string[], rawIo: CliIo, env: NodeJS.ProcessEnv = process.env): Promise<number> {
+  // Every line printed passes one guard (escape.ts): no command can forget it for a title or an id.
+  const form = argv.includes('--json') ? 'json' : 'text';
+  const io: CliIo = { ...rawIo, out: (t) => rawIo.out(escapeControls(t, form)), err: (t) => rawIo.err(escapeControls(t)) };
   const first = argv.find((a) => !a.startsWith('-'));
   if (argv.length === 0 || (first === undefined && (argv.includes('--help') || argv.includes('-h')))) {
     io.out(programHelp());
@@ -115,6 +120,7 @@ export async function main(argv: string[], io: CliIo, env: NodeJS.ProcessEnv = p
     return fail(EXIT.usage, `shelfwright: unknown command '${words}'. Run 'shelfwright --help' for the list.`, { message: `unknown command '${words}'` });
   }
   const { command, rest } = found;
+  sweepTempFolders(); // what a killed earlier run left behind (services/temp-folders.ts)
   let parsed;
   try {
     parsed = parseArgs({ args: rest, options: { ...GLOBAL_OPTIONS, ...command.options }, allowPositionals: true, strict: true });
@@ -140,6 +146,7 @@ export async function main(argv: string[], io: CliIo, env: NodeJS.ProcessEnv = p
     values,
     positionals: parsed.positionals,
     io,
+    printFile: (t) => (rawIo.outIsTty ? io.out(t) : rawIo.out(t)),
     json: values['json'] === true,
     workspace,
     api: (options = {}) => {

@@ -15,6 +15,7 @@ const io: CliIo = {
   out: (t) => process.stdout.write(t.endsWith('\n') ? t : `${t}\n`),
   err: (t) => process.stderr.write(t.endsWith('\n') ? t : `${t}\n`),
   errIsTty: process.stderr.isTTY === true,
+  outIsTty: process.stdout.isTTY === true,
 };
 main(process.argv.slice(2), io).then(
   (code) => {

@@ -7,6 +7,7 @@ import path from 'node:path';
 import { app, dialog, ipcMain, Menu, protocol, type BrowserWindow } from 'electron';
 import { createHandlerTable, invoke } from '../../api/handler-table.ts';
 import { AppContext } from '../../services/context.ts';
+import { sweepTempFolders } from '../../services/temp-folders.ts';
 import { APP_BLOCKING_WAIT_MS } from '../../store/workspace.ts';
 import { APP_ORIGIN, INVOKE_CHANNEL, MENU_EVENT, type MenuCommand } from './channel.ts';
 import { buildMenuTemplate } from './menu.ts';
@@ -75,6 +76,7 @@ if (!app.requestSingleInstanceLock()) {
   });
 
   app.whenReady().then(() => {
+    sweepTempFolders(); // what a killed earlier run left behind (services/temp-folders.ts)
     serveRenderer(protocol, rendererDir);
     ipcMain.handle(INVOKE_CHANNEL, (event, method: unknown, payload: unknown) => {
       // Only our own page may call the api (Electron security checklist: validate the sender of every IPC message).

@@ -370,7 +370,8 @@ export const curationCommands: CliCommand[] = [
       if (out) {
         writeFileWhole(out, r.content);
         env.io.out(env.json ? JSON.stringify({ format, file: out, bytes: Buffer.byteLength(r.content) }) : `wrote ${out}`);
-      } else env.io.out(env.json ? JSON.stringify(r, null, 2) : r.content);
+      } else if (env.json) env.io.out(JSON.stringify(r, null, 2));
+      else env.printFile(r.content);
       return EXIT.ok;
     },
   },

@@ -1,9 +1,11 @@
+import fs from 'node:fs';
 import type { ImportReport } from '../../../api/contracts/data.ts';
 import { refuseDemoTarget } from '../../../services/demo.ts';
 import { call } from '../call.ts';
 import { followJob } from '../follow-job.ts';
 import { EXIT, UsageError, type CliCommand } from '../command.ts';
 import { plural } from '../../../core/util/plural.ts';
+import { SIGNAL_KINDS, type SignalKind } from '../../../core/types.ts';
 import { formatDate, formatNumber, table } from '../format.ts';
 
 
@@ -29,6 +31,7 @@ function printReport(r: ImportReport, out: (t: string) => void): void {
       (r.customersCreated ? `, ${plural(r.customersCreated, 'customer created', 'customers created')}` : '') +
       ` in ${(r.elapsedMs / 1000).toFixed(2)} s`,
   );
+  for (const w of r.warnings) out(`  warning: ${w}`);
   for (const e of r.errors) out(`  ${e.message}`);
   if (r.errorCount > r.errors.length) out(`  ... and ${plural(r.errorCount - r.errors.length, 'more rejected row', 'more rejected rows')}`);
 }
@@ -36,13 +39,14 @@ function printReport(r: ImportReport, out: (t: string) => void): void {
 export const importCommand: CliCommand = {
   name: 'import',
   summary: 'import items, customers or signals from CSV, JSON or JSON Lines',
-  usage: ['items|customers|signals FILE [--map FIELD=HEADER ...] [--mapping-file F] [--date-order dmy|mdy] [--create-customers] [--accept-partial]'],
+  usage: ['items|customers|signals FILE [--map FIELD=HEADER ...] [--mapping-file F] [--date-order dmy|mdy] [--kind KIND] [--create-customers] [--accept-partial]'],
   options: {
     map: { type: 'string', multiple: true },
     'mapping-file': { type: 'string' },
     format: { type: 'string' },
     delimiter: { type: 'string' },
     'date-order': { type: 'string' },
+    kind: { type: 'string' },
     'create-customers': { type: 'boolean', default: false },
     'accept-partial': { type: 'boolean', default: false },
     preview: { type: 'boolean', default: false },
@@ -53,6 +57,7 @@ export const importCommand: CliCommand = {
     format: 'csv, json or jsonl (default: from the file extension)',
     delimiter: "one character (default: ',', ';' or tab, whichever the header line uses)",
     'date-order': 'dmy or mdy, for dates like 03/04/2026 (ISO 8601 dates need none)',
+    kind: `signals: every row is this kind (${SIGNAL_KINDS.join(', ')}), for a file without a kind column; a file with one is refused`,
     'create-customers': 'signals: add customers the workspace does not know yet (default: reject the row)',
     'accept-partial': 'keep the valid rows when some are rejected (default: change nothing)',
     preview: 'show the detected mapping and the first rows; import nothing',
@@ -63,9 +68,12 @@ export const importCommand: CliCommand = {
     'Headers are matched to fields automatically (id, title, category, tags, customer, item, kind, value, at...);',
     '--map FIELD=HEADER overrides one. Day/month dates like 03/04/2026 need --date-order dmy or mdy.',
     'Signals naming an unknown customer are rejected unless --create-customers; unknown items always are.',
+    'A signal file without a kind column (a shop\'s export of purchases: customer, item, count) takes --kind KIND,',
+    'which every row gets; a file that has a kind column is refused with --kind (the column and the flag would disagree).',
     '--preview shows the detected mapping and the first rows without importing.',
     '',
     'example: shelfwright import signals clicks.csv --map customer=reader_id --date-order dmy',
+    'example: shelfwright import signals orders.csv --kind purchase',
   ].join('\n'),
   async run(env) {
     const [target, file, ...extra] = env.positionals;
@@ -77,6 +85,11 @@ export const importCommand: CliCommand = {
     if (format !== undefined && !['csv', 'json', 'jsonl'].includes(format)) throw new UsageError('--format is csv, json or jsonl');
     const dateOrder = v['date-order'] as string | undefined;
     if (dateOrder !== undefined && dateOrder !== 'dmy' && dateOrder !== 'mdy') throw new UsageError('--date-order is dmy or mdy');
+    const kind = v['kind'] as string | undefined;
+    if (kind !== undefined && !(SIGNAL_KINDS as readonly string[]).includes(kind)) {
+      throw new UsageError(`--kind is one of ${SIGNAL_KINDS.join(', ')}, got '${kind}'`);
+    }
+    if (kind !== undefined && target !== 'signals') throw new UsageError(`--kind is for signals only, not ${target}`);
     const mapping = parseMapping((v['map'] as string[] | undefined) ?? []);
     const request = {
       file,
@@ -84,9 +97,12 @@ export const importCommand: CliCommand = {
       ...(format && { format: format as 'csv' | 'json' | 'jsonl' }),
       ...(v['delimiter'] !== undefined && { delimiter: v['delimiter'] as string }),
       ...(dateOrder && { dateOrder: dateOrder as 'dmy' | 'mdy' }),
+      ...(kind && { kind: kind as SignalKind }),
       ...(Object.keys(mapping).length > 0 && { mapping }),
       ...(v['mapping-file'] !== undefined && { mappingFile: v['mapping-file'] as string }),
     };
+    // A mistyped -w path would otherwise quietly start an empty workspace: say so (stderr keeps stdout the report's).
+    if (!v['preview'] && !env.json && !fs.existsSync(env.workspace)) env.io.err(`no workspace at ${env.workspace} yet: creating a new one`);
     const { table: api } = env.api({ create: true });
     if (v['preview']) {
       const p = await call(api, 'import.preview', request);

@@ -2,8 +2,14 @@ import { spawn } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { Worker } from 'node:worker_threads';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { staleReason } from '../../bin/launch.js';
+import { StringIdTable } from '../../src-main/core/util/string-id-table.ts';
+import { readSignals } from '../../src-main/ingest/signal-read.ts';
+import type { SignalThreadData, SignalThreadMessage } from '../../src-main/ingest/signal-thread.ts';
+import type { SignalBatch } from '../../src-main/store/catalogue-writes.ts';
 import { main } from '../../src-main/shell/cli/main.ts';
 import { capture } from './capture.ts';
 import { importSmallShop } from './small-shop.ts';
@@ -93,6 +99,40 @@ describe('the built command line (dist-node)', () => {
     const evaluate = await runBuilt(['evaluate', '-w', ws, '--json']);
     expect(evaluate.code, evaluate.stderr).toBe(0);
     expect(evaluate.stdout).toMatch(/ndcg/i);
+  });
+});
+
+describe('the built signal-parsing thread (dist-node/signal-worker.js)', () => {
+  it('parses a signal file into the same batches and report as the source readSignals', async () => {
+    // Imports pick this thread only for files of 64 MiB or more, too big for a test: started directly here.
+    const file = path.join(dir, 'signals.csv');
+    const rows = ['customer,item,kind,value,at', 'r1,b0,view,1,1700000000', 'r2,b1,purchase,2,1700000100', 'r1,b9,view,1,1700000200', 'r2,b2,cart,1,1700000300'];
+    fs.writeFileSync(file, `${rows.join('\n')}\n`);
+    const options = { file, format: 'csv' as const, createCustomers: false };
+    const items = { keys: ['b0', 'b1', 'b2'], ids: [1, 2, 3] };
+    const customers = { keys: ['r1', 'r2'], ids: [1, 2] };
+    const unwritten = new Int32Array(new SharedArrayBuffer(4));
+    const data: SignalThreadData = { options, items, customers, nextCustomerId: 3, unwritten: unwritten.buffer as SharedArrayBuffer };
+    const worker = new Worker(pathToFileURL(path.join(DIST, 'signal-worker.js')), { workerData: data });
+    const batches: SignalBatch[] = [];
+    const result = await new Promise<unknown>((resolve, reject) => {
+      worker.on('message', (m: SignalThreadMessage) => {
+        if (m.type === 'batch') {
+          batches.push(m.batch);
+          Atomics.sub(unwritten, 0, 1);
+          Atomics.notify(unwritten, 0);
+        } else if (m.type === 'done') resolve(m.result);
+        else reject(new Error(m.error.message));
+      });
+      worker.on('error', reject);
+    });
+    await worker.terminate();
+    const ids = { items: StringIdTable.from(items.keys, items.ids), customers: StringIdTable.from(customers.keys, customers.ids), nextCustomerId: 3 };
+    const expected: SignalBatch[] = [];
+    const reference = await readSignals(options, ids, (b) => expected.push(b), true);
+    expect(result).toEqual(reference);
+    expect(batches).toEqual(expected);
+    expect(reference).toMatchObject({ rows: 4, valid: 3, rejected: 1 }); // b9 is no known item
   });
 });
 

@@ -12,7 +12,7 @@ const layer = (files, banned, message) => ({
 });
 
 export default tseslint.config(
-  { ignores: ['node_modules/**', 'dist/**', 'dist-electron/**', 'release/**', 'test-results/**', 'reports/**', 'demo-data/out/**'] },
+  { ignores: ['node_modules/**', 'dist/**', 'dist-electron/**', 'dist-node/**', 'release/**', 'test-results/**', 'reports/**', 'demo-data/out/**'] },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   // Plain JavaScript files are Node scripts (the bin launcher, CI helpers).

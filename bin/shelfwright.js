@@ -1,6 +1,6 @@
 #!/usr/bin/env node
-// The `shelfwright` command: runs the TypeScript CLI through tsx's loader, so there is no build step.
-import { register } from 'tsx/esm/api';
+// The `shelfwright` command: the built command line (dist-node/cli.js) when it is up to date, else the
+// TypeScript source through tsx (bin/launch.js says which and why).
+import { launch } from './launch.js';
 
-register();
-await import(new URL('../src-main/shell/cli/run.ts', import.meta.url).href);
+await launch('cli', 'src-main/shell/cli/run.ts');

@@ -6,7 +6,6 @@
 import { spawn, spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { InputError } from '../core/errors.ts';
 import { createHandlerTable } from '../api/handler-table.ts';
 import { AppContext } from '../services/context.ts';
@@ -16,12 +15,14 @@ import { parseStartArgs, type StartArgs } from './launch/args.ts';
 import { chromiumAppArgs, findChromium } from './launch/browser.ts';
 import { ensureDemo } from './launch/demo.ts';
 import { writeLaunchPage } from './launch/launch-page.ts';
+import { projectRoot } from './launch/project-root.ts';
 import { electronNativeBinding } from './electron/native-binding.ts';
 import { findElectronBinary } from './launch/electron.ts';
 import { rendererNeedsBuild } from './launch/renderer-build.ts';
 import { startWebShell } from './web/server.ts';
 
-const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
+// The same folder from src-main/shell/start.ts (tsx) and from dist-node/start.js (the Node build).
+const ROOT = projectRoot(import.meta.url);
 const RENDERER_DIST = path.join(ROOT, 'dist', 'renderer');
 const VITE = path.join(ROOT, 'node_modules', 'vite', 'bin', 'vite.js');
 

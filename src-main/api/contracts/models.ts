@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { AudienceSchema } from '../../core/editing/brief-schema.ts';
+import { VALUE_TRANSFORMS } from '../../core/matrix/values.ts';
 import { method } from '../define.ts';
 import { JobState } from './jobs.ts';
 
@@ -10,6 +11,8 @@ import { JobState } from './jobs.ts';
  */
 const reading = z.number().nullable();
 const ModelKindName = z.enum(['content', 'itemknn', 'ials', 'ease', 'popularity']);
+/** How a signal's summed value enters item-kNN and EASE (core/matrix/values.ts). */
+const ValueTransformName = z.enum(VALUE_TRANSFORMS);
 
 export const TrainRequest = z
   .object({
@@ -26,8 +29,8 @@ export const TrainRequest = z
       })
       .strict()
       .optional(),
-    itemknn: z.object({ k: z.number().int().min(1).optional(), shrink: z.number().min(0).optional() }).strict().optional(),
-    ease: z.object({ lambda: z.number().positive().optional() }).strict().optional(),
+    itemknn: z.object({ k: z.number().int().min(1).optional(), shrink: z.number().min(0).optional(), values: ValueTransformName.optional() }).strict().optional(),
+    ease: z.object({ lambda: z.number().positive().optional(), values: ValueTransformName.optional() }).strict().optional(),
     threads: z.number().int().min(1).max(8).optional(),
     /** Tune each model's small grid on a validation split first, then train the best settings on all signals. */
     tune: z

@@ -1,7 +1,8 @@
-import { SectionReader, packSections } from '../matrix/bytes.ts';
+import { SectionReader, formatVersion, packSections } from '../matrix/bytes.ts';
 import { nnz, type Csr } from '../matrix/csr.ts';
 import { spdInverseInPlace, type InverseHooks } from '../linalg/cholesky.ts';
 import { CancelledError, InputError, ModelFitError } from '../errors.ts';
+import { checkTransform, transformCode, transformFromCode, transformMatrix, transformValue, type ValueTransform } from '../matrix/values.ts';
 import type { FitOptions, FitReport, Scorer, TopN } from './scorer.ts';
 import { topN } from './topn.ts';
 
@@ -9,7 +10,8 @@ import { topN } from './topn.ts';
  * EASE, Steck (2019), "Embarrassingly Shallow Autoencoders for Sparse Data", eq. (8): the item–item
  * weights minimising ‖X − XB‖² + λ‖B‖² subject to diag(B) = 0 are
  *   P = (XᵀX + λI)⁻¹,   B = I − P · diag(1 / diag(P)),   i.e. B_ij = −P_ij / P_jj (i ≠ j), B_jj = 0.
- * Scores are x_u · B. The inverse is dense (n² doubles), so the catalogue size is bounded by `maxItems`.
+ * Scores are x_u · B, with X's values through the model's transform (matrix/values.ts; presence by default:
+ * Steck fits a binary X, and λ sized for counts of 1 then suits any shop). The inverse is dense (n² doubles), so the catalogue size is bounded by `maxItems`.
  */
 export interface EaseParams {
   /** λ in the paper. Default 500 (from memory: the paper's tuned values lie in the hundreds). */
@@ -18,9 +20,11 @@ export interface EaseParams {
   maxItems?: number;
   /** Above maxItems: false (default) refuses with an InputError; true keeps the maxItems most active items. */
   restrict?: boolean;
+  /** How a matrix value enters, in the fit and in scoring. Default presence. */
+  values?: ValueTransform;
 }
 
-export const EASE_DEFAULTS = { lambda: 500, maxItems: 20_000, restrict: false } as const;
+export const EASE_DEFAULTS = { lambda: 500, maxItems: 20_000, restrict: false, values: 'presence' } as const satisfies EaseParams;
 
 export class EaseModel implements Scorer {
   readonly kind = 'ease' as const;
@@ -33,6 +37,7 @@ export class EaseModel implements Scorer {
     readonly itemCount: number,
     readonly kept: Int32Array,
     readonly b: Float32Array,
+    readonly values: ValueTransform = EASE_DEFAULTS.values,
   ) {
     const m = kept.length;
     if (b.length !== m * m) throw new InputError(`EASE weights have ${b.length} entries, expected ${m * m}`);
@@ -50,7 +55,7 @@ export class EaseModel implements Scorer {
     for (let p = history.indptr[u]!, end = history.indptr[u + 1]!; p < end; p++) {
       const r = this.#local[history.indices[p]!]!;
       if (r < 0) continue;
-      const x = history.data[p]!;
+      const x = transformValue(this.values, history.data[p]!);
       const row = r * m;
       if (whole) for (let c = 0; c < m; c++) out[c]! += x * b[row + c]!;
       else for (let c = 0; c < m; c++) out[kept[c]!]! += x * b[row + c]!;
@@ -76,21 +81,27 @@ export class EaseModel implements Scorer {
   }
 
   serialize(): Uint8Array {
-    return packSections(MAGIC, 1, [Int32Array.of(this.itemCount), this.kept, this.b]);
+    return packSections(MAGIC, 2, [Int32Array.of(this.itemCount), this.kept, this.b, Int32Array.of(transformCode(this.values))]);
   }
 }
 
 const MAGIC = 'SWEASE  ';
 
+/** Reads format 2, and format 1 (before value transforms: raw values, i.e. linear). */
 export function loadEase(bytes: Uint8Array): EaseModel {
-  const r = new SectionReader(bytes, MAGIC, 1);
+  const version = formatVersion(bytes);
+  const r = new SectionReader(bytes, MAGIC, version === 1 ? 1 : 2);
   const head = r.i32();
-  return new EaseModel(head[0]!, r.i32(), r.f32());
+  const kept = r.i32();
+  const b = r.f32();
+  return new EaseModel(head[0]!, kept, b, version === 1 ? 'linear' : transformFromCode(r.i32()[0]!));
 }
 
 /** Fits EASE on an interaction matrix (customers × items). */
-export function fitEase(x: Csr, params: EaseParams = {}, o: FitOptions = {}): { model: EaseModel; report: FitReport } {
+export function fitEase(raw: Csr, params: EaseParams = {}, o: FitOptions = {}): { model: EaseModel; report: FitReport } {
   const start = performance.now();
+  const values = checkTransform(params.values ?? EASE_DEFAULTS.values);
+  const x = transformMatrix(raw, values);
   const lambda = params.lambda ?? EASE_DEFAULTS.lambda;
   const maxItems = params.maxItems ?? EASE_DEFAULTS.maxItems;
   if (!(lambda > 0)) throw new InputError(`EASE lambda must be > 0, got ${lambda}`);
@@ -148,8 +159,8 @@ export function fitEase(x: Csr, params: EaseParams = {}, o: FitOptions = {}): { 
   }
   const elapsedMs = performance.now() - start;
   o.onIteration?.({ iteration: 4, iterations: 4, elapsedMs });
-  notes.push(`EASE on ${m} items, ${nnz(x)} interactions, lambda ${lambda}`);
-  return { model: new EaseModel(x.cols, kept, b), report: { kind: 'ease', elapsedMs, notes } };
+  notes.push(`EASE on ${m} items, ${nnz(x)} interactions, lambda ${lambda}, values ${values}`);
+  return { model: new EaseModel(x.cols, kept, b, values), report: { kind: 'ease', elapsedMs, notes } };
 }
 
 /** The n items with the most interactions (ties: lower index), returned in ascending index order. */

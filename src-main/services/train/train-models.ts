@@ -1,6 +1,6 @@
 import { buildInteractionMatrix, type BuildOptions } from '../../core/matrix/build.ts';
 import { fitContent, type ContentParams } from '../../core/models/content.ts';
-import { fitEase, type EaseParams } from '../../core/models/ease.ts';
+import { EASE_DEFAULTS, fitEase, type EaseParams } from '../../core/models/ease.ts';
 import type { IalsParams } from '../../core/models/ials-params.ts';
 import { fitItemKnn, type ItemKnnParams } from '../../core/models/itemknn.ts';
 import { fitPopularity } from '../../core/models/popularity.ts';
@@ -113,7 +113,7 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
   // EASE's inverse is the longest single-threaded stage: with two or more threads it starts now in a
   // thread of its own and overlaps the other models (ease-thread.ts); it is collected in its turn.
   const p = opts.params ?? {};
-  const easeParams = { ...TRAIN_EASE_DEFAULTS, ...p.ease };
+  const easeParams = { ...TRAIN_EASE_DEFAULTS, values: EASE_DEFAULTS.values, ...p.ease };
   const threads = opts.threads ?? defaultThreads();
   const easeThread = kinds.includes('ease') && threads > 1 ? fitEaseInThread(matrix, easeParams) : null;
 
@@ -141,7 +141,10 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
     for (const kind of kinds) {
       report({ stage: 'fit', model: kind });
       if (kind === 'content') keep(kind, p.content ?? {}, fitContent(data.items, p.content));
-      else if (kind === 'itemknn') keep(kind, p.itemknn ?? {}, fitItemKnn(matrix, p.itemknn));
+      else if (kind === 'itemknn') {
+        const fit = fitItemKnn(matrix, p.itemknn);
+        keep(kind, { ...p.itemknn, values: fit.model.values }, fit); // the transform is stored even when defaulted
+      }
       else if (kind === 'popularity') keep(kind, {}, fitPopularity(matrix));
       else if (kind === 'ease' && easeThread) {
         const fit = await easeThread.done;

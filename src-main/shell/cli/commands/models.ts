@@ -15,6 +15,13 @@ const only = <T extends object>(o: T) => Object.fromEntries(Object.entries(o).fi
 
 const MODEL_KINDS = ['content', 'itemknn', 'ials', 'ease', 'popularity'] as const;
 
+/** A value transform flag (presence, log, linear), refused by name otherwise. */
+function transform(env: CommandEnv, name: string): 'presence' | 'log' | 'linear' | undefined {
+  const v = str(env, name);
+  if (v !== undefined && v !== 'presence' && v !== 'log' && v !== 'linear') throw new UsageError(`--${name} must be presence, log or linear, got '${v}'`);
+  return v;
+}
+
 type StoredModel = ResponseOf<'models.list'>['models'][number];
 
 /**
@@ -56,6 +63,8 @@ const trainCommand: CliCommand = {
     neighbours: { type: 'string' },
     shrink: { type: 'string' },
     lambda: { type: 'string' },
+    'knn-values': { type: 'string' },
+    'ease-values': { type: 'string' },
     threads: { type: 'string' },
     seed: { type: 'string' },
     tune: { type: 'boolean', default: false },
@@ -71,6 +80,8 @@ const trainCommand: CliCommand = {
     neighbours: 'item-kNN: similar items kept per item (default 50)',
     shrink: 'item-kNN: damping of similarities built on few customers, >= 0 (default 10)',
     lambda: "the EASE model's regularisation, above 0 (default 500)",
+    'knn-values': 'item-kNN: how a customer\'s summed signals on an item count: presence, log or linear (default presence)',
+    'ease-values': 'EASE: how a customer\'s summed signals on an item count: presence, log or linear (default presence)',
     threads: "threads to train with, 1 to 8 (default the machine's cores, at most 8)",
     seed: 'random seed for iALS and, with --tune, the validation split (default 1)',
     tune: "search each model's small grid first, then train the best settings on all signals",
@@ -78,7 +89,9 @@ const trainCommand: CliCommand = {
   },
   help: [
     'iALS: --factors, --iterations, --regularization, --alpha, --scaling linear|log (confidence 1+a*r or 1+a*log(1+r)), --seed',
-    'item-kNN: --neighbours, --shrink.  EASE: --lambda.',
+    'item-kNN: --neighbours, --shrink, --knn-values.  EASE: --lambda, --ease-values.',
+    'Values: the signals of one customer on one item are summed (each weighed by its kind, decayed by age), then',
+    'the sum enters as presence (1), log (log(1+v)) or linear (v).',
     '--tune: a seeded validation split (by time when the signals have times, else per customer at random), a small',
     'grid per model chosen by NDCG@K (--k, default 10), the best refitted on all signals and stored with the grid.',
     'A setting given with --tune (e.g. --factors 32) is held fixed while the rest of that model\'s grid is searched;',
@@ -102,8 +115,9 @@ const trainCommand: CliCommand = {
       scaling: scaling as 'linear' | 'log' | undefined,
       seed: int(env, 'seed', 0),
     });
-    const itemknn = only({ k: int(env, 'neighbours'), shrink: nonNeg(env, 'shrink') });
+    const itemknn = only({ k: int(env, 'neighbours'), shrink: nonNeg(env, 'shrink'), values: transform(env, 'knn-values') });
     const lambda = num(env, 'lambda', (x) => x > 0, 'a number > 0');
+    const ease = only({ lambda, values: transform(env, 'ease-values') });
     const k = int(env, 'k');
     if (k !== undefined && !env.values['tune']) throw new UsageError('--k sets the tuning cut-off; use it with --tune');
     const { table: t } = env.api();
@@ -111,7 +125,7 @@ const trainCommand: CliCommand = {
       models: models as ('content' | 'itemknn' | 'ials' | 'ease' | 'popularity')[] | undefined,
       ials: Object.keys(ials).length ? ials : undefined,
       itemknn: Object.keys(itemknn).length ? itemknn : undefined,
-      ease: lambda !== undefined ? { lambda } : undefined,
+      ease: Object.keys(ease).length ? ease : undefined,
       threads: int(env, 'threads'),
       tune: env.values['tune'] ? only({ k: k ?? 10, seed: int(env, 'seed', 0) }) : undefined,
     }));
@@ -121,7 +135,7 @@ const trainCommand: CliCommand = {
       env.io.out(JSON.stringify({ job: end, models: stored }, null, 2));
       return EXIT.ok;
     }
-    const given: Record<string, Record<string, unknown>> = { ials, itemknn, ease: only({ lambda }) };
+    const given: Record<string, Record<string, unknown>> = { ials, itemknn, ease };
     const trained = (kind: string) => models === undefined || models.includes(kind);
     const rows = stored.map((m) => [
       m.kind,

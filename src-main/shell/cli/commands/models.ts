@@ -6,6 +6,7 @@ import { int, list, num, str } from '../flags.ts';
 import { followJob } from '../follow-job.ts';
 import { formatNumber, table } from '../format.ts';
 import { UsageError } from '../command.ts';
+import { TUNE_BUDGET } from '../../../core/models/tune-budget.ts';
 
 /** Training, evaluation, neighbours, ad-hoc proposals and the top-N export. Thin: flags → api calls → print. */
 
@@ -52,7 +53,7 @@ function tunedCell(m: StoredModel, given: Record<string, Record<string, unknown>
 const trainCommand: CliCommand = {
   name: 'train',
   summary: 'train the models (progress on stderr, a summary at the end); --tune searches each model\'s grid first',
-  usage: ['[--models content,itemknn,ials,ease,popularity] [--factors N] [--iterations N] [--tune [--k K]] [--json]'],
+  usage: ['[--models content,itemknn,ials,ease,popularity] [--factors N] [--iterations N] [--tune | --no-tune] [--budget B] [--k K] [--json]'],
   options: {
     models: { type: 'string' },
     factors: { type: 'string' },
@@ -68,6 +69,8 @@ const trainCommand: CliCommand = {
     threads: { type: 'string' },
     seed: { type: 'string' },
     tune: { type: 'boolean', default: false },
+    'no-tune': { type: 'boolean', default: false },
+    budget: { type: 'string' },
     k: { type: 'string' },
   },
   about: {
@@ -84,18 +87,22 @@ const trainCommand: CliCommand = {
     'ease-values': 'EASE: how a customer\'s summed signals on an item count: presence, log or linear (default presence)',
     threads: "threads to train with, 1 to 8 (default the machine's cores, at most 8)",
     seed: 'random seed for iALS and, with --tune, the validation split (default 1)',
-    tune: "search each model's small grid first, then train the best settings on all signals",
-    k: 'with --tune: the list length the grid is judged on, NDCG@K (default 10)',
+    tune: "search each model's grid first even when the data is unchanged since the last tuning",
+    'no-tune': 'train the defaults and your flags as they are, with no search',
+    budget: `what the search may spend, in plain fits of all models, ${TUNE_BUDGET.min} to ${TUNE_BUDGET.max} (default ${TUNE_BUDGET.default})`,
+    k: 'the list length the grids are judged on, NDCG@K (default 10)',
   },
   help: [
     'iALS: --factors, --iterations, --regularization, --alpha, --scaling linear|log (confidence 1+a*r or 1+a*log(1+r)), --seed',
     'item-kNN: --neighbours, --shrink, --knn-values.  EASE: --lambda, --ease-values.',
     'Values: the signals of one customer on one item are summed (each weighed by its kind, decayed by age), then',
     'the sum enters as presence (1), log (log(1+v)) or linear (v).',
-    '--tune: a seeded validation split (by time when the signals have times, else per customer at random), a small',
-    'grid per model chosen by NDCG@K (--k, default 10), the best refitted on all signals and stored with the grid.',
-    'A setting given with --tune (e.g. --factors 32) is held fixed while the rest of that model\'s grid is searched;',
-    'a model with every grid setting given (e.g. EASE with --lambda) is not searched.',
+    'Tuning (by default, when the data changed since the last tuning; --tune always; --no-tune never): a seeded',
+    'validation split (by time when the signals have times, else per customer at random), a coordinate search over',
+    'each model\'s log grid judged by NDCG@K (--k, default 10) within --budget plain fits, the best refitted on all',
+    'signals and stored with what was searched. Unchanged data trains the last tuning\'s settings again.',
+    'A setting given as a flag (e.g. --factors 32) is held fixed while the rest of that model\'s grid is searched;',
+    'a model with every grid setting given (e.g. EASE with --lambda and --ease-values) is not searched.',
   ].join('\n'),
   async run(env) {
     const models = str(env, 'models')?.split(',').map((m) => m.trim()).filter(Boolean);
@@ -119,7 +126,11 @@ const trainCommand: CliCommand = {
     const lambda = num(env, 'lambda', (x) => x > 0, 'a number > 0');
     const ease = only({ lambda, values: transform(env, 'ease-values') });
     const k = int(env, 'k');
-    if (k !== undefined && !env.values['tune']) throw new UsageError('--k sets the tuning cut-off; use it with --tune');
+    const noTune = env.values['no-tune'] === true;
+    if (noTune && env.values['tune']) throw new UsageError('give --tune or --no-tune, not both');
+    if (k !== undefined && noTune) throw new UsageError('--k sets the tuning cut-off; it does nothing with --no-tune');
+    const budget = num(env, 'budget', (x) => x >= TUNE_BUDGET.min && x <= TUNE_BUDGET.max, `a number of plain fits from ${TUNE_BUDGET.min} to ${TUNE_BUDGET.max}`);
+    if (budget !== undefined && noTune) throw new UsageError('--budget sets what tuning may spend; it does nothing with --no-tune');
     const { table: t } = env.api();
     const job = await call(t, 'train.start', only({
       models: models as ('content' | 'itemknn' | 'ials' | 'ease' | 'popularity')[] | undefined,
@@ -127,7 +138,7 @@ const trainCommand: CliCommand = {
       itemknn: Object.keys(itemknn).length ? itemknn : undefined,
       ease: Object.keys(ease).length ? ease : undefined,
       threads: int(env, 'threads'),
-      tune: env.values['tune'] ? only({ k: k ?? 10, seed: int(env, 'seed', 0) }) : undefined,
+      tune: noTune ? undefined : only({ k: k ?? 10, seed: int(env, 'seed', 0), when: env.values['tune'] ? ('always' as const) : ('changed' as const), budget }),
     }));
     const end = await followJob(t, job, env.io);
     const { models: stored } = await call(t, 'models.list', {});

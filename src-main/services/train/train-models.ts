@@ -32,7 +32,8 @@ export interface TrainOptions {
 export const TRAIN_EASE_DEFAULTS: EaseParams = { maxItems: 5_000, restrict: true };
 
 export interface TrainProgress {
-  stage: 'load' | 'matrix' | 'fit' | 'done';
+  /** 'tune': the search before training (services/tune), when training is tuned. */
+  stage: 'tune' | 'load' | 'matrix' | 'fit' | 'done';
   model?: TrainedKind;
   iteration?: number;
   iterations?: number;

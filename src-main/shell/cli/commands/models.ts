@@ -156,7 +156,15 @@ const trainCommand: CliCommand = {
       tunedCell(m, trained(m.kind) ? given : null),
       m.notes.join('; '),
     ]);
-    env.io.out(`${end.summary ?? 'done'}\n${table(['model', 'seconds', 'iterations', 'final loss', 'tuned', 'notes'], rows)}`);
+    // What each search covered, for the models this run tuned (a tuning carried over from unchanged data included).
+    const searched = stored
+      .filter((m) => trained(m.kind) && m.tuning?.grid.search)
+      .map((m) => {
+        const g = m.tuning!.grid;
+        const axes = Object.entries(g.search!.axes).map(([a, v]) => `${a} ${v.join('/')}`).join('; ');
+        return `${m.kind}: ${plural(g.trials.length, 'setting')} tried over ${axes} (${g.search!.stopped === 'budget' ? 'budget spent' : 'no step improved'})`;
+      });
+    env.io.out(`${end.summary ?? 'done'}\n${table(['model', 'seconds', 'iterations', 'final loss', 'tuned', 'notes'], rows)}${searched.length ? `\nsearched:\n${searched.join('\n')}` : ''}`);
     return EXIT.ok;
   },
 };

@@ -77,7 +77,7 @@ const trainCommand: CliCommand = {
     models: 'comma-separated: content, itemknn, ials, ease, popularity (default all five)',
     factors: 'iALS: size of the taste vectors, 1 to 1024 (default 64)',
     iterations: 'iALS: training sweeps over customers and items (default 15)',
-    regularization: 'iALS: how strongly large factors are held back, >= 0 (default 0.01)',
+    regularization: 'iALS: how strongly large factors are held back, >= 0 (default 0.01; λ of Hu et al. eq. 3, unscaled; tuning searches 0.01 to 1000)',
     alpha: 'iALS: how much more a repeated signal counts, >= 0 (default 1)',
     scaling: 'iALS: confidence grows linear or log with the signal (default linear)',
     neighbours: 'item-kNN: similar items kept per item (default 50)',

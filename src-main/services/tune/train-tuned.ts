@@ -106,7 +106,9 @@ export async function tuneAndTrain(
     },
     {
       signal,
-      onProgress: (p) => report({ stage: 'tune', model: p.model, iteration: p.trial, iterations: p.trials, fraction: p.fraction * TUNE_SHARE }),
+      // A budgeted search does not know its trial count in advance (trials 0): the bar's fraction is its spend.
+      onProgress: (p) =>
+        report({ stage: 'tune', model: p.model, ...(p.trials > 0 && { iteration: p.trial, iterations: p.trials }), fraction: p.fraction * TUNE_SHARE }),
     },
   );
   if (signal.aborted) throw new CancelledError('training cancelled');

@@ -59,6 +59,8 @@ interface Searcher {
   /** Cost of a point relative to the start's (the start is 1). */
   relCost: (p: Point) => number;
   fit: (p: Point) => Promise<Scorer>;
+  /** The point as training parameters (iALS's confidence axis is two of them); default: as it is. */
+  shown?: (p: Point) => Point;
 }
 
 /**
@@ -96,24 +98,38 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
   // iALS: per sweep, CG touches every observed entry k times and every row's k × k Gram products (Hu et al. §4,
   // Takács et al. 2011), so a sweep costs about nnz·k + (customers + items)·k².
   const work = (k: number) => nnz(o.train) * k + (o.train.rows + o.train.cols) * k * k;
+  // α and the scaling act together (one confidence curve, Hu et al. §4): a coordinate step on α alone judges
+  // the other scaling at an α made for this one, so they form one categorical axis, "scaling α".
+  const heldI = (o.fixed.ials ?? {}) as Record<string, unknown>;
+  const confidences = IALS_GRID.scaling
+    .flatMap((scaling) => IALS_GRID.alpha.map((alpha) => ({ scaling, alpha })))
+    .filter((c) => (heldI['scaling'] ?? c.scaling) === c.scaling && (heldI['alpha'] ?? c.alpha) === c.alpha)
+    .map((c) => `${c.scaling} ${c.alpha}`);
+  const ialsAxes = axesOf('ials', IALS_GRID, o.fixed).filter((a) => a.name !== 'alpha' && a.name !== 'scaling');
+  if (heldI['scaling'] === undefined || heldI['alpha'] === undefined) ialsAxes.splice(1, 0, { name: 'confidence', values: confidences });
   const ialsStart: Point = {
     regularization: IALS_SEARCH_START_REGULARIZATION,
-    alpha: IALS_DEFAULTS.alpha,
-    scaling: IALS_DEFAULTS.scaling,
+    confidence: `${(heldI['scaling'] as string | undefined) ?? IALS_DEFAULTS.scaling} ${(heldI['alpha'] as number | undefined) ?? IALS_DEFAULTS.alpha}`,
     factors: IALS_DEFAULTS.factors,
-    ...o.fixed.ials,
+    ...(heldI['regularization'] !== undefined && { regularization: heldI['regularization'] as number }),
+    ...(heldI['factors'] !== undefined && { factors: heldI['factors'] as number }),
+  };
+  const ialsParams = (p: Point): Point => {
+    const [scaling, alpha] = String(p['confidence']).split(' ');
+    return { regularization: p['regularization']!, alpha: Number(alpha), scaling: scaling!, factors: p['factors']! };
   };
   const sweeps = Math.min(IALS_SEARCH_ITERATIONS, o.iterations);
   searchers.push({
     model: 'ials',
-    axes: axesOf('ials', IALS_GRID, o.fixed),
+    axes: ialsAxes,
     start: ialsStart,
     relCost: (p) => work(p['factors'] as number) / work(ialsStart['factors'] as number),
+    shown: ialsParams,
     fit: async (p) =>
       (
         await fitIalsThreaded(
           o.train,
-          { ...(p as Partial<IalsParams>), iterations: sweeps, seed: o.seed },
+          { ...(ialsParams(p) as Partial<IalsParams>), iterations: sweeps, seed: o.seed },
           { ...fitOpts, ...(o.threads !== undefined && { threads: o.threads }) },
         )
       ).model,
@@ -135,7 +151,8 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
     const ms = performance.now() - t0;
     startScore.set(s.model, r);
     bestModel.set(s.model, m);
-    trials.set(s.model, [{ params: { ...s.start }, ndcg: r.ndcg, recall: r.cappedRecall, elapsedMs: ms }]);
+    const shown = s.shown ?? ((p: Point) => p);
+    trials.set(s.model, [{ params: shown(s.start), ndcg: r.ndcg, recall: r.cappedRecall, elapsedMs: ms }]);
     // iALS's start ran `sweeps` of the training's sweeps: a plain fit costs iterations / sweeps as much.
     const plain = s.model === 'ials' ? (ms * o.iterations) / sweeps : ms;
     unit.set(s.model, s.model === 'ials' ? ms : plain);
@@ -153,7 +170,7 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
     if (!s) continue;
     const fixed = { ...(o.fixed[model] as Point | undefined) };
     if (fullyFixed(model, o.fixed)) {
-      tunings.push({ model, trials: [], best: s.start, ndcg: Number.NaN, fixed, searched: false });
+      tunings.push({ model, trials: [], best: (s.shown ?? ((p: Point) => p))(s.start), ndcg: Number.NaN, fixed, searched: false });
       continue;
     }
     const u = unit.get(model)!;
@@ -172,7 +189,7 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
         const m = await s.fit(p);
         const r = o.measure(model, m);
         const list = trials.get(model)!;
-        list.push({ params: { ...p }, ndcg: r.ndcg, recall: r.cappedRecall, elapsedMs: performance.now() - t0 });
+        list.push({ params: (s.shown ?? ((x: Point) => ({ ...x })))(p), ndcg: r.ndcg, recall: r.cappedRecall, elapsedMs: performance.now() - t0 });
         const bestSoFar = Math.max(...list.slice(0, -1).map((t) => (Number.isNaN(t.ndcg) ? -1 : t.ndcg)));
         if (r.ndcg > bestSoFar + 1e-9) bestModel.set(model, m);
         return r.ndcg;
@@ -183,7 +200,7 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
     tunings.push({
       model,
       trials: list,
-      best: found.best,
+      best: (s.shown ?? ((x: Point) => x))(found.best),
       ndcg: found.score,
       fixed,
       searched: true,

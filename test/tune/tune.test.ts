@@ -84,11 +84,11 @@ describe('tuneDataset', () => {
       onProgress: (p) => seen.push(p.fraction),
     });
     const grid = (m: string) => r.models.find((x) => x.model === m)!;
-    // The first trial of each model is its defaults (the start of the coordinate search), except iALS's
-    // regularisation, which starts at 10 (model-search.ts).
+    // The first trial of each model is its defaults (the start of the coordinate search), except iALS, which
+    // starts at regularisation 10 with log confidence (model-search.ts IALS_SEARCH_START).
     expect(grid('itemknn').trials[0]!.params).toEqual({ k: 50, shrink: 10, values: 'presence' });
     expect(grid('ease').trials[0]!.params).toEqual({ lambda: 500, values: 'presence' });
-    expect(grid('ials').trials[0]!.params).toEqual({ regularization: 10, alpha: 1, scaling: 'linear', factors: 64 });
+    expect(grid('ials').trials[0]!.params).toEqual({ regularization: 10, alpha: 1, scaling: 'log', factors: 64 });
     expect(grid('hybrid').trials).toHaveLength(HYBRID_CONTENT_GRID.length);
     for (const m of r.models) {
       const keys = m.trials.map((t) => JSON.stringify(Object.entries(t.params).sort()));

@@ -154,6 +154,24 @@ describe('tuneDataset with fixed parameters', () => {
   }, 30_000);
 });
 
+describe('tuneDataset with iALS alpha fixed', () => {
+  it('searches both scalings at that alpha only, as one confidence axis', async () => {
+    const d = tempDir('tune-alpha');
+    const { db } = await handWorkspace(d);
+    try {
+      const r = await tuneDataset(loadDataset(db), { k: 3, iterations: 2, threads: 1, fixed: { ials: { alpha: 10 } } });
+      const ials = r.models.find((x) => x.model === 'ials')!;
+      expect(ials.search!.axes['confidence']).toEqual(['linear 10', 'log 10']);
+      for (const t of ials.trials) expect(t.params['alpha']).toBe(10);
+      expect(ials.fixed).toEqual({ alpha: 10 });
+      expect(r.params.ials!.alpha).toBe(10);
+    } finally {
+      db.close();
+      fs.rmSync(d, { recursive: true, force: true });
+    }
+  }, 30_000);
+});
+
 describe('train.start with tune', () => {
   it('tunes a workspace with no times, tags but no descriptions and untouched items, and stores the grids with the models', async () => {
     const d = tempDir('tune-api');

@@ -210,7 +210,8 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
       searched: true,
       search: {
         axes: Object.fromEntries(s.axes.map((a) => [a.name, [...a.values]])),
-        budgetPlainFits: u > 0 ? budgetMs / (model === 'ials' ? (u * o.iterations) / sweeps : u) : 0,
+        // Both include the start, which was paid from the pool before the search got its share.
+        budgetPlainFits: u > 0 ? (budgetMs + u) / (model === 'ials' ? (u * o.iterations) / sweeps : u) : 0,
         spentPlainFits: u > 0 ? (found.spent + u) / (model === 'ials' ? (u * o.iterations) / sweeps : u) : 0,
         stopped: found.stopped,
       },

@@ -38,8 +38,9 @@ type Stored = { kind: string; params: Record<string, unknown>; tuning: { grid: {
 
 describe('train --tune with flags of the user', () => {
   it('searches only the settings not given: every trial holds the flags, fewer trials, the flag trained', async () => {
-    // 3 factors and 2 neighbours are in no grid; --lambda and --ease-values are EASE's whole grid.
-    const r = await run('train', '--tune', '--k', '3', '--iterations', '2', '--threads', '1', '--factors', '3', '--neighbours', '2', '--lambda', '300', '--ease-values', 'presence');
+    // 3 factors and 2 neighbours are in no grid; --lambda and --ease-values are EASE's whole grid. The widest
+    // budget, so that more than one setting of each searched model fits in it however the machine is loaded.
+    const r = await run('train', '--tune', '--k', '3', '--iterations', '2', '--threads', '1', '--factors', '3', '--neighbours', '2', '--lambda', '300', '--ease-values', 'presence', '--budget', '20');
     expect(r.code, r.err).toBe(0);
 
     const ctx = new AppContext();
@@ -90,7 +91,7 @@ describe('train --tune with flags of the user', () => {
     // The job's summary line.
     const summary = r.out.split('\n')[0]!;
     expect(summary).toMatch(
-      /^tuned \(random split; itemknn NDCG@3 [\d.]+, ease not searched, ials NDCG@3 [\d.]+, hybrid NDCG@3 [\d.]+; \d+ settings tried for [\d.]+ of 3 plain fits\) and trained 5 models/,
+      /^tuned \(random split; itemknn NDCG@3 [\d.]+, ease not searched, ials NDCG@3 [\d.]+, hybrid NDCG@3 [\d.]+; \d+ settings tried for [\d.]+ of 20 plain fits\) and trained 5 models/,
     );
     expect(summary).toMatch(/; fixed by you: itemknn k=2, ease lambda=300 values=presence \(every setting of its grid, so not searched\), ials factors=3$/);
   }, 60_000);

@@ -8,12 +8,18 @@ import { describeHolder } from '../store/write-lock.ts';
 import { importFile, type ImportReport } from './import.ts';
 import { makeTempFolder } from './temp-folders.ts';
 import { trainAndSave, type TrainSummary } from './train/train-job.ts';
-import type { TrainProgress } from './train/train-models.ts';
+import { MODEL_KINDS, type TrainedKind, type TrainProgress } from './train/train-models.ts';
+import { tuneAndTrain } from './tune/train-tuned.ts';
 
 export interface DemoBuildOptions {
   seed?: number;
   /** Train every model after the import (default true), so the app opens ready to propose. */
   train?: boolean;
+  /**
+   * Tune before training, as `train` does by default (issue 10 item 5), with this budget in plain fits
+   * (default: the tuner's default); false trains the defaults untuned.
+   */
+  tune?: false | { budget?: number };
   /** Smaller shops for tests: counts of items, customers and signals. */
   size?: { items?: number; customers?: number; signals?: number };
   onStep?: (message: string) => void;
@@ -73,10 +79,31 @@ export async function buildDemoWorkspace(file: string, options: DemoBuildOptions
       }
       if (options.train ?? true) {
         step('training models');
-        training = await trainAndSave(db, building, {}, {
-          ...(options.onTrainProgress && { onProgress: options.onTrainProgress }),
-          ...(options.signal && { signal: options.signal }),
-        });
+        if (options.tune === false) {
+          training = await trainAndSave(db, building, {}, {
+            ...(options.onTrainProgress && { onProgress: options.onTrainProgress }),
+            ...(options.signal && { signal: options.signal }),
+          });
+        } else {
+          const budget = options.tune?.budget;
+          const onProgress = options.onTrainProgress;
+          const r = await tuneAndTrain(
+            db,
+            building,
+            {},
+            { when: 'always', ...(budget !== undefined && { budget }) },
+            (p) =>
+              onProgress?.({
+                stage: p.stage === 'tune' ? 'tune' : (p.stage as TrainProgress['stage']),
+                fraction: p.fraction,
+                ...(MODEL_KINDS.includes(p.model as TrainedKind) && { model: p.model as TrainedKind }),
+                ...(p.iteration !== undefined && { iteration: p.iteration }),
+                ...(p.iterations !== undefined && { iterations: p.iterations }),
+              }),
+            options.signal ?? new AbortController().signal,
+          );
+          training = r.summary;
+        }
       }
       step('finishing');
       db.pragma('wal_checkpoint(TRUNCATE)');

@@ -28,7 +28,7 @@ describe('fitEase', () => {
     const G = X.transpose().mmul(X).add(Matrix.eye(cols).mul(lambda));
     const P = inverse(G);
     const P2 = solve(G, Matrix.eye(cols));
-    const model = fitEase(x, { lambda }).model;
+    const model = fitEase(x, { lambda, values: 'linear' }).model;
     const row = new Float32Array(cols);
     for (let i = 0; i < cols; i++) {
       model.similarityInto(i, row);
@@ -40,8 +40,28 @@ describe('fitEase', () => {
     }
   });
 
-  it('has a zero diagonal and scores x_u · B', () => {
+  it('by default fits and scores the binary matrix (presence), as Steck (2019) does, whatever the counts', () => {
+    // Reference: ml-matrix on X with every count replaced by 1 (Steck 2019 §3: X is a binary matrix).
+    const binary = dense.map((r) => r.map((v) => (v > 0 ? 1 : 0)));
+    const X = new Matrix(binary);
+    const P = inverse(X.transpose().mmul(X).add(Matrix.eye(cols).mul(lambda)));
     const model = fitEase(x, { lambda }).model;
+    expect(model.values).toBe('presence');
+    const out = new Float32Array(cols);
+    for (let u = 0; u < rows; u++) {
+      model.scoreInto(u, x, out); // x holds counts 1..3: scoring sees them as presence too
+      for (let j = 0; j < cols; j++) {
+        let e = 0;
+        for (let i = 0; i < cols; i++) if (i !== j) e += binary[u]![i]! * (-P.get(i, j) / P.get(j, j));
+        expect(out[j]).toBeCloseTo(e, 5);
+      }
+    }
+    expect(loadEase(model.serialize()).values).toBe('presence');
+    expect(loadEase(fitEase(x, { lambda, values: 'log' }).model.serialize()).values).toBe('log');
+  });
+
+  it('has a zero diagonal and scores x_u · B', () => {
+    const model = fitEase(x, { lambda, values: 'linear' }).model;
     for (let i = 0; i < cols; i++) expect(model.b[i * cols + i]).toBe(0);
     const out = new Float32Array(cols);
     for (let u = 0; u < rows; u++) {
@@ -84,7 +104,8 @@ describe('fitEase', () => {
     ).toThrow(/cancelled/);
   });
 
-  it('rejects lambda <= 0', () => {
+  it('rejects lambda <= 0 and an unknown transform, naming the parameter', () => {
     expect(() => fitEase(x, { lambda: 0 })).toThrow(/lambda must be > 0/);
+    expect(() => fitEase(x, { values: 'sqrt' as never })).toThrow(/values must be presence, log or linear, got sqrt/);
   });
 });

@@ -25,6 +25,9 @@ describe('the demo workspace', () => {
     const db = openWorkspace(file);
     expect(db.prepare('SELECT count(*) FROM item').pluck().get()).toBe(200);
     expect(db.prepare('SELECT count(*) FROM model WHERE current = 1').pluck().get()).toBeGreaterThanOrEqual(4);
+    // Trained as `train` trains by default: tuned first, the search stored with the model.
+    const ials = db.prepare("SELECT evaluation FROM model WHERE current = 1 AND kind = 'ials'").pluck().get() as string;
+    expect(JSON.parse(ials).tuning.grid.trials.length).toBeGreaterThan(1);
     db.close();
   });
 

@@ -136,6 +136,14 @@ describe('ensureDemo', () => {
     });
     expect(lines).toEqual(['demo workspace: importing items', 'demo workspace: training ials', 'demo workspace: training ease']);
   });
+  it('says once that it is tuning, however many models the search goes through', async () => {
+    const lines: string[] = [];
+    await ensureDemo(path.join(dir, 'w2.sqlite'), (l) => lines.push(l), async (_file, o) => {
+      for (const model of ['itemknn', 'ease', 'ials', 'itemknn'] as const) o.onTrainProgress?.({ stage: 'tune', model, fraction: 0.2 });
+      o.onTrainProgress?.({ stage: 'fit', model: 'content', fraction: 0.8 });
+    });
+    expect(lines).toEqual(['demo workspace: tuning the models (searching their settings)', 'demo workspace: training content']);
+  });
   it('leaves an existing workspace alone', async () => {
     const file = path.join(dir, 'w.sqlite');
     fs.writeFileSync(file, 'mine');

@@ -6,7 +6,7 @@ import { createHandlerTable, invoke } from '../../src-main/api/handler-table.ts'
 import { confidence } from '../../src-main/core/models/ials-params.ts';
 import { AppContext } from '../../src-main/services/context.ts';
 import { importFile } from '../../src-main/services/import.ts';
-import { EASE_GRID, HYBRID_CONTENT_GRID, IALS_CONFIDENCE_GRID, IALS_SIZE_GRID, itemKnnTrials } from '../../src-main/services/tune/grid.ts';
+import { HYBRID_CONTENT_GRID, IALS_GRID, TUNE_BUDGET } from '../../src-main/services/tune/grid.ts';
 import { validationSplit } from '../../src-main/services/tune/split.ts';
 import { tuneDataset } from '../../src-main/services/tune/tune.ts';
 import { loadDataset } from '../../src-main/store/dataset.ts';
@@ -68,29 +68,63 @@ describe('confidence scalings searched by the grid', () => {
     // r = 3, a = 2, e = 1: linear 1 + 6 = 7; log 1 + 2 ln 4 = 3.7725887 (natural log, as in the paper).
     expect(confidence({ alpha: 2, scaling: 'linear', epsilon: 1 }, 3)).toBe(7);
     expect(confidence({ alpha: 2, scaling: 'log', epsilon: 1 }, 3)).toBeCloseTo(3.7725887, 6);
-    expect(new Set(IALS_CONFIDENCE_GRID.map((g) => g.scaling))).toEqual(new Set(['linear', 'log']));
+    expect(new Set(IALS_GRID.scaling)).toEqual(new Set(['linear', 'log']));
   });
 });
 
 describe('tuneDataset', () => {
-  it('tries every grid point once and keeps the best NDCG of each model', async () => {
-    const r = await tuneDataset(loadDataset(shop), { k: 10, seed: 3, iterations: 4, threads: 2, sampleCustomers: 200 });
+  it('searches each model from its defaults, fits no setting twice, keeps the best NDCG and stays within its budget', async () => {
+    const seen: number[] = [];
+    const r = await tuneDataset(loadDataset(shop), {
+      k: 10,
+      seed: 3,
+      iterations: 4,
+      threads: 2,
+      sampleCustomers: 200,
+      budget: 20, // wide, so that the assertions below hold however loaded the machine is
+      onProgress: (p) => seen.push(p.fraction),
+    });
     const grid = (m: string) => r.models.find((x) => x.model === m)!;
-    expect(grid('itemknn').trials).toHaveLength(itemKnnTrials().length);
-    expect(grid('ease').trials).toHaveLength(EASE_GRID.lambda.length);
-    expect(grid('ials').trials).toHaveLength(IALS_CONFIDENCE_GRID.length + IALS_SIZE_GRID.length - 1);
+    // The first trial of each model is its defaults (the start of the coordinate search), except iALS, which
+    // starts at regularisation 10 with log confidence (model-search.ts IALS_SEARCH_START).
+    expect(grid('itemknn').trials[0]!.params).toEqual({ k: 50, shrink: 10, values: 'presence' });
+    expect(grid('ease').trials[0]!.params).toEqual({ lambda: 500, values: 'presence' });
+    expect(grid('ials').trials[0]!.params).toEqual({ regularization: 10, alpha: 1, scaling: 'log', factors: 64 });
     expect(grid('hybrid').trials).toHaveLength(HYBRID_CONTENT_GRID.length);
     for (const m of r.models) {
+      const keys = m.trials.map((t) => JSON.stringify(Object.entries(t.params).sort()));
+      expect(new Set(keys).size).toBe(keys.length);
       const best = Math.max(...m.trials.map((t) => t.ndcg));
       expect(m.ndcg).toBe(best);
       expect(m.trials.find((t) => t.ndcg === best)!.params).toEqual(m.best);
     }
+    // More than the defaults was tried, and the search says what it covered and why it stopped.
+    expect(grid('itemknn').trials.length).toBeGreaterThan(1);
+    expect(grid('ials').search!.axes['regularization']).toEqual([...IALS_GRID.regularization]);
+    expect(['converged', 'budget']).toContain(grid('ials').search!.stopped);
+    // The predicted spend of the searches never passes the budget (in plain fits of the searched models).
+    expect(r.budget.plainFits).toBe(20);
+    expect(r.budget.spentMs).toBeLessThanOrEqual(r.budget.plainFits * r.budget.plainMs + 1e-6);
+    // Progress only moves forward and ends at 1.
+    for (let q = 1; q < seen.length; q++) expect(seen[q]!).toBeGreaterThanOrEqual(seen[q - 1]!);
+    expect(seen.at(-1)).toBe(1);
     expect(r.params.ials).toMatchObject(grid('ials').best);
     expect(r.params.itemknn).toEqual(grid('itemknn').best);
-    expect(r.params.ease!.lambda).toBe(grid('ease').best['lambda']);
+    expect(r.params.ease).toMatchObject(grid('ease').best);
     expect(HYBRID_CONTENT_GRID).toContain(r.hybridContentWeight);
     expect(r.split.method).toBe('time');
-  }, 30_000);
+  }, 60_000);
+
+  it('at the smallest budget fits each model\'s defaults only, and a budget out of range is refused by name', async () => {
+    const ds = loadDataset(shop);
+    const opts = { k: 10, seed: 3, iterations: 4, threads: 1, sampleCustomers: 100 };
+    const small = await tuneDataset(ds, { ...opts, budget: TUNE_BUDGET.min });
+    const fits = (r: typeof small) => r.models.filter((m) => m.model !== 'hybrid').reduce((n, m) => n + m.trials.length, 0);
+    // At 0.5 plain fits the starts alone use the budget up: one fit per model.
+    expect(fits(small)).toBe(3);
+    await expect(tuneDataset(ds, { ...opts, budget: 0.1 })).rejects.toThrow(/budget must be from 0.5 to 20 plain fits, got 0.1/);
+    await expect(tuneDataset(ds, { ...opts, budget: 21 })).rejects.toThrow(/budget must be from 0.5 to 20/);
+  }, 60_000);
 });
 
 describe('tuneDataset with fixed parameters', () => {
@@ -99,22 +133,39 @@ describe('tuneDataset with fixed parameters', () => {
     const { db } = await handWorkspace(d);
     try {
       const fixed = { ials: { factors: 3, regularization: 0.1, alpha: 10, scaling: 'log' as const }, itemknn: { shrink: 0 } };
-      const seen: { trial: number; trials: number }[] = [];
+      const seen: { model: string; fraction: number }[] = [];
       const r = await tuneDataset(loadDataset(db), { k: 3, iterations: 2, threads: 1, fixed, onProgress: (p) => seen.push(p) });
       const grid = (m: string) => r.models.find((x) => x.model === m)!;
       expect(grid('ials')).toMatchObject({ trials: [], searched: false, best: fixed.ials, fixed: fixed.ials });
       expect(grid('ials').ndcg).toBeNaN();
       expect(r.params.ials).toMatchObject(fixed.ials);
-      // item-kNN: shrink held at 0, one trial per neighbour count.
+      // item-kNN: shrink held at 0 in every trial; the search has no shrink axis.
       expect(grid('itemknn')).toMatchObject({ searched: true, fixed: { shrink: 0 } });
-      expect(grid('itemknn').trials.map((t) => t.params)).toEqual(itemKnnTrials().filter((p) => p.shrink === 0));
+      for (const t of grid('itemknn').trials) expect(t.params['shrink']).toBe(0);
+      expect(Object.keys(grid('itemknn').search!.axes)).toEqual(['k', 'values']);
       expect(grid('ease')).toMatchObject({ searched: true, fixed: {} });
       expect(grid('hybrid').trials).toHaveLength(HYBRID_CONTENT_GRID.length);
-      // The progress count matches the fits made: the unsearched iALS is fitted once, for the hybrid.
-      const total = seen[0]!.trials;
-      expect(total).toBe(grid('itemknn').trials.length + grid('ease').trials.length + 1 + HYBRID_CONTENT_GRID.length);
-      expect(seen.filter((p) => p.trial <= total).length).toBe(total + 1);
-      expect(seen.at(-1)).toMatchObject({ trial: total, trials: total, fraction: 1 });
+      // The unsearched iALS was fitted once, for the hybrid, and reported as such in the progress.
+      expect(seen.filter((p) => p.model === 'ials')).toHaveLength(1);
+      expect(seen.at(-1)).toMatchObject({ model: 'hybrid', fraction: 1 });
+    } finally {
+      db.close();
+      fs.rmSync(d, { recursive: true, force: true });
+    }
+  }, 30_000);
+});
+
+describe('tuneDataset with iALS alpha fixed', () => {
+  it('searches both scalings at that alpha only, as one confidence axis', async () => {
+    const d = tempDir('tune-alpha');
+    const { db } = await handWorkspace(d);
+    try {
+      const r = await tuneDataset(loadDataset(db), { k: 3, iterations: 2, threads: 1, fixed: { ials: { alpha: 10 } } });
+      const ials = r.models.find((x) => x.model === 'ials')!;
+      expect(ials.search!.axes['confidence']).toEqual(['linear 10', 'log 10']);
+      for (const t of ials.trials) expect(t.params['alpha']).toBe(10);
+      expect(ials.fixed).toEqual({ alpha: 10 });
+      expect(r.params.ials!.alpha).toBe(10);
     } finally {
       db.close();
       fs.rmSync(d, { recursive: true, force: true });

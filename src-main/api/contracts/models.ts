@@ -1,5 +1,7 @@
 import { z } from 'zod';
 import { AudienceSchema } from '../../core/editing/brief-schema.ts';
+import { VALUE_TRANSFORMS } from '../../core/matrix/values.ts';
+import { TUNE_BUDGET } from '../../core/models/tune-budget.ts';
 import { method } from '../define.ts';
 import { JobState } from './jobs.ts';
 
@@ -10,6 +12,8 @@ import { JobState } from './jobs.ts';
  */
 const reading = z.number().nullable();
 const ModelKindName = z.enum(['content', 'itemknn', 'ials', 'ease', 'popularity']);
+/** How a signal's summed value enters item-kNN and EASE (core/matrix/values.ts). */
+const ValueTransformName = z.enum(VALUE_TRANSFORMS);
 
 export const TrainRequest = z
   .object({
@@ -26,15 +30,21 @@ export const TrainRequest = z
       })
       .strict()
       .optional(),
-    itemknn: z.object({ k: z.number().int().min(1).optional(), shrink: z.number().min(0).optional() }).strict().optional(),
-    ease: z.object({ lambda: z.number().positive().optional() }).strict().optional(),
+    itemknn: z.object({ k: z.number().int().min(1).optional(), shrink: z.number().min(0).optional(), values: ValueTransformName.optional() }).strict().optional(),
+    ease: z.object({ lambda: z.number().positive().optional(), values: ValueTransformName.optional() }).strict().optional(),
     threads: z.number().int().min(1).max(8).optional(),
-    /** Tune each model's small grid on a validation split first, then train the best settings on all signals. */
+    /**
+     * Tune each model's grid on a validation split first, then train the best settings on all signals. `when`:
+     * 'always' tunes; 'changed' tunes only when the data changed since the last tuning, else trains that
+     * tuning's settings again. `budget`: plain fits the search may spend (grid.ts TUNE_BUDGET, default 2).
+     */
     tune: z
       .object({
         k: z.number().int().min(1).default(10),
         sampleCustomers: z.number().int().min(1).optional(),
         seed: z.number().int().optional(),
+        when: z.enum(['always', 'changed']).default('always'),
+        budget: z.number().min(TUNE_BUDGET.min).max(TUNE_BUDGET.max).optional(),
       })
       .strict()
       .optional(),
@@ -77,7 +87,18 @@ export const TuningView = z.object({
     fixed: z.record(z.string(), z.union([z.number(), z.string()])).optional(),
     /** False when every grid parameter was fixed, so nothing was searched. */
     searched: z.boolean().optional(),
+    /** What the coordinate search covered (absent for grids tuned before it): axes, budget and spend in plain fits. */
+    search: z
+      .object({
+        axes: z.record(z.string(), z.array(z.union([z.number(), z.string()]))),
+        budgetPlainFits: z.number(),
+        spentPlainFits: z.number(),
+        stopped: z.enum(['converged', 'budget']),
+      })
+      .optional(),
   }),
+  /** The data fingerprint the tuning saw (absent for tunings stored before it was kept). */
+  fingerprint: z.string().optional(),
   hybridContentWeight: z.number().optional(),
 });
 

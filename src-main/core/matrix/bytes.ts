@@ -70,6 +70,11 @@ export function unpackSections(bytes: Uint8Array, magic: string, version: number
   return out;
 }
 
+/** The version word of a container, to read older formats (0 when too short; SectionReader then refuses it). */
+export function formatVersion(bytes: Uint8Array): number {
+  return bytes.length < 12 ? 0 : new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength).getUint32(8, true);
+}
+
 /** Reads sections back in the order they were packed, checking each one's element type. */
 export class SectionReader {
   #sections: Section[];

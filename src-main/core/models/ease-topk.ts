@@ -1,6 +1,7 @@
 import { packSections } from '../matrix/bytes.ts';
 import type { Csr } from '../matrix/csr.ts';
 import { InputError } from '../errors.ts';
+import { transformCode, transformValue, type ValueTransform } from '../matrix/values.ts';
 import type { Scorer, TopN } from './scorer.ts';
 import { topN } from './topn.ts';
 
@@ -26,6 +27,7 @@ export class EaseTopKModel implements Scorer {
    * @param indptr row r's weights are entries indptr[r] .. indptr[r+1] − 1
    * @param cols global item index of each weight
    * @param values the weights B_r,cols
+   * @param transform how a history value enters scoring (the fitted model's value transform)
    */
   constructor(
     readonly itemCount: number,
@@ -33,6 +35,7 @@ export class EaseTopKModel implements Scorer {
     readonly indptr: Int32Array,
     readonly cols: Int32Array,
     readonly values: Float32Array,
+    readonly transform: ValueTransform = 'presence',
   ) {
     if (indptr.length !== kept.length + 1 || cols.length !== values.length || indptr[kept.length] !== cols.length) {
       throw new InputError('EASE top-k weights have inconsistent lengths');
@@ -47,7 +50,7 @@ export class EaseTopKModel implements Scorer {
     for (let p = history.indptr[u]!, end = history.indptr[u + 1]!; p < end; p++) {
       const r = this.#local[history.indices[p]!]!;
       if (r < 0) continue;
-      const x = history.data[p]!;
+      const x = transformValue(this.transform, history.data[p]!);
       for (let q = this.indptr[r]!, qe = this.indptr[r + 1]!; q < qe; q++) out[this.cols[q]!]! += x * this.values[q]!;
     }
   }
@@ -69,14 +72,14 @@ export class EaseTopKModel implements Scorer {
   }
 
   serialize(): Uint8Array {
-    return packSections(EASE_MAGIC, 2, [Int32Array.of(this.itemCount), this.kept, this.indptr, this.cols, this.values]);
+    return packSections(EASE_MAGIC, 3, [Int32Array.of(this.itemCount), this.kept, this.indptr, this.cols, this.values, Int32Array.of(transformCode(this.transform))]);
   }
 }
 
 export const EASE_MAGIC = 'SWEASE  ';
 
 /** Keeps the k largest-magnitude off-diagonal weights of each row of the dense m × m B (row-major). */
-export function sparsifyEase(itemCount: number, kept: Int32Array, b: Float32Array, k: number): EaseTopKModel {
+export function sparsifyEase(itemCount: number, kept: Int32Array, b: Float32Array, k: number, transform: ValueTransform = 'presence'): EaseTopKModel {
   const m = kept.length;
   const per = Math.min(k, Math.max(0, m - 1));
   const indptr = new Int32Array(m + 1);
@@ -95,5 +98,5 @@ export function sparsifyEase(itemCount: number, kept: Int32Array, b: Float32Arra
     }
     indptr[r + 1] = q;
   }
-  return new EaseTopKModel(itemCount, kept, indptr, cols.subarray(0, q), values.subarray(0, q));
+  return new EaseTopKModel(itemCount, kept, indptr, cols.subarray(0, q), values.subarray(0, q), transform);
 }

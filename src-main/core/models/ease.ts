@@ -1,8 +1,9 @@
-import { SectionReader, packSections } from '../matrix/bytes.ts';
+import { SectionReader, formatVersion, packSections } from '../matrix/bytes.ts';
 import { nnz, type Csr } from '../matrix/csr.ts';
 import { easeWeights, type EaseSolveHooks } from './ease-weights.ts';
 import { EASE_DENSE_MAX_BYTES, EASE_MAGIC, EASE_TOP_K, EaseTopKModel, sparsifyEase } from './ease-topk.ts';
 import { CancelledError, InputError } from '../errors.ts';
+import { checkTransform, transformCode, transformFromCode, transformMatrix, transformValue, type ValueTransform } from '../matrix/values.ts';
 import type { FitOptions, FitReport, Scorer, TopN } from './scorer.ts';
 import { topN } from './topn.ts';
 
@@ -10,7 +11,9 @@ import { topN } from './topn.ts';
  * EASE, Steck (2019), "Embarrassingly Shallow Autoencoders for Sparse Data", eq. (8): the item–item
  * weights minimising ‖X − XB‖² + λ‖B‖² subject to diag(B) = 0 are
  *   P = (XᵀX + λI)⁻¹,   B = I − P · diag(1 / diag(P)),   i.e. B_ij = −P_ij / P_jj (i ≠ j), B_jj = 0.
- * Scores are x_u · B. The inverse is dense (n² float32, ease-weights.ts), so the catalogue size is bounded by `maxItems`.
+ * Scores are x_u · B, with X's values through the model's transform (matrix/values.ts; presence by default:
+ * Steck fits a binary X, and λ sized for counts of 1 then suits any shop). The inverse is dense (n² float32,
+ * ease-weights.ts), so the catalogue size is bounded by `maxItems`.
  */
 export interface EaseParams {
   /** λ in the paper. Default 500 (from memory: the paper's tuned values lie in the hundreds). */
@@ -19,9 +22,11 @@ export interface EaseParams {
   maxItems?: number;
   /** Above maxItems: false (default) refuses with an InputError; true keeps the maxItems most active items. */
   restrict?: boolean;
+  /** How a matrix value enters, in the fit and in scoring. Default presence. */
+  values?: ValueTransform;
 }
 
-export const EASE_DEFAULTS = { lambda: 500, maxItems: 20_000, restrict: false } as const;
+export const EASE_DEFAULTS = { lambda: 500, maxItems: 20_000, restrict: false, values: 'presence' } as const satisfies EaseParams;
 
 export class EaseModel implements Scorer {
   readonly kind = 'ease' as const;
@@ -34,6 +39,7 @@ export class EaseModel implements Scorer {
     readonly itemCount: number,
     readonly kept: Int32Array,
     readonly b: Float32Array,
+    readonly values: ValueTransform = EASE_DEFAULTS.values,
   ) {
     const m = kept.length;
     if (b.length !== m * m) throw new InputError(`EASE weights have ${b.length} entries, expected ${m * m}`);
@@ -51,7 +57,7 @@ export class EaseModel implements Scorer {
     for (let p = history.indptr[u]!, end = history.indptr[u + 1]!; p < end; p++) {
       const r = this.#local[history.indices[p]!]!;
       if (r < 0) continue;
-      const x = history.data[p]!;
+      const x = transformValue(this.values, history.data[p]!);
       const row = r * m;
       if (whole) for (let c = 0; c < m; c++) out[c]! += x * b[row + c]!;
       else for (let c = 0; c < m; c++) out[kept[c]!]! += x * b[row + c]!;
@@ -77,26 +83,33 @@ export class EaseModel implements Scorer {
   }
 
   /**
-   * Dense B (format 1) up to EASE_DENSE_MAX_BYTES; above, the top EASE_TOP_K weights of each row (format 2,
+   * Dense B (format 2) up to EASE_DENSE_MAX_BYTES; above, the top EASE_TOP_K weights of each row (format 3,
    * ease-topk.ts): a 20,000-item dense B is 1.6 GB, beyond a SQLite blob.
    */
   serialize(): Uint8Array {
-    if (this.b.byteLength > EASE_DENSE_MAX_BYTES) return sparsifyEase(this.itemCount, this.kept, this.b, EASE_TOP_K).serialize();
-    return packSections(EASE_MAGIC, 1, [Int32Array.of(this.itemCount), this.kept, this.b]);
+    if (this.b.byteLength > EASE_DENSE_MAX_BYTES) {
+      return sparsifyEase(this.itemCount, this.kept, this.b, EASE_TOP_K, this.values).serialize();
+    }
+    return packSections(EASE_MAGIC, 2, [Int32Array.of(this.itemCount), this.kept, this.b, Int32Array.of(transformCode(this.values))]);
   }
 }
 
-/** Restores either stored form: dense (format 1) or top-k per item (format 2). */
+/**
+ * Restores every stored form: format 1 (dense, before value transforms: raw values, i.e. linear), format 2
+ * (dense, with its transform) and format 3 (top-k weights per item, with its transform; ease-topk.ts).
+ */
 export function loadEase(bytes: Uint8Array): EaseModel | EaseTopKModel {
-  const version = bytes.length >= 12 ? new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength).getUint32(8, true) : 1;
-  if (version === 2) {
-    const r = new SectionReader(bytes, EASE_MAGIC, 2);
+  const version = formatVersion(bytes);
+  if (version === 3) {
+    const r = new SectionReader(bytes, EASE_MAGIC, 3);
     const head = r.i32();
-    return new EaseTopKModel(head[0]!, r.i32(), r.i32(), r.i32(), r.f32());
+    return new EaseTopKModel(head[0]!, r.i32(), r.i32(), r.i32(), r.f32(), transformFromCode(r.i32()[0]!));
   }
-  const r = new SectionReader(bytes, EASE_MAGIC, 1);
+  const r = new SectionReader(bytes, EASE_MAGIC, version === 1 ? 1 : 2);
   const head = r.i32();
-  return new EaseModel(head[0]!, r.i32(), r.f32());
+  const kept = r.i32();
+  const b = r.f32();
+  return new EaseModel(head[0]!, kept, b, version === 1 ? 'linear' : transformFromCode(r.i32()[0]!));
 }
 
 /**
@@ -104,12 +117,14 @@ export function loadEase(bytes: Uint8Array): EaseModel | EaseTopKModel {
  * than on this thread alone (services/train/ease-inverse-threads.ts: several threads, same result).
  */
 export function fitEase(
-  x: Csr,
+  raw: Csr,
   params: EaseParams = {},
   o: FitOptions = {},
   solver: Pick<EaseSolveHooks, 'invert'> = {},
 ): { model: EaseModel; report: FitReport } {
   const start = performance.now();
+  const values = checkTransform(params.values ?? EASE_DEFAULTS.values);
+  const x = transformMatrix(raw, values);
   const lambda = params.lambda ?? EASE_DEFAULTS.lambda;
   const maxItems = params.maxItems ?? EASE_DEFAULTS.maxItems;
   if (!(lambda > 0)) throw new InputError(`EASE lambda must be > 0, got ${lambda}`);
@@ -139,11 +154,11 @@ export function fitEase(
   });
   const elapsedMs = performance.now() - start;
   o.onIteration?.({ iteration: 4, iterations: 4, elapsedMs });
-  notes.push(`EASE on ${m} items, ${nnz(x)} interactions, lambda ${lambda}`);
+  notes.push(`EASE on ${m} items, ${nnz(x)} interactions, lambda ${lambda}, values ${values}`);
   if (b.byteLength > EASE_DENSE_MAX_BYTES) {
     notes.push(`EASE stored with the ${EASE_TOP_K} largest weights per item (dense weights would be ${(b.byteLength / 2 ** 30).toFixed(1)} GiB)`);
   }
-  return { model: new EaseModel(x.cols, kept, b), report: { kind: 'ease', elapsedMs, notes } };
+  return { model: new EaseModel(x.cols, kept, b, values), report: { kind: 'ease', elapsedMs, notes } };
 }
 
 /** The n items with the most interactions (ties: lower index), returned in ascending index order. */

@@ -1,6 +1,7 @@
-import { SectionReader, packSections } from '../matrix/bytes.ts';
+import { SectionReader, formatVersion, packSections } from '../matrix/bytes.ts';
 import { transpose, type Csr } from '../matrix/csr.ts';
 import { CancelledError, InputError } from '../errors.ts';
+import { checkTransform, transformCode, transformFromCode, transformMatrix, transformValue, type ValueTransform } from '../matrix/values.ts';
 import type { FitOptions, FitReport, Scorer, TopN } from './scorer.ts';
 import { collectNeighbours, neighbourRowInto, neighbourTopN, type Neighbours } from './topn.ts';
 
@@ -11,20 +12,26 @@ import { collectNeighbours, neighbourRowInto, neighbourTopN, type Neighbours } f
  * over the item columns x_i of the interaction matrix. Shrinkage pulls similarities resting on few
  * common customers towards 0 (common practice in neighbourhood models, no single source). Each item
  * keeps its K most similar items; a customer's score for j is Σ_h x_uh · sim(h, j) over the history
- * items h whose lists contain j.
+ * items h whose lists contain j, where x_uh is the history value through the model's transform
+ * (matrix/values.ts; presence by default, so x is binary as in Sarwar et al.'s setting).
  */
 export interface ItemKnnParams {
   /** Neighbours kept per item. Default 50. */
   k?: number;
   /** Added to the norm product in the denominator. Default 10. */
   shrink?: number;
+  /** How a matrix value enters, in the fit and in scoring (matrix/values.ts). Default presence. */
+  values?: ValueTransform;
 }
 
-export const ITEMKNN_DEFAULTS = { k: 50, shrink: 10 } as const;
+export const ITEMKNN_DEFAULTS = { k: 50, shrink: 10, values: 'presence' } as const satisfies ItemKnnParams;
 
 export class ItemKnnModel implements Scorer {
   readonly kind = 'itemknn' as const;
-  constructor(readonly neighbours: Neighbours) {}
+  constructor(
+    readonly neighbours: Neighbours,
+    readonly values: ValueTransform = ITEMKNN_DEFAULTS.values,
+  ) {}
 
   get itemCount(): number {
     return this.neighbours.items;
@@ -33,9 +40,10 @@ export class ItemKnnModel implements Scorer {
   scoreInto(u: number, history: Csr, out: Float32Array): void {
     out.fill(0);
     const nb = this.neighbours;
+    const t = this.values;
     for (let p = history.indptr[u]!, end = history.indptr[u + 1]!; p < end; p++) {
       const h = history.indices[p]!;
-      const x = history.data[p]!;
+      const x = transformValue(t, history.data[p]!);
       for (let q = nb.indptr[h]!, e = nb.indptr[h + 1]!; q < e; q++) out[nb.indices[q]!]! += x * nb.data[q]!;
     }
   }
@@ -50,18 +58,21 @@ export class ItemKnnModel implements Scorer {
 
   serialize(): Uint8Array {
     const nb = this.neighbours;
-    return packSections(MAGIC, 1, [Int32Array.of(nb.items), nb.indptr, nb.indices, nb.data]);
+    return packSections(MAGIC, 2, [Int32Array.of(nb.items), nb.indptr, nb.indices, nb.data, Int32Array.of(transformCode(this.values))]);
   }
 }
 
 const MAGIC = 'SWITMKNN';
 
+/** Reads format 2, and format 1 (before value transforms: raw values, i.e. linear). */
 export function loadItemKnn(bytes: Uint8Array): ItemKnnModel {
-  const r = new SectionReader(bytes, MAGIC, 1);
+  const version = formatVersion(bytes);
+  const r = new SectionReader(bytes, MAGIC, version === 1 ? 1 : 2);
   const items = r.i32()[0]!;
   const indptr = r.i32();
   if (indptr.length !== items + 1) throw new InputError('not a valid item-kNN model: neighbour offsets do not match the item count');
-  return new ItemKnnModel({ items, indptr, indices: r.i32(), data: r.f32() });
+  const nb = { items, indptr, indices: r.i32(), data: r.f32() };
+  return new ItemKnnModel(nb, version === 1 ? 'linear' : transformFromCode(r.i32()[0]!));
 }
 
 /**
@@ -70,12 +81,15 @@ export function loadItemKnn(bytes: Uint8Array): ItemKnnModel {
  * one dense accumulator reused across items, with a touched list so that resetting it costs only what
  * was touched. Cost Σ_u |row_u|², memory O(items + customers + nnz).
  */
-export function fitItemKnn(x: Csr, params: ItemKnnParams = {}, o: FitOptions = {}): { model: ItemKnnModel; report: FitReport } {
+export function fitItemKnn(raw: Csr, params: ItemKnnParams = {}, o: FitOptions = {}): { model: ItemKnnModel; report: FitReport } {
   const start = performance.now();
+  // k may exceed the catalogue: every item is then kept ("all" in the tuning grid).
   const k = params.k ?? ITEMKNN_DEFAULTS.k;
   const shrink = params.shrink ?? ITEMKNN_DEFAULTS.shrink;
+  const values = checkTransform(params.values ?? ITEMKNN_DEFAULTS.values);
   if (!(Number.isInteger(k) && k > 0)) throw new InputError(`item-kNN k must be a positive integer, got ${k}`);
   if (!(shrink >= 0)) throw new InputError(`item-kNN shrink must be >= 0, got ${shrink}`);
+  const x = transformMatrix(raw, values);
   const xt = transpose(x);
   const nItems = x.cols;
   const norm = new Float64Array(nItems);
@@ -88,7 +102,7 @@ export function fitItemKnn(x: Csr, params: ItemKnnParams = {}, o: FitOptions = {
   const touched = new Int32Array(nItems);
   const seen = new Uint8Array(nItems);
   const step = Math.max(1, Math.ceil(nItems / 20));
-  const neighbours = collectNeighbours(nItems, k, (i, heap) => {
+  const neighbours = collectNeighbours(nItems, Math.max(1, Math.min(k, nItems)), (i, heap) => {
     if (i % step === 0) {
       if (o.signal?.aborted) throw new CancelledError();
       o.onIteration?.({ iteration: i / step, iterations: Math.ceil(nItems / step), elapsedMs: performance.now() - start });
@@ -119,7 +133,7 @@ export function fitItemKnn(x: Csr, params: ItemKnnParams = {}, o: FitOptions = {
   });
   const elapsedMs = performance.now() - start;
   return {
-    model: new ItemKnnModel(neighbours),
-    report: { kind: 'itemknn', elapsedMs, notes: [`item-kNN: ${nItems} items, k ${k}, shrink ${shrink}`] },
+    model: new ItemKnnModel(neighbours, values),
+    report: { kind: 'itemknn', elapsedMs, notes: [`item-kNN: ${nItems} items, k ${k}, shrink ${shrink}, values ${values}`] },
   };
 }

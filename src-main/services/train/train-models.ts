@@ -1,6 +1,6 @@
 import { buildInteractionMatrix, type BuildOptions } from '../../core/matrix/build.ts';
 import { fitContent, type ContentParams } from '../../core/models/content.ts';
-import { fitEase, type EaseParams } from '../../core/models/ease.ts';
+import { EASE_DEFAULTS, fitEase, type EaseParams } from '../../core/models/ease.ts';
 import type { IalsParams } from '../../core/models/ials-params.ts';
 import { fitItemKnn, type ItemKnnParams } from '../../core/models/itemknn.ts';
 import { fitPopularity } from '../../core/models/popularity.ts';
@@ -39,7 +39,8 @@ export interface TrainOptions {
 export const TRAIN_EASE_DEFAULTS: EaseParams = { maxItems: EASE_MAX_ITEMS, restrict: true };
 
 export interface TrainProgress {
-  stage: 'load' | 'matrix' | 'fit' | 'blend' | 'done';
+  /** 'tune': the search before training (services/tune), when training is tuned; 'blend': the validated blend. */
+  stage: 'tune' | 'load' | 'matrix' | 'fit' | 'blend' | 'done';
   model?: TrainedKind;
   iteration?: number;
   iterations?: number;
@@ -132,7 +133,7 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
   // thread of its own and overlaps the other models (ease-thread.ts); it is collected in its turn.
   const p = opts.params ?? {};
   const limit = easeItemLimit();
-  const easeParams = { ...TRAIN_EASE_DEFAULTS, maxItems: limit.maxItems, ...p.ease };
+  const easeParams = { ...TRAIN_EASE_DEFAULTS, values: EASE_DEFAULTS.values, maxItems: limit.maxItems, ...p.ease };
   const easeNotes = limit.note && p.ease?.maxItems === undefined && matrix.cols > limit.maxItems ? [limit.note] : [];
   const threads = opts.threads ?? defaultThreads();
   const easeThread = kinds.includes('ease') && threads > 1 ? fitEaseInThread(matrix, easeParams, threads) : null;
@@ -161,7 +162,10 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
     for (const kind of kinds) {
       report({ stage: 'fit', model: kind });
       if (kind === 'content') keep(kind, p.content ?? {}, fitContent(data.items, p.content));
-      else if (kind === 'itemknn') keep(kind, p.itemknn ?? {}, fitItemKnn(matrix, p.itemknn));
+      else if (kind === 'itemknn') {
+        const fit = fitItemKnn(matrix, p.itemknn);
+        keep(kind, { ...p.itemknn, values: fit.model.values }, fit); // the transform is stored even when defaulted
+      }
       else if (kind === 'popularity') keep(kind, {}, fitPopularity(matrix));
       else if (kind === 'ease' && easeThread) {
         const fit = await easeThread.done;

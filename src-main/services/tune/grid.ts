@@ -1,48 +1,46 @@
 /**
- * The tuning grids (issue 6 item 4), small enough that the demo shop (2,500 items, 400k signals) tunes in a
- * couple of minutes on two cores. Values bracket each method's defaults by factors of about 3–10, the usual
- * first pass of a log-scale search (common practice, no source).
+ * The tuning grids (issue 10 item 2): log grids over decades, wide enough for real data, searched by coordinate
+ * search under a budget (search.ts, model-search.ts) rather than tried in full.
  *
- * iALS is searched in two stages so that its four parameters cost 7 fits instead of 16: first confidence
- * scaling × α at the smaller factor count (Hu, Koren & Volinsky 2008 §4: linear c = 1 + αr and log
- * c = 1 + α·log(1 + r/ε)), then factors × regularisation with the best scaling and α.
- *
- * A parameter the caller fixed replaces that parameter in every grid point (withFixed), and the points that
- * become equal are tried once.
+ * iALS: `regularization` is λ of Hu, Koren & Volinsky (2008) eq. (3) as it stands, unscaled:
+ *   min Σ_u,i c_ui (p_ui − x_uᵀy_i)² + λ (Σ_u ‖x_u‖² + Σ_i ‖y_i‖²),  c_ui = 1 + α·r_ui (or 1 + α·log(1 + r_ui/ε)).
+ * Nothing divides λ by the number of customers, items or interactions, so the λ that balances the data term
+ * grows with the confidences (α and the values) and with the number of observations per row: on large,
+ * heavy-tailed logs it lies orders of magnitude above the 0.01 default, hence 10⁻² to 10³.
+ * item-kNN: neighbours up to 400 and "all" (every item, k = the catalogue size), shrinkage 0 to 200, and the
+ * value transform. EASE: λ from 10 to 10⁴ (Steck 2019 tunes λ over such decades) and the value transform.
  */
-import type { IalsParams } from '../../core/models/ials-params.ts';
+import { VALUE_TRANSFORMS } from '../../core/matrix/values.ts';
 
-export const ITEMKNN_GRID = { k: [20, 50, 100], shrink: [0, 10, 50] } as const;
+export const IALS_GRID = {
+  regularization: [0.01, 0.1, 1, 10, 100, 1000],
+  alpha: [0.1, 1, 10, 100],
+  scaling: ['linear', 'log'],
+  factors: [32, 64, 128, 256],
+} as const;
 
-export const EASE_GRID = { lambda: [100, 500, 2000] } as const;
+/** 'all' keeps every item as a neighbour: k is set to the catalogue size when the grid is laid out. */
+export const ITEMKNN_GRID = { k: [10, 25, 50, 100, 200, 400, 'all'], shrink: [0, 10, 30, 100, 200], values: VALUE_TRANSFORMS } as const;
 
-export const IALS_CONFIDENCE_GRID: readonly Pick<IalsParams, 'scaling' | 'alpha'>[] = [
-  { scaling: 'linear', alpha: 1 },
-  { scaling: 'linear', alpha: 10 },
-  { scaling: 'log', alpha: 1 },
-  { scaling: 'log', alpha: 10 },
-];
+export const EASE_GRID = { lambda: [10, 30, 100, 300, 1000, 3000, 10_000], values: VALUE_TRANSFORMS } as const;
 
-export const IALS_SIZE_GRID: readonly Pick<IalsParams, 'factors' | 'regularization'>[] = [
-  { factors: 32, regularization: 0.01 },
-  { factors: 32, regularization: 0.1 },
-  { factors: 64, regularization: 0.01 },
-  { factors: 64, regularization: 0.1 },
-];
+export { TUNE_BUDGET } from '../../core/models/tune-budget.ts';
+
+/**
+ * iALS trials run this many sweeps instead of the training's 15: a cheaper, lower-fidelity fit that ranks
+ * settings well, since iALS's loss falls most in its first sweeps (common practice, no source; the idea of
+ * judging many settings on a small budget first is that of successive halving, Jamieson & Talwalkar 2016).
+ */
+export const IALS_SEARCH_ITERATIONS = 5;
 
 /** Weight of the content component in the hybrid blend, the other weights held (brief defaults: 0.3). */
 export const HYBRID_CONTENT_GRID = [0, 0.1, 0.3, 0.6, 1] as const;
 
-/** Every (k, shrink) pair of the item-kNN grid. */
-export function itemKnnTrials(): { k: number; shrink: number }[] {
-  return ITEMKNN_GRID.k.flatMap((k) => ITEMKNN_GRID.shrink.map((shrink) => ({ k, shrink })));
-}
-
 /** The parameters each model's grid varies (the hybrid's content weight has no training flag to fix it). */
 export const GRID_PARAMS = {
-  itemknn: ['k', 'shrink'],
-  ials: ['factors', 'regularization', 'alpha', 'scaling'],
-  ease: ['lambda'],
+  itemknn: ['k', 'shrink', 'values'],
+  ials: ['regularization', 'alpha', 'scaling', 'factors'],
+  ease: ['lambda', 'values'],
 } as const;
 
 export type GridModel = keyof typeof GRID_PARAMS;
@@ -72,23 +70,4 @@ export function fixedParams(params: { [M in GridModel]?: object } | undefined): 
 export function fullyFixed(model: GridModel, fixed: FixedParams): boolean {
   const held = (fixed[model] ?? {}) as Record<string, unknown>;
   return GRID_PARAMS[model].every((p) => held[p] !== undefined);
-}
-
-/**
- * The grid points with the fixed parameters set to the caller's values, duplicates dropped (the first of
- * equals kept, so grid order is kept). Only parameters a point has are set.
- */
-export function withFixed<T extends object>(points: readonly T[], fixed: object | undefined): T[] {
-  const held = (fixed ?? {}) as Record<string, unknown>;
-  const seen = new Set<string>();
-  const out: T[] = [];
-  for (const p of points) {
-    const q = { ...p } as Record<string, unknown>;
-    for (const key of Object.keys(q)) if (held[key] !== undefined) q[key] = held[key];
-    const id = JSON.stringify(q);
-    if (seen.has(id)) continue;
-    seen.add(id);
-    out.push(q as T);
-  }
-  return out;
 }

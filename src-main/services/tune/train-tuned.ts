@@ -9,14 +9,14 @@
  */
 import { plural } from '../../core/util/plural.ts';
 import { CancelledError } from '../../core/errors.ts';
-import { ModelRepo } from '../../store/models.ts';
+import { dataFingerprint, ModelRepo, modelStatus } from '../../store/models.ts';
 import type { Db } from '../../store/workspace.ts';
 import type { JobBody } from '../jobs.ts';
 import { waitingLine } from '../../store/write-lock.ts';
 import { STALE_NOTE } from '../train/save-run.ts';
 import { trainAndSave, type TrainSummary } from '../train/train-job.ts';
 import type { TrainOptions } from '../train/train-models.ts';
-import { fixedParams } from './grid.ts';
+import { fixedParams, GRID_PARAMS, type GridModel } from './grid.ts';
 import { tuneInThread } from './offline-thread.ts';
 import type { ModelTuning, TuneOptions, TuneResult } from './tune.ts';
 
@@ -28,14 +28,73 @@ export interface TunedTraining {
   tuning: TuneResult;
 }
 
+/** How train.start asks for tuning: always, or only when the data changed since the last tuning (item 5). */
+export type TuneRequest = Omit<TuneOptions, 'signal' | 'onProgress' | 'fixed'> & { when?: 'always' | 'changed' };
+
+/** A tuning as stored with a model (the model's evaluation record, key `tuning`). */
+interface StoredTuning {
+  fingerprint?: string;
+  grid?: { model: string; best: Record<string, number | string> };
+}
+
+/**
+ * The settings of the last tuning when it saw exactly the data the workspace holds now, else null: every
+ * current model of a searched kind must carry a tuning record with today's data fingerprint (a model trained
+ * later without tuning, or any change to items or signals, means tuning again).
+ */
+export function reusableTuning(db: Db, kinds: readonly string[]): { params: NonNullable<TrainOptions['params']>; records: Map<string, unknown> } | null {
+  const now = dataFingerprint(db);
+  const current = modelStatus(db);
+  const records = new Map<string, unknown>();
+  const params: Record<string, Record<string, number | string>> = {};
+  for (const kind of ['itemknn', 'ials', 'ease', 'content'] as const) {
+    if (!kinds.includes(kind)) continue;
+    const m = current.find((x) => x.kind === kind);
+    const t = (m?.evaluation as { tuning?: StoredTuning } | null)?.tuning;
+    if (!t) {
+      if (kind === 'ease') continue; // EASE is not tuned above its item limit
+      return null;
+    }
+    if (t.fingerprint !== now) return null;
+    records.set(kind, t);
+    if (kind !== 'content' && t.grid) {
+      const grid = GRID_PARAMS[kind as GridModel] as readonly string[];
+      params[kind] = Object.fromEntries(Object.entries(t.grid.best).filter(([key]) => grid.includes(key)));
+    }
+  }
+  return { params: params as NonNullable<TrainOptions['params']>, records };
+}
+
 export async function tuneAndTrain(
   db: Db,
   file: string,
   options: TrainOptions,
-  tune: Omit<TuneOptions, 'signal' | 'onProgress'>,
+  request: TuneRequest,
   report: (p: { stage: string; fraction: number; model?: string; iteration?: number; iterations?: number }) => void,
   signal: AbortSignal,
-): Promise<TunedTraining> {
+): Promise<TunedTraining | { summary: TrainSummary; reused: true }> {
+  const { when, ...tune } = request;
+  const kinds = options.models ?? ['content', 'itemknn', 'ials', 'ease', 'popularity'];
+  const reuse = when === 'changed' ? reusableTuning(db, kinds) : null;
+  if (reuse) {
+    // The data is as the last tuning saw it: train its settings again (the caller's own flags still win).
+    const p = options.params ?? {};
+    const params = {
+      ...p,
+      itemknn: { ...reuse.params.itemknn, ...p.itemknn },
+      ials: { ...reuse.params.ials, ...p.ials },
+      ...((reuse.params.ease || p.ease) && { ease: { ...reuse.params.ease, ...p.ease } }),
+    };
+    const summary = await trainAndSave(db, file, { ...options, params }, { signal, onProgress: report });
+    const repo = new ModelRepo(db);
+    db.transaction(() => {
+      summary.models.forEach((kind, q) => {
+        const t = reuse.records.get(kind);
+        if (t) repo.setEvaluation(summary.ids[q]!, { tuning: t });
+      });
+    })();
+    return { summary, reused: true };
+  }
   const fixed = fixedParams(options.params);
   const tuning = await tuneInThread(
     file,
@@ -49,7 +108,9 @@ export async function tuneAndTrain(
     },
     {
       signal,
-      onProgress: (p) => report({ stage: 'tune', model: p.model, iteration: p.trial, iterations: p.trials, fraction: p.fraction * TUNE_SHARE }),
+      // A budgeted search does not know its trial count in advance (trials 0): the bar's fraction is its spend.
+      onProgress: (p) =>
+        report({ stage: 'tune', model: p.model, ...(p.trials > 0 && { iteration: p.trial, iterations: p.trials }), fraction: p.fraction * TUNE_SHARE }),
     },
   );
   if (signal.aborted) throw new CancelledError('training cancelled');
@@ -74,7 +135,9 @@ export async function tuneAndTrain(
 /** Stores each model's grid with the model just trained (one transaction). */
 export function storeTuning(db: Db, summary: TrainSummary, tuning: TuneResult): void {
   const repo = new ModelRepo(db);
-  const common = { k: tuning.k, seed: tuning.seed, split: tuning.split, tunedAt: Date.now() };
+  // The fingerprint of the data trained on, which the tuning read in the same state (both run on this
+  // workspace back to back; a change in between shows as a later mismatch and tunes again).
+  const common = { k: tuning.k, seed: tuning.seed, split: tuning.split, tunedAt: Date.now(), fingerprint: summary.fingerprint };
   db.transaction(() => {
     summary.models.forEach((kind, q) => {
       const grid = tuning.models.find((m) => m.model === kind);
@@ -92,18 +155,29 @@ const setting = (p: ModelTuning['fixed']) => Object.entries(p).map(([a, b]) => `
  * The job summary of a tuned training: each grid's best NDCG (or "not searched" for a model whose every grid
  * parameter the caller fixed), and the values the caller fixed, which every trial of that grid used.
  */
-export function tunedSummary(summary: Pick<TrainSummary, 'models' | 'elapsedMs'>, tuning: Pick<TuneResult, 'k' | 'split' | 'models' | 'elapsedMs'>): string {
+export function tunedSummary(
+  summary: Pick<TrainSummary, 'models' | 'elapsedMs'>,
+  tuning: Pick<TuneResult, 'k' | 'split' | 'models' | 'elapsedMs'> & Partial<Pick<TuneResult, 'budget'>>,
+): string {
   const best = tuning.models.map((m) => (m.searched ? `${m.model} NDCG@${tuning.k} ${m.ndcg.toFixed(3)}` : `${m.model} not searched`)).join(', ');
-  const text = `tuned (${tuning.split.method} split; ${best}) and trained ${plural(summary.models.length, 'model')} in ${((tuning.elapsedMs + summary.elapsedMs) / 1000).toFixed(1)} s`;
+  const fits = tuning.models.filter((m) => m.model !== 'hybrid').reduce((n, m) => n + m.trials.length, 0);
+  const spend = tuning.budget
+    ? `; ${plural(fits, 'setting')} tried for ${(tuning.budget.spentMs / Math.max(1, tuning.budget.plainMs)).toFixed(1)} of ${tuning.budget.plainFits} plain fits`
+    : '';
+  const text = `tuned (${tuning.split.method} split; ${best}${spend}) and trained ${plural(summary.models.length, 'model')} in ${((tuning.elapsedMs + summary.elapsedMs) / 1000).toFixed(1)} s`;
   const fixed = tuning.models
     .filter((m) => Object.keys(m.fixed).length)
     .map((m) => `${m.model} ${setting(m.fixed)}${m.searched ? '' : ' (every setting of its grid, so not searched)'}`);
   return fixed.length ? `${text}; fixed by you: ${fixed.join(', ')}` : text;
 }
 
-export function tunedTrainJob(db: Db, file: string, options: TrainOptions, tune: Omit<TuneOptions, 'signal' | 'onProgress'> = {}): JobBody {
+export function tunedTrainJob(db: Db, file: string, options: TrainOptions, tune: TuneRequest = {}): JobBody {
   return async (report, signal) => {
-    const { summary, tuning } = await tuneAndTrain(db, file, options, tune, report, signal);
-    return `${tunedSummary(summary, tuning)}${summary.stale ? `; ${STALE_NOTE}` : ''}`;
+    const r = await tuneAndTrain(db, file, options, tune, report, signal);
+    const after = `${r.summary.blend ? `; hybrid: ${r.summary.blend.reason}` : ''}${r.summary.stale ? `; ${STALE_NOTE}` : ''}`;
+    if ('reused' in r) {
+      return `not tuned: the data is unchanged since the last tuning, whose settings trained ${plural(r.summary.models.length, 'model')} in ${(r.summary.elapsedMs / 1000).toFixed(1)} s${after}`;
+    }
+    return `${tunedSummary(r.summary, r.tuning)}${after}`;
   };
 }

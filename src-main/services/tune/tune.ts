@@ -1,7 +1,8 @@
 /**
- * Tuning (issue 6 item 4): each model's small grid (grid.ts) is fitted on the train part of a seeded
+ * Tuning (issue 6 item 4, issue 10 item 2): each model's log grid (grid.ts) is searched by coordinate search
+ * under a budget of plain fits (model-search.ts, search.ts), every trial fitted on the train part of a seeded
  * validation split (split.ts) and measured by NDCG@K on the validation part; the best setting of each model
- * is what `train --tune` then refits on all signals. The hybrid's content weight is tuned last, over the
+ * is what `train` then refits on all signals. The hybrid's content weight is tuned last, over the
  * best item-kNN and iALS of the grid, so it can reach items nobody has interacted with (cold start: the
  * hybrid substitutes content for the collaborative and audience components of such items).
  *
@@ -18,27 +19,17 @@ import { CancelledError, InputError } from '../../core/errors.ts';
 import { evalTruth, RankingEvaluator, sampleTruth, type EvalResult } from '../../core/eval/index.ts';
 import { buildInteractionMatrix } from '../../core/matrix/build.ts';
 import { fitContent } from '../../core/models/content.ts';
-import { fitEase } from '../../core/models/ease.ts';
-import type { IalsParams } from '../../core/models/ials-params.ts';
-import { fitItemKnn } from '../../core/models/itemknn.ts';
+import type { ValueTransform } from '../../core/matrix/values.ts';
 import { trendRatios } from '../../core/models/popularity.ts';
 import type { Scorer } from '../../core/models/scorer.ts';
 import { seededRng } from '../../core/rng.ts';
 import { CustomerHybrid, HybridScorer } from '../../core/scoring/index.ts';
 import type { Dataset } from '../../core/types.ts';
 import { columnCounts, datasetDate } from '../holdout/trained.ts';
-import { fitIalsThreaded } from '../train/ials-threads.ts';
 import { TRAIN_EASE_DEFAULTS, type TrainOptions } from '../train/train-models.ts';
-import {
-  EASE_GRID,
-  fullyFixed,
-  HYBRID_CONTENT_GRID,
-  IALS_CONFIDENCE_GRID,
-  IALS_SIZE_GRID,
-  itemKnnTrials,
-  withFixed,
-  type FixedParams,
-} from './grid.ts';
+import { HYBRID_CONTENT_GRID, TUNE_BUDGET, type FixedParams } from './grid.ts';
+import { searchModels } from './model-search.ts';
+import type { AxisValue } from './search.ts';
 import { validationSplit } from './split.ts';
 
 /** Largest catalogue whose EASE λ is searched (each fit costs n³/2: seconds here, minutes at 20,000). */
@@ -66,6 +57,8 @@ export interface ModelTuning {
   fixed: TrialParams;
   /** False when the caller fixed every parameter of the model's grid, so no grid point was tried. */
   searched: boolean;
+  /** What the coordinate search covered: each axis's values, its budget and spend in plain fits, why it stopped. */
+  search?: { axes: Record<string, AxisValue[]>; budgetPlainFits: number; spentPlainFits: number; stopped: 'converged' | 'budget' };
 }
 
 export interface TuneResult {
@@ -77,6 +70,8 @@ export interface TuneResult {
   hybridContentWeight: number;
   /** The best settings as training parameters. */
   params: NonNullable<TrainOptions['params']>;
+  /** The budget in plain fits, what one plain fit of the searched models took here, and what the searches spent. */
+  budget: { plainFits: number; plainMs: number; spentMs: number };
   elapsedMs: number;
   notes: string[];
 }
@@ -87,8 +82,10 @@ export interface TuneOptions {
   seed?: number;
   /** Validation customers measured (seeded sample). Default 1,000. */
   sampleCustomers?: number;
-  /** iALS sweeps per trial. Default 15 (the training default). */
+  /** iALS sweeps of the final training (trials run fewer: grid.ts IALS_SEARCH_ITERATIONS). Default 15. */
   iterations?: number;
+  /** Plain fits the per-model searches may spend (grid.ts TUNE_BUDGET). Default 2. */
+  budget?: number;
   threads?: number;
   /** Grid parameters held at these values (the caller's own training parameters); the rest is searched. */
   fixed?: FixedParams;
@@ -101,6 +98,10 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   const k = o.k ?? 10;
   const seed = o.seed ?? 1;
   if (!Number.isInteger(k) || k < 1) throw new InputError(`k must be a whole number >= 1, got ${k}`, { column: 'k' });
+  const budget = o.budget ?? TUNE_BUDGET.default;
+  if (!(budget >= TUNE_BUDGET.min && budget <= TUNE_BUDGET.max)) {
+    throw new InputError(`budget must be from ${TUNE_BUDGET.min} to ${TUNE_BUDGET.max} plain fits, got ${budget}`, { column: 'budget' });
+  }
   if (ds.items.length === 0 || ds.signals.length === 0) throw new InputError('nothing to tune: import items and signals first');
   const notes: string[] = [];
   const split = validationSplit(ds, { seed });
@@ -113,25 +114,16 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   if (!useEase) notes.push(`EASE not tuned: ${ds.items.length} items, above ${EASE_TUNE_MAX_ITEMS} (each fit would take minutes); it trains with the default lambda`);
 
   const fixed = o.fixed ?? {};
-  const itemknn = withFixed(itemKnnTrials(), fixed.itemknn);
-  const knnSearched = !fullyFixed('itemknn', fixed);
-  const easeSearched = useEase && !fullyFixed('ease', fixed);
-  const easeLambdas = withFixed(EASE_GRID.lambda.map((lambda) => ({ lambda })), fixed.ease);
-  // iALS: the size grid's first point is the setting the confidence stage runs at (grid.ts), so the size
-  // stage skips it; fixing can merge points of either stage.
-  const ialsSearched = !fullyFixed('ials', fixed);
-  const confidences = withFixed(IALS_CONFIDENCE_GRID, fixed.ials);
-  const sizes = withFixed(IALS_SIZE_GRID, fixed.ials);
-  // A model not searched still costs one fit when the hybrid needs it (item-kNN, iALS), none for EASE.
-  const total =
-    itemknn.length + (easeSearched ? easeLambdas.length : 0) + (ialsSearched ? confidences.length + sizes.length - 1 : 1) + HYBRID_CONTENT_GRID.length;
+  // Progress: the per-model searches take the first 90% of the bar (by budget spent), the hybrid's grid the rest.
+  const SEARCH_SHARE = 0.9;
+  const total = HYBRID_CONTENT_GRID.length;
   let done = 0;
   // Fits run on this thread; yielding to the event loop before each one lets a poller (the CLI, the app's
   // job status) see the progress and a cancel arrive between trials.
   const step = async (model: string): Promise<void> => {
     await new Promise((r) => setImmediate(r));
     if (o.signal?.aborted) throw new CancelledError('tuning cancelled');
-    o.onProgress?.({ model, trial: done + 1, trials: total, fraction: done / total });
+    o.onProgress?.({ model, trial: done + 1, trials: total, fraction: SEARCH_SHARE + ((1 - SEARCH_SHARE) * done) / total });
     done++;
   };
   const measure = (name: string, m: Scorer): EvalResult => ev.evaluate({ name, scoreInto: (u, h, out) => m.scoreInto(u, h, out) });
@@ -142,51 +134,23 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
     elapsedMs: performance.now() - t0,
   });
   const fitOpts = o.signal ? { signal: o.signal } : {};
-  const models: ModelTuning[] = [];
-
-  // item-kNN: neighbours × shrinkage.
-  const knn = new Search<Scorer>('itemknn', { ...fixed.itemknn });
-  for (const p of itemknn) {
-    await step('itemknn');
-    const t0 = performance.now();
-    const m = fitItemKnn(train, p, fitOpts).model;
-    if (knnSearched) knn.offer(trial(p, measure('itemknn', m), t0), m);
-    else knn.hold(p, m);
-  }
-  models.push(knn.result());
-
-  // EASE: λ.
-  if (useEase) {
-    const ease = new Search<Scorer>('ease', { ...fixed.ease });
-    if (!easeSearched) ease.hold(easeLambdas[0]!, null);
-    else {
-      for (const { lambda } of easeLambdas) {
-        await step('ease');
-        const t0 = performance.now();
-        const m = fitEase(train, { ...TRAIN_EASE_DEFAULTS, lambda }, fitOpts).model;
-        ease.offer(trial({ lambda }, measure('ease', m), t0), null);
-      }
-    }
-    models.push(ease.result());
-  }
-
-  // iALS: confidence first, then size.
-  const ials = new Search<Scorer>('ials', { ...fixed.ials });
-  const base = { ...sizes[0]!, iterations: o.iterations ?? 15, seed };
-  const fitI = async (p: Partial<IalsParams>): Promise<void> => {
-    await step('ials');
-    const t0 = performance.now();
-    const m = (await fitIalsThreaded(train, p, { ...fitOpts, ...(o.threads !== undefined && { threads: o.threads }) })).model;
-    const shown: TrialParams = { factors: p.factors!, regularization: p.regularization!, alpha: p.alpha!, scaling: p.scaling! };
-    if (ialsSearched) ials.offer(trial(shown, measure('ials', m), t0), m);
-    else ials.hold(shown, m);
-  };
-  for (const c of confidences) await fitI({ ...base, ...c });
-  if (ialsSearched) {
-    const conf = { scaling: ials.best!.params['scaling'] as 'linear' | 'log', alpha: ials.best!.params['alpha'] as number };
-    for (const size of sizes.slice(1)) await fitI({ ...base, ...size, ...conf });
-  }
-  models.push(ials.result());
+  const iterations = o.iterations ?? 15;
+  const searched = await searchModels({
+    train,
+    measure,
+    budget,
+    useEase,
+    fixed,
+    iterations,
+    seed,
+    ...(o.threads !== undefined && { threads: o.threads }),
+    ...(o.signal && { signal: o.signal }),
+    onTrial: (model, t, spentShare) => o.onProgress?.({ model, trial: t, trials: 0, fraction: SEARCH_SHARE * spentShare }),
+  });
+  notes.push(...searched.notes);
+  const models: ModelTuning[] = [...searched.tunings];
+  const knn = { bestModel: searched.itemknn };
+  const ials = { bestModel: searched.ials };
 
   // The hybrid's content weight, over the best collaborative and affinity models.
   const content = fitContent(ds.items, {}, fitOpts).model;
@@ -216,6 +180,12 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   const bk = best('itemknn')!;
   const bi = best('ials')!;
   const be = best('ease');
+  const ialsSetting = {
+    factors: bi['factors'] as number,
+    regularization: bi['regularization'] as number,
+    alpha: bi['alpha'] as number,
+    scaling: bi['scaling'] as 'linear' | 'log',
+  };
   return {
     k,
     seed,
@@ -223,17 +193,11 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
     models,
     hybridContentWeight: best('hybrid')!['content'] as number,
     params: {
-      itemknn: { k: bk['k'] as number, shrink: bk['shrink'] as number },
-      ials: {
-        factors: bi['factors'] as number,
-        regularization: bi['regularization'] as number,
-        alpha: bi['alpha'] as number,
-        scaling: bi['scaling'] as 'linear' | 'log',
-        seed,
-        ...(o.iterations !== undefined && { iterations: o.iterations }),
-      },
-      ...(be && { ease: { ...TRAIN_EASE_DEFAULTS, lambda: be['lambda'] as number } }),
+      itemknn: { k: bk['k'] as number, shrink: bk['shrink'] as number, values: bk['values'] as ValueTransform },
+      ials: { ...ialsSetting, seed, ...(o.iterations !== undefined && { iterations: o.iterations }) },
+      ...(be && { ease: { ...TRAIN_EASE_DEFAULTS, lambda: be['lambda'] as number, values: be['values'] as ValueTransform } }),
     },
+    budget: { plainFits: budget, plainMs: searched.plainMs, spentMs: searched.spentMs },
     elapsedMs: performance.now() - started,
     notes,
   };

@@ -2,7 +2,7 @@ import { ensureDemoWorkspace, type DemoBuildOptions } from '../../services/demo.
 
 /**
  * Builds the demo workspace on first launch (nothing happens when the file exists), telling the person
- * at the terminal what is going on: it takes about half a minute, most of it training.
+ * at the terminal what is going on: it takes under a minute, most of it tuning and training.
  */
 export async function ensureDemo(
   file: string,
@@ -13,7 +13,10 @@ export async function ensureDemo(
   await build(file, {
     onStep: (step) => log(`demo workspace: ${step}`),
     onTrainProgress: (p) => {
-      if (p.model && p.model !== lastModel) log(`demo workspace: training ${(lastModel = p.model)}`);
+      if (p.stage === 'tune') {
+        if (lastModel !== 'tune') log('demo workspace: tuning the models (searching their settings)');
+        lastModel = 'tune';
+      } else if (p.model && p.model !== lastModel) log(`demo workspace: training ${(lastModel = p.model)}`);
     },
   });
 }

@@ -6,6 +6,7 @@ import { int, list, num, str } from '../flags.ts';
 import { followJob } from '../follow-job.ts';
 import { formatNumber, table } from '../format.ts';
 import { UsageError } from '../command.ts';
+import { TUNE_BUDGET } from '../../../core/models/tune-budget.ts';
 
 /** Training, evaluation, neighbours, ad-hoc proposals and the top-N export. Thin: flags → api calls → print. */
 
@@ -14,6 +15,13 @@ const val = (x: number | null | undefined) => (x === null || x === undefined ? '
 const only = <T extends object>(o: T) => Object.fromEntries(Object.entries(o).filter(([, v]) => v !== undefined)) as T;
 
 const MODEL_KINDS = ['content', 'itemknn', 'ials', 'ease', 'popularity'] as const;
+
+/** A value transform flag (presence, log, linear), refused by name otherwise. */
+function transform(env: CommandEnv, name: string): 'presence' | 'log' | 'linear' | undefined {
+  const v = str(env, name);
+  if (v !== undefined && v !== 'presence' && v !== 'log' && v !== 'linear') throw new UsageError(`--${name} must be presence, log or linear, got '${v}'`);
+  return v;
+}
 
 type StoredModel = ResponseOf<'models.list'>['models'][number];
 
@@ -45,7 +53,7 @@ function tunedCell(m: StoredModel, given: Record<string, Record<string, unknown>
 const trainCommand: CliCommand = {
   name: 'train',
   summary: 'train the models (progress on stderr, a summary at the end); --tune searches each model\'s grid first',
-  usage: ['[--models content,itemknn,ials,ease,popularity] [--factors N] [--iterations N] [--tune [--k K]] [--json]'],
+  usage: ['[--models content,itemknn,ials,ease,popularity] [--factors N] [--iterations N] [--tune | --no-tune] [--budget B] [--k K] [--json]'],
   options: {
     models: { type: 'string' },
     factors: { type: 'string' },
@@ -56,33 +64,45 @@ const trainCommand: CliCommand = {
     neighbours: { type: 'string' },
     shrink: { type: 'string' },
     lambda: { type: 'string' },
+    'knn-values': { type: 'string' },
+    'ease-values': { type: 'string' },
     threads: { type: 'string' },
     seed: { type: 'string' },
     tune: { type: 'boolean', default: false },
+    'no-tune': { type: 'boolean', default: false },
+    budget: { type: 'string' },
     k: { type: 'string' },
   },
   about: {
     models: 'comma-separated: content, itemknn, ials, ease, popularity (default all five)',
     factors: 'iALS: size of the taste vectors, 1 to 1024 (default 64)',
     iterations: 'iALS: training sweeps over customers and items (default 15)',
-    regularization: 'iALS: how strongly large factors are held back, >= 0 (default 0.01)',
+    regularization: 'iALS: how strongly large factors are held back, >= 0 (default 0.01; λ of Hu et al. eq. 3, unscaled; tuning searches 0.01 to 1000)',
     alpha: 'iALS: how much more a repeated signal counts, >= 0 (default 1)',
     scaling: 'iALS: confidence grows linear or log with the signal (default linear)',
     neighbours: 'item-kNN: similar items kept per item (default 50)',
     shrink: 'item-kNN: damping of similarities built on few customers, >= 0 (default 10)',
     lambda: "the EASE model's regularisation, above 0 (default 500)",
+    'knn-values': 'item-kNN: how a customer\'s summed signals on an item count: presence, log or linear (default presence)',
+    'ease-values': 'EASE: how a customer\'s summed signals on an item count: presence, log or linear (default presence)',
     threads: "threads to train with, 1 to 8 (default the machine's cores, at most 8)",
     seed: 'random seed for iALS and, with --tune, the validation split (default 1)',
-    tune: "search each model's small grid first, then train the best settings on all signals",
-    k: 'with --tune: the list length the grid is judged on, NDCG@K (default 10)',
+    tune: "search each model's grid first even when the data is unchanged since the last tuning",
+    'no-tune': 'train the defaults and your flags as they are, with no search',
+    budget: `what the search may spend, in plain fits of all models, ${TUNE_BUDGET.min} to ${TUNE_BUDGET.max} (default ${TUNE_BUDGET.default})`,
+    k: 'the list length the grids are judged on, NDCG@K (default 10)',
   },
   help: [
     'iALS: --factors, --iterations, --regularization, --alpha, --scaling linear|log (confidence 1+a*r or 1+a*log(1+r)), --seed',
-    'item-kNN: --neighbours, --shrink.  EASE: --lambda.',
-    '--tune: a seeded validation split (by time when the signals have times, else per customer at random), a small',
-    'grid per model chosen by NDCG@K (--k, default 10), the best refitted on all signals and stored with the grid.',
-    'A setting given with --tune (e.g. --factors 32) is held fixed while the rest of that model\'s grid is searched;',
-    'a model with every grid setting given (e.g. EASE with --lambda) is not searched.',
+    'item-kNN: --neighbours, --shrink, --knn-values.  EASE: --lambda, --ease-values.',
+    'Values: the signals of one customer on one item are summed (each weighed by its kind, decayed by age), then',
+    'the sum enters as presence (1), log (log(1+v)) or linear (v).',
+    'Tuning (by default, when the data changed since the last tuning; --tune always; --no-tune never): a seeded',
+    'validation split (by time when the signals have times, else per customer at random), a coordinate search over',
+    'each model\'s log grid judged by NDCG@K (--k, default 10) within --budget plain fits, the best refitted on all',
+    'signals and stored with what was searched. Unchanged data trains the last tuning\'s settings again.',
+    'A setting given as a flag (e.g. --factors 32) is held fixed while the rest of that model\'s grid is searched;',
+    'a model with every grid setting given (e.g. EASE with --lambda and --ease-values) is not searched.',
   ].join('\n'),
   async run(env) {
     const models = str(env, 'models')?.split(',').map((m) => m.trim()).filter(Boolean);
@@ -102,18 +122,23 @@ const trainCommand: CliCommand = {
       scaling: scaling as 'linear' | 'log' | undefined,
       seed: int(env, 'seed', 0),
     });
-    const itemknn = only({ k: int(env, 'neighbours'), shrink: nonNeg(env, 'shrink') });
+    const itemknn = only({ k: int(env, 'neighbours'), shrink: nonNeg(env, 'shrink'), values: transform(env, 'knn-values') });
     const lambda = num(env, 'lambda', (x) => x > 0, 'a number > 0');
+    const ease = only({ lambda, values: transform(env, 'ease-values') });
     const k = int(env, 'k');
-    if (k !== undefined && !env.values['tune']) throw new UsageError('--k sets the tuning cut-off; use it with --tune');
+    const noTune = env.values['no-tune'] === true;
+    if (noTune && env.values['tune']) throw new UsageError('give --tune or --no-tune, not both');
+    if (k !== undefined && noTune) throw new UsageError('--k sets the tuning cut-off; it does nothing with --no-tune');
+    const budget = num(env, 'budget', (x) => x >= TUNE_BUDGET.min && x <= TUNE_BUDGET.max, `a number of plain fits from ${TUNE_BUDGET.min} to ${TUNE_BUDGET.max}`);
+    if (budget !== undefined && noTune) throw new UsageError('--budget sets what tuning may spend; it does nothing with --no-tune');
     const { table: t } = env.api();
     const job = await call(t, 'train.start', only({
       models: models as ('content' | 'itemknn' | 'ials' | 'ease' | 'popularity')[] | undefined,
       ials: Object.keys(ials).length ? ials : undefined,
       itemknn: Object.keys(itemknn).length ? itemknn : undefined,
-      ease: lambda !== undefined ? { lambda } : undefined,
+      ease: Object.keys(ease).length ? ease : undefined,
       threads: int(env, 'threads'),
-      tune: env.values['tune'] ? only({ k: k ?? 10, seed: int(env, 'seed', 0) }) : undefined,
+      tune: noTune ? undefined : only({ k: k ?? 10, seed: int(env, 'seed', 0), when: env.values['tune'] ? ('always' as const) : ('changed' as const), budget }),
     }));
     const end = await followJob(t, job, env.io);
     const { models: stored, hybrid } = await call(t, 'models.list', {});
@@ -121,7 +146,7 @@ const trainCommand: CliCommand = {
       env.io.out(JSON.stringify({ job: end, models: stored, hybrid }, null, 2));
       return EXIT.ok;
     }
-    const given: Record<string, Record<string, unknown>> = { ials, itemknn, ease: only({ lambda }) };
+    const given: Record<string, Record<string, unknown>> = { ials, itemknn, ease };
     const trained = (kind: string) => models === undefined || models.includes(kind);
     const rows = stored.map((m) => [
       m.kind,
@@ -131,7 +156,16 @@ const trainCommand: CliCommand = {
       tunedCell(m, trained(m.kind) ? given : null),
       m.notes.join('; '),
     ]);
-    env.io.out(`${end.summary ?? 'done'}\n${table(['model', 'seconds', 'iterations', 'final loss', 'tuned', 'notes'], rows)}\n${hybridLines(hybrid).filter((l) => !(end.summary ?? '').includes(l.slice('hybrid: '.length))).join('\n')}`);
+    // What each search covered, for the models this run tuned (a tuning carried over from unchanged data included).
+    const searched = stored
+      .filter((m) => trained(m.kind) && m.tuning?.grid.search)
+      .map((m) => {
+        const g = m.tuning!.grid;
+        const axes = Object.entries(g.search!.axes).map(([a, v]) => `${a} ${v.join('/')}`).join('; ');
+        return `${m.kind}: ${plural(g.trials.length, 'setting')} tried over ${axes} (${g.search!.stopped === 'budget' ? 'budget spent' : 'no step improved'})`;
+      });
+    const hybridText = hybridLines(hybrid).filter((l) => !(end.summary ?? '').includes(l.slice('hybrid: '.length))).join('\n');
+    env.io.out(`${end.summary ?? 'done'}\n${table(['model', 'seconds', 'iterations', 'final loss', 'tuned', 'notes'], rows)}${searched.length ? `\nsearched:\n${searched.join('\n')}` : ''}\n${hybridText}`);
     return EXIT.ok;
   },
 };

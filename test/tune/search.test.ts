@@ -1,0 +1,104 @@
+import { describe, expect, it } from 'vitest';
+import { coordinateSearch, type Point } from '../../src-main/services/tune/search.ts';
+
+const REG = [0.01, 0.1, 1, 10, 100, 1000];
+const FACTORS = [32, 64, 128, 256];
+const axes = [
+  { name: 'regularization', values: REG },
+  { name: 'scaling', values: ['linear', 'log'] },
+  { name: 'factors', values: FACTORS },
+];
+
+/**
+ * A known objective: separable and unimodal along every axis, maximal at regularization 100, scaling log,
+ * factors 128. On a separable unimodal function one cycle of coordinate search reaches the optimum and the
+ * next cycle confirms it (Nocedal & Wright, Numerical Optimization, 2nd ed., 2006, §9.3).
+ */
+const objective = (p: Point) =>
+  -((Math.log10(p['regularization'] as number) - 2) ** 2) - Math.log2((p['factors'] as number) / 128) ** 2 + (p['scaling'] === 'log' ? 0.5 : 0);
+
+/** Cost model of the test: one unit per fit at 64 factors, proportional to factors. */
+const cost = (p: Point) => (p['factors'] as number) / 64;
+
+describe('coordinateSearch', () => {
+  it('finds the optimum of a separable objective from the defaults, fitting far fewer points than the grid', async () => {
+    const fitted: Point[] = [];
+    const r = await coordinateSearch({
+      axes,
+      start: { regularization: 0.01, scaling: 'linear', factors: 64 },
+      budget: 100,
+      cost,
+      evaluate: (p) => (fitted.push(p), objective(p)),
+    });
+    expect(r.best).toEqual({ regularization: 100, scaling: 'log', factors: 128 });
+    expect(r.score).toBeCloseTo(0.5, 12);
+    expect(r.stopped).toBe('converged');
+    // Each point is fitted once, and the trials are what evaluate saw.
+    expect(new Set(fitted.map((p) => JSON.stringify(p))).size).toBe(fitted.length);
+    expect(r.trials.map((t) => t.point)).toEqual(fitted);
+    expect(fitted.length).toBeLessThan(REG.length * 2 * FACTORS.length);
+    expect(r.spent).toBeCloseTo(fitted.reduce((s, p) => s + cost(p), 0), 12);
+  });
+
+  it('never spends more than its budget (counted fits × cost) and keeps the best point it could afford', async () => {
+    for (const budget of [1, 2.5, 4, 7]) {
+      let units = 0;
+      const r = await coordinateSearch({
+        axes,
+        start: { regularization: 0.01, scaling: 'linear', factors: 64 },
+        budget,
+        cost,
+        evaluate: (p) => ((units += cost(p)), objective(p)),
+      });
+      expect(units).toBeLessThanOrEqual(budget + 1e-9);
+      expect(r.spent).toBeCloseTo(units, 12);
+      expect(r.stopped).toBe('budget');
+      const top = Math.max(...r.trials.map((t) => t.score));
+      expect(r.score).toBe(top);
+    }
+  });
+
+  it('always fits the start point, even over budget, so a model is never left unfitted', async () => {
+    const r = await coordinateSearch({ axes, start: { regularization: 1, scaling: 'log', factors: 256 }, budget: 0, cost, evaluate: objective });
+    expect(r.trials).toHaveLength(1);
+    expect(r.best).toEqual({ regularization: 1, scaling: 'log', factors: 256 });
+  });
+
+  it('puts a start value that is not on the grid into its axis', async () => {
+    const r = await coordinateSearch({
+      axes: [{ name: 'lambda', values: [10, 100, 1000, 10_000] }],
+      start: { lambda: 500 },
+      budget: 10,
+      cost: () => 1,
+      evaluate: (p) => -Math.abs(Math.log10(p['lambda'] as number) - 1.5),
+    });
+    expect(r.trials.map((t) => t.point['lambda'])).toEqual([500, 1000, 100, 10]);
+    expect(r.best).toEqual({ lambda: 100 });
+  });
+
+  it('stops with CancelledError between trials once cancelled, and reports each trial before it runs', async () => {
+    const ac = new AbortController();
+    const seen: number[] = [];
+    await expect(
+      coordinateSearch({
+        axes,
+        start: { regularization: 0.01, scaling: 'linear', factors: 64 },
+        budget: 100,
+        cost,
+        signal: ac.signal,
+        onTrial: (t) => seen.push(t.trial),
+        evaluate: (p) => {
+          if (seen.length === 3) ac.abort();
+          return objective(p);
+        },
+      }),
+    ).rejects.toThrow(/cancelled/);
+    expect(seen).toEqual([1, 2, 3]);
+  });
+
+  it('refuses a negative budget', async () => {
+    await expect(coordinateSearch({ axes, start: { regularization: 1, scaling: 'log', factors: 64 }, budget: -1, cost, evaluate: objective })).rejects.toThrow(
+      /budget must be a finite number >= 0, got -1/,
+    );
+  });
+});

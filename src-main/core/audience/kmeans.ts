@@ -77,6 +77,20 @@ function seedPlusPlus(x: Float32Array | Float64Array, n: number, dim: number, k:
   }
 }
 
+/** The k-means++ starting centres alone (k × dim), as `kMeans` draws them from the same stream. */
+export function kMeansPlusPlus(x: Float32Array | Float64Array, n: number, dim: number, k: number, rng: Rng): Float64Array {
+  checkShape(x, n, dim, k);
+  const xx = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    let s = 0;
+    for (let f = 0; f < dim; f++) s += (x[i * dim + f] as number) ** 2;
+    xx[i] = s;
+  }
+  const c = new Float64Array(k * dim);
+  seedPlusPlus(x, n, dim, k, rng, xx, c, new Float64Array(n));
+  return c;
+}
+
 export function kMeans(x: Float32Array | Float64Array, n: number, dim: number, k: number, rng: Rng, options: KMeansOptions | number = {}): KMeansResult {
   checkShape(x, n, dim, k);
   const opts: KMeansOptions = typeof options === 'number' ? { maxIterations: options } : options;

@@ -5,8 +5,8 @@
  * of the runs and the split between choosing k on the sample and fitting every customer.
  */
 import os from 'node:os';
-import { adjustedRandIndex, findTasteGroups } from '../src-main/core/audience/index.ts';
-import { seededRng } from '../src-main/core/rng.ts';
+import { adjustedRandIndex, findTasteGroups } from '../../src-main/core/audience/index.ts';
+import { seededRng } from '../../src-main/core/rng.ts';
 
 const N = Number(process.env.GROUPS_N ?? 200_000);
 const DIM = 64;

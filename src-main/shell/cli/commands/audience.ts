@@ -26,7 +26,7 @@ function printGroups(env: CommandEnv, r: Groups): number {
         r.groups.map((g) => [g.group, g.name ?? '–', g.customers, fixed(g.cohesion), `${g.nearest} (${fixed(g.separation)})`, fixed(g.silhouette), lifts(g.categories), lifts(g.tags)]),
       ),
       '',
-      'cohesion: mean cosine of members to their group; separation: cosine distance to the nearest group; silhouette: Rousseeuw (1987), -1..1, above 0.25 a real structure',
+      'cohesion: mean cosine of members to their group; separation: cosine distance to the nearest group; silhouette: Rousseeuw (1987), -1..1, higher is better separated',
       ...r.unmatchedNames.map((n) => `note: the group named '${n}' is no longer found (it split, merged or dissolved); its name is kept until removed`),
     ].join('\n'),
   );

@@ -35,7 +35,7 @@ function GroupCard({ g, all, shelfOpen }: { g: Group; all: Group[]; shelfOpen: b
   return (
     <article className="panel" aria-labelledby={`${id}-h`}>
       <h2 id={`${id}-h`}>
-        {title} <span className="muted small">group {g.group}</span>
+        {title} {g.name && <span className="muted small">group {g.group}</span>}
       </h2>
       {loose(g, all) && <p className="warn">Loose group: its members agree far less than other groups' do; a shelf aimed here has no clear taste to serve.</p>}
       <p>

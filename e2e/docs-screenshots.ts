@@ -1,6 +1,6 @@
 /**
- * The README's two pictures, from a real (demo) workspace: `npx tsx e2e/docs-screenshots.ts WORKSPACE`
- * writes docs/screenshots/overview.png and shelf-editor.png at 1280×800. It works on a copy of the
+ * The README's pictures, from a real (demo) workspace: `npx tsx e2e/docs-screenshots.ts WORKSPACE`
+ * writes docs/screenshots/overview.png, shelf-editor.png and groups.png at 1280×800. It works on a copy of the
  * workspace, so the original is never changed. A script, not a test: run it when the screens change.
  */
 import fs from 'node:fs';
@@ -52,7 +52,11 @@ async function main(): Promise<void> {
     await pool.getByRole('listitem').first().hover();
     await page.getByText(/^If .* went into slot 1:/).waitFor();
     await page.screenshot({ path: path.join(out, 'shelf-editor.png') });
-    console.log(`wrote ${out}/overview.png and shelf-editor.png`);
+
+    await screens.getByRole('button', { name: 'Taste groups', exact: true }).click();
+    await page.getByRole('list', { name: 'Customers per group' }).waitFor({ timeout: 60_000 });
+    await page.screenshot({ path: path.join(out, 'groups.png') });
+    console.log(`wrote ${out}/overview.png, shelf-editor.png and groups.png`);
   } finally {
     await browser.close();
     await shell.close();

@@ -1,6 +1,7 @@
 import { useEffect } from 'react';
 import { Board } from './screens/Board.tsx';
 import { Editions } from './screens/Editions.tsx';
+import { Groups } from './screens/Groups.tsx';
 import { History } from './screens/History.tsx';
 import { Import } from './screens/Import.tsx';
 import { Models } from './screens/Models.tsx';
@@ -20,6 +21,8 @@ function Screen({ id }: { id: ScreenId }) {
       return <Import />;
     case 'models':
       return <Models />;
+    case 'groups':
+      return <Groups />;
     case 'editions':
       return <Editions />;
     case 'board':
@@ -68,6 +71,7 @@ export function App() {
     { id: 'overview', label: 'Overview' },
     { id: 'import', label: 'Import' },
     { id: 'models', label: 'Models' },
+    { id: 'groups', label: 'Taste groups' },
     { id: 'editions', label: 'Editions' },
     ...(edition ? [{ id: 'board' as const, label: `Edition: ${edition}` }] : []),
     ...(edition && shelf ? [{ id: 'shelf' as const, label: `Shelf: ${shelf}` }] : []),

@@ -35,6 +35,10 @@ export interface InsightSlice {
   searchItems(query: string): Promise<void>;
   proposeWith(req: ProposeRequest): Promise<void>;
   loadGroups(): Promise<void>;
+  /** Changes the range the number of groups is chosen in, or the history needed (saved for the workspace). */
+  setGroupSettings(settings: RequestOf<'audience.settings'>): Promise<boolean>;
+  /** Names a group, or removes a name (`group` null). */
+  nameGroup(group: number | null, name: string): Promise<boolean>;
   forgetCustomer(customer: string): Promise<boolean>;
 }
 
@@ -75,6 +79,9 @@ export function createInsightSlice(client: Client): StateCreator<AppState, [], [
         void (await run('search', () => client.call('item.search', { query, limit: 12 }), (r) => ({ search: r.items }))),
       proposeWith: async (req) => void (await run('propose', () => client.call('propose', req), (proposal) => ({ proposal }))),
       loadGroups: async () => void (await run('groups', () => client.call('audience.groups', {}), (groups) => ({ groups }))),
+      setGroupSettings: (settings) => run('groups', () => client.call('audience.settings', settings), (groups) => ({ groups })),
+      nameGroup: (group, name) =>
+        run('groups', () => client.call('audience.name', group === null ? { remove: name } : { group, name }), (groups) => ({ groups })),
       async forgetCustomer(customer) {
         // An unknown id is the editor's typo, not a vanished record: say so without the generic "refresh".
         const typo = (e: unknown) => (e instanceof ApiCallError && e.code === 'not_found' ? `${e.message}.` : describeError(e));

@@ -122,6 +122,34 @@ export const BacktestView = z.object({
 });
 
 const LiftEntry = z.object({ value: z.string(), share: z.number(), lift: z.number() });
+/** Taste groups as the editor sees them (services/curation/taste-groups.ts). */
+const TasteGroupsView = z.object({
+  k: z.number().int(),
+  settings: z.object({ minK: z.number().int(), maxK: z.number().int(), minHistory: z.number().int() }),
+  criterion: z.string(),
+  tried: z.array(z.object({ k: z.number().int(), silhouette: z.number() })),
+  silhouette: z.number(),
+  sampled: z.number().int(),
+  notEnoughHistory: z.number().int(),
+  customers: z.number().int(),
+  groups: z.array(
+    z.object({
+      group: z.number().int(),
+      name: z.string().nullable(),
+      nameOverlap: z.number(),
+      customers: z.number().int(),
+      signals: z.number().int(),
+      cohesion: z.number(),
+      nearest: z.number().int(),
+      separation: z.number(),
+      silhouette: z.number().nullable(),
+      categories: z.array(LiftEntry),
+      tags: z.array(LiftEntry),
+      examples: z.array(z.object({ id: z.string(), title: z.string(), category: z.string() })),
+    }),
+  ),
+  unmatchedNames: z.array(z.string()),
+});
 
 export const curationMethods = {
   'edition.new': method({
@@ -220,19 +248,27 @@ export const curationMethods = {
     }),
   }),
   'audience.groups': method({
-    summary: 'The taste groups found in the iALS customer factors, each described by its top categories and tags by lift.',
+    summary: 'The taste groups found in the iALS customer factors (unit vectors, k chosen by silhouette): size, cohesion, separation, name, top categories and tags by lift, example items.',
     request: z.object({}).strict(),
-    response: z.object({
-      k: z.number().int(),
-      groups: z.array(
-        z.object({
-          group: z.number().int(),
-          customers: z.number().int(),
-          signals: z.number().int(),
-          categories: z.array(LiftEntry),
-          tags: z.array(LiftEntry),
-        }),
-      ),
-    }),
+    response: TasteGroupsView,
+  }),
+  'audience.settings': method({
+    summary: 'Change the range the number of taste groups is chosen in, and the distinct items a customer needs to join a group; answers the groups found with them.',
+    request: z
+      .object({
+        minK: z.number().int().min(2).max(50).optional(),
+        maxK: z.number().int().min(2).max(50).optional(),
+        minHistory: z.number().int().min(1).max(1000).optional(),
+      })
+      .strict(),
+    response: TasteGroupsView,
+  }),
+  'audience.name': method({
+    summary: 'Name a taste group (the name follows its customers into later trainings while the group is still there), or remove a name.',
+    request: z.union([
+      z.object({ group: z.number().int().min(0), name: z.string().trim().min(1, 'give the group a name').max(60) }).strict(),
+      z.object({ remove: z.string().trim().min(1, 'name the group name to remove') }).strict(),
+    ]),
+    response: TasteGroupsView,
   }),
 };

@@ -1,6 +1,7 @@
 import { anchorExternalIds, anchorRowIds } from '../../services/curation/anchors.ts';
 import { backtestShelf } from '../../services/curation/backtest.ts';
-import { curationModelSource, describeTasteGroups, GROUP_COUNT } from '../../services/curation/model-source.ts';
+import { curationModelSource } from '../../services/curation/model-source.ts';
+import { forgetTasteGroupName, nameTasteGroup, setTasteGroupSettings, tasteGroupsView } from '../../services/curation/taste-groups.ts';
 import { CurationService, type ActionRequest } from '../../services/curation/service.ts';
 import type { EditionView, ShelfView } from '../../services/curation/views.ts';
 import { exportEdition } from '../../services/export/index.ts';
@@ -45,7 +46,9 @@ type Names =
   | 'shelf.whatif'
   | 'shelf.backtest'
   | 'customer.forget'
-  | 'audience.groups';
+  | 'audience.groups'
+  | 'audience.settings'
+  | 'audience.name';
 
 export function curationHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
   const svc = () => new CurationService(ctx.db, curationModelSource);
@@ -87,9 +90,17 @@ export function curationHandlers(ctx: AppContext): { [M in Names]: Handler<M> } 
       return finite(backtestShelf(s.world(), sh, s.shelves.slots(sh.id), r.windowDays));
     },
     'customer.forget': (r) => forgetCustomer(ctx.db, r.customer),
-    'audience.groups': () => {
-      const world = svc().world();
-      return { k: GROUP_COUNT, groups: describeTasteGroups(ctx.db, world.ds) };
+    'audience.groups': () => finite(tasteGroupsView(ctx.db, svc().world().ds)),
+    'audience.settings': (r) => {
+      const s: Parameters<typeof setTasteGroupSettings>[2] = {};
+      if (r.minK !== undefined) s.minK = r.minK;
+      if (r.maxK !== undefined) s.maxK = r.maxK;
+      if (r.minHistory !== undefined) s.minHistory = r.minHistory;
+      return finite(setTasteGroupSettings(ctx.db, svc().world().ds, s));
+    },
+    'audience.name': (r) => {
+      const ds = svc().world().ds;
+      return finite('remove' in r ? forgetTasteGroupName(ctx.db, ds, r.remove) : nameTasteGroup(ctx.db, ds, r.group, r.name));
     },
   };
 }

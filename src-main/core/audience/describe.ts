@@ -20,11 +20,22 @@ export interface GroupDescription {
   signals: number;
   categories: LiftEntry[];
   tags: LiftEntry[];
+  /** Dense indices of the items the group engages with most among those it over-uses (lift > 1), most signals first. */
+  examples: number[];
 }
 
 export interface DescribeOptions {
   top?: number;
   minShare?: number;
+  /** Example items per group (default 5). */
+  examples?: number;
+}
+
+/** The `n` items with most group signals among those with lift > 1 (more of the group's signals than everyone's). */
+function exampleItems(counts: Int32Array, all: Int32Array, gTotal: number, total: number, n: number): number[] {
+  const out: number[] = [];
+  for (let i = 0; i < counts.length; i++) if ((counts[i] as number) > 0 && (counts[i] as number) / gTotal > (all[i] as number) / total) out.push(i);
+  return out.sort((a, b) => (counts[b] as number) - (counts[a] as number) || a - b).slice(0, n);
 }
 
 function topByLift(groupCounts: Map<string, number>, allCounts: Map<string, number>, gTotal: number, total: number, top: number, minShare: number): LiftEntry[] {
@@ -46,6 +57,9 @@ export function describeGroups(ds: Dataset, assignment: Int32Array, k: number, o
   const tagAll = new Map<string, number>();
   const cat = Array.from({ length: k }, () => new Map<string, number>());
   const tag = Array.from({ length: k }, () => new Map<string, number>());
+  const nExamples = options.examples ?? 5;
+  const itemAll = new Int32Array(ds.items.length);
+  const itemIn = Array.from({ length: k }, () => new Int32Array(ds.items.length));
   const sig = new Int32Array(k);
   const members = new Int32Array(k);
   for (const g of assignment) if (g >= 0 && g < k) members[g]!++;
@@ -53,11 +67,13 @@ export function describeGroups(ds: Dataset, assignment: Int32Array, k: number, o
   const s = ds.signals;
   for (let q = 0; q < s.length; q++) {
     const it = ds.items[s.item[q]!]!;
+    itemAll[s.item[q]!]!++;
     inc(catAll, it.category);
     for (const t of it.tags) inc(tagAll, t);
     const g = assignment[s.customer[q]!]!;
     if (g < 0 || g >= k) continue;
     sig[g]!++;
+    itemIn[g]![s.item[q]!]!++;
     inc(cat[g]!, it.category);
     for (const t of it.tags) inc(tag[g]!, t);
   }
@@ -67,5 +83,6 @@ export function describeGroups(ds: Dataset, assignment: Int32Array, k: number, o
     signals: sig[g]!,
     categories: sig[g]! === 0 ? [] : topByLift(cat[g]!, catAll, sig[g]!, s.length, top, minShare),
     tags: sig[g]! === 0 ? [] : topByLift(tag[g]!, tagAll, sig[g]!, s.length, top, minShare),
+    examples: sig[g]! === 0 ? [] : exampleItems(itemIn[g]!, itemAll, sig[g]!, s.length, nExamples),
   }));
 }

@@ -87,9 +87,9 @@ function customersPerItemOf(ds: Dataset, byCustomer: { ptr: Int32Array; signal: 
 /**
  * What the world depends on, read in one query (under a millisecond on the demo shop): the catalogue, the
  * signals, the customers, and the trained models (the newest model id, the current ones and their
- * training times, so a retrain or a rollback to an older model both show). Item flags are weighted by the
- * item's id, so one item going out of stock as another comes back changes the stamp. An item's text or
- * price edited in place is not seen: this runs on every editorial action, and reading every item's fields
+ * training times, so a retrain or a rollback to an older model both show), and the taste-group settings.
+ * Item flags are weighted by the item's id, so one item going out of stock as another comes back changes the
+ * stamp. An item's text or price edited in place is not seen: this runs on every editorial action, and reading every item's fields
  * (as the data fingerprint in store/models.ts does) costs tens of milliseconds.
  */
 const STAMP_SQL = `SELECT (SELECT count(*) FROM item) AS i, (SELECT coalesce(max(id), 0) FROM item) AS mi,
@@ -97,6 +97,7 @@ const STAMP_SQL = `SELECT (SELECT count(*) FROM item) AS i, (SELECT coalesce(max
         (SELECT count(*) FROM customer) AS c,
         (SELECT total(id * (1 + promoted + 2 * available)) FROM item) AS f,
         (SELECT coalesce(max(id), 0) FROM model) AS mm,
+        (SELECT min_k || ':' || max_k || ':' || min_history FROM taste_group_settings) AS g,
         (SELECT coalesce(group_concat(id || ':' || trained_at), '') FROM (SELECT id, trained_at FROM model WHERE current = 1 ORDER BY id)) AS cm`;
 
 const stampQuery = new WeakMap<Db, { get(): unknown }>();

@@ -535,23 +535,6 @@ export const curationCommands: CliCommand[] = [
     },
   },
   {
-    name: 'audience groups',
-    summary: 'the taste groups found in the iALS customer factors, by their top categories and tags',
-    usage: [''],
-    options: {},
-    about: {},
-    help: '  use a group in a brief with --audience group:N\n\nexample:\n  shelfwright audience groups',
-    async run(env) {
-      positionals(env, []);
-      const { table: t } = env.api();
-      const r = await call(t, 'audience.groups', {});
-      const lifts = (xs: { value: string; lift: number }[]) => xs.map((x) => `${x.value} ×${formatNumber(x.lift)}`).join(', ') || '–';
-      if (env.json) env.io.out(JSON.stringify(r, null, 2));
-      else env.io.out(table(['group', 'customers', 'top categories (lift)', 'top tags (lift)'], r.groups.map((g) => [g.group, g.customers, lifts(g.categories), lifts(g.tags)])));
-      return EXIT.ok;
-    },
-  },
-  {
     name: 'forget',
     summary: "erase one customer's signals and row on request",
     usage: ['CUSTOMER'],

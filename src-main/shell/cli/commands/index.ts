@@ -1,4 +1,5 @@
 import type { CliCommand } from '../command.ts';
+import { audienceCommands } from './audience.ts';
 import { curationCommands } from './curation.ts';
 import { demoCommand, importCommand, statsCommand } from './data.ts';
 import { modelCommands } from './models.ts';
@@ -12,4 +13,5 @@ export const COMMANDS: readonly CliCommand[] = [
   demoCommand,
   ...modelCommands,
   ...curationCommands,
+  ...audienceCommands,
 ];

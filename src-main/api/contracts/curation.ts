@@ -50,6 +50,14 @@ export const ApiBrief = BriefSchema.extend({
   anchors: z.array(z.string().trim().min(1, 'name each anchor by its item id')).default([]),
 });
 
+const Named = { item: z.string(), title: z.string() };
+export const ChangesView = z.object({
+  entered: z.array(z.object({ ...Named, slot: z.number().int() })),
+  left: z.array(z.object({ ...Named, slot: z.number().int(), why: z.string() })),
+  moved: z.array(z.object({ ...Named, from: z.number().int(), to: z.number().int() })),
+});
+export type ChangesView = z.infer<typeof ChangesView>;
+
 export const ShelfView = z.object({
   edition: z.string(),
   label: z.string(),
@@ -67,6 +75,10 @@ export const ShelfView = z.object({
   actions: z.array(
     z.object({ seq: z.number().int(), kind: z.string(), reason: z.string().nullable(), at: z.number(), undone: z.boolean() }),
   ),
+  /** After a fill or an action: what changed against the list before (slots 1-based), for highlighting. */
+  changes: ChangesView.optional(),
+  /** Predicted relevance a full refill would have over the kept list (the meter's measure); null after Refill. */
+  relevanceGivenUp: z.number().nullable().optional(),
 });
 export type ShelfView = z.infer<typeof ShelfView>;
 

@@ -60,9 +60,22 @@ export interface Before {
   frozen: number[] | null;
 }
 
+/**
+ * A shelf's list around an action, by workspace item id per slot (null = empty): what undo puts back.
+ * The stable fill makes a list depend on the lists before it, not only on the editorial state, so the
+ * record keeps the list each touched shelf had before (with its violations) and the list it left.
+ */
+export interface ListAround {
+  before: (number | null)[];
+  beforeViolations: { rule: string; reason: string }[];
+  after: (number | null)[];
+}
+
 export interface EditRecord {
   action: EditAction;
   before: Before;
+  /** Shelf id -> its list around the action, for every shelf whose list the action changed. */
+  lists?: Record<string, ListAround>;
 }
 
 export function emptyEdits(): ShelfEdits {

@@ -5,6 +5,7 @@
  */
 import type { EditionMeter, RuleViolation, ShelfMeter } from '../../core/curation/types.ts';
 import type { Brief } from '../../core/curation/types.ts';
+import type { ListChanges } from '../../core/curation/stable-fill.ts';
 import type { Item } from '../../core/types.ts';
 import type { Edition } from '../../store/editions.ts';
 import type { ActionEntry } from '../../store/editorial-actions.ts';
@@ -49,6 +50,34 @@ export interface ShelfView {
   canUndo: boolean;
   canRedo: boolean;
   actions: ActionView[];
+  /** After a fill or an action: what changed against the list before (slots 1-based). */
+  changes?: ChangesView;
+  /** Predicted relevance (the meter's) a full refill would have over the kept list; null after a refill. */
+  relevanceGivenUp?: number | null;
+}
+
+export interface ChangedItem {
+  item: string;
+  title: string;
+}
+
+export interface ChangesView {
+  entered: (ChangedItem & { slot: number })[];
+  left: (ChangedItem & { slot: number; why: string })[];
+  moved: (ChangedItem & { from: number; to: number })[];
+}
+
+/** A fill's list changes in the editor's terms: external ids, titles, 1-based slots. */
+export function changesView(c: ListChanges, itemAt: (dense: number) => Item | undefined): ChangesView {
+  const named = (i: number): ChangedItem => {
+    const it = itemAt(i);
+    return { item: it?.externalId ?? String(i), title: it?.title ?? it?.externalId ?? String(i) };
+  };
+  return {
+    entered: c.entered.map((e) => ({ ...named(e.item), slot: e.slot + 1 })),
+    left: c.left.map((e) => ({ ...named(e.item), slot: e.slot + 1, why: e.why })),
+    moved: c.moved.map((e) => ({ ...named(e.item), from: e.from + 1, to: e.to + 1 })),
+  };
 }
 
 export interface EditionView {

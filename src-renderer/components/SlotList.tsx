@@ -1,9 +1,11 @@
 import { DndContext, KeyboardSensor, PointerSensor, closestCenter, useSensor, useSensors, type DragEndEvent } from '@dnd-kit/core';
 import { SortableContext, sortableKeyboardCoordinates, useSortable, verticalListSortingStrategy } from '@dnd-kit/sortable';
 import type { ShelfAction, ShelfView } from '../state/curation-slice.ts';
+import type { changeMarks } from './change-words.ts';
 import { topPercent } from './format.ts';
 
 type Slot = ShelfView['slots'][number];
+type Mark = ReturnType<typeof changeMarks> extends Map<string, infer M> ? M : never;
 
 /** Component contributions as labelled bars: why the scorer proposed the item (the numbers are in the text too). */
 export function ExplanationBars({ contributions }: { contributions: Record<string, number> }) {
@@ -28,10 +30,12 @@ export function ExplanationBars({ contributions }: { contributions: Record<strin
 interface RowProps {
   slot: Slot;
   readOnly: boolean;
+  /** How the last change touched this item, if it did: shown in words, not colour alone. */
+  mark: Mark | undefined;
   onAct(action: ShelfAction): void;
 }
 
-function SlotRow({ slot, readOnly, onAct }: RowProps) {
+function SlotRow({ slot, readOnly, mark, onAct }: RowProps) {
   const { attributes, listeners, setNodeRef, transform, transition, isDragging } = useSortable({
     id: String(slot.slot),
     disabled: readOnly || !slot.item,
@@ -44,7 +48,12 @@ function SlotRow({ slot, readOnly, onAct }: RowProps) {
   const name = slot.title ?? `slot ${slot.slot}`;
   const item = slot.item;
   return (
-    <li ref={setNodeRef} style={style} className={`slot${slot.pinned ? ' pinned' : ''}`} aria-label={`Slot ${slot.slot}: ${name}`}>
+    <li
+      ref={setNodeRef}
+      style={style}
+      className={`slot${slot.pinned ? ' pinned' : ''}${mark ? ' changed' : ''}`}
+      aria-label={`Slot ${slot.slot}: ${name}`}
+    >
       <button type="button" className="handle" aria-label={`Move ${name} (slot ${slot.slot})`} disabled={readOnly || !item} {...attributes} {...listeners}>
         ⋮⋮
       </button>
@@ -52,7 +61,9 @@ function SlotRow({ slot, readOnly, onAct }: RowProps) {
       <div className="slot-main">
         <p className="slot-title">
           {slot.title ?? <span className="muted">Empty: no candidate meets the brief</span>}{' '}
-          {slot.promoted && <span className="sponsored">Sponsored</span>} {slot.pinned && <span className="tag">Pinned</span>}
+          {slot.promoted && <span className="sponsored">Sponsored</span>} {slot.pinned && <span className="tag">Pinned</span>}{' '}
+          {mark?.kind === 'entered' && <span className="tag change">New here</span>}
+          {mark?.kind === 'moved' && <span className="tag change">Was slot {mark.from}</span>}
         </p>
         {item && (
           <p className="muted small">
@@ -91,7 +102,17 @@ function SlotRow({ slot, readOnly, onAct }: RowProps) {
  * The slots, reorderable by pointer or keyboard (space to lift, arrows to move, space to drop: dnd-kit's
  * KeyboardSensor with sortableKeyboardCoordinates). A drop becomes one `move` action, so undo covers it.
  */
-export function SlotList({ slots, readOnly, onAct }: { slots: readonly Slot[]; readOnly: boolean; onAct(a: ShelfAction): void }) {
+export function SlotList({
+  slots,
+  readOnly,
+  marks = new Map(),
+  onAct,
+}: {
+  slots: readonly Slot[];
+  readOnly: boolean;
+  marks?: ReadonlyMap<string, Mark>;
+  onAct(a: ShelfAction): void;
+}) {
   const sensors = useSensors(useSensor(PointerSensor), useSensor(KeyboardSensor, { coordinateGetter: sortableKeyboardCoordinates }));
   const onDragEnd = (e: DragEndEvent) => {
     if (!e.over || e.active.id === e.over.id) return;
@@ -115,7 +136,7 @@ export function SlotList({ slots, readOnly, onAct }: { slots: readonly Slot[]; r
       <SortableContext items={slots.map((s) => String(s.slot))} strategy={verticalListSortingStrategy}>
         <ol className="slots" aria-label="Slots">
           {slots.map((s) => (
-            <SlotRow key={s.slot} slot={s} readOnly={readOnly} onAct={onAct} />
+            <SlotRow key={s.slot} slot={s} readOnly={readOnly} mark={s.item === null ? undefined : marks.get(s.item)} onAct={onAct} />
           ))}
         </ol>
       </SortableContext>

@@ -6,6 +6,7 @@ import { CandidatePool } from '../components/CandidatePool.tsx';
 import { ShelfMeterPanel } from '../components/Meter.tsx';
 import { BacktestPanel, SimilarPanel } from '../components/ShelfInsights.tsx';
 import { SlotList } from '../components/SlotList.tsx';
+import { changeMarks, describeChanges } from '../components/change-words.ts';
 import { useApp } from '../state/store.ts';
 
 const ACTION_WORDS: Record<string, string> = {
@@ -28,6 +29,7 @@ export function ShelfEditor() {
   const error = useApp((s) => s.curation.errors.shelf);
   const busy = useApp((s) => s.curation.busy);
   const lastMs = useApp((s) => s.curation.lastActionMs);
+  const lastChange = useApp((s) => s.curation.lastChange);
   const act = useApp((s) => s.act);
   const undo = useApp((s) => s.undo);
   const redo = useApp((s) => s.redo);
@@ -37,6 +39,8 @@ export function ShelfEditor() {
   const focused = whatif.result?.candidates.find((c) => c.item === whatif.focus) ?? null;
   const preview = focused && whatif.result ? { title: focused.title, slot: whatif.result.slot, delta: focused.delta } : null;
   const readOnly = published || shelf.locked;
+  const change = lastChange && lastChange.edition === shelf.edition && lastChange.shelf === shelf.label ? lastChange : null;
+  const changeWords = change ? describeChanges(change.changes) : [];
   return (
     <section className="screen" aria-labelledby="shelf-h">
       <header className="screen-head">
@@ -73,6 +77,17 @@ export function ShelfEditor() {
         {shelf.locked ? ' · locked: unlock to change it' : ''}
         {lastMs !== null ? ` · last change shown in ${Math.round(lastMs)} ms` : ''}
       </p>
+      <p className="small changes-line" aria-live="polite">
+        {change && (changeWords.length > 0 ? changeWords.join(' ') : 'The list did not change.')}
+        {change && change.relevanceGivenUp !== null && Number.isFinite(change.relevanceGivenUp) && (
+          <span className="muted">
+            {' '}
+            {change.relevanceGivenUp > 0.0005
+              ? `Keeping the list gives up ${change.relevanceGivenUp.toFixed(3)} of predicted relevance against a refill.`
+              : 'Keeping the list gives up no predicted relevance against a refill.'}
+          </span>
+        )}
+      </p>
       {describeExclusions(shelf.excluded) && <p className="muted small">Left out of the pool: {describeExclusions(shelf.excluded)}</p>}
       {shelf.violations.length > 0 && (
         <div className="warn" role="status">
@@ -87,7 +102,7 @@ export function ShelfEditor() {
         </div>
       )}
       <div className="editor-grid">
-        <SlotList slots={shelf.slots} readOnly={readOnly} onAct={(a) => void act(a)} />
+        <SlotList slots={shelf.slots} readOnly={readOnly} marks={changeMarks(change?.changes ?? null)} onAct={(a) => void act(a)} />
         <div className="side">
           <ShelfMeterPanel meter={shelf.meter} title="Shelf meter" preview={preview} />
           <CandidatePool shelf={shelf} slot={Math.min(slot, shelf.size)} onSlot={setSlot} readOnly={readOnly} onAct={(a) => void act(a)} />

@@ -26,6 +26,8 @@ const caseArb = fc.record({
   randomList: fc.boolean(),
 });
 
+type Case = typeof caseArb extends fc.Arbitrary<infer T> ? T : never;
+
 interface World {
   ctx: CurationContext;
   b: Brief;
@@ -43,7 +45,7 @@ function candidatesOf(ctx: CurationContext, b: Brief, st: EditorialState, rel: F
 const onList = (slots: Int32Array) => new Set(Array.from(slots).filter((i) => i >= 0));
 
 /** A world with no quotas or promoted bounds (no rule can force a change), and an admissible current list. */
-function world(c: fc.RecordValue<typeof caseArb>): World {
+function world(c: Case): World {
   const ctx = randomContext(c.seed, c.items, 4);
   const b = brief({ size: c.size, lambda: c.lambda });
   const rng = seededRng(c.seed + 1);

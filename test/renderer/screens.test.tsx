@@ -74,6 +74,24 @@ describe('shelf editor', () => {
     expect(screen.getByText(/^Pinned$/, { selector: '.history li' })).toBeTruthy();
   });
 
+  it('marks and says what an action changed: a pin to slot 1 shifts the items above it down by one', async () => {
+    await openRowInEditor(store, '2026-12-07', 12);
+    renderApp();
+    const slots = await screen.findByRole('list', { name: 'Slots' });
+    const before = store.getState().curation.edition!.shelves[0]!.slots.map((x) => x.title);
+    const fifth = store.getState().curation.edition!.shelves[0]!.slots[4]!;
+    await store.getState().act({ kind: 'pin', slot: 1, item: fifth.item! });
+    const first = await within(slots).findByRole('listitem', { name: new RegExp(`^Slot 1: ${fifth.title}$`) });
+    expect(within(first).getByText('Was slot 5')).toBeTruthy();
+    expect(within(within(slots).getByRole('listitem', { name: /^Slot 2:/ })).getByText('Was slot 1')).toBeTruthy();
+    // Slots 6 to 12 kept their items and carry no mark.
+    expect(within(within(slots).getByRole('listitem', { name: /^Slot 6:/ })).queryByText(/^Was slot|^New here/)).toBeNull();
+    const said = screen.getByText(/^Moved /, { selector: '.changes-line' });
+    expect(said.textContent).toContain(`${fifth.title}, slot 5 → 1`);
+    expect(said.textContent).toContain(`${before[0]}, slot 1 → 2`);
+    expect(said.getAttribute('aria-live')).toBe('polite');
+  });
+
   it('says why items are missing from the pool: here, added after a back-dated edition', async () => {
     // The seed adds item k (0-based) on 1 October 2026 + k days: on 5 October, seven of twelve are still to come.
     await openRowInEditor(store, '2026-10-05', 4, 'Early');

@@ -7,6 +7,21 @@ import { capture } from './capture.ts';
 import { seededCli } from './seeded-cli.ts';
 
 describe('shelfwright edition and shelf commands', () => {
+  it('says what an action changed, and refill starts the shelf over', async () => {
+    const { run, json } = seededCli();
+    await run('edition', 'new', 'w', '--date', '2026-03-02');
+    const v0 = await json('shelf', 'add', 'w', 'Front', '--size', '4');
+    const items = v0.slots.map((s: { item: string }) => s.item);
+    const off = Array.from({ length: 40 }, (_, k) => `SKU-${String(k + 1).padStart(3, '0')}`).find((x) => !items.includes(x))!;
+    const pinned = await run('shelf', 'pin', 'w', 'Front', off, '--slot', '1');
+    expect(pinned.out).toContain(`changed:\n  + ${off}`);
+    expect(pinned.out).toMatch(new RegExp(`  - ${items[3]} .* from slot 4 \\(pushed off the end of the shelf\\)`));
+    expect(pinned.out).toMatch(/relevance given up against a refill: /);
+    const refilled = await run('shelf', 'refill', 'w', 'Front');
+    expect(refilled.code).toBe(0);
+    expect(refilled.out).toMatch(/changed:/);
+  });
+
   it('walks an edition from shelves to publish, rest period, compare and export', async () => {
     const { file: w, run, json } = seededCli();
 

@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { describeExclusions } from '../../src-main/core/curation/exclusion-words.ts';
 import { AnchorPicker } from '../components/AnchorPicker.tsx';
 import { BriefEditor } from '../components/BriefEditor.tsx';
@@ -9,16 +9,6 @@ import { SlotList } from '../components/SlotList.tsx';
 import { changeMarks, describeChanges } from '../components/change-words.ts';
 import { useApp } from '../state/store.ts';
 
-const ACTION_WORDS: Record<string, string> = {
-  pin: 'Pinned',
-  unpin: 'Unpinned',
-  ban: 'Banned',
-  banRule: 'Banned by rule',
-  boost: 'Boosted or sank',
-  lock: 'Locked',
-  unlock: 'Unlocked',
-  move: 'Moved',
-};
 
 /** One shelf: its slots with editorial actions, its live meter, its rules and its action history. */
 export function ShelfEditor() {
@@ -35,6 +25,26 @@ export function ShelfEditor() {
   const redo = useApp((s) => s.redo);
   const refill = useApp((s) => s.refill);
   const go = useApp((s) => s.go);
+  const canUndo = !published && !busy && !!shelf?.canUndo;
+  const canRedo = !published && !busy && !!shelf?.canRedo;
+  // Ctrl+Z undoes and Ctrl+Shift+Z (or Ctrl+Y) redoes the shelf's last action, as in other editors; inside a
+  // text field the keys keep their usual meaning there.
+  useEffect(() => {
+    const onKey = (e: KeyboardEvent) => {
+      if (!(e.ctrlKey || e.metaKey) || e.altKey) return;
+      const t = e.target as HTMLElement | null;
+      if (t && (t.tagName === 'INPUT' || t.tagName === 'TEXTAREA' || t.tagName === 'SELECT' || t.isContentEditable)) return;
+      const key = e.key.toLowerCase();
+      const wantsRedo = (key === 'z' && e.shiftKey) || (key === 'y' && !e.shiftKey);
+      const wantsUndo = key === 'z' && !e.shiftKey;
+      if (wantsUndo && canUndo) void undo();
+      else if (wantsRedo && canRedo) void redo();
+      else return;
+      e.preventDefault();
+    };
+    window.addEventListener('keydown', onKey);
+    return () => window.removeEventListener('keydown', onKey);
+  }, [canUndo, canRedo, undo, redo]);
   if (!shelf) return <p className="notice">Choose a shelf on the edition board.</p>;
   const focused = whatif.result?.candidates.find((c) => c.item === whatif.focus) ?? null;
   const preview = focused && whatif.result ? { title: focused.title, slot: whatif.result.slot, delta: focused.delta } : null;
@@ -51,10 +61,10 @@ export function ShelfEditor() {
           <button type="button" className="quiet" onClick={() => go('board')}>
             Back to edition
           </button>
-          <button type="button" className="quiet" disabled={published || !shelf.canUndo || busy} onClick={() => void undo()}>
+          <button type="button" className="quiet" disabled={!canUndo} aria-keyshortcuts="Control+Z" onClick={() => void undo()}>
             Undo
           </button>
-          <button type="button" className="quiet" disabled={published || !shelf.canRedo || busy} onClick={() => void redo()}>
+          <button type="button" className="quiet" disabled={!canRedo} aria-keyshortcuts="Control+Shift+Z" onClick={() => void redo()}>
             Redo
           </button>
           <button type="button" className="quiet" disabled={readOnly || busy} onClick={() => void refill()}>
@@ -108,6 +118,23 @@ export function ShelfEditor() {
           <CandidatePool shelf={shelf} slot={Math.min(slot, shelf.size)} onSlot={setSlot} readOnly={readOnly} onAct={(a) => void act(a)} />
           <BacktestPanel shelf={shelf} />
           <SimilarPanel key={shelf.label} shelf={shelf} />
+          <section className="panel" aria-labelledby="bans-h">
+            <h2 id="bans-h">Banned from this shelf</h2>
+            {shelf.bans.length === 0 ? (
+              <p className="muted">No item is banned here.</p>
+            ) : (
+              <ul className="bans">
+                {shelf.bans.map((b) => (
+                  <li key={b.item}>
+                    {b.title} <span className="muted small">({b.scope === 'shelf' ? 'this shelf' : b.scope === 'edition' ? 'this edition' : 'always'})</span>{' '}
+                    <button type="button" className="quiet" disabled={readOnly || busy} onClick={() => void act({ kind: 'unban', item: b.item })} aria-label={`Lift the ban on ${b.title}`}>
+                      Lift the ban
+                    </button>
+                  </li>
+                ))}
+              </ul>
+            )}
+          </section>
           <section className="panel" aria-labelledby="history-h">
             <h2 id="history-h">Actions on this shelf</h2>
             {shelf.actions.length === 0 ? (
@@ -116,7 +143,7 @@ export function ShelfEditor() {
               <ol className="history">
                 {shelf.actions.map((a) => (
                   <li key={a.seq} className={a.undone ? 'undone' : undefined}>
-                    {ACTION_WORDS[a.kind] ?? a.kind}
+                    {a.summary}
                     {a.undone ? ' (undone)' : ''}
                     {a.reason ? `: ${a.reason}` : ''}
                   </li>

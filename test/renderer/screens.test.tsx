@@ -71,7 +71,7 @@ describe('shelf editor', () => {
     await waitFor(() => expect(within(second).getByText('Pinned')).toBeTruthy());
     expect(within(second).getByRole('button', { name: 'Unpin' })).toBeTruthy();
     expect(screen.getByRole('button', { name: 'Undo' }).hasAttribute('disabled')).toBe(false);
-    expect(screen.getByText(/^Pinned$/, { selector: '.history li' })).toBeTruthy();
+    expect(screen.getByText(/^Pinned .* to slot 2$/, { selector: '.history li' })).toBeTruthy();
   });
 
   it('marks and says what an action changed: a pin to slot 1 shifts the items above it down by one', async () => {

@@ -47,7 +47,10 @@ export type ActionRequest =
   | { kind: 'boost'; item: string; factor: number }
   | { kind: 'lock' }
   | { kind: 'unlock' }
-  | { kind: 'move'; from: number; to: number };
+  | { kind: 'move'; from: number; to: number }
+  | { kind: 'unban'; item: string }
+  | { kind: 'refill' }
+  | { kind: 'anchors'; anchors: number[] };
 
 /** How #refillEdition fills: the target afresh, or every shelf stably (with the lists an undo restores). */
 interface RefillHow {
@@ -98,7 +101,7 @@ export class CurationService {
   /** Reads a shelf as stored, with its meter (no fill). */
   #read(world: CurationWorld, edition: Edition, shelf: Shelf): ShelfView {
     const filled = fillAndMeter(this.db, world, shelf, edition, this.#edits(shelf), false);
-    return shelfView(edition, shelf, filled, this.#item(world), this.editorial.entries(shelf.id));
+    return shelfView(edition, shelf, filled, this.#item(world), this.editorial.entries(shelf.id), this.#edits(shelf).bans);
   }
 
   /**
@@ -174,7 +177,7 @@ export class CurationService {
       if (s.id === targetId) {
         const changes = filled.changes ?? listChanges(stored, filled.dense);
         view = {
-          ...shelfView(edition, this.shelves.get(s.id), { ...filled, violations }, this.#item(world), this.editorial.entries(s.id)),
+          ...shelfView(edition, this.shelves.get(s.id), { ...filled, violations }, this.#item(world), this.editorial.entries(s.id), edits.get(s.id)!.bans),
           changes: changesView(changes, (i) => world.ds.items[i]),
           relevanceGivenUp: filled.relevanceGivenUp ?? null,
         };
@@ -254,10 +257,7 @@ export class CurationService {
       const e = this.editions.byLabel(edition);
       return this.#read(world, e, this.shelves.byLabel(e.id, label));
     }
-    return this.db.transaction(() => {
-      const e = this.#draft(edition);
-      return this.#refillEdition(world, e, this.shelves.byLabel(e.id, label).id, 'all', { start: 'over' }).view;
-    })();
+    return this.act(edition, label, { kind: 'refill' });
   }
 
   #resolve(world: CurationWorld, shelf: Shelf, a: ActionRequest): EditAction {
@@ -285,6 +285,18 @@ export class CurationService {
       }
       case 'unlock':
         return { kind: 'unlock' };
+      case 'unban': {
+        const id = item(a.item);
+        if (!(String(id) in this.#edits(shelf).bans)) throw new InputError(`item: '${a.item}' is not banned on this shelf`, { column: 'item' });
+        return { kind: 'unban', item: id };
+      }
+      case 'refill':
+        return { kind: 'refill' };
+      case 'anchors':
+        // Checked like a brief's anchors (shelf.brief's schema): existing row ids.
+        parseBrief({ ...shelf.brief, anchors: a.anchors });
+        checkBriefNames(namesOf(world), { ...shelf.brief, anchors: a.anchors });
+        return { kind: 'anchors', anchors: a.anchors.slice(), was: shelf.brief.anchors.slice() };
       case 'move': {
         const at = this.shelves.slots(shelf.id).find((s) => s.slot === a.from - 1)?.itemId;
         if (at === undefined || at === null) throw new InputError(`from: slot ${a.from} is empty; nothing to move`, { column: 'from' });
@@ -348,9 +360,16 @@ export class CurationService {
     const action = record.action;
     this.editorial.materialise(shelf.id, e.id, r.state);
     if (r.state.locked !== shelf.locked) this.shelves.setLocked(shelf.id, r.state.locked);
-    const wide = action.kind === 'lock' || action.kind === 'unlock' || ((action.kind === 'ban' || action.kind === 'banRule') && action.scope !== 'shelf');
+    if (action.kind === 'anchors') this.shelves.setBrief(shelf.id, { ...shelf.brief, anchors: dir === 'undo' ? action.was : action.anchors });
+    const unbanScope = action.kind === 'unban' ? record.before.bans[String(action.item)] : null;
+    const wide =
+      action.kind === 'lock' ||
+      action.kind === 'unlock' ||
+      ((action.kind === 'ban' || action.kind === 'banRule') && action.scope !== 'shelf') ||
+      (unbanScope !== null && unbanScope !== undefined && unbanScope !== 'shelf');
     let how: RefillHow = { start: 'stable' };
     if (dir === 'undo') how = { start: 'stable', restore: record.lists ?? {} };
+    else if (action.kind === 'refill' || action.kind === 'anchors') how = { start: 'over' };
     else if (action.kind === 'boost') {
       const item = world.ctx.indexOfId.get(action.item);
       const was = record.before.boosts[String(action.item)] ?? 1;

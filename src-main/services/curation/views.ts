@@ -10,6 +10,7 @@ import type { Item } from '../../core/types.ts';
 import type { Edition } from '../../store/editions.ts';
 import type { ActionEntry } from '../../store/editorial-actions.ts';
 import type { Shelf, SlotRow } from '../../store/shelves.ts';
+import { describeAction } from './action-words.ts';
 import type { FilledShelf } from './shelf-fill.ts';
 
 export interface SlotView {
@@ -30,6 +31,8 @@ export interface SlotView {
 export interface ActionView {
   seq: number;
   kind: string;
+  /** Verb, item, slots and factor, e.g. "Sank Oak Houseplant Mix ×0.5, slot 2 → 6". */
+  summary: string;
   reason: string | null;
   at: number;
   undone: boolean;
@@ -50,6 +53,8 @@ export interface ShelfView {
   canUndo: boolean;
   canRedo: boolean;
   actions: ActionView[];
+  /** This shelf's own bans on items, each with its reach; the editor can lift each one. */
+  bans: { item: string; title: string; scope: 'shelf' | 'edition' | 'always' }[];
   /** After a fill or an action: what changed against the list before (slots 1-based). */
   changes?: ChangesView;
   /** Predicted relevance (the meter's) a full refill would have over the kept list; null after a refill. */
@@ -111,7 +116,9 @@ export function shelfView(
   filled: FilledShelf,
   itemById: (id: number) => Item | undefined,
   entries: readonly ActionEntry[],
+  bans: Readonly<Record<string, 'shelf' | 'edition' | 'always'>> = {},
 ): ShelfView {
+  const title = (id: number) => itemById(id)?.title ?? itemById(id)?.externalId ?? `item ${id}`;
   const cursor = entries.filter((e) => !e.undone).length;
   return {
     edition: edition.label,
@@ -127,6 +134,7 @@ export function shelfView(
     excluded: filled.excluded,
     canUndo: cursor > 0,
     canRedo: cursor < entries.length,
-    actions: entries.map((e) => ({ seq: e.seq, kind: e.kind, reason: e.reason, at: e.at, undone: e.undone })),
+    actions: entries.map((e) => ({ seq: e.seq, kind: e.kind, summary: describeAction(e.record, shelf.id, title), reason: e.reason, at: e.at, undone: e.undone })),
+    bans: Object.entries(bans).map(([id, scope]) => ({ item: itemById(Number(id))?.externalId ?? id, title: title(Number(id)), scope })),
   };
 }

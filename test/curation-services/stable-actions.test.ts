@@ -79,3 +79,43 @@ describe('the editor\'s desk (issue 12)', () => {
     expect(refilled.changes!.left).toEqual([expect.objectContaining({ item: off, slot: 1 })]);
   });
 });
+
+describe('each verb does what its name says (issue 12)', () => {
+  it('the log names verb, item, slots and factor', () => {
+    const svc = setup();
+    const v0 = svc.addShelf('w', 'Front', { size: 8 });
+    const second = v0.slots[1]!;
+    const v1 = svc.act('w', 'Front', { kind: 'boost', item: second.item!, factor: 0.01 });
+    const to = items(v1).indexOf(second.item) + 1;
+    expect(to).toBeGreaterThan(2);
+    expect(v1.actions.at(-1)!.summary).toBe(`Sank ${second.title} ×0.01, slot 2 → ${to}`);
+    const v2 = svc.act('w', 'Front', { kind: 'ban', item: items(v1)[0]!, scope: 'shelf' });
+    const replacement = v2.slots[0]!;
+    expect(v2.actions.at(-1)!.summary).toBe(`Banned ${v1.slots[0]!.title} (this shelf), left slot 1; ${replacement.title} came in`);
+  });
+
+  it('a ban is listed and lifted; refill and fill-from-anchors undo like any action; a new action clears redo', () => {
+    const svc = setup();
+    const v0 = svc.addShelf('w', 'Front', { size: 5 });
+    const banned = v0.slots[2]!;
+    const v1 = svc.act('w', 'Front', { kind: 'ban', item: banned.item!, scope: 'shelf' });
+    expect(v1.bans).toEqual([{ item: banned.item, title: banned.title, scope: 'shelf' }]);
+    const v2 = svc.act('w', 'Front', { kind: 'unban', item: banned.item! });
+    expect(v2.bans).toEqual([]);
+    expect(v2.actions.at(-1)!.summary).toBe(`Lifted the ban on ${banned.title}`);
+    expect(() => svc.act('w', 'Front', { kind: 'unban', item: banned.item! })).toThrow(/is not banned on this shelf/);
+
+    const anchored = svc.act('w', 'Front', { kind: 'anchors', anchors: [7] });
+    expect(anchored.brief.anchors).toEqual([7]);
+    expect(anchored.actions.at(-1)!.kind).toBe('anchors');
+    const back = svc.undo('w', 'Front');
+    expect(back.brief.anchors).toEqual([]);
+    expect(items(back)).toEqual(items(v2));
+    expect(back.canRedo).toBe(true);
+    // A new action (here Refill) drops the redo tail: the anchors cannot be redone any more.
+    const refilled = svc.fill('w', 'Front');
+    expect(refilled.canRedo).toBe(false);
+    expect(refilled.actions.map((a) => a.kind)).toEqual(['ban', 'unban', 'refill']);
+    expect(items(svc.undo('w', 'Front'))).toEqual(items(v2));
+  });
+});

@@ -92,6 +92,22 @@ describe('shelf editor', () => {
     expect(said.getAttribute('aria-live')).toBe('polite');
   });
 
+  it('lists a banned item with a button that lifts the ban, and Ctrl+Z / Ctrl+Shift+Z undo and redo', async () => {
+    await openRowInEditor(store, '2026-12-07', 6);
+    renderApp();
+    const slots = await screen.findByRole('list', { name: 'Slots' });
+    const third = within(slots).getByRole('listitem', { name: /^Slot 3:/ });
+    const title = store.getState().curation.edition!.shelves[0]!.slots[2]!.title!;
+    fireEvent.click(within(third).getByRole('button', { name: 'Ban' }));
+    const lift = await screen.findByRole('button', { name: `Lift the ban on ${title}` });
+    fireEvent.keyDown(window, { key: 'z', ctrlKey: true });
+    await waitFor(() => expect(screen.queryByRole('button', { name: `Lift the ban on ${title}` })).toBeNull());
+    fireEvent.keyDown(window, { key: 'Z', ctrlKey: true, shiftKey: true });
+    fireEvent.click(await screen.findByRole('button', { name: `Lift the ban on ${title}` }));
+    await waitFor(() => expect(screen.getByText(`Lifted the ban on ${title}`, { selector: '.history li' })).toBeTruthy());
+    expect(lift.isConnected).toBe(false);
+  });
+
   it('says why items are missing from the pool: here, added after a back-dated edition', async () => {
     // The seed adds item k (0-based) on 1 October 2026 + k days: on 5 October, seven of twelve are still to come.
     await openRowInEditor(store, '2026-10-05', 4, 'Early');

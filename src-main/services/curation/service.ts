@@ -34,7 +34,7 @@ import { curationRepos } from './repos.ts';
 import { fillAndMeter, frozenDense, type FillMode } from './shelf-fill.ts';
 import { listChanges } from '../../core/curation/stable-fill.ts';
 import { editionSnapshot, publishEdition } from './publish.ts';
-import { changesView, shelfView, type EditionView, type ShelfView } from './views.ts';
+import { actionViews, changesView, shelfView, type EditionView, type ShelfView } from './views.ts';
 import { shelfWhatIf, type WhatIfView } from './whatif.ts';
 import { loadWorld, noModels, type CurationWorld, type ModelSource } from './world.ts';
 
@@ -319,7 +319,8 @@ export class CurationService {
       this.editorial.append(shelf.id, record, reason?.trim() || null, this.clock());
       const out = this.#settle(world, e, shelf, r, record, 'do');
       this.editorial.mark(shelf.id, r.log.cursor - 1, false, { ...record, lists: out.lists });
-      return out.view;
+      // The log entry now holds the lists, so it can name the slots.
+      return { ...out.view, actions: actionViews(this.editorial.entries(shelf.id), shelf.id, this.#item(world)) };
     })();
   }
 
@@ -348,7 +349,7 @@ export class CurationService {
       this.editorial.mark(shelf.id, log.cursor, false, record);
       const out = this.#settle(world, e, shelf, r, record, 'redo');
       this.editorial.mark(shelf.id, log.cursor, false, { ...record, lists: out.lists });
-      return out.view;
+      return { ...out.view, actions: actionViews(this.editorial.entries(shelf.id), shelf.id, this.#item(world)) };
     })();
   }
 

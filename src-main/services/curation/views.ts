@@ -110,6 +110,12 @@ export function slotView(s: SlotRow, item: Item | undefined): SlotView {
   };
 }
 
+/** The shelf's action log as the editor reads it, each action named in words (action-words.ts). */
+export function actionViews(entries: readonly ActionEntry[], shelfId: number, itemById: (id: number) => Item | undefined): ActionView[] {
+  const title = (id: number) => itemById(id)?.title ?? itemById(id)?.externalId ?? `item ${id}`;
+  return entries.map((e) => ({ seq: e.seq, kind: e.kind, summary: describeAction(e.record, shelfId, title), reason: e.reason, at: e.at, undone: e.undone }));
+}
+
 export function shelfView(
   edition: Edition,
   shelf: Shelf,
@@ -134,7 +140,7 @@ export function shelfView(
     excluded: filled.excluded,
     canUndo: cursor > 0,
     canRedo: cursor < entries.length,
-    actions: entries.map((e) => ({ seq: e.seq, kind: e.kind, summary: describeAction(e.record, shelf.id, title), reason: e.reason, at: e.at, undone: e.undone })),
+    actions: actionViews(entries, shelf.id, itemById),
     bans: Object.entries(bans).map(([id, scope]) => ({ item: itemById(Number(id))?.externalId ?? id, title: title(Number(id)), scope })),
   };
 }

@@ -50,7 +50,7 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
   const meter = (live as { ok: true; value: { meter: { intraListDistance: number | null } } }).value.meter;
   const variety = meter.intraListDistance === null ? '—' : meter.intraListDistance.toFixed(2);
   await expect(page.getByLabel('Shelf meter').locator('.reading', { hasText: 'Variety' })).toContainText(variety);
-  await expect(page.locator('.history li')).toHaveText(['Pinned', 'Boosted or sank', 'Banned']);
+  await expect(page.locator('.history li')).toHaveText([/^Pinned .* to slot 2/, /^(Boosted|Sank) /, /^Banned /]);
   await expect(slot(2).getByText('Pinned', { exact: true })).toBeVisible();
 
   // What-if: pointing at a candidate, or focusing it by keyboard, shows on the meter what it would change.
@@ -86,7 +86,7 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
   await expect(announcer).toContainText(`${third} is over slot 4.`);
   await page.keyboard.press('Space');
   await expect(slot(4).locator('.slot-title')).toContainText(third);
-  await expect(page.locator('.history li').last()).toHaveText('Moved');
+  await expect(page.locator('.history li').last()).toContainText(`Moved ${third}, slot 3 → 4`);
   await expect(page.locator('.history li')).toHaveCount(5);
 
   const axe = await new AxeBuilder({ page }).analyze();

@@ -1,4 +1,16 @@
-import { DndContext, KeyboardSensor, PointerSensor, closestCenter, useSensor, useSensors, type DragEndEvent } from '@dnd-kit/core';
+import { useState } from 'react';
+import {
+  DndContext,
+  DragOverlay,
+  KeyboardSensor,
+  PointerSensor,
+  closestCenter,
+  pointerWithin,
+  useSensor,
+  useSensors,
+  type CollisionDetection,
+  type DragEndEvent,
+} from '@dnd-kit/core';
 import { SortableContext, sortableKeyboardCoordinates, useSortable, verticalListSortingStrategy } from '@dnd-kit/sortable';
 import type { ShelfAction, ShelfView } from '../state/curation-slice.ts';
 import type { changeMarks } from './change-words.ts';
@@ -37,13 +49,14 @@ interface RowProps {
 
 function SlotRow({ slot, readOnly, mark, onAct }: RowProps) {
   const { attributes, listeners, setNodeRef, transform, transition, isDragging } = useSortable({
-    id: String(slot.slot),
+    id: sortId(slot),
     disabled: readOnly || !slot.item,
   });
   const style = {
     transform: transform ? `translate3d(${transform.x}px, ${transform.y}px, 0)` : undefined,
     transition,
-    opacity: isDragging ? 0.6 : 1,
+    // The card stays in the list as the drop's placeholder; the overlay follows the pointer.
+    opacity: isDragging ? 0.4 : 1,
   };
   const name = slot.title ?? `slot ${slot.slot}`;
   const item = slot.item;
@@ -98,6 +111,21 @@ function SlotRow({ slot, readOnly, mark, onAct }: RowProps) {
   );
 }
 
+/** A slot's drag id: its item, so a card keeps its id when the list re-renders after a move. */
+function sortId(s: Slot): string {
+  return s.item === null ? `empty-${s.slot}` : `item-${s.item}`;
+}
+
+/**
+ * A mouse drop lands on the slot under the pointer (the sortable rects being where the cards sit); the
+ * keyboard has no pointer, so it keeps closestCenter on the card it moves, as before.
+ */
+const dropTarget: CollisionDetection = (args) => {
+  if (!args.pointerCoordinates) return closestCenter(args);
+  const under = pointerWithin(args);
+  return under.length > 0 ? under : closestCenter(args);
+};
+
 /**
  * The slots, reorderable by pointer or keyboard (space to lift, arrows to move, space to drop: dnd-kit's
  * KeyboardSensor with sortableKeyboardCoordinates). A drop becomes one `move` action, so undo covers it.
@@ -113,33 +141,57 @@ export function SlotList({
   marks?: ReadonlyMap<string, Mark>;
   onAct(a: ShelfAction): void;
 }) {
-  const sensors = useSensors(useSensor(PointerSensor), useSensor(KeyboardSensor, { coordinateGetter: sortableKeyboardCoordinates }));
+  // A small distance before a drag starts, so a click on the handle is not a drag.
+  const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 4 } }), useSensor(KeyboardSensor, { coordinateGetter: sortableKeyboardCoordinates }));
+  const [dragging, setDragging] = useState<string | null>(null);
+  const byId = (id: string | number) => slots.find((s) => sortId(s) === String(id));
+  const slotNo = (id: string | number) => byId(id)?.slot ?? 0;
   const onDragEnd = (e: DragEndEvent) => {
+    setDragging(null);
     if (!e.over || e.active.id === e.over.id) return;
-    onAct({ kind: 'move', from: Number(e.active.id), to: Number(e.over.id) });
+    const from = slotNo(e.active.id);
+    const to = slotNo(e.over.id);
+    if (from > 0 && to > 0 && from !== to) onAct({ kind: 'move', from, to });
   };
-  const title = (id: string | number) => slots.find((s) => String(s.slot) === String(id))?.title ?? `slot ${id}`;
+  const title = (id: string | number) => byId(id)?.title ?? `slot ${slotNo(id)}`;
+  /** Dropping on a pinned slot moves its pinned item to the dragged card's slot: said before the drop. */
+  const pinnedNote = (active: string | number, over: string | number) => {
+    const target = byId(over);
+    return target?.pinned && String(over) !== String(active)
+      ? ` Slot ${target.slot} holds pinned ${target.title}; dropping here moves it to slot ${slotNo(active)}.`
+      : '';
+  };
   // Spoken in words an editor uses (dnd-kit's live region); the defaults speak internal ids.
   const announcements = {
-    onDragStart: ({ active }: { active: { id: string | number } }) => `Picked up ${title(active.id)} from slot ${active.id}.`,
+    onDragStart: ({ active }: { active: { id: string | number } }) => `Picked up ${title(active.id)} from slot ${slotNo(active.id)}.`,
     onDragOver: ({ active, over }: { active: { id: string | number }; over: { id: string | number } | null }) =>
-      over ? `${title(active.id)} is over slot ${over.id}.` : `${title(active.id)} is not over a slot.`,
+      over ? `${title(active.id)} is over slot ${slotNo(over.id)}.${pinnedNote(active.id, over.id)}` : `${title(active.id)} is not over a slot.`,
     onDragEnd: ({ active, over }: { active: { id: string | number }; over: { id: string | number } | null }) =>
-      over ? `${title(active.id)} dropped at slot ${over.id}.` : `${title(active.id)} put back.`,
-    onDragCancel: ({ active }: { active: { id: string | number } }) => `Move cancelled; ${title(active.id)} stays in slot ${active.id}.`,
+      over ? `${title(active.id)} dropped at slot ${slotNo(over.id)}.${pinnedNote(active.id, over.id)}` : `${title(active.id)} put back.`,
+    onDragCancel: ({ active }: { active: { id: string | number } }) => `Move cancelled; ${title(active.id)} stays in slot ${slotNo(active.id)}.`,
   };
+  const lifted = dragging === null ? undefined : byId(dragging);
   const screenReaderInstructions = {
     draggable: 'To move an item, press Space, use the arrow keys to choose a slot, then press Space again. Escape cancels.',
   };
   return (
-    <DndContext sensors={sensors} collisionDetection={closestCenter} onDragEnd={onDragEnd} accessibility={{ announcements, screenReaderInstructions }}>
-      <SortableContext items={slots.map((s) => String(s.slot))} strategy={verticalListSortingStrategy}>
+    <DndContext
+      sensors={sensors}
+      collisionDetection={dropTarget}
+      onDragStart={(e) => setDragging(String(e.active.id))}
+      onDragCancel={() => setDragging(null)}
+      onDragEnd={onDragEnd}
+      accessibility={{ announcements, screenReaderInstructions }}
+    >
+      <SortableContext items={slots.map(sortId)} strategy={verticalListSortingStrategy}>
         <ol className="slots" aria-label="Slots">
           {slots.map((s) => (
-            <SlotRow key={s.slot} slot={s} readOnly={readOnly} mark={s.item === null ? undefined : marks.get(s.item)} onAct={onAct} />
+            <SlotRow key={sortId(s)} slot={s} readOnly={readOnly} mark={s.item === null ? undefined : marks.get(s.item)} onAct={onAct} />
           ))}
         </ol>
       </SortableContext>
+      {/* The card in hand, drawn above everything so it never vanishes behind a panel while dragged. */}
+      <DragOverlay>{lifted ? <div className="slot drag-overlay" aria-hidden="true"><span className="slot-no">{lifted.slot}</span><p className="slot-title">{lifted.title}</p></div> : null}</DragOverlay>
     </DndContext>
   );
 }

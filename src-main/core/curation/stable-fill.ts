@@ -215,7 +215,18 @@ export function stableFill(input: StableFillInput): StableFillResult {
     for (let round = 0; round < n; round++) {
       const now = rules(slots);
       if (now.score <= EPS) break;
-      const victims = free.filter((s) => (slots[s] as number) >= 0 && (slots[s] as number) !== r?.item);
+      // Only an item whose leaving lowers the breach (a cap or quota it counts toward), or an organic item
+      // when a promoted floor is short, can be the one to swap: the others cannot mend anything.
+      const floorShort = now.rules.has('promoted.minCount') || now.rules.has('promoted.minExposure');
+      const victims = free.filter((s) => {
+        const i = slots[s] as number;
+        if (i < 0 || i === r?.item) return false;
+        if (floorShort && ctx.promoted[i] !== 1) return true;
+        slots[s] = -1;
+        const lower = rules(slots).score < now.score - EPS;
+        slots[s] = i;
+        return lower;
+      });
       victims.sort((a, b) => relOf(slots[a] as number) - relOf(slots[b] as number) || a - b);
       let swap: { slot: number; item: number; breach: Breach } | null = null;
       for (const s of victims) {

@@ -17,6 +17,11 @@ describe('shelfwright edition and shelf commands', () => {
     expect(pinned.out).toContain(`changed:\n  + ${off}`);
     expect(pinned.out).toMatch(new RegExp(`  - ${items[3]} .* from slot 4 \\(pushed off the end of the shelf\\)`));
     expect(pinned.out).toMatch(/relevance given up against a refill: /);
+    const banned = await run('shelf', 'ban', 'w', 'Front', off);
+    expect(banned.out).toMatch(new RegExp(`  - ${off} .* from slot 1 \\(banned\\)`));
+    const lifted = await json('shelf', 'unban', 'w', 'Front', off);
+    expect(lifted.bans).toEqual([]);
+    expect(lifted.actions.at(-1).summary).toMatch(/^Lifted the ban on /);
     const refilled = await run('shelf', 'refill', 'w', 'Front');
     expect(refilled.code).toBe(0);
     expect(refilled.out).toMatch(/changed:/);

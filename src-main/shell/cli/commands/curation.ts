@@ -458,6 +458,10 @@ export const curationCommands: CliCommand[] = [
     },
     '"week 10" Front SKU-007 --scope edition',
   ),
+  actionCommand('unban', "lift this shelf's ban on an item (the list keeps what it has until a refill)", 'EDITION SHELF ITEM', {}, {}, (_env, rest) => ({
+    kind: 'unban',
+    item: oneItem(rest),
+  }), '"week 10" Front SKU-007'),
   actionCommand('boost', "raise an item's score by a factor", 'EDITION SHELF ITEM --factor F', { factor: { type: 'string' } }, { factor: "multiply the item's score by this number above 0 (default 2)" }, (env, rest) => ({
     kind: 'boost',
     item: oneItem(rest),

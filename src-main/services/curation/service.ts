@@ -153,10 +153,10 @@ export class CurationService {
       const restoring = back !== undefined && sameList(storedIds, back.after);
       let mode: FillMode;
       if (how.start === 'over' && s.id === targetId) mode = 'full';
-      else if (restoring) mode = { current: Int32Array.from(back.before, dense), repair: false };
+      else if (restoring) mode = { current: Int32Array.from(back.before, dense), repair: false, measureGivenUp: s.id === targetId };
       else {
         const rescored = s.id === targetId && how.rescored ? how.rescored : undefined;
-        mode = { current: stored, repair: true, ...(rescored && { rescored }) };
+        mode = { current: stored, repair: true, measureGivenUp: s.id === targetId, ...(rescored && { rescored }) };
       }
       const filled = fillAndMeter(this.db, world, s, edition, edits.get(s.id)!, mode, used);
       const afterIds = filled.slots.map((r) => r.itemId);

@@ -45,7 +45,7 @@ export interface FilledShelf {
 export type FillMode =
   | 'read'
   | 'full'
-  | { current: Int32Array; rescored?: { item: number; direction: 'up' | 'down' }; repair: boolean };
+  | { current: Int32Array; rescored?: { item: number; direction: 'up' | 'down' }; repair: boolean; measureGivenUp?: boolean };
 
 type AudienceReadings = Pick<MeterInputs, 'audienceCategories' | 'ownedShare'> & { audience: Int32Array };
 
@@ -212,7 +212,8 @@ export function fillAndMeter(
     dense = r.slots;
     violations = r.violations;
     changes = r.changes;
-    givenUpAgainst = fillShelf(input).slots;
+    // A full fill as well, only where the editor will read what the kept list gives up (the acted shelf).
+    if (how.measureGivenUp ?? true) givenUpAgainst = fillShelf(input).slots;
   }
   const readings = audienceReadings(world, brief, editionDate);
   const inputs: MeterInputs = { editionDate, relevance, audienceCategories: readings.audienceCategories, ownedShare: readings.ownedShare };

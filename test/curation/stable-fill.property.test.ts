@@ -108,6 +108,9 @@ describe('stableFill properties (issue 12)', () => {
         expect(othersChanged(w.current, r.slots, item)).toBeLessThanOrEqual(1);
         // The other pins stay where they are.
         for (const [s, i] of w.st.pins) if (s !== slot) expect(r.slots[s]).toBe(i);
+        // Undo (the service puts the recorded list back through the fill without repairs): the exact list.
+        const back = stableFill({ ctx: w.ctx, brief: w.b, candidates: candidatesOf(w.ctx, w.b, w.st, w.rel), state: w.st, editionDate: EDITION, current: w.current, repair: false });
+        expect(Array.from(back.slots)).toEqual(Array.from(w.current));
       }),
       { numRuns: 200 },
     );
@@ -185,6 +188,36 @@ describe('stableFill properties (issue 12)', () => {
         const gotMax = rest.length === 0 ? 0 : Math.max(...rest.map((j) => cos(got, j)));
         expect(c.lambda * (w.rel[got] as number) - (1 - c.lambda) * gotMax).toBeCloseTo(bestScore, 6);
         expect(othersChanged(w.current, r.slots, banned)).toBe(1);
+      }),
+      { numRuns: 200 },
+    );
+  });
+});
+
+describe('stableFill under rules', () => {
+  const quotaArb = fc.record({
+    facet: fc.constantFrom('category' as const, 'supplier' as const, 'tag' as const),
+    max: fc.integer({ min: 1, max: 3 }),
+  });
+  it('a pin changes one other item at most, besides the swaps a rule forced, each named with its rule', () => {
+    fc.assert(
+      fc.property(caseArb, fc.array(quotaArb, { maxLength: 2 }), fc.option(fc.double({ min: 0, max: 1, noNaN: true }), { nil: undefined }), (c, quotas, maxCount) => {
+        const ctx = randomContext(c.seed, c.items, 4);
+        const b = brief({ size: c.size, lambda: c.lambda }, { quotas, promoted: maxCount === undefined ? {} : { maxCount } });
+        const rng = seededRng(c.seed + 2);
+        const rel = Float64Array.from({ length: ctx.n }, () => rng.next());
+        const st = state();
+        const current = fillShelf({ ctx, brief: b, candidates: candidatesOf(ctx, b, st, rel), state: st, editionDate: EDITION }).slots;
+        const item = rng.int(ctx.n);
+        if (ctx.available[item] === 0) return;
+        const pinned = state({ pins: new Map([[rng.int(c.size), item]]) });
+        const r = stableFill({ ctx, brief: b, candidates: candidatesOf(ctx, b, pinned, rel), state: pinned, editionDate: EDITION, current });
+        const ruleNames = new Set(['promoted.maxCount', 'promoted.maxExposure', 'promoted.minCount', 'promoted.minExposure']);
+        const forced = r.changes.left.filter((l) => l.why.split(', ').every((w) => ruleNames.has(w) || w.startsWith('quota ')));
+        const unforced = r.changes.left.filter((l) => l.item !== item && !forced.includes(l));
+        expect(unforced.length).toBeLessThanOrEqual(1);
+        // A swap replaces the item it forced out: no more come in than went out, besides the pinned item.
+        expect(r.changes.entered.filter((e) => e.item !== item).length).toBeLessThanOrEqual(forced.length + unforced.length);
       }),
       { numRuns: 200 },
     );

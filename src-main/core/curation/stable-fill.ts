@@ -52,7 +52,8 @@ const EPS = 1e-9;
 /** How the fill counts a list's breaches: weights follow fill.ts's give-way order (caps last to go). */
 interface Breach {
   score: number;
-  rules: Set<string>;
+  /** Each broken rule and by how much (items, or discounted exposure). */
+  rules: Map<string, number>;
 }
 
 export function stableFill(input: StableFillInput): StableFillResult {
@@ -240,7 +241,8 @@ export function stableFill(input: StableFillInput): StableFillResult {
       }
       if (!swap) break;
       const out = slots[swap.slot] as number;
-      const fixed = [...now.rules].filter((x) => !swap.breach.rules.has(x));
+      // The rules the swap mended, wholly or in part.
+      const fixed = [...now.rules].filter(([rule, amount]) => (swap.breach.rules.get(rule) ?? 0) < amount - EPS).map(([rule]) => rule);
       leftWhy.set(out, fixed.length > 0 ? fixed.join(', ') : 'rules');
       onList.delete(out);
       onList.add(swap.item);
@@ -297,7 +299,7 @@ function ruleBook(ctx: CurationContext, brief: Brief): (slots: Int32Array) => Br
   }));
   const counts = new Map<number, number>();
   return (slots) => {
-    const rules = new Set<string>();
+    const rules = new Map<string, number>();
     let score = 0;
     let prom = 0;
     let exp = 0;
@@ -310,7 +312,7 @@ function ruleBook(ctx: CurationContext, brief: Brief): (slots: Int32Array) => Br
     }
     const over = (rule: string, amount: number, weight: number) => {
       if (amount > EPS) {
-        rules.add(rule);
+        rules.set(rule, amount);
         score += weight * amount;
       }
     };

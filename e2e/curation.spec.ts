@@ -89,6 +89,18 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
   await expect(page.locator('.history li').last()).toContainText(`Moved ${third}, slot 3 → 4`);
   await expect(page.locator('.history li')).toHaveCount(5);
 
+  // Reordering by mouse: the card lands on the slot under the pointer (issue 12).
+  const sixth = (await slot(6).locator('.slot-title').innerText()).replace(/\s*(Sponsored|Pinned)\s*/g, '').trim();
+  const grip = (await slot(6).getByRole('button', { name: /^Move / }).boundingBox())!;
+  const onto = (await slot(3).boundingBox())!;
+  await page.mouse.move(grip.x + grip.width / 2, grip.y + grip.height / 2);
+  await page.mouse.down();
+  await page.mouse.move(grip.x + grip.width / 2, grip.y + grip.height / 2 - 12, { steps: 3 });
+  await page.mouse.move(onto.x + onto.width / 2, onto.y + onto.height / 2, { steps: 12 });
+  await page.mouse.up();
+  await expect(slot(3).locator('.slot-title')).toContainText(sixth);
+  await expect(page.locator('.history li').last()).toContainText(`Moved ${sixth}, slot 6 → 3`);
+
   const axe = await new AxeBuilder({ page }).analyze();
   expect(axe.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.help}`)).toEqual([]);
   await page.screenshot({ path: 'test-results/shelf-editor.png', fullPage: true });

@@ -50,7 +50,7 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
   const meter = (live as { ok: true; value: { meter: { intraListDistance: number | null } } }).value.meter;
   const variety = meter.intraListDistance === null ? '—' : meter.intraListDistance.toFixed(2);
   await expect(page.getByLabel('Shelf meter').locator('.reading', { hasText: 'Variety' })).toContainText(variety);
-  await expect(page.locator('.history li')).toHaveText(['Pinned', 'Boosted or sank', 'Banned']);
+  await expect(page.locator('.history li')).toHaveText([/^Pinned .* to slot 2/, /^(Boosted|Sank) /, /^Banned /]);
   await expect(slot(2).getByText('Pinned', { exact: true })).toBeVisible();
 
   // What-if: pointing at a candidate, or focusing it by keyboard, shows on the meter what it would change.
@@ -96,8 +96,20 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
   await expect(announcer).toContainText(`${third} is over slot 4.`);
   await page.keyboard.press('Space');
   await expect(slot(4).locator('.slot-title')).toContainText(third);
-  await expect(page.locator('.history li').last()).toHaveText('Moved');
+  await expect(page.locator('.history li').last()).toContainText(`Moved ${third}, slot 3 → 4`);
   await expect(page.locator('.history li')).toHaveCount(5);
+
+  // Reordering by mouse: the card lands on the slot under the pointer (issue 12).
+  const sixth = (await slot(6).locator('.slot-title').innerText()).replace(/\s*(Sponsored|Pinned)\s*/g, '').trim();
+  const grip = (await slot(6).getByRole('button', { name: /^Move / }).boundingBox())!;
+  const onto = (await slot(3).boundingBox())!;
+  await page.mouse.move(grip.x + grip.width / 2, grip.y + grip.height / 2);
+  await page.mouse.down();
+  await page.mouse.move(grip.x + grip.width / 2, grip.y + grip.height / 2 - 12, { steps: 3 });
+  await page.mouse.move(onto.x + onto.width / 2, onto.y + onto.height / 2, { steps: 12 });
+  await page.mouse.up();
+  await expect(slot(3).locator('.slot-title')).toContainText(sixth);
+  await expect(page.locator('.history li').last()).toContainText(`Moved ${sixth}, slot 6 → 3`);
 
   const axe = await new AxeBuilder({ page }).analyze();
   expect(axe.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.help}`)).toEqual([]);

@@ -20,8 +20,8 @@ export function AnchorPicker({ shelf, readOnly }: { shelf: ShelfView; readOnly: 
   const proposing = useApp((s) => s.insight.busy.propose ?? false);
   const proposeError = useApp((s) => s.insight.errors.propose);
   const date = useApp((s) => s.curation.edition?.date);
+  // "Fill from these anchors" is one undoable action: the anchors change and the list starts over.
   const act = useApp((s) => s.act);
-  const setBrief = useApp((s) => s.setBrief);
   const [query, setQuery] = useState('');
   const [searched, setSearched] = useState(false);
   // Anchors already in the brief come back as item ids; their titles show once searched or ranked.
@@ -101,7 +101,7 @@ export function AnchorPicker({ shelf, readOnly }: { shelf: ShelfView; readOnly: 
         type="button"
         className="quiet"
         disabled={readOnly || anchorKey === saved}
-        onClick={() => void setBrief({ ...shelf.brief, anchors: anchors.map((a) => a.item) })}
+        onClick={() => void act({ kind: 'anchors', anchors: anchors.map((a) => a.item) })}
       >
         {anchors.length === 0 ? 'Clear the shelf’s anchors' : 'Fill the shelf from these anchors'}
       </button>

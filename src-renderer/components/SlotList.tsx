@@ -1,9 +1,23 @@
-import { DndContext, KeyboardSensor, PointerSensor, closestCenter, useSensor, useSensors, type DragEndEvent } from '@dnd-kit/core';
+import { useState } from 'react';
+import {
+  DndContext,
+  DragOverlay,
+  KeyboardSensor,
+  PointerSensor,
+  closestCenter,
+  pointerWithin,
+  useSensor,
+  useSensors,
+  type CollisionDetection,
+  type DragEndEvent,
+} from '@dnd-kit/core';
 import { SortableContext, sortableKeyboardCoordinates, useSortable, verticalListSortingStrategy } from '@dnd-kit/sortable';
 import type { ShelfAction, ShelfView } from '../state/curation-slice.ts';
+import type { changeMarks } from './change-words.ts';
 import { topPercent } from './format.ts';
 
 type Slot = ShelfView['slots'][number];
+type Mark = ReturnType<typeof changeMarks> extends Map<string, infer M> ? M : never;
 
 /** Component contributions as labelled bars: why the scorer proposed the item (the numbers are in the text too). */
 export function ExplanationBars({ contributions }: { contributions: Record<string, number> }) {
@@ -30,24 +44,32 @@ interface RowProps {
   readOnly: boolean;
   /** An action is in flight: no move may start until its result is shown (a move names slots by position). */
   busy: boolean;
+  /** How the last change touched this item, if it did: shown in words, not colour alone. */
+  mark: Mark | undefined;
   onAct(action: ShelfAction): void;
 }
 
-function SlotRow({ slot, readOnly, busy, onAct }: RowProps) {
+function SlotRow({ slot, readOnly, busy, mark, onAct }: RowProps) {
   // Busy only disables the sortable (aria-disabled on the handle), not the button, so keyboard focus stays put.
   const { attributes, listeners, setNodeRef, transform, transition, isDragging } = useSortable({
-    id: String(slot.slot),
+    id: sortId(slot),
     disabled: readOnly || busy || !slot.item,
   });
   const style = {
     transform: transform ? `translate3d(${transform.x}px, ${transform.y}px, 0)` : undefined,
     transition,
-    opacity: isDragging ? 0.6 : 1,
+    // The card stays in the list as the drop's placeholder; the overlay follows the pointer.
+    opacity: isDragging ? 0.4 : 1,
   };
   const name = slot.title ?? `slot ${slot.slot}`;
   const item = slot.item;
   return (
-    <li ref={setNodeRef} style={style} className={`slot${slot.pinned ? ' pinned' : ''}`} aria-label={`Slot ${slot.slot}: ${name}`}>
+    <li
+      ref={setNodeRef}
+      style={style}
+      className={`slot${slot.pinned ? ' pinned' : ''}${mark ? ' changed' : ''}`}
+      aria-label={`Slot ${slot.slot}: ${name}`}
+    >
       <button type="button" className="handle" aria-label={`Move ${name} (slot ${slot.slot})`} disabled={readOnly || !item} {...attributes} {...listeners}>
         ⋮⋮
       </button>
@@ -55,7 +77,9 @@ function SlotRow({ slot, readOnly, busy, onAct }: RowProps) {
       <div className="slot-main">
         <p className="slot-title">
           {slot.title ?? <span className="muted">Empty: no candidate meets the brief</span>}{' '}
-          {slot.promoted && <span className="sponsored">Sponsored</span>} {slot.pinned && <span className="tag">Pinned</span>}
+          {slot.promoted && <span className="sponsored">Sponsored</span>} {slot.pinned && <span className="tag">Pinned</span>}{' '}
+          {mark?.kind === 'entered' && <span className="tag change">New here</span>}
+          {mark?.kind === 'moved' && <span className="tag change">Was slot {mark.from}</span>}
         </p>
         {item && (
           <p className="muted small">
@@ -90,38 +114,89 @@ function SlotRow({ slot, readOnly, busy, onAct }: RowProps) {
   );
 }
 
+/** A slot's drag id: its item, so a card keeps its id when the list re-renders after a move. */
+function sortId(s: Slot): string {
+  return s.item === null ? `empty-${s.slot}` : `item-${s.item}`;
+}
+
+/**
+ * A mouse drop lands on the slot under the pointer (the sortable rects being where the cards sit); the
+ * keyboard has no pointer, so it keeps closestCenter on the card it moves, as before.
+ */
+const dropTarget: CollisionDetection = (args) => {
+  if (!args.pointerCoordinates) return closestCenter(args);
+  const under = pointerWithin(args);
+  return under.length > 0 ? under : closestCenter(args);
+};
+
 /**
  * The slots, reorderable by pointer or keyboard (space to lift, arrows to move, space to drop: dnd-kit's
  * KeyboardSensor with sortableKeyboardCoordinates). A drop becomes one `move` action, so undo covers it.
  */
-export function SlotList({ slots, readOnly, busy = false, onAct }: { slots: readonly Slot[]; readOnly: boolean; busy?: boolean; onAct(a: ShelfAction): void }) {
-  const sensors = useSensors(useSensor(PointerSensor), useSensor(KeyboardSensor, { coordinateGetter: sortableKeyboardCoordinates }));
+export function SlotList({
+  slots,
+  readOnly,
+  busy = false,
+  marks = new Map(),
+  onAct,
+}: {
+  slots: readonly Slot[];
+  readOnly: boolean;
+  busy?: boolean;
+  marks?: ReadonlyMap<string, Mark>;
+  onAct(a: ShelfAction): void;
+}) {
+  // A small distance before a drag starts, so a click on the handle is not a drag.
+  const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 4 } }), useSensor(KeyboardSensor, { coordinateGetter: sortableKeyboardCoordinates }));
+  const [dragging, setDragging] = useState<string | null>(null);
+  const byId = (id: string | number) => slots.find((s) => sortId(s) === String(id));
+  const slotNo = (id: string | number) => byId(id)?.slot ?? 0;
   const onDragEnd = (e: DragEndEvent) => {
+    setDragging(null);
     if (!e.over || e.active.id === e.over.id) return;
-    onAct({ kind: 'move', from: Number(e.active.id), to: Number(e.over.id) });
+    const from = slotNo(e.active.id);
+    const to = slotNo(e.over.id);
+    if (from > 0 && to > 0 && from !== to) onAct({ kind: 'move', from, to });
   };
-  const title = (id: string | number) => slots.find((s) => String(s.slot) === String(id))?.title ?? `slot ${id}`;
+  const title = (id: string | number) => byId(id)?.title ?? `slot ${slotNo(id)}`;
+  /** Dropping on a pinned slot moves its pinned item to the dragged card's slot: said before the drop. */
+  const pinnedNote = (active: string | number, over: string | number) => {
+    const target = byId(over);
+    return target?.pinned && String(over) !== String(active)
+      ? ` Slot ${target.slot} holds pinned ${target.title}; dropping here moves it to slot ${slotNo(active)}.`
+      : '';
+  };
   // Spoken in words an editor uses (dnd-kit's live region); the defaults speak internal ids.
   const announcements = {
-    onDragStart: ({ active }: { active: { id: string | number } }) => `Picked up ${title(active.id)} from slot ${active.id}.`,
+    onDragStart: ({ active }: { active: { id: string | number } }) => `Picked up ${title(active.id)} from slot ${slotNo(active.id)}.`,
     onDragOver: ({ active, over }: { active: { id: string | number }; over: { id: string | number } | null }) =>
-      over ? `${title(active.id)} is over slot ${over.id}.` : `${title(active.id)} is not over a slot.`,
+      over ? `${title(active.id)} is over slot ${slotNo(over.id)}.${pinnedNote(active.id, over.id)}` : `${title(active.id)} is not over a slot.`,
     onDragEnd: ({ active, over }: { active: { id: string | number }; over: { id: string | number } | null }) =>
-      over ? `${title(active.id)} dropped at slot ${over.id}.` : `${title(active.id)} put back.`,
-    onDragCancel: ({ active }: { active: { id: string | number } }) => `Move cancelled; ${title(active.id)} stays in slot ${active.id}.`,
+      over ? `${title(active.id)} dropped at slot ${slotNo(over.id)}.${pinnedNote(active.id, over.id)}` : `${title(active.id)} put back.`,
+    onDragCancel: ({ active }: { active: { id: string | number } }) => `Move cancelled; ${title(active.id)} stays in slot ${slotNo(active.id)}.`,
   };
+  const lifted = dragging === null ? undefined : byId(dragging);
   const screenReaderInstructions = {
     draggable: 'To move an item, press Space, use the arrow keys to choose a slot, then press Space again. Escape cancels.',
   };
   return (
-    <DndContext sensors={sensors} collisionDetection={closestCenter} onDragEnd={onDragEnd} accessibility={{ announcements, screenReaderInstructions }}>
-      <SortableContext items={slots.map((s) => String(s.slot))} strategy={verticalListSortingStrategy}>
+    <DndContext
+      sensors={sensors}
+      collisionDetection={dropTarget}
+      onDragStart={(e) => setDragging(String(e.active.id))}
+      onDragCancel={() => setDragging(null)}
+      onDragEnd={onDragEnd}
+      accessibility={{ announcements, screenReaderInstructions }}
+    >
+      <SortableContext items={slots.map(sortId)} strategy={verticalListSortingStrategy}>
         <ol className="slots" aria-label="Slots">
           {slots.map((s) => (
-            <SlotRow key={s.slot} slot={s} readOnly={readOnly} busy={busy} onAct={onAct} />
+            <SlotRow key={sortId(s)} slot={s} readOnly={readOnly} busy={busy} mark={s.item === null ? undefined : marks.get(s.item)} onAct={onAct} />
           ))}
         </ol>
       </SortableContext>
+      {/* The card in hand, drawn above everything so it never vanishes behind a panel while dragged. */}
+      <DragOverlay>{lifted ? <div className="slot drag-overlay" aria-hidden="true"><span className="slot-no">{lifted.slot}</span><p className="slot-title">{lifted.title}</p></div> : null}</DragOverlay>
     </DndContext>
   );
 }

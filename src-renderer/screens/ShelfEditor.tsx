@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { describeExclusions } from '../../src-main/core/curation/exclusion-words.ts';
 import { AnchorPicker } from '../components/AnchorPicker.tsx';
 import { BriefEditor } from '../components/BriefEditor.tsx';
@@ -6,18 +6,9 @@ import { CandidatePool } from '../components/CandidatePool.tsx';
 import { ShelfMeterPanel } from '../components/Meter.tsx';
 import { BacktestPanel, SimilarPanel } from '../components/ShelfInsights.tsx';
 import { SlotList } from '../components/SlotList.tsx';
+import { changeMarks, describeChanges } from '../components/change-words.ts';
 import { useApp } from '../state/store.ts';
 
-const ACTION_WORDS: Record<string, string> = {
-  pin: 'Pinned',
-  unpin: 'Unpinned',
-  ban: 'Banned',
-  banRule: 'Banned by rule',
-  boost: 'Boosted or sank',
-  lock: 'Locked',
-  unlock: 'Unlocked',
-  move: 'Moved',
-};
 
 /** One shelf: its slots with editorial actions, its live meter, its rules and its action history. */
 export function ShelfEditor() {
@@ -28,15 +19,38 @@ export function ShelfEditor() {
   const error = useApp((s) => s.curation.errors.shelf);
   const busy = useApp((s) => s.curation.busy);
   const lastMs = useApp((s) => s.curation.lastActionMs);
+  const lastChange = useApp((s) => s.curation.lastChange);
   const act = useApp((s) => s.act);
   const undo = useApp((s) => s.undo);
   const redo = useApp((s) => s.redo);
   const refill = useApp((s) => s.refill);
   const go = useApp((s) => s.go);
+  const canUndo = !published && !busy && !!shelf?.canUndo;
+  const canRedo = !published && !busy && !!shelf?.canRedo;
+  // Ctrl+Z undoes and Ctrl+Shift+Z (or Ctrl+Y) redoes the shelf's last action, as in other editors; inside a
+  // text field the keys keep their usual meaning there.
+  useEffect(() => {
+    const onKey = (e: KeyboardEvent) => {
+      if (!(e.ctrlKey || e.metaKey) || e.altKey) return;
+      const t = e.target as HTMLElement | null;
+      if (t && (t.tagName === 'INPUT' || t.tagName === 'TEXTAREA' || t.tagName === 'SELECT' || t.isContentEditable)) return;
+      const key = e.key.toLowerCase();
+      const wantsRedo = (key === 'z' && e.shiftKey) || (key === 'y' && !e.shiftKey);
+      const wantsUndo = key === 'z' && !e.shiftKey;
+      if (wantsUndo && canUndo) void undo();
+      else if (wantsRedo && canRedo) void redo();
+      else return;
+      e.preventDefault();
+    };
+    window.addEventListener('keydown', onKey);
+    return () => window.removeEventListener('keydown', onKey);
+  }, [canUndo, canRedo, undo, redo]);
   if (!shelf) return <p className="notice">Choose a shelf on the edition board.</p>;
   const focused = whatif.result?.candidates.find((c) => c.item === whatif.focus) ?? null;
   const preview = focused && whatif.result ? { title: focused.title, slot: whatif.result.slot, delta: focused.delta } : null;
   const readOnly = published || shelf.locked;
+  const change = lastChange && lastChange.edition === shelf.edition && lastChange.shelf === shelf.label ? lastChange : null;
+  const changeWords = change ? describeChanges(change.changes) : [];
   return (
     <section className="screen" aria-labelledby="shelf-h">
       <header className="screen-head">
@@ -47,10 +61,10 @@ export function ShelfEditor() {
           <button type="button" className="quiet" onClick={() => go('board')}>
             Back to edition
           </button>
-          <button type="button" className="quiet" disabled={published || !shelf.canUndo || busy} onClick={() => void undo()}>
+          <button type="button" className="quiet" disabled={!canUndo} aria-keyshortcuts="Control+Z" onClick={() => void undo()}>
             Undo
           </button>
-          <button type="button" className="quiet" disabled={published || !shelf.canRedo || busy} onClick={() => void redo()}>
+          <button type="button" className="quiet" disabled={!canRedo} aria-keyshortcuts="Control+Shift+Z" onClick={() => void redo()}>
             Redo
           </button>
           <button type="button" className="quiet" disabled={readOnly || busy} onClick={() => void refill()}>
@@ -73,6 +87,17 @@ export function ShelfEditor() {
         {shelf.locked ? ' · locked: unlock to change it' : ''}
         {lastMs !== null ? ` · last change shown in ${Math.round(lastMs)} ms` : ''}
       </p>
+      <p className="small changes-line" aria-live="polite">
+        {change && (changeWords.length > 0 ? changeWords.join(' ') : 'The list did not change.')}
+        {change && change.relevanceGivenUp !== null && Number.isFinite(change.relevanceGivenUp) && (
+          <span className="muted">
+            {' '}
+            {change.relevanceGivenUp > 0.0005
+              ? `Keeping the list gives up ${change.relevanceGivenUp.toFixed(3)} of predicted relevance against a refill.`
+              : 'Keeping the list gives up no predicted relevance against a refill.'}
+          </span>
+        )}
+      </p>
       {describeExclusions(shelf.excluded) && <p className="muted small">Left out of the pool: {describeExclusions(shelf.excluded)}</p>}
       {shelf.violations.length > 0 && (
         <div className="warn" role="status">
@@ -87,12 +112,29 @@ export function ShelfEditor() {
         </div>
       )}
       <div className="editor-grid">
-        <SlotList slots={shelf.slots} readOnly={readOnly} busy={busy} onAct={(a) => void act(a)} />
+        <SlotList slots={shelf.slots} readOnly={readOnly} busy={busy} marks={changeMarks(change?.changes ?? null)} onAct={(a) => void act(a)} />
         <div className="side">
           <ShelfMeterPanel meter={shelf.meter} title="Shelf meter" preview={preview} />
           <CandidatePool shelf={shelf} slot={Math.min(slot, shelf.size)} onSlot={setSlot} readOnly={readOnly} onAct={(a) => void act(a)} />
           <BacktestPanel shelf={shelf} />
           <SimilarPanel key={shelf.label} shelf={shelf} />
+          <section className="panel" aria-labelledby="bans-h">
+            <h2 id="bans-h">Banned from this shelf</h2>
+            {shelf.bans.length === 0 ? (
+              <p className="muted">No item is banned here.</p>
+            ) : (
+              <ul className="bans">
+                {shelf.bans.map((b) => (
+                  <li key={b.item}>
+                    {b.title} <span className="muted small">({b.scope === 'shelf' ? 'this shelf' : b.scope === 'edition' ? 'this edition' : 'always'})</span>{' '}
+                    <button type="button" className="quiet" disabled={readOnly || busy} onClick={() => void act({ kind: 'unban', item: b.item })} aria-label={`Lift the ban on ${b.title}`}>
+                      Lift the ban
+                    </button>
+                  </li>
+                ))}
+              </ul>
+            )}
+          </section>
           <section className="panel" aria-labelledby="history-h">
             <h2 id="history-h">Actions on this shelf</h2>
             {shelf.actions.length === 0 ? (
@@ -101,7 +143,7 @@ export function ShelfEditor() {
               <ol className="history">
                 {shelf.actions.map((a) => (
                   <li key={a.seq} className={a.undone ? 'undone' : undefined}>
-                    {ACTION_WORDS[a.kind] ?? a.kind}
+                    {a.summary}
                     {a.undone ? ' (undone)' : ''}
                     {a.reason ? `: ${a.reason}` : ''}
                   </li>

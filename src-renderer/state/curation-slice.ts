@@ -11,6 +11,14 @@ export type Brief = RequestOf<'shelf.add'>['brief'];
 export type ExportFormat = RequestOf<'edition.export'>['format'];
 export type Comparison = ResponseOf<'edition.compare'>;
 export type ExportResult = ResponseOf<'edition.export'>;
+export type ShelfChanges = NonNullable<ResponseOf<'shelf.act'>['changes']>;
+export interface LastChange {
+  edition: string;
+  shelf: string;
+  changes: ShelfChanges;
+  /** Predicted relevance a refill would have over the kept list; null after a refill. */
+  relevanceGivenUp: number | null;
+}
 
 /** Where an error is shown: beside the control the editor used. */
 export type ErrorArea = 'list' | 'new' | 'board' | 'addShelf' | 'shelf' | 'brief' | 'publish' | 'export' | 'compare';
@@ -27,6 +35,8 @@ export interface CurationSlice {
     comparison: Comparison | null;
     /** Round trip of the last editorial action, for the status line (DESIGN.md target: under 100 ms). */
     lastActionMs: number | null;
+    /** What the last action, undo, redo or refill changed on which shelf: the editor highlights and says it. */
+    lastChange: LastChange | null;
   };
   loadEditions(): Promise<void>;
   newEdition(label: string, date: string, from?: string): Promise<boolean>;
@@ -53,6 +63,7 @@ export const initialCuration: CurationSlice['curation'] = {
   exported: null,
   comparison: null,
   lastActionMs: null,
+  lastChange: null,
 };
 
 /** The edition with one shelf replaced (immutable update: zustand guides/maps-and-sets-usage.md). */
@@ -81,9 +92,10 @@ export function createCurationSlice(client: Client, clock: () => number): StateC
      * busy until that re-read is in: a move names slots by position, so the next one may only start from the
      * order the store holds (a keyboard move pressed while one is in flight would act on a stale order).
      */
-    const shelfChanged = async (s: ShelfView, t0: number) => {
+    const shelfChanged = async (s: ResponseOf<'shelf.act'>, t0: number) => {
       const e = get().curation.edition;
-      if (e) set((st) => ({ curation: { ...st.curation, edition: withShelf(e, s), lastActionMs: clock() - t0 } }));
+      const lastChange = s.changes ? { edition: s.edition, shelf: s.label, changes: s.changes, relevanceGivenUp: s.relevanceGivenUp ?? null } : null;
+      if (e) set((st) => ({ curation: { ...st.curation, edition: withShelf(e, s), lastActionMs: clock() - t0, lastChange } }));
       try {
         const fresh = await client.call('edition.show', { edition: s.edition });
         if (get().curation.edition?.label === fresh.label) patch({ edition: fresh });
@@ -93,7 +105,7 @@ export function createCurationSlice(client: Client, clock: () => number): StateC
         patch({});
       }
     };
-    const shelfCall = async (area: ErrorArea, call: () => Promise<ShelfView>): Promise<boolean> => {
+    const shelfCall = async (area: ErrorArea, call: () => Promise<ResponseOf<'shelf.act'>>): Promise<boolean> => {
       start(area);
       const t0 = clock();
       try {
@@ -153,7 +165,7 @@ export function createCurationSlice(client: Client, clock: () => number): StateC
         }
       },
       openShelf(label) {
-        set((s) => ({ curation: { ...s.curation, shelf: label } }));
+        set((s) => ({ curation: { ...s.curation, shelf: label, lastChange: null } }));
       },
       act: (action, reason) => shelfCall('shelf', () => client.call('shelf.act', { ...refs(), action, ...(reason ? { reason } : {}) })),
       undo: async () => void (await shelfCall('shelf', () => client.call('shelf.undo', refs()))),

@@ -7,6 +7,26 @@ import { capture } from './capture.ts';
 import { seededCli } from './seeded-cli.ts';
 
 describe('shelfwright edition and shelf commands', () => {
+  it('says what an action changed, and refill starts the shelf over', async () => {
+    const { run, json } = seededCli();
+    await run('edition', 'new', 'w', '--date', '2026-03-02');
+    const v0 = await json('shelf', 'add', 'w', 'Front', '--size', '4');
+    const items = v0.slots.map((s: { item: string }) => s.item);
+    const off = Array.from({ length: 40 }, (_, k) => `SKU-${String(k + 1).padStart(3, '0')}`).find((x) => !items.includes(x))!;
+    const pinned = await run('shelf', 'pin', 'w', 'Front', off, '--slot', '1');
+    expect(pinned.out).toContain(`changed:\n  + ${off}`);
+    expect(pinned.out).toMatch(new RegExp(`  - ${items[3]} .* from slot 4 \\(pushed off the end of the shelf\\)`));
+    expect(pinned.out).toMatch(/relevance given up against a refill: /);
+    const banned = await run('shelf', 'ban', 'w', 'Front', off);
+    expect(banned.out).toMatch(new RegExp(`  - ${off} .* from slot 1 \\(banned\\)`));
+    const lifted = await json('shelf', 'unban', 'w', 'Front', off);
+    expect(lifted.bans).toEqual([]);
+    expect(lifted.actions.at(-1).summary).toMatch(/^Lifted the ban on /);
+    const refilled = await run('shelf', 'refill', 'w', 'Front');
+    expect(refilled.code).toBe(0);
+    expect(refilled.out).toMatch(/changed:/);
+  });
+
   it('walks an edition from shelves to publish, rest period, compare and export', async () => {
     const { file: w, run, json } = seededCli();
 

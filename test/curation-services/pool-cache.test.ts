@@ -56,9 +56,12 @@ describe('remembered pools and scores (issue 4)', () => {
       } catch {
         continue; // nothing to undo or redo, or a pin on two slots: refused, nothing changed
       }
+      // A list now depends on the lists before it (the stable fill), so both worlds start over the same
+      // way: Refill with the remembered world, then with a new one over what it stored.
+      svc.fill('w', 'Front');
       const cached = svc.showEdition('w');
       const again = fresh();
-      again.fill('w', 'Front'); // refills the whole edition with a new world, and stores it
+      again.fill('w', 'Front'); // refills with a new world, keeping the other shelves' lists, and stores it
       const rebuilt = again.showEdition('w');
       expect(rebuilt.shelves.map((s) => s.slots)).toEqual(cached.shelves.map((s) => s.slots));
       expect(rebuilt.shelves.map((s) => s.meter)).toEqual(cached.shelves.map((s) => s.meter));

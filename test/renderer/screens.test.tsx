@@ -71,7 +71,41 @@ describe('shelf editor', () => {
     await waitFor(() => expect(within(second).getByText('Pinned')).toBeTruthy());
     expect(within(second).getByRole('button', { name: 'Unpin' })).toBeTruthy();
     expect(screen.getByRole('button', { name: 'Undo' }).hasAttribute('disabled')).toBe(false);
-    expect(screen.getByText(/^Pinned$/, { selector: '.history li' })).toBeTruthy();
+    expect(screen.getByText(/^Pinned .* to slot 2$/, { selector: '.history li' })).toBeTruthy();
+  });
+
+  it('marks and says what an action changed: a pin to slot 1 shifts the items above it down by one', async () => {
+    await openRowInEditor(store, '2026-12-07', 12);
+    renderApp();
+    const slots = await screen.findByRole('list', { name: 'Slots' });
+    const before = store.getState().curation.edition!.shelves[0]!.slots.map((x) => x.title);
+    const fifth = store.getState().curation.edition!.shelves[0]!.slots[4]!;
+    await store.getState().act({ kind: 'pin', slot: 1, item: fifth.item! });
+    const first = await within(slots).findByRole('listitem', { name: new RegExp(`^Slot 1: ${fifth.title}$`) });
+    expect(within(first).getByText('Was slot 5')).toBeTruthy();
+    expect(within(within(slots).getByRole('listitem', { name: /^Slot 2:/ })).getByText('Was slot 1')).toBeTruthy();
+    // Slots 6 to 12 kept their items and carry no mark.
+    expect(within(within(slots).getByRole('listitem', { name: /^Slot 6:/ })).queryByText(/^Was slot|^New here/)).toBeNull();
+    const said = screen.getByText(/^Moved /, { selector: '.changes-line' });
+    expect(said.textContent).toContain(`${fifth.title}, slot 5 → 1`);
+    expect(said.textContent).toContain(`${before[0]}, slot 1 → 2`);
+    expect(said.getAttribute('aria-live')).toBe('polite');
+  });
+
+  it('lists a banned item with a button that lifts the ban, and Ctrl+Z / Ctrl+Shift+Z undo and redo', async () => {
+    await openRowInEditor(store, '2026-12-07', 6);
+    renderApp();
+    const slots = await screen.findByRole('list', { name: 'Slots' });
+    const third = within(slots).getByRole('listitem', { name: /^Slot 3:/ });
+    const title = store.getState().curation.edition!.shelves[0]!.slots[2]!.title!;
+    fireEvent.click(within(third).getByRole('button', { name: 'Ban' }));
+    const lift = await screen.findByRole('button', { name: `Lift the ban on ${title}` });
+    fireEvent.keyDown(window, { key: 'z', ctrlKey: true });
+    await waitFor(() => expect(screen.queryByRole('button', { name: `Lift the ban on ${title}` })).toBeNull());
+    fireEvent.keyDown(window, { key: 'Z', ctrlKey: true, shiftKey: true });
+    fireEvent.click(await screen.findByRole('button', { name: `Lift the ban on ${title}` }));
+    await waitFor(() => expect(screen.getByText(`Lifted the ban on ${title}`, { selector: '.history li' })).toBeTruthy());
+    expect(lift.isConnected).toBe(false);
   });
 
   it('says why items are missing from the pool: here, added after a back-dated edition', async () => {

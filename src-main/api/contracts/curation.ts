@@ -52,6 +52,14 @@ export const ApiBrief = BriefSchema.extend({
   anchors: z.array(z.string().trim().min(1, 'name each anchor by its item id')).default([]),
 });
 
+const Named = { item: z.string(), title: z.string() };
+export const ChangesView = z.object({
+  entered: z.array(z.object({ ...Named, slot: z.number().int() })),
+  left: z.array(z.object({ ...Named, slot: z.number().int(), why: z.string() })),
+  moved: z.array(z.object({ ...Named, from: z.number().int(), to: z.number().int() })),
+});
+export type ChangesView = z.infer<typeof ChangesView>;
+
 export const ShelfView = z.object({
   edition: z.string(),
   label: z.string(),
@@ -67,8 +75,13 @@ export const ShelfView = z.object({
   canUndo: z.boolean(),
   canRedo: z.boolean(),
   actions: z.array(
-    z.object({ seq: z.number().int(), kind: z.string(), reason: z.string().nullable(), at: z.number(), undone: z.boolean() }),
+    z.object({ seq: z.number().int(), kind: z.string(), summary: z.string(), reason: z.string().nullable(), at: z.number(), undone: z.boolean() }),
   ),
+  bans: z.array(z.object({ item: z.string(), title: z.string(), scope: z.enum(['shelf', 'edition', 'always']) })),
+  /** After a fill or an action: what changed against the list before (slots 1-based), for highlighting. */
+  changes: ChangesView.optional(),
+  /** Predicted relevance a full refill would have over the kept list (the meter's measure); null after Refill. */
+  relevanceGivenUp: z.number().nullable().optional(),
 });
 export type ShelfView = z.infer<typeof ShelfView>;
 
@@ -100,6 +113,12 @@ export const ShelfAction = z.discriminatedUnion('kind', [
   z.object({ kind: z.literal('lock') }).strict(),
   z.object({ kind: z.literal('unlock') }).strict(),
   z.object({ kind: z.literal('move'), from: slotNo, to: slotNo }).strict(),
+  /** Lift this shelf's ban on an item. */
+  z.object({ kind: z.literal('unban'), item: itemId }).strict(),
+  /** Start the list over (undoable). */
+  z.object({ kind: z.literal('refill') }).strict(),
+  /** Fill from these anchors (item ids): the brief's anchors change and the list starts over (undoable). */
+  z.object({ kind: z.literal('anchors'), anchors: z.array(itemId) }).strict(),
 ]);
 export type ShelfAction = z.infer<typeof ShelfAction>;
 

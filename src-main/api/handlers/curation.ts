@@ -25,7 +25,8 @@ function finite<T>(v: T): T {
 
 
 /** A sink by f is a multiplier of 1/f: the api keeps both words, the log keeps one factor. */
-function toRequest(a: ShelfAction): ActionRequest {
+function toRequest(a: ShelfAction, rowIds: (ext: string[]) => number[]): ActionRequest {
+  if (a.kind === 'anchors') return { kind: 'anchors', anchors: rowIds(a.anchors) };
   return a.kind === 'sink' ? { kind: 'boost', item: a.item, factor: 1 / a.factor } : a;
 }
 
@@ -79,7 +80,7 @@ export function curationHandlers(ctx: AppContext): { [M in Names]: Handler<M> } 
     'shelf.brief': (r) => shelf(svc().setBrief(r.edition, r.shelf, withAnchorIds(r.brief))),
     'shelf.fill': (r) => shelf(svc().fill(r.edition, r.shelf, true)),
     'shelf.show': (r) => shelf(svc().fill(r.edition, r.shelf, false)),
-    'shelf.act': (r) => shelf(svc().act(r.edition, r.shelf, toRequest(r.action), r.reason)),
+    'shelf.act': (r) => shelf(svc().act(r.edition, r.shelf, toRequest(r.action, (ids) => anchorRowIds(ctx.db, ids)), r.reason)),
     'shelf.undo': (r) => shelf(svc().undo(r.edition, r.shelf)),
     'shelf.redo': (r) => shelf(svc().redo(r.edition, r.shelf)),
     'shelf.whatif': (r) => finite(svc().whatIf(r.edition, r.shelf, r.slot, r.n)),

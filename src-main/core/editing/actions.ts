@@ -46,7 +46,13 @@ export type EditAction =
   | { kind: 'lock'; slots: number[] }
   | { kind: 'unlock' }
   /** Move the item shown at `from` to `to` by hand: it is pinned there; a pin at `to` swaps to `from`. */
-  | { kind: 'move'; from: number; to: number; item: number };
+  | { kind: 'move'; from: number; to: number; item: number }
+  /** Lift this shelf's ban on an item. */
+  | { kind: 'unban'; item: number }
+  /** Start the list over (the one action that does): no edit changes; undo puts the old list back. */
+  | { kind: 'refill' }
+  /** Fill from these anchors: the brief's anchors become `anchors` (`was` before) and the list starts over. */
+  | { kind: 'anchors'; anchors: number[]; was: number[] };
 
 export type EditKind = EditAction['kind'];
 
@@ -60,9 +66,22 @@ export interface Before {
   frozen: number[] | null;
 }
 
+/**
+ * A shelf's list around an action, by workspace item id per slot (null = empty): what undo puts back.
+ * The stable fill makes a list depend on the lists before it, not only on the editorial state, so the
+ * record keeps the list each touched shelf had before (with its violations) and the list it left.
+ */
+export interface ListAround {
+  before: (number | null)[];
+  beforeViolations: { rule: string; reason: string }[];
+  after: (number | null)[];
+}
+
 export interface EditRecord {
   action: EditAction;
   before: Before;
+  /** Shelf id -> its list around the action, for every shelf whose list the action changed. */
+  lists?: Record<string, ListAround>;
 }
 
 export function emptyEdits(): ShelfEdits {
@@ -162,6 +181,13 @@ export function applyAction(state: ShelfEdits, a: EditAction): { state: ShelfEdi
     case 'unlock':
       d.s.locked = false;
       d.s.frozen = null;
+      break;
+    case 'unban':
+      d.set('bans', String(a.item), null);
+      break;
+    case 'refill':
+    case 'anchors':
+      // The list (and for anchors the brief) is the service's to change; the edits stay as they are.
       break;
     case 'move': {
       const atTo = p[String(a.to)];

@@ -15,7 +15,9 @@ import {
   undo as undoLog,
   emptyEdits,
   type EditAction,
+  type EditRecord,
   type Edited,
+  type ListAround,
   type EditionSnapshot,
   type ShelfDiff,
   type ShelfEdits,
@@ -29,9 +31,10 @@ import type { ItemRepo } from '../../store/items.ts';
 import type { ShelfRepo, Shelf } from '../../store/shelves.ts';
 import type { Db } from '../../store/workspace.ts';
 import { curationRepos } from './repos.ts';
-import { fillAndMeter, frozenDense } from './shelf-fill.ts';
+import { fillAndMeter, frozenDense, type FillMode } from './shelf-fill.ts';
+import { listChanges } from '../../core/curation/stable-fill.ts';
 import { editionSnapshot, publishEdition } from './publish.ts';
-import { shelfView, type EditionView, type ShelfView } from './views.ts';
+import { actionViews, changesView, shelfView, type EditionView, type ShelfView } from './views.ts';
 import { shelfWhatIf, type WhatIfView } from './whatif.ts';
 import { loadWorld, noModels, type CurationWorld, type ModelSource } from './world.ts';
 
@@ -44,7 +47,21 @@ export type ActionRequest =
   | { kind: 'boost'; item: string; factor: number }
   | { kind: 'lock' }
   | { kind: 'unlock' }
-  | { kind: 'move'; from: number; to: number };
+  | { kind: 'move'; from: number; to: number }
+  | { kind: 'unban'; item: string }
+  | { kind: 'refill' }
+  | { kind: 'anchors'; anchors: number[] };
+
+/** How #refillEdition fills: the target afresh, or every shelf stably (with the lists an undo restores). */
+interface RefillHow {
+  start: 'over' | 'stable';
+  rescored?: { item: number; direction: 'up' | 'down' };
+  restore?: Record<string, ListAround>;
+}
+
+function sameList(a: readonly (number | null)[], b: readonly (number | null)[]): boolean {
+  return a.length === b.length && a.every((x, k) => x === b[k]);
+}
 
 export class CurationService {
   readonly db: Db;
@@ -84,22 +101,32 @@ export class CurationService {
   /** Reads a shelf as stored, with its meter (no fill). */
   #read(world: CurationWorld, edition: Edition, shelf: Shelf): ShelfView {
     const filled = fillAndMeter(this.db, world, shelf, edition, this.#edits(shelf), false);
-    return shelfView(edition, shelf, filled, this.#item(world), this.editorial.entries(shelf.id));
+    return shelfView(edition, shelf, filled, this.#item(world), this.editorial.entries(shelf.id), this.#edits(shelf).bans);
   }
 
   /**
    * Fills the shelves of the edition again, in position order, and stores them; returns the view of the
-   * shelf `targetId`. A shelf's fill depends on the others (an item runs once per edition; edition-wide
-   * bans), so the edition is one unit: each shelf leaves out the items of the shelves before it and of
-   * every locked shelf. The edition's slots are then a function of the briefs, the editorial states and
-   * the data, which is what makes undo exact.
+   * shelf `targetId` and the lists that changed. A shelf's fill depends on the others (an item runs once
+   * per edition; edition-wide bans), so the edition is one unit: each shelf leaves out the items of the
+   * shelves before it and of every locked shelf.
+   *
+   * `how.start` 'over' fills the target afresh (Refill, a new shelf or brief); 'stable' keeps every
+   * shelf's current list and changes only what the edits or the rules force (core/curation/stable-fill.ts),
+   * so a list depends on the lists before it: `how.restore` (undo) puts back the lists an action recorded,
+   * each only where the shelf still holds the list the action left, and as it was when it is still
+   * admissible. The returned `lists` are what an action records for that.
    *
    * `reach` 'all' fills every shelf (edition-wide bans, lock and unlock touch every shelf). 'fromTarget'
-   * relies on the stored slots being that function already: shelves before the target keep theirs, the
-   * target is filled, and later shelves are filled only once an earlier shelf's set of items changed
-   * (their inputs are otherwise unchanged). Inside the caller's transaction.
+   * keeps the shelves before the target, fills the target, and fills a later shelf only once an earlier
+   * shelf's set of items changed (its inputs are otherwise unchanged). Inside the caller's transaction.
    */
-  #refillEdition(world: CurationWorld, edition: Edition, targetId: number, reach: 'all' | 'fromTarget' = 'all'): ShelfView {
+  #refillEdition(
+    world: CurationWorld,
+    edition: Edition,
+    targetId: number,
+    reach: 'all' | 'fromTarget' = 'all',
+    how: RefillHow = { start: 'stable' },
+  ): { view: ShelfView; lists: Record<string, ListAround> } {
     const shelves = this.shelves.list(edition.id);
     const edits = new Map(shelves.map((s) => [s.id, this.#edits(s)]));
     const frozen = new Map<number, Int32Array>();
@@ -107,20 +134,38 @@ export class CurationService {
       const ed = edits.get(s.id)!;
       if (ed.locked) frozen.set(s.id, frozenDense(world, s, ed));
     }
-    const dense = (id: number | null) => (id === null ? -1 : (world.ctx.indexOfId.get(id) ?? -1));
+    const { ctx } = world;
+    const dense = (id: number | null) => (id === null ? -1 : (ctx.indexOfId.get(id) ?? -1));
     const earlier = new Set<number>();
+    const lists: Record<string, ListAround> = {};
     let propagate = reach === 'all';
     let view: ShelfView | undefined;
     for (const s of shelves) {
-      const stored = this.shelves.slots(s.id).map((r) => dense(r.itemId));
+      const storedIds = this.shelves.slots(s.id).map((r) => r.itemId);
+      const stored = Int32Array.from(storedIds, dense);
       if (!propagate && s.id !== targetId) {
         for (const i of stored) if (i >= 0) earlier.add(i);
         continue;
       }
       const used = new Set(earlier);
       for (const [id, items] of frozen) if (id !== s.id) for (const i of items) if (i >= 0) used.add(i);
-      const filled = fillAndMeter(this.db, world, s, edition, edits.get(s.id)!, true, used);
-      this.shelves.replaceSlots(s.id, filled.slots, filled.violations);
+      const back = how.restore?.[String(s.id)];
+      const restoring = back !== undefined && sameList(storedIds, back.after);
+      let mode: FillMode;
+      if (how.start === 'over' && s.id === targetId) mode = 'full';
+      else if (restoring) mode = { current: Int32Array.from(back.before, dense), repair: false, measureGivenUp: s.id === targetId };
+      else {
+        const rescored = s.id === targetId && how.rescored ? how.rescored : undefined;
+        mode = { current: stored, repair: true, measureGivenUp: s.id === targetId, ...(rescored && { rescored }) };
+      }
+      const filled = fillAndMeter(this.db, world, s, edition, edits.get(s.id)!, mode, used);
+      const afterIds = filled.slots.map((r) => r.itemId);
+      // An undone list that is still admissible comes back exactly, with the violations it had.
+      const violations = restoring && sameList(afterIds, back.before) ? back.beforeViolations : filled.violations;
+      this.shelves.replaceSlots(s.id, filled.slots, violations);
+      if (!sameList(storedIds, afterIds)) {
+        lists[String(s.id)] = { before: storedIds, beforeViolations: s.violations, after: afterIds };
+      }
       const before = new Set(stored.filter((i) => i >= 0));
       let changed = false;
       for (const i of filled.dense) {
@@ -129,10 +174,17 @@ export class CurationService {
         if (!before.delete(i)) changed = true;
       }
       propagate = propagate || changed || before.size > 0;
-      if (s.id === targetId) view = shelfView(edition, this.shelves.get(s.id), filled, this.#item(world), this.editorial.entries(s.id));
+      if (s.id === targetId) {
+        const changes = filled.changes ?? listChanges(stored, filled.dense);
+        view = {
+          ...shelfView(edition, this.shelves.get(s.id), { ...filled, violations }, this.#item(world), this.editorial.entries(s.id), edits.get(s.id)!.bans),
+          changes: changesView(changes, (i) => world.ds.items[i]),
+          relevanceGivenUp: filled.relevanceGivenUp ?? null,
+        };
+      }
     }
     if (!view) throw new NotFoundError(`no shelf with id ${targetId} in edition '${edition.label}'`);
-    return view;
+    return { view, lists };
   }
 
   newEdition(label: string, date: string, from?: string): EditionView {
@@ -144,7 +196,7 @@ export class CurationService {
         // filled afresh (so the rest period and new items show at once).
         for (const s of this.shelves.list(this.editions.byLabel(from).id)) {
           const shelf = this.shelves.add(e.id, s.label, s.brief);
-          this.#refillEdition(world, e, shelf.id);
+          this.#refillEdition(world, e, shelf.id, 'all', { start: 'over' });
         }
       }
       return e.id;
@@ -175,7 +227,7 @@ export class CurationService {
     checkBriefNames(namesOf(world), b);
     return this.db.transaction(() => {
       const e = this.#draft(edition);
-      return this.#refillEdition(world, e, this.shelves.add(e.id, label, b).id, 'fromTarget');
+      return this.#refillEdition(world, e, this.shelves.add(e.id, label, b).id, 'fromTarget', { start: 'over' }).view;
     })();
   }
 
@@ -191,21 +243,21 @@ export class CurationService {
         if (pinnedBeyond.length) throw new InputError(`size: slot ${Number(pinnedBeyond[0]) + 1} is pinned; unpin it before shrinking the shelf`);
       }
       this.shelves.setBrief(s.id, b);
-      return this.#refillEdition(world, e, s.id, 'fromTarget');
+      return this.#refillEdition(world, e, s.id, 'fromTarget', { start: 'over' }).view;
     })();
   }
 
-  /** Fills the shelf again (e.g. after new signals), or only reads it and its meter when `refill` is false. */
+  /**
+   * Refill: fills the shelf afresh, the only way to start over (e.g. after new signals); later shelves keep
+   * their lists but for what the new one takes. Only reads the shelf and its meter when `refill` is false.
+   */
   fill(edition: string, label: string, refill = true): ShelfView {
     const world = this.world();
     if (!refill) {
       const e = this.editions.byLabel(edition);
       return this.#read(world, e, this.shelves.byLabel(e.id, label));
     }
-    return this.db.transaction(() => {
-      const e = this.#draft(edition);
-      return this.#refillEdition(world, e, this.shelves.byLabel(e.id, label).id);
-    })();
+    return this.act(edition, label, { kind: 'refill' });
   }
 
   #resolve(world: CurationWorld, shelf: Shelf, a: ActionRequest): EditAction {
@@ -233,6 +285,18 @@ export class CurationService {
       }
       case 'unlock':
         return { kind: 'unlock' };
+      case 'unban': {
+        const id = item(a.item);
+        if (!(String(id) in this.#edits(shelf).bans)) throw new InputError(`item: '${a.item}' is not banned on this shelf`, { column: 'item' });
+        return { kind: 'unban', item: id };
+      }
+      case 'refill':
+        return { kind: 'refill' };
+      case 'anchors':
+        // Checked like a brief's anchors (shelf.brief's schema): existing row ids.
+        parseBrief({ ...shelf.brief, anchors: a.anchors });
+        checkBriefNames(namesOf(world), { ...shelf.brief, anchors: a.anchors });
+        return { kind: 'anchors', anchors: a.anchors.slice(), was: shelf.brief.anchors.slice() };
       case 'move': {
         const at = this.shelves.slots(shelf.id).find((s) => s.slot === a.from - 1)?.itemId;
         if (at === undefined || at === null) throw new InputError(`from: slot ${a.from} is empty; nothing to move`, { column: 'from' });
@@ -251,8 +315,12 @@ export class CurationService {
       checkAction(action, shelf.size);
       const log = this.editorial.log(shelf.id);
       const r = doAction(replay(emptyEdits(), log), log, action);
-      this.editorial.append(shelf.id, r.log.records[r.log.cursor - 1]!, reason?.trim() || null, this.clock());
-      return this.#settle(world, e, shelf, r, action);
+      const record = r.log.records[r.log.cursor - 1]!;
+      this.editorial.append(shelf.id, record, reason?.trim() || null, this.clock());
+      const out = this.#settle(world, e, shelf, r, record, 'do');
+      this.editorial.mark(shelf.id, r.log.cursor - 1, false, { ...record, lists: out.lists });
+      // The log entry now holds the lists, so it can name the slots.
+      return { ...out.view, actions: actionViews(this.editorial.entries(shelf.id), shelf.id, this.#item(world)) };
     })();
   }
 
@@ -274,20 +342,41 @@ export class CurationService {
       if (dir === 'undo') {
         const r = undoLog(state, log);
         this.editorial.mark(shelf.id, log.cursor - 1, true);
-        return this.#settle(world, e, shelf, r, log.records[log.cursor - 1]!.action);
+        return this.#settle(world, e, shelf, r, log.records[log.cursor - 1]!, 'undo').view;
       }
       const r = redoLog(state, log);
-      this.editorial.mark(shelf.id, log.cursor, false, r.log.records[log.cursor]);
-      return this.#settle(world, e, shelf, r, log.records[log.cursor]!.action);
+      const record = r.log.records[log.cursor]!;
+      this.editorial.mark(shelf.id, log.cursor, false, record);
+      const out = this.#settle(world, e, shelf, r, record, 'redo');
+      this.editorial.mark(shelf.id, log.cursor, false, { ...record, lists: out.lists });
+      return { ...out.view, actions: actionViews(this.editorial.entries(shelf.id), shelf.id, this.#item(world)) };
     })();
   }
 
-  /** Stores the state after `action` (done, undone or redone) and re-fills what it can reach. */
-  #settle(world: CurationWorld, e: Edition, shelf: Shelf, r: Edited, action: EditAction): ShelfView {
+  /**
+   * Stores the state after `record` (done, undone or redone) and re-fills what it can reach: a stable
+   * fill that keeps the lists, or on undo the lists the record kept from before it.
+   */
+  #settle(world: CurationWorld, e: Edition, shelf: Shelf, r: Edited, record: EditRecord, dir: 'do' | 'undo' | 'redo') {
+    const action = record.action;
     this.editorial.materialise(shelf.id, e.id, r.state);
     if (r.state.locked !== shelf.locked) this.shelves.setLocked(shelf.id, r.state.locked);
-    const wide = action.kind === 'lock' || action.kind === 'unlock' || ((action.kind === 'ban' || action.kind === 'banRule') && action.scope !== 'shelf');
-    return this.#refillEdition(world, e, shelf.id, wide ? 'all' : 'fromTarget');
+    if (action.kind === 'anchors') this.shelves.setBrief(shelf.id, { ...shelf.brief, anchors: dir === 'undo' ? action.was : action.anchors });
+    const unbanScope = action.kind === 'unban' ? record.before.bans[String(action.item)] : null;
+    const wide =
+      action.kind === 'lock' ||
+      action.kind === 'unlock' ||
+      ((action.kind === 'ban' || action.kind === 'banRule') && action.scope !== 'shelf') ||
+      (unbanScope !== null && unbanScope !== undefined && unbanScope !== 'shelf');
+    let how: RefillHow = { start: 'stable' };
+    if (dir === 'undo') how = { start: 'stable', restore: record.lists ?? {} };
+    else if (action.kind === 'refill' || action.kind === 'anchors') how = { start: 'over' };
+    else if (action.kind === 'boost') {
+      const item = world.ctx.indexOfId.get(action.item);
+      const was = record.before.boosts[String(action.item)] ?? 1;
+      if (item !== undefined && action.factor !== was) how = { start: 'stable', rescored: { item, direction: action.factor > was ? 'up' : 'down' } };
+    }
+    return this.#refillEdition(world, e, shelf.id, wide ? 'all' : 'fromTarget', how);
   }
 
   /** What-if for one slot (whatif.ts). */

@@ -6,6 +6,7 @@
 import type { EditorialState } from '../../core/curation/candidates.ts';
 import { bestRelevanceSums, universeMask } from '../../core/curation/choice-cost.ts';
 import { fillShelf } from '../../core/curation/fill.ts';
+import { stableFill, type ListChanges } from '../../core/curation/stable-fill.ts';
 import { meterShelf, type MeterInputs } from '../../core/curation/meter.ts';
 import type { Brief, RuleViolation, ShelfMeter } from '../../core/curation/types.ts';
 import type { ShelfEdits } from '../../core/editing/index.ts';
@@ -35,7 +36,19 @@ export interface FilledShelf {
   /** Candidates in the pool, and why the others were left out. */
   poolSize: number;
   excluded: Record<string, number>;
+  /** A stable fill's changes against the list it kept, and the predicted relevance it gave up. */
+  changes?: ListChanges;
+  relevanceGivenUp?: number;
 }
+
+/**
+ * How to fill: 'read' the stored slots, start 'full' over (Refill), or keep the current list and change
+ * only what the editor or a rule forces (stable-fill.ts).
+ */
+export type FillMode =
+  | 'read'
+  | 'full'
+  | { current: Int32Array; rescored?: { item: number; direction: 'up' | 'down' }; repair: boolean; measureGivenUp?: boolean };
 
 type AudienceReadings = Pick<MeterInputs, 'audienceCategories' | 'ownedShare'> & { audience: Int32Array };
 
@@ -200,7 +213,7 @@ export function frozenDense(world: CurationWorld, shelf: Shelf, edits: ShelfEdit
 
 /**
  * Fills and meters the shelf; the caller stores `slots` inside its transaction. A locked shelf keeps its
- * frozen items (scored afresh). With `refill` false the stored slots and violations are read back and
+ * frozen items (scored afresh). In mode 'read' (or `false`) the stored slots and violations are read back and
  * metered, and nothing is filled.
  */
 export function fillAndMeter(
@@ -209,9 +222,10 @@ export function fillAndMeter(
   shelf: Shelf,
   edition: Edition,
   edits: ShelfEdits,
-  refill = true,
+  mode: FillMode | boolean = 'full',
   usedInEdition: ReadonlySet<number> = new Set(),
 ): FilledShelf {
+  const how: FillMode = mode === true ? 'full' : mode === false ? 'read' : mode;
   const { ctx, hybrid } = world;
   const brief = shelf.brief;
   const editionDate = dateMs(edition.date);
@@ -232,8 +246,10 @@ export function fillAndMeter(
   let dense: Int32Array;
   let violations: RuleViolation[];
   let stored: SlotRow[] | null = null;
+  let changes: ListChanges | undefined;
+  let givenUpAgainst: Int32Array | undefined;
   const pinnedDense = new Set(state.pins.values());
-  if (!refill) {
+  if (how === 'read') {
     // The shelf as stored, with the scores it was filled with.
     stored = curationRepos(db).shelves.slots(shelf.id);
     dense = new Int32Array(shelf.size).fill(-1);
@@ -242,10 +258,18 @@ export function fillAndMeter(
   } else if (edits.locked) {
     dense = frozenDense(world, shelf, edits);
     violations = [];
-  } else {
+  } else if (how === 'full') {
     const r = fillShelf({ ctx, brief, candidates: scored.candidates, state, editionDate });
     dense = r.slots;
     violations = r.violations;
+  } else {
+    const input = { ctx, brief, candidates: scored.candidates, state, editionDate };
+    const r = stableFill({ ...input, current: how.current, repair: how.repair, ...(how.rescored && { rescored: how.rescored }) });
+    dense = r.slots;
+    violations = r.violations;
+    changes = r.changes;
+    // A full fill as well, only where the editor will read what the kept list gives up (the acted shelf).
+    if (how.measureGivenUp ?? true) givenUpAgainst = fillShelf(input).slots;
   }
   const readings = audienceReadings(world, brief, editionDate);
   // The meter's relevance is the validated one (the same for any dials), so the price of the dials shows.
@@ -258,6 +282,8 @@ export function fillAndMeter(
     ownedShare: readings.ownedShare,
   };
   const meter = meterShelf(ctx, dense, inputs);
+  // The relevance kept lists give up: the meter's predicted relevance of a full fill minus this list's.
+  const relevanceGivenUp = givenUpAgainst && meterShelf(ctx, givenUpAgainst, inputs).predictedRelevance - meter.predictedRelevance;
   const slots: SlotRow[] = stored ?? Array.from(dense, (i, slot) => {
     if (i < 0) return { slot, itemId: null, pinned: false, score: null, percentile: null, contributions: {} };
     const p = posOf[i]!;
@@ -271,5 +297,16 @@ export function fillAndMeter(
       contributions: x ? { ...x.contributions } : {},
     };
   });
-  return { slots, dense, inputs, ranked: scored.ranked, meter, violations, poolSize: pool.items.length, excluded: { ...pool.excluded } };
+  return {
+    slots,
+    dense,
+    inputs,
+    ranked: scored.ranked,
+    meter,
+    violations,
+    poolSize: pool.items.length,
+    excluded: { ...pool.excluded },
+    ...(changes && { changes }),
+    ...(relevanceGivenUp !== undefined && { relevanceGivenUp }),
+  };
 }

@@ -5,10 +5,12 @@
  */
 import type { EditionMeter, RuleViolation, ShelfMeter } from '../../core/curation/types.ts';
 import type { Brief } from '../../core/curation/types.ts';
+import type { ListChanges } from '../../core/curation/stable-fill.ts';
 import type { Item } from '../../core/types.ts';
 import type { Edition } from '../../store/editions.ts';
 import type { ActionEntry } from '../../store/editorial-actions.ts';
 import type { Shelf, SlotRow } from '../../store/shelves.ts';
+import { describeAction } from './action-words.ts';
 import type { FilledShelf } from './shelf-fill.ts';
 
 export interface SlotView {
@@ -29,6 +31,8 @@ export interface SlotView {
 export interface ActionView {
   seq: number;
   kind: string;
+  /** Verb, item, slots and factor, e.g. "Sank Oak Houseplant Mix ×0.5, slot 2 → 6". */
+  summary: string;
   reason: string | null;
   at: number;
   undone: boolean;
@@ -49,6 +53,36 @@ export interface ShelfView {
   canUndo: boolean;
   canRedo: boolean;
   actions: ActionView[];
+  /** This shelf's own bans on items, each with its reach; the editor can lift each one. */
+  bans: { item: string; title: string; scope: 'shelf' | 'edition' | 'always' }[];
+  /** After a fill or an action: what changed against the list before (slots 1-based). */
+  changes?: ChangesView;
+  /** Predicted relevance (the meter's) a full refill would have over the kept list; null after a refill. */
+  relevanceGivenUp?: number | null;
+}
+
+export interface ChangedItem {
+  item: string;
+  title: string;
+}
+
+export interface ChangesView {
+  entered: (ChangedItem & { slot: number })[];
+  left: (ChangedItem & { slot: number; why: string })[];
+  moved: (ChangedItem & { from: number; to: number })[];
+}
+
+/** A fill's list changes in the editor's terms: external ids, titles, 1-based slots. */
+export function changesView(c: ListChanges, itemAt: (dense: number) => Item | undefined): ChangesView {
+  const named = (i: number): ChangedItem => {
+    const it = itemAt(i);
+    return { item: it?.externalId ?? String(i), title: it?.title ?? it?.externalId ?? String(i) };
+  };
+  return {
+    entered: c.entered.map((e) => ({ ...named(e.item), slot: e.slot + 1 })),
+    left: c.left.map((e) => ({ ...named(e.item), slot: e.slot + 1, why: e.why })),
+    moved: c.moved.map((e) => ({ ...named(e.item), from: e.from + 1, to: e.to + 1 })),
+  };
 }
 
 export interface EditionView {
@@ -76,13 +110,21 @@ export function slotView(s: SlotRow, item: Item | undefined): SlotView {
   };
 }
 
+/** The shelf's action log as the editor reads it, each action named in words (action-words.ts). */
+export function actionViews(entries: readonly ActionEntry[], shelfId: number, itemById: (id: number) => Item | undefined): ActionView[] {
+  const title = (id: number) => itemById(id)?.title ?? itemById(id)?.externalId ?? `item ${id}`;
+  return entries.map((e) => ({ seq: e.seq, kind: e.kind, summary: describeAction(e.record, shelfId, title), reason: e.reason, at: e.at, undone: e.undone }));
+}
+
 export function shelfView(
   edition: Edition,
   shelf: Shelf,
   filled: FilledShelf,
   itemById: (id: number) => Item | undefined,
   entries: readonly ActionEntry[],
+  bans: Readonly<Record<string, 'shelf' | 'edition' | 'always'>> = {},
 ): ShelfView {
+  const title = (id: number) => itemById(id)?.title ?? itemById(id)?.externalId ?? `item ${id}`;
   const cursor = entries.filter((e) => !e.undone).length;
   return {
     edition: edition.label,
@@ -98,6 +140,7 @@ export function shelfView(
     excluded: filled.excluded,
     canUndo: cursor > 0,
     canRedo: cursor < entries.length,
-    actions: entries.map((e) => ({ seq: e.seq, kind: e.kind, reason: e.reason, at: e.at, undone: e.undone })),
+    actions: actionViews(entries, shelf.id, itemById),
+    bans: Object.entries(bans).map(([id, scope]) => ({ item: itemById(Number(id))?.externalId ?? id, title: title(Number(id)), scope })),
   };
 }

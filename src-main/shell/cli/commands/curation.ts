@@ -43,7 +43,20 @@ export function renderShelf(v: ShelfView): string {
   const resting = left ? `\nleft out of the pool: ${left}` : '';
   const viol = v.violations.length ? `\nrules not met:\n${v.violations.map((x) => `  ${x.rule}: ${x.reason}`).join('\n')}` : '';
   const price = describeChoiceCost(m.choiceCost ?? NaN);
-  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\nmeter: ${meter}\n${price}${resting}${viol}`;
+  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\nmeter: ${meter}\n${price}${resting}${viol}${renderChanges(v)}`;
+}
+
+/** What the action or refill changed against the list before, and the relevance the kept list gives up. */
+function renderChanges(v: ShelfView): string {
+  const c = v.changes;
+  if (!c) return '';
+  const lines = [
+    ...c.entered.map((e) => `  + ${e.item} ${e.title} at slot ${e.slot}`),
+    ...c.left.map((e) => `  - ${e.item} ${e.title} from slot ${e.slot} (${e.why})`),
+    ...c.moved.map((e) => `  ~ ${e.item} ${e.title} slot ${e.from} → ${e.to}`),
+  ];
+  const given = v.relevanceGivenUp === null || v.relevanceGivenUp === undefined ? '' : `\nrelevance given up against a refill: ${val(v.relevanceGivenUp)}`;
+  return `\nchanged:${lines.length ? `\n${lines.join('\n')}` : ' nothing'}${given}`;
 }
 
 function printShelf(env: CommandEnv, v: ShelfView): number {
@@ -228,7 +241,7 @@ const scopeOf = (env: CommandEnv): 'shelf' | 'edition' | 'always' => {
   return s;
 };
 
-function shelfCommand(name: 'fill' | 'meter' | 'undo' | 'redo', summary: string, method: 'shelf.fill' | 'shelf.show' | 'shelf.undo' | 'shelf.redo'): CliCommand {
+function shelfCommand(name: 'fill' | 'refill' | 'meter' | 'undo' | 'redo', summary: string, method: 'shelf.fill' | 'shelf.show' | 'shelf.undo' | 'shelf.redo'): CliCommand {
   return {
     name: `shelf ${name}`,
     summary,
@@ -416,7 +429,8 @@ export const curationCommands: CliCommand[] = [
       return printShelf(env, await call(t, 'shelf.brief', { edition: edition!, shelf: shelf!, brief }));
     },
   },
-  shelfCommand('fill', 'fill a shelf again (a locked shelf stays as it is)', 'shelf.fill'),
+  shelfCommand('refill', 'start the shelf over: fill it afresh (actions keep the list; a locked shelf stays as it is)', 'shelf.fill'),
+  shelfCommand('fill', "the same as 'shelf refill'", 'shelf.fill'),
   shelfCommand('meter', 'a shelf as it stands with its meter and the rules it could not meet', 'shelf.show'),
   actionCommand('pin', 'fix an item at a slot', 'EDITION SHELF ITEM --slot N', { slot: { type: 'string' } }, { slot: 'the slot to fix the item at, counting from 1 (required)' }, (env, rest) => ({
     kind: 'pin',
@@ -447,6 +461,10 @@ export const curationCommands: CliCommand[] = [
     },
     '"week 10" Front SKU-007 --scope edition',
   ),
+  actionCommand('unban', "lift this shelf's ban on an item (the list keeps what it has until a refill)", 'EDITION SHELF ITEM', {}, {}, (_env, rest) => ({
+    kind: 'unban',
+    item: oneItem(rest),
+  }), '"week 10" Front SKU-007'),
   actionCommand('boost', "raise an item's score by a factor", 'EDITION SHELF ITEM --factor F', { factor: { type: 'string' } }, { factor: "multiply the item's score by this number above 0 (default 2)" }, (env, rest) => ({
     kind: 'boost',
     item: oneItem(rest),

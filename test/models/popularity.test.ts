@@ -84,9 +84,18 @@ describe('trendRatios', () => {
 });
 
 describe('PopularityModel', () => {
-  it('ranks every customer alike by column sums', () => {
+  it('ranks every customer alike by the number of customers per item (presence), whatever the quantities', () => {
+    // Column 2 has the largest sum (5) but only two customers; columns 0 and 2 tie on customers.
     const x = csrFromDense(3, 3, [1, 0, 2, 0, 0, 3, 1, 1, 0]);
-    const m = fitPopularity(x).model;
+    const counted = fitPopularity(x).model;
+    const c = new Float32Array(3);
+    counted.scoreInto(0, x, c);
+    expect(Array.from(c)).toEqual([2, 1, 2]);
+  });
+
+  it('ranks by column sums with linear values (decayed popularity when the matrix is built with a half-life)', () => {
+    const x = csrFromDense(3, 3, [1, 0, 2, 0, 0, 3, 1, 1, 0]);
+    const m = fitPopularity(x, 'linear').model;
     const a = new Float32Array(3);
     const b = new Float32Array(3);
     m.scoreInto(0, x, a);

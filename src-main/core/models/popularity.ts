@@ -1,5 +1,6 @@
 import { SectionReader, packSections } from '../matrix/bytes.ts';
 import type { Csr } from '../matrix/csr.ts';
+import { transformValue, type ValueTransform } from '../matrix/values.ts';
 import { InputError } from '../errors.ts';
 import { seededRng } from '../rng.ts';
 import { DAY_MS, type Dataset } from '../types.ts';
@@ -105,12 +106,17 @@ export function loadPopularity(bytes: Uint8Array): PopularityModel {
   return new PopularityModel(new SectionReader(bytes, MAGIC, 1).f32());
 }
 
-/** Popularity as column sums of an interaction matrix (build it with halfLifeDays for decayed popularity). */
-export function fitPopularity(x: Csr): { model: PopularityModel; report: FitReport } {
+/**
+ * Popularity as column sums of an interaction matrix after the value transform (matrix/values.ts). By default
+ * presence: the number of distinct customers who interacted with the item, as DESIGN.md's popularity
+ * component says; summed raw values would let one wholesale buyer of 10,000 units outweigh a thousand
+ * customers. 'linear' keeps the sums (with a matrix built with halfLifeDays: decayed popularity).
+ */
+export function fitPopularity(x: Csr, values: ValueTransform = 'presence'): { model: PopularityModel; report: FitReport } {
   const start = performance.now();
   const scores = new Float32Array(x.cols);
   const total = x.indptr[x.rows]!;
-  for (let p = 0; p < total; p++) scores[x.indices[p]!]! += x.data[p]!;
+  for (let p = 0; p < total; p++) scores[x.indices[p]!]! += transformValue(values, x.data[p]!);
   return { model: new PopularityModel(scores), report: { kind: 'popularity', elapsedMs: performance.now() - start, notes: [] } };
 }
 

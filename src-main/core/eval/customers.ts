@@ -18,7 +18,8 @@ export interface EvalTruth {
   items: Int32Array;
 }
 
-export function evalTruth(history: Csr, window: Csr, customers?: Int32Array): EvalTruth {
+/** `unavailable` (1 = not in the catalogue when the window starts): never truth, since it is never ranked. */
+export function evalTruth(history: Csr, window: Csr, customers?: Int32Array, unavailable?: Uint8Array | null): EvalTruth {
   if (history.rows !== window.rows || history.cols !== window.cols) {
     throw new RangeError(
       `history is ${history.rows}×${history.cols} but the window is ${window.rows}×${window.cols}; build both from one dataset`,
@@ -40,6 +41,7 @@ export function evalTruth(history: Csr, window: Csr, customers?: Int32Array): Ev
       const i = window.indices[p]!;
       while (h < he && history.indices[h]! < i) h++;
       if (h < he && history.indices[h] === i) continue;
+      if (unavailable?.[i]) continue;
       items.push(i);
     }
     if (items.length > before) {

@@ -42,9 +42,9 @@ export interface EvalResult {
 
 /**
  * Offline top-K evaluation (lkpy-style: rank, truncate, measure, average). For each customer of `truth`:
- * fill scores for every item, remove the customer's history items (set to −∞), keep the top K with a
- * bounded heap (O(items · log K), no full sort), and measure the list against the truth items. Buffers
- * are allocated once per evaluator and reused for every customer and model.
+ * fill scores for every item, remove the customer's history items and any unavailable item (set to −∞),
+ * keep the top K with a bounded heap (O(items · log K), no full sort), and measure the list against the
+ * truth items. Buffers are allocated once per evaluator and reused for every customer and model.
  */
 export class RankingEvaluator {
   readonly k: number;
@@ -57,10 +57,22 @@ export class RankingEvaluator {
   readonly #list: Int32Array;
   readonly #listScores: Float32Array;
   readonly #itemCounts: Int32Array;
+  readonly #unavailable: Int32Array;
 
-  constructor(history: Csr, truth: EvalTruth, k: number) {
+  /**
+   * `unavailable` (length history.cols, 1 = never ranked for anyone): items not in the catalogue at the
+   * moment the evaluation stands for, e.g. items first sold after a validation cut in time. The truth should
+   * not hold them either (evalTruth's `unavailable`).
+   */
+  constructor(history: Csr, truth: EvalTruth, k: number, unavailable?: Uint8Array | null) {
     checkK(k);
+    if (unavailable && unavailable.length !== history.cols) {
+      throw new RangeError(`unavailable has ${unavailable.length} items but the history has ${history.cols}`);
+    }
     this.k = k;
+    const off: number[] = [];
+    if (unavailable) unavailable.forEach((x, i) => x && off.push(i));
+    this.#unavailable = Int32Array.from(off);
     this.#history = history;
     this.#truth = truth;
     this.#scores = new Float32Array(history.cols);
@@ -106,6 +118,7 @@ export class RankingEvaluator {
       const u = customers[c]!;
       fill(u, c, scores);
       for (let p = h.indptr[u]!, end = h.indptr[u + 1]!; p < end; p++) scores[h.indices[p]!] = -Infinity;
+      for (const i of this.#unavailable) scores[i] = -Infinity;
       const heap = this.#heap;
       heap.clear();
       for (let j = 0; j < scores.length; j++) if (scores[j] !== -Infinity) heap.push(j, scores[j]!);

@@ -45,19 +45,20 @@ export async function learnBlend(
   const seed = o.seed ?? 1;
   // A workspace with nothing to hold out (every customer has one item, no times) has no validation
   // customer: the blend then falls back, saying why, instead of failing the training run.
-  let split: { method: 'time' | 'random'; train: Int32Array | undefined; validation: Int32Array };
+  let split: { method: 'time' | 'random'; train: Int32Array | undefined; validation: Int32Array; unavailable: Uint8Array | null };
   try {
     split = validationSplit(ds, { seed });
   } catch (e) {
     if (!(e instanceof InputError)) throw e;
-    split = { method: 'random', train: undefined, validation: new Int32Array(0) };
+    split = { method: 'random', train: undefined, validation: new Int32Array(0), unavailable: null };
   }
   const train = buildInteractionMatrix(ds, { ...o.matrix, ...(split.train && { rows: split.train }) });
   const validation = buildInteractionMatrix(ds, { ...o.matrix, rows: split.validation });
   const budget = o.budgetBytes ?? 256 * 2 ** 20;
   const perCustomer = 4 * Math.max(1, kinds.length) * Math.max(1, ds.items.length);
   const cap = Math.max(1, Math.min(o.sampleCustomers ?? 1000, Math.floor(budget / perCustomer)));
-  const ev = new RankingEvaluator(train, sampleTruth(evalTruth(train, validation), cap, seededRng(seed)), k);
+  const truth = sampleTruth(evalTruth(train, validation, undefined, split.unavailable), cap, seededRng(seed));
+  const ev = new RankingEvaluator(train, truth, k, split.unavailable);
   const fitOpts = o.signal ? { signal: o.signal } : {};
   const models: BlendModelInput[] = [];
   const add = (name: BlendModel, m: Scorer) => models.push({ name, scorer: { name, scoreInto: (u, h, out) => m.scoreInto(u, h, out) } });

@@ -6,6 +6,13 @@
  * - Otherwise: per customer at random. For every customer with at least two distinct items, a seeded
  *   `share` of their distinct items (at least one, never all) is held out, with every signal on those pairs,
  *   so a held-out pair cannot leak into train through a second signal (common practice, no source).
+ *
+ * A time split stands for "recommend at `from`", so it is measured the way `evaluate --holdout` and
+ * `recommend` measure at the end of the history: over the catalogue of that moment. Items that entered the
+ * catalogue at or after `from` (their added date, or when it is unknown their first signal) are
+ * `unavailable`: never ranked and never truth. Otherwise validation rewards finding items that did not yet
+ * exist, which only the content model (and the hybrid's content path for cold items) can do, and the blend
+ * is chosen for a task no served list faces (the held-out window of a time split has no such item).
  */
 import { InputError } from '../../core/errors.ts';
 import { customerItemSets } from '../../core/matrix/by-customer.ts';
@@ -20,6 +27,8 @@ export interface ValidationSplit {
   validation: Int32Array;
   /** Time validation starts at (method 'time'), else null. */
   from: number | null;
+  /** Per item, 1 = not yet in the catalogue at `from` (method 'time'); null for a random split. */
+  unavailable: Uint8Array | null;
 }
 
 export function validationSplit(ds: Dataset, o: { share?: number; seed?: number } = {}): ValidationSplit {
@@ -31,9 +40,25 @@ export function validationSplit(ds: Dataset, o: { share?: number; seed?: number 
   if (timed >= 3 && timed * 2 >= s.length) {
     const cuts = quantileCuts(ds, { testShare: share, validationShare: 0 });
     const split = splitByTime(ds, cuts);
-    return { method: 'time', train: split.train, validation: split.test, from: cuts.testFrom };
+    return { method: 'time', train: split.train, validation: split.test, from: cuts.testFrom, unavailable: notYetAvailable(ds, cuts.testFrom) };
   }
-  return { ...randomSplit(ds, share, o.seed ?? 1), method: 'random', from: null };
+  return { ...randomSplit(ds, share, o.seed ?? 1), method: 'random', from: null, unavailable: null };
+}
+
+/** Items whose added date (else first signal) is at or after `from`; items with neither stay available. */
+export function notYetAvailable(ds: Dataset, from: number): Uint8Array {
+  const nI = ds.items.length;
+  const first = new Float64Array(nI).fill(Infinity);
+  const s = ds.signals;
+  for (let k = 0; k < s.length; k++) {
+    const t = s.at[k]!;
+    const i = s.item[k]!;
+    if (t < first[i]!) first[i] = t; // NaN never compares below
+  }
+  return Uint8Array.from(ds.items, (item, i) => {
+    const since = item.addedAt ?? (first[i] === Infinity ? null : first[i]!);
+    return since !== null && since >= from ? 1 : 0;
+  });
 }
 
 function randomSplit(ds: Dataset, share: number, seed: number): { train: Int32Array; validation: Int32Array } {

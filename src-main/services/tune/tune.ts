@@ -107,8 +107,8 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   const split = validationSplit(ds, { seed });
   const train = buildInteractionMatrix(ds, { rows: split.train });
   const validation = buildInteractionMatrix(ds, { rows: split.validation });
-  const truth = sampleTruth(evalTruth(train, validation), o.sampleCustomers ?? 1000, seededRng(seed));
-  const ev = new RankingEvaluator(train, truth, k);
+  const truth = sampleTruth(evalTruth(train, validation, undefined, split.unavailable), o.sampleCustomers ?? 1000, seededRng(seed));
+  const ev = new RankingEvaluator(train, truth, k, split.unavailable);
   if (ev.customerCount === 0) throw new InputError('no customer has both train history and new validation items: too little data to tune');
   const useEase = ds.items.length <= EASE_TUNE_MAX_ITEMS;
   if (!useEase) notes.push(`EASE not tuned: ${ds.items.length} items, above ${EASE_TUNE_MAX_ITEMS} (each fit would take minutes); it trains with the default lambda`);

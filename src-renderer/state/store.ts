@@ -25,7 +25,27 @@ export type AppStore = StoreApi<AppState>;
 
 const realSleep = (ms: number) => new Promise<void>((r) => setTimeout(r, ms));
 
-export function createAppStore(client: Client, now: () => number = Date.now, sleep = realSleep): AppStore {
+/**
+ * The client the slices use: an answer to a call made before another workspace was opened is dropped (its
+ * promise never settles), since it describes the old workspace and would land in the screens just cleared.
+ */
+function droppingStale(client: Client, epoch: () => number): Client {
+  const never = new Promise<never>(() => {});
+  return {
+    ...client,
+    call(method, payload) {
+      const asked = epoch();
+      return client.call(method, payload).then(
+        (v) => (asked === epoch() ? v : never),
+        (e: unknown) => (asked === epoch() ? Promise.reject(e instanceof Error ? e : new Error(String(e))) : never),
+      );
+    },
+  };
+}
+
+export function createAppStore(plainClient: Client, now: () => number = Date.now, sleep = realSleep): AppStore {
+  let epoch = 0;
+  const client = droppingStale(plainClient, () => epoch);
   return createStore<AppState>()((...a) => {
     const slices = {
       ...createWorkspaceSlice(client, now)(...a),
@@ -41,6 +61,7 @@ export function createAppStore(client: Client, now: () => number = Date.now, sle
     return {
       ...slices,
       forgetWorkspaceState() {
+        epoch += 1;
         a[0]({ curation, models, whatif, importer, insight });
       },
     };

@@ -1,5 +1,5 @@
 import path from 'node:path';
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import type { ModelInfo } from '../../src-renderer/state/models-slice.ts';
 import { createAppStore, type AppStore } from '../../src-renderer/state/store.ts';
 import { seededHarness, type Harness } from './seed.ts';
@@ -61,5 +61,37 @@ describe('opening another workspace', () => {
     expect(await store.getState().openWorkspace(path.join(h.dir, 'missing.sqlite'), false)).toBe(false);
     expect(store.getState().curation.comparison?.b).toBe('Week 50');
     expect(store.getState().models.list).toHaveLength(5);
+  });
+});
+
+describe('an answer about the previous workspace', () => {
+  it('is dropped when it arrives after another workspace was opened', async () => {
+    let release: () => void = () => {};
+    const gate = new Promise<void>((r) => (release = r));
+    let asked = false;
+    // The comparison's answer is held until the new workspace is open, as a slow call over IPC or HTTP would be.
+    const held: typeof h.client = {
+      ...h.client,
+      async call(method, payload) {
+        const answer = await h.client.call(method, payload);
+        if (method === 'edition.compare') {
+          asked = true;
+          await gate;
+        }
+        return answer;
+      },
+    };
+    store = createAppStore(held, () => 1000);
+    await store.getState().newEdition('Week 49', '2026-12-07');
+    await store.getState().publish();
+    void store.getState().compare('Week 49', 'Week 49');
+    await vi.waitFor(() => expect(asked).toBe(true));
+    expect(await store.getState().openWorkspace(path.join(h.dir, 'empty.sqlite'), true)).toBe(true);
+    release();
+    // The held answer is dropped: the compare call never settles, so wait on the gate's next turn instead.
+    await gate;
+    await new Promise((r) => setImmediate(r));
+    expect(store.getState().curation.comparison).toBeNull();
+    expect(store.getState().curation.busy).toBe(false);
   });
 });

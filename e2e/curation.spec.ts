@@ -117,6 +117,7 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
 
   await page.getByRole('button', { name: 'Back to edition' }).click();
   await page.getByRole('button', { name: 'Publish edition' }).click();
+  await page.getByRole('alertdialog').getByRole('button', { name: 'Publish now' }).click();
   await expect(page.getByRole('heading', { name: /Published/ })).toBeVisible();
 
   const download = page.waitForEvent('download');

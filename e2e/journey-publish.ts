@@ -26,6 +26,7 @@ export async function publishAndExport(page: Page, o: JourneyOptions): Promise<v
   await expect(page.locator('.shelf-card .sponsored').first()).toHaveText('Sponsored');
 
   await page.getByRole('button', { name: 'Publish edition' }).click();
+  await page.getByRole('alertdialog').getByRole('button', { name: 'Publish now' }).click();
   await expect(page.getByRole('heading', { name: /Published/ })).toBeVisible();
   for (const format of ['csv', 'html'] as const) {
     const download = page.waitForEvent('download');

@@ -12,6 +12,7 @@ import { AppContext } from '../services/context.ts';
 import { makeTempFolder, sweepTempFolders } from '../services/temp-folders.ts';
 import { APP_BLOCKING_WAIT_MS } from '../store/workspace.ts';
 import { parseStartArgs, type StartArgs } from './launch/args.ts';
+import { openAppWindow } from './launch/app-window.ts';
 import { chromiumAppArgs, findChromium } from './launch/browser.ts';
 import { ensureDemo } from './launch/demo.ts';
 import { writeLaunchPage } from './launch/launch-page.ts';
@@ -72,12 +73,13 @@ async function launchWeb(args: StartArgs, workspace: string): Promise<void> {
   const profile = makeTempFolder('profile');
   // The browser is started on a private forwarding page, never on the address with the token: its command
   // line is visible to every account on the machine (launch/launch-page.ts).
-  const child = spawn(browser, chromiumAppArgs(writeLaunchPage(profile, shell.pageUrl), profile), { stdio: 'ignore' });
-  child.on('error', (e) => console.log(`Could not open ${browser} (${e.message}); open the address above instead.`));
-  // Closing the app window ends the session and removes the throw-away profile.
-  child.on('exit', () => {
-    fs.rmSync(profile, { recursive: true, force: true });
-    void stop();
+  openAppWindow({
+    browser,
+    args: chromiumAppArgs(writeLaunchPage(profile, shell.pageUrl), profile),
+    say: (line) => console.log(line),
+    onGone: () => fs.rmSync(profile, { recursive: true, force: true }),
+    // Closing the app window ends the session; a window that never opened does not (launch/app-window.ts).
+    onClosed: () => void stop(),
   });
 }
 

@@ -1,6 +1,8 @@
 import { useId, useState, type FormEvent } from 'react';
 import { EditionMeterPanel } from '../components/Meter.tsx';
 import { pct } from '../components/format.ts';
+import { PublishConfirm } from '../components/PublishConfirm.tsx';
+import { PublishedBanner } from '../components/PublishedBanner.tsx';
 import { ExportPanel } from './ExportPanel.tsx';
 import { useApp } from '../state/store.ts';
 
@@ -48,6 +50,8 @@ export function Board() {
   const publish = useApp((s) => s.publish);
   const openShelf = useApp((s) => s.openShelf);
   const go = useApp((s) => s.go);
+  const opened = useApp((s) => s.curation.opened);
+  const [confirming, setConfirming] = useState(false);
   if (!edition) return <p className="notice">Open or start an edition on the Editions screen.</p>;
   const published = edition.status === 'published';
   return (
@@ -57,11 +61,21 @@ export function Board() {
           {edition.label} <span className="muted">· {edition.date} · {published ? 'Published' : 'Draft'}</span>
         </h1>
         {!published && (
-          <button type="button" disabled={busy || edition.shelves.length === 0} onClick={() => void publish()}>
+          <button type="button" disabled={busy || confirming || edition.shelves.length === 0} onClick={() => setConfirming(true)}>
             Publish edition
           </button>
         )}
       </header>
+      {published && <PublishedBanner label={edition.label} publishedAt={edition.publishedAt} />}
+      {!published && confirming && (
+        <PublishConfirm
+          edition={edition}
+          opened={opened}
+          busy={busy}
+          onCancel={() => setConfirming(false)}
+          onPublish={() => void publish().then(() => setConfirming(false))}
+        />
+      )}
       {publishError && (
         <p className="error" role="alert">
           Could not publish: {publishError}
@@ -76,7 +90,7 @@ export function Board() {
               <h2>{s.label}</h2>
               <p className="muted">
                 {s.slots.filter((x) => x.item).length} of {s.size} slots filled · pool of {s.poolSize}
-                {s.locked ? ' · locked' : ''}
+                {s.locked ? ' · locked: its list stays as it is until unlocked' : ''}
               </p>
               <p>
                 Variety {s.meter.intraListDistance?.toFixed(2) ?? '—'} · Sponsored {sponsored} ({pct(s.meter.promotedShareCount)})

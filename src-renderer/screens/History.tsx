@@ -6,7 +6,7 @@ export function History() {
   const editions = useApp((s) => s.curation.editions);
   const comparison = useApp((s) => s.curation.comparison);
   /** Titles as published, with the shop's id for the editor's search. */
-  const named = (id: string) => (comparison?.titles[id] ? `${comparison.titles[id]} ({id})` : id);
+  const named = (id: string) => (comparison?.titles[id] ? `${comparison.titles[id]} (${id})` : id);
   const error = useApp((s) => s.curation.errors.compare);
   const load = useApp((s) => s.loadEditions);
   const compare = useApp((s) => s.compare);

@@ -91,9 +91,11 @@ function ModelStatus() {
   const load = useApp((s) => s.loadModels);
   const go = useApp((s) => s.go);
   const open = useApp((s) => s.workspace.info?.open ?? false);
+  // Keyed on the file too: opening another workspace while this screen shows reads that one's models.
+  const file = useApp((s) => s.workspace.info?.file ?? null);
   useEffect(() => {
     if (open) void load();
-  }, [load, open]);
+  }, [load, open, file]);
   if (!open) return null;
   const stale = models.filter((m) => m.stale).length;
   return (

@@ -4,6 +4,7 @@ import { AnchorPicker } from '../components/AnchorPicker.tsx';
 import { BriefEditor } from '../components/BriefEditor.tsx';
 import { CandidatePool } from '../components/CandidatePool.tsx';
 import { ShelfMeterPanel } from '../components/Meter.tsx';
+import { PublishedBanner } from '../components/PublishedBanner.tsx';
 import { BacktestPanel, SimilarPanel } from '../components/ShelfInsights.tsx';
 import { SlotList } from '../components/SlotList.tsx';
 import { changeMarks, describeChanges } from '../components/change-words.ts';
@@ -14,6 +15,7 @@ import { useApp } from '../state/store.ts';
 export function ShelfEditor() {
   const shelf = useApp((s) => s.curation.edition?.shelves.find((x) => x.label === s.curation.shelf) ?? null);
   const published = useApp((s) => s.curation.edition?.status === 'published');
+  const publishedAt = useApp((s) => s.curation.edition?.publishedAt ?? null);
   const whatif = useApp((s) => s.whatif);
   const [slot, setSlot] = useState(1);
   const error = useApp((s) => s.curation.errors.shelf);
@@ -77,6 +79,12 @@ export function ShelfEditor() {
           )}
         </div>
       </header>
+      {published && <PublishedBanner label={shelf.edition} publishedAt={publishedAt} />}
+      {!published && shelf.locked && (
+        <p className="banner" role="note">
+          This shelf is locked: its list stays exactly as it is, and nothing can pin, ban, move or refill it. Unlock the shelf to change it.
+        </p>
+      )}
       {error && (
         <p className="error" role="alert">
           That action did not go through: {error}
@@ -84,7 +92,6 @@ export function ShelfEditor() {
       )}
       <p className="muted small" aria-live="polite">
         {shelf.slots.filter((s) => s.item).length} of {shelf.size} slots filled from a pool of {shelf.poolSize}
-        {shelf.locked ? ' · locked: unlock to change it' : ''}
         {lastMs !== null ? ` · last change shown in ${Math.round(lastMs)} ms` : ''}
       </p>
       <p className="small changes-line" aria-live="polite">

@@ -1,6 +1,7 @@
 import type { StateCreator } from 'zustand';
 import type { RequestOf, ResponseOf } from '../../src-main/api/contract.ts';
 import { describeError, type Client } from '../client/client.ts';
+import { shelfKey } from './publish-check.ts';
 import type { AppState } from './store.ts';
 
 export type EditionView = ResponseOf<'edition.show'>;
@@ -37,6 +38,8 @@ export interface CurationSlice {
     lastActionMs: number | null;
     /** What the last action, undo, redo or refill changed on which shelf: the editor highlights and says it. */
     lastChange: LastChange | null;
+    /** Shelves opened in the shelf editor (`shelfKey`), so publishing can name the ones never opened. */
+    opened: string[];
   };
   loadEditions(): Promise<void>;
   newEdition(label: string, date: string, from?: string): Promise<boolean>;
@@ -64,6 +67,7 @@ export const initialCuration: CurationSlice['curation'] = {
   comparison: null,
   lastActionMs: null,
   lastChange: null,
+  opened: [],
 };
 
 /** The edition with one shelf replaced (immutable update: zustand guides/maps-and-sets-usage.md). */
@@ -165,7 +169,11 @@ export function createCurationSlice(client: Client, clock: () => number): StateC
         }
       },
       openShelf(label) {
-        set((s) => ({ curation: { ...s.curation, shelf: label, lastChange: null } }));
+        set((s) => {
+          const key = label && s.curation.edition ? shelfKey(s.curation.edition.label, label) : null;
+          const opened = key && !s.curation.opened.includes(key) ? [...s.curation.opened, key] : s.curation.opened;
+          return { curation: { ...s.curation, shelf: label, lastChange: null, opened } };
+        });
       },
       act: (action, reason) => shelfCall('shelf', () => client.call('shelf.act', { ...refs(), action, ...(reason ? { reason } : {}) })),
       undo: async () => void (await shelfCall('shelf', () => client.call('shelf.undo', refs()))),

@@ -69,7 +69,9 @@ export function createWorkspaceSlice(client: Client, now: () => number): StateCr
       set((s) => ({ workspace: { ...s.workspace, opening: true, openError: null } }));
       try {
         const info = await client.call('workspace.open', { file, create });
-        set((s) => ({ workspace: { ...s.workspace, info, status: 'ready', opening: false, readAt: now() } }));
+        // Nothing read from the previous workspace may be shown for this one (models, editions, messages).
+        get().forgetWorkspaceState();
+        set({ workspace: { ...initialWorkspace, info, status: 'ready', readAt: now() } });
         await get().loadStats();
         return true;
       } catch (e) {

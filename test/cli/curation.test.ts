@@ -93,7 +93,16 @@ describe('shelfwright edition and shelf commands', () => {
     const cmp = await json('edition', 'compare', 'week 10', 'week 11');
     expect(cmp.shelves[0].label).toBe('Front');
     expect(cmp.shelves[0].removed.sort()).toEqual(before.shelves[0].slots.map((s: { item: string }) => s.item).sort());
-    expect((await run('edition', 'compare', 'week 10', 'week 11')).out).toMatch(/Front\n {2}added: {3}SKU-/);
+    const cmpText = (await run('edition', 'compare', 'week 10', 'week 11')).out;
+    expect(cmpText).toMatch(/Front\n {2}added: {3}SKU-/);
+    // Every changed item is printed by its id, exactly the ids the JSON answer holds (never a '({id})' template).
+    const cmpJson = await json('edition', 'compare', 'week 10', 'week 11'); // fresh: the check above sorted its lists in place
+    for (const s of cmpJson.shelves as { label: string; added: string[]; removed: string[] }[]) {
+      const block = cmpText.split(/\n(?=\S)/).find((b) => b.startsWith(s.label))!;
+      expect(block).toContain(`  added:   ${s.added.join(', ') || '–'}`);
+      expect(block).toContain(`  removed: ${s.removed.join(', ') || '–'}`);
+    }
+    expect(cmpText).not.toContain('{id}');
 
     const csv = await run('edition', 'export', 'week 10', '--format', 'csv');
     const rows = parse(csv.out, { relax_column_count: true }) as string[][];

@@ -108,6 +108,11 @@ describe('taste-group audiences', () => {
     svc.newEdition('w', '2026-03-02');
     const v = svc.addShelf('w', 'Lanterns', { size: 4, audience: { kind: 'group', group: before, name: 'Lantern people' } });
     expect(v.violations.filter((x) => x.rule === 'audience')).toEqual([]);
+    // Aimed by number at a group that has a name, the brief keeps the name; aimed by name, it gets the number.
+    const byNumber = svc.addShelf('w', 'By number', { size: 4, audience: { kind: 'group', group: before } });
+    expect(byNumber.brief.audience).toEqual({ kind: 'group', group: before, name: 'Lantern people' });
+    const byName = svc.addShelf('w', 'By name', { size: 4, audience: { kind: 'group', group: 0, name: 'Lantern people' } });
+    expect(byName.brief.audience).toEqual({ kind: 'group', group: before, name: 'Lantern people' });
     const reached = () => Array.from(audienceReadings(world(db!), svc.showEdition('w').shelves.find((s) => s.label === 'Lanterns')!.brief, dateMs('2026-03-02')).audience);
     expect(reached()).toEqual(lanternCustomers);
     // Retrain: three customers of the notebooks camp (2) move to the lanterns' direction, so the lantern group

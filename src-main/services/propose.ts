@@ -12,6 +12,7 @@ import {
   audienceAffinityInto,
   HybridScorer,
   resolveAudience,
+  missingGroupName,
   type Component,
   type HybridModels,
   type ScoredItem,
@@ -166,7 +167,10 @@ export function propose(db: Db, brief: Brief, options: ProposeOptions): Proposal
   // Normalised as a shelf's pool is (curation/world.ts: min–max).
   const hybrid = new HybridScorer(loaded.models, { customersPerItem: world.customersPerItem, trend, addedAt }, { normalisation: world.hybrid.normalisation });
 
-  const audience = resolveAudience(ds, brief.audience, editionDate, world.groups);
+  const audience = resolveAudience(ds, brief.audience, editionDate, world.groups, world.groupNames);
+  // A one-off list has no shelf to carry the message: a named group no longer found is refused outright.
+  const missing = missingGroupName(brief.audience, world.groupNames);
+  if (missing) throw new InputError(missing);
   let affinity: Float32Array | null = null;
   let report = { customersUsed: 0, exact: true };
   if (world.blend && audience.length > 0) {

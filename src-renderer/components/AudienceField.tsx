@@ -10,11 +10,13 @@ export interface AudienceDraft {
   category: string;
   withinDays: string;
   group: string;
+  /** The group's name when it has one: the brief then aims at the name, which survives a retraining. */
+  groupName?: string;
 }
 
 export function draftOf(a: Audience | undefined): AudienceDraft {
   if (a?.kind === 'rule') return { kind: 'rule', category: a.category, withinDays: String(a.withinDays ?? 90), group: '' };
-  if (a?.kind === 'group') return { kind: 'group', category: '', withinDays: '90', group: String(a.group) };
+  if (a?.kind === 'group') return { kind: 'group', category: '', withinDays: '90', group: String(a.group), ...(a.name !== undefined && { groupName: a.name }) };
   return { kind: 'everyone', category: '', withinDays: '90', group: '' };
 }
 
@@ -28,8 +30,11 @@ export function audienceOf(d: AudienceDraft, signalKinds: readonly string[] = ['
     return { kind: 'rule', category: d.category.trim(), signalKinds: [...signalKinds], withinDays: days };
   }
   if (d.group === '') return 'Choose a taste group.';
-  return { kind: 'group', group: Number(d.group) };
+  return d.groupName ? { kind: 'group', group: Number(d.group), name: d.groupName } : { kind: 'group', group: Number(d.group) };
 }
+
+/** The select's value: a named group by its name (its number changes at each training), else its number. */
+const optionOf = (group: number | string, name: string | null | undefined) => (name ? `name:${name}` : String(group));
 
 /**
  * Who the shelf is for: everyone, customers who bought in a category in the last N days, or a taste
@@ -45,6 +50,14 @@ export function AudienceField({ draft, onChange, disabled }: { draft: AudienceDr
     if (draft.kind === 'group' && !groups) void loadGroups();
   }, [draft.kind, groups, loadGroups]);
   const set = (p: Partial<AudienceDraft>) => onChange({ ...draft, ...p });
+  const list = groups?.groups ?? [];
+  // A named group the last training no longer has still shows, so the editor sees why the shelf says so.
+  const lost = draft.groupName && groups && !list.some((g) => g.name === draft.groupName) ? draft.groupName : null;
+  const choose = (value: string) => {
+    const g = list.find((x) => optionOf(x.group, x.name) === value);
+    if (g) set({ group: String(g.group), groupName: g.name ?? '' });
+    else if (value === '') set({ group: '', groupName: '' });
+  };
   return (
     <fieldset disabled={disabled}>
       <legend>Audience</legend>
@@ -76,11 +89,16 @@ export function AudienceField({ draft, onChange, disabled }: { draft: AudienceDr
       {draft.kind === 'group' && (
         <div className="field">
           <label htmlFor={`${id}-g`}>Taste group</label>
-          <select id={`${id}-g`} value={draft.group} onChange={(e) => set({ group: e.target.value })}>
+          <select id={`${id}-g`} value={draft.group === '' ? '' : optionOf(draft.group, draft.groupName)} onChange={(e) => choose(e.target.value)}>
             <option value="">Choose…</option>
-            {(groups?.groups ?? []).map((g) => (
-              <option key={g.group} value={g.group}>
-                Group {g.group + 1} ({g.customers.toLocaleString('en')} customers): {g.categories.slice(0, 3).map((c) => c.value).join(', ') || 'no categories'}
+            {lost && (
+              <option value={optionOf(draft.group, lost)} disabled>
+                “{lost}” (not found after the last training)
+              </option>
+            )}
+            {list.map((g) => (
+              <option key={g.group} value={optionOf(g.group, g.name)}>
+                {g.name ? `“${g.name}”` : `Group ${g.group + 1}`} ({g.customers.toLocaleString('en')} customers): {g.categories.slice(0, 3).map((c) => c.value).join(', ') || 'no categories'}
                 {g.tags.length > 0 ? ` · ${g.tags.slice(0, 3).map((t) => t.value).join(', ')}` : ''}
               </option>
             ))}

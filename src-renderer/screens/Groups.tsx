@@ -72,7 +72,7 @@ function GroupCard({ g, all, shelfOpen }: { g: Group; all: Group[]; shelfOpen: b
           {shelfOpen && brief && (
             <button
               type="button"
-              onClick={() => void aim({ ...brief, audience: { kind: 'group', group: g.group } }).then((ok) => setAimed(ok))}
+              onClick={() => void aim({ ...brief, audience: g.name ? { kind: 'group', group: g.group, name: g.name } : { kind: 'group', group: g.group } }).then((ok) => setAimed(ok))}
             >
               Aim shelf “{shelf}” here
             </button>

@@ -27,6 +27,18 @@ describe('shelfwright edition and shelf commands', () => {
     expect(refilled.out).toMatch(/changed:/);
   });
 
+  it('takes a taste group by name or number in --audience, and says what it expects otherwise', async () => {
+    const { run } = seededCli();
+    await run('edition', 'new', 'w', '--date', '2026-03-02');
+    // No trained model here: the named group is parsed and reaches the service, which asks for a training.
+    const named = await run('shelf', 'add', 'w', 'Lanterns', '--size', '4', '--audience', 'group:Lantern people');
+    expect(named.code).not.toBe(0);
+    expect(named.err).toMatch(/train the models first/);
+    const bad = await run('shelf', 'add', 'w', 'Lanterns', '--size', '4', '--audience', 'group: ');
+    expect(bad.code).not.toBe(0);
+    expect(bad.err).toMatch(/--audience expects everyone, group:N, group:NAME or bought:CATEGORY\[:DAYS\], got 'group: '/);
+  });
+
   it('walks an edition from shelves to publish, rest period, compare and export', async () => {
     const { file: w, run, json } = seededCli();
 

@@ -3,6 +3,9 @@ import { IalsModel } from '../../src-main/core/models/ials.ts';
 import { IALS_DEFAULTS } from '../../src-main/core/models/ials-params.ts';
 import { curationModelSource } from '../../src-main/services/curation/model-source.ts';
 import { CurationService } from '../../src-main/services/curation/service.ts';
+import { audienceReadings } from '../../src-main/services/curation/shelf-fill.ts';
+import { parseBrief } from '../../src-main/core/editing/brief-schema.ts';
+import { dateMs } from '../../src-main/store/editions.ts';
 import { forgetTasteGroupName, nameTasteGroup, setTasteGroupSettings, tasteGroupsView } from '../../src-main/services/curation/taste-groups.ts';
 import { forgetCustomer } from '../../src-main/services/forget.ts';
 import { dataFingerprint } from '../../src-main/store/models.ts';
@@ -91,6 +94,66 @@ describe('taste-group audiences', () => {
     expect(() => nameTasteGroup(db!, world(db!).ds, 99, 'x')).toThrow(/no group 99/);
     expect(() => forgetTasteGroupName(db!, world(db!).ds, 'nobody')).toThrow(/no group is named 'nobody'/);
     expect(forgetTasteGroupName(db, world(db).ds, 'Lantern people').unmatchedNames).toEqual([]);
+  });
+
+  it('aims a shelf at a group by its name: it follows the name across a renumbering retraining, and says so when the name is lost', () => {
+    ({ db } = openSeeded());
+    store(db, plantedIals(30, 40), 1);
+    const svc = new CurationService(db, curationModelSource);
+    // Dense customer d is id d + 1, of camp (d + 1) % 3; camp 1 shops mostly in lanterns (fixture).
+    const lanternCustomers = Array.from({ length: 30 }, (_, d) => d).filter((d) => (d + 1) % 3 === 1);
+    const lanternGroup = () => tasteGroupsView(db!, world(db!).ds).groups.findIndex((x) => x.categories[0]?.value === 'lanterns');
+    const before = lanternGroup();
+    nameTasteGroup(db, world(db).ds, before, 'Lantern people');
+    svc.newEdition('w', '2026-03-02');
+    const v = svc.addShelf('w', 'Lanterns', { size: 4, audience: { kind: 'group', group: before, name: 'Lantern people' } });
+    expect(v.violations.filter((x) => x.rule === 'audience')).toEqual([]);
+    // Aimed by number at a group that has a name, the brief keeps the name; aimed by name, it gets the number.
+    const byNumber = svc.addShelf('w', 'By number', { size: 4, audience: { kind: 'group', group: before } });
+    expect(byNumber.brief.audience).toEqual({ kind: 'group', group: before, name: 'Lantern people' });
+    const byName = svc.addShelf('w', 'By name', { size: 4, audience: { kind: 'group', group: 0, name: 'Lantern people' } });
+    expect(byName.brief.audience).toEqual({ kind: 'group', group: before, name: 'Lantern people' });
+    const reached = () => Array.from(audienceReadings(world(db!), svc.showEdition('w').shelves.find((s) => s.label === 'Lanterns')!.brief, dateMs('2026-03-02')).audience);
+    expect(reached()).toEqual(lanternCustomers);
+    // Retrain: three customers of the notebooks camp (2) move to the lanterns' direction, so the lantern group
+    // is the largest (13) and takes number 0; the name still fits it (Jaccard 10/13 ≥ 0.5).
+    expect(before).not.toBe(0);
+    const moved = plantedIals(30, 40);
+    const movers = [1, 4, 7]; // dense customers of camp (d + 1) % 3 = 2
+    for (const d of movers) {
+      moved.customerFactors[d * 4 + 2] = 0;
+      moved.customerFactors[d * 4 + 1] = 0.5;
+    }
+    store(db, moved, 2);
+    expect(lanternGroup()).toBe(0);
+    expect(lanternGroup()).not.toBe(before);
+    const after = svc.fill('w', 'Lanterns');
+    expect(after.violations.filter((x) => x.rule === 'audience')).toEqual([]);
+    expect(reached()).toEqual([...lanternCustomers, ...movers].sort((a, b) => a - b));
+    // A training with no camp structure: no group keeps the name, and the shelf says so instead of using group `before`.
+    const flat = plantedIals(30, 40, () => 0);
+    for (let u = 0; u < 30; u++) flat.customerFactors[u * 4 + 1 + (u % 3)] = 0.3 * ((u * 7) % 5);
+    store(db, flat, 3);
+    expect(tasteGroupsView(db, world(db).ds).unmatchedNames).toEqual(['Lantern people']);
+    const lost = svc.fill('w', 'Lanterns');
+    expect(lost.violations).toContainEqual({ rule: 'audience', reason: "the taste group 'Lantern people' was not found after the last training: choose another audience" });
+    expect(reached()).toEqual([]);
+  });
+
+  it('still reads a brief stored with only a group number, and keeps that number for an unnamed group', () => {
+    // The brief as stored before names could be given (schema of issue 15's first version).
+    const old = parseBrief(JSON.parse('{"size":4,"audience":{"kind":"group","group":2}}'));
+    expect(old.audience).toEqual({ kind: 'group', group: 2 });
+    ({ db } = openSeeded());
+    store(db, plantedIals(30, 40), 1);
+    const svc = new CurationService(db, curationModelSource);
+    svc.newEdition('w', '2026-03-02');
+    const v = svc.addShelf('w', 'Numbered', { size: 4, audience: { kind: 'group', group: 2 } });
+    expect(v.violations.filter((x) => x.rule === 'audience')).toEqual([]);
+    const w = world(db);
+    const members = Array.from(w.groups!.entries()).filter(([, g]) => g === 2).map(([d]) => d);
+    expect(Array.from(audienceReadings(w, parseBrief({ size: 4, audience: { kind: 'group', group: 2 } }), dateMs('2026-03-02')).audience)).toEqual(members);
+    expect(() => parseBrief({ size: 4, audience: { kind: 'group', group: 2, name: '  ' } })).toThrow(/name/);
   });
 
   it('erases a forgotten customer from the members a name was given to', async () => {

@@ -32,7 +32,7 @@ describe('topPercent', () => {
 
 describe('audience choice', () => {
   it('round-trips each kind and names what is missing', () => {
-    const kinds: Audience[] = [{ kind: 'everyone' }, { kind: 'rule', category: 'home', signalKinds: ['purchase'], withinDays: 30 }, { kind: 'group', group: 2 }];
+    const kinds: Audience[] = [{ kind: 'everyone' }, { kind: 'rule', category: 'home', signalKinds: ['purchase'], withinDays: 30 }, { kind: 'group', group: 2 }, { kind: 'group', group: 1, name: 'Lantern people' }];
     for (const a of kinds) {
       expect(audienceOf(draftOf(a))).toEqual(a);
     }

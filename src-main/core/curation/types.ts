@@ -32,7 +32,12 @@ export interface Rules {
 export type Audience =
   | { kind: 'everyone' }
   | { kind: 'rule'; category: string; signalKinds: string[]; withinDays: number }
-  | { kind: 'group'; group: number };
+  /**
+   * A taste group. `name`, when the group was named, is what the brief aims at: groups are renumbered at
+   * each training, so the name is resolved at fill time to whichever group carries it now; `group` is the
+   * number it had when chosen, used only for a group without a name.
+   */
+  | { kind: 'group'; group: number; name?: string };
 
 export interface BlendWeights {
   content: number;

@@ -26,7 +26,8 @@ export const AudienceSchema = z.discriminatedUnion('kind', [
       withinDays: z.number().positive().default(90),
     })
     .strict(),
-  z.object({ kind: z.literal('group'), group: z.number().int().min(0) }).strict(),
+  // `name` is optional, so a brief stored before groups could be aimed at by name still reads.
+  z.object({ kind: z.literal('group'), group: z.number().int().min(0), name: z.string().trim().min(1).max(60).optional() }).strict(),
 ]);
 
 /**

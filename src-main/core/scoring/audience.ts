@@ -12,14 +12,23 @@ import { DAY_MS, SIGNAL_KIND_CODE, SIGNAL_KINDS, type Dataset, type SignalKind }
  * - rule: customers with a signal of one of `signalKinds` on an item of `category` in the `withinDays`
  *   days before the edition date (e.g. bought in a category in the last 90 days).
  * - group: customers whose discovered taste group is `group`; `groups` (customer → group) must be given.
+ *   A group aimed at by name is the group that carries the name now (`names`, one per group); when none
+ *   does, the audience is empty and `missingGroupName` says why, never another group's customers.
  */
-export function resolveAudience(ds: Dataset, audience: Audience, editionDate: number, groups?: Int32Array): Int32Array {
+export function resolveAudience(
+  ds: Dataset,
+  audience: Audience,
+  editionDate: number,
+  groups?: Int32Array,
+  names?: readonly (string | null)[],
+): Int32Array {
   const nC = ds.customerIds.length;
   if (audience.kind === 'everyone') return Int32Array.from({ length: nC }, (_, u) => u);
   if (audience.kind === 'group') {
     if (!groups) throw new InputError('taste groups have not been discovered yet: train the models first');
+    const group = groupOf(audience, names);
     const out: number[] = [];
-    for (let u = 0; u < nC; u++) if (groups[u] === audience.group) out.push(u);
+    if (group >= 0) for (let u = 0; u < nC; u++) if (groups[u] === group) out.push(u);
     return Int32Array.from(out);
   }
   if (!(audience.withinDays > 0)) throw new InputError(`audience rule needs withinDays > 0, got ${audience.withinDays}`);
@@ -44,6 +53,18 @@ export function resolveAudience(ds: Dataset, audience: Audience, editionDate: nu
   const out: number[] = [];
   for (let u = 0; u < nC; u++) if (member[u]) out.push(u);
   return Int32Array.from(out);
+}
+
+/** The group a group audience means now: by name when it has one (-1 when no group carries it), else by number. */
+export function groupOf(audience: { group: number; name?: string }, names?: readonly (string | null)[]): number {
+  if (audience.name === undefined) return audience.group;
+  return names ? names.indexOf(audience.name) : -1;
+}
+
+/** Why a brief aimed at a named group reaches no one, in words; null when the audience is not such a case. */
+export function missingGroupName(audience: Audience, names?: readonly (string | null)[]): string | null {
+  if (audience.kind !== 'group' || audience.name === undefined || groupOf(audience, names) >= 0) return null;
+  return `the taste group '${audience.name}' was not found after the last training: choose another audience`;
 }
 
 export interface AffinityOptions {

@@ -59,7 +59,7 @@ export function backtestShelf(world: CurationWorld, shelf: Shelf, slots: readonl
   const start = end - windowDays * DAY_MS;
   const before = start - windowDays * DAY_MS;
 
-  const audience = resolveAudience(ds, shelf.brief.audience, start, world.groups);
+  const audience = resolveAudience(ds, shelf.brief.audience, start, world.groups, world.groupNames);
   const member = new Uint8Array(ds.customerIds.length);
   for (const u of audience) member[u] = 1;
 

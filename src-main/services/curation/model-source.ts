@@ -3,14 +3,15 @@
  * factors as the similarity vectors of the meter and MMR when iALS is trained, and taste groups found in
  * the iALS customer factors (core/audience/taste-groups.ts: unit vectors, k chosen by silhouette). Groups
  * are seeded, so the same model and settings give the same groups, and a brief's "group 2" keeps meaning the
- * same people until the next training or a change of the settings.
+ * same people until the next training or a change of the settings; a brief aimed at a named group follows
+ * the name (matched by member overlap) across trainings instead.
  */
-import { findTasteGroups, type GroupSettings, type TasteGrouping } from '../../core/audience/index.ts';
+import { findTasteGroups, matchNames, type GroupSettings, type TasteGrouping } from '../../core/audience/index.ts';
 import { InputError } from '../../core/errors.ts';
 import { signalsByCustomer } from '../../core/matrix/by-customer.ts';
 import { IalsModel } from '../../core/models/ials.ts';
 import type { Dataset } from '../../core/types.ts';
-import { readGroupSettings } from '../../store/taste-groups.ts';
+import { readGroupNames, readGroupSettings } from '../../store/taste-groups.ts';
 import type { Db } from '../../store/workspace.ts';
 import { blendOf } from '../holdout/trained.ts';
 import { loadCurrentModels } from '../propose.ts';
@@ -63,6 +64,14 @@ export function groupsFor(ds: Dataset, r: TasteGrouping): Int32Array {
   return out;
 }
 
+/** The editor's name of each group of `grouping` now, by member overlap (core/audience/names.ts). */
+export function groupNamesFor(db: Db, ds: Dataset, grouping: TasteGrouping, assignment: Int32Array): (string | null)[] {
+  const dense = new Map<number, number>();
+  ds.customerIds.forEach((id, u) => dense.set(id, u));
+  const stored = readGroupNames(db).map((n) => ({ name: n.name, members: n.members.map((c) => dense.get(c) ?? -1) }));
+  return matchNames(assignment, grouping.k, stored).names;
+}
+
 /** The groups of the current iALS model under the workspace's settings, or null with the reason. */
 export function currentGrouping(db: Db, ds: Dataset): TasteGrouping {
   const ials = ialsOf(db, ds);
@@ -77,12 +86,15 @@ export const curationModelSource: ModelSource = (db, ds) => {
   if (!ials) return { models: loaded.models, blend };
   const vectors = { data: ials.itemFactors, dim: ials.factors };
   let groups: Int32Array | undefined;
+  let groupNames: (string | null)[] | undefined;
   try {
-    groups = groupsFor(ds, tasteGroups(ials, ds, readGroupSettings(db)));
+    const grouping = tasteGroups(ials, ds, readGroupSettings(db));
+    groups = groupsFor(ds, grouping);
+    groupNames = groupNamesFor(db, ds, grouping, groups);
   } catch (e) {
     // Too few customers with enough history for groups: everything else still works; briefs aimed at a
     // group are refused by resolveAudience with its own message.
     if (!(e instanceof InputError)) throw e;
   }
-  return groups ? { models: loaded.models, blend, vectors, groups } : { models: loaded.models, blend, vectors };
+  return groups && groupNames ? { models: loaded.models, blend, vectors, groups, groupNames } : { models: loaded.models, blend, vectors };
 };

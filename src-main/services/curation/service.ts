@@ -30,6 +30,7 @@ import type { EditorialRepo } from '../../store/editorial-actions.ts';
 import type { ItemRepo } from '../../store/items.ts';
 import type { ShelfRepo, Shelf } from '../../store/shelves.ts';
 import type { Db } from '../../store/workspace.ts';
+import { aimByName } from './group-aim.ts';
 import { curationRepos } from './repos.ts';
 import { fillAndMeter, frozenDense, type FillMode } from './shelf-fill.ts';
 import { listChanges } from '../../core/curation/stable-fill.ts';
@@ -223,7 +224,7 @@ export class CurationService {
 
   addShelf(edition: string, label: string, brief: unknown): ShelfView {
     const world = this.world();
-    const b = parseBrief(brief);
+    const b = aimByName(parseBrief(brief), world.groupNames);
     checkBriefNames(namesOf(world), b);
     return this.db.transaction(() => {
       const e = this.#draft(edition);
@@ -233,7 +234,7 @@ export class CurationService {
 
   setBrief(edition: string, label: string, brief: unknown): ShelfView {
     const world = this.world();
-    const b = parseBrief(brief);
+    const b = aimByName(parseBrief(brief), world.groupNames);
     checkBriefNames(namesOf(world), b);
     return this.db.transaction(() => {
       const e = this.#draft(edition);

@@ -14,7 +14,7 @@ import { itemsOn } from '../../core/editing/snapshot.ts';
 import { buildInteractionMatrix } from '../../core/matrix/build.ts';
 import type { Csr } from '../../core/matrix/csr.ts';
 import { IalsModel } from '../../core/models/ials.ts';
-import { audienceAffinityInto, resolveAudience, type PoolScores } from '../../core/scoring/index.ts';
+import { audienceAffinityInto, missingGroupName, resolveAudience, type PoolScores } from '../../core/scoring/index.ts';
 import { InputError } from '../../core/errors.ts';
 import { dateMs, type Edition } from '../../store/editions.ts';
 import type { Shelf, SlotRow } from '../../store/shelves.ts';
@@ -61,7 +61,7 @@ export function audienceReadings(world: CurationWorld, brief: Brief, editionDate
   const hit = world.memo.get(key) as AudienceReadings | undefined;
   if (hit) return hit;
   const { ds, ctx } = world;
-  const audience = resolveAudience(ds, brief.audience, editionDate, world.groups);
+  const audience = resolveAudience(ds, brief.audience, editionDate, world.groups, world.groupNames);
   const cats = new Float64Array(ctx.facets.category.values.length);
   const owners = new Int32Array(ctx.n);
   const last = new Int32Array(ctx.n).fill(-1);
@@ -271,6 +271,10 @@ export function fillAndMeter(
     // A full fill as well, only where the editor will read what the kept list gives up (the acted shelf).
     if (how.measureGivenUp ?? true) givenUpAgainst = fillShelf(input).slots;
   }
+  // A brief aimed at a named group that the last training no longer has reaches no one; the shelf says so
+  // in words rather than quietly serving whichever group now holds the old number.
+  const missing = how === 'read' || edits.locked ? null : missingGroupName(brief.audience, world.groupNames);
+  if (missing) violations = [{ rule: 'audience', reason: missing }, ...violations];
   const readings = audienceReadings(world, brief, editionDate);
   // The meter's relevance is the validated one (the same for any dials), so the price of the dials shows.
   const validated = validatedRelevance(world, brief, editionDate);

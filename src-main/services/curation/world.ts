@@ -21,6 +21,8 @@ export interface CurationWorld {
   customersPerItem: Int32Array;
   /** Taste group of each dense customer (k-means over iALS customer factors), when discovered. */
   groups: Int32Array | undefined;
+  /** The editor's name of each taste group now (carried across trainings by overlap), null when unnamed. */
+  groupNames: readonly (string | null)[] | undefined;
   /**
    * The validated blend (services/tune/blend.ts) with the interaction matrix it reads customers' histories
    * from: what "relevance" means for an audience. null without trained models. Loaded on first use (it
@@ -47,7 +49,7 @@ export interface BlendRef {
 export type ModelSource = (
   db: Db,
   ds: Dataset,
-) => { models: HybridModels; vectors?: { data: Float32Array; dim: number }; groups?: Int32Array; blend?: () => BlendRef | null };
+) => { models: HybridModels; vectors?: { data: Float32Array; dim: number }; groups?: Int32Array; groupNames?: (string | null)[]; blend?: () => BlendRef | null };
 
 export const noModels: ModelSource = () => ({ models: { content: null, collaborative: null, affinity: null } });
 
@@ -98,6 +100,7 @@ const STAMP_SQL = `SELECT (SELECT count(*) FROM item) AS i, (SELECT coalesce(max
         (SELECT total(id * (1 + promoted + 2 * available)) FROM item) AS f,
         (SELECT coalesce(max(id), 0) FROM model) AS mm,
         (SELECT min_k || ':' || max_k || ':' || min_history FROM taste_group_settings) AS g,
+        (SELECT coalesce(group_concat(id || ':' || name), '') FROM taste_group_name) AS gn,
         (SELECT coalesce(group_concat(id || ':' || trained_at), '') FROM (SELECT id, trained_at FROM model WHERE current = 1 ORDER BY id)) AS cm`;
 
 const stampQuery = new WeakMap<Db, { get(): unknown }>();
@@ -141,6 +144,7 @@ export function loadWorld(db: Db, source: ModelSource = noModels): CurationWorld
     hybrid,
     customersPerItem,
     groups: m.groups,
+    groupNames: m.groupNames,
     get blend() {
       if (blend === undefined) blend = m.blend ? m.blend() : null;
       return blend;

@@ -44,7 +44,7 @@ export const audienceCommands: CliCommand[] = [
       'max-k': 'the most groups to consider (saved; default 12)',
       'min-history': 'distinct items a customer needs to join a group (saved; default 3)',
     },
-    help: '  use a group in a brief with --audience group:N\n\nexamples:\n  shelfwright audience groups\n  shelfwright audience groups --min-k 4 --max-k 10',
+    help: '  use a group in a brief with --audience group:NAME (named: followed across trainings) or group:N\n\nexamples:\n  shelfwright audience groups\n  shelfwright audience groups --min-k 4 --max-k 10',
     async run(env) {
       positionals(env, []);
       const { table: t } = env.api();

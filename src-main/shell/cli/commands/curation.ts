@@ -105,8 +105,8 @@ function briefAbout(changing: boolean): Record<string, string> {
       ? "repeatable: only items of this category; replaces the brief's category list"
       : 'repeatable: only items of this category (default every category)',
     audience: changing
-      ? 'who it is for: everyone, group:N or bought:CATEGORY[:DAYS], DAYS default 90'
-      : 'who it is for: everyone (default), group:N or bought:CATEGORY[:DAYS], DAYS default 90',
+      ? 'who it is for: everyone, group:N, group:NAME (a named group, followed across trainings) or bought:CATEGORY[:DAYS], DAYS default 90'
+      : 'who it is for: everyone (default), group:N, group:NAME (a named group, followed across trainings) or bought:CATEGORY[:DAYS], DAYS default 90',
   };
 }
 
@@ -187,9 +187,16 @@ function briefFrom(env: CommandEnv, base: Brief | undefined): Brief {
   if (cats.length) b['include'] = { ...((b['include'] as object | undefined) ?? {}), categories: cats };
   const aud = str(env, 'audience');
   if (aud !== undefined) {
-    const m = /^(everyone)$|^group:(\d+)$|^bought:([^:]+)(?::(\d+))?$/.exec(aud);
-    if (!m) throw new UsageError(`--audience expects everyone, group:N or bought:CATEGORY[:DAYS], got '${aud}'`);
-    b['audience'] = m[1] ? { kind: 'everyone' } : m[2] ? { kind: 'group', group: Number(m[2]) } : { kind: 'rule', category: m[3], signalKinds: ['purchase'], withinDays: m[4] ? Number(m[4]) : 90 };
+    const m = /^(everyone)$|^group:(\d+)$|^bought:([^:]+)(?::(\d+))?$|^group:(.*\S.*)$/.exec(aud);
+    if (!m) throw new UsageError(`--audience expects everyone, group:N, group:NAME or bought:CATEGORY[:DAYS], got '${aud}'`);
+    // group:NAME aims at a named group; the service fills in the number that name carries now (0 until then).
+    b['audience'] = m[1]
+      ? { kind: 'everyone' }
+      : m[2]
+        ? { kind: 'group', group: Number(m[2]) }
+        : m[5]
+          ? { kind: 'group', group: 0, name: m[5].trim() }
+          : { kind: 'rule', category: m[3], signalKinds: ['purchase'], withinDays: m[4] ? Number(m[4]) : 90 };
   }
   if (b['size'] === undefined) throw new UsageError('give the shelf a --size');
   return b as Brief;

@@ -1,6 +1,7 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import { processRunning } from '../store/process-alive.ts';
 
 /**
  * Private temporary folders (uploads, staged holdout files, the demo's generated files, a browser profile)
@@ -17,15 +18,6 @@ export function makeTempFolder(purpose: string, parent: string = os.tmpdir()): s
   return dir;
 }
 
-/** Whether a process with this id runs (signal 0 checks without sending: kill(2); EPERM means it runs as another user). */
-function running(pid: number): boolean {
-  try {
-    process.kill(pid, 0);
-    return true;
-  } catch (e) {
-    return (e as NodeJS.ErrnoException).code === 'EPERM';
-  }
-}
 
 /**
  * Removes the folders `makeTempFolder` made for processes that no longer run, and that belong to this user.
@@ -45,7 +37,7 @@ export function sweepTempFolders(parent: string = os.tmpdir()): string[] {
     const m = NAME.exec(name);
     if (!m) continue;
     const pid = Number(m[1]);
-    if (pid === process.pid || running(pid)) continue;
+    if (pid === process.pid || processRunning(pid)) continue;
     const dir = path.join(parent, name);
     try {
       const st = fs.lstatSync(dir);

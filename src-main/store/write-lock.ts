@@ -2,6 +2,7 @@ import fs from 'node:fs';
 import { setImmediate as nextTurn } from 'node:timers/promises';
 import { CancelledError, WorkspaceBusyError } from '../core/errors.ts';
 import type { Db } from './workspace.ts';
+import { processRunning } from './process-alive.ts';
 
 /**
  * Taking a workspace's write lock when another process may hold it (DESIGN.md: "Two processes on one
@@ -87,18 +88,10 @@ export function describeHolder(file: Db | string): string {
   } catch {
     return '';
   }
-  if (note.pid === process.pid || !alive(note.pid)) return '';
+  if (note.pid === process.pid || !processRunning(note.pid)) return '';
   return `${note.work}, pid ${note.pid}, since ${new Date(note.since).toTimeString().slice(0, 8)}`;
 }
 
-function alive(pid: number): boolean {
-  try {
-    process.kill(pid, 0);
-    return true;
-  } catch (e) {
-    return (e as NodeJS.ErrnoException).code === 'EPERM';
-  }
-}
 
 export function isBusy(e: unknown): boolean {
   return typeof (e as { code?: unknown }).code === 'string' && (e as { code: string }).code.startsWith('SQLITE_BUSY');

@@ -64,11 +64,7 @@ export class EaseTopKModel implements Scorer {
   }
 
   similarItems(i: number, n: number): TopN {
-    const row = new Float32Array(this.itemCount);
-    this.similarityInto(i, row);
-    const skip = new Uint8Array(this.itemCount).fill(1);
-    for (const c of this.kept) skip[c] = 0;
-    return topN(row, n, i, skip);
+    return keptSimilarItems(this, i, n);
   }
 
   serialize(): Uint8Array {
@@ -77,6 +73,15 @@ export class EaseTopKModel implements Scorer {
 }
 
 export const EASE_MAGIC = 'SWEASE  ';
+
+/** The n items most pushed up by item i, among the fitted items only (items not kept have no weights). */
+export function keptSimilarItems(m: Pick<Scorer, 'itemCount' | 'similarityInto'> & { kept: Int32Array }, i: number, n: number): TopN {
+  const row = new Float32Array(m.itemCount);
+  m.similarityInto(i, row);
+  const skip = new Uint8Array(m.itemCount).fill(1);
+  for (const c of m.kept) skip[c] = 0;
+  return topN(row, n, i, skip);
+}
 
 /** Keeps the k largest-magnitude off-diagonal weights of each row of the dense m × m B (row-major). */
 export function sparsifyEase(itemCount: number, kept: Int32Array, b: Float32Array, k: number, transform: ValueTransform = 'presence'): EaseTopKModel {

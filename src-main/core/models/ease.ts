@@ -1,7 +1,7 @@
 import { SectionReader, formatVersion, packSections } from '../matrix/bytes.ts';
 import { nnz, type Csr } from '../matrix/csr.ts';
 import { easeWeights, type EaseSolveHooks } from './ease-weights.ts';
-import { EASE_DENSE_MAX_BYTES, EASE_MAGIC, EASE_TOP_K, EaseTopKModel, sparsifyEase } from './ease-topk.ts';
+import { EASE_DENSE_MAX_BYTES, EASE_MAGIC, EASE_TOP_K, EaseTopKModel, keptSimilarItems, sparsifyEase } from './ease-topk.ts';
 import { CancelledError, InputError } from '../errors.ts';
 import { checkTransform, transformCode, transformFromCode, transformMatrix, transformValue, type ValueTransform } from '../matrix/values.ts';
 import type { FitOptions, FitReport, Scorer, TopN } from './scorer.ts';
@@ -75,11 +75,7 @@ export class EaseModel implements Scorer {
   }
 
   similarItems(i: number, n: number): TopN {
-    const row = new Float32Array(this.itemCount);
-    this.similarityInto(i, row);
-    const skip = new Uint8Array(this.itemCount).fill(1);
-    for (const c of this.kept) skip[c] = 0;
-    return topN(row, n, i, skip);
+    return keptSimilarItems(this, i, n);
   }
 
   /**

@@ -1,11 +1,10 @@
 // @vitest-environment happy-dom
-import { cleanup, fireEvent, render, screen, waitFor, within } from '@testing-library/react';
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { App } from '../../src-renderer/App.tsx';
+import { fireEvent, screen, waitFor, within } from '@testing-library/react';
+import { describe, expect, it } from 'vitest';
 import { audienceOf, draftOf, type Audience } from '../../src-renderer/components/AudienceField.tsx';
 import { topPercent } from '../../src-renderer/components/format.ts';
-import { createAppStore, StoreContext, type AppStore } from '../../src-renderer/state/store.ts';
-import { openRowInEditor, seededHarness, type Harness } from './seed.ts';
+import { seededApp } from './app-harness.tsx';
+import { openRowInEditor } from './seed.ts';
 
 describe('topPercent', () => {
   // "Top N%" = the share of the pool ranked at or above the item: the usual reading of a percentile rank
@@ -42,34 +41,19 @@ describe('audience choice', () => {
   });
 });
 
-let h: Harness;
-let store: AppStore;
-beforeEach(() => {
-  h = seededHarness();
-  store = createAppStore(h.client);
-});
-afterEach(() => {
-  cleanup();
-  h.close();
-});
+const app = seededApp();
 
-const renderApp = () =>
-  render(
-    <StoreContext.Provider value={store}>
-      <App />
-    </StoreContext.Provider>,
-  );
 
 describe('forget a customer', () => {
   it('asks for confirmation, erases, and shows the new count; an unknown id is refused where it was typed', async () => {
-    renderApp();
+    app.render();
     const form = await screen.findByRole('form', { name: 'Forget a customer' });
     expect(form.textContent).toContain('stays on this machine');
     expect(form.textContent).toContain('follow your local law and your data-protection adviser');
     fireEvent.change(within(form).getByLabelText('Customer id'), { target: { value: 'c-2' } });
     fireEvent.click(within(form).getByRole('button', { name: 'Forget this customer…' }));
     // Nothing is erased before the second step.
-    expect(h.ctx.db.prepare('SELECT COUNT(*) AS n FROM customer').get()).toEqual({ n: 6 });
+    expect(app.h.ctx.db.prepare('SELECT COUNT(*) AS n FROM customer').get()).toEqual({ n: 6 });
     fireEvent.click(within(form).getByRole('button', { name: 'Yes, erase c-2' }));
     // The seed gives customer k the signals k-1, k+5, ... of 30: five each.
     await waitFor(() => expect(within(form).getByRole('status').textContent).toContain('Customer c-2 erased: 5 signals removed'));
@@ -81,14 +65,14 @@ describe('forget a customer', () => {
     fireEvent.click(within(form).getByRole('button', { name: 'Yes, erase c-404' }));
     const alert = await within(form).findByRole('alert');
     expect(alert.textContent).toMatch(/^Could not forget that customer: .*c-404/);
-    expect(h.ctx.db.prepare('SELECT COUNT(*) AS n FROM customer').get()).toEqual({ n: 5 });
+    expect(app.h.ctx.db.prepare('SELECT COUNT(*) AS n FROM customer').get()).toEqual({ n: 5 });
   });
 });
 
 describe('anchors in the shelf editor', () => {
   it('searches, adds and removes anchors, then ranks the pool towards them on the "top N%" scale', async () => {
-    await openRowInEditor(store, '2026-12-07', 4);
-    renderApp();
+    await openRowInEditor(app.store, '2026-12-07', 4);
+    app.render();
     const panel = await screen.findByRole('region', { name: 'Anchors: rank towards items like these' });
     fireEvent.change(within(panel).getByLabelText('Find items by title or id'), { target: { value: 'Quiet' } });
     fireEvent.click(within(panel).getByRole('button', { name: 'Search' }));
@@ -106,36 +90,36 @@ describe('anchors in the shelf editor', () => {
     for (const r of rows) expect(r.textContent).toMatch(/top \d{1,3}% of pool/);
     // Saving puts the anchors in the shelf's brief, named by the shop's ids, and refills the shelf.
     fireEvent.click(within(panel).getByRole('button', { name: 'Fill the shelf from these anchors' }));
-    await waitFor(() => expect(store.getState().curation.edition?.shelves.find((x) => x.label === 'Row')?.brief.anchors).toEqual(['i-2']));
-    const stored = await h.client.call('shelf.show', { edition: 'Week 49', shelf: 'Row' });
+    await waitFor(() => expect(app.store.getState().curation.edition?.shelves.find((x) => x.label === 'Row')?.brief.anchors).toEqual(['i-2']));
+    const stored = await app.h.client.call('shelf.show', { edition: 'Week 49', shelf: 'Row' });
     expect(stored.brief.anchors).toEqual(['i-2']);
   });
 });
 
 describe('backtest and similar items in the shelf editor', () => {
   it('shows the shares with their window for this shelf only, and explains neighbours in words', async () => {
-    await store.getState().newEdition('Week 49', '2026-12-07');
-    await store.getState().addShelf('Row', { size: 4 });
-    await store.getState().addShelf('Other', { size: 4 });
-    store.getState().openShelf('Row');
-    store.getState().go('shelf');
-    renderApp();
+    await app.store.getState().newEdition('Week 49', '2026-12-07');
+    await app.store.getState().addShelf('Row', { size: 4 });
+    await app.store.getState().addShelf('Other', { size: 4 });
+    app.store.getState().openShelf('Row');
+    app.store.getState().go('shelf');
+    app.render();
     const backtest = await screen.findByRole('region', { name: 'Backtest' });
     fireEvent.change(within(backtest).getByLabelText('Window (last days of the data)'), { target: { value: '14' } });
     fireEvent.click(within(backtest).getByRole('button', { name: 'Run backtest' }));
     const result = await within(backtest).findByLabelText('Backtest result');
-    const api = await h.client.call('shelf.backtest', { edition: 'Week 49', shelf: 'Row', windowDays: 14 });
+    const api = await app.h.client.call('shelf.backtest', { edition: 'Week 49', shelf: 'Row', windowDays: 14 });
     expect(result.textContent).toContain(`${api.windowStart} to ${api.windowEnd} (14 days)`);
     // Share = engaged / active audience, shown as a percentage with one decimal.
     expect(within(result).getByLabelText(/^This shelf: /).textContent).toBe(`${((api.shelf.engaged / api.audienceActive) * 100).toFixed(1)}%`);
     expect(within(result).getByLabelText(/^Popularity only: /).textContent).toBe(`${((api.popularity.engaged / api.audienceActive) * 100).toFixed(1)}%`);
-    store.getState().openShelf('Other');
+    app.store.getState().openShelf('Other');
     await waitFor(() => expect(screen.queryByLabelText('Backtest result')).toBeNull());
 
     const similar = screen.getByRole('region', { name: 'Similar items' });
     fireEvent.click(within(similar).getByRole('button', { name: 'Show similar items' }));
     const list = await within(similar).findByRole('list', { name: /^Items like / });
-    const first = await h.client.call('item.similar', { item: store.getState().curation.edition!.shelves[1]!.slots[0]!.item!, n: 8 });
+    const first = await app.h.client.call('item.similar', { item: app.store.getState().curation.edition!.shelves[1]!.slots[0]!.item!, n: 8 });
     const rows = within(list).getAllByRole('listitem');
     expect(rows).toHaveLength(first.neighbours.length);
     first.neighbours.forEach((n, i) => {

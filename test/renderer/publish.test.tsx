@@ -1,48 +1,31 @@
 // @vitest-environment happy-dom
-import { cleanup, fireEvent, render, screen, waitFor, within } from '@testing-library/react';
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { App } from '../../src-renderer/App.tsx';
-import { createAppStore, StoreContext, type AppStore } from '../../src-renderer/state/store.ts';
-import { openRowInEditor, seededHarness, TITLES, type Harness } from './seed.ts';
+import { fireEvent, screen, waitFor, within } from '@testing-library/react';
+import { describe, expect, it } from 'vitest';
+import { seededApp } from './app-harness.tsx';
+import { openRowInEditor, TITLES } from './seed.ts';
 
-let h: Harness;
-let store: AppStore;
-beforeEach(() => {
-  h = seededHarness();
-  store = createAppStore(h.client);
-});
-afterEach(() => {
-  cleanup();
-  h.close();
-});
+const app = seededApp();
 
-function renderApp() {
-  return render(
-    <StoreContext.Provider value={store}>
-      <App />
-    </StoreContext.Provider>,
-  );
-}
 
 /** Week 49: 'Row' (opened in the editor) and 'Sponsored row', which asks for more sponsored items than the shop has. */
 async function twoShelves(): Promise<void> {
-  await openRowInEditor(store, '2026-12-07', 4);
+  await openRowInEditor(app.store, '2026-12-07', 4);
   // The seeded shop promotes 2 of its 12 items: half of 8 slots (4) cannot be sponsored.
-  expect(await store.getState().addShelf('Sponsored row', { size: 8, rules: { promoted: { minCount: 0.5 } } })).toBe(true);
-  store.getState().go('board');
+  expect(await app.store.getState().addShelf('Sponsored row', { size: 8, rules: { promoted: { minCount: 0.5 } } })).toBe(true);
+  app.store.getState().go('board');
 }
 
 const status = async (label: string) => {
-  const { editions } = await h.client.call('edition.list', {});
+  const { editions } = await app.h.client.call('edition.list', {});
   return editions.find((e) => e.label === label)?.status;
 };
 
 describe('publishing', () => {
   it('asks first, listing the rules not met and the shelves never opened; cancelling publishes nothing', async () => {
     await twoShelves();
-    const violations = store.getState().curation.edition?.shelves.find((s) => s.label === 'Sponsored row')?.violations ?? [];
+    const violations = app.store.getState().curation.edition?.shelves.find((s) => s.label === 'Sponsored row')?.violations ?? [];
     expect(violations.length).toBeGreaterThan(0);
-    renderApp();
+    app.render();
     fireEvent.click(await screen.findByRole('button', { name: 'Publish edition' }));
     const dialog = await screen.findByRole('alertdialog', { name: 'Publish Week 49?' });
     const rules = within(within(dialog).getByRole('list', { name: 'Rules not met' })).getAllByRole('listitem');
@@ -60,7 +43,7 @@ describe('publishing', () => {
 
   it('publishes on "Publish now" and shows the read-only banner on the board and in the shelf editor', async () => {
     await twoShelves();
-    renderApp();
+    app.render();
     fireEvent.click(await screen.findByRole('button', { name: 'Publish edition' }));
     fireEvent.click(within(await screen.findByRole('alertdialog')).getByRole('button', { name: 'Publish now' }));
     const banner = await screen.findByRole('note', { name: 'Read-only edition' });
@@ -74,9 +57,9 @@ describe('publishing', () => {
 
   it('counts a shelf with an action in its log as opened, even from another window', async () => {
     await twoShelves();
-    await h.client.call('shelf.act', { edition: 'Week 49', shelf: 'Sponsored row', action: { kind: 'lock' } });
-    await store.getState().openEdition('Week 49'); // a fresh read of the edition; this window never opened that shelf
-    renderApp();
+    await app.h.client.call('shelf.act', { edition: 'Week 49', shelf: 'Sponsored row', action: { kind: 'lock' } });
+    await app.store.getState().openEdition('Week 49'); // a fresh read of the edition; this window never opened that shelf
+    app.render();
     fireEvent.click(await screen.findByRole('button', { name: 'Publish edition' }));
     const dialog = await screen.findByRole('alertdialog');
     expect(within(dialog).queryByRole('list', { name: 'Shelves never opened' })).toBeNull();
@@ -86,8 +69,8 @@ describe('publishing', () => {
 
 describe('a locked shelf', () => {
   it('says plainly that its list stays as it is and how to change it', async () => {
-    await openRowInEditor(store, '2026-12-07', 4);
-    renderApp();
+    await openRowInEditor(app.store, '2026-12-07', 4);
+    app.render();
     await screen.findByRole('heading', { name: /Row/ });
     expect(screen.queryByText(/This shelf is locked/)).toBeNull();
     fireEvent.click(screen.getByRole('button', { name: 'Lock shelf' }));
@@ -99,15 +82,15 @@ describe('a locked shelf', () => {
 
 describe('history', () => {
   it('names each changed item by its title and its id', async () => {
-    await openRowInEditor(store, '2026-12-07', 4);
-    await store.getState().publish();
-    await store.getState().newEdition('Week 50', '2026-12-14', 'Week 49');
-    const first = store.getState().curation.edition?.shelves[0]?.slots[0]?.item as string;
-    store.getState().openShelf('Row');
-    expect(await store.getState().act({ kind: 'ban', item: first, scope: 'shelf' })).toBe(true);
-    await store.getState().publish();
-    store.getState().go('history');
-    renderApp();
+    await openRowInEditor(app.store, '2026-12-07', 4);
+    await app.store.getState().publish();
+    await app.store.getState().newEdition('Week 50', '2026-12-14', 'Week 49');
+    const first = app.store.getState().curation.edition?.shelves[0]?.slots[0]?.item as string;
+    app.store.getState().openShelf('Row');
+    expect(await app.store.getState().act({ kind: 'ban', item: first, scope: 'shelf' })).toBe(true);
+    await app.store.getState().publish();
+    app.store.getState().go('history');
+    app.render();
     fireEvent.change(await screen.findByLabelText('Earlier edition'), { target: { value: 'Week 49' } });
     fireEvent.change(screen.getByLabelText('Later edition'), { target: { value: 'Week 50' } });
     fireEvent.click(screen.getByRole('button', { name: 'Compare' }));

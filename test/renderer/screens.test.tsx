@@ -1,44 +1,28 @@
 // @vitest-environment happy-dom
-import { cleanup, fireEvent, render, screen, waitFor, within } from '@testing-library/react';
-import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { App } from '../../src-renderer/App.tsx';
+import { cleanup, fireEvent, screen, waitFor, within } from '@testing-library/react';
+import { describe, expect, it } from 'vitest';
 import type { Client } from '../../src-renderer/client/client.ts';
-import { createAppStore, StoreContext, type AppStore } from '../../src-renderer/state/store.ts';
-import { openRowInEditor, seededHarness, type Harness } from './seed.ts';
+import { createAppStore } from '../../src-renderer/state/store.ts';
+import { seededApp } from './app-harness.tsx';
+import { openRowInEditor } from './seed.ts';
 
-let h: Harness;
-let store: AppStore;
-beforeEach(() => {
-  h = seededHarness();
-  store = createAppStore(h.client);
-});
-afterEach(() => {
-  cleanup();
-  h.close();
-});
+const app = seededApp();
 
-function renderApp() {
-  return render(
-    <StoreContext.Provider value={store}>
-      <App />
-    </StoreContext.Provider>,
-  );
-}
 
 describe('overview screen', () => {
   it('shows the counts of the open workspace', async () => {
-    renderApp();
+    app.render();
     const counts = await screen.findByLabelText('What this workspace holds');
     await waitFor(() => expect(within(counts).getAllByRole('definition').map((d) => d.textContent)).toEqual(['12', '6', '30']));
   });
 
   it('shows the error beside the open form when the file does not exist', async () => {
-    renderApp();
-    await screen.findByText(h.file);
-    fireEvent.change(screen.getByLabelText('Workspace file (path on this computer)'), { target: { value: `${h.dir}/gone.sqlite` } });
+    app.render();
+    await screen.findByText(app.h.file);
+    fireEvent.change(screen.getByLabelText('Workspace file (path on this computer)'), { target: { value: `${app.h.dir}/gone.sqlite` } });
     fireEvent.click(screen.getByRole('button', { name: 'Open' }));
     const alert = await screen.findByRole('alert');
-    expect(alert.textContent).toBe(`Could not open that file: no workspace at ${h.dir}/gone.sqlite`);
+    expect(alert.textContent).toBe(`Could not open that file: no workspace at ${app.h.dir}/gone.sqlite`);
     expect(screen.getByLabelText('Workspace file (path on this computer)').getAttribute('aria-invalid')).toBe('true');
   });
 });
@@ -47,13 +31,13 @@ describe('in a shell that takes no paths (the web shell)', () => {
   it('offers no path field anywhere: uploads only, and another workspace is chosen at launch', async () => {
     const { createClient } = await import('../../src-renderer/client/client.ts');
     const { invoke, createHandlerTable } = await import('../../src-main/api/handler-table.ts');
-    const table = createHandlerTable(h.ctx);
-    store = createAppStore(createClient((m, p) => invoke(table, m, p, { serverPaths: 'refuse' })));
-    renderApp();
-    await screen.findByText(h.file);
+    const table = createHandlerTable(app.h.ctx);
+    app.store = createAppStore(createClient((m, p) => invoke(table, m, p, { serverPaths: 'refuse' })));
+    app.render();
+    await screen.findByText(app.h.file);
     expect(screen.getByRole('heading', { name: 'Another workspace' })).toBeTruthy();
     expect(screen.queryByLabelText('Workspace file (path on this computer)')).toBeNull();
-    store.getState().go('import');
+    app.store.getState().go('import');
     expect(await screen.findByLabelText('Upload a file (CSV, JSON, JSON Lines)')).toBeTruthy();
     expect(screen.queryByLabelText('Path on this computer')).toBeNull();
   });
@@ -61,8 +45,8 @@ describe('in a shell that takes no paths (the web shell)', () => {
 
 describe('shelf editor', () => {
   it('labels sponsored items in words and pins an item from its slot', async () => {
-    await openRowInEditor(store, '2026-12-07', 12);
-    renderApp();
+    await openRowInEditor(app.store, '2026-12-07', 12);
+    app.render();
     const slots = await screen.findByRole('list', { name: 'Slots' });
     // Two of the twelve invented items are promoted; a 12-slot shelf holds the whole catalogue.
     expect(within(slots).getAllByText('Sponsored')).toHaveLength(2);
@@ -75,12 +59,12 @@ describe('shelf editor', () => {
   });
 
   it('marks and says what an action changed: a pin to slot 1 shifts the items above it down by one', async () => {
-    await openRowInEditor(store, '2026-12-07', 12);
-    renderApp();
+    await openRowInEditor(app.store, '2026-12-07', 12);
+    app.render();
     const slots = await screen.findByRole('list', { name: 'Slots' });
-    const before = store.getState().curation.edition!.shelves[0]!.slots.map((x) => x.title);
-    const fifth = store.getState().curation.edition!.shelves[0]!.slots[4]!;
-    await store.getState().act({ kind: 'pin', slot: 1, item: fifth.item! });
+    const before = app.store.getState().curation.edition!.shelves[0]!.slots.map((x) => x.title);
+    const fifth = app.store.getState().curation.edition!.shelves[0]!.slots[4]!;
+    await app.store.getState().act({ kind: 'pin', slot: 1, item: fifth.item! });
     const first = await within(slots).findByRole('listitem', { name: new RegExp(`^Slot 1: ${fifth.title}$`) });
     expect(within(first).getByText('Was slot 5')).toBeTruthy();
     expect(within(within(slots).getByRole('listitem', { name: /^Slot 2:/ })).getByText('Was slot 1')).toBeTruthy();
@@ -93,11 +77,11 @@ describe('shelf editor', () => {
   });
 
   it('lists a banned item with a button that lifts the ban, and Ctrl+Z / Ctrl+Shift+Z undo and redo', async () => {
-    await openRowInEditor(store, '2026-12-07', 6);
-    renderApp();
+    await openRowInEditor(app.store, '2026-12-07', 6);
+    app.render();
     const slots = await screen.findByRole('list', { name: 'Slots' });
     const third = within(slots).getByRole('listitem', { name: /^Slot 3:/ });
-    const title = store.getState().curation.edition!.shelves[0]!.slots[2]!.title!;
+    const title = app.store.getState().curation.edition!.shelves[0]!.slots[2]!.title!;
     fireEvent.click(within(third).getByRole('button', { name: 'Ban' }));
     const lift = await screen.findByRole('button', { name: `Lift the ban on ${title}` });
     fireEvent.keyDown(window, { key: 'z', ctrlKey: true });
@@ -110,16 +94,16 @@ describe('shelf editor', () => {
 
   it('says why items are missing from the pool: here, added after a back-dated edition', async () => {
     // The seed adds item k (0-based) on 1 October 2026 + k days: on 5 October, seven of twelve are still to come.
-    await openRowInEditor(store, '2026-10-05', 4, 'Early');
-    renderApp();
+    await openRowInEditor(app.store, '2026-10-05', 4, 'Early');
+    app.render();
     expect(await screen.findByText(/Left out of the pool: 7 added after the edition date$/)).toBeTruthy();
   });
 });
 
 describe('import screen', () => {
   it('does not read a big file into the page; where the shell cannot stream it, asks for its path', async () => {
-    store.getState().go('import');
-    renderApp();
+    app.store.getState().go('import');
+    app.render();
     const input = await screen.findByLabelText('…or upload a file (CSV, JSON, JSON Lines)');
     const big = new File(['customer,item,kind\n'], 'clicks.csv', { type: 'text/csv' });
     Object.defineProperty(big, 'size', { value: 42 * 1024 * 1024 }); // a 1M-row signal file is about this size
@@ -136,8 +120,8 @@ describe('import screen', () => {
 
   it('asks the kind of every row for a signal file without a kind column, and imports it so', async () => {
     // Issue 10 item 7: a shop's export of purchases (customer, item, count) has no kind column.
-    store.getState().go('import');
-    renderApp();
+    app.store.getState().go('import');
+    app.render();
     fireEvent.change(await screen.findByLabelText('What the file holds'), { target: { value: 'signals' } });
     const plays = new File(['customer,item,count\nc-1,i-2,3\nc-2,i-3,1\n'], 'plays.csv', { type: 'text/csv' });
     fireEvent.change(screen.getByLabelText('…or upload a file (CSV, JSON, JSON Lines)'), { target: { files: [plays] } });
@@ -154,13 +138,13 @@ describe('import screen', () => {
     fireEvent.click(run);
     const report = await screen.findByRole('region', { name: 'Import report' });
     await waitFor(() => expect(report.textContent).toMatch(/2 rows read · 2 added/));
-    const kinds = h.ctx.db.prepare('SELECT k.name AS kind, count(*) AS n FROM signal s JOIN signal_kind k ON k.code = s.kind GROUP BY k.name ORDER BY k.name').all();
+    const kinds = app.h.ctx.db.prepare('SELECT k.name AS kind, count(*) AS n FROM signal s JOIN signal_kind k ON k.code = s.kind GROUP BY k.name ORDER BY k.name').all();
     expect(kinds).toEqual([{ kind: 'purchase', n: 12 }, { kind: 'view', n: 20 }]); // the seed holds 10 purchases and 20 views
   });
 
   it('shows the warning about signals dated after today beside the counts', async () => {
-    store.getState().go('import');
-    renderApp();
+    app.store.getState().go('import');
+    app.render();
     fireEvent.change(await screen.findByLabelText('What the file holds'), { target: { value: 'signals' } });
     const late = new File(['customer,item,kind,at\nc-1,i-2,view,2999-01-01T00:00:00Z\n'], 'late.csv', { type: 'text/csv' });
     fireEvent.change(screen.getByLabelText('…or upload a file (CSV, JSON, JSON Lines)'), { target: { files: [late] } });
@@ -173,8 +157,8 @@ describe('import screen', () => {
   });
 
   it('does not ask for a kind when the signal file has a kind column', async () => {
-    store.getState().go('import');
-    renderApp();
+    app.store.getState().go('import');
+    app.render();
     fireEvent.change(await screen.findByLabelText('What the file holds'), { target: { value: 'signals' } });
     const clicks = new File(['customer,item,kind\nc-1,i-2,view\n'], 'clicks.csv', { type: 'text/csv' });
     fireEvent.change(screen.getByLabelText('…or upload a file (CSV, JSON, JSON Lines)'), { target: { files: [clicks] } });
@@ -196,9 +180,9 @@ describe('import screen', () => {
       async call(method, payload) {
         requests.push([method, payload]);
         if (method === 'import.preview' && (payload as { upload?: string }).upload === upload) {
-          return h.client.call('import.preview', { fileName: 'clicks.csv', content: 'customer,item,kind\nc-1,i-1,view\n', target: 'signals' }) as never;
+          return app.h.client.call('import.preview', { fileName: 'clicks.csv', content: 'customer,item,kind\nc-1,i-1,view\n', target: 'signals' }) as never;
         }
-        return h.client.call(method, payload);
+        return app.h.client.call(method, payload);
       },
       upload: async (file) => {
         sent.push(file);
@@ -206,9 +190,9 @@ describe('import screen', () => {
       },
     };
     cleanup();
-    store = createAppStore(client);
-    store.getState().go('import');
-    renderApp();
+    app.store = createAppStore(client);
+    app.store.getState().go('import');
+    app.render();
     const big = new File(['customer,item,kind\n'], 'clicks.csv', { type: 'text/csv' });
     Object.defineProperty(big, 'size', { value: 42 * 1024 * 1024 });
     big.text = async () => {

@@ -1,6 +1,16 @@
 import { CancelledError, InputError } from '../errors.ts';
 import { dotsModuleBytes, type DotsFn } from './dots-kernel.ts';
 
+/** A Cholesky pivot that is not positive: the matrix is not positive definite (λ too small for the data). */
+export class NotPositiveDefiniteError extends InputError {
+  constructor(
+    readonly pivot: number,
+    detail: string,
+  ) {
+    super(`matrix is not positive definite (pivot ${pivot} ${detail}); increase the regularization`);
+  }
+}
+
 /**
  * The inverse of a large SPD matrix in float32, in place, as LAPACK's potrf + potri do it (Cholesky
  * A = L Lᵀ, then A⁻¹ = L⁻ᵀ L⁻¹), for EASE's (XᵀX + λI)⁻¹ on up to ~20,000 items: one n × n float32
@@ -36,8 +46,11 @@ export interface TileSchedule {
   rowDone(i: number): void;
   /** Returns once every thread has finished `phase` (the next phase reads what all of them wrote). */
   barrier(phase: number): void;
-  /** This thread failed: the others stop at their next wait instead of waiting forever. */
-  fail(): void;
+  /**
+   * This thread failed: the others stop at their next wait instead of waiting forever. A failing pivot is
+   * passed on, so whichever thread stops reports the real cause, not only that another thread failed.
+   */
+  fail(pivot?: number): void;
 }
 
 export function sequentialSchedule(blocks: number): TileSchedule {
@@ -69,15 +82,21 @@ const ROW = 8; // + row block; then one count of claimed blocks per thread
  * thread failed, so an error anywhere ends every thread instead of leaving one blocked.
  */
 export function sharedSchedule(slots: Int32Array, blocks: number, threads: number, thread: number): TileSchedule {
+  // FAILED: 0 running, 1 another thread failed, 2 + p the pivot p was not positive (the first failure wins).
+  const stopIfFailed = () => {
+    const f = Atomics.load(slots, FAILED);
+    if (f >= 2) throw new NotPositiveDefiniteError(f - 2, 'is not positive, found by another thread');
+    if (f !== 0) throw new CancelledError('another thread of the inverse failed');
+  };
   const waitUntil = (index: number, value: number) => {
     for (let v = Atomics.load(slots, index); v < value; v = Atomics.load(slots, index)) {
-      if (Atomics.load(slots, FAILED) !== 0) throw new CancelledError('another thread of the inverse failed');
+      stopIfFailed();
       Atomics.wait(slots, index, v, 100);
     }
   };
   return {
     next: (phase) => {
-      if (Atomics.load(slots, FAILED) !== 0) throw new CancelledError('another thread of the inverse failed');
+      stopIfFailed();
       const b = Atomics.add(slots, CURSOR + phase - 1, 1);
       if (b >= blocks) return -1;
       Atomics.add(slots, ROW + blocks + thread, 1);
@@ -93,8 +112,8 @@ export function sharedSchedule(slots: Int32Array, blocks: number, threads: numbe
       Atomics.notify(slots, BARRIER + phase - 1);
       waitUntil(BARRIER + phase - 1, threads);
     },
-    fail: () => {
-      Atomics.store(slots, FAILED, 1);
+    fail: (pivot) => {
+      Atomics.compareExchange(slots, FAILED, 0, pivot === undefined ? 1 : pivot + 2);
       for (let k = 0; k < slots.length; k++) Atomics.notify(slots, k);
     },
   };
@@ -141,7 +160,7 @@ export function runInverse(
     ws.product(schedule, hooks.signal);
     schedule.barrier(3);
   } catch (e) {
-    schedule.fail();
+    schedule.fail(e instanceof NotPositiveDefiniteError ? e.pivot : undefined);
     throw e;
   }
 }
@@ -302,7 +321,7 @@ export class SpdWorkspace {
         if (c < r) l[r * TILE + c] = v / l[c * TILE + c]!;
         else {
           if (!(v > 0)) {
-            throw new InputError(`matrix is not positive definite (pivot ${i0 + r} is ${v}); increase the regularization`);
+            throw new NotPositiveDefiniteError(i0 + r, `is ${v}`);
           }
           l[r * TILE + r] = Math.sqrt(v);
         }

@@ -6,8 +6,9 @@
  *
  *   cost = 1 − Σ_{filled slots} rel(i) / Σ_{top f items of the universe by rel} rel(i),   f = filled slots
  *
- * where rel is the validated relevance (the validated blend for the audience, and anchor similarity for an
- * anchor shelf, normalised to [0, 1] over the universe) and the universe is every item that could be shown
+ * where rel is the validated relevance (the validated blend for the audience, and for an anchor shelf the
+ * blend's relevance to the anchors as a pseudo-history with content similarity, normalised to [0, 1] over the
+ * universe) and the universe is every item that could be shown
  * at the edition date (in stock, already added). 0 means the shelf is the most relevant list there is;
  * 0.12 reads "these choices cost 12% of predicted relevance". NaN when nothing is relevant (no model).
  */

@@ -92,7 +92,8 @@ export async function tuneAndTrain(
       ials: { ...reuse.params.ials, ...p.ials },
       ...((reuse.params.ease || p.ease) && { ease: { ...reuse.params.ease, ...p.ease } }),
     };
-    const summary = await trainAndSave(db, file, { ...options, params }, { signal, onProgress: report });
+    // Waiting for another process's write shows in the job's stage, as in a plain or a tuned training.
+    const summary = await trainAndSave(db, file, { ...options, params }, { signal, onProgress: report, onWait: (holder) => report({ stage: waitingLine(holder), fraction: 1 }) });
     const repo = new ModelRepo(db);
     db.transaction(() => {
       summary.models.forEach((kind, q) => {

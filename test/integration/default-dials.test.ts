@@ -80,6 +80,7 @@ describe('default dials', () => {
     const audiences: unknown[] = [
       { kind: 'everyone' },
       ...[...new Set(world.ds.items.map((i) => i.category))].map((category) => ({ kind: 'rule', category, signalKinds: ['purchase'], withinDays: 90 })),
+      ...(world.groups ? [...new Set(world.groups)].filter((g) => g >= 0).map((group) => ({ kind: 'group', group })) : []),
     ];
     const rows = audiences.map((audience) => {
       const brief = parseBrief({ size: 12, audience });

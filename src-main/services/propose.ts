@@ -21,6 +21,7 @@ import type { Dataset } from '../core/types.ts';
 import { ModelRepo } from '../store/models.ts';
 import type { Db } from '../store/workspace.ts';
 import { loadWorld, trendFor, type ModelSource } from './curation/world.ts';
+import { anchorRelevanceOf } from './curation/shelf-fill.ts';
 import { blendOf, ownedMatrix } from './holdout/trained.ts';
 
 export interface LoadedModels {
@@ -196,7 +197,9 @@ export function propose(db: Db, brief: Brief, options: ProposeOptions): Proposal
     multipliers.set(i, f);
   }
   const t0 = performance.now();
-  const scores = hybrid.scorePool({ pool: pool.items, anchors, weights: brief.weights, editionDate, audienceAffinity: affinity, multipliers });
+  // Anchors draw on the validated blend as a shelf's do (curation/shelf-fill.ts anchorRelevanceOf).
+  const anchorRelevance = anchorRelevanceOf(world, anchors);
+  const scores = hybrid.scorePool({ pool: pool.items, anchors, weights: brief.weights, editionDate, audienceAffinity: affinity, anchorRelevance, multipliers });
   const scoreMs = performance.now() - t0;
   const ev = (e: { item: number; similarity: number }): ProposedEvidence => ({
     itemId: ds.items[e.item]!.id,

@@ -43,7 +43,8 @@ export interface MeterPreview {
   delta: Record<string, number | null>;
 }
 
-export function ShelfMeterPanel({ meter, title = 'Meter', preview }: { meter: ShelfMeter; title?: string; preview?: MeterPreview | null }) {
+/** `dials`: the line saying the dials were set for the brief (core/curation/choice-cost.ts describeAutoDials), if they were. */
+export function ShelfMeterPanel({ meter, title = 'Meter', preview, dials }: { meter: ShelfMeter; title?: string; preview?: MeterPreview | null; dials?: string | null }) {
   return (
     <section className="panel meter" aria-label={title}>
       <h2>{title}</h2>
@@ -65,6 +66,11 @@ export function ShelfMeterPanel({ meter, title = 'Meter', preview }: { meter: Sh
       <p className="small" data-testid="choice-cost">
         {describeChoiceCost(meter.choiceCost ?? NaN)}
       </p>
+      {dials && (
+        <p className="small muted" data-testid="auto-dials">
+          {dials}
+        </p>
+      )}
       {meter.saturatedSlots.length > 0 && (
         <p className="warn">
           Slots {meter.saturatedSlots.join(', ')}: most of this audience already has these items.

@@ -4,6 +4,7 @@ import { MetricsChart } from '../components/MetricsChart.tsx';
 import { num, pct } from '../components/format.ts';
 import { useApp } from '../state/store.ts';
 import { Notes } from '../components/Notes.tsx';
+import { jobStageLine } from '../components/job-words.ts';
 
 function TrainPanel() {
   const job = useApp((s) => s.models.job);
@@ -16,7 +17,11 @@ function TrainPanel() {
   return (
     <section className="panel" aria-labelledby={`${id}-h`}>
       <h2 id={`${id}-h`}>Training</h2>
-      <p className="muted small">Trains every model on all signals in the background; the screens stay usable meanwhile.</p>
+      <p className="muted small">
+        Trains every model on all signals in the background; the screens stay usable meanwhile. When the data changed since
+        the last tuning, each model's settings are searched first on held-out signals (as the command line's train does);
+        otherwise the last tuning's settings are trained again.
+      </p>
       <div className="toolbar">
         <button type="button" disabled={running} onClick={() => void start()}>
           Train models
@@ -27,11 +32,7 @@ function TrainPanel() {
       </div>
       {job && (
         <div className="job" aria-live="polite">
-          <label htmlFor={`${id}-p`}>
-            {job.kind === 'train' ? 'Training' : 'Evaluation'}: {p?.stage}
-            {p?.model ? ` · ${p.model}` : ''}
-            {p?.iteration !== undefined && p.iterations !== undefined ? ` · iteration ${p.iteration} of ${p.iterations}` : ''}
-          </label>
+          <label htmlFor={`${id}-p`}>{jobStageLine(job)}</label>
           <progress id={`${id}-p`} className="progress" max={1} value={p?.fraction ?? 0}>
             {pct(p?.fraction)}
           </progress>

@@ -1,4 +1,5 @@
 import { useEffect, useState } from 'react';
+import { describeAutoDials } from '../../src-main/core/curation/choice-cost.ts';
 import { describeExclusions } from '../../src-main/core/curation/exclusion-words.ts';
 import { AnchorPicker } from '../components/AnchorPicker.tsx';
 import { BriefEditor } from '../components/BriefEditor.tsx';
@@ -121,7 +122,7 @@ export function ShelfEditor() {
       <div className="editor-grid">
         <SlotList slots={shelf.slots} readOnly={readOnly} busy={busy} marks={changeMarks(change?.changes ?? null)} onAct={(a) => void act(a)} />
         <div className="side">
-          <ShelfMeterPanel meter={shelf.meter} title="Shelf meter" preview={preview} />
+          <ShelfMeterPanel meter={shelf.meter} title="Shelf meter" preview={preview} dials={describeAutoDials(shelf.brief.autoDials, shelf.brief.weights)} />
           <CandidatePool shelf={shelf} slot={Math.min(slot, shelf.size)} onSlot={setSlot} readOnly={readOnly} onAct={(a) => void act(a)} />
           <BacktestPanel shelf={shelf} />
           <SimilarPanel key={shelf.label} shelf={shelf} />

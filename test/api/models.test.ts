@@ -34,7 +34,8 @@ async function ok<M extends Parameters<typeof invoke>[1]>(name: M, payload: unkn
 
 describe('models api', () => {
   it('train.start cancelled mid-way writes nothing; run to the end it stores every model with its report', async () => {
-    const long: ResponseOf<'train.start'> = await ok('train.start', { ials: { factors: 8, iterations: 300 }, threads: 2 });
+    // A plain training (`tune: false`); train.start's default tunes first (test/tune/train-default.test.ts).
+    const long: ResponseOf<'train.start'> = await ok('train.start', { ials: { factors: 8, iterations: 300 }, threads: 2, tune: false });
     expect(long.kind).toBe('train');
     let s = long;
     while (s.progress.model !== 'ials' && s.state === 'running') {
@@ -46,7 +47,7 @@ describe('models api', () => {
     expect((await ctx.jobs.settled(long.id)).state).toBe('cancelled');
     expect(new ModelRepo(ctx.db).list()).toHaveLength(0);
 
-    const job: ResponseOf<'train.start'> = await ok('train.start', { ials: { factors: 8, iterations: 4 }, threads: 2 });
+    const job: ResponseOf<'train.start'> = await ok('train.start', { ials: { factors: 8, iterations: 4 }, threads: 2, tune: false });
     expect((await ctx.jobs.settled(job.id)).state).toBe('done');
     const { models }: ResponseOf<'models.list'> = await ok('models.list', {});
     expect(models.map((m) => m.kind).sort()).toEqual(['content', 'ease', 'ials', 'itemknn', 'popularity']);

@@ -77,6 +77,8 @@ describe('shelfwright edition and shelf commands', () => {
     expect(meter.out).toMatch(/sponsored \d+% of slots/);
     // The price of the editor's choices, in words (the pin of a low-ranked item in slot 1 costs something).
     expect(meter.out).toMatch(/^These choices cost \d+% of predicted relevance against the most relevant list for this audience\.$/m);
+    // A shelf added without weights had its dials set for its brief, and the meter says so (issue 10 item 4).
+    expect(meter.out).toMatch(/^The dials \(popularity [\d.]+, trend [\d.]+, freshness [\d.]+\) were set for this brief so they cost at most 5% of predicted relevance\.$/m);
 
     const undone = await json('shelf', 'undo', 'week 10', 'Front');
     expect(undone.canRedo).toBe(true);

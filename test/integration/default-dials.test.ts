@@ -8,6 +8,7 @@ import { choiceCost } from '../../src-main/core/curation/choice-cost.ts';
 import { DEFAULT_WEIGHTS, parseBrief } from '../../src-main/core/editing/brief-schema.ts';
 import { curationModelSource } from '../../src-main/services/curation/model-source.ts';
 import { audienceAffinityOf, validatedRelevance } from '../../src-main/services/curation/shelf-fill.ts';
+import { DIAL_COST_LIMIT, EDITORIAL_DIALS, dialCost as poolDialCost, fitDials } from '../../src-main/services/curation/brief-dials.ts';
 import { loadWorld, trendFor, type CurationWorld } from '../../src-main/services/curation/world.ts';
 import { importFile } from '../../src-main/services/import.ts';
 import { trainAndSave } from '../../src-main/services/train/train-job.ts';
@@ -71,5 +72,31 @@ describe('default dials', () => {
     for (const c of now) expect(c).toBeLessThanOrEqual(0.05);
     // The meter can tell the two apart: popularity at 0.43 of a no-anchor score gave up more than 5% somewhere.
     expect(Math.max(...before)).toBeGreaterThan(0.05);
+  }, 120_000);
+
+  it('are set per brief from the editorial dials: at most 5% wherever those cost more, whole where they are free', () => {
+    // The dials' price measured as the meter measures it (core/curation/choice-cost.ts) on the brief's own pool.
+    const date = Math.max(...Array.from(world.ds.signals.at)) + 86_400_000;
+    const audiences: unknown[] = [
+      { kind: 'everyone' },
+      ...[...new Set(world.ds.items.map((i) => i.category))].map((category) => ({ kind: 'rule', category, signalKinds: ['purchase'], withinDays: 90 })),
+      ...(world.groups ? [...new Set(world.groups)].filter((g) => g >= 0).map((group) => ({ kind: 'group', group })) : []),
+    ];
+    const rows = audiences.map((audience) => {
+      const brief = parseBrief({ size: 12, audience });
+      const fixed = poolDialCost(world, { ...brief, weights: { ...DEFAULT_WEIGHTS, ...EDITORIAL_DIALS } }, date);
+      const set = fitDials(world, brief, date);
+      return { fixed, set, cost: poolDialCost(world, set, date) };
+    });
+    console.log(`editorial dials fixed: max ${(100 * Math.max(...rows.map((r) => r.fixed))).toFixed(1)}%; set per brief: max ${(100 * Math.max(...rows.map((r) => r.cost))).toFixed(1)}%, popularity ${rows.map((r) => r.set.weights.popularity).join(' ')}`);
+    // The test bites: some audience pays more than 5% for the fixed editorial dials.
+    expect(rows.some((r) => r.fixed > DIAL_COST_LIMIT)).toBe(true);
+    for (const r of rows) {
+      expect(r.cost).toBeLessThanOrEqual(DIAL_COST_LIMIT);
+      expect(r.set.autoDials).toEqual({ limit: DIAL_COST_LIMIT, cost: Math.round(r.cost * 1e4) / 1e4 });
+      // Where the editorial dials are within the limit they are kept whole.
+      if (r.fixed <= DIAL_COST_LIMIT) expect(r.set.weights.popularity).toBe(EDITORIAL_DIALS.popularity);
+      else expect(r.set.weights.popularity).toBeLessThan(EDITORIAL_DIALS.popularity);
+    }
   }, 120_000);
 });

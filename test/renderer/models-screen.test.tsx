@@ -105,3 +105,48 @@ describe('evaluate against a file', () => {
     expect(plots.at(-1)?.opts.series.slice(1).map((s) => s.label)).toEqual(['NDCG@5', 'Recall@5', 'HitRate@5']);
   });
 });
+
+describe('the Train button', () => {
+  it('asks the api for its default training (no tuning said), shows the tuning search and cancels it', async () => {
+    // The main side, scripted: training tunes first (stage 'tune', trial after trial) until cancelled.
+    const sent: { method: string; payload: unknown }[] = [];
+    let cancelled = false;
+    let trial = 0;
+    const running = () => ({
+      id: 'j1', kind: 'train', state: 'running', startedAt: 1, finishedAt: null, error: null, summary: null,
+      progress: { stage: 'tune', model: 'ials', iteration: Math.min(++trial, 12), iterations: 12, fraction: 0.2 },
+    });
+    const client = createClient(async (method, payload): Promise<ApiResult<unknown>> => {
+      sent.push({ method, payload });
+      if (method === 'models.list') return { ok: true, value: { models: [] } };
+      if (method === 'evaluate.latest') return { ok: true, value: { evaluation: null } };
+      if (method === 'train.start') return { ok: true, value: running() };
+      if (method === 'job.cancel') {
+        cancelled = true;
+        return { ok: true, value: { ...running(), state: 'cancelled', finishedAt: 2 } };
+      }
+      if (method === 'job.status') return { ok: true, value: cancelled ? { ...running(), state: 'cancelled', finishedAt: 2 } : running() };
+      return { ok: false, error: { code: 'input', message: method } };
+    });
+    // Polls yield to the page between calls; the test waits on what the screen shows, never on time.
+    const store = createAppStore(client, Date.now, () => new Promise((r) => setTimeout(r, 0)));
+    render(
+      <StoreContext.Provider value={store}>
+        <Models />
+      </StoreContext.Provider>,
+    );
+    const panel = await screen.findByRole('region', { name: 'Training' });
+    expect(within(panel).getByRole('button', { name: 'Cancel' })).toHaveProperty('disabled', true);
+    fireEvent.click(within(panel).getByRole('button', { name: 'Train models' }));
+    // One request, and it says nothing about tuning: the api's default decides, as for `shelfwright train`.
+    await waitFor(() => expect(sent.filter((c) => c.method === 'train.start')).toHaveLength(1));
+    expect(sent.find((c) => c.method === 'train.start')!.payload).toEqual({});
+    // The search shows as such, trial by trial.
+    await within(panel).findByText(/^Tuning: searching ials's settings on held-out signals · trial \d+ of 12$/);
+    expect(within(panel).getByRole('button', { name: 'Train models' })).toHaveProperty('disabled', true);
+    fireEvent.click(within(panel).getByRole('button', { name: 'Cancel' }));
+    await within(panel).findByText('Cancelled: nothing was written; the previous models are still in use.');
+    expect(sent.some((c) => c.method === 'job.cancel')).toBe(true);
+    expect(within(panel).getByRole('button', { name: 'Train models' })).toHaveProperty('disabled', false);
+  });
+});

@@ -52,6 +52,12 @@ export const ApiBrief = BriefSchema.extend({
   anchors: z.array(z.string().trim().min(1, 'name each anchor by its item id')).default([]),
 });
 
+/**
+ * A brief as a request carries it: weights left out mean "set the dials for this brief"
+ * (services/curation/brief-dials.ts), so they get no default here; `autoDials` is the service's to set.
+ */
+export const ApiBriefRequest = ApiBrief.extend({ weights: BriefSchema.shape.weights.unwrap().optional() });
+
 const Named = { item: z.string(), title: z.string() };
 export const ChangesView = z.object({
   entered: z.array(z.object({ ...Named, slot: z.number().int() })),
@@ -203,12 +209,12 @@ export const curationMethods = {
   }),
   'shelf.add': method({
     summary: 'Add a shelf to a draft edition and fill it from its brief.',
-    request: z.object({ edition: label('edition'), label: label('shelf'), brief: ApiBrief }).strict(),
+    request: z.object({ edition: label('edition'), label: label('shelf'), brief: ApiBriefRequest }).strict(),
     response: ShelfView,
   }),
   'shelf.brief': method({
     summary: "Replace a shelf's brief (size, filters, quotas, promoted bounds, rest period...) and fill it again.",
-    request: z.object({ ...shelfRef, brief: ApiBrief }).strict(),
+    request: z.object({ ...shelfRef, brief: ApiBriefRequest }).strict(),
     response: ShelfView,
   }),
   'shelf.fill': method({

@@ -15,6 +15,17 @@ const ModelKindName = z.enum(['content', 'itemknn', 'ials', 'ease', 'popularity'
 /** How a signal's summed value enters item-kNN and EASE (core/matrix/values.ts). */
 const ValueTransformName = z.enum(VALUE_TRANSFORMS);
 
+/** How a training run is tuned (see `tune` below). */
+const TuneRequest = z
+  .object({
+    k: z.number().int().min(1).default(10),
+    sampleCustomers: z.number().int().min(1).optional(),
+    seed: z.number().int().optional(),
+    when: z.enum(['always', 'changed']).default('always'),
+    budget: z.number().min(TUNE_BUDGET.min).max(TUNE_BUDGET.max).optional(),
+  })
+  .strict();
+
 export const TrainRequest = z
   .object({
     /** Which models (default all five). */
@@ -37,17 +48,11 @@ export const TrainRequest = z
      * Tune each model's grid on a validation split first, then train the best settings on all signals. `when`:
      * 'always' tunes; 'changed' tunes only when the data changed since the last tuning, else trains that
      * tuning's settings again. `budget`: plain fits the search may spend (grid.ts TUNE_BUDGET, default 2).
+     * Left out, training follows the product's default (services/tune/train-tuned.ts DEFAULT_TUNE: tune when the data changed), whoever
+     * asks (the app's Train button, `shelfwright train`); `false` trains the defaults and the given values as
+     * they are, with no search.
      */
-    tune: z
-      .object({
-        k: z.number().int().min(1).default(10),
-        sampleCustomers: z.number().int().min(1).optional(),
-        seed: z.number().int().optional(),
-        when: z.enum(['always', 'changed']).default('always'),
-        budget: z.number().min(TUNE_BUDGET.min).max(TUNE_BUDGET.max).optional(),
-      })
-      .strict()
-      .optional(),
+    tune: z.union([z.literal(false), TuneRequest]).optional(),
   })
   .strict();
 

@@ -12,7 +12,7 @@ import { checkInputFile } from '../../services/user-file.ts';
 import { searchItems, similarItems } from '../../services/recommend-items.ts';
 import { trainJob } from '../../services/train/train-job.ts';
 import type { TrainOptions } from '../../services/train/train-models.ts';
-import { tunedTrainJob } from '../../services/tune/train-tuned.ts';
+import { DEFAULT_TUNE, tunedTrainJob } from '../../services/tune/train-tuned.ts';
 import { dataFingerprint } from '../../store/models.ts';
 import { ItemRepo } from '../../store/items.ts';
 import type { ResponseOf } from '../contract.ts';
@@ -111,7 +111,8 @@ export function modelHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
         ...(req.threads !== undefined && { threads: req.threads }),
       };
       const db = ctx.db;
-      const body = req.tune ? tunedTrainJob(db, ctx.file, options, compact(req.tune)) : trainJob(db, ctx.file, options);
+      // No word on tuning: the product's default (DEFAULT_TUNE); `false`: a plain training.
+      const body = req.tune === false ? trainJob(db, ctx.file, options) : tunedTrainJob(db, ctx.file, options, req.tune ? compact(req.tune) : DEFAULT_TUNE);
       return ctx.jobs.start('train', body);
     },
 

@@ -6,12 +6,14 @@
  *
  *   cost = 1 − Σ_{filled slots} rel(i) / Σ_{top f items of the universe by rel} rel(i),   f = filled slots
  *
- * where rel is the validated relevance (the validated blend for the audience, and anchor similarity for an
- * anchor shelf, normalised to [0, 1] over the universe) and the universe is every item that could be shown
+ * where rel is the validated relevance (the validated blend for the audience, and for an anchor shelf the
+ * blend's relevance to the anchors as a pseudo-history with content similarity, normalised to [0, 1] over the
+ * universe) and the universe is every item that could be shown
  * at the edition date (in stock, already added). 0 means the shelf is the most relevant list there is;
  * 0.12 reads "these choices cost 12% of predicted relevance". NaN when nothing is relevant (no model).
  */
 import type { CurationContext } from './context.ts';
+import type { AutoDials, BlendWeights } from './types.ts';
 
 /** The items any shelf could show at `editionDate`: in stock and added by then (the pool's own first two tests). */
 export function universeMask(ctx: CurationContext, editionDate: number): Uint8Array {
@@ -59,4 +61,17 @@ export function describeChoiceCost(cost: number): string {
   const pct = Math.round(cost * 100);
   if (pct === 0) return 'These choices cost nothing in predicted relevance: no list for this audience is more relevant.';
   return `These choices cost ${pct}% of predicted relevance against the most relevant list for this audience.`;
+}
+
+/**
+ * The meter's line about dials the service set for the brief (services/curation/brief-dials.ts); null when the
+ * dials are the editor's.
+ */
+export function describeAutoDials(a: AutoDials | undefined, w: BlendWeights): string | null {
+  if (!a) return null;
+  const dials = `popularity ${w.popularity}, trend ${w.trend}, freshness ${w.freshness}`;
+  const limit = `${Math.round(a.limit * 100)}%`;
+  if (a.cost === null) return `The dials (${dials}) are the product's safe defaults: with no trained model they could not be set for this brief yet.`;
+  if (a.cost <= a.limit) return `The dials (${dials}) were set for this brief so they cost at most ${limit} of predicted relevance.`;
+  return `The dials (${dials}) were set as low as they go for this brief; they still cost ${Math.round(a.cost * 100)}%, above ${limit}.`;
 }

@@ -15,4 +15,4 @@ export { meterEdition } from './edition-meter.ts';
 export type { WhatIfBatch } from './whatif.ts';
 export { whatIf, whatIfBatch, flatReadings } from './whatif.ts';
 export * from './types.ts';
-export { universeMask, bestRelevanceSums, choiceCost, costOf, describeChoiceCost } from './choice-cost.ts';
+export { universeMask, bestRelevanceSums, choiceCost, costOf, describeChoiceCost, describeAutoDials } from './choice-cost.ts';

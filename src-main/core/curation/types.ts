@@ -48,6 +48,11 @@ export interface BlendWeights {
   freshness: number;
 }
 
+export interface AutoDials {
+  limit: number;
+  cost: number | null;
+}
+
 export interface Brief {
   size: number;
   /** Workspace item ids the shelf is built around. */
@@ -59,6 +64,12 @@ export interface Brief {
   /** Only items added within this many days of the edition date (undefined = any age). */
   maxAgeDays?: number;
   weights: BlendWeights;
+  /**
+   * Present when the service set the dials (popularity, trend, freshness) for this brief so that they cost at
+   * most `limit` of validated relevance (services/curation/brief-dials.ts); `cost` is what they cost when set
+   * (null: no trained model to measure with). Absent: the weights are the editor's and are never changed.
+   */
+  autoDials?: AutoDials;
   /** MMR trade-off: 1 = relevance only, 0 = diversity only (Carbonell & Goldstein 1998). */
   lambda: number;
   rules: Rules;

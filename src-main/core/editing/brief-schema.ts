@@ -38,6 +38,8 @@ export const AudienceSchema = z.discriminatedUnion('kind', [
  * top 12 by these weights give up at most 1.6% (median 0.1%) of the relevance of the most relevant 12,
  * against 40% (median 22%) for the weights before (popularity 0.15, trend and freshness 0.05, audience 0.1).
  * test/integration/default-dials.test.ts keeps it so; the editor turns a dial up at a price the meter shows.
+ * These are the safe defaults of any parsed brief; a shelf added without weights gets dials set for its own
+ * audience and anchors instead (services/curation/brief-dials.ts).
  */
 export const DEFAULT_WEIGHTS = { content: 0.3, collaborative: 0.35, audience: 0.5, popularity: 0.06, trend: 0.03, freshness: 0.03 };
 
@@ -61,6 +63,8 @@ export const BriefSchema = z
       })
       .strict()
       .default(DEFAULT_WEIGHTS),
+    // Set by the service only (services/curation/brief-dials.ts); see core/curation/types.ts.
+    autoDials: z.object({ limit: share, cost: share.nullable() }).strict().optional(),
     lambda: z.number().min(0).max(1).default(0.7),
     rules: z
       .object({

@@ -58,11 +58,18 @@ export interface PoolRequest {
   multipliers?: ReadonlyMap<number, number>;
   /** Trend ratios measured at another time than the scorer's own (a back-dated edition); absent = its own. */
   trend?: Float32Array | null;
+  /**
+   * Catalogue-length relevance of every item to the anchors by the validated blend (anchor-relevance.ts).
+   * Given (with anchors), it is the collaborative component's raw value in place of the mean of the
+   * collaborative model's similarity rows, which then serve only as evidence ("why?").
+   */
+  anchorRelevance?: Float32Array | null;
 }
 
 /**
  * The hybrid scorer. For a pool it computes six components per candidate — content and collaborative
- * similarity to the anchors (mean over anchors), audience affinity, popularity (distinct customers),
+ * similarity to the anchors (mean over anchors; the collaborative part is the validated blend's relevance to
+ * the anchors when the caller gives it, anchor-relevance.ts), audience affinity, popularity (distinct customers),
  * trend and freshness — normalises each within the pool, blends them with the brief's weights
  * (renormalised over the available components, so the blend is in [0, 1]), then multiplies by the
  * editor's boost/sink factor. Cold items (fewer than `coldStartMinCustomers` customers) take their
@@ -140,9 +147,11 @@ export class HybridScorer {
     const affinity = req.audienceAffinity ?? null;
     if (affinity && affinity.length !== N) throw new InputError(`audience affinity has ${affinity.length} items, expected ${N}`);
 
+    const anchorRel = anchors.length > 0 ? (req.anchorRelevance ?? null) : null;
+    if (anchorRel && anchorRel.length !== N) throw new InputError(`anchor relevance has ${anchorRel.length} items, expected ${N}`);
     const available = [
       anchors.length > 0 && this.models.content !== null,
-      anchors.length > 0 && this.models.collaborative !== null,
+      anchors.length > 0 && (anchorRel !== null || this.models.collaborative !== null),
       affinity !== null,
       true,
       (req.trend === undefined ? this.data.trend : req.trend) !== null,
@@ -150,7 +159,7 @@ export class HybridScorer {
     ];
     const w = effectiveWeights(req.weights, available);
     const contentRows = available[C_CONTENT] ? Array.from(anchors, (a) => this.similarityRow('content', a)) : [];
-    const collabRows = available[C_COLLABORATIVE] ? Array.from(anchors, (a) => this.similarityRow('collaborative', a)) : [];
+    const collabRows = available[C_COLLABORATIVE] && this.models.collaborative ? Array.from(anchors, (a) => this.similarityRow('collaborative', a)) : [];
 
     const raw = new Float32Array(COMPONENT_COUNT * n);
     const norm = new Float32Array(COMPONENT_COUNT * n);
@@ -167,7 +176,7 @@ export class HybridScorer {
       let sk = 0;
       for (const row of collabRows) sk += row[i]!;
       raw[C_CONTENT * n + p] = sc * invA;
-      raw[C_COLLABORATIVE * n + p] = sk * invA;
+      raw[C_COLLABORATIVE * n + p] = anchorRel ? anchorRel[i]! : sk * invA;
       raw[C_AUDIENCE * n + p] = affinity ? affinity[i]! : 0;
       raw[C_POPULARITY * n + p] = cpi[i]!;
       raw[C_TREND * n + p] = trend ? trend[i]! : 0;

@@ -8,3 +8,4 @@ export { PoolScores, type ScoredItem, type Evidence } from './pool-scores.ts';
 export { CustomerHybrid } from './customer-mode.ts';
 export { BlendScorer } from './blend-scorer.ts';
 export { normaliseForCustomer, blendColumnsInto, CUSTOMER_NORMALISATIONS, type CustomerNormalisation } from './per-customer.ts';
+export { anchorHistory, anchorRelevanceInto } from './anchor-relevance.ts';

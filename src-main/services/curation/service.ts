@@ -31,6 +31,8 @@ import type { ItemRepo } from '../../store/items.ts';
 import type { ShelfRepo, Shelf } from '../../store/shelves.ts';
 import type { Db } from '../../store/workspace.ts';
 import { aimByName } from './group-aim.ts';
+import { dialsFor } from './brief-dials.ts';
+import { dateMs } from '../../store/editions.ts';
 import { curationRepos } from './repos.ts';
 import { fillAndMeter, frozenDense, type FillMode } from './shelf-fill.ts';
 import { listChanges } from '../../core/curation/stable-fill.ts';
@@ -222,23 +224,33 @@ export class CurationService {
     return { ...e, shelves, meter: meterEdition(ctx, dense) };
   }
 
+  /**
+   * A brief that leaves out `weights` gets dials set for it (services/curation/brief-dials.ts): at most 5% of
+   * validated relevance for its audience and anchors. Weights given are the editor's and are kept.
+   */
   addShelf(edition: string, label: string, brief: unknown): ShelfView {
     const world = this.world();
-    const b = aimByName(parseBrief(brief), world.groupNames);
-    checkBriefNames(namesOf(world), b);
+    const given = aimByName(parseBrief(brief), world.groupNames);
+    checkBriefNames(namesOf(world), given);
     return this.db.transaction(() => {
       const e = this.#draft(edition);
+      const b = dialsFor(world, given, gaveWeights(brief), undefined, dateMs(e.date));
       return this.#refillEdition(world, e, this.shelves.add(e.id, label, b).id, 'fromTarget', { start: 'over' }).view;
     })();
   }
 
+  /**
+   * Replaces the brief. Dials set for the brief stay set for it (and are set again when its audience or anchors
+   * change) unless the editor sends other weights, which are theirs from then on (brief-dials.ts `dialsFor`).
+   */
   setBrief(edition: string, label: string, brief: unknown): ShelfView {
     const world = this.world();
-    const b = aimByName(parseBrief(brief), world.groupNames);
-    checkBriefNames(namesOf(world), b);
+    const given = aimByName(parseBrief(brief), world.groupNames);
+    checkBriefNames(namesOf(world), given);
     return this.db.transaction(() => {
       const e = this.#draft(edition);
       const s = this.shelves.byLabel(e.id, label);
+      const b = dialsFor(world, given, gaveWeights(brief), s.brief, dateMs(e.date));
       if (b.size < s.size) {
         const pinnedBeyond = Object.keys(this.#edits(s).pins).filter((k) => Number(k) >= b.size);
         if (pinnedBeyond.length) throw new InputError(`size: slot ${Number(pinnedBeyond[0]) + 1} is pinned; unpin it before shrinking the shelf`);
@@ -362,7 +374,11 @@ export class CurationService {
     const action = record.action;
     this.editorial.materialise(shelf.id, e.id, r.state);
     if (r.state.locked !== shelf.locked) this.shelves.setLocked(shelf.id, r.state.locked);
-    if (action.kind === 'anchors') this.shelves.setBrief(shelf.id, { ...shelf.brief, anchors: dir === 'undo' ? action.was : action.anchors });
+    if (action.kind === 'anchors') {
+      // New anchors are a new relevance: dials set for the brief are set again for them (the editor's stay).
+      const anchors = dir === 'undo' ? action.was : action.anchors;
+      this.shelves.setBrief(shelf.id, dialsFor(world, { ...shelf.brief, anchors }, false, shelf.brief, dateMs(e.date)));
+    }
     const unbanScope = action.kind === 'unban' ? record.before.bans[String(action.item)] : null;
     const wide =
       action.kind === 'lock' ||
@@ -412,4 +428,9 @@ function namesOf(world: CurationWorld): CatalogueNames {
   let names = world.memo.get('catalogueNames') as CatalogueNames | undefined;
   if (!names) world.memo.set('catalogueNames', (names = catalogueNames(world.ds.items)));
   return names;
+}
+
+/** Whether a brief as sent carries weights of its own (the editor's dials) rather than leaving them to the service. */
+function gaveWeights(brief: unknown): boolean {
+  return typeof brief === 'object' && brief !== null && (brief as { weights?: unknown }).weights !== undefined;
 }

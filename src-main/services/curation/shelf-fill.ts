@@ -14,7 +14,7 @@ import { itemsOn } from '../../core/editing/snapshot.ts';
 import { buildInteractionMatrix } from '../../core/matrix/build.ts';
 import type { Csr } from '../../core/matrix/csr.ts';
 import { IalsModel } from '../../core/models/ials.ts';
-import { audienceAffinityInto, missingGroupName, resolveAudience, type PoolScores } from '../../core/scoring/index.ts';
+import { anchorRelevanceInto, audienceAffinityInto, missingGroupName, resolveAudience, type PoolScores } from '../../core/scoring/index.ts';
 import { InputError } from '../../core/errors.ts';
 import { dateMs, type Edition } from '../../store/editions.ts';
 import type { Shelf, SlotRow } from '../../store/shelves.ts';
@@ -111,6 +111,25 @@ export function audienceAffinityOf(world: CurationWorld, brief: Brief, editionDa
   return out;
 }
 
+/**
+ * The validated blend's relevance of every item to the brief's anchors, treated as one new customer's
+ * history (core/scoring/anchor-relevance.ts says why). null without anchors or without a blend (the hybrid
+ * then falls back to the collaborative model's similarity rows). Remembered per anchor set in the world.
+ */
+export function anchorRelevanceOf(world: CurationWorld, anchors: Int32Array): Float32Array | null {
+  if (anchors.length === 0) return null;
+  const key = `anchors:${Array.from(anchors).sort((a, b) => a - b).join(',')}`;
+  if (world.memo.has(key)) return world.memo.get(key) as Float32Array | null;
+  const blend = world.blend;
+  let out: Float32Array | null = null;
+  if (blend) {
+    out = new Float32Array(world.ctx.n);
+    anchorRelevanceInto(blend.scorer, anchors, blend.history.rows, out);
+  }
+  world.memo.set(key, out);
+  return out;
+}
+
 /** What each customer already has (any signal), built once per world. */
 function ownedOf(world: CurationWorld): Csr {
   let o = world.memo.get('owned') as Csr | undefined;
@@ -120,8 +139,8 @@ function ownedOf(world: CurationWorld): Csr {
 
 /**
  * The validated relevance of every item any shelf could show at the date (NaN elsewhere), for this brief's
- * audience and anchors: the hybrid's relevance components only (anchor similarity by content and
- * collaborative models, and the validated blend for the audience), with the brief's relevance weights and
+ * audience and anchors: the hybrid's relevance components only (anchor similarity by content, the validated
+ * blend's relevance to the anchors as a pseudo-history, and the validated blend for the audience), with the brief's relevance weights and
  * none of its dials, normalised over that universe as the world's hybrid normalises a pool (min–max: 0 = the
  * least relevant item, 1 = the most). `best` prefixes the most relevant items'
  * sums: the price of the editor's choices is measured against them (core/curation/choice-cost.ts).
@@ -141,11 +160,12 @@ export function validatedRelevance(world: CurationWorld, brief: Brief, editionDa
   const audienceAffinity = audienceAffinityOf(world, brief, editionDate);
   let out: { relevance: Float64Array; best: Float64Array } | null = null;
   const relevanceOnly = { ...rel, popularity: 0, trend: 0, freshness: 0 };
-  const usable = (anchors.length > 0 && (world.hybrid.models.content || world.hybrid.models.collaborative)) || audienceAffinity;
+  const anchorRelevance = anchorRelevanceOf(world, anchors);
+  const usable = (anchors.length > 0 && (world.hybrid.models.content || world.hybrid.models.collaborative || anchorRelevance)) || audienceAffinity;
   if (items.length > 0 && usable) {
     let s: PoolScores;
     try {
-      s = world.hybrid.scorePool({ pool: Int32Array.from(items), anchors, weights: relevanceOnly, editionDate, audienceAffinity });
+      s = world.hybrid.scorePool({ pool: Int32Array.from(items), anchors, weights: relevanceOnly, editionDate, audienceAffinity, anchorRelevance });
     } catch (e) {
       // The brief weighs only relevance components this shelf cannot have (e.g. audience with an empty audience).
       if (!(e instanceof InputError)) throw e;
@@ -239,7 +259,8 @@ export function fillAndMeter(
     const anchors = Int32Array.from(brief.anchors.map((id) => ctx.indexOfId.get(id) ?? -1).filter((i) => i >= 0));
     const audienceAffinity = audienceAffinityOf(world, brief, editionDate);
     const trend = trendFor(world, editionDate);
-    return hybrid.scorePool({ pool: pool.items, anchors, weights: brief.weights, editionDate, audienceAffinity, multipliers, ...(trend !== undefined && { trend }) });
+    const anchorRelevance = anchorRelevanceOf(world, anchors);
+    return hybrid.scorePool({ pool: pool.items, anchors, weights: brief.weights, editionDate, audienceAffinity, anchorRelevance, multipliers, ...(trend !== undefined && { trend }) });
   });
   const { pool, scores, posOf, relevance } = scored;
 

@@ -31,6 +31,13 @@ export interface TunedTraining {
 /** How train.start asks for tuning: always, or only when the data changed since the last tuning (item 5). */
 export type TuneRequest = Omit<TuneOptions, 'signal' | 'onProgress' | 'fixed'> & { when?: 'always' | 'changed' };
 
+/**
+ * Training when nobody says how to tune (issue 10 item 5, "good by default"): tune when the data changed since
+ * the last tuning, else train that tuning's settings again. The one default for every way in: the app's Train
+ * button and `shelfwright train` both leave `tune` out of train.start.
+ */
+export const DEFAULT_TUNE: TuneRequest = { k: 10, when: 'changed' };
+
 /** A tuning as stored with a model (the model's evaluation record, key `tuning`). */
 interface StoredTuning {
   fingerprint?: string;
@@ -85,7 +92,8 @@ export async function tuneAndTrain(
       ials: { ...reuse.params.ials, ...p.ials },
       ...((reuse.params.ease || p.ease) && { ease: { ...reuse.params.ease, ...p.ease } }),
     };
-    const summary = await trainAndSave(db, file, { ...options, params }, { signal, onProgress: report });
+    // Waiting for another process's write shows in the job's stage, as in a plain or a tuned training.
+    const summary = await trainAndSave(db, file, { ...options, params }, { signal, onProgress: report, onWait: (holder) => report({ stage: waitingLine(holder), fraction: 1 }) });
     const repo = new ModelRepo(db);
     db.transaction(() => {
       summary.models.forEach((kind, q) => {

@@ -1,4 +1,4 @@
-import { describeChoiceCost } from '../../../core/curation/choice-cost.ts';
+import { describeAutoDials, describeChoiceCost } from '../../../core/curation/choice-cost.ts';
 import type { ShelfView } from '../../../api/contracts/curation.ts';
 import type { RequestOf } from '../../../api/contract.ts';
 import { checkOutputFile, writeFileWhole } from '../../../services/user-file.ts';
@@ -42,7 +42,8 @@ export function renderShelf(v: ShelfView): string {
   const left = describeExclusions(v.excluded);
   const resting = left ? `\nleft out of the pool: ${left}` : '';
   const viol = v.violations.length ? `\nrules not met:\n${v.violations.map((x) => `  ${x.rule}: ${x.reason}`).join('\n')}` : '';
-  const price = describeChoiceCost(m.choiceCost ?? NaN);
+  const dials = describeAutoDials(v.brief.autoDials, v.brief.weights);
+  const price = describeChoiceCost(m.choiceCost ?? NaN) + (dials ? `\n${dials}` : '');
   return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\nmeter: ${meter}\n${price}${resting}${viol}${renderChanges(v)}`;
 }
 

@@ -50,6 +50,18 @@ function tunedCell(m: StoredModel, given: Record<string, Record<string, unknown>
   return `${parts.join(' ')} (${differs ? `the grid's best scored ${ndcg}` : ndcg})`;
 }
 
+/**
+ * train.start's `tune`: left out when no tuning flag is given, so the api's default decides (the app's Train
+ * button sends the same request); `false` with --no-tune; with --tune or a tuning flag, those values over the
+ * default's "when the data changed".
+ */
+function tuneRequest(noTune: boolean, always: boolean, o: { k: number | undefined; seed: number | undefined; budget: number | undefined }) {
+  if (noTune) return false as const;
+  const given = only(o);
+  if (!always && Object.keys(given).length === 0) return undefined;
+  return { ...given, when: always ? ('always' as const) : ('changed' as const) };
+}
+
 const trainCommand: CliCommand = {
   name: 'train',
   summary: 'train the models (progress on stderr, a summary at the end); --tune searches each model\'s grid first',
@@ -138,7 +150,7 @@ const trainCommand: CliCommand = {
       itemknn: Object.keys(itemknn).length ? itemknn : undefined,
       ease: Object.keys(ease).length ? ease : undefined,
       threads: int(env, 'threads'),
-      tune: noTune ? undefined : only({ k: k ?? 10, seed: int(env, 'seed', 0), when: env.values['tune'] ? ('always' as const) : ('changed' as const), budget }),
+      tune: tuneRequest(noTune, env.values['tune'] === true, { k, seed: int(env, 'seed', 0), budget }),
     }));
     const end = await followJob(t, job, env.io);
     const { models: stored, hybrid } = await call(t, 'models.list', {});

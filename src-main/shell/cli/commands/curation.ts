@@ -7,6 +7,7 @@ import { EXIT, type CliCommand, type CommandEnv, type OptionSpec } from '../comm
 import { list, num, positionals, str } from '../flags.ts';
 import { describeExclusions } from '../../../core/curation/exclusion-words.ts';
 import { formatNumber, table } from '../format.ts';
+import { publishCheck, publishCheckLines } from '../../../core/editing/publish-check.ts';
 import { UsageError } from '../command.ts';
 
 /** Editions, shelves and editorial actions on the command line. Thin: flags → one api call → print. */
@@ -41,7 +42,7 @@ export function renderShelf(v: ShelfView): string {
   ].join(' · ');
   const left = describeExclusions(v.excluded);
   const resting = left ? `\nleft out of the pool: ${left}` : '';
-  const viol = v.violations.length ? `\nrules not met:\n${v.violations.map((x) => `  ${x.rule}: ${x.reason}`).join('\n')}` : '';
+  const viol = v.violations.length ? `\nrules not met:\n${v.violations.map((x) => `  ${x.title}: ${x.reason}`).join('\n')}` : '';
   const price = describeChoiceCost(m.choiceCost ?? NaN);
   return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\nmeter: ${meter}\n${price}${resting}${viol}${renderChanges(v)}`;
 }
@@ -242,9 +243,12 @@ function slotFlag(env: CommandEnv, name: string): number {
   return s;
 }
 
-const scopeOf = (env: CommandEnv): 'shelf' | 'edition' | 'always' => {
+/** The scope as typed; an until date before the edition is refused by the service (ban-scope.ts). */
+const scopeOf = (env: CommandEnv): string => {
   const s = str(env, 'scope') ?? 'shelf';
-  if (s !== 'shelf' && s !== 'edition' && s !== 'always') throw new UsageError(`--scope must be shelf, edition or always, got '${s}'`);
+  if (!/^(shelf|edition|later|always|until:\d{4}-\d{2}-\d{2})$/.test(s)) {
+    throw new UsageError(`--scope must be shelf, edition, later, always or until:YYYY-MM-DD, got '${s}'`);
+  }
   return s;
 };
 
@@ -330,16 +334,37 @@ export const curationCommands: CliCommand[] = [
   },
   {
     name: 'edition publish',
-    summary: 'freeze an edition into read-only history',
-    usage: ['LABEL'],
-    options: {},
-    about: {},
-    help: 'example:\n  shelfwright edition publish "week 10"',
+    summary: 'freeze an edition into read-only history, after listing unmet rules and shelves never opened',
+    usage: ['LABEL [--yes]'],
+    options: { yes: { type: 'boolean' } },
+    about: { yes: 'publish without asking (required when no one is at a terminal to answer y/N)' },
+    help: [
+      'Publishing cannot be undone. The command first lists every rule a shelf does not meet and the shelves',
+      'with no editorial action, then asks y/N at a terminal; elsewhere it needs --yes and otherwise changes nothing.',
+      '',
+      'example:',
+      '  shelfwright edition publish "week 10" --yes',
+    ].join('\n'),
     async run(env) {
       const [label] = positionals(env, ['LABEL']);
+      const yes = env.values['yes'] === true;
+      if (!yes && !env.io.ask) {
+        throw new UsageError(`publishing '${label!}' cannot be undone: add --yes to publish (no terminal to ask y/N)`);
+      }
       const { table: t } = env.api();
+      const check = publishCheck(await call(t, 'edition.show', { edition: label! }));
+      // With --json the check is part of the one JSON document; at a terminal question it goes to stderr first.
+      const say = (line: string) => (env.json ? env.io.err(line) : env.io.out(line));
+      if (!env.json || !yes) for (const line of publishCheckLines(check)) say(line);
+      if (!yes) {
+        const answer = (await env.io.ask!(`Publish '${label!}' now? It cannot be undone. [y/N] `)).trim().toLowerCase();
+        if (answer !== 'y' && answer !== 'yes') {
+          say(`not published: '${label!}' is still a draft`);
+          return EXIT.ok;
+        }
+      }
       const r = await call(t, 'edition.publish', { edition: label! });
-      env.io.out(env.json ? JSON.stringify(r, null, 2) : `published '${r.edition}': ${r.shelves} shelves, ${r.items} items`);
+      env.io.out(env.json ? JSON.stringify({ ...r, ...check }, null, 2) : `published '${r.edition}': ${r.shelves} shelves, ${r.items} items`);
       return EXIT.ok;
     },
   },
@@ -451,10 +476,13 @@ export const curationCommands: CliCommand[] = [
   actionCommand(
     'ban',
     'exclude an item, or every item of a category, supplier or tag',
-    'EDITION SHELF (ITEM | --category X | --supplier X | --tag X) [--scope shelf|edition|always]',
+    'EDITION SHELF (ITEM | --category X | --supplier X | --tag X) [--scope shelf|edition|later|until:YYYY-MM-DD|always]',
     { scope: { type: 'string' }, category: { type: 'string' }, supplier: { type: 'string' }, tag: { type: 'string' } },
     {
-      scope: 'where the ban holds: shelf (default), edition, or always (every shelf, every edition)',
+      scope:
+        'where the ban holds: shelf (default), edition (every shelf of this edition), later (this edition and every ' +
+        "copy of it dated on or after it: 'edition new --from'), until:YYYY-MM-DD (as later, up to that date), or " +
+        'always (every shelf, every edition)',
       category: 'ban every item of this category instead of one item',
       supplier: 'ban every item from this supplier instead of one item',
       tag: 'ban every item with this tag instead of one item',
@@ -468,10 +496,20 @@ export const curationCommands: CliCommand[] = [
     },
     '"week 10" Front SKU-007 --scope edition',
   ),
-  actionCommand('unban', "lift this shelf's ban on an item (the list keeps what it has until a refill)", 'EDITION SHELF ITEM', {}, {}, (_env, rest) => ({
-    kind: 'unban',
-    item: oneItem(rest),
-  }), '"week 10" Front SKU-007'),
+  actionCommand(
+    'unban',
+    "lift this shelf's ban on an item, or on a category, supplier or tag",
+    'EDITION SHELF (ITEM | --category X | --supplier X | --tag X)',
+    { category: { type: 'string' }, supplier: { type: 'string' }, tag: { type: 'string' } },
+    { category: 'lift the ban on this category', supplier: 'lift the ban on this supplier', tag: 'lift the ban on this tag' },
+    (env, rest) => {
+      const rules = (['category', 'supplier', 'tag'] as const).filter((f) => str(env, f) !== undefined);
+      if (rules.length + rest.length !== 1) throw new UsageError('lift the ban on one ITEM or one of --category, --supplier, --tag');
+      if (rules.length) return { kind: 'unbanRule', facet: rules[0]!, value: str(env, rules[0]!)! };
+      return { kind: 'unban', item: rest[0]! };
+    },
+    '"week 10" Front SKU-007',
+  ),
   actionCommand('boost', "raise an item's score by a factor", 'EDITION SHELF ITEM --factor F', { factor: { type: 'string' } }, { factor: "multiply the item's score by this number above 0 (default 2)" }, (env, rest) => ({
     kind: 'boost',
     item: oneItem(rest),

@@ -114,7 +114,7 @@ export function BanPanel({ shelf, readOnly }: { shelf: ShelfView; readOnly: bool
             )}
           </div>
           <button type="submit" disabled={readOnly || busy || !ready}>
-            Ban
+            Ban this {facet}
           </button>
         </fieldset>
       </form>

@@ -439,15 +439,17 @@ export const curationCommands: CliCommand[] = [
   },
   {
     name: 'shelf brief',
-    summary: "change a shelf's brief (quotas, promoted bounds, rest period, size) and fill it again",
+    summary: "change a shelf's brief (quotas, promoted bounds, rest period, size): an undoable action that keeps the list where it can",
     usage: [
       'EDITION SHELF [--size N] [--quota FACET:MAX[:VALUE]]... [--drop-quota FACET[:VALUE]]... [--no-quotas] [--promoted-max SHARE] [--promoted-min SHARE] [--rest N] [--category NAME]... [--audience WHO] [--brief JSON]',
     ],
-    options: { ...BRIEF_OPTIONS, ...DROP_QUOTA_OPTIONS },
-    about: { ...briefAbout(true), ...DROP_QUOTA_ABOUT },
+    options: { ...BRIEF_OPTIONS, ...DROP_QUOTA_OPTIONS, ...reasonOpt },
+    about: { ...briefAbout(true), ...DROP_QUOTA_ABOUT, reason: REASON_ABOUT },
     help: [
       "Flags left out keep the brief's current value. Quotas: --no-quotas or --drop-quota first take quotas off,",
       'then each --quota is added; dropping a quota the brief does not have is refused and changes nothing.',
+      "The change is an action in the shelf's log: the list keeps what the new brief allows ('shelf refill' starts",
+      "over), and 'shelf undo' takes the change back.",
       '',
       'examples:',
       '  shelfwright shelf brief "week 10" Front --quota supplier:2 --promoted-max 0.2',
@@ -458,7 +460,8 @@ export const curationCommands: CliCommand[] = [
       const { table: t } = env.api();
       const current = await call(t, 'shelf.show', { edition: edition!, shelf: shelf! });
       const brief = briefFrom(env, current.brief as Brief);
-      return printShelf(env, await call(t, 'shelf.brief', { edition: edition!, shelf: shelf!, brief }));
+      const reason = str(env, 'reason');
+      return printShelf(env, await call(t, 'shelf.brief', { edition: edition!, shelf: shelf!, brief, ...(reason ? { reason } : {}) }));
     },
   },
   shelfCommand('refill', 'start the shelf over: fill it afresh (actions keep the list; a locked shelf stays as it is)', 'shelf.fill'),

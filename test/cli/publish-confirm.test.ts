@@ -56,3 +56,25 @@ describe('edition publish asks first', () => {
     expect(r).toMatchObject({ edition: 'w', shelves: 1, unmet: [], unopened: ['Front'] });
   });
 });
+
+describe('shelf ban --scope on the command line', () => {
+  it('takes later and until:DATE, says the reach, and refuses anything else as a usage error', async () => {
+    const { run } = seededCli();
+    await run('edition', 'new', 'w', '--date', '2026-03-02');
+    await run('shelf', 'add', 'w', 'Front', '--size', '4');
+    const later = await run('shelf', 'ban', 'w', 'Front', '--category', 'kites', '--scope', 'later');
+    expect(later.code).toBe(0);
+    expect(later.out).toMatch(/^banned here: category kites \(this edition and later\)$/m);
+    const until = await run('shelf', 'ban', 'w', 'Front', '--tag', 'gift', '--scope', 'until:2026-03-30');
+    expect(until.out).toMatch(/^banned here: category kites \(this edition and later\), tag gift \(this edition and later, until 2026-03-30\)$/m);
+    const bad = await run('shelf', 'ban', 'w', 'Front', '--tag', 'small', '--scope', 'next week');
+    expect(bad.code).toBe(1);
+    expect(bad.err).toMatch(/--scope must be shelf, edition, later, always or until:YYYY-MM-DD, got 'next week'/);
+    const early = await run('shelf', 'ban', 'w', 'Front', '--tag', 'small', '--scope', 'until:2026-03-01');
+    expect(early.code).toBe(2);
+    expect(early.err).toMatch(/2026-03-01 is before this edition's date 2026-03-02/);
+    const lifted = await run('shelf', 'unban', 'w', 'Front', '--category', 'kites');
+    expect(lifted.code).toBe(0);
+    expect(lifted.out).toMatch(/^banned here: tag gift \(this edition and later, until 2026-03-30\)$/m);
+  });
+});

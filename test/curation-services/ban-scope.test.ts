@@ -92,6 +92,7 @@ describe('a brief edit is an undoable action that keeps the list', () => {
       if (!leaving.has(items0[k]!)) expect(s.item).toBe(items0[k]);
     });
     expect(v1.changes!.left.map((l) => l.item).sort()).toEqual([...leaving].sort());
+    for (const l of v1.changes!.left) expect(l.why).toBe('outside the supplier filter');
     expect(v1.actions.at(-1)!.summary).toMatch(/^Changed the brief: only suppliers: /);
     expect(v1.canUndo).toBe(true);
 

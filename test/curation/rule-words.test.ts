@@ -30,6 +30,9 @@ describe('rules in words', () => {
     expect(ruleWords('size', b)).toBe('Every one of the 4 slots filled (size)');
     expect(ruleWords('pin', b)).toBe('Pinned items (pin)');
     expect(ruleWords('audience', b)).toBe('The audience (audience)');
+    // Why an item left: the pool's exclusion words, as the shelf editor says them elsewhere.
+    expect(ruleWords('category', b)).toBe('outside the category filter');
+    expect(ruleWords('pushed off the end of the shelf', b)).toBe('pushed off the end of the shelf');
   });
 
   it('has words for every field of the brief an editor sets, in every spelling of its path', () => {

@@ -3,6 +3,7 @@
  * command line and the app all say "Most sponsored share of slots (maxCount)" where a program would say
  * `rules.promoted.maxCount`. The field's own name follows in brackets so a reader of the JSON can find it.
  */
+import { EXCLUSION_WORDS } from './exclusion-words.ts';
 import type { Brief } from './types.ts';
 
 const FACET_PLURAL: Record<string, string> = { categories: 'categories', tags: 'tags', suppliers: 'suppliers' };
@@ -174,6 +175,8 @@ export function ruleWords(rule: string, brief: Pick<Brief, 'size' | 'rules'>): s
     case 'anchors':
       return 'The anchors (anchors)';
   }
+  // Why an item left the pool (a filter, a ban, stock): the pool's own words.
+  if (Object.hasOwn(EXCLUSION_WORDS, rule)) return EXCLUSION_WORDS[rule as keyof typeof EXCLUSION_WORDS];
   const q = QUOTA.exec(rule);
   if (q) {
     const [, facet, value, max] = q;

@@ -44,7 +44,9 @@ export function renderShelf(v: ShelfView): string {
   const resting = left ? `\nleft out of the pool: ${left}` : '';
   const viol = v.violations.length ? `\nrules not met:\n${v.violations.map((x) => `  ${x.title}: ${x.reason}`).join('\n')}` : '';
   const price = describeChoiceCost(m.choiceCost ?? NaN);
-  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\nmeter: ${meter}\n${price}${resting}${viol}${renderChanges(v)}`;
+  const banned = [...v.ruleBans.map((b) => `${b.facet} ${b.value} (${b.reach})`), ...v.bans.map((b) => `${b.item} ${b.title} (${b.reach})`)];
+  const bans = banned.length ? `\nbanned here: ${banned.join(', ')}` : '';
+  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\nmeter: ${meter}\n${price}${resting}${bans}${viol}${renderChanges(v)}`;
 }
 
 /** What the action or refill changed against the list before, and the relevance the kept list gives up. */

@@ -103,4 +103,19 @@ describe('a brief edit is an undoable action that keeps the list', () => {
     expect(again.brief.include.suppliers).toEqual(others);
     expect(again.slots.map((s) => s.item)).toEqual(v1.slots.map((s) => s.item));
   });
+
+  it('grows and shrinks a shelf keeping its list, and an unchanged brief is no action', () => {
+    const svc = setup();
+    const v0 = shelf(svc, 'w10', 'Front');
+    const items0 = v0.slots.map((s) => s.item);
+    const grown = svc.setBrief('w10', 'Front', { ...v0.brief, size: 8 });
+    expect(grown.slots.map((s) => s.item).slice(0, 6)).toEqual(items0);
+    expect(grown.slots.filter((s) => s.item !== null)).toHaveLength(8);
+    expect(grown.actions.at(-1)!.summary).toMatch(/^Changed the brief: slots 6 → 8/);
+    const shrunk = svc.setBrief('w10', 'Front', { ...v0.brief, size: 4 });
+    expect(shrunk.slots.map((s) => s.item)).toEqual(items0.slice(0, 4));
+    const same = svc.setBrief('w10', 'Front', shrunk.brief);
+    expect(same.actions).toHaveLength(shrunk.actions.length);
+    expect(same.slots).toEqual(shrunk.slots);
+  });
 });

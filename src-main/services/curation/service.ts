@@ -270,6 +270,8 @@ export class CurationService {
           throw new InputError(`Slots (size): slot ${Number(pinnedBeyond[0]) + 1} is pinned; unpin it before shrinking the shelf`);
         }
       }
+      // Applying the brief the shelf already has changes nothing and logs nothing.
+      if (JSON.stringify(b) === JSON.stringify(s.brief)) return this.#read(world, e, s);
       return this.#apply(world, e, s, { kind: 'brief', brief: b, was: s.brief }, reason);
     })();
   }

@@ -8,7 +8,7 @@ const SCOPES = [
   ['shelf', 'This shelf only'],
   ['edition', 'Every shelf of this edition'],
   ['later', 'This edition and later copies'],
-  ['until', 'This edition and later copies, until a date'],
+  ['until', 'Until a date, copies included'],
   ['always', 'Always (every edition)'],
 ] as const;
 type ScopeChoice = (typeof SCOPES)[number][0];
@@ -73,7 +73,7 @@ export function BanPanel({ shelf, readOnly }: { shelf: ShelfView; readOnly: bool
           ))}
         </ul>
       )}
-      <form onSubmit={(e) => void submit(e)} aria-label="Ban a category, supplier or tag">
+      <form className="ban-form" onSubmit={(e) => void submit(e)} aria-label="Ban a category, supplier or tag">
         <fieldset disabled={readOnly}>
           <legend>Ban a category, supplier or tag</legend>
           <div className="row">

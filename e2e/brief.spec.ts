@@ -43,8 +43,10 @@ test('a category limit and a supplier ban with a scope, set in the page, obeyed,
   await page.getByRole('button', { name: 'Add a limit' }).click();
   await page.getByLabel('Limit 1: at most (items)').fill('2');
   await expect(page.getByLabel('Limit 1: which').locator('option')).toHaveText(['each one', 'only fiction', 'only food', 'only home', 'only travel']);
+  const t0 = performance.now();
   await page.getByRole('button', { name: 'Apply rules', exact: true }).click();
   await expect(history.last()).toHaveText(/^Changed the brief: at most 2 per category/);
+  console.log(`timing: brief edit shown on screen (list + log) ${(performance.now() - t0).toFixed(0)} ms after the click`);
   const limited = await stored(app, 'Week 49');
   expect(mostPerCategory(limited.slots)).toBeLessThanOrEqual(2);
   expect(limited.slots.filter((s) => s.item !== null)).toHaveLength(8);
@@ -66,9 +68,11 @@ test('a category limit and a supplier ban with a scope, set in the page, obeyed,
   await banForm.getByLabel('Ban by').selectOption('supplier');
   await banForm.getByLabel('Which supplier').selectOption('Olmsby & Tait');
   await banForm.getByLabel('Where the ban holds').selectOption({ label: 'This edition and later copies' });
+  const t1 = performance.now();
   await banForm.getByRole('button', { name: 'Ban this supplier' }).click();
   const bans = page.getByRole('list', { name: 'Bans' });
   await expect(bans).toContainText('Every supplier Olmsby & Tait (this edition and later)');
+  console.log(`timing: supplier ban shown on screen ${(performance.now() - t1).toFixed(0)} ms after the click`);
   await expect(slots).not.toContainText('Olmsby & Tait');
   expect(mostPerCategory((await stored(app, 'Week 49')).slots)).toBeLessThanOrEqual(2);
   // A category banned on this shelf only; the rule the shelf now cannot meet is said in words.

@@ -208,7 +208,7 @@ async function editShelf(page: Page, o: JourneyOptions): Promise<void> {
   const group = page.getByLabel('Taste group', { exact: true });
   await expect(group.locator('option')).not.toHaveCount(1, { timeout: 30_000 });
   await group.selectOption({ index: 1 });
-  await page.getByRole('button', { name: 'Apply rules and refill' }).click();
+  await page.getByRole('button', { name: 'Apply rules', exact: true }).click();
   await expect.poll(async () => (await o.api('shelf.show', { edition: 'Week 1', shelf: 'Newsletter block' })).brief.audience.kind).toBe('group');
   await expect(page.getByLabel('A taste group')).toBeChecked();
 }

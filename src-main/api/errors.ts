@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { BugError, CancelledError, InputError, NotFoundError, WorkspaceBusyError } from '../core/errors.ts';
+import { fieldWords, issueWords, type IssueLike } from '../core/curation/rule-words.ts';
 import { explainStoreError } from '../store/store-errors.ts';
 import type { ApiError } from './define.ts';
 
@@ -18,6 +19,8 @@ export function toApiError(thrown: unknown, file?: string): ApiError {
   }
   if (e instanceof z.ZodError) {
     const first = e.issues[0];
+    // A brief's field is said in words (core/curation/rule-words.ts); other fields by their path.
+    if (first && fieldWords(first.path) !== null) return { code: 'input', message: issueWords(first as IssueLike) };
     const path = first?.path.join('.') ?? '';
     return { code: 'input', message: path ? `${path}: ${first?.message}` : (first?.message ?? 'invalid request') };
   }

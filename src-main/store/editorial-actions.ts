@@ -54,7 +54,7 @@ export class EditorialRepo {
     );
     this.#activeBans = db.prepare<{ shelf: number; edition: number }, { item_id: number | null; facet: Facet | null; value: string | null }>(
       `SELECT item_id, facet, value FROM ban
-       WHERE shelf_id = @shelf OR (scope = 'edition' AND edition_id = @edition) OR scope = 'always'`,
+       WHERE shelf_id = @shelf OR (scope <> 'shelf' AND edition_id = @edition) OR scope = 'always'`,
     );
     this.#boosts = db.prepare<[number], { item_id: number; factor: number }>('SELECT item_id, factor FROM boost WHERE shelf_id = ?');
   }
@@ -105,7 +105,7 @@ export class EditorialRepo {
     for (const [item, factor] of Object.entries(edits.boosts)) this.#insertBoost.run({ shelf: shelfId, item: Number(item), factor });
   }
 
-  /** Bans reaching this shelf: its own, its edition's, and every "always" ban. */
+  /** Bans reaching this shelf: its own, every edition-wide one of its edition (all scopes but shelf), and every "always" ban. */
   activeBans(shelfId: number, editionId: number): { items: Set<number>; rules: { facet: Facet; value: string }[] } {
     const items = new Set<number>();
     const rules: { facet: Facet; value: string }[] = [];

@@ -40,7 +40,15 @@ export class ItemRepo {
   readonly #byExternal;
   readonly #byId;
   readonly #count;
+  readonly #names;
   constructor(db: Db) {
+    // Tags are a JSON list per item; json_each spreads them (SQLite docs, "The JSON1 extension": json_each).
+    this.#names = db.prepare<[], { facet: string; value: string }>(
+      `SELECT DISTINCT 'category' AS facet, category AS value FROM item WHERE category <> ''
+       UNION SELECT DISTINCT 'supplier', supplier FROM item WHERE supplier <> ''
+       UNION SELECT DISTINCT 'tag', j.value FROM item, json_each(item.tags) AS j WHERE j.value <> ''
+       ORDER BY 1, 2`,
+    );
     this.#all = db.prepare<[], ItemRow>('SELECT * FROM item ORDER BY id');
     this.#byExternal = db.prepare<[string], ItemRow>('SELECT * FROM item WHERE external_id = ?');
     this.#byId = db.prepare<[number], ItemRow>('SELECT * FROM item WHERE id = ?');
@@ -60,5 +68,15 @@ export class ItemRepo {
   }
   count(): number {
     return this.#count.get()!.n;
+  }
+  /** The distinct categories, suppliers and tags the catalogue uses, each sorted (what a brief may name). */
+  names(): { categories: string[]; suppliers: string[]; tags: string[] } {
+    const out = { categories: [] as string[], suppliers: [] as string[], tags: [] as string[] };
+    for (const r of this.#names.all()) {
+      if (r.facet === 'category') out.categories.push(r.value);
+      else if (r.facet === 'supplier') out.suppliers.push(r.value);
+      else out.tags.push(r.value);
+    }
+    return out;
   }
 }

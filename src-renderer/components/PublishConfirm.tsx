@@ -33,7 +33,7 @@ export function PublishConfirm(props: { edition: EditionView; opened: readonly s
           <ul aria-label="Rules not met">
             {unmet.map((u, i) => (
               <li key={i}>
-                {u.shelf} — {u.rule}: {u.reason}
+                {u.shelf} — {u.title}: {u.reason}
               </li>
             ))}
           </ul>

@@ -2,6 +2,7 @@ import { useEffect, useState } from 'react';
 import { describeAutoDials } from '../../src-main/core/curation/choice-cost.ts';
 import { describeExclusions } from '../../src-main/core/curation/exclusion-words.ts';
 import { AnchorPicker } from '../components/AnchorPicker.tsx';
+import { BanPanel } from '../components/BanPanel.tsx';
 import { BriefEditor } from '../components/BriefEditor.tsx';
 import { CandidatePool } from '../components/CandidatePool.tsx';
 import { ShelfMeterPanel } from '../components/Meter.tsx';
@@ -113,7 +114,7 @@ export function ShelfEditor() {
           <ul>
             {shelf.violations.map((v, i) => (
               <li key={i}>
-                {v.rule}: {v.reason}
+                {v.title}: {v.reason}
               </li>
             ))}
           </ul>
@@ -126,23 +127,7 @@ export function ShelfEditor() {
           <CandidatePool shelf={shelf} slot={Math.min(slot, shelf.size)} onSlot={setSlot} readOnly={readOnly} onAct={(a) => void act(a)} />
           <BacktestPanel shelf={shelf} />
           <SimilarPanel key={shelf.label} shelf={shelf} />
-          <section className="panel" aria-labelledby="bans-h">
-            <h2 id="bans-h">Banned from this shelf</h2>
-            {shelf.bans.length === 0 ? (
-              <p className="muted">No item is banned here.</p>
-            ) : (
-              <ul className="bans">
-                {shelf.bans.map((b) => (
-                  <li key={b.item}>
-                    {b.title} <span className="muted small">({b.scope === 'shelf' ? 'this shelf' : b.scope === 'edition' ? 'this edition' : 'always'})</span>{' '}
-                    <button type="button" className="quiet" disabled={readOnly || busy} onClick={() => void act({ kind: 'unban', item: b.item })} aria-label={`Lift the ban on ${b.title}`}>
-                      Lift the ban
-                    </button>
-                  </li>
-                ))}
-              </ul>
-            )}
-          </section>
+          <BanPanel shelf={shelf} readOnly={readOnly} />
           <section className="panel" aria-labelledby="history-h">
             <h2 id="history-h">Actions on this shelf</h2>
             {shelf.actions.length === 0 ? (

@@ -11,6 +11,8 @@ export type ShelfAction = RequestOf<'shelf.act'>['action'];
 export type Brief = RequestOf<'shelf.add'>['brief'];
 export type ExportFormat = RequestOf<'edition.export'>['format'];
 export type Comparison = ResponseOf<'edition.compare'>;
+/** The catalogue's categories, suppliers and tags: the choices a limit, a filter or a ban offers. */
+export type CatalogueNames = ResponseOf<'catalogue.names'>;
 export type ExportResult = ResponseOf<'edition.export'>;
 export type ShelfChanges = NonNullable<ResponseOf<'shelf.act'>['changes']>;
 export interface LastChange {
@@ -22,7 +24,7 @@ export interface LastChange {
 }
 
 /** Where an error is shown: beside the control the editor used. */
-export type ErrorArea = 'list' | 'new' | 'board' | 'addShelf' | 'shelf' | 'brief' | 'publish' | 'export' | 'compare';
+export type ErrorArea = 'list' | 'new' | 'board' | 'addShelf' | 'shelf' | 'brief' | 'ban' | 'names' | 'publish' | 'export' | 'compare';
 
 export interface CurationSlice {
   curation: {
@@ -40,7 +42,10 @@ export interface CurationSlice {
     lastChange: LastChange | null;
     /** Shelves opened in the shelf editor (`shelfKey`), so publishing can name the ones never opened. */
     opened: string[];
+    /** The catalogue's names, read once per workspace when a brief form first needs them. */
+    names: CatalogueNames | null;
   };
+  loadNames(): Promise<void>;
   loadEditions(): Promise<void>;
   newEdition(label: string, date: string, from?: string): Promise<boolean>;
   openEdition(label: string): Promise<boolean>;
@@ -51,6 +56,8 @@ export interface CurationSlice {
   redo(): Promise<void>;
   refill(): Promise<void>;
   setBrief(brief: Brief): Promise<boolean>;
+  /** A ban on a category, supplier or tag with its scope (shown beside the ban form, not the slots). */
+  banRule(facet: 'category' | 'supplier' | 'tag', value: string, scope: string): Promise<boolean>;
   publish(): Promise<boolean>;
   exportEdition(format: ExportFormat): Promise<ExportResult | null>;
   compare(a: string, b: string): Promise<void>;
@@ -68,6 +75,7 @@ export const initialCuration: CurationSlice['curation'] = {
   lastActionMs: null,
   lastChange: null,
   opened: [],
+  names: null,
 };
 
 /** The edition with one shelf replaced (immutable update: zustand guides/maps-and-sets-usage.md). */
@@ -180,6 +188,15 @@ export function createCurationSlice(client: Client, clock: () => number): StateC
       redo: async () => void (await shelfCall('shelf', () => client.call('shelf.redo', refs()))),
       refill: async () => void (await shelfCall('shelf', () => client.call('shelf.fill', refs()))),
       setBrief: (brief) => shelfCall('brief', () => client.call('shelf.brief', { ...refs(), brief })),
+      banRule: (facet, value, scope) => shelfCall('ban', () => client.call('shelf.act', { ...refs(), action: { kind: 'banRule', facet, value, scope } })),
+      async loadNames() {
+        try {
+          const names = await client.call('catalogue.names', {});
+          set((s) => ({ curation: { ...s.curation, names } }));
+        } catch (e) {
+          set((s) => ({ curation: { ...s.curation, errors: { ...s.curation.errors, names: describeError(e) } } }));
+        }
+      },
       async publish() {
         const e = get().curation.edition;
         if (!e) return false;

@@ -49,9 +49,12 @@ describe('shelf brief: taking quotas off', () => {
       { facet: 'supplier', max: 2, value: 'Mossgate' },
       { facet: 'tag', max: 4 },
     ]);
-    // Filled again under the quotas left, which do not bind: the shelf is the one it had before any quota.
-    expect(dropped.slots).toEqual(open.slots);
-    expect(perCategory(dropped.slots)).toBeGreaterThan(1);
+    // A brief edit keeps the list where the new brief allows (issue 12): the capped list still fits, so it
+    // stays; a refill then starts over under the quotas left, which do not bind: the list before any quota.
+    expect(dropped.slots).toEqual(capped.slots);
+    const refilled = await json('shelf', 'refill', 'week 10', 'Front');
+    expect(refilled.slots).toEqual(open.slots);
+    expect(perCategory(refilled.slots)).toBeGreaterThan(1);
     expect((await json('shelf', 'meter', 'week 10', 'Front')).brief.rules.quotas).toEqual(dropped.brief.rules.quotas);
 
     // A quota naming a value is dropped by FACET:VALUE, and a drop comes before an added --quota.
@@ -65,8 +68,8 @@ describe('shelf brief: taking quotas off', () => {
     await json('shelf', 'brief', 'week 10', 'Front', '--quota', 'category:1', '--quota', 'supplier:1');
     const cleared = await json('shelf', 'brief', 'week 10', 'Front', '--no-quotas');
     expect(cleared.brief.rules.quotas).toEqual([]);
-    // Same brief as before any quota, so the same fill.
-    expect(cleared.slots).toEqual(open.slots);
+    // Same brief as before any quota: a refill gives the same fill (the edit itself keeps the list).
+    expect((await json('shelf', 'refill', 'week 10', 'Front')).slots).toEqual(open.slots);
 
     await json('shelf', 'brief', 'week 10', 'Front', '--quota', 'category:1', '--quota', 'supplier:1');
     const fresh = await json('shelf', 'brief', 'week 10', 'Front', '--no-quotas', '--quota', 'category:2');

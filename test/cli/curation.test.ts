@@ -83,13 +83,15 @@ describe('shelfwright edition and shelf commands', () => {
     const undone = await json('shelf', 'undo', 'week 10', 'Front');
     expect(undone.canRedo).toBe(true);
     const redone = await json('shelf', 'redo', 'week 10', 'Front');
-    // The brief change is not an editorial action: undo took back the boost only, redo restores it.
-    expect(undone.actions.at(-1)).toMatchObject({ kind: 'boost', undone: true });
+    // The brief change is an editorial action (issue 12): undo takes it back with its list, redo restores it.
+    expect(undone.actions.at(-1)).toMatchObject({ kind: 'brief', undone: true });
+    expect(undone.brief.rules.quotas).toEqual([]);
+    expect(undone.slots).toEqual(boosted.slots);
     expect(redone.slots).toEqual(quota.slots);
     expect(redone.canRedo).toBe(false);
 
     const before = await json('edition', 'show', 'week 10');
-    const published = await json('edition', 'publish', 'week 10');
+    const published = await json('edition', 'publish', 'week 10', '--yes');
     expect(published).toMatchObject({ edition: 'week 10', shelves: 3 });
     const again = await run('shelf', 'pin', 'week 10', 'Front', 'SKU-001', '--slot', '2');
     expect(again.code).toBe(2);

@@ -136,7 +136,11 @@ describe('taste-group audiences', () => {
     store(db, flat, 3);
     expect(tasteGroupsView(db, world(db).ds).unmatchedNames).toEqual(['Lantern people']);
     const lost = svc.fill('w', 'Lanterns');
-    expect(lost.violations).toContainEqual({ rule: 'audience', reason: "the taste group 'Lantern people' was not found after the last training: choose another audience" });
+    expect(lost.violations).toContainEqual({
+      rule: 'audience',
+      title: 'The audience (audience)',
+      reason: "the taste group 'Lantern people' was not found after the last training: choose another audience",
+    });
     expect(reached()).toEqual([]);
   });
 

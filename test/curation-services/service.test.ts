@@ -110,7 +110,7 @@ describe('curation service', () => {
     const svc = setup();
     svc.newEdition('w', '2026-03-02');
     expect(() => svc.addShelf('w', 'Front', { size: 4, include: { categories: ['teapot'] } })).toThrow(
-      "include.categories.0: no item has the category 'teapot' (did you mean 'teapots'?)",
+      "Only these categories, entry 1 (categories): no item has the category 'teapot' (did you mean 'teapots'?)",
     );
     expect(svc.showEdition('w').shelves).toHaveLength(0);
     const v = svc.addShelf('w', 'Front', { size: 4 });

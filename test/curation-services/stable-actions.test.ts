@@ -99,7 +99,7 @@ describe('each verb does what its name says (issue 12)', () => {
     const v0 = svc.addShelf('w', 'Front', { size: 5 });
     const banned = v0.slots[2]!;
     const v1 = svc.act('w', 'Front', { kind: 'ban', item: banned.item!, scope: 'shelf' });
-    expect(v1.bans).toEqual([{ item: banned.item, title: banned.title, scope: 'shelf' }]);
+    expect(v1.bans).toEqual([{ item: banned.item, title: banned.title, scope: 'shelf', reach: 'this shelf' }]);
     const v2 = svc.act('w', 'Front', { kind: 'unban', item: banned.item! });
     expect(v2.bans).toEqual([]);
     expect(v2.actions.at(-1)!.summary).toBe(`Lifted the ban on ${banned.title}`);

@@ -15,12 +15,12 @@ describe('names a brief refers to', () => {
 
   it('refuses a misspelt name with the field and the nearest real names', () => {
     expect(() => checkBriefNames(names, parseBrief({ size: 4, include: { categories: ['tols'] } }))).toThrow(
-      "include.categories.0: no item has the category 'tols' (did you mean 'tools'?)",
+      "Only these categories, entry 1 (categories): no item has the category 'tols' (did you mean 'tools'?)",
     );
     expect(() => checkBriefNames(names, parseBrief({ size: 4, rules: { quotas: [{ facet: 'tag', max: 1, value: 'Gift' }] } }))).toThrow(
-      "rules.quotas.0.value: no item has the tag 'Gift' (did you mean 'gift'?)",
+      "Limit 1: which one (value): no item has the tag 'Gift' (did you mean 'gift'?)",
     );
-    expect(() => checkBriefNames(names, parseBrief({ size: 4, audience: { kind: 'rule', category: 'bulbs' } }))).toThrow(/audience.category: no item has the category 'bulbs'$/);
+    expect(() => checkBriefNames(names, parseBrief({ size: 4, audience: { kind: 'rule', category: 'bulbs' } }))).toThrow(/^Audience: bought in the category \(category\): no item has the category 'bulbs'$/);
   });
 
   it('suggests by Levenshtein distance: kitten -> sitting is 3 (too far), tols -> tools is 1', () => {

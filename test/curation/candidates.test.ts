@@ -85,9 +85,9 @@ describe('buildCandidatePool', () => {
   it('rejects quota 0 and names the field', () => {
     const bad = brief({}, { quotas: [{ facet: 'category', max: 0 }] });
     expect(() => buildCandidatePool(ctx, bad, st, EDITION)).toThrow(InputError);
-    expect(() => buildCandidatePool(ctx, bad, st, EDITION)).toThrow(/rules\.quotas\[0\]\.max: must be a whole number >= 1/);
-    expect(() => buildCandidatePool(ctx, brief({ lambda: 1.5 }), st, EDITION)).toThrow(/lambda: must be between 0 and 1/);
+    expect(() => buildCandidatePool(ctx, bad, st, EDITION)).toThrow(/^Limit 1: most items \(max\): must be a whole number >= 1/);
+    expect(() => buildCandidatePool(ctx, brief({ lambda: 1.5 }), st, EDITION)).toThrow(/^Relevance against variety \(lambda\): must be between 0 and 1/);
     const inverted = brief({}, { promoted: { minCount: 0.5, maxCount: 0.25 } });
-    expect(() => buildCandidatePool(ctx, inverted, st, EDITION)).toThrow(/minCount: is above maxCount/);
+    expect(() => buildCandidatePool(ctx, inverted, st, EDITION)).toThrow(/^Least sponsored share of slots \(minCount\): is above maxCount/);
   });
 });

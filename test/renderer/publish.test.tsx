@@ -29,7 +29,9 @@ describe('publishing', () => {
     fireEvent.click(await screen.findByRole('button', { name: 'Publish edition' }));
     const dialog = await screen.findByRole('alertdialog', { name: 'Publish Week 49?' });
     const rules = within(within(dialog).getByRole('list', { name: 'Rules not met' })).getAllByRole('listitem');
-    expect(rules.map((li) => li.textContent)).toEqual(violations.map((v) => `Sponsored row — ${v.rule}: ${v.reason}`));
+    expect(rules.map((li) => li.textContent)).toEqual(violations.map((v) => `Sponsored row — ${v.title}: ${v.reason}`));
+    // Rules in words, not field paths (issue 12 item 3): "At least 4 sponsored items (minCount)".
+    for (const li of rules) expect(li.textContent).not.toMatch(/promoted\.\w+:/);
     // 'Row' was opened in the shelf editor; 'Sponsored row' was only filled when it was added.
     const unopened = within(dialog).getByRole('list', { name: 'Shelves never opened' });
     expect(within(unopened).getAllByRole('listitem').map((li) => li.textContent)).toEqual(['Sponsored row']);

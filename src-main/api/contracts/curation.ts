@@ -45,7 +45,8 @@ export const SlotView = z.object({
   contributions: z.record(z.string(), z.number()),
 });
 
-export const ViolationView = z.object({ rule: z.string(), reason: z.string() });
+/** `title`: the rule in words with the brief's numbers ("At most 2 sponsored items (maxCount)"). */
+export const ViolationView = z.object({ rule: z.string(), reason: z.string(), title: z.string() });
 
 /** A brief as the api speaks it: anchors named by the shop's item ids (the store keeps row ids). */
 export const ApiBrief = BriefSchema.extend({
@@ -83,7 +84,9 @@ export const ShelfView = z.object({
   actions: z.array(
     z.object({ seq: z.number().int(), kind: z.string(), summary: z.string(), reason: z.string().nullable(), at: z.number(), undone: z.boolean() }),
   ),
-  bans: z.array(z.object({ item: z.string(), title: z.string(), scope: z.enum(['shelf', 'edition', 'always']) })),
+  /** `reach`: the scope in words ("this edition and later, until 2026-03-31"). */
+  bans: z.array(z.object({ item: z.string(), title: z.string(), scope: z.string(), reach: z.string() })),
+  ruleBans: z.array(z.object({ facet: z.enum(['category', 'supplier', 'tag']), value: z.string(), scope: z.string(), reach: z.string() })),
   /** After a fill or an action: what changed against the list before (slots 1-based), for highlighting. */
   changes: ChangesView.optional(),
   /** Predicted relevance a full refill would have over the kept list (the meter's measure); null after Refill. */
@@ -102,7 +105,11 @@ const EditionSummary = z.object({
 export const EditionView = EditionSummary.extend({ shelves: z.array(ShelfView), meter: EditionMeterView });
 export type EditionView = z.infer<typeof EditionView>;
 
-const Scope = z.enum(['shelf', 'edition', 'always']).default('shelf');
+/** How far a ban reaches (core/editing/ban-scope.ts); an until date is checked against the edition's date. */
+const Scope = z
+  .string()
+  .regex(/^(shelf|edition|later|always|until:\d{4}-\d{2}-\d{2})$/, 'must be shelf, edition, later, always or until:YYYY-MM-DD')
+  .default('shelf');
 const slotNo = z.number().int().min(1, 'slots count from 1');
 const itemId = z.string().trim().min(1, 'name the item by its id');
 const factor = z.number().positive('the factor must be above 0');
@@ -112,6 +119,8 @@ export const ShelfAction = z.discriminatedUnion('kind', [
   z.object({ kind: z.literal('unpin'), slot: slotNo }).strict(),
   z.object({ kind: z.literal('ban'), item: itemId, scope: Scope }).strict(),
   z.object({ kind: z.literal('banRule'), facet: z.enum(['category', 'supplier', 'tag']), value: z.string().min(1), scope: Scope }).strict(),
+  /** Lift this shelf's ban on a category, supplier or tag. */
+  z.object({ kind: z.literal('unbanRule'), facet: z.enum(['category', 'supplier', 'tag']), value: z.string().min(1) }).strict(),
   /** Multiply the item's score by `factor` (> 1 raises it). */
   z.object({ kind: z.literal('boost'), item: itemId, factor }).strict(),
   /** Divide the item's score by `factor` (> 1 lowers it). */
@@ -207,14 +216,19 @@ export const curationMethods = {
     request: z.object({ edition: label('edition'), format: z.enum(['csv', 'json', 'html']) }).strict(),
     response: z.object({ format: z.enum(['csv', 'json', 'html']), filename: z.string(), content: z.string() }),
   }),
+  'catalogue.names': method({
+    summary: 'The distinct categories, suppliers and tags of the catalogue, sorted: the names a brief, a limit or a ban may use.',
+    request: z.object({}).strict(),
+    response: z.object({ categories: z.array(z.string()), suppliers: z.array(z.string()), tags: z.array(z.string()) }),
+  }),
   'shelf.add': method({
     summary: 'Add a shelf to a draft edition and fill it from its brief.',
     request: z.object({ edition: label('edition'), label: label('shelf'), brief: ApiBriefRequest }).strict(),
     response: ShelfView,
   }),
   'shelf.brief': method({
-    summary: "Replace a shelf's brief (size, filters, quotas, promoted bounds, rest period...) and fill it again.",
-    request: z.object({ ...shelfRef, brief: ApiBriefRequest }).strict(),
+    summary: "Replace a shelf's brief (size, filters, quotas, promoted bounds, rest period...): an undoable action that keeps the list where the new brief allows.",
+    request: z.object({ ...shelfRef, brief: ApiBriefRequest, reason: z.string().max(500).optional() }).strict(),
     response: ShelfView,
   }),
   'shelf.fill': method({

@@ -1,5 +1,6 @@
 import { anchorExternalIds, anchorRowIds } from '../../services/curation/anchors.ts';
 import { backtestShelf } from '../../services/curation/backtest.ts';
+import { curationRepos } from '../../services/curation/repos.ts';
 import { curationModelSource } from '../../services/curation/model-source.ts';
 import { forgetTasteGroupName, nameTasteGroup, setTasteGroupSettings, tasteGroupsView } from '../../services/curation/taste-groups.ts';
 import { CurationService, type ActionRequest } from '../../services/curation/service.ts';
@@ -37,6 +38,7 @@ type Names =
   | 'edition.publish'
   | 'edition.compare'
   | 'edition.export'
+  | 'catalogue.names'
   | 'shelf.add'
   | 'shelf.brief'
   | 'shelf.fill'
@@ -76,8 +78,9 @@ export function curationHandlers(ctx: AppContext): { [M in Names]: Handler<M> } 
       const safe = snap.edition.label.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '') || 'edition';
       return { format: r.format, filename: `${safe}.${r.format}`, content: exportEdition(snap, r.format) };
     },
+    'catalogue.names': () => curationRepos(ctx.db).items.names(),
     'shelf.add': (r) => shelf(svc().addShelf(r.edition, r.label, withAnchorIds(r.brief))),
-    'shelf.brief': (r) => shelf(svc().setBrief(r.edition, r.shelf, withAnchorIds(r.brief))),
+    'shelf.brief': (r) => shelf(svc().setBrief(r.edition, r.shelf, withAnchorIds(r.brief), r.reason)),
     'shelf.fill': (r) => shelf(svc().fill(r.edition, r.shelf, true)),
     'shelf.show': (r) => shelf(svc().fill(r.edition, r.shelf, false)),
     'shelf.act': (r) => shelf(svc().act(r.edition, r.shelf, toRequest(r.action, (ids) => anchorRowIds(ctx.db, ids)), r.reason)),

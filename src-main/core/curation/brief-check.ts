@@ -3,10 +3,12 @@
  * a CLI flag, a saved file), so every problem is an InputError naming the field.
  */
 import { InputError } from '../errors.ts';
+import { fieldProblem } from './rule-words.ts';
 import type { Brief } from './types.ts';
 
+/** The field is said in words with its name in brackets (rule-words.ts), once: no `where.column` repeating it. */
 function fail(field: string, reason: string): never {
-  throw new InputError(`${field}: ${reason}`, { column: field });
+  throw new InputError(fieldProblem(field, reason));
 }
 
 function share(field: string, v: number | undefined): void {

@@ -1,5 +1,6 @@
 import { InputError } from '../errors.ts';
 import type { Item } from '../types.ts';
+import { fieldProblem } from './rule-words.ts';
 import type { Brief } from './types.ts';
 
 type Facet = 'category' | 'supplier' | 'tag';
@@ -29,7 +30,7 @@ export function checkName(names: CatalogueNames, facet: Facet, value: string, fi
   if (names[facet].has(value)) return;
   const near = closest(value, names[facet]);
   const hint = near.length ? ` (did you mean ${near.map((n) => `'${n}'`).join(' or ')}?)` : '';
-  throw new InputError(`${field}: no item has the ${facet} '${value}'${hint}`, { column: field });
+  throw new InputError(fieldProblem(field, `no item has the ${facet} '${value}'${hint}`));
 }
 
 /** Every category, supplier and tag a brief names must exist in the catalogue. */

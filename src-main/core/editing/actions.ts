@@ -7,10 +7,8 @@
  * Items are workspace item ids; slots are 0-based (slot 0 is position 1 on screen).
  */
 import { InputError } from '../errors.ts';
-import type { Facet } from '../curation/types.ts';
-
-export type BanScope = 'shelf' | 'edition' | 'always';
-export const BAN_SCOPES: readonly BanScope[] = ['shelf', 'edition', 'always'];
+import type { Brief, Facet } from '../curation/types.ts';
+import type { BanScope } from './ban-scope.ts';
 
 export interface RuleBan {
   facet: Facet;
@@ -52,7 +50,19 @@ export type EditAction =
   /** Start the list over (the one action that does): no edit changes; undo puts the old list back. */
   | { kind: 'refill' }
   /** Fill from these anchors: the brief's anchors become `anchors` (`was` before) and the list starts over. */
-  | { kind: 'anchors'; anchors: number[]; was: number[] };
+  | { kind: 'anchors'; anchors: number[]; was: number[] }
+  /** Lift this shelf's ban on every item of a category, supplier or tag. */
+  | { kind: 'unbanRule'; facet: Facet; value: string }
+  /**
+   * The bans a shelf copied into a new edition brings along, by their scope (ban-scope.ts `carriesTo`):
+   * the first record of the copied shelf's log, so they are its own to lift (or undo).
+   */
+  | { kind: 'carry'; from: string; bans: Record<string, BanScope>; banRules: Record<string, RuleBan> }
+  /**
+   * A new brief (`was` before): the service stores it and keeps the list where the new brief allows
+   * (the stable fill); undo puts the old brief and the old list back. Briefs as the store keeps them.
+   */
+  | { kind: 'brief'; brief: Brief; was: Brief };
 
 export type EditKind = EditAction['kind'];
 
@@ -109,7 +119,7 @@ export function checkAction(a: EditAction, size: number): void {
       column: 'factor',
     });
   }
-  if (a.kind === 'banRule' && a.value.trim() === '') {
+  if ((a.kind === 'banRule' || a.kind === 'unbanRule') && a.value.trim() === '') {
     throw new InputError(`value: name the ${a.facet} to ban`, { column: 'value' });
   }
 }
@@ -185,8 +195,16 @@ export function applyAction(state: ShelfEdits, a: EditAction): { state: ShelfEdi
     case 'unban':
       d.set('bans', String(a.item), null);
       break;
+    case 'unbanRule':
+      d.set('banRules', ruleKey(a.facet, a.value), null);
+      break;
+    case 'carry':
+      for (const [item, scope] of Object.entries(a.bans)) d.set('bans', item, scope);
+      for (const [key, rule] of Object.entries(a.banRules)) d.set('banRules', key, { ...rule });
+      break;
     case 'refill':
     case 'anchors':
+    case 'brief':
       // The list (and for anchors the brief) is the service's to change; the edits stay as they are.
       break;
     case 'move': {

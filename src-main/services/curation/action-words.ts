@@ -2,7 +2,8 @@
  * An action as the editor's log names it: verb, item, slots and factor ("Sank Oak Houseplant Mix ×0.5,
  * slot 2 → 6"). Slots come from the lists the action recorded for this shelf (1-based, as on screen).
  */
-import type { EditRecord } from '../../core/editing/index.ts';
+import { scopeWords, type EditRecord } from '../../core/editing/index.ts';
+import { briefChangeWords } from '../../core/curation/brief-words.ts';
 
 const factorWords = (f: number) => `×${Number(f.toPrecision(3))}`;
 
@@ -42,9 +43,18 @@ export function describeAction(record: EditRecord, shelfId: number, title: (item
       return was === null || was === undefined ? `Unpinned slot ${a.slot + 1}` : `Unpinned ${title(was)} at slot ${a.slot + 1}`;
     }
     case 'ban':
-      return `Banned ${title(a.item)} (${a.scope === 'shelf' ? 'this shelf' : a.scope === 'edition' ? 'this edition' : 'always'})${slots(a.item)}${cameIn(a.item)}`;
+      return `Banned ${title(a.item)} (${scopeWords(a.scope)})${slots(a.item)}${cameIn(a.item)}`;
     case 'banRule':
-      return `Banned ${a.facet} ${a.value} (${a.scope === 'shelf' ? 'this shelf' : a.scope === 'edition' ? 'this edition' : 'always'})${cameIn(-1)}`;
+      return `Banned ${a.facet} ${a.value} (${scopeWords(a.scope)})${cameIn(-1)}`;
+    case 'unbanRule':
+      return `Lifted the ban on ${a.facet} ${a.value}${cameIn(-1)}`;
+    case 'carry': {
+      const n = Object.keys(a.bans).length + Object.keys(a.banRules).length;
+      const names = [...Object.keys(a.bans).map((id) => title(Number(id))), ...Object.values(a.banRules).map((r) => `${r.facet} ${r.value}`)];
+      return `Carried ${n} ban${n === 1 ? '' : 's'} from ${a.from}: ${names.join(', ')}`;
+    }
+    case 'brief':
+      return `Changed the brief: ${briefChangeWords(a.was, a.brief)}${cameIn(-1)}`;
     case 'boost':
       return `${a.factor >= 1 ? 'Boosted' : 'Sank'} ${title(a.item)} ${factorWords(a.factor)}${slots(a.item)}${cameIn(a.item)}`;
     case 'lock':

@@ -6,7 +6,11 @@
 import { meterEdition } from '../../core/curation/edition-meter.ts';
 import { InputError, NotFoundError } from '../../core/errors.ts';
 import {
+  carriesTo,
   checkAction,
+  checkScope,
+  editionWide,
+  ruleKey,
   compareEditions,
   titlesOn,
   doAction,
@@ -45,8 +49,10 @@ import { loadWorld, noModels, type CurationWorld, type ModelSource } from './wor
 export type ActionRequest =
   | { kind: 'pin'; slot: number; item: string }
   | { kind: 'unpin'; slot: number }
-  | { kind: 'ban'; item: string; scope: 'shelf' | 'edition' | 'always' }
-  | { kind: 'banRule'; facet: 'category' | 'supplier' | 'tag'; value: string; scope: 'shelf' | 'edition' | 'always' }
+  /** `scope`: shelf, edition, later, always or until:YYYY-MM-DD (core/editing/ban-scope.ts). */
+  | { kind: 'ban'; item: string; scope: string }
+  | { kind: 'banRule'; facet: 'category' | 'supplier' | 'tag'; value: string; scope: string }
+  | { kind: 'unbanRule'; facet: 'category' | 'supplier' | 'tag'; value: string }
   | { kind: 'boost'; item: string; factor: number }
   | { kind: 'lock' }
   | { kind: 'unlock' }
@@ -104,7 +110,7 @@ export class CurationService {
   /** Reads a shelf as stored, with its meter (no fill). */
   #read(world: CurationWorld, edition: Edition, shelf: Shelf): ShelfView {
     const filled = fillAndMeter(this.db, world, shelf, edition, this.#edits(shelf), false);
-    return shelfView(edition, shelf, filled, this.#item(world), this.editorial.entries(shelf.id), this.#edits(shelf).bans);
+    return shelfView(edition, shelf, filled, this.#item(world), this.editorial.entries(shelf.id), this.#edits(shelf));
   }
 
   /**
@@ -180,8 +186,8 @@ export class CurationService {
       if (s.id === targetId) {
         const changes = filled.changes ?? listChanges(stored, filled.dense);
         view = {
-          ...shelfView(edition, this.shelves.get(s.id), { ...filled, violations }, this.#item(world), this.editorial.entries(s.id), edits.get(s.id)!.bans),
-          changes: changesView(changes, (i) => world.ds.items[i]),
+          ...shelfView(edition, this.shelves.get(s.id), { ...filled, violations }, this.#item(world), this.editorial.entries(s.id), edits.get(s.id)!),
+          changes: changesView(changes, (i) => world.ds.items[i], this.shelves.get(s.id).brief),
           relevanceGivenUp: filled.relevanceGivenUp ?? null,
         };
       }
@@ -195,16 +201,31 @@ export class CurationService {
     const id = this.db.transaction(() => {
       const e = this.editions.create(label, date, this.clock());
       if (from !== undefined) {
-        // A new edition from a previous one copies its shelves and briefs, not its slots: every shelf is
-        // filled afresh (so the rest period and new items show at once).
-        for (const s of this.shelves.list(this.editions.byLabel(from).id)) {
+        // A new edition from a previous one copies its shelves and briefs (with every limit and filter they
+        // hold), not its slots: every shelf is filled afresh (so the rest period and new items show at once).
+        // Bans come along as their scope says (ban-scope.ts): 'later' and 'until' a date on or after this one.
+        const source = this.editions.byLabel(from);
+        for (const s of this.shelves.list(source.id)) {
           const shelf = this.shelves.add(e.id, s.label, s.brief);
+          this.#carryBans(source, s, e, shelf);
           this.#refillEdition(world, e, shelf.id, 'all', { start: 'over' });
         }
       }
       return e.id;
     })();
     return this.showEdition(this.editions.get(id).label);
+  }
+
+  /** Starts the copied shelf's log with the bans of `s` whose scope reaches the new edition's date. */
+  #carryBans(source: Edition, s: Shelf, e: Edition, shelf: Shelf): void {
+    const edits = this.#edits(s);
+    const bans = Object.fromEntries(Object.entries(edits.bans).filter(([, scope]) => carriesTo(scope, source.date, e.date)));
+    const banRules = Object.fromEntries(Object.entries(edits.banRules).filter(([, r]) => carriesTo(r.scope, source.date, e.date)));
+    if (Object.keys(bans).length + Object.keys(banRules).length === 0) return;
+    const log = this.editorial.log(shelf.id);
+    const r = doAction(replay(emptyEdits(), log), log, { kind: 'carry', from: source.label, bans, banRules });
+    this.editorial.append(shelf.id, r.log.records[r.log.cursor - 1]!, null, this.clock());
+    this.editorial.materialise(shelf.id, e.id, r.state);
   }
 
   listEditions(): Edition[] {
@@ -240,10 +261,12 @@ export class CurationService {
   }
 
   /**
-   * Replaces the brief. Dials set for the brief stay set for it (and are set again when its audience or anchors
-   * change) unless the editor sends other weights, which are theirs from then on (brief-dials.ts `dialsFor`).
+   * A new brief is an editorial action (kind 'brief'): logged, undoable, and filled stably, so the list
+   * keeps every item the new brief still admits (core/curation/stable-fill.ts); Refill starts over.
+   * Dials set for the brief stay set for it (and are set again when its audience or anchors change) unless
+   * the editor sends other weights, which are theirs from then on (brief-dials.ts `dialsFor`).
    */
-  setBrief(edition: string, label: string, brief: unknown): ShelfView {
+  setBrief(edition: string, label: string, brief: unknown, reason?: string): ShelfView {
     const world = this.world();
     const given = aimByName(parseBrief(brief), world.groupNames);
     checkBriefNames(namesOf(world), given);
@@ -253,10 +276,13 @@ export class CurationService {
       const b = dialsFor(world, given, gaveWeights(brief), s.brief, dateMs(e.date));
       if (b.size < s.size) {
         const pinnedBeyond = Object.keys(this.#edits(s).pins).filter((k) => Number(k) >= b.size);
-        if (pinnedBeyond.length) throw new InputError(`size: slot ${Number(pinnedBeyond[0]) + 1} is pinned; unpin it before shrinking the shelf`);
+        if (pinnedBeyond.length) {
+          throw new InputError(`Slots (size): slot ${Number(pinnedBeyond[0]) + 1} is pinned; unpin it before shrinking the shelf`);
+        }
       }
-      this.shelves.setBrief(s.id, b);
-      return this.#refillEdition(world, e, s.id, 'fromTarget', { start: 'over' }).view;
+      // Applying the brief the shelf already has changes nothing and logs nothing.
+      if (JSON.stringify(b) === JSON.stringify(s.brief)) return this.#read(world, e, s);
+      return this.#apply(world, e, s, { kind: 'brief', brief: b, was: s.brief }, reason);
     })();
   }
 
@@ -273,7 +299,7 @@ export class CurationService {
     return this.act(edition, label, { kind: 'refill' });
   }
 
-  #resolve(world: CurationWorld, shelf: Shelf, a: ActionRequest): EditAction {
+  #resolve(world: CurationWorld, edition: Edition, shelf: Shelf, a: ActionRequest): EditAction {
     const item = (ext: string): number => {
       const it = this.items.byExternalId(ext);
       if (!it) throw new NotFoundError(`no item with id '${ext}'`);
@@ -285,10 +311,15 @@ export class CurationService {
       case 'unpin':
         return { kind: 'unpin', slot: a.slot - 1 };
       case 'ban':
-        return { kind: 'ban', item: item(a.item), scope: a.scope };
+        return { kind: 'ban', item: item(a.item), scope: checkScope(a.scope, edition.date) };
       case 'banRule':
         checkName(namesOf(world), a.facet, a.value, a.facet);
-        return { kind: 'banRule', facet: a.facet, value: a.value, scope: a.scope };
+        return { kind: 'banRule', facet: a.facet, value: a.value, scope: checkScope(a.scope, edition.date) };
+      case 'unbanRule':
+        if (!(ruleKey(a.facet, a.value) in this.#edits(shelf).banRules)) {
+          throw new InputError(`this shelf has no ban on the ${a.facet} '${a.value}'`);
+        }
+        return { kind: 'unbanRule', facet: a.facet, value: a.value };
       case 'boost':
         return { kind: 'boost', item: item(a.item), factor: a.factor };
       case 'lock': {
@@ -324,17 +355,21 @@ export class CurationService {
     return this.db.transaction(() => {
       const e = this.#draft(edition);
       const shelf = this.shelves.byLabel(e.id, label);
-      const action = this.#resolve(world, shelf, request);
-      checkAction(action, shelf.size);
-      const log = this.editorial.log(shelf.id);
-      const r = doAction(replay(emptyEdits(), log), log, action);
-      const record = r.log.records[r.log.cursor - 1]!;
-      this.editorial.append(shelf.id, record, reason?.trim() || null, this.clock());
-      const out = this.#settle(world, e, shelf, r, record, 'do');
-      this.editorial.mark(shelf.id, r.log.cursor - 1, false, { ...record, lists: out.lists });
-      // The log entry now holds the lists, so it can name the slots.
-      return { ...out.view, actions: actionViews(this.editorial.entries(shelf.id), shelf.id, this.#item(world)) };
+      return this.#apply(world, e, shelf, this.#resolve(world, e, shelf, request), reason);
     })();
+  }
+
+  /** Logs one action, stores its state, re-fills and meters; inside the caller's transaction. */
+  #apply(world: CurationWorld, e: Edition, shelf: Shelf, action: EditAction, reason?: string): ShelfView {
+    checkAction(action, shelf.size);
+    const log = this.editorial.log(shelf.id);
+    const r = doAction(replay(emptyEdits(), log), log, action);
+    const record = r.log.records[r.log.cursor - 1]!;
+    this.editorial.append(shelf.id, record, reason?.trim() || null, this.clock());
+    const out = this.#settle(world, e, shelf, r, record, 'do');
+    this.editorial.mark(shelf.id, r.log.cursor - 1, false, { ...record, lists: out.lists });
+    // The log entry now holds the lists, so it can name the slots.
+    return { ...out.view, actions: actionViews(this.editorial.entries(shelf.id), shelf.id, this.#item(world)) };
   }
 
   undo(edition: string, label: string): ShelfView {
@@ -379,12 +414,19 @@ export class CurationService {
       const anchors = dir === 'undo' ? action.was : action.anchors;
       this.shelves.setBrief(shelf.id, dialsFor(world, { ...shelf.brief, anchors }, false, shelf.brief, dateMs(e.date)));
     }
-    const unbanScope = action.kind === 'unban' ? record.before.bans[String(action.item)] : null;
+    if (action.kind === 'brief') this.shelves.setBrief(shelf.id, dir === 'undo' ? action.was : action.brief);
+    const liftedScope =
+      action.kind === 'unban'
+        ? record.before.bans[String(action.item)]
+        : action.kind === 'unbanRule'
+          ? record.before.banRules[ruleKey(action.facet, action.value)]?.scope
+          : null;
     const wide =
       action.kind === 'lock' ||
       action.kind === 'unlock' ||
-      ((action.kind === 'ban' || action.kind === 'banRule') && action.scope !== 'shelf') ||
-      (unbanScope !== null && unbanScope !== undefined && unbanScope !== 'shelf');
+      action.kind === 'carry' ||
+      ((action.kind === 'ban' || action.kind === 'banRule') && editionWide(action.scope)) ||
+      (liftedScope !== null && liftedScope !== undefined && editionWide(liftedScope));
     let how: RefillHow = { start: 'stable' };
     if (dir === 'undo') how = { start: 'stable', restore: record.lists ?? {} };
     else if (action.kind === 'refill' || action.kind === 'anchors') how = { start: 'over' };

@@ -6,6 +6,8 @@
 import type { EditionMeter, RuleViolation, ShelfMeter } from '../../core/curation/types.ts';
 import type { Brief } from '../../core/curation/types.ts';
 import type { ListChanges } from '../../core/curation/stable-fill.ts';
+import { ruleWords } from '../../core/curation/rule-words.ts';
+import { scopeWords, type BanScope, type ShelfEdits } from '../../core/editing/index.ts';
 import type { Item } from '../../core/types.ts';
 import type { Edition } from '../../store/editions.ts';
 import type { ActionEntry } from '../../store/editorial-actions.ts';
@@ -47,14 +49,17 @@ export interface ShelfView {
   brief: Brief;
   slots: SlotView[];
   meter: ShelfMeter;
-  violations: RuleViolation[];
+  /** `title`: the rule in words with the brief's numbers (core/curation/rule-words.ts). */
+  violations: (RuleViolation & { title: string })[];
   poolSize: number;
   excluded: Record<string, number>;
   canUndo: boolean;
   canRedo: boolean;
   actions: ActionView[];
   /** This shelf's own bans on items, each with its reach; the editor can lift each one. */
-  bans: { item: string; title: string; scope: 'shelf' | 'edition' | 'always' }[];
+  bans: { item: string; title: string; scope: BanScope; reach: string }[];
+  /** This shelf's own bans on every item of a category, supplier or tag, each with its reach. */
+  ruleBans: { facet: 'category' | 'supplier' | 'tag'; value: string; scope: BanScope; reach: string }[];
   /** After a fill or an action: what changed against the list before (slots 1-based). */
   changes?: ChangesView;
   /** Predicted relevance (the meter's) a full refill would have over the kept list; null after a refill. */
@@ -73,14 +78,16 @@ export interface ChangesView {
 }
 
 /** A fill's list changes in the editor's terms: external ids, titles, 1-based slots. */
-export function changesView(c: ListChanges, itemAt: (dense: number) => Item | undefined): ChangesView {
+/** `why` names rules in words when the brief is given (rule-words.ts); edits ('banned', ...) as they are. */
+export function changesView(c: ListChanges, itemAt: (dense: number) => Item | undefined, brief?: Brief): ChangesView {
+  const why = (w: string) => (brief ? w.split(', ').map((r) => ruleWords(r, brief)).join(', ') : w);
   const named = (i: number): ChangedItem => {
     const it = itemAt(i);
     return { item: it?.externalId ?? String(i), title: it?.title ?? it?.externalId ?? String(i) };
   };
   return {
     entered: c.entered.map((e) => ({ ...named(e.item), slot: e.slot + 1 })),
-    left: c.left.map((e) => ({ ...named(e.item), slot: e.slot + 1, why: e.why })),
+    left: c.left.map((e) => ({ ...named(e.item), slot: e.slot + 1, why: why(e.why) })),
     moved: c.moved.map((e) => ({ ...named(e.item), from: e.from + 1, to: e.to + 1 })),
   };
 }
@@ -122,7 +129,7 @@ export function shelfView(
   filled: FilledShelf,
   itemById: (id: number) => Item | undefined,
   entries: readonly ActionEntry[],
-  bans: Readonly<Record<string, 'shelf' | 'edition' | 'always'>> = {},
+  edits: Pick<ShelfEdits, 'bans' | 'banRules'> = { bans: {}, banRules: {} },
 ): ShelfView {
   const title = (id: number) => itemById(id)?.title ?? itemById(id)?.externalId ?? `item ${id}`;
   const cursor = entries.filter((e) => !e.undone).length;
@@ -135,12 +142,18 @@ export function shelfView(
     brief: shelf.brief,
     slots: filled.slots.map((s) => slotView(s, s.itemId === null ? undefined : itemById(s.itemId))),
     meter: filled.meter,
-    violations: filled.violations,
+    violations: filled.violations.map((v) => ({ ...v, title: ruleWords(v.rule, shelf.brief) })),
     poolSize: filled.poolSize,
     excluded: filled.excluded,
     canUndo: cursor > 0,
     canRedo: cursor < entries.length,
     actions: actionViews(entries, shelf.id, itemById),
-    bans: Object.entries(bans).map(([id, scope]) => ({ item: itemById(Number(id))?.externalId ?? id, title: title(Number(id)), scope })),
+    bans: Object.entries(edits.bans).map(([id, scope]) => ({
+      item: itemById(Number(id))?.externalId ?? id,
+      title: title(Number(id)),
+      scope,
+      reach: scopeWords(scope),
+    })),
+    ruleBans: Object.values(edits.banRules).map((r) => ({ facet: r.facet, value: r.value, scope: r.scope, reach: scopeWords(r.scope) })),
   };
 }

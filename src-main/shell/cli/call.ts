@@ -2,6 +2,7 @@ import { invoke, type HandlerTable } from '../../api/handler-table.ts';
 import { CONTRACT, type MethodName, type RequestOf, type ResponseOf } from '../../api/contract.ts';
 import type { ApiError } from '../../api/define.ts';
 import { UsageError } from './command.ts';
+import { fieldWords, issueWords, type IssueLike } from '../../core/curation/rule-words.ts';
 
 const REPEATED = /^([\w.[\]-]+): \1[: ]/;
 
@@ -37,6 +38,8 @@ export async function call<M extends MethodName>(table: HandlerTable, name: M, p
   const checked = CONTRACT[name].request.safeParse(payload);
   if (!checked.success) {
     const issue = checked.error.issues[0]!;
+    // A brief's field is said in words, as the api says it (core/curation/rule-words.ts).
+    if (fieldWords(issue.path) !== null) throw new UsageError(issueWords(issue as IssueLike));
     const field = issue.path.join('.');
     throw new UsageError(`${field ? `${field}: ` : ''}${issue.message.replace(/^Too (big|small): /, 'too $1: ')}`);
   }

@@ -18,6 +18,11 @@ export interface CliIo {
   errIsTty: boolean;
   /** True when stdout is a terminal: a file printed there (an export without --out) is shown escaped. */
   outIsTty?: boolean;
+  /**
+   * Asks a yes/no question and gives the answer line; only present when a person is at a terminal (stdin
+   * and stderr both TTYs). Without it a command that must ask refuses and names the flag that answers.
+   */
+  ask?(question: string): Promise<string>;
 }
 
 export interface CommandEnv {

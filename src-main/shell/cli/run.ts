@@ -1,3 +1,4 @@
+import readline from 'node:readline/promises';
 import type { CliIo } from './command.ts';
 import { main } from './main.ts';
 
@@ -16,6 +17,16 @@ const io: CliIo = {
   err: (t) => process.stderr.write(t.endsWith('\n') ? t : `${t}\n`),
   errIsTty: process.stderr.isTTY === true,
   outIsTty: process.stdout.isTTY === true,
+  ...(process.stdin.isTTY === true && process.stderr.isTTY === true && {
+    async ask(question: string) {
+      const rl = readline.createInterface({ input: process.stdin, output: process.stderr });
+      try {
+        return await rl.question(question);
+      } finally {
+        rl.close();
+      }
+    },
+  }),
 };
 main(process.argv.slice(2), io).then(
   (code) => {

@@ -7,6 +7,7 @@ import { EXIT, type CliCommand, type CommandEnv, type OptionSpec } from '../comm
 import { list, num, positionals, str } from '../flags.ts';
 import { describeExclusions } from '../../../core/curation/exclusion-words.ts';
 import { formatNumber, table } from '../format.ts';
+import { publishCheck, publishCheckLines } from '../../../core/editing/publish-check.ts';
 import { UsageError } from '../command.ts';
 
 /** Editions, shelves and editorial actions on the command line. Thin: flags → one api call → print. */
@@ -41,10 +42,12 @@ export function renderShelf(v: ShelfView): string {
   ].join(' · ');
   const left = describeExclusions(v.excluded);
   const resting = left ? `\nleft out of the pool: ${left}` : '';
-  const viol = v.violations.length ? `\nrules not met:\n${v.violations.map((x) => `  ${x.rule}: ${x.reason}`).join('\n')}` : '';
+  const viol = v.violations.length ? `\nrules not met:\n${v.violations.map((x) => `  ${x.title}: ${x.reason}`).join('\n')}` : '';
   const dials = describeAutoDials(v.brief.autoDials, v.brief.weights);
   const price = describeChoiceCost(m.choiceCost ?? NaN) + (dials ? `\n${dials}` : '');
-  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\nmeter: ${meter}\n${price}${resting}${viol}${renderChanges(v)}`;
+  const banned = [...v.ruleBans.map((b) => `${b.facet} ${b.value} (${b.reach})`), ...v.bans.map((b) => `${b.item} ${b.title} (${b.reach})`)];
+  const bans = banned.length ? `\nbanned here: ${banned.join(', ')}` : '';
+  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\nmeter: ${meter}\n${price}${resting}${bans}${viol}${renderChanges(v)}`;
 }
 
 /** What the action or refill changed against the list before, and the relevance the kept list gives up. */
@@ -243,9 +246,12 @@ function slotFlag(env: CommandEnv, name: string): number {
   return s;
 }
 
-const scopeOf = (env: CommandEnv): 'shelf' | 'edition' | 'always' => {
+/** The scope as typed; an until date before the edition is refused by the service (ban-scope.ts). */
+const scopeOf = (env: CommandEnv): string => {
   const s = str(env, 'scope') ?? 'shelf';
-  if (s !== 'shelf' && s !== 'edition' && s !== 'always') throw new UsageError(`--scope must be shelf, edition or always, got '${s}'`);
+  if (!/^(shelf|edition|later|always|until:\d{4}-\d{2}-\d{2})$/.test(s)) {
+    throw new UsageError(`--scope must be shelf, edition, later, always or until:YYYY-MM-DD, got '${s}'`);
+  }
   return s;
 };
 
@@ -331,16 +337,37 @@ export const curationCommands: CliCommand[] = [
   },
   {
     name: 'edition publish',
-    summary: 'freeze an edition into read-only history',
-    usage: ['LABEL'],
-    options: {},
-    about: {},
-    help: 'example:\n  shelfwright edition publish "week 10"',
+    summary: 'freeze an edition into read-only history, after listing unmet rules and shelves never opened',
+    usage: ['LABEL [--yes]'],
+    options: { yes: { type: 'boolean' } },
+    about: { yes: 'publish without asking (required when no one is at a terminal to answer y/N)' },
+    help: [
+      'Publishing cannot be undone. The command first lists every rule a shelf does not meet and the shelves',
+      'with no editorial action, then asks y/N at a terminal; elsewhere it needs --yes and otherwise changes nothing.',
+      '',
+      'example:',
+      '  shelfwright edition publish "week 10" --yes',
+    ].join('\n'),
     async run(env) {
       const [label] = positionals(env, ['LABEL']);
+      const yes = env.values['yes'] === true;
+      if (!yes && !env.io.ask) {
+        throw new UsageError(`publishing '${label!}' cannot be undone: add --yes to publish (no terminal to ask y/N)`);
+      }
       const { table: t } = env.api();
+      const check = publishCheck(await call(t, 'edition.show', { edition: label! }));
+      // With --json the check is part of the one JSON document; at a terminal question it goes to stderr first.
+      const say = (line: string) => (env.json ? env.io.err(line) : env.io.out(line));
+      if (!env.json || !yes) for (const line of publishCheckLines(check)) say(line);
+      if (!yes) {
+        const answer = (await env.io.ask!(`Publish '${label!}' now? It cannot be undone. [y/N] `)).trim().toLowerCase();
+        if (answer !== 'y' && answer !== 'yes') {
+          say(`not published: '${label!}' is still a draft`);
+          return EXIT.ok;
+        }
+      }
       const r = await call(t, 'edition.publish', { edition: label! });
-      env.io.out(env.json ? JSON.stringify(r, null, 2) : `published '${r.edition}': ${r.shelves} shelves, ${r.items} items`);
+      env.io.out(env.json ? JSON.stringify({ ...r, ...check }, null, 2) : `published '${r.edition}': ${r.shelves} shelves, ${r.items} items`);
       return EXIT.ok;
     },
   },
@@ -415,15 +442,17 @@ export const curationCommands: CliCommand[] = [
   },
   {
     name: 'shelf brief',
-    summary: "change a shelf's brief (quotas, promoted bounds, rest period, size) and fill it again",
+    summary: "change a shelf's brief (quotas, promoted bounds, rest period, size): an undoable action that keeps the list where it can",
     usage: [
       'EDITION SHELF [--size N] [--quota FACET:MAX[:VALUE]]... [--drop-quota FACET[:VALUE]]... [--no-quotas] [--promoted-max SHARE] [--promoted-min SHARE] [--rest N] [--category NAME]... [--audience WHO] [--brief JSON]',
     ],
-    options: { ...BRIEF_OPTIONS, ...DROP_QUOTA_OPTIONS },
-    about: { ...briefAbout(true), ...DROP_QUOTA_ABOUT },
+    options: { ...BRIEF_OPTIONS, ...DROP_QUOTA_OPTIONS, ...reasonOpt },
+    about: { ...briefAbout(true), ...DROP_QUOTA_ABOUT, reason: REASON_ABOUT },
     help: [
       "Flags left out keep the brief's current value. Quotas: --no-quotas or --drop-quota first take quotas off,",
       'then each --quota is added; dropping a quota the brief does not have is refused and changes nothing.',
+      "The change is an action in the shelf's log: the list keeps what the new brief allows ('shelf refill' starts",
+      "over), and 'shelf undo' takes the change back.",
       '',
       'examples:',
       '  shelfwright shelf brief "week 10" Front --quota supplier:2 --promoted-max 0.2',
@@ -434,7 +463,8 @@ export const curationCommands: CliCommand[] = [
       const { table: t } = env.api();
       const current = await call(t, 'shelf.show', { edition: edition!, shelf: shelf! });
       const brief = briefFrom(env, current.brief as Brief);
-      return printShelf(env, await call(t, 'shelf.brief', { edition: edition!, shelf: shelf!, brief }));
+      const reason = str(env, 'reason');
+      return printShelf(env, await call(t, 'shelf.brief', { edition: edition!, shelf: shelf!, brief, ...(reason ? { reason } : {}) }));
     },
   },
   shelfCommand('refill', 'start the shelf over: fill it afresh (actions keep the list; a locked shelf stays as it is)', 'shelf.fill'),
@@ -452,10 +482,13 @@ export const curationCommands: CliCommand[] = [
   actionCommand(
     'ban',
     'exclude an item, or every item of a category, supplier or tag',
-    'EDITION SHELF (ITEM | --category X | --supplier X | --tag X) [--scope shelf|edition|always]',
+    'EDITION SHELF (ITEM | --category X | --supplier X | --tag X) [--scope shelf|edition|later|until:YYYY-MM-DD|always]',
     { scope: { type: 'string' }, category: { type: 'string' }, supplier: { type: 'string' }, tag: { type: 'string' } },
     {
-      scope: 'where the ban holds: shelf (default), edition, or always (every shelf, every edition)',
+      scope:
+        'where the ban holds: shelf (default), edition (every shelf of this edition), later (this edition and every ' +
+        "copy of it dated on or after it: 'edition new --from'), until:YYYY-MM-DD (as later, up to that date), or " +
+        'always (every shelf, every edition)',
       category: 'ban every item of this category instead of one item',
       supplier: 'ban every item from this supplier instead of one item',
       tag: 'ban every item with this tag instead of one item',
@@ -469,10 +502,20 @@ export const curationCommands: CliCommand[] = [
     },
     '"week 10" Front SKU-007 --scope edition',
   ),
-  actionCommand('unban', "lift this shelf's ban on an item (the list keeps what it has until a refill)", 'EDITION SHELF ITEM', {}, {}, (_env, rest) => ({
-    kind: 'unban',
-    item: oneItem(rest),
-  }), '"week 10" Front SKU-007'),
+  actionCommand(
+    'unban',
+    "lift this shelf's ban on an item, or on a category, supplier or tag",
+    'EDITION SHELF (ITEM | --category X | --supplier X | --tag X)',
+    { category: { type: 'string' }, supplier: { type: 'string' }, tag: { type: 'string' } },
+    { category: 'lift the ban on this category', supplier: 'lift the ban on this supplier', tag: 'lift the ban on this tag' },
+    (env, rest) => {
+      const rules = (['category', 'supplier', 'tag'] as const).filter((f) => str(env, f) !== undefined);
+      if (rules.length + rest.length !== 1) throw new UsageError('lift the ban on one ITEM or one of --category, --supplier, --tag');
+      if (rules.length) return { kind: 'unbanRule', facet: rules[0]!, value: str(env, rules[0]!)! };
+      return { kind: 'unban', item: rest[0]! };
+    },
+    '"week 10" Front SKU-007',
+  ),
   actionCommand('boost', "raise an item's score by a factor", 'EDITION SHELF ITEM --factor F', { factor: { type: 'string' } }, { factor: "multiply the item's score by this number above 0 (default 2)" }, (env, rest) => ({
     kind: 'boost',
     item: oneItem(rest),

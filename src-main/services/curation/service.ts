@@ -4,6 +4,7 @@
  * re-filled slots commit together or not at all (better-sqlite3 docs/api.md, .transaction).
  */
 import { meterEdition } from '../../core/curation/edition-meter.ts';
+import { isDeepStrictEqual } from 'node:util';
 import { InputError, NotFoundError } from '../../core/errors.ts';
 import {
   carriesTo,
@@ -280,8 +281,9 @@ export class CurationService {
           throw new InputError(`Slots (size): slot ${Number(pinnedBeyond[0]) + 1} is pinned; unpin it before shrinking the shelf`);
         }
       }
-      // Applying the brief the shelf already has changes nothing and logs nothing.
-      if (JSON.stringify(b) === JSON.stringify(s.brief)) return this.#read(world, e, s);
+      // Applying the brief the shelf already has changes nothing and logs nothing (deep equality: the dials'
+      // fields may come back in another order).
+      if (isDeepStrictEqual(b, s.brief)) return this.#read(world, e, s);
       return this.#apply(world, e, s, { kind: 'brief', brief: b, was: s.brief }, reason);
     })();
   }

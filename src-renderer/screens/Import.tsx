@@ -9,7 +9,7 @@ import { useApp } from '../state/store.ts';
  * import (layer rule); the preview's detected mapping is checked against the same names on the main side.
  */
 const FIELDS: Record<ImportTarget, readonly string[]> = {
-  items: ['id', 'title', 'description', 'category', 'tags', 'supplier', 'price', 'added_at', 'promoted', 'available'],
+  items: ['id', 'title', 'description', 'category', 'tags', 'supplier', 'price', 'added_at', 'promoted', 'available', 'image'],
   customers: ['id'],
   signals: ['customer', 'item', 'kind', 'value', 'at'],
 };

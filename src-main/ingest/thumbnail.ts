@@ -36,7 +36,7 @@ export type ThumbResult = { ok: true; thumb: ThumbImage } | { ok: false; reason:
 
 /**
  * The thumbnail of one picture file's bytes: turned upright by its EXIF orientation, fitted inside
- * THUMB_SIDE², WebP, with no metadata kept (sharp strips EXIF, XMP and ICC unless asked to keep them, so no
+ * THUMB_SIDE² (never enlarged), WebP, with no metadata kept (sharp strips EXIF, XMP and ICC unless asked to keep them, so no
  * camera, place or owner travels with it). A file that is not a readable picture gives its reason, never a
  * throw: the importer shows a placeholder for it and warns.
  */
@@ -56,7 +56,7 @@ export async function makeThumbnail(bytes: Buffer): Promise<ThumbResult> {
       // failOn 'error': a truncated or corrupt file is refused instead of drawn half grey.
       const { data, info } = await sharp(bytes, { failOn: 'error', limitInputPixels: MAX_PICTURE_PIXELS })
         .rotate()
-        .resize(THUMB_SIDE, THUMB_SIDE, { fit: 'inside' })
+        .resize(THUMB_SIDE, THUMB_SIDE, { fit: 'inside', withoutEnlargement: true })
         .webp({ quality })
         .toBuffer({ resolveWithObject: true });
       if (data.length <= MAX_THUMB_BYTES) return { ok: true, thumb: { mime: 'image/webp', width: info.width, height: info.height, data } };

@@ -35,7 +35,7 @@ export interface PictureSummary {
   broken: number;
   remote: number;
   unread: number;
-  /** Rows whose picture cell was blank: the item has no picture now. */
+  /** Items whose picture a blank cell removed. */
   cleared: number;
 }
 
@@ -163,8 +163,7 @@ export class PictureIntake {
     const firstOf: Partial<Record<'remote' | 'unread', number>> = {};
     for (const j of jobs) {
       if (j.kind === 'clear') {
-        repo.clearPicture(j.item);
-        summary.cleared++;
+        if (repo.clearPicture(j.item)) summary.cleared++;
         continue;
       }
       summary.named++;
@@ -192,14 +191,14 @@ export class PictureIntake {
     if (summary.remote > 0) {
       warnings.push(
         `${plural(summary.remote, 'picture is a web address', 'pictures are web addresses')} (the first on line ${firstOf.remote}): ` +
-          'Shelfwright keeps your data on this machine and does not fetch from the network, so they show a placeholder. ' +
+          `Shelfwright keeps your data on this machine and does not fetch from the network, so ${summary.remote === 1 ? 'it shows' : 'they show'} a placeholder. ` +
           'Download the pictures and name the files in the image column (paths relative to this file) to have them shown',
       );
     }
     if (summary.unread > 0) {
       warnings.push(
         `${plural(summary.unread, 'picture is', 'pictures are')} named by path (the first on line ${firstOf.unread}) in a file sent from the page, ` +
-          'which may not make Shelfwright read files on this machine; they show a placeholder. Import the file by its path ' +
+          `which may not make Shelfwright read files on this machine; ${summary.unread === 1 ? 'it shows' : 'they show'} a placeholder. Import the file by its path ` +
           '(shelfwright import on the command line) to have them read',
       );
     }

@@ -63,10 +63,10 @@ export class PictureRepo {
     return true;
   }
 
-  /** The item's file left its picture cell blank: it has none now. */
-  clearPicture(externalId: string): void {
+  /** The item's file left its picture cell blank: it has none now. Whether it had one. */
+  clearPicture(externalId: string): boolean {
     const id = this.#itemId.get(externalId) as number | undefined;
-    if (id !== undefined) this.#clearPicture.run(id);
+    return id !== undefined && this.#clearPicture.run(id).changes > 0;
   }
 
   /** Thumbnails no item shows any more (replaced or cleared pictures, deleted items): removed. */

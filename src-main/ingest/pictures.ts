@@ -115,9 +115,12 @@ export class PictureIntake {
     const repo = new PictureRepo(db);
     const summary: PictureSummary = { named: 0, ready: 0, made: 0, reused: 0, missing: 0, broken: 0, remote: 0, unread: 0, cleared: 0 };
     const jobs = [...this.#pending.values()];
+    // By file: items naming the same file (a shop's shared placeholder, the demo's drawings) read it once.
     const outcome = new Map<string, { hash: string } | { state: 'missing' | 'broken'; reason: string }>();
     const making = new Map<string, Promise<ThumbResult>>();
-    const files = jobs.filter((j): j is Extract<PendingPicture, { kind: 'file' }> => j.kind === 'file');
+    const firstJob = new Map<string, Extract<PendingPicture, { kind: 'file' }>>();
+    for (const j of jobs) if (j.kind === 'file' && !firstJob.has(j.file)) firstJob.set(j.file, j);
+    const files = [...firstJob.values()];
     let next = 0;
     const worker = async () => {
       while (next < files.length) {
@@ -127,7 +130,7 @@ export class PictureIntake {
           bytes = await fs.promises.readFile(j.file);
         } catch (e) {
           const code = (e as NodeJS.ErrnoException).code;
-          outcome.set(j.item, { state: code === 'ENOENT' ? 'missing' : 'broken', reason: code === 'ENOENT' ? 'no such file' : `cannot be read (${code ?? 'error'})` });
+          outcome.set(j.file, { state: code === 'ENOENT' ? 'missing' : 'broken', reason: code === 'ENOENT' ? 'no such file' : `cannot be read (${code ?? 'error'})` });
           continue;
         }
         // Read between the stat and here: a file grown past the bound is refused now as it would have been then.
@@ -140,7 +143,7 @@ export class PictureIntake {
         if (!making.has(hash) && !repo.hasThumb(hash, THUMB_RECIPE)) making.set(hash, makeThumbnail(bytes));
         const made = making.get(hash);
         const r = made === undefined ? undefined : await made;
-        outcome.set(j.item, r === undefined || r.ok ? { hash } : { state: 'broken', reason: r.reason });
+        outcome.set(j.file, r === undefined || r.ok ? { hash } : { state: 'broken', reason: r.reason });
       }
     };
     await Promise.all(Array.from({ length: Math.min(CONCURRENCY, files.length) }, worker));
@@ -174,7 +177,7 @@ export class PictureIntake {
         else firstOf[j.state] ??= j.line;
         continue;
       }
-      const o = outcome.get(j.item)!;
+      const o = outcome.get(j.file)!;
       if ('hash' in o) {
         repo.setPicture(j.item, j.source, 'ready', o.hash);
         summary.ready++;

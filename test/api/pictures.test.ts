@@ -1,3 +1,4 @@
+import fs from 'node:fs';
 import { afterEach, describe, expect, it } from 'vitest';
 import { createHandlerTable, invoke } from '../../src-main/api/handler-table.ts';
 import { makeThumbnail } from '../../src-main/ingest/thumbnail.ts';
@@ -30,5 +31,21 @@ describe('item.pictures', () => {
     h = seededHarness();
     const r = await invoke(createHandlerTable(h.ctx), 'item.pictures', { items: Array.from({ length: 501 }, (_, i) => `i-${i}`) });
     expect(r.ok).toBe(false);
+  });
+});
+
+describe('import.run and pictures', () => {
+  it('records, without reading, the picture paths of a file sent as content (a page may not read this machine)', async () => {
+    h = seededHarness();
+    const picture = `${h.dir}/lamp.png`;
+    fs.writeFileSync(picture, handPng(20, 20, () => [1, 2, 3]));
+    const sent = await h.client.call('import.run', { fileName: 'sent.csv', content: `id,title,image\nn1,Moss Lantern,${picture}\n`, target: 'items' });
+    expect(sent.pictures).toMatchObject({ named: 1, unread: 1, ready: 0 });
+    expect(sent.warnings.join('\n')).toContain('in a file sent from the page');
+    // The same file named by its path (the command line, Electron) is read.
+    const file = `${h.dir}/named.csv`;
+    fs.writeFileSync(file, `id,title,image\nn1,Moss Lantern,lamp.png\n`);
+    const named = await h.client.call('import.run', { file, target: 'items' });
+    expect(named.pictures).toMatchObject({ named: 1, ready: 1 });
   });
 });

@@ -1,6 +1,6 @@
 // @vitest-environment happy-dom
 import { screen, waitFor } from '@testing-library/react';
-import { describe, expect, it } from 'vitest';
+import { describe, expect, it, onTestFinished } from 'vitest';
 import { makeThumbnail } from '../../src-main/ingest/thumbnail.ts';
 import { PictureRepo } from '../../src-main/store/pictures.ts';
 import { handPng } from '../ingest/png.ts';
@@ -76,5 +76,36 @@ describe('item pictures on screen', () => {
     expect(app.store.getState().importer.report?.committed).toBe(true);
     await waitFor(() => expect(asked).toBe(1));
     await waitFor(() => expect(card.querySelectorAll('img.thumb-mini')).toHaveLength(odd));
+  });
+
+  it('shows the thumbnails in the candidate pool', async () => {
+    const src = await pictureOddItems();
+    // happy-dom lays nothing out: the pool's virtual list reads its scroller's client size to choose its rows.
+    const saved = (['clientHeight', 'clientWidth'] as const).map((k) => [k, Object.getOwnPropertyDescriptor(HTMLElement.prototype, k)] as const);
+    Object.defineProperty(HTMLElement.prototype, 'clientHeight', { configurable: true, get: () => 600 });
+    Object.defineProperty(HTMLElement.prototype, 'clientWidth', { configurable: true, get: () => 800 });
+    onTestFinished(() => {
+      for (const [k, d] of saved) {
+        if (d) Object.defineProperty(HTMLElement.prototype, k, d);
+        else delete (HTMLElement.prototype as unknown as Record<string, unknown>)[k];
+      }
+    });
+    await openRowInEditor(app.store, '2026-12-07', 6);
+    app.render();
+    const pool = await screen.findByRole('list', { name: 'Candidates for this slot' });
+    // Six items are on the shelf, the other six are the pool.
+    await waitFor(() => expect(pool.querySelectorAll(':scope > li')).toHaveLength(6));
+    await waitFor(() => expect(pool.querySelectorAll('img.thumb-pool').length).toBeGreaterThan(0));
+    let pictured = 0;
+    for (const li of pool.querySelectorAll(':scope > li')) {
+      const pin = li.querySelector('button')!.getAttribute('aria-label')!; // 'Pin <title> into slot 1'
+      const n = TITLES.indexOf(pin.replace(/^Pin (.*) into slot \d+$/, '$1')) + 1;
+      expect(n).toBeGreaterThan(0);
+      if (n % 2 === 1) {
+        expect(li.querySelector('img.thumb-pool')?.getAttribute('src')).toBe(src);
+        pictured++;
+      } else expect(li.querySelector('.thumb-pool.thumb-none')).not.toBeNull();
+    }
+    expect(pictured).toBe(pool.querySelectorAll('img.thumb-pool').length);
   });
 });

@@ -57,6 +57,18 @@ describe('importing items with pictures', () => {
     expect(t!.data.includes('secret-owner')).toBe(false);
   });
 
+  it('turns a photo upright by its EXIF orientation before making it small', async () => {
+    const db = ws();
+    // Stored 40 wide and 20 high, tagged Orientation 6: shown turned a quarter clockwise, 20 wide and 40 high
+    // (EXIF 2.32, CIPA DC-008-2019, tag 0x0112).
+    const sideways = await sharp(handPng(40, 20, () => [90, 90, 200])).jpeg().withMetadata({ orientation: 6 }).toBuffer();
+    expect((await sharp(sideways).metadata()).orientation).toBe(6);
+    write(dir, 'pics/sideways.jpg', sideways);
+    await importFile(db, { target: 'items', file: write(dir, 'sideways.csv', 'id,title,image\na1,Fern Tray,pics/sideways.jpg\n') });
+    const [t] = thumbs(db);
+    expect(webpSize(t!.data)).toMatchObject({ width: 20, height: 40 }); // upright, and never enlarged
+  });
+
   it('makes a picture shared by items once, and a re-import reuses it without making it again', async () => {
     const db = ws();
     const file = write(dir, 'shared.csv', `id,title,image\na1,Moss Lantern,pics/wide.png\na2,Tin Orchard,${wide}\n`);

@@ -127,17 +127,24 @@ export class PictureIntake {
         const j = files[next++]!;
         let bytes: Buffer;
         try {
-          bytes = await fs.promises.readFile(j.file);
+          // Measured again on the open file: one swapped in since the row's check is refused, never read whole.
+          const handle = await fs.promises.open(j.file, 'r');
+          try {
+            const size = (await handle.stat()).size;
+            if (size > MAX_PICTURE_BYTES) {
+              throw new InputError(`image: ${quote(j.source)} is ${megabytes(size)}; a picture may be at most ${megabytes(MAX_PICTURE_BYTES)}`, {
+                file: this.#importFile, line: j.line, column: j.column,
+              });
+            }
+            bytes = await handle.readFile();
+          } finally {
+            await handle.close();
+          }
         } catch (e) {
+          if (e instanceof InputError) throw e;
           const code = (e as NodeJS.ErrnoException).code;
           outcome.set(j.file, { state: code === 'ENOENT' ? 'missing' : 'broken', reason: code === 'ENOENT' ? 'no such file' : `cannot be read (${code ?? 'error'})` });
           continue;
-        }
-        // Read between the stat and here: a file grown past the bound is refused now as it would have been then.
-        if (bytes.length > MAX_PICTURE_BYTES) {
-          throw new InputError(`image: ${quote(j.source)} is ${megabytes(bytes.length)}; a picture may be at most ${megabytes(MAX_PICTURE_BYTES)}`, {
-            file: this.#importFile, line: j.line, column: j.column,
-          });
         }
         const hash = createHash('sha256').update(bytes).digest('hex');
         if (!making.has(hash) && !repo.hasThumb(hash, THUMB_RECIPE)) making.set(hash, makeThumbnail(bytes));

@@ -1,10 +1,11 @@
 /**
  * The demo shop generator: an invented online garden-supply shop (see demo-data/README.md) written
- * as items.csv, customers.csv, signals.csv and the hidden answer, truth.json. Deterministic: the same
+ * as items.csv (with a picture per item in pictures/), customers.csv, signals.csv and the hidden answer,
+ * truth.json. Deterministic: the same
  * options give byte-identical files (one seeded Rng per part, a fixed calendar, no clock).
  */
 import { mkdir, rename, rm, writeFile } from 'node:fs/promises';
-import { join } from 'node:path';
+import { basename, join } from 'node:path';
 import { InputError } from '../../src-main/core/errors.ts';
 import { seededRng } from '../../src-main/core/rng.ts';
 import { SIGNAL_KINDS } from '../../src-main/core/types.ts';
@@ -13,6 +14,7 @@ import { generateCatalogue, type DemoItem } from './catalogue.ts';
 import { csvField, writeCsv } from './csv.ts';
 import { buildDemand } from './demand.ts';
 import { generateCustomers, type DemoCustomer } from './people.ts';
+import { PICTURE_DIR, assignPictures, writePictures } from './pictures.ts';
 import { CATEGORIES, GROUPS, SHOP_NAME, type Category } from './scenario.ts';
 import { generateSignals, timeOrder, type SignalTable } from './signals.ts';
 
@@ -33,9 +35,11 @@ export interface DemoSummary {
   /** First and last day of the signal window (YYYY-MM-DD, inclusive). */
   window: { start: string; end: string };
   files: { items: string; customers: string; signals: string; truth: string };
+  /** The picture files the image column of items.csv names (under `pictures/` beside it). */
+  pictures: string[];
 }
 
-export const ITEMS_HEADER = 'id,title,description,category,tags,supplier,price,added_at,promoted,available';
+export const ITEMS_HEADER = 'id,title,description,category,tags,supplier,price,added_at,promoted,available,image';
 export const CUSTOMERS_HEADER = 'id,region,joined_at';
 export const SIGNALS_HEADER = 'customer,item,kind,value,at';
 export const DEMO_DEFAULTS = { seed: 7, items: 2500, customers: 15_000, signals: 400_000 } as const;
@@ -60,6 +64,8 @@ export async function generateDemoShop(opts: DemoShopOptions): Promise<DemoSumma
   const demand = buildDemand(items, seededRng(seed ^ 0x85ebca6b));
   const signals = generateSignals(seededRng(seed ^ 0xc2b2ae35), items, customers, demand, nSignals);
   const order = timeOrder(signals);
+  const pictureRng = seededRng(seed ^ 0x27d4eb2f);
+  const itemPictures = assignPictures(pictureRng, items.map((it) => it.category));
 
   await mkdir(opts.outDir, { recursive: true });
   const files = {
@@ -71,13 +77,20 @@ export async function generateDemoShop(opts: DemoShopOptions): Promise<DemoSumma
   // Each file is written under a temporary name and renamed only once all four are complete, so a
   // failed run never leaves a half-written shop for the importer to pick up.
   const partial = (path: string): string => path + '.partial';
+  // The pictures go to their own temporary folder, swapped in with the files (their paths are those after the swap).
+  const pictureDir = join(opts.outDir, PICTURE_DIR);
+  let written: string[];
   try {
-    await writeFiles(files, partial, items, customers, signals, order, seed);
+    written = await writePictures(pictureRng, partial(pictureDir));
+    await writeFiles(files, partial, items, itemPictures, customers, signals, order, seed);
   } catch (e) {
-    await Promise.allSettled(Object.values(files).map((f) => rm(partial(f), { force: true })));
+    await Promise.allSettled([...Object.values(files).map((f) => rm(partial(f), { force: true })), rm(partial(pictureDir), { recursive: true, force: true })]);
     throw e;
   }
+  await rm(pictureDir, { recursive: true, force: true });
+  await rename(partial(pictureDir), pictureDir);
   for (const f of Object.values(files)) await rename(partial(f), f);
+  const pictures = written.map((f) => join(pictureDir, basename(f)));
   return {
     shop: SHOP_NAME,
     seed,
@@ -86,6 +99,7 @@ export async function generateDemoShop(opts: DemoShopOptions): Promise<DemoSumma
     signals: order.length,
     window: { start: isoDate(WINDOW_START_S), end: isoDate(WINDOW_END_S - 1) },
     files,
+    pictures,
   };
 }
 
@@ -93,6 +107,7 @@ async function writeFiles(
   files: DemoSummary['files'],
   partial: (path: string) => string,
   items: readonly DemoItem[],
+  pictures: readonly string[],
   customers: readonly DemoCustomer[],
   signals: SignalTable,
   order: Uint32Array,
@@ -112,6 +127,7 @@ async function writeFiles(
       isoDate(CATALOGUE_START_S + it.addedWeek * WEEK_S),
       String(it.promoted),
       String(it.available),
+      pictures[k]!,
     ].join(',');
   });
   await writeCsv(partial(files.customers), CUSTOMERS_HEADER, customers.length, (k) => {

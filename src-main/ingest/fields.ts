@@ -9,7 +9,7 @@ import { cut, quote } from '../core/util/cut.ts';
 export type ImportTarget = 'items' | 'customers' | 'signals';
 
 export const FIELDS = {
-  items: ['id', 'title', 'description', 'category', 'tags', 'supplier', 'price', 'added_at', 'promoted', 'available'],
+  items: ['id', 'title', 'description', 'category', 'tags', 'supplier', 'price', 'added_at', 'promoted', 'available', 'image'],
   customers: ['id'],
   signals: ['customer', 'item', 'kind', 'value', 'at'],
 } as const satisfies Record<ImportTarget, readonly string[]>;
@@ -38,6 +38,8 @@ const SYNONYMS: Readonly<Record<ImportTarget, Readonly<Record<string, readonly s
     added_at: ['addedat', 'added', 'dateadded', 'createdat', 'created', 'publishedat', 'published', 'releasedate'],
     promoted: ['promoted', 'sponsored', 'ispromoted', 'promo'],
     available: ['available', 'instock', 'isavailable', 'availability', 'active'],
+    // A picture file's path or address (ingest/pictures.ts decides which are read).
+    image: ['image', 'imagepath', 'imagefile', 'imageurl', 'imagelink', 'picture', 'photo', 'img'],
   },
   customers: {
     id: ['id', 'customerid', 'userid', 'reader', 'readerid', 'customer', 'user', 'externalid', 'memberid'],

@@ -9,7 +9,8 @@ import { bool, describe, isBad, isBlank, kind, nonNegative, tags, text, time, ty
  * file does not have is left undefined (an update keeps the stored value); a present but blank cell means
  * "none" (empty text, null price or date, not promoted, available).
  */
-export type ItemInput = ItemWrite;
+/** An item row, and its picture cell: a path or address, null when blank (ingest/pictures.ts reads it). */
+export type ItemInput = ItemWrite & { picture?: string | null };
 export type CustomerInput = CustomerWrite;
 export type SignalInput = SignalWrite;
 export interface Problem {
@@ -125,6 +126,7 @@ function itemConverter(ctx: RowContext): Converter<ItemInput> {
     set('promoted', field(ctx, values, problems, 'promoted', blankOr(bool, false)));
     set('available', field(ctx, values, problems, 'available', blankOr(bool, true)));
     set('attributes', attributes(ctx, values, problems));
+    set('picture', field(ctx, values, problems, 'image', blankOr<string | null>(text, null)));
     if (row.title !== undefined) row.title = row.title.trim();
     return problems.length === 0 ? row : undefined;
   };

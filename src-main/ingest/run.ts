@@ -6,8 +6,9 @@ import { CatalogueWriter, logImport, type CustomerWrite, type ItemWrite, type Si
 import type { Db } from '../store/workspace.ts';
 import { beginWriteAsync, endWrite } from '../store/write-lock.ts';
 import { planColumns, type ColumnPlan, type ImportTarget, type Mapping } from './fields.ts';
+import { PictureIntake, type PendingPicture, type PictureReading, type PictureSummary } from './pictures.ts';
 import { RejectLog, type RowError } from './rejects.ts';
-import { rowConverter, type Problem } from './rows.ts';
+import { rowConverter, type ItemInput, type Problem } from './rows.ts';
 import { readSignals, type SignalReadOptions } from './signal-read.ts';
 import { readSignalsInThread, signalWorkerAvailable } from './signal-thread.ts';
 import { formatOf, readSource, type ImportFormat } from './source.ts';
@@ -39,6 +40,11 @@ export interface RunOptions {
    * to bring at least APPEND_REBUILD_RATIO rows per stored row. Both leave identical tables and reports.
    */
   appendPath?: 'upsert' | 'rebuild';
+  /**
+   * Items: whether picture paths in the image column are read ('read', default: a file imported by its path)
+   * or only recorded ('record': a file sent by a page, which may not make the app read this machine's files).
+   */
+  pictures?: PictureReading;
 }
 
 export interface ImportReport {
@@ -67,6 +73,8 @@ export interface ImportReport {
   committed: boolean;
   elapsedMs: number;
   mapping: Mapping;
+  /** Items with an image column: what became of the pictures it named (ingest/pictures.ts). */
+  pictures?: PictureSummary;
 }
 
 export { MAX_ERRORS, type RowError } from './rejects.ts';
@@ -136,6 +144,7 @@ async function readAndWrite(db: Db, o: RunOptions, format: ImportFormat): Promis
   let plan: ColumnPlan | undefined;
   let convert: ReturnType<typeof rowConverter> | undefined;
   const problems: Problem[] = [];
+  const pictures = o.target === 'items' ? new PictureIntake(o.file, o.pictures ?? 'read') : undefined;
   const info = await readSource(
     o.file,
     format,
@@ -164,9 +173,23 @@ async function readAndWrite(db: Db, o: RunOptions, format: ImportFormat): Promis
           problems.forEach((p, k) => rejects.add(line, p.column, p.reason, k === 0));
           return;
         }
+        let picture: PendingPicture | undefined;
+        const cell = (row as ItemInput).picture;
+        if (pictures && cell !== undefined) {
+          // Checked before the item is written: a refused picture rejects its row whole.
+          const checked = pictures.check((row as ItemInput).externalId, cell, line, columnOf(plan!, format, 'image:') ?? 'image');
+          if ('reject' in checked) {
+            rejects.add(line, columnOf(plan!, format, checked.reject), checked.reject);
+            return;
+          }
+          picture = checked;
+        }
         const outcome = o.target === 'items' ? writer.writeItem(row as ItemWrite) : writer.writeCustomer(row as CustomerWrite);
         if (typeof outcome === 'object') rejects.add(line, columnOf(plan!, format, outcome.reject), outcome.reject);
-        else report[outcome]++;
+        else {
+          report[outcome]++;
+          if (picture) pictures!.add(picture);
+        }
         if (o.onProgress && report.rows % PROGRESS_EVERY === 0) o.onProgress({ rows: report.rows });
       },
     },
@@ -175,6 +198,10 @@ async function readAndWrite(db: Db, o: RunOptions, format: ImportFormat): Promis
   report.delimiter = info.delimiter ?? null;
   Object.assign(report, { rejected: rejects.rejected, errorCount: rejects.errorCount, errors: rejects.errors });
   checkNotEmpty(o.file, plan !== undefined, report.rows);
+  // Pictures are read and made only for an import that will commit: a failing one is rolled back anyway.
+  if (pictures && plan!.index.image! >= 0 && (report.rejected === 0 || o.acceptPartial)) {
+    report.pictures = await pictures.finish(db, report.warnings);
+  }
   return report;
 }
 

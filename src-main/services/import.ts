@@ -27,6 +27,8 @@ export const ImportOptionsSchema = z.strictObject({
   kind: z.enum(SIGNAL_KINDS).optional(),
   unknown: z.enum(['reject', 'create']).optional(),
   acceptPartial: z.boolean().optional(),
+  /** Items: read picture paths in the image column ('read', default) or only record them (a file sent by a page). */
+  pictures: z.enum(['read', 'record']).optional(),
 });
 export type ImportOptions = z.infer<typeof ImportOptionsSchema> & {
   /** Progress while rows are written (every 10,000 rows). Not part of the serialisable options. */
@@ -52,6 +54,7 @@ export async function importFile(db: Db, opts: ImportOptions): Promise<ImportRep
     ...(o.kind && { kind: o.kind }),
     ...(o.unknown && { unknown: o.unknown }),
     ...(o.acceptPartial !== undefined && { acceptPartial: o.acceptPartial }),
+    ...(o.pictures && { pictures: o.pictures }),
     ...(onProgress && { onProgress }),
   });
 }

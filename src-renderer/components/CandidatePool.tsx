@@ -3,6 +3,7 @@ import { useEffect, useId, useRef } from 'react';
 import type { ShelfAction, ShelfView } from '../state/curation-slice.ts';
 import { useApp } from '../state/store.ts';
 import { topPercent } from './format.ts';
+import { ItemPicture } from './ItemPicture.tsx';
 import { SlotSelect } from './SlotSelect.tsx';
 
 const ROW_PX = 56;
@@ -50,6 +51,7 @@ export function CandidatePool({ shelf, slot, onSlot, readOnly, onAct }: { shelf:
                 style={{ position: 'absolute', top: 0, left: 0, right: 0, height: ROW_PX, transform: `translateY(${v.start}px)` }}
                 onMouseEnter={() => focus(c.item)}
               >
+                <ItemPicture item={c.item} size="pool" />
                 <div className="candidate-main">
                   <p className="slot-title">{c.title}</p>
                   <p className="small">

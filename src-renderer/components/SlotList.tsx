@@ -15,6 +15,7 @@ import { SortableContext, sortableKeyboardCoordinates, useSortable, verticalList
 import type { ShelfAction, ShelfView } from '../state/curation-slice.ts';
 import type { changeMarks } from './change-words.ts';
 import { topPercent } from './format.ts';
+import { ItemPicture } from './ItemPicture.tsx';
 
 type Slot = ShelfView['slots'][number];
 type Mark = ReturnType<typeof changeMarks> extends Map<string, infer M> ? M : never;
@@ -75,6 +76,7 @@ function SlotRow({ slot, readOnly, busy, mark, onAct }: RowProps) {
       </button>
       <span className="slot-no">{slot.slot}</span>
       <div className="slot-main">
+        <ItemPicture item={item} size="slot" />
         <p className="slot-title">
           {slot.title ?? <span className="muted">Empty: no candidate meets the brief</span>}{' '}
           {slot.promoted && <span className="sponsored">Sponsored</span>} {slot.pinned && <span className="tag">Pinned</span>}{' '}

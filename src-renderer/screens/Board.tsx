@@ -1,6 +1,7 @@
 import { useId, useState, type FormEvent } from 'react';
 import { EditionMeterPanel } from '../components/Meter.tsx';
 import { pct } from '../components/format.ts';
+import { ItemPicture } from '../components/ItemPicture.tsx';
 import { PublishConfirm } from '../components/PublishConfirm.tsx';
 import { PublishedBanner } from '../components/PublishedBanner.tsx';
 import { ExportPanel } from './ExportPanel.tsx';
@@ -99,7 +100,7 @@ export function Board() {
               <ol className="mini-slots">
                 {s.slots.slice(0, 5).map((x) => (
                   <li key={x.slot}>
-                    {x.title ?? 'empty'} {x.promoted && <span className="sponsored">Sponsored</span>}
+                    <ItemPicture item={x.item} size="mini" /> {x.title ?? 'empty'} {x.promoted && <span className="sponsored">Sponsored</span>}
                   </li>
                 ))}
               </ol>

@@ -1,7 +1,7 @@
 import { useId, useState, type FormEvent } from 'react';
 import { MAX_UPLOAD_BYTES } from '../../src-main/api/contracts/data.ts';
 import { SIGNAL_KINDS } from '../../src-main/core/types.ts';
-import type { ImportSource, ImportTarget, SignalKind } from '../state/import-slice.ts';
+import type { ImportReport, ImportSource, ImportTarget, SignalKind } from '../state/import-slice.ts';
 import { useApp } from '../state/store.ts';
 
 /**
@@ -9,7 +9,7 @@ import { useApp } from '../state/store.ts';
  * import (layer rule); the preview's detected mapping is checked against the same names on the main side.
  */
 const FIELDS: Record<ImportTarget, readonly string[]> = {
-  items: ['id', 'title', 'description', 'category', 'tags', 'supplier', 'price', 'added_at', 'promoted', 'available'],
+  items: ['id', 'title', 'description', 'category', 'tags', 'supplier', 'price', 'added_at', 'promoted', 'available', 'image'],
   customers: ['id'],
   signals: ['customer', 'item', 'kind', 'value', 'at'],
 };
@@ -251,6 +251,7 @@ export function Import() {
             {report.rows.toLocaleString('en')} rows read · {report.added.toLocaleString('en')} added · {report.updated.toLocaleString('en')} updated ·{' '}
             {report.unchanged.toLocaleString('en')} unchanged · {report.rejected.toLocaleString('en')} rejected · {(report.elapsedMs / 1000).toFixed(1)} s
           </p>
+          {report.pictures && <p>{picturesLine(report.pictures)}</p>}
           {report.warnings.map((w) => (
             <p key={w} className="warn">
               Warning: {w}
@@ -287,4 +288,10 @@ export function Import() {
       )}
     </section>
   );
+}
+
+/** What became of the pictures an items file named, in one line (placeholders are listed as warnings). */
+function picturesLine(p: NonNullable<ImportReport['pictures']>): string {
+  const placeholders = p.missing + p.broken + p.remote + p.unread;
+  return `Pictures: ${p.ready.toLocaleString('en')} of ${p.named.toLocaleString('en')} shown` + (placeholders ? `, ${placeholders.toLocaleString('en')} with a placeholder` : '');
 }

@@ -50,6 +50,7 @@ export function createImportSlice(client: Client): StateCreator<AppState, [], []
         try {
           const report = await client.call('import.run', { ...source, target, ...choices });
           put({ report, busy: false });
+          if (report.committed && target === 'items') get().forgetPictures(); // pictures may have changed
           // Counts, freshness and model staleness all follow the data.
           await Promise.all([get().loadWorkspace(), get().loadStats()]);
         } catch (e) {

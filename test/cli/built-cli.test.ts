@@ -11,6 +11,7 @@ import { readSignals } from '../../src-main/ingest/signal-read.ts';
 import type { SignalThreadData, SignalThreadMessage } from '../../src-main/ingest/signal-thread.ts';
 import type { SignalBatch } from '../../src-main/store/catalogue-writes.ts';
 import { main } from '../../src-main/shell/cli/main.ts';
+import { handPng } from '../ingest/png.ts';
 import { capture } from './capture.ts';
 import { importSmallShop } from './small-shop.ts';
 
@@ -84,6 +85,17 @@ describe('the built command line (dist-node)', () => {
     expect(built.code).toBe(0);
     expect(JSON.parse(built.stdout)).toEqual(JSON.parse((await fromSource(['info', '-w', ws, '--json'])).stdout));
     expect(JSON.parse(built.stdout)).toMatchObject({ file: ws });
+  });
+
+  it('imports items with a picture: sharp, a native addon, is loaded from node_modules, not bundled', async () => {
+    const bundles = fs.readdirSync(DIST).filter((f) => f.endsWith('.js')).map((f) => fs.readFileSync(path.join(DIST, f), 'utf8'));
+    expect(bundles.some((b) => /import \w+ from "sharp"/.test(b))).toBe(true);
+    fs.writeFileSync(path.join(dir, 'lamp.png'), handPng(120, 60, () => [200, 160, 40]));
+    const file = path.join(dir, 'pictured.csv');
+    fs.writeFileSync(file, 'id,title,image\np1,Moss Lantern,lamp.png\n');
+    const built = await runBuilt(['import', 'items', file, '-w', path.join(dir, 'pictured.sqlite'), '--json']);
+    expect(built.code, built.stderr).toBe(0);
+    expect(JSON.parse(built.stdout)).toMatchObject({ committed: true, pictures: { named: 1, ready: 1, made: 1 } });
   });
 
   it('trains and evaluates with task threads started from the bundle', async () => {

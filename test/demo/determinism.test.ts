@@ -10,11 +10,18 @@ const FILES = ['items.csv', 'customers.csv', 'signals.csv', 'truth.json'];
 const root = mkdtempSync(join(tmpdir(), 'demo-determinism-'));
 afterAll(() => rmSync(root, { recursive: true, force: true }));
 
+const sha256 = (file: string) => createHash('sha256').update(readFileSync(file)).digest('hex');
+
 /** sha256 of each file, via Node's crypto (FIPS 180-4), so equality means byte-identical files. */
 async function digests(seed: number, name: string): Promise<string[]> {
   const outDir = join(root, name);
   await generateDemoShop({ seed, ...SMALL, outDir });
-  return FILES.map((f) => createHash('sha256').update(readFileSync(join(outDir, f))).digest('hex'));
+  return FILES.map((f) => sha256(join(outDir, f)));
+}
+
+/** The pictures folder as name -> sha256 of its bytes. */
+function pictureDigests(outDir: string): Record<string, string> {
+  return Object.fromEntries(readdirSync(join(outDir, 'pictures')).sort().map((f) => [f, sha256(join(outDir, 'pictures', f))]));
 }
 
 describe('generateDemoShop determinism', () => {
@@ -28,6 +35,15 @@ describe('generateDemoShop determinism', () => {
     const a = await digests(11, 'c');
     const other = await digests(12, 'd');
     for (let k = 0; k < FILES.length; k++) expect(other[k], FILES[k]).not.toBe(a[k]);
+  });
+
+  it('draws byte-identical pictures for the same seed, and other colourings for another seed', async () => {
+    const a = pictureDigests(join(root, 'a'));
+    expect(Object.keys(a)).toHaveLength(72); // 12 categories × 6 colourings
+    expect(pictureDigests(join(root, 'b'))).toEqual(a);
+    const other = pictureDigests(join(root, 'd'));
+    expect(Object.keys(other)).toEqual(Object.keys(a));
+    expect(Object.values(other).filter((h, k) => h === Object.values(a)[k])).toEqual([]);
   });
 
   it('uses seed 7 when none is given', async () => {
@@ -48,6 +64,7 @@ describe('generateDemoShop on a failed write', () => {
     mkdirSync(join(outDir, 'truth.json.partial'));
     await expect(generateDemoShop({ seed: 11, ...SMALL, outDir })).rejects.toThrow(/EISDIR|directory/i);
     for (const f of FILES) expect(readFileSync(join(outDir, f), 'utf8'), f).toBe('old\n');
+    // No pictures folder, nor its temporary stand-in, is left behind.
     expect(readdirSync(outDir).sort()).toEqual([...FILES, 'truth.json.partial'].sort());
   });
 });

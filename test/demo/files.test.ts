@@ -1,4 +1,4 @@
-import { mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -27,7 +27,7 @@ const share = (rows: Record<string, string>[], test: (r: Record<string, string>)
 
 describe('demo shop files', () => {
   it('have exactly the headers the importer detects', () => {
-    expect(f.header.items.join(',')).toBe('id,title,description,category,tags,supplier,price,added_at,promoted,available');
+    expect(f.header.items.join(',')).toBe('id,title,description,category,tags,supplier,price,added_at,promoted,available,image');
     expect(f.header.customers.join(',')).toBe('id,region,joined_at');
     expect(f.header.signals.join(',')).toBe('customer,item,kind,value,at');
     expect([ITEMS_HEADER, CUSTOMERS_HEADER, SIGNALS_HEADER]).toEqual([
@@ -35,6 +35,22 @@ describe('demo shop files', () => {
       f.header.customers.join(','),
       f.header.signals.join(','),
     ]);
+  });
+
+  it("name a picture of the item's own category for nearly every item, each a 96 × 96 PNG beside items.csv", () => {
+    const named = f.items.filter((r) => r.image !== '');
+    // NO_PICTURE_SHARE (3%) of items are left without, so the demo shows the placeholder too.
+    expect(named.length / f.items.length).toBeGreaterThan(0.9);
+    expect(named.length).toBeLessThan(f.items.length);
+    for (const r of named) expect(r.image).toBe(`pictures/${r.category!.replace(/\s+/g, '-')}-${r.image!.match(/-(\d)\.png$/)![1]}.png`);
+    expect(summary.pictures).toHaveLength(72);
+    for (const file of summary.pictures) {
+      const png = readFileSync(file);
+      // PNG specification (W3C / ISO/IEC 15948): 8-byte signature, then IHDR with width and height.
+      expect(png.subarray(0, 8).equals(Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]))).toBe(true);
+      expect(png.toString('latin1', 12, 16)).toBe('IHDR');
+      expect([png.readUInt32BE(16), png.readUInt32BE(20)]).toEqual([96, 96]);
+    }
   });
 
   it('hold the requested number of rows, with unique ids', () => {

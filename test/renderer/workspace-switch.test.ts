@@ -23,6 +23,7 @@ async function useTheSeededWorkspace(s: AppStore): Promise<void> {
   await s.getState().compare('Week 49', 'Week 50');
   await s.getState().newEdition('Week 49', '2026-12-21'); // refused: the label is taken, a message shows
   await s.getState().searchItems('Quiet');
+  s.setState({ pictures: { byItem: { 'i-1': 'data:image/webp;base64,UklGRg==' } } }); // a thumbnail of this workspace
   // The seeded workspace has no trained models; the list a training run leaves is stood in for here.
   s.setState((st) => ({ models: { ...st.models, list: Array.from({ length: 5 }, (_, i) => ({ ...stubModel, kind: `m${i}` })) }, importer: { ...st.importer, error: 'an old import message' } }));
 }
@@ -49,6 +50,7 @@ describe('opening another workspace', () => {
     expect(after.insight.errors).toEqual({});
     expect(after.importer.error).toBeNull();
     expect(after.whatif.result).toBeNull();
+    expect(after.pictures.byItem).toEqual({}); // the new workspace's item i-1 is another item
     // What the screens then read comes from the new workspace.
     await store.getState().loadModels();
     await store.getState().loadEditions();

@@ -24,6 +24,11 @@ describe('the demo workspace', () => {
     expect(fs.existsSync(`${file}.building`)).toBe(false);
     const db = openWorkspace(file);
     expect(db.prepare('SELECT count(*) FROM item').pluck().get()).toBe(200);
+    // The generator's pictures: nearly every item has a thumbnail, made once per drawing (at most 72).
+    expect(report.imports[0]!.pictures).toMatchObject({ missing: 0, broken: 0, remote: 0, unread: 0 });
+    expect(report.imports[0]!.pictures!.ready).toBeGreaterThan(180);
+    expect(db.prepare("SELECT count(*) FROM item_picture WHERE state = 'ready'").pluck().get()).toBe(report.imports[0]!.pictures!.ready);
+    expect(db.prepare('SELECT count(*) FROM picture_thumb').pluck().get()).toBeLessThanOrEqual(72);
     expect(db.prepare('SELECT count(*) FROM model WHERE current = 1').pluck().get()).toBeGreaterThanOrEqual(4);
     // Trained as `train` trains by default: tuned first, the search stored with the model.
     const ials = db.prepare("SELECT evaluation FROM model WHERE current = 1 AND kind = 'ials'").pluck().get() as string;

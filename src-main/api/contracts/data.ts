@@ -86,6 +86,13 @@ export const ImportReport = z.object({
   committed: z.boolean(),
   elapsedMs: z.number(),
   mapping: z.record(z.string(), z.string()),
+  /** Items with an image column: what became of the pictures it named (placeholders are warned about). */
+  pictures: z
+    .object({
+      named: z.number().int(), ready: z.number().int(), made: z.number().int(), reused: z.number().int(), missing: z.number().int(),
+      broken: z.number().int(), remote: z.number().int(), unread: z.number().int(), cleared: z.number().int(),
+    })
+    .optional(),
 });
 export type ImportReport = z.infer<typeof ImportReport>;
 

@@ -6,6 +6,7 @@ import { forgetTasteGroupName, nameTasteGroup, setTasteGroupSettings, tasteGroup
 import { CurationService, type ActionRequest } from '../../services/curation/service.ts';
 import type { EditionView, ShelfView } from '../../services/curation/views.ts';
 import { exportEdition } from '../../services/export/index.ts';
+import { pictureUrls } from '../../services/pictures.ts';
 import type { AppContext } from '../../services/context.ts';
 import { forgetCustomer } from '../../services/forget.ts';
 import type { ResponseOf } from '../contract.ts';
@@ -76,7 +77,9 @@ export function curationHandlers(ctx: AppContext): { [M in Names]: Handler<M> } 
     'edition.export': (r) => {
       const snap = svc().snapshotOf(r.edition);
       const safe = snap.edition.label.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '') || 'edition';
-      return { format: r.format, filename: `${safe}.${r.format}`, content: exportEdition(snap, r.format) };
+      const ids = snap.shelves.flatMap((x) => x.slots.flatMap((y) => (y.externalId === null ? [] : [y.externalId])));
+      const pictures = r.format === 'html' ? pictureUrls(ctx.db, ids) : undefined;
+      return { format: r.format, filename: `${safe}.${r.format}`, content: exportEdition(snap, r.format, pictures) };
     },
     'catalogue.names': () => curationRepos(ctx.db).items.names(),
     'shelf.add': (r) => shelf(svc().addShelf(r.edition, r.label, withAnchorIds(r.brief))),

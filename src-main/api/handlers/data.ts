@@ -34,7 +34,9 @@ export function dataHandlers(ctx: AppContext): {
       const db = ctx.db; // no open workspace: said before the upload is used up, so it can still be imported
       try {
         return await withFile(sourceOf(req), async (path, shownAs) => {
-          const r = await importFile(db, { ...compact(options), target, file: path });
+          // A file sent by the page (content or upload) may not make the app read paths on this machine.
+          const pictures = req.file === undefined ? 'record' : 'read';
+          const r = await importFile(db, { ...compact(options), target, file: path, pictures });
           return {
             ...r,
             file: shownAs,

@@ -1,7 +1,8 @@
 /**
  * A standalone HTML preview of an edition: one file, inline CSS only, no scripts and no outside requests
- * (no images, fonts or links to anywhere), so it opens safely from a mail attachment or a shared drive.
- * All text is HTML-escaped. Sponsored items carry a visible "Sponsored" label in words.
+ * (no fonts or links to anywhere; item pictures are embedded as data: URLs, a neutral box where an item has
+ * none), so it opens safely from a mail attachment or a shared drive. Its own content security policy says
+ * the same to the browser. All text is HTML-escaped. Sponsored items carry a visible "Sponsored" label in words.
  */
 import type { EditionSnapshot } from '../../core/editing/snapshot.ts';
 import { DISCLOSURE_NOTE, SPONSORED } from './labels.ts';
@@ -24,10 +25,23 @@ li { border: 1px solid #ccc; border-radius: 6px; padding: 0.5rem; }
 .meta { color: #555; font-size: 0.85rem; }
 .sponsored { display: inline-block; font-size: 0.75rem; font-weight: 700; border: 1px solid #1d1d1f; border-radius: 3px; padding: 0 0.3rem; margin-top: 0.3rem; }
 .empty { color: #777; font-style: italic; }
+.pic { display: block; width: 48px; height: 48px; object-fit: contain; border-radius: 4px; background: #eee; margin-bottom: 0.3rem; }
 footer { color: #555; font-size: 0.85rem; border-top: 1px solid #ccc; padding-top: 0.5rem; }
 `;
 
-export function editionHtml(e: EditionSnapshot): string {
+/**
+ * The policy the file carries: nothing may load but images inlined as data: URLs and its own inline style
+ * (W3C Content Security Policy Level 3, delivered by <meta http-equiv>).
+ */
+export const EXPORT_CSP = "default-src 'none'; img-src data:; style-src 'unsafe-inline'; base-uri 'none'; form-action 'none'";
+
+/** `pictures`: item external id -> a data: URL (services/pictures.ts); items absent get the placeholder. */
+export function editionHtml(e: EditionSnapshot, pictures: ReadonlyMap<string, string> = new Map()): string {
+  const picture = (id: string) => {
+    const src = pictures.get(id);
+    // Only data: URLs are embedded; anything else would be a request the file makes.
+    return src?.startsWith('data:image/') ? `<img class="pic" src="${escapeHtml(src)}" alt="">` : '<span class="pic" aria-hidden="true"></span>';
+  };
   const shelves = e.shelves
     .map((shelf) => {
       const items = shelf.slots
@@ -35,7 +49,7 @@ export function editionHtml(e: EditionSnapshot): string {
           if (s.externalId === null) return `<li><span class="pos">${s.slot + 1}</span> <span class="empty">empty</span></li>`;
           const meta = [s.category, s.supplier].filter((x): x is string => !!x).map(escapeHtml).join(' · ');
           const label = s.promoted ? `<span class="sponsored">${SPONSORED}</span>` : '';
-          return `<li><span class="pos">${s.slot + 1}</span><span class="title">${escapeHtml(s.title ?? s.externalId)}</span><span class="meta">${meta}</span>${label}</li>`;
+          return `<li><span class="pos">${s.slot + 1}</span>${picture(s.externalId)}<span class="title">${escapeHtml(s.title ?? s.externalId)}</span><span class="meta">${meta}</span>${label}</li>`;
         })
         .join('\n');
       return `<section><h2>${escapeHtml(shelf.label)}</h2>\n<ol>\n${items}\n</ol></section>`;
@@ -45,6 +59,7 @@ export function editionHtml(e: EditionSnapshot): string {
 <html lang="en">
 <head>
 <meta charset="utf-8">
+<meta http-equiv="Content-Security-Policy" content="${EXPORT_CSP}">
 <title>${escapeHtml(e.edition.label)}</title>
 <style>${STYLE}</style>
 </head>

@@ -6,11 +6,11 @@ import { editionJson } from './json.ts';
 export type ExportFormat = 'csv' | 'json' | 'html';
 export const EXPORT_FORMATS: readonly ExportFormat[] = ['csv', 'json', 'html'];
 
-/** The edition in one of the export formats, as text. */
-export function exportEdition(e: EditionSnapshot, format: ExportFormat): string {
-  return format === 'csv' ? editionCsv(e) : format === 'json' ? editionJson(e) : editionHtml(e);
+/** The edition in one of the export formats, as text; `pictures` (data: URLs by external id) embed in HTML. */
+export function exportEdition(e: EditionSnapshot, format: ExportFormat, pictures?: ReadonlyMap<string, string>): string {
+  return format === 'csv' ? editionCsv(e) : format === 'json' ? editionJson(e) : editionHtml(e, pictures);
 }
 
 export { csvCell } from './csv.ts';
-export { escapeHtml } from './html.ts';
+export { EXPORT_CSP, escapeHtml } from './html.ts';
 export { DISCLOSURE_NOTE, SPONSORED } from './labels.ts';

@@ -20,7 +20,7 @@ export const WORKERS: Record<string, string> = {
   'signal-worker': 'src-main/ingest/signal-worker.ts',
 };
 
-const external = ['electron', 'better-sqlite3', ...builtinModules, ...builtinModules.map((m) => `node:${m}`)];
+const external = ['electron', 'better-sqlite3', 'sharp', ...builtinModules, ...builtinModules.map((m) => `node:${m}`)];
 
 /**
  * Three builds, one per `--mode`: `main` (the main process; Node built-ins, electron and better-sqlite3

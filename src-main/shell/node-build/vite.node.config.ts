@@ -15,7 +15,7 @@ export const NODE_OUT_DIR = path.join(root, 'dist-node');
  * (`start.js`) and every task thread as its own entry, so nothing is compiled when a command runs. One
  * build, so modules shared by the entries sit once in shared chunks. Chunks go in the same folder as the
  * entries: code in a chunk finds its worker with `siblingModule(import.meta.url, name)`, and that URL is the
- * chunk's own. better-sqlite3 (a native addon) and Node's built-ins stay external; electron is never
+ * chunk's own. better-sqlite3 and sharp (native addons) and Node's built-ins stay external; electron is never
  * imported on this path (start.ts must not load it).
  */
 export default defineConfig({
@@ -39,7 +39,7 @@ export default defineConfig({
       fileName: (_format, name) => `${name}.js`,
     },
     rollupOptions: {
-      external: ['better-sqlite3', ...builtinModules, ...builtinModules.map((m) => `node:${m}`)],
+      external: ['better-sqlite3', 'sharp', ...builtinModules, ...builtinModules.map((m) => `node:${m}`)],
       output: { chunkFileNames: 'shared-[hash].js' },
     },
   },

@@ -9,13 +9,15 @@ export const TOKEN_HEADER = 'x-shelfwright-token';
 
 /**
  * The page may load only its own files and talk only to its own origin. Styles set through the CSSOM
- * (React's style prop, uPlot) are not affected by style-src, so no 'unsafe-inline' is needed.
+ * (React's style prop, uPlot) are not affected by style-src, so no 'unsafe-inline' is needed. Images: the
+ * app's own files and `data:` (item thumbnails arrive through the api as data: URLs, api/contracts/pictures.ts),
+ * never an outside address; no `blob:`, which nothing draws.
  */
 export const CONTENT_SECURITY_POLICY = [
   "default-src 'self'",
   "script-src 'self'",
   "style-src 'self'",
-  "img-src 'self' data: blob:",
+  "img-src 'self' data:",
   "font-src 'self'",
   "connect-src 'self'",
   "object-src 'none'",

@@ -31,6 +31,14 @@ function printReport(r: ImportReport, out: (t: string) => void): void {
       (r.customersCreated ? `, ${plural(r.customersCreated, 'customer created', 'customers created')}` : '') +
       ` in ${(r.elapsedMs / 1000).toFixed(2)} s`,
   );
+  const p = r.pictures;
+  if (p) {
+    const placeholders = p.missing + p.broken + p.remote + p.unread;
+    out(
+      `  pictures: ${formatNumber(p.ready)} of ${formatNumber(p.named)} shown (${formatNumber(p.made)} thumbnails made, ${formatNumber(p.reused)} already stored)` +
+        (placeholders ? `, ${formatNumber(placeholders)} with a placeholder` : '') + (p.cleared ? `, ${formatNumber(p.cleared)} removed` : ''),
+    );
+  }
   for (const w of r.warnings) out(`  warning: ${w}`);
   for (const e of r.errors) out(`  ${e.message}`);
   if (r.errorCount > r.errors.length) out(`  ... and ${plural(r.errorCount - r.errors.length, 'more rejected row', 'more rejected rows')}`);
@@ -71,9 +79,15 @@ export const importCommand: CliCommand = {
     'A signal file without a kind column (a shop\'s export of purchases: customer, item, count) takes --kind KIND,',
     'which every row gets; a file that has a kind column is refused with --kind (the column and the flag would disagree).',
     '--preview shows the detected mapping and the first rows without importing.',
+    'Items may have an image column (image, picture, photo...): a picture file\'s path, relative to the imported',
+    'file or absolute, or a file: address. Each is made into a small thumbnail kept in the workspace (once per',
+    'distinct picture); a file over 20 MB rejects its row; a missing or unreadable one shows a placeholder and a',
+    'warning. http(s) addresses are recorded but never fetched (Shelfwright does not go to the network): download',
+    'the pictures and name the files instead.',
     '',
     'example: shelfwright import signals clicks.csv --map customer=reader_id --date-order dmy',
     'example: shelfwright import signals orders.csv --kind purchase',
+    'example: shelfwright import items catalogue.csv --map image=photo_file',
   ].join('\n'),
   async run(env) {
     const [target, file, ...extra] = env.positionals;

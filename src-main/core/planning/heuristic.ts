@@ -336,6 +336,54 @@ export function solveHeuristic(inst: PlanInstance, options: HeuristicOptions = {
         }
       }
     }
+    // Move 3 (an ejection chain of length two): item q leaves its cell (s2, w2) for cell (s, w) in place of p,
+    // and (s2, w2) takes its best admissible item. What moves an item whose rest or appearance limit
+    // blocks every simple replacement.
+    for (let s2 = 0; s2 < S; s2++) {
+      for (let w2 = 0; w2 < N; w2++) {
+        if (c.lockedWeek[s2 * N + w2]) continue;
+        const from = st.members[s2 * N + w2]!;
+        for (let i = 0; i < from.length; i++) {
+          const q = from[i]!;
+          if (q < 0 || c.forced[at(c, s2, w2, q)]) continue;
+          for (let s = 0; s < S; s++) {
+            for (let w = 0; w < N; w++) {
+              if ((s === s2 && w === w2) || c.lockedWeek[s * N + w] || !c.eligible[at(c, s, w, q)]) continue;
+              const to = st.members[s * N + w]!;
+              for (let j = 0; j < to.length; j++) {
+                const p = to[j]!;
+                if (p < 0 || p === q || c.forced[at(c, s, w, p)] || !(st.v(s, w, q) > st.v(s, w, p))) continue;
+                if (st.x[at(c, s2, w2, q)] !== 1 || st.x[at(c, s, w, p)] !== 1) continue;
+                const needP = st.floorsAfterRemoval(s, w, p);
+                st.remove(s, w, p);
+                const needQ = st.floorsAfterRemoval(s2, w2, q);
+                st.remove(s2, w2, q);
+                const okHere = (needP.supplier < 0 || c.supplier[q] === needP.supplier) && (!needP.promoted || c.promoted[q] === 1);
+                if (okHere && st.canAdd(s, w, q)) {
+                  st.add(s, w, q);
+                  const r = bestIn(s2, w2, (x) => x !== q && (needQ.supplier < 0 || c.supplier[x] === needQ.supplier) && (!needQ.promoted || c.promoted[x] === 1));
+                  if (r >= 0) {
+                    st.add(s2, w2, r);
+                    const next = st.objective();
+                    if (next > current + 1e-12) {
+                      current = next;
+                      improved = true;
+                      break;
+                    }
+                    st.remove(s2, w2, r);
+                  }
+                  st.remove(s, w, q);
+                }
+                st.add(s2, w2, q);
+                st.add(s, w, p);
+              }
+              if (st.x[at(c, s2, w2, q)] !== 1) break;
+            }
+            if (st.x[at(c, s2, w2, q)] !== 1) break;
+          }
+        }
+      }
+    }
     if (!improved) break;
   }
   const plan: Plan = { slots: [] };

@@ -92,8 +92,14 @@ describe('the seasonal profile of a shop', () => {
     for (let w = 0; w < 116; w++) {
       const t = origin + w * 7 * DAY_MS + DAY_MS;
       const summer = 1 + 0.8 * Math.cos((2 * Math.PI * (seasonOf(t) - 26)) / 52);
-      for (let k = poisson(rng, 15 * summer); k > 0; k--) (item.push(0), at.push(t));
-      for (let k = poisson(rng, 10); k > 0; k--) (item.push(2), at.push(t));
+      for (let k = poisson(rng, 15 * summer); k > 0; k--) {
+        item.push(0);
+        at.push(t);
+      }
+      for (let k = poisson(rng, 10); k > 0; k--) {
+        item.push(2);
+        at.push(t);
+      }
     }
     item.push(1, 1);
     at.push(origin + DAY_MS, origin + 8 * DAY_MS);

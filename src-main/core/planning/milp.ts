@@ -27,6 +27,8 @@ export interface MilpOptions {
   /** Only ask whether a plan exists (the relaxation search). */
   feasibilityOnly?: boolean;
   timeLimitSeconds?: number;
+  /** Relative MIP gap at which HiGHS stops (default 1e-9: proven optimal for the tests' exactness checks). */
+  relativeGap?: number;
 }
 
 const xName = (s: number, w: number, c: number) => `x${s}_${w}_${c}`;
@@ -206,7 +208,7 @@ export function solveExact(inst: PlanInstance, solver: LpSolver, options: MilpOp
   const model = buildLp(inst, options);
   const r = solver.solve(model.text, {
     output_flag: false,
-    mip_rel_gap: 1e-9,
+    mip_rel_gap: options.relativeGap ?? 1e-9,
     ...(options.timeLimitSeconds !== undefined && { time_limit: options.timeLimitSeconds }),
   });
   const ms = now() - t0;

@@ -5,10 +5,11 @@ import { leanSignals } from './004-lean-signals.ts';
 import { erasureGeneration } from './005-erasure-generation.ts';
 import { validatedBlend } from './006-validated-blend.ts';
 import { tasteGroups } from './007-taste-groups.ts';
+import { rotationPlans } from './008-rotation-plans.ts';
 import type { Migration } from './types.ts';
 
 /**
  * Every schema step, oldest first. Versions are consecutive from 1; `PRAGMA user_version` records the
  * last one applied. Never edit a step that has shipped: add a new one.
  */
-export const MIGRATIONS: readonly Migration[] = [foundation, models, curation, leanSignals, erasureGeneration, validatedBlend, tasteGroups];
+export const MIGRATIONS: readonly Migration[] = [foundation, models, curation, leanSignals, erasureGeneration, validatedBlend, tasteGroups, rotationPlans];

@@ -16,6 +16,7 @@ import { curationRepos } from '../curation/repos.ts';
 import { CurationService } from '../curation/service.ts';
 import type { EditionView } from '../curation/views.ts';
 import { noModels, type ModelSource } from '../curation/world.ts';
+import { backtestPlan, type PlanBacktest } from './backtest.ts';
 import { buildPlan, type PlanSetup } from './build.ts';
 import { solvePlan, type SolveMethod } from './solve.ts';
 import { planView, type PlanView } from './views.ts';
@@ -199,6 +200,12 @@ export class PlanService {
     const report = { plan, method: p.method, status: p.status as SolveReport['status'], objective: scorePlan(built.inst, plan).objective, ms: 0 };
     const meter = meterPlan(built.inst, plan, built.relevance, built.fit);
     return planView({ world, name, edition: p.edition, built, solved: { report, diagnosis: null, variables: 0 }, meter, changed: null, ms: this.#now() - t0, edits, drafts: this.#drafts(name) });
+  }
+
+  /** Replays the last `weeks` weeks of history with the planner against a popularity plan (backtest.ts). */
+  async backtest(req: Pick<PlanRequest, 'shelf' | 'edition' | 'shelves' | 'horizon' | 'objective'> & { weeks: number }): Promise<PlanBacktest> {
+    const { setup } = this.#setup({ ...req, start: '2000-01-03' });
+    return backtestPlan(this.db, this.curation.world(), setup.shelves, setup.weeks, setup.horizon, setup.objective, this.#now);
   }
 
   /**

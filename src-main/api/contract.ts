@@ -3,6 +3,7 @@ import { curationMethods } from './contracts/curation.ts';
 import { dataMethods } from './contracts/data.ts';
 import { jobMethods } from './contracts/jobs.ts';
 import { modelMethods } from './contracts/models.ts';
+import { planningMethods } from './contracts/planning.ts';
 import { workspaceMethods } from './contracts/workspace.ts';
 
 /**
@@ -15,6 +16,7 @@ export const CONTRACT = {
   ...dataMethods,
   ...curationMethods,
   ...modelMethods,
+  ...planningMethods,
 } as const;
 
 export type Contract = typeof CONTRACT;

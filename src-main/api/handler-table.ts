@@ -7,6 +7,7 @@ import { curationHandlers } from './handlers/curation.ts';
 import { dataHandlers } from './handlers/data.ts';
 import { jobHandlers } from './handlers/jobs.ts';
 import { modelHandlers } from './handlers/models.ts';
+import { planningHandlers } from './handlers/planning.ts';
 import { workspaceHandlers } from './handlers/workspace.ts';
 
 type Parsed<M extends MethodName> = import('zod').output<Contract[M]['request']>;
@@ -21,6 +22,7 @@ export function createHandlerTable(ctx: AppContext): HandlerTable {
     ...dataHandlers(ctx),
     ...curationHandlers(ctx),
     ...modelHandlers(ctx),
+    ...planningHandlers(ctx),
   };
   contexts.set(table, ctx);
   return table;

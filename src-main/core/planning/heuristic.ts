@@ -38,6 +38,8 @@ class State {
   readonly prev: Uint8Array;
   deficit = 0;
   placed = 0;
+  /** Placements shared with the previous plan, kept as moves are made. */
+  kept = 0;
 
   constructor(inst: PlanInstance, c: CompiledPlan) {
     this.inst = inst;
@@ -101,6 +103,7 @@ class State {
     const c = this.c;
     const { N, P } = c;
     this.x[at(c, s, w, p)] = 1;
+    this.kept += this.prev[at(c, s, w, p)]!;
     const cell = s * N + w;
     const list = this.members[cell]!;
     list[list.indexOf(-1)] = p;
@@ -121,6 +124,7 @@ class State {
     const c = this.c;
     const { N, P } = c;
     this.x[at(c, s, w, p)] = 0;
+    this.kept -= this.prev[at(c, s, w, p)]!;
     const cell = s * N + w;
     const list = this.members[cell]!;
     list[list.indexOf(p)] = -1;
@@ -146,14 +150,7 @@ class State {
       sum += v;
       if (v < min) min = v;
     }
-    return (1 - beta) * (sum / this.c.N) + beta * min + this.inst.objective.keepWeight * this.keptCount();
-  }
-
-  keptCount(): number {
-    if (!this.inst.previous) return 0;
-    let k = 0;
-    for (let i = 0; i < this.x.length; i++) if (this.x[i] && this.prev[i]) k++;
-    return k;
+    return (1 - beta) * (sum / this.c.N) + beta * min + this.inst.objective.keepWeight * this.kept;
   }
 
   /** Floors that removing p from (s, w) would open: the replacement must then carry them. */

@@ -74,13 +74,16 @@ export function seasonalIndex(
     sum.fill(0);
     cnt.fill(0);
     let total = 0;
-    for (let w = 0; w < train; w++) {
+    // Weeks before the row's first signal are before it existed (an item added later), not weeks of no demand.
+    let first = 0;
+    while (first < train && s.y[r * s.weeks + first] === 0) first++;
+    for (let w = first; w < train; w++) {
       const v = s.y[r * s.weeks + w]!;
       sum[season[w]!]! += v;
       cnt[season[w]!]! += 1;
       total += v;
     }
-    const mean = total / Math.max(1, train);
+    const mean = total / Math.max(1, train - first);
     for (let k = 0; k < SEASONS; k++) raw[k] = cnt[k]! === 0 || mean === 0 ? 1 : sum[k]! / cnt[k]! / mean;
     for (let k = 0; k < SEASONS; k++) {
       let acc = 0;

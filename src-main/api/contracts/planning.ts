@@ -116,8 +116,8 @@ export const PlanView = z.object({
 });
 
 export const PlanBacktestView = z.object({
-  weeks: z.array(z.object({ week: z.number().int(), date: z.string(), active: z.number().int(), plan: z.number().int(), popularity: z.number().int() })),
-  share: z.object({ plan: reading, popularity: reading }),
+  weeks: z.array(z.object({ week: z.number().int(), date: z.string(), active: z.number().int(), plan: z.number().int(), popularity: z.number().int(), withoutSeason: z.number().int() })),
+  share: z.object({ plan: reading, popularity: reading, withoutSeason: reading }),
   method: z.string(),
   notes: z.array(z.string()),
 });

@@ -2,9 +2,10 @@
  * The plan's meter, per week and for the horizon: distinct items, supplier exposure Gini (the edition meter's
  * own reading, core/curation/edition-meter.ts, over the week's shelves, and over every shelf-week of the
  * horizon), predicted relevance (mean validated relevance of the planned items), seasonal fit (mean fit) and
- * the week's predicted value (Σ relevance × fit, what the objective adds up).
+ * the week's predicted value (what the objective adds up).
  */
 import { meterEdition } from '../curation/edition-meter.ts';
+import { valueAt } from './objective.ts';
 import type { Plan, PlanInstance } from './types.ts';
 
 export interface PlanWeekMeter {
@@ -39,7 +40,7 @@ export function meterPlan(inst: PlanInstance, plan: Plan, relevance: Float64Arra
         const rr = Number.isNaN(r) ? 0 : r;
         rel += rr;
         fits += f;
-        value += rr * f;
+        value += valueAt(inst, s, w, c);
         n++;
       }
     }

@@ -236,8 +236,8 @@ export const planningCommands: CliCommand[] = [
         const pct = (x: number | null) => (x === null ? '–' : `${(x * 100).toFixed(1)}%`);
         env.io.out(
           [
-            table(['week', 'from', 'active audience', 'engaged: plan', 'engaged: popularity'], r.weeks.map((w) => [String(w.week), w.date, w.active, w.plan, w.popularity])),
-            `share of the active audience engaged with planned items: plan ${pct(r.share.plan)}, popularity plan ${pct(r.share.popularity)} (planner: ${r.method})`,
+            table(['week', 'from', 'active audience', 'engaged: plan', 'popularity plan', 'plan without season'], r.weeks.map((w) => [String(w.week), w.date, w.active, w.plan, w.popularity, w.withoutSeason])),
+            `share of the active audience engaged with planned items: plan ${pct(r.share.plan)}, popularity plan ${pct(r.share.popularity)}, plan without seasonal fit ${pct(r.share.withoutSeason)} (same rules; planner: ${r.method})`,
             ...r.notes.map((n) => `note: ${n}`),
           ].join('\n'),
         );

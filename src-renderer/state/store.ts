@@ -7,11 +7,12 @@ import { createImportSlice, type ImportSlice } from './import-slice.ts';
 import { createInsightSlice, type InsightSlice } from './insight-slice.ts';
 import { createModelsSlice, type ModelsSlice } from './models-slice.ts';
 import { createNavSlice, type NavSlice } from './nav-slice.ts';
+import { createPlannerSlice, type PlannerSlice } from './planner-slice.ts';
 import { createWhatIfSlice, type WhatIfSlice } from './whatif-slice.ts';
 import { createWorkspaceSlice, type WorkspaceSlice } from './workspace-slice.ts';
 
 /** One store, typed slices (zustand docs, guides/slices-pattern.md); actions call the api client. */
-export type AppState = WorkspaceSlice & NavSlice & CurationSlice & ModelsSlice & WhatIfSlice & ImportSlice & InsightSlice & ResetSlice;
+export type AppState = WorkspaceSlice & NavSlice & CurationSlice & ModelsSlice & WhatIfSlice & ImportSlice & InsightSlice & PlannerSlice & ResetSlice;
 
 /** Everything a screen holds about the open workspace, dropped when another one is opened. */
 export interface ResetSlice {
@@ -55,14 +56,15 @@ export function createAppStore(plainClient: Client, now: () => number = Date.now
       ...createWhatIfSlice(client)(...a),
       ...createImportSlice(client)(...a),
       ...createInsightSlice(client)(...a),
+      ...createPlannerSlice(client)(...a),
     };
     // Each slice's first state object: updates are immutable (a new object each time), so these stay as built.
-    const { curation, models, whatif, importer, insight } = slices;
+    const { curation, models, whatif, importer, insight, planner } = slices;
     return {
       ...slices,
       forgetWorkspaceState() {
         epoch += 1;
-        a[0]({ curation, models, whatif, importer, insight });
+        a[0]({ curation, models, whatif, importer, insight, planner });
       },
     };
   });

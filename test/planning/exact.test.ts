@@ -84,3 +84,16 @@ describe('the heuristic planner', () => {
     }
   });
 });
+
+describe('a locked week with an empty slot', () => {
+  it('keeps the empty slot and still counts as a complete plan for both solvers', () => {
+    const inst = randomInstance({ seed: 31, items: 8, weeks: 3, shelves: 1, size: 2, horizon: { restWeeks: 0, maxAppearances: 3 } });
+    inst.edits = { pins: [], bans: [], locks: [{ shelf: 0, week: 1, items: [4] }] };
+    const fast = solveHeuristic(inst);
+    expect(fast.status).toBe('feasible');
+    expect(Array.from(fast.plan!.slots[0]![1]!)).toEqual([4, -1]);
+    expect(checkPlan(inst, fast.plan!)).toEqual([]);
+    const exact = solveExact(inst, highs);
+    expect(Array.from(exact.plan!.slots[0]![1]!)).toEqual([4, -1]);
+  });
+});

@@ -57,7 +57,7 @@ export function checkPlan(inst: PlanInstance, plan: Plan, options: { allowEmpty?
         perSupplier.set(sup, (perSupplier.get(sup) ?? 0) + 1);
       }
       weekPromoted += promoted;
-      if (empty > 0 && !options.allowEmpty) add('fill', `${shelf.label} week ${w + 1} has ${empty} empty slots`);
+      if (empty > 0 && !options.allowEmpty && !lock) add('fill', `${shelf.label} week ${w + 1} has ${empty} empty slots`);
       for (const o of quotas.over()) add('quotas', `${shelf.label} week ${w + 1}: ${o.name} broken by ${o.value} (${o.count})`);
       const pr = shelf.rules.promoted;
       // Shares of the shelf's slots, compared with a 1e-9 allowance for 0.1 × 30 in floating point.

@@ -386,6 +386,9 @@ export function solveHeuristic(inst: PlanInstance, options: HeuristicOptions = {
   const plan: Plan = { slots: [] };
   for (let s = 0; s < S; s++) plan.slots.push(Array.from({ length: N }, (_, w) => Int32Array.from(st.members[s * N + w]!)));
   const ordered = orderPlan(inst, plan);
-  const full = st.placed === c.totalSlots && st.deficit === 0;
+  // A locked week with empty slots keeps them: those slots are not the heuristic's to fill.
+  let expected = c.totalSlots;
+  for (const l of inst.edits.locks) expected -= c.sizes[l.shelf]! - l.items.length;
+  const full = st.placed === expected && st.deficit === 0;
   return { plan: ordered, method: 'heuristic', status: full ? 'feasible' : 'infeasible', objective: scorePlan(inst, ordered).objective, ms: now() - t0 };
 }

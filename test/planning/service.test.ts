@@ -1,5 +1,8 @@
 import { describe, expect, it } from 'vitest';
+import { checkPlan } from '../../src-main/core/planning/check.ts';
 import { CurationService } from '../../src-main/services/curation/service.ts';
+import { curationRepos } from '../../src-main/services/curation/repos.ts';
+import { buildPlan } from '../../src-main/services/planning/build.ts';
 import { PlanService } from '../../src-main/services/planning/service.ts';
 import { openSeeded } from '../curation-services/fixture.ts';
 
@@ -34,6 +37,22 @@ describe('the plan service', () => {
     }
     expect(svc.list().map((p) => p.name)).toEqual(['spring']);
     expect(v.horizon!.distinctItems).toBe(weeksOf.size);
+    // The stored plan, read back as the solver's instance sees it, passes the independent checker.
+    const { editions, shelves, items } = curationRepos(svc.db);
+    const e = editions.byLabel('week 9');
+    const id = (ext: string | null) => (ext === null ? null : items.byExternalId(ext)!.id);
+    const built = buildPlan(svc.db, svc.curation.world(), {
+      shelves: [shelves.byLabel(e.id, 'Front'), shelves.byLabel(e.id, 'Gifts')],
+      start: '2026-03-02',
+      weeks: 4,
+      horizon: { restWeeks: 1, maxAppearances: 2, supplierMinShare: 0, supplierMaxShare: 1, commitments: [], sponsoredMaxShare: 1 },
+      objective: { minWeekWeight: 0.3, keepWeight: 0 },
+      pins: [],
+      bans: [],
+      locks: [],
+      previous: [0, 1].map((s) => v.weeks.map((w) => w.shelves[s]!.slots.map((x) => id(x.item)))),
+    });
+    expect(checkPlan(built.inst, built.inst.previous!)).toEqual([]);
   });
 
   it('re-solving after a pin changes little, and a lock keeps its week', async () => {

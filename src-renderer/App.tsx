@@ -6,6 +6,7 @@ import { History } from './screens/History.tsx';
 import { Import } from './screens/Import.tsx';
 import { Models } from './screens/Models.tsx';
 import { Overview } from './screens/Overview.tsx';
+import { Planner } from './screens/Planner.tsx';
 import { ShelfEditor } from './screens/ShelfEditor.tsx';
 import type { ScreenId } from './state/nav-slice.ts';
 import { useApp } from './state/store.ts';
@@ -31,6 +32,8 @@ function Screen({ id }: { id: ScreenId }) {
       return <ShelfEditor />;
     case 'history':
       return <History />;
+    case 'planner':
+      return <Planner />;
   }
 }
 
@@ -75,6 +78,7 @@ export function App() {
     { id: 'editions', label: 'Editions' },
     ...(edition ? [{ id: 'board' as const, label: `Edition: ${edition}` }] : []),
     ...(edition && shelf ? [{ id: 'shelf' as const, label: `Shelf: ${shelf}` }] : []),
+    { id: 'planner', label: 'Planner' },
     { id: 'history', label: 'History' },
   ];
   return (

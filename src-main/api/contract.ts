@@ -4,6 +4,7 @@ import { dataMethods } from './contracts/data.ts';
 import { jobMethods } from './contracts/jobs.ts';
 import { modelMethods } from './contracts/models.ts';
 import { pictureMethods } from './contracts/pictures.ts';
+import { planningMethods } from './contracts/planning.ts';
 import { workspaceMethods } from './contracts/workspace.ts';
 
 /**
@@ -17,6 +18,7 @@ export const CONTRACT = {
   ...curationMethods,
   ...modelMethods,
   ...pictureMethods,
+  ...planningMethods,
 } as const;
 
 export type Contract = typeof CONTRACT;

@@ -8,6 +8,7 @@ import { dataHandlers } from './handlers/data.ts';
 import { jobHandlers } from './handlers/jobs.ts';
 import { modelHandlers } from './handlers/models.ts';
 import { pictureHandlers } from './handlers/pictures.ts';
+import { planningHandlers } from './handlers/planning.ts';
 import { workspaceHandlers } from './handlers/workspace.ts';
 
 type Parsed<M extends MethodName> = import('zod').output<Contract[M]['request']>;
@@ -23,6 +24,7 @@ export function createHandlerTable(ctx: AppContext): HandlerTable {
     ...curationHandlers(ctx),
     ...modelHandlers(ctx),
     ...pictureHandlers(ctx),
+    ...planningHandlers(ctx),
   };
   contexts.set(table, ctx);
   return table;

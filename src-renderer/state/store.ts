@@ -8,11 +8,12 @@ import { createInsightSlice, type InsightSlice } from './insight-slice.ts';
 import { createModelsSlice, type ModelsSlice } from './models-slice.ts';
 import { createNavSlice, type NavSlice } from './nav-slice.ts';
 import { createPicturesSlice, type PicturesSlice } from './pictures-slice.ts';
+import { createPlannerSlice, type PlannerSlice } from './planner-slice.ts';
 import { createWhatIfSlice, type WhatIfSlice } from './whatif-slice.ts';
 import { createWorkspaceSlice, type WorkspaceSlice } from './workspace-slice.ts';
 
 /** One store, typed slices (zustand docs, guides/slices-pattern.md); actions call the api client. */
-export type AppState = WorkspaceSlice & NavSlice & CurationSlice & ModelsSlice & WhatIfSlice & ImportSlice & InsightSlice & PicturesSlice & ResetSlice;
+export type AppState = WorkspaceSlice & NavSlice & CurationSlice & ModelsSlice & WhatIfSlice & ImportSlice & InsightSlice & PicturesSlice & PlannerSlice & ResetSlice;
 
 /** Everything a screen holds about the open workspace, dropped when another one is opened. */
 export interface ResetSlice {
@@ -57,14 +58,15 @@ export function createAppStore(plainClient: Client, now: () => number = Date.now
       ...createImportSlice(client)(...a),
       ...createInsightSlice(client)(...a),
       ...createPicturesSlice(client)(...a),
+      ...createPlannerSlice(client)(...a),
     };
     // Each slice's first state object: updates are immutable (a new object each time), so these stay as built.
-    const { curation, models, whatif, importer, insight, pictures } = slices;
+    const { curation, models, whatif, importer, insight, pictures, planner } = slices;
     return {
       ...slices,
       forgetWorkspaceState() {
         epoch += 1;
-        a[0]({ curation, models, whatif, importer, insight, pictures });
+        a[0]({ curation, models, whatif, importer, insight, pictures, planner });
       },
     };
   });

@@ -14,7 +14,7 @@ import type { Handler } from '../handler-table.ts';
 import type { ShelfAction } from '../contracts/curation.ts';
 
 /** NaN and ±Infinity (a reading with no data) become null: JSON has no NaN, and the schemas say null. */
-function finite<T>(v: T): T {
+export function finite<T>(v: T): T {
   if (typeof v === 'number') return (Number.isFinite(v) ? v : null) as T;
   if (Array.isArray(v)) return v.map(finite) as T;
   if (v !== null && typeof v === 'object') {

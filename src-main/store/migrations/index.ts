@@ -7,10 +7,11 @@ import { validatedBlend } from './006-validated-blend.ts';
 import { tasteGroups } from './007-taste-groups.ts';
 import { banScopes } from './008-ban-scopes.ts';
 import { itemPictures } from './009-item-pictures.ts';
+import { rotationPlans } from './010-rotation-plans.ts';
 import type { Migration } from './types.ts';
 
 /**
  * Every schema step, oldest first. Versions are consecutive from 1; `PRAGMA user_version` records the
  * last one applied. Never edit a step that has shipped: add a new one.
  */
-export const MIGRATIONS: readonly Migration[] = [foundation, models, curation, leanSignals, erasureGeneration, validatedBlend, tasteGroups, banScopes, itemPictures];
+export const MIGRATIONS: readonly Migration[] = [foundation, models, curation, leanSignals, erasureGeneration, validatedBlend, tasteGroups, banScopes, itemPictures, rotationPlans];

@@ -3,6 +3,7 @@ import { audienceCommands } from './audience.ts';
 import { curationCommands } from './curation.ts';
 import { demoCommand, importCommand, statsCommand } from './data.ts';
 import { modelCommands } from './models.ts';
+import { planningCommands } from './planning.ts';
 import { infoCommand } from './workspace.ts';
 
 /** Every command of the command line, in the order --help lists them. Areas append their lists. */
@@ -14,4 +15,5 @@ export const COMMANDS: readonly CliCommand[] = [
   ...modelCommands,
   ...curationCommands,
   ...audienceCommands,
+  ...planningCommands,
 ];

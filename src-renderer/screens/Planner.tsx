@@ -1,0 +1,223 @@
+import { useId, useState, type FormEvent } from 'react';
+import { useApp } from '../state/store.ts';
+import type { PlanView } from '../state/planner-slice.ts';
+
+const num = (x: number | null, d = 2) => (x === null ? '–' : x.toFixed(d));
+
+function PlanForm() {
+  const edition = useApp((s) => s.curation.edition);
+  const shelves = edition?.shelves.map((x) => x.label) ?? [];
+  const busy = useApp((s) => s.planner.busy);
+  const makePlan = useApp((s) => s.makePlan);
+  const [shelf, setShelf] = useState('');
+  const [more, setMore] = useState('');
+  const [start, setStart] = useState('');
+  const [weeks, setWeeks] = useState(6);
+  const [name, setName] = useState('');
+  const id = useId();
+  const submit = (e: FormEvent) => {
+    e.preventDefault();
+    const others = more.split(',').map((x) => x.trim()).filter(Boolean);
+    void makePlan({ shelf: shelf.trim(), start, weeks, ...(name.trim() && { name: name.trim() }), ...(others.length > 0 && { shelves: others }) });
+  };
+  return (
+    <form className="panel" onSubmit={submit} aria-labelledby={`${id}-h`}>
+      <h2 id={`${id}-h`}>Plan the weeks ahead</h2>
+      <div className="row">
+        <div className="field">
+          <label htmlFor={`${id}-shelf`}>Shelf</label>
+          <input id={`${id}-shelf`} list={`${id}-shelves`} value={shelf} onChange={(e) => setShelf(e.target.value)} required />
+          <datalist id={`${id}-shelves`}>
+            {shelves.map((l) => (
+              <option key={l} value={l} />
+            ))}
+          </datalist>
+        </div>
+        <div className="field">
+          <label htmlFor={`${id}-more`}>More shelves (comma-separated)</label>
+          <input id={`${id}-more`} value={more} onChange={(e) => setMore(e.target.value)} />
+        </div>
+        <div className="field">
+          <label htmlFor={`${id}-start`}>First week</label>
+          <input id={`${id}-start`} type="date" value={start} onChange={(e) => setStart(e.target.value)} required />
+        </div>
+        <div className="field">
+          <label htmlFor={`${id}-weeks`}>Weeks</label>
+          <input id={`${id}-weeks`} type="number" min={1} max={52} value={weeks} onChange={(e) => setWeeks(Number(e.target.value))} />
+        </div>
+        <div className="field">
+          <label htmlFor={`${id}-name`}>Plan name</label>
+          <input id={`${id}-name`} value={name} onChange={(e) => setName(e.target.value)} />
+        </div>
+      </div>
+      <button type="submit" disabled={busy || shelf.trim() === '' || start === ''}>
+        Plan
+      </button>
+    </form>
+  );
+}
+
+/** One shelf's calendar: weeks across, slots down. Sponsored items say so in words. */
+function Calendar({ plan, shelf }: { plan: PlanView; shelf: number }) {
+  const label = plan.shelves[shelf]!;
+  const busy = useApp((s) => s.planner.busy);
+  const pin = useApp((s) => s.pinInPlan);
+  const lock = useApp((s) => s.lockPlanWeek);
+  const ban = useApp((s) => s.banFromPlan);
+  const size = plan.weeks[0]?.shelves[shelf]?.slots.length ?? 0;
+  return (
+    <table className="plan-calendar" aria-label={`Plan for ${label}`}>
+      <thead>
+        <tr>
+          <th scope="col">Slot</th>
+          {plan.weeks.map((w) => (
+            <th scope="col" key={w.week}>
+              Week {w.week} <small>{w.date}</small>
+              {w.locked.includes(label) ? (
+                <span> (locked)</span>
+              ) : (
+                <button type="button" disabled={busy} onClick={() => void lock(w.week, label)} aria-label={`Lock week ${w.week} of ${label}`}>
+                  Lock
+                </button>
+              )}
+            </th>
+          ))}
+        </tr>
+      </thead>
+      <tbody>
+        {Array.from({ length: size }, (_, k) => (
+          <tr key={k}>
+            <th scope="row">{k + 1}</th>
+            {plan.weeks.map((w) => {
+              const x = w.shelves[shelf]!.slots[k]!;
+              if (x.item === null) return <td key={w.week}>(empty)</td>;
+              return (
+                <td key={w.week} data-item={x.item}>
+                  <span>{x.title}</span> <small>{x.item}</small>
+                  {x.promoted && <span className="sponsored"> Sponsored</span>}
+                  {x.pinned && <span> (pinned)</span>}
+                  <span className="cell-actions">
+                    <button type="button" disabled={busy || x.pinned} onClick={() => void pin(x.item!, w.week, label)} aria-label={`Pin ${x.item} to week ${w.week}`}>
+                      Pin
+                    </button>
+                    <button type="button" disabled={busy} onClick={() => void ban(x.item!)} aria-label={`Ban ${x.item} from the plan`}>
+                      Ban
+                    </button>
+                  </span>
+                </td>
+              );
+            })}
+          </tr>
+        ))}
+      </tbody>
+    </table>
+  );
+}
+
+function Meter({ plan }: { plan: PlanView }) {
+  const draft = useApp((s) => s.draftPlanWeek);
+  const busy = useApp((s) => s.planner.busy);
+  return (
+    <table aria-label="Plan meter">
+      <thead>
+        <tr>
+          <th scope="col">Week</th>
+          <th scope="col">Distinct items</th>
+          <th scope="col">Supplier Gini</th>
+          <th scope="col">Relevance</th>
+          <th scope="col">Seasonal fit</th>
+          <th scope="col">Value</th>
+          <th scope="col">Draft</th>
+        </tr>
+      </thead>
+      <tbody>
+        {plan.weeks.map((w) => {
+          const d = plan.drafts.find((x) => x.week === w.week);
+          return (
+            <tr key={w.week}>
+              <th scope="row">{w.week}</th>
+              <td>{w.meter.distinctItems}</td>
+              <td>{num(w.meter.supplierGini)}</td>
+              <td>{num(w.meter.relevance)}</td>
+              <td>{num(w.meter.seasonalFit)}</td>
+              <td>{num(w.meter.value)}</td>
+              <td>
+                {d ? (
+                  <span>{d.edition}</span>
+                ) : (
+                  <button type="button" disabled={busy || plan.status === 'infeasible'} onClick={() => void draft(w.week)}>
+                    Make draft of week {w.week}
+                  </button>
+                )}
+              </td>
+            </tr>
+          );
+        })}
+        {plan.horizon && (
+          <tr>
+            <th scope="row">Horizon</th>
+            <td>{plan.horizon.distinctItems}</td>
+            <td>{num(plan.horizon.supplierGini)}</td>
+            <td>{num(plan.horizon.relevance)}</td>
+            <td>{num(plan.horizon.seasonalFit)}</td>
+            <td>weakest {num(plan.horizon.weakestWeekValue)}</td>
+            <td />
+          </tr>
+        )}
+      </tbody>
+    </table>
+  );
+}
+
+export function Planner() {
+  const plan = useApp((s) => s.planner.plan);
+  const error = useApp((s) => s.planner.error);
+  const message = useApp((s) => s.planner.message);
+  const busy = useApp((s) => s.planner.busy);
+  const resolve = useApp((s) => s.resolvePlan);
+  return (
+    <section aria-labelledby="planner-h">
+      <h1 id="planner-h">Planner</h1>
+      <PlanForm />
+      {error && (
+        <p className="error" role="alert">
+          {error}
+        </p>
+      )}
+      {message && <p role="status">{message}</p>}
+      {plan && (
+        <div className="panel">
+          <h2>
+            {plan.name}: {plan.shelves.join(', ')} from {plan.start}
+          </h2>
+          <p>
+            Solved {plan.method === 'exact' ? 'exactly' : 'by the heuristic'} ({plan.status}); {plan.candidates} candidates of {plan.pool}.{' '}
+            <button type="button" disabled={busy} onClick={() => void resolve()}>
+              Re-solve
+            </button>
+          </p>
+          {plan.diagnosis && (
+            <div role="alert">
+              <p>The rules cannot all hold; this plan breaks some and was not stored. Each of these alone makes a plan possible:</p>
+              <ul>
+                {plan.diagnosis.relaxations.map((r) => (
+                  <li key={r.family}>{r.description}</li>
+                ))}
+              </ul>
+            </div>
+          )}
+          {plan.shelves.map((l, s) => (
+            <Calendar key={l} plan={plan} shelf={s} />
+          ))}
+          <Meter plan={plan} />
+          {plan.forecast && (
+            <p>
+              Seasonal fit: {plan.forecast.method}; on the last {plan.forecast.heldOutWeeks} weeks, MASE {num(plan.forecast.categories.mase)} for categories (seasonal naive{' '}
+              {num(plan.forecast.categories.baselineMase)}).
+            </p>
+          )}
+        </div>
+      )}
+    </section>
+  );
+}

@@ -1,0 +1,62 @@
+import type { StateCreator } from 'zustand';
+import type { RequestOf, ResponseOf } from '../../src-main/api/contract.ts';
+import { describeError, type Client } from '../client/client.ts';
+import type { AppState } from './store.ts';
+
+export type PlanView = ResponseOf<'plan.solve'>;
+type PlanRequest = RequestOf<'plan.solve'>;
+
+/** The rotation planner's screen state: the plan shown, what the last action said, and its error. */
+export interface PlannerSlice {
+  planner: { plan: PlanView | null; busy: boolean; error: string | null; message: string | null };
+  /** Plans (or re-plans under the same name) from the form. */
+  makePlan(req: Pick<PlanRequest, 'name' | 'shelf' | 'shelves' | 'start' | 'weeks'>): Promise<boolean>;
+  /** Keeps the item in that week (1-based) on that shelf, and re-solves. */
+  pinInPlan(item: string, week: number, shelf: string): Promise<boolean>;
+  /** Keeps the week's items on that shelf as they are, and re-solves the rest. */
+  lockPlanWeek(week: number, shelf: string): Promise<boolean>;
+  banFromPlan(item: string): Promise<boolean>;
+  /** Solves again with the stored edits (after new signals or a new model), changing as little as it can. */
+  resolvePlan(): Promise<boolean>;
+  /** Turns the planned week into a draft edition (planned items pinned). */
+  draftPlanWeek(week: number): Promise<boolean>;
+}
+
+export function createPlannerSlice(client: Client): StateCreator<AppState, [], [], PlannerSlice> {
+  return (set, get) => {
+    const run = async (call: () => Promise<{ plan?: PlanView; message: string | null }>): Promise<boolean> => {
+      set((s) => ({ planner: { ...s.planner, busy: true, error: null } }));
+      try {
+        const r = await call();
+        set((s) => ({ planner: { ...s.planner, busy: false, ...(r.plan && { plan: r.plan }), message: r.message } }));
+        return true;
+      } catch (e) {
+        set((s) => ({ planner: { ...s.planner, busy: false, error: describeError(e) } }));
+        return false;
+      }
+    };
+    const again = (extra: Partial<PlanRequest>) =>
+      run(async () => {
+        const p = get().planner.plan;
+        if (!p) throw new Error('Make a plan first.');
+        const plan = await client.call('plan.solve', { name: p.name, shelf: p.shelves[0]!, edition: p.edition, ...extra });
+        return { plan, message: plan.changed === null ? null : `Re-solved: ${plan.changed} placement${plan.changed === 1 ? '' : 's'} changed.` };
+      });
+    return {
+      planner: { plan: null, busy: false, error: null, message: null },
+      makePlan: (req) => run(async () => ({ plan: await client.call('plan.solve', req), message: null })),
+      pinInPlan: (item, week, shelf) => again({ pins: [{ item, week, shelf }] }),
+      lockPlanWeek: (week, shelf) => again({ locks: [{ week, shelf }] }),
+      banFromPlan: (item) => again({ bans: [item] }),
+      resolvePlan: () => again({}),
+      draftPlanWeek: (week) =>
+        run(async () => {
+          const p = get().planner.plan;
+          if (!p) throw new Error('Make a plan first.');
+          const d = await client.call('plan.draft', { name: p.name, week });
+          await get().loadEditions();
+          return { plan: { ...p, drafts: [...p.drafts.filter((x) => x.week !== week), { week, edition: d.edition }] }, message: `Draft edition “${d.edition}” made from week ${week}.` };
+        }),
+    };
+  };
+}

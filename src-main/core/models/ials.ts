@@ -86,7 +86,8 @@ export class IalsModel implements Scorer {
     solveRows(
       {
         k,
-        lambda: this.params.regularization,
+        // A model imported from Spark weights λ by the row's positive entries (ials-params.ts).
+        lambda: this.params.regularization * (this.params.regularizationScaling === 'signals' ? idx.length : 1),
         cgSteps: 2 * k, // near-exact: CG ends in at most k steps in exact arithmetic
         rows: { rows: 1, indptr: Int32Array.of(0, idx.length), indices: Int32Array.from(idx), conf: Float32Array.from(conf) },
         target: x,

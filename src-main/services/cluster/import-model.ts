@@ -1,0 +1,160 @@
+/**
+ * `import model DIR`: a Spark ALSModel directory, as `model.save(path)` writes it (ALS.scala
+ * `ALSModelWriter.saveImpl`: metadata via `DefaultParamsWriter.saveMetadata`, then `userFactors` and
+ * `itemFactors` as Parquet), becomes the workspace's current iALS model. Ids go back through the id map of
+ * the export it was fitted on; the model keeps that export's data fingerprint, so it reads as stale once the
+ * workspace's data moves on, like a model trained here.
+ *
+ * Checked before anything is written (a refusal names the file and row, and changes nothing): a folder that
+ * is not a saved model, a model of another class, an explicit-feedback fit, a row whose length is not the
+ * rank, ids the map does not know or repeats, NaN or infinite factors, and an erasure since the export
+ * (the model would carry the erased person's data: DESIGN.md, erasure is final).
+ */
+import fs from 'node:fs';
+import path from 'node:path';
+import { InputError } from '../../core/errors.ts';
+import { buildInteractionMatrix } from '../../core/matrix/build.ts';
+import { IalsModel } from '../../core/models/ials.ts';
+import { equivalentRegularization, importedIalsParams, parseAlsMetadata, type SparkAlsMetadata } from '../../core/models/spark-als.ts';
+import type { Dataset } from '../../core/types.ts';
+import { loadDataset } from '../../store/dataset.ts';
+import { erasureGeneration } from '../../store/erasure.ts';
+import { dataFingerprint, type ModelOrigin, type ModelRecord } from '../../store/models.ts';
+import type { Db } from '../../store/workspace.ts';
+import { saveRun } from '../train/save-run.ts';
+import { readFactorDir, partFiles } from './factor-files.ts';
+import { readIdMap, readManifest } from './id-map.ts';
+
+export interface ImportModelOptions {
+  /** The folder `export signals` wrote (its id map). Default: the model folder's parent. */
+  ids?: string;
+}
+
+export interface ImportModelReport {
+  modelId: number;
+  origin: ModelOrigin;
+  /** The workspace's data changed since the export: the model is stored, and reads as stale. */
+  stale: boolean;
+  notes: string[];
+}
+
+/** Reads and checks `dir`'s metadata: the folder must be a saved model. */
+export function readModelMetadata(dir: string): SparkAlsMetadata {
+  let st: fs.Stats;
+  try {
+    st = fs.statSync(dir);
+  } catch {
+    throw new InputError('no such folder', { file: dir });
+  }
+  if (!st.isDirectory()) throw new InputError('not a model folder: this is a file (Spark saves a model as a folder of metadata/, userFactors/ and itemFactors/)', { file: dir });
+  const metaDir = path.join(dir, 'metadata');
+  if (!fs.existsSync(metaDir) || !fs.statSync(metaDir).isDirectory()) {
+    throw new InputError('not a saved Spark model: it has no metadata/ folder (ALSModel.save writes metadata/, userFactors/ and itemFactors/)', { file: dir });
+  }
+  const parts = partFiles(metaDir);
+  if (parts.length === 0) throw new InputError('not a saved Spark model: metadata/ holds no part file', { file: metaDir });
+  return parseAlsMetadata(fs.readFileSync(parts[0]!, 'utf8'), parts[0]!);
+}
+
+export async function importModel(db: Db, dir: string, o: ImportModelOptions = {}): Promise<ImportModelReport> {
+  const meta = readModelMetadata(dir);
+  for (const side of ['userFactors', 'itemFactors']) {
+    const d = path.join(dir, side);
+    if (!fs.existsSync(d) || !fs.statSync(d).isDirectory()) throw new InputError(`not a saved Spark ALS model: it has no ${side}/ folder`, { file: dir });
+  }
+  const exportDir = o.ids ?? path.dirname(path.resolve(dir));
+  const manifest = readManifest(exportDir);
+  let ds: Dataset | undefined;
+  let generation = 0;
+  let fingerprintNow = '';
+  db.transaction(() => {
+    generation = erasureGeneration(db);
+    fingerprintNow = dataFingerprint(db);
+    ds = loadDataset(db);
+  }).deferred();
+  const data = ds!;
+  if (generation !== manifest.erasureGeneration) {
+    throw new InputError(
+      'a customer was erased (forget) after these signals were exported, so a model fitted on them holds that person\'s data: ' +
+        'export the signals again, fit again on the cluster, and import that model; nothing was changed',
+      { file: path.join(exportDir, 'shelfwright-export.json') },
+    );
+  }
+  const k = meta.rank;
+  const customerIds = await readIdMap(exportDir, 'customers', manifest.customers);
+  const itemIds = await readIdMap(exportDir, 'items', manifest.items);
+  const customerNow = indexOf(data.customerExternalIds);
+  const itemNow = indexOf(data.items.map((it) => it.externalId));
+  const nCustomers = data.customerIds.length;
+  const nItems = data.items.length;
+  const x = new Float32Array(nCustomers * k);
+  const y = new Float32Array(nItems * k);
+  const hasCustomer = new Uint8Array(nCustomers);
+  const hasItem = new Uint8Array(nItems);
+  const mapTo = (ids: string[], now: Map<string, number>, has: Uint8Array) => (id: number) => {
+    const row = now.get(ids[id]!) ?? -1;
+    if (row >= 0) has[row] = 1;
+    return row;
+  };
+  await readFactorDir(path.join(dir, 'itemFactors'), 'itemFactors', { rank: k, known: itemIds.length, rowOf: mapTo(itemIds, itemNow, hasItem), out: y });
+  await readFactorDir(path.join(dir, 'userFactors'), 'userFactors', { rank: k, known: customerIds.length, rowOf: mapTo(customerIds, customerNow, hasCustomer), out: x });
+
+  const params = importedIalsParams(meta);
+  const model = new IalsModel(params, x, y);
+  // Customers the model has no row for (they joined after the export, or had no signal then): folded in
+  // from their history as Spark would solve them (λ·n_u), so every customer has a vector.
+  const history = buildInteractionMatrix(data, manifest.halfLifeDays !== null ? { halfLifeDays: manifest.halfLifeDays } : {});
+  let folded = 0;
+  for (let u = 0; u < nCustomers; u++) {
+    if (hasCustomer[u] || history.indptr[u + 1]! === history.indptr[u]!) continue;
+    x.set(model.foldIn(u, history), u * k);
+    folded++;
+  }
+  let itemsWithout = 0;
+  for (let i = 0; i < nItems; i++) if (!hasItem[i]) itemsWithout++;
+  const importedAt = Date.now();
+  const origin: ModelOrigin = {
+    source: 'cluster',
+    engine: 'Spark ALS',
+    importedAt,
+    savedAt: Number.isFinite(meta.timestamp) ? meta.timestamp : null,
+    sparkVersion: meta.sparkVersion,
+    uid: meta.uid,
+    rank: k,
+    regParam: meta.regParam,
+    alpha: meta.alpha,
+    maxIter: meta.maxIter,
+    exportedAt: manifest.exportedAt,
+    customersFoldedIn: folded,
+    itemsWithoutFactors: itemsWithout,
+  };
+  const notes = [describeOrigin(origin)];
+  if (folded) notes.push(`${folded} customers without a row in the model were folded in from their history`);
+  if (itemsWithout) notes.push(`${itemsWithout} items have no factors in the model (added since the export?): they score 0 until the next fit`);
+  // What our own trainer refits with when asked (the split evaluation): one λ, from Spark's weighted one.
+  const { regularizationScaling: _scaling, ...refit } = params;
+  const record: ModelRecord = {
+    kind: 'ials',
+    params: { ...refit, regularization: equivalentRegularization(params.regularization, manifest.medianSignalsPerCustomer) },
+    fingerprint: manifest.fingerprint,
+    trainedAt: origin.savedAt ?? importedAt,
+    trainMs: 0,
+    report: { notes, origin },
+    bytes: model.serialize(),
+  };
+  const saved = await saveRun(db, [record], manifest.fingerprint, manifest.erasureGeneration);
+  const stale = saved.stale || fingerprintNow !== manifest.fingerprint;
+  if (stale) notes.push("the workspace's data changed since the export: the model is stored, marked stale (export and fit again to bring it up to date)");
+  return { modelId: saved.ids[0]!, origin, stale, notes };
+}
+
+function indexOf(ids: readonly string[]): Map<string, number> {
+  const m = new Map<string, number>();
+  ids.forEach((id, i) => m.set(id, i));
+  return m;
+}
+
+/** "trained on a cluster (Spark 3.5.1 ALS), imported 2026-12-04, rank 128" — the line the app and the CLI show. */
+export function describeOrigin(o: ModelOrigin): string {
+  return `trained on a cluster (Spark ${o.sparkVersion} ALS), imported ${new Date(o.importedAt).toISOString().slice(0, 10)}, rank ${o.rank}`;
+}

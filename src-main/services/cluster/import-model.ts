@@ -64,15 +64,18 @@ export async function importModel(db: Db, dir: string, o: ImportModelOptions = {
   }
   const exportDir = o.ids ?? path.dirname(path.resolve(dir));
   const manifest = readManifest(exportDir);
-  let ds: Dataset | undefined;
   let generation = 0;
   let fingerprintNow = '';
+  let itemExternal: string[] = [];
+  let customerExternal: string[] = [];
+  // Only the ids, in the dense order every model follows (items and customers by row id, store/dataset.ts):
+  // a million-item catalogue's titles and descriptions are not needed to place factors.
   db.transaction(() => {
     generation = erasureGeneration(db);
     fingerprintNow = dataFingerprint(db);
-    ds = loadDataset(db);
+    itemExternal = db.prepare('SELECT external_id FROM item ORDER BY id').pluck().all() as string[];
+    customerExternal = db.prepare('SELECT external_id FROM customer ORDER BY id').pluck().all() as string[];
   }).deferred();
-  const data = ds!;
   if (generation !== manifest.erasureGeneration) {
     throw new InputError(
       'a customer was erased (forget) after these signals were exported, so a model fitted on them holds that person\'s data: ' +
@@ -83,10 +86,10 @@ export async function importModel(db: Db, dir: string, o: ImportModelOptions = {
   const k = meta.rank;
   const customerIds = await readIdMap(exportDir, 'customers', manifest.customers);
   const itemIds = await readIdMap(exportDir, 'items', manifest.items);
-  const customerNow = indexOf(data.customerExternalIds);
-  const itemNow = indexOf(data.items.map((it) => it.externalId));
-  const nCustomers = data.customerIds.length;
-  const nItems = data.items.length;
+  const customerNow = indexOf(customerExternal);
+  const itemNow = indexOf(itemExternal);
+  const nCustomers = customerExternal.length;
+  const nItems = itemExternal.length;
   const x = new Float32Array(nCustomers * k);
   const y = new Float32Array(nItems * k);
   const hasCustomer = new Uint8Array(nCustomers);
@@ -103,12 +106,15 @@ export async function importModel(db: Db, dir: string, o: ImportModelOptions = {
   const model = new IalsModel(params, x, y);
   // Customers the model has no row for (they joined after the export, or had no signal then): folded in
   // from their history as Spark would solve them (λ·n_u), so every customer has a vector.
-  const history = buildInteractionMatrix(data, manifest.halfLifeDays !== null ? { halfLifeDays: manifest.halfLifeDays } : {});
   let folded = 0;
-  for (let u = 0; u < nCustomers; u++) {
-    if (hasCustomer[u] || history.indptr[u + 1]! === history.indptr[u]!) continue;
-    x.set(model.foldIn(u, history), u * k);
-    folded++;
+  if (hasCustomer.includes(0)) {
+    const data = readDatasetMatching(db, itemExternal.length, customerExternal.length);
+    const history = buildInteractionMatrix(data, manifest.halfLifeDays !== null ? { halfLifeDays: manifest.halfLifeDays } : {});
+    for (let u = 0; u < nCustomers; u++) {
+      if (hasCustomer[u] || history.indptr[u + 1]! === history.indptr[u]!) continue;
+      x.set(model.foldIn(u, history), u * k);
+      folded++;
+    }
   }
   let itemsWithout = 0;
   for (let i = 0; i < nItems; i++) if (!hasItem[i]) itemsWithout++;
@@ -146,6 +152,15 @@ export async function importModel(db: Db, dir: string, o: ImportModelOptions = {
   const stale = saved.stale || fingerprintNow !== manifest.fingerprint;
   if (stale) notes.push("the workspace's data changed since the export: the model is stored, marked stale (export and fit again to bring it up to date)");
   return { modelId: saved.ids[0]!, origin, stale, notes };
+}
+
+/** The dataset, checked to be the one the ids were read from (no import slipped in between the two reads). */
+function readDatasetMatching(db: Db, items: number, customers: number): Dataset {
+  const ds = loadDataset(db);
+  if (ds.items.length !== items || ds.customerIds.length !== customers) {
+    throw new InputError('the workspace changed while the model was being imported (another process imported data): nothing was changed; import again');
+  }
+  return ds;
 }
 
 function indexOf(ids: readonly string[]): Map<string, number> {

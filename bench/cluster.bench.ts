@@ -27,7 +27,7 @@ async function importPhase(ws: string, dir: string): Promise<void> {
   const r = await importModel(db, dir);
   const wallMs = performance.now() - t;
   db.close();
-  console.log(JSON.stringify({ wallMs, maxRssMb: process.resourceUsage().maxRSS / 1024, itemsWithoutFactors: r.origin.itemsWithoutFactors }));
+  console.log(JSON.stringify({ wallMs, maxRssMb: process.resourceUsage().maxRSS / 1024, ...r.timings }));
 }
 
 async function scorePhase(ws: string): Promise<void> {
@@ -110,7 +110,11 @@ async function mainBench(): Promise<void> {
     const { ws, model } = await setup(dir, items, 2000);
     if (process.env.BENCH_KEEP) console.log(`workspace ${ws}, model ${model}`);
     const imports = Array.from({ length: runs }, () => child('import', [`--ws=${ws}`, `--dir=${model}`]));
-    imports.forEach((r, q) => console.log(`import ${q + 1}: ${(r.wallMs! / 1000).toFixed(2)} s wall, peak RSS ${r.maxRssMb!.toFixed(0)} MB`));
+    imports.forEach((r, q) =>
+      console.log(
+        `import ${q + 1}: ${(r.wallMs! / 1000).toFixed(2)} s wall (read ${(r.readMs! / 1000).toFixed(2)} s, fold-in ${(r.foldMs! / 1000).toFixed(2)} s, store ${(r.saveMs! / 1000).toFixed(2)} s), peak RSS ${r.maxRssMb!.toFixed(0)} MB`,
+      ),
+    );
     const score = child('score', [`--ws=${ws}`]);
     const factorMb = (items * K * 4) / 1e6;
     console.log(`import of ${items.toLocaleString('en')} × ${K} factors (${factorMb.toFixed(0)} MB as float32): median ${(median(imports.map((r) => r.wallMs!)) / 1000).toFixed(2)} s, peak RSS median ${median(imports.map((r) => r.maxRssMb!)).toFixed(0)} MB`);

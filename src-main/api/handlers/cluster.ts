@@ -12,7 +12,7 @@ export function clusterHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
       return { out: r.out, files: r.files, customers: r.manifest.customers, items: r.manifest.items, signals: r.manifest.signals, fingerprint: r.manifest.fingerprint };
     },
     'model.import': async (req) => {
-      const r = await importModel(ctx.db, req.dir, req.idsFolder !== undefined ? { ids: req.idsFolder } : {});
+      const { timings: _timings, ...r } = await importModel(ctx.db, req.dir, req.idsFolder !== undefined ? { ids: req.idsFolder } : {});
       return { ...r, origin: { ...r.origin, description: describeOrigin(r.origin) } };
     },
   };

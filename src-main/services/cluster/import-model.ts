@@ -23,6 +23,7 @@ import { dataFingerprint, type ModelOrigin, type ModelRecord } from '../../store
 import type { Db } from '../../store/workspace.ts';
 import { saveRun } from '../train/save-run.ts';
 import { readFactorDir, partFiles } from './factor-files.ts';
+import type { ExportManifest } from './export-signals.ts';
 import { readIdMap, readManifest } from './id-map.ts';
 
 export interface ImportModelOptions {
@@ -66,33 +67,9 @@ export async function importModel(db: Db, dir: string, o: ImportModelOptions = {
   }
   const exportDir = o.ids ?? path.dirname(path.resolve(dir));
   const manifest = readManifest(exportDir);
-  let generation = 0;
-  let fingerprintNow = '';
-  let itemExternal: string[] = [];
-  let customerExternal: string[] = [];
-  // Only the ids, in the dense order every model follows (items and customers by row id, store/dataset.ts):
-  // a million-item catalogue's titles and descriptions are not needed to place factors.
-  db.transaction(() => {
-    generation = erasureGeneration(db);
-    fingerprintNow = dataFingerprint(db);
-    itemExternal = db.prepare('SELECT external_id FROM item ORDER BY id').pluck().all() as string[];
-    customerExternal = db.prepare('SELECT external_id FROM customer ORDER BY id').pluck().all() as string[];
-  }).deferred();
-  if (generation !== manifest.erasureGeneration) {
-    throw new InputError(
-      'a customer was erased (forget) after these signals were exported, so a model fitted on them holds that person\'s data: ' +
-        'export the signals again, fit again on the cluster, and import that model; nothing was changed',
-      { file: path.join(exportDir, 'shelfwright-export.json') },
-    );
-  }
-  const k = meta.rank;
   const t0 = performance.now();
-  const customerIds = await readIdMap(exportDir, 'customers', manifest.customers);
-  const itemIds = await readIdMap(exportDir, 'items', manifest.items);
-  const customerNow = indexOf(customerExternal);
-  const itemNow = indexOf(itemExternal);
-  const nCustomers = customerExternal.length;
-  const nItems = itemExternal.length;
+  const { fingerprintNow, customerRow, itemRow, nCustomers, nItems } = await placeIds(db, exportDir, manifest);
+  const k = meta.rank;
   const params = importedIalsParams(meta);
   // The factors are read straight into the bytes that will be stored (no second copy of a 256 MB model).
   const model = allocateIals(params, nCustomers, nItems);
@@ -100,20 +77,18 @@ export async function importModel(db: Db, dir: string, o: ImportModelOptions = {
   const y = model.itemFactors;
   const hasCustomer = new Uint8Array(nCustomers);
   const hasItem = new Uint8Array(nItems);
-  const mapTo = (ids: string[], now: Map<string, number>, has: Uint8Array) => (id: number) => {
-    const row = now.get(ids[id]!) ?? -1;
+  const mapTo = (rowOf: Int32Array, has: Uint8Array) => (id: number) => {
+    const row = rowOf[id]!;
     if (row >= 0) has[row] = 1;
     return row;
   };
-  await readFactorDir(path.join(dir, 'itemFactors'), 'itemFactors', { rank: k, known: itemIds.length, rowOf: mapTo(itemIds, itemNow, hasItem), out: y });
-  await readFactorDir(path.join(dir, 'userFactors'), 'userFactors', { rank: k, known: customerIds.length, rowOf: mapTo(customerIds, customerNow, hasCustomer), out: x });
+  await readFactorDir(path.join(dir, 'itemFactors'), 'itemFactors', { rank: k, known: itemRow.length, rowOf: mapTo(itemRow, hasItem), out: y });
+  await readFactorDir(path.join(dir, 'userFactors'), 'userFactors', { rank: k, known: customerRow.length, rowOf: mapTo(customerRow, hasCustomer), out: x });
 
-  // Customers the model has no row for (they joined after the export, or had no signal then): folded in
-  // from their history as Spark would solve them (λ·n_u), so every customer has a vector.
   const t1 = performance.now();
   let folded = 0;
   if (hasCustomer.includes(0)) {
-    const data = readDatasetMatching(db, itemExternal.length, customerExternal.length);
+    const data = readDatasetMatching(db, nItems, nCustomers);
     const history = buildInteractionMatrix(data, manifest.halfLifeDays !== null ? { halfLifeDays: manifest.halfLifeDays } : {});
     for (let u = 0; u < nCustomers; u++) {
       if (hasCustomer[u] || history.indptr[u + 1]! === history.indptr[u]!) continue;
@@ -170,10 +145,46 @@ function readDatasetMatching(db: Db, items: number, customers: number): Dataset 
   return ds;
 }
 
-function indexOf(ids: readonly string[]): Map<string, number> {
-  const m = new Map<string, number>();
-  ids.forEach((id, i) => m.set(id, i));
-  return m;
+/**
+ * Where each exported index lives in the workspace now (−1: gone since), as typed arrays: the id strings and
+ * their look-up table are garbage once this returns, before the factors are read (a million ids are some
+ * 100 MB as strings). Only the ids are read, in the dense order every model follows (items and customers by
+ * row id, store/dataset.ts): a million-item catalogue's titles are not needed to place factors. Refuses an
+ * export made before an erasure.
+ */
+async function placeIds(db: Db, exportDir: string, manifest: ExportManifest) {
+  let generation = 0;
+  let fingerprintNow = '';
+  let itemExternal: string[] = [];
+  let customerExternal: string[] = [];
+  db.transaction(() => {
+    generation = erasureGeneration(db);
+    fingerprintNow = dataFingerprint(db);
+    itemExternal = db.prepare('SELECT external_id FROM item ORDER BY id').pluck().all() as string[];
+    customerExternal = db.prepare('SELECT external_id FROM customer ORDER BY id').pluck().all() as string[];
+  }).deferred();
+  if (generation !== manifest.erasureGeneration) {
+    throw new InputError(
+      "a customer was erased (forget) after these signals were exported, so a model fitted on them holds that person's data: " +
+        'export the signals again, fit again on the cluster, and import that model; nothing was changed',
+      { file: path.join(exportDir, 'shelfwright-export.json') },
+    );
+  }
+  return {
+    fingerprintNow,
+    customerRow: await exportedToCurrent(exportDir, 'customers', manifest.customers, customerExternal),
+    itemRow: await exportedToCurrent(exportDir, 'items', manifest.items, itemExternal),
+    nCustomers: customerExternal.length,
+    nItems: itemExternal.length,
+  };
+}
+
+/** For each index of the export's id map, the row of the same id in the workspace now, or −1. */
+async function exportedToCurrent(exportDir: string, name: 'customers' | 'items', expected: number, now: readonly string[]): Promise<Int32Array> {
+  const exported = await readIdMap(exportDir, name, expected);
+  const rowOf = new Map<string, number>();
+  now.forEach((id, i) => rowOf.set(id, i));
+  return Int32Array.from(exported, (id) => rowOf.get(id) ?? -1);
 }
 
 /** "trained on a cluster (Spark 3.5.1 ALS), imported 2026-12-04, rank 128" — the line the app and the CLI show. */

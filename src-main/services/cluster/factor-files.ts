@@ -7,7 +7,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { InputError } from '../../core/errors.ts';
-import { leafOf, openParquet, readLeafPages, type LeafColumn, type ParquetFile } from './parquet-leaf.ts';
+import { leafOf, newScratch, openParquet, readLeafPages, type LeafColumn, type ParquetFile, type Scratch } from './parquet-leaf.ts';
 
 /**
  * The data files of a folder Spark wrote: every file whose name does not start with '_' or '.' (Spark's
@@ -42,6 +42,7 @@ export async function readFactorDir(dir: string, side: string, t: FactorTarget):
   const files = partFiles(dir);
   if (files.length === 0) throw new InputError(`${side}/ holds no Parquet part files`, { file: dir });
   const seen = new Uint8Array(t.known);
+  const scratch = newScratch();
   const report: FactorReadReport = { rows: 0, kept: 0, files: files.length };
   for (const file of files) {
     const p = await openParquet(file);
@@ -56,7 +57,7 @@ export async function readFactorDir(dir: string, side: string, t: FactorTarget):
     let fileRow = 0;
     for (let g = 0; g < p.metadata.row_groups.length; g++) {
       const n = Number(p.metadata.row_groups[g]!.num_rows);
-      const ids = readIds(p, g, idLeaf, n, fileRow);
+      const ids = readIds(p, g, idLeaf, n, fileRow, scratch);
       const rows = new Int32Array(n);
       for (let r = 0; r < n; r++) {
         const id = ids[r]!;
@@ -68,7 +69,7 @@ export async function readFactorDir(dir: string, side: string, t: FactorTarget):
         seen[id] = 1;
         rows[r] = t.rowOf(id);
       }
-      readFeatures(p, g, featureLeaf, rows, ids, fileRow, t);
+      readFeatures(p, g, featureLeaf, rows, ids, fileRow, t, scratch);
       for (let r = 0; r < n; r++) if (rows[r]! >= 0) report.kept++;
       fileRow += n;
     }
@@ -78,7 +79,7 @@ export async function readFactorDir(dir: string, side: string, t: FactorTarget):
 }
 
 /** The ids of one row group; a null id is refused. */
-function readIds(p: ParquetFile, g: number, leaf: LeafColumn, n: number, fileRow: number): Float64Array {
+function readIds(p: ParquetFile, g: number, leaf: LeafColumn, n: number, fileRow: number, scratch: Scratch): Float64Array {
   const ids = new Float64Array(n);
   let r = 0;
   readLeafPages(p, g, leaf, (page) => {
@@ -89,7 +90,7 @@ function readIds(p: ParquetFile, g: number, leaf: LeafColumn, n: number, fileRow
       }
       ids[r] = Number(page.values[v++] as number | bigint);
     }
-  });
+  }, scratch);
   if (r !== n) throw new InputError(`row group ${g + 1} has ${r} ids for ${n} rows`, { file: p.file });
   return ids;
 }
@@ -98,7 +99,7 @@ function readIds(p: ParquetFile, g: number, leaf: LeafColumn, n: number, fileRow
  * Walks the feature entries of one row group: repetition level 0 starts a row, an entry at the max
  * definition level carries a value, a lower level is an empty or null list (or a null element).
  */
-function readFeatures(p: ParquetFile, g: number, leaf: LeafColumn, rows: Int32Array, ids: Float64Array, fileRow: number, t: FactorTarget): void {
+function readFeatures(p: ParquetFile, g: number, leaf: LeafColumn, rows: Int32Array, ids: Float64Array, fileRow: number, t: FactorTarget, scratch: Scratch): void {
   const k = t.rank;
   const out = t.out;
   let r = -1;
@@ -130,7 +131,7 @@ function readFeatures(p: ParquetFile, g: number, leaf: LeafColumn, rows: Int32Ar
       if (base >= 0) out[base + f] = x;
       f++;
     }
-  });
+  }, scratch);
   endRow();
   if (r !== rows.length - 1) throw new InputError(`row group ${g + 1} has ${r + 1} feature lists for ${rows.length} ids`, { file: p.file });
 }

@@ -13,6 +13,7 @@ import { convertWithDictionary, DEFAULT_PARSERS } from 'hyparquet/src/convert.js
 import { decompressPage, readDataPage, readDataPageV2 } from 'hyparquet/src/datapage.js';
 import { readRleBitPackedHybrid } from 'hyparquet/src/encoding.js';
 import { readPlain } from 'hyparquet/src/plain.js';
+import { snappyUncompress } from 'hyparquet/src/snappy.js';
 import { getSchemaPath } from 'hyparquet/src/schema.js';
 import { InputError } from '../../core/errors.ts';
 
@@ -95,14 +96,14 @@ export function leafOf(p: ParquetFile, name: string): LeafColumn {
  * Calls `onPage` for every data page of `leaf` in row group `group`, in order. Reads only that column
  * chunk's bytes from disk.
  */
-export function readLeafPages(p: ParquetFile, group: number, leaf: LeafColumn, onPage: (page: LeafPage) => void): void {
+export function readLeafPages(p: ParquetFile, group: number, leaf: LeafColumn, onPage: (page: LeafPage) => void, scratch: Scratch = newScratch()): void {
   const rowGroup = p.metadata.row_groups[group]!;
   const chunk = rowGroup.columns.find((c) => c.meta_data && c.meta_data.path_in_schema.join('.') === leaf.path.join('.'));
   if (!chunk?.meta_data) throw new InputError(`row group ${group + 1} has no data for column ${leaf.path.join('.')}`, { file: p.file });
   const meta = chunk.meta_data;
   const start = Number(meta.dictionary_page_offset ?? meta.data_page_offset);
   const length = Number(meta.total_compressed_size);
-  const bytes = new Uint8Array(length);
+  const bytes = grow(scratch, 'chunk', length);
   const fd = fs.openSync(p.file, 'r');
   try {
     let got = 0;
@@ -137,10 +138,17 @@ export function readLeafPages(p: ParquetFile, group: number, leaf: LeafColumn, o
         dictionary = readPlain({ view: new DataView(page.buffer, page.byteOffset, page.byteLength), offset: 0 }, meta.type, count, element.type_length);
       } else if (header.type === 'DATA_PAGE') {
         const daph = header.data_page_header!;
-        const page = decompressPage(body, Number(header.uncompressed_page_size), meta.codec, undefined);
-        const plain = daph.encoding === 'PLAIN' ? readPlainPage(page, daph.num_values, leaf, meta.type, element.type_length) : null;
-        if (plain) onPage(plain);
-        else {
+        const size = Number(header.uncompressed_page_size);
+        if (daph.encoding === 'PLAIN' && (meta.codec === 'SNAPPY' || meta.codec === 'UNCOMPRESSED')) {
+          // Into reused buffers: a row group's garbage is otherwise freed late, and a few of them add up.
+          let page = body;
+          if (meta.codec === 'SNAPPY') {
+            page = grow(scratch, 'page', size);
+            snappyUncompress(body, page);
+          }
+          onPage(readPlainPage(scratch, page, daph.num_values, leaf, meta.type, element.type_length));
+        } else {
+          const page = decompressPage(body, size, meta.codec, undefined);
           const d = readDataPage(page, daph, decoder);
           onPage(leafPage(d, convertWithDictionary(d.dataPage, dictionary as never, daph.encoding, decoder)));
         }
@@ -169,24 +177,49 @@ function leafPage(d: { definitionLevels: number[] | undefined; repetitionLevels:
  * 7.9 million entries, 126 MB of level arrays the library's way, 16 MB this way). Levels are RLE/bit-packed
  * hybrid with a 4-byte length prefix in a v1 page (Parquet format spec, "Data Pages"); hyparquet decodes them.
  */
-function readPlainPage(page: Uint8Array, entries: number, leaf: LeafColumn, type: ParquetType, typeLength: number | undefined): LeafPage {
+function readPlainPage(scratch: Scratch, page: Uint8Array, entries: number, leaf: LeafColumn, type: ParquetType, typeLength: number | undefined): LeafPage {
   const reader = { view: new DataView(page.buffer, page.byteOffset, page.byteLength), offset: 0 };
   let repetition: Uint8Array = NO_LEVELS;
   if (leaf.maxRepetition > 0) {
-    repetition = new Uint8Array(entries);
+    repetition = grow(scratch, 'repetition', entries);
     readRleBitPackedHybrid(reader, 32 - Math.clz32(leaf.maxRepetition), repetition);
   }
   let definition: Uint8Array | undefined;
   let present = entries;
   if (leaf.maxDefinition > 0) {
-    definition = new Uint8Array(entries);
+    definition = grow(scratch, 'definition', entries);
     readRleBitPackedHybrid(reader, 32 - Math.clz32(leaf.maxDefinition), definition);
     present = 0;
     for (let e = 0; e < entries; e++) if (definition[e] === leaf.maxDefinition) present++;
     if (present === entries) definition = undefined;
   }
-  const values = readPlain(reader, type, present, typeLength) as Values;
+  let values: Values;
+  if (type === 'FLOAT' && LITTLE_ENDIAN) {
+    // The floats follow the levels at any byte offset: copied into a reused, aligned buffer.
+    const raw = grow(scratch, 'values', 4 * present);
+    raw.set(page.subarray(reader.offset, reader.offset + 4 * present));
+    values = new Float32Array(raw.buffer, 0, present);
+  } else values = readPlain(reader, type, present, typeLength) as Values;
   return { definition, repetition, values, entries };
+}
+
+const LITTLE_ENDIAN = new Uint8Array(Uint16Array.of(1).buffer)[0] === 1;
+
+/**
+ * Buffers reused from page to page and row group to row group by one reader (readLeafPages is synchronous and
+ * its caller consumes each page before the next, so one set serves all its reads). Dropped with the reader,
+ * so a long-running app keeps none of it after an import.
+ */
+export type Scratch = Map<string, Uint8Array>;
+export const newScratch = (): Scratch => new Map();
+
+function grow(scratch: Scratch, name: string, length: number): Uint8Array {
+  let b = scratch.get(name);
+  if (!b || b.length < length) {
+    b = new Uint8Array(Math.max(length, Math.ceil((b?.length ?? 0) * 1.25)));
+    scratch.set(name, b);
+  }
+  return b.subarray(0, length);
 }
 
 const NO_LEVELS = new Uint8Array(0);

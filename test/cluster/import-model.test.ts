@@ -148,6 +148,14 @@ describe('import model', () => {
     expect((await refusal(dir2)).message).toMatch(/^the model was fitted with implicitPrefs=false/);
   });
 
+  it('refuses part files in a compression it cannot read, naming the codec', async () => {
+    const dir = modelDir();
+    await writeSparkModelDir(dir, { ...good, items: { ids: range(30), rank: RANK, compression: 'zstd' } });
+    const e = await refusal(dir);
+    expect(e.message).toBe("column id is compressed with ZSTD, which this reader does not decode: save with Spark's default, snappy (spark.sql.parquet.compression.codec=snappy)");
+    expect(e.where.file).toMatch(/itemFactors\/part-00000-/);
+  });
+
   it('refuses a folder that is not a saved model', async () => {
     const e = await refusal(path.join(exportDir, 'signals'));
     expect(e.message).toBe('not a saved Spark model: it has no metadata/ folder (ALSModel.save writes metadata/, userFactors/ and itemFactors/)');

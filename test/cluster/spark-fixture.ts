@@ -52,6 +52,8 @@ export interface SideSpec {
   bad?: Record<number, string>;
   /** Split into this many part files. */
   parts?: number;
+  /** Parquet compression (default snappy, Spark's). */
+  compression?: string;
 }
 
 export async function writeSide(dir: string, s: SideSpec): Promise<void> {
@@ -68,7 +70,7 @@ export async function writeSide(dir: string, s: SideSpec): Promise<void> {
     await c.run(
       `COPY (SELECT id::INTEGER AS id, ${cases ? `CASE ${cases} ELSE ${features} END` : features} AS features
              FROM unnest([${ids.join(',')}]::BIGINT[]) AS t(id))
-       TO '${file}' (FORMAT parquet, COMPRESSION snappy)`,
+       TO '${file}' (FORMAT parquet, COMPRESSION ${s.compression ?? 'snappy'})`,
     );
   }
   fs.writeFileSync(path.join(dir, '_SUCCESS'), '');

@@ -101,6 +101,12 @@ export function readLeafPages(p: ParquetFile, group: number, leaf: LeafColumn, o
   const chunk = rowGroup.columns.find((c) => c.meta_data && c.meta_data.path_in_schema.join('.') === leaf.path.join('.'));
   if (!chunk?.meta_data) throw new InputError(`row group ${group + 1} has no data for column ${leaf.path.join('.')}`, { file: p.file });
   const meta = chunk.meta_data;
+  if (meta.codec !== 'SNAPPY' && meta.codec !== 'UNCOMPRESSED') {
+    throw new InputError(
+      `column ${leaf.path.join('.')} is compressed with ${meta.codec}, which this reader does not decode: save with Spark's default, snappy (spark.sql.parquet.compression.codec=snappy)`,
+      { file: p.file },
+    );
+  }
   const start = Number(meta.dictionary_page_offset ?? meta.data_page_offset);
   const length = Number(meta.total_compressed_size);
   const bytes = grow(scratch, 'chunk', length);

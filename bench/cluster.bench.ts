@@ -27,7 +27,8 @@ async function importPhase(ws: string, dir: string): Promise<void> {
   const r = await importModel(db, dir);
   const wallMs = performance.now() - t;
   db.close();
-  console.log(JSON.stringify({ wallMs, maxRssMb: process.resourceUsage().maxRSS / 1024, ...r.timings }));
+  const { peakRssMb, ...times } = r.timings;
+  console.log(JSON.stringify({ wallMs, maxRssMb: process.resourceUsage().maxRSS / 1024, ...times, afterIds: peakRssMb.ids, afterFactors: peakRssMb.factors, afterStore: peakRssMb.stored }));
 }
 
 async function scorePhase(ws: string): Promise<void> {
@@ -117,7 +118,7 @@ async function mainBench(): Promise<void> {
     const imports = Array.from({ length: runs }, () => child('import', [`--ws=${ws}`, `--dir=${model}`]));
     imports.forEach((r, q) =>
       console.log(
-        `import ${q + 1}: ${(r.wallMs! / 1000).toFixed(2)} s wall (read ${(r.readMs! / 1000).toFixed(2)} s, fold-in ${(r.foldMs! / 1000).toFixed(2)} s, store ${(r.saveMs! / 1000).toFixed(2)} s), peak RSS ${r.maxRssMb!.toFixed(0)} MB`,
+        `import ${q + 1}: ${(r.wallMs! / 1000).toFixed(2)} s wall (read ${(r.readMs! / 1000).toFixed(2)} s, fold-in ${(r.foldMs! / 1000).toFixed(2)} s, store ${(r.saveMs! / 1000).toFixed(2)} s), peak RSS ${r.maxRssMb!.toFixed(0)} MB (after ids ${r.afterIds!.toFixed(0)}, after factors ${r.afterFactors!.toFixed(0)}, after storing ${r.afterStore!.toFixed(0)})`,
       ),
     );
     const score = child('score', [`--ws=${ws}`]);

@@ -33,8 +33,11 @@ export interface ImportModelOptions {
 
 export interface ImportModelReport {
   modelId: number;
-  /** Wall time of each stage, ms: reading the ids and factors, folding customers in, storing. */
-  timings: { readMs: number; foldMs: number; saveMs: number };
+  /**
+   * Wall time of each stage, ms (reading the ids and factors, folding customers in, storing), and the process's
+   * peak RSS in MB after placing the ids, after reading the factors and after storing (for npm run bench:cluster).
+   */
+  timings: { readMs: number; foldMs: number; saveMs: number; peakRssMb: { ids: number; factors: number; stored: number } };
   origin: ModelOrigin;
   /** The workspace's data changed since the export: the model is stored, and reads as stale. */
   stale: boolean;
@@ -69,6 +72,7 @@ export async function importModel(db: Db, dir: string, o: ImportModelOptions = {
   const manifest = readManifest(exportDir);
   const t0 = performance.now();
   const { fingerprintNow, customerRow, itemRow, nCustomers, nItems } = await placeIds(db, exportDir, manifest);
+  const peakIds = peakRssMb();
   const k = meta.rank;
   const params = importedIalsParams(meta);
   // The factors are read straight into the bytes that will be stored (no second copy of a 256 MB model).
@@ -86,6 +90,7 @@ export async function importModel(db: Db, dir: string, o: ImportModelOptions = {
   await readFactorDir(path.join(dir, 'userFactors'), 'userFactors', { rank: k, known: customerRow.length, rowOf: mapTo(customerRow, hasCustomer), out: x });
 
   const t1 = performance.now();
+  const peakFactors = peakRssMb();
   let folded = 0;
   if (hasCustomer.includes(0)) {
     const data = readDatasetMatching(db, nItems, nCustomers);
@@ -130,11 +135,14 @@ export async function importModel(db: Db, dir: string, o: ImportModelOptions = {
   };
   const t2 = performance.now();
   const saved = await saveRun(db, [record], manifest.fingerprint, manifest.erasureGeneration);
-  const timings = { readMs: t1 - t0, foldMs: t2 - t1, saveMs: performance.now() - t2 };
+  const timings = { readMs: t1 - t0, foldMs: t2 - t1, saveMs: performance.now() - t2, peakRssMb: { ids: peakIds, factors: peakFactors, stored: peakRssMb() } };
   const stale = saved.stale || fingerprintNow !== manifest.fingerprint;
   if (stale) notes.push("the workspace's data changed since the export: the model is stored, marked stale (export and fit again to bring it up to date)");
   return { modelId: saved.ids[0]!, timings, origin, stale, notes };
 }
+
+/** The process's peak resident set so far, MB (getrusage's maxrss is in KiB). */
+const peakRssMb = (): number => process.resourceUsage().maxRSS / 1024;
 
 /** The dataset, checked to be the one the ids were read from (no import slipped in between the two reads). */
 function readDatasetMatching(db: Db, items: number, customers: number): Dataset {

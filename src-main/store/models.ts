@@ -36,7 +36,9 @@ export interface ModelOrigin {
   exportedAt: number;
   /** Customers of the workspace without a row in the model, folded in at import from their history. */
   customersFoldedIn: number;
-  /** Items of the workspace without a row in the model (added since the export): they score 0 until retrained. */
+  /** Items of the workspace without a row in the model but with signals, folded in at import (absent on older records). */
+  itemsFoldedIn?: number;
+  /** Items with neither a row in the model nor a signal: they score 0 until the next fit. */
   itemsWithoutFactors: number;
 }
 

@@ -61,4 +61,39 @@ describe('customers who arrived after the export', () => {
     const want = new CholeskyDecomposition(A).solve(b).getColumn(0);
     want.forEach((v, a) => expect(x[a]!).toBeCloseTo(v, 4));
   });
+
+  it('items added after the export are folded in from the customers\' side, as Spark solves an item row', async () => {
+    const w = smallWorkspace({ items: 20, customers: 30, seed: 9 });
+    try {
+      const exportDir = path.join(root, 'export-items');
+      exportSignals(w.db, exportDir);
+      w.db.prepare("INSERT INTO item (id, external_id, title, description, category, tags, supplier, price, added_at) VALUES (21, 'it-new', 'new', '', 'garden', '[]', 'maker-1', 9, 1700000000000)").run();
+      const sig = w.db.prepare("INSERT INTO signal (customer_id, item_id, kind, value, at) VALUES (?, 21, (SELECT code FROM signal_kind WHERE name = 'view'), 1, ?)");
+      [3, 7, 11].forEach((c, q) => sig.run(c, 1_720_000_000_000 + q));
+      const k = 5;
+      const dir = path.join(exportDir, 'model');
+      await writeSparkModelDir(dir, { rank: k, users: { ids: range(30), rank: k }, items: { ids: range(20), rank: k }, metadata: sparkMetadata({ rank: k, regParam: 0.2, alpha: 3 }) });
+      const report = await importModel(w.db, dir);
+      expect(report.origin.itemsFoldedIn).toBe(1);
+      expect(report.origin.itemsWithoutFactors).toBe(0);
+      const model = loadIals(new ModelRepo(w.db).loadCurrent('ials')!.bytes);
+      const y = model.itemFactors.subarray(20 * k, 21 * k);
+      const X = new Matrix(Array.from({ length: 30 }, (_, u) => Array.from(model.customerFactors.subarray(u * k, (u + 1) * k))));
+      const A = X.transpose().mmul(X);
+      const b = Matrix.zeros(k, 1);
+      for (const u of [2, 6, 10]) {
+        const c = 1 + 3 * 1; // one view, weight 1: c = 1 + α·r
+        const xu = X.getRow(u);
+        for (let a = 0; a < k; a++) {
+          b.set(a, 0, b.get(a, 0) + c * xu[a]!);
+          for (let d = 0; d < k; d++) A.set(a, d, A.get(a, d) + (c - 1) * xu[a]! * xu[d]!);
+        }
+      }
+      for (let a = 0; a < k; a++) A.set(a, a, A.get(a, a) + 0.2 * 3); // λ_i = regParam · (3 customers)
+      new CholeskyDecomposition(A).solve(b).getColumn(0).forEach((v, a) => expect(y[a]!).toBeCloseTo(v, 4));
+    } finally {
+      w.db.close();
+      fs.rmSync(w.dir, { recursive: true, force: true });
+    }
+  });
 });

@@ -18,6 +18,7 @@ export const ModelOriginView = z.object({
   maxIter: z.number().nullable(),
   exportedAt: z.number(),
   customersFoldedIn: z.number().int(),
+  itemsFoldedIn: z.number().int().optional(),
   itemsWithoutFactors: z.number().int(),
   /** "trained on a cluster (Spark 3.5.1 ALS), imported 2026-12-04, rank 128" */
   description: z.string(),

@@ -14,7 +14,8 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { InputError } from '../../core/errors.ts';
 import { buildInteractionMatrix } from '../../core/matrix/build.ts';
-import { allocateIals } from '../../core/models/ials.ts';
+import { allocateIals, IalsModel } from '../../core/models/ials.ts';
+import { transpose } from '../../core/matrix/csr.ts';
 import { equivalentRegularization, importedIalsParams, parseAlsMetadata, type SparkAlsMetadata } from '../../core/models/spark-als.ts';
 import type { Dataset } from '../../core/types.ts';
 import { loadDataset } from '../../store/dataset.ts';
@@ -92,13 +93,26 @@ export async function importModel(db: Db, dir: string, o: ImportModelOptions = {
   const t1 = performance.now();
   const peakFactors = peakRssMb();
   let folded = 0;
-  if (hasCustomer.includes(0)) {
+  let itemsFolded = 0;
+  if (hasCustomer.includes(0) || hasItem.includes(0)) {
     const data = readDatasetMatching(db, nItems, nCustomers);
     const history = buildInteractionMatrix(data, manifest.halfLifeDays !== null ? { halfLifeDays: manifest.halfLifeDays } : {});
     for (let u = 0; u < nCustomers; u++) {
       if (hasCustomer[u] || history.indptr[u + 1]! === history.indptr[u]!) continue;
       x.set(model.foldIn(u, history), u * k);
       folded++;
+    }
+    // Items added since the export, solved the same way from the other side (Spark solves an item's row as a
+    // customer's: the customers' factors held, λ times its count): a model with the roles swapped folds them in.
+    if (hasItem.includes(0)) {
+      const byItem = transpose(history);
+      const swapped = new IalsModel(params, y, x);
+      for (let i = 0; i < nItems; i++) {
+        if (hasItem[i] || byItem.indptr[i + 1]! === byItem.indptr[i]!) continue;
+        y.set(swapped.foldIn(i, byItem), i * k);
+        hasItem[i] = 1;
+        itemsFolded++;
+      }
     }
   }
   let itemsWithout = 0;
@@ -117,11 +131,13 @@ export async function importModel(db: Db, dir: string, o: ImportModelOptions = {
     maxIter: meta.maxIter,
     exportedAt: manifest.exportedAt,
     customersFoldedIn: folded,
+    itemsFoldedIn: itemsFolded,
     itemsWithoutFactors: itemsWithout,
   };
   const notes = [describeOrigin(origin)];
   if (folded) notes.push(`${folded} customers without a row in the model were folded in from their history`);
-  if (itemsWithout) notes.push(`${itemsWithout} items have no factors in the model (added since the export?): they score 0 until the next fit`);
+  if (itemsFolded) notes.push(`${itemsFolded} items without a row in the model were folded in from their signals`);
+  if (itemsWithout) notes.push(`${itemsWithout} items have no factors (no row in the model and no signal yet): they score 0 until the next fit`);
   // What our own trainer refits with when asked (the split evaluation): one λ, from Spark's weighted one.
   const { regularizationScaling: _scaling, ...refit } = params;
   const record: ModelRecord = {

@@ -63,6 +63,20 @@ describe('export signals', () => {
     expect(idMap).toEqual([[0, 'it-1'], [1, 'it-2']]);
   });
 
+  it('applies the optional time decay as training does, and records it for the import', async () => {
+    const out = path.join(root, 'decayed');
+    const r = exportSignals(ws.db, out, { halfLifeDays: 3 });
+    expect(r.manifest.halfLifeDays).toBe(3);
+    const m = buildInteractionMatrix(loadDataset(ws.db), { halfLifeDays: 3 });
+    const c = await duck();
+    const [count, sum] = (await c.runAndReadAll(`SELECT count(*)::INTEGER, sum(rating)::DOUBLE FROM read_parquet('${out}/signals/*.parquet')`)).getRows()[0]!;
+    expect(count).toBe(m.indptr[m.rows]);
+    expect(sum as number).toBeCloseTo(Array.from(m.data).reduce((a, v) => a + v, 0), 3);
+    // Decay only lowers weights: the decayed total is below the undecayed one (2^(-age/3) < 1 for older signals).
+    const plain = buildInteractionMatrix(loadDataset(ws.db));
+    expect(sum as number).toBeLessThan(Array.from(plain.data).reduce((a, v) => a + v, 0));
+  });
+
   it('refuses a folder that already holds files', () => {
     expect(() => exportSignals(ws.db, exportDir)).toThrow(/the folder is not empty/);
   });

@@ -1,4 +1,5 @@
 import type { z } from 'zod';
+import { clusterMethods } from './contracts/cluster.ts';
 import { curationMethods } from './contracts/curation.ts';
 import { dataMethods } from './contracts/data.ts';
 import { jobMethods } from './contracts/jobs.ts';
@@ -19,6 +20,7 @@ export const CONTRACT = {
   ...modelMethods,
   ...pictureMethods,
   ...planningMethods,
+  ...clusterMethods,
 } as const;
 
 export type Contract = typeof CONTRACT;

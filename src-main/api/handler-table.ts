@@ -3,6 +3,7 @@ import { CONTRACT, isMethodName, type Contract, type MethodName, type RequestOf,
 import type { ApiResult } from './define.ts';
 import { toApiError } from './errors.ts';
 import { pathFieldsIn, pathRefusal } from './path-fields.ts';
+import { clusterHandlers } from './handlers/cluster.ts';
 import { curationHandlers } from './handlers/curation.ts';
 import { dataHandlers } from './handlers/data.ts';
 import { jobHandlers } from './handlers/jobs.ts';
@@ -25,6 +26,7 @@ export function createHandlerTable(ctx: AppContext): HandlerTable {
     ...modelHandlers(ctx),
     ...pictureHandlers(ctx),
     ...planningHandlers(ctx),
+    ...clusterHandlers(ctx),
   };
   contexts.set(table, ctx);
   return table;

@@ -33,6 +33,10 @@ export const PATH_FIELDS: readonly PathField[] = [
   { method: 'evaluate.holdout', field: 'source.file', use: 'read', instead: 'choose the held-out file in the page, which sends its content' },
   { method: 'recommend', field: 'customersFile', use: 'read', instead: 'send the customer ids themselves as `customers`' },
   { method: 'recommend', field: 'out', use: 'write', instead: 'write the file with `shelfwright recommend --out FILE` at the command line' },
+  { method: 'signals.export', field: 'out', use: 'write', instead: 'export with `shelfwright export signals --format parquet --out DIR` at the command line' },
+  // idsFolder first: a request always carries dir too, and the refusal names the first field listed.
+  { method: 'model.import', field: 'idsFolder', use: 'read', instead: 'import with `shelfwright import model DIR --ids EXPORT_DIR` at the command line' },
+  { method: 'model.import', field: 'dir', use: 'read', instead: 'import with `shelfwright import model DIR` at the command line' },
 ];
 
 /** The value at a dotted path inside a parsed request, or undefined. Own properties only. */

@@ -33,7 +33,12 @@ export interface ForgetReport {
   message: string;
 }
 
-/** Model kinds whose stored bytes include per-customer data. */
+/**
+ * Model kinds whose stored bytes include per-customer data. An iALS model imported from a cluster
+ * (services/cluster/import-model.ts) is stored as kind 'ials' with a factor row per customer, so it is
+ * deleted here too; its id map stays in the export folder, outside the workspace, and `import model`
+ * refuses a model fitted on signals exported before an erasure.
+ */
 const PER_CUSTOMER_KINDS = ['ials'];
 
 const NAMES: Record<string, string> = { ials: 'iALS', itemknn: 'item-kNN', ease: 'EASE', content: 'content', popularity: 'popularity' };

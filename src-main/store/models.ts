@@ -10,9 +10,36 @@ export interface ModelRecord {
   fingerprint: string;
   trainedAt: number;
   trainMs: number;
-  /** The fit report: iterations, losses, notes. */
-  report: { iterations?: number; losses?: number[]; notes: string[] };
+  /** The fit report: iterations, losses, notes; `origin` only on a model trained elsewhere and imported. */
+  report: { iterations?: number; losses?: number[]; notes: string[]; origin?: ModelOrigin };
   bytes: Uint8Array;
+}
+
+/**
+ * Where an imported model came from (services/cluster/import-model.ts): shown on the models screen and by
+ * `shelfwright models` ("trained on a cluster, imported 2026-12-04, rank 128"). Models trained here have none.
+ */
+export interface ModelOrigin {
+  source: 'cluster';
+  engine: 'Spark ALS';
+  importedAt: number;
+  /** When Spark saved the model (its metadata's timestamp), if recorded. */
+  savedAt: number | null;
+  sparkVersion: string;
+  uid: string;
+  rank: number;
+  /** Spark's own parameters, as its metadata records them (null: not recorded, Spark's default applied). */
+  regParam: number | null;
+  alpha: number | null;
+  maxIter: number | null;
+  /** When the signals it was fitted on were exported from this workspace. */
+  exportedAt: number;
+  /** Customers of the workspace without a row in the model, folded in at import from their history. */
+  customersFoldedIn: number;
+  /** Items of the workspace without a row in the model but with signals, folded in at import (absent on older records). */
+  itemsFoldedIn?: number;
+  /** Items with neither a row in the model nor a signal: they score 0 until the next fit. */
+  itemsWithoutFactors: number;
 }
 
 /** A stored model without its bytes (listings). */

@@ -163,9 +163,16 @@ export function Models() {
               {list.map((m) => (
                 <tr key={m.id}>
                   <th scope="row">{m.kind}</th>
-                  <td>{new Date(m.trainedAt).toLocaleString('en-GB')}</td>
-                  <td className="num">{(m.trainMs / 1000).toFixed(1)} s</td>
-                  <td>{m.stale ? 'Out of date: the data changed since training' : 'Current'}</td>
+                  {/* A model trained elsewhere says where it came from, in words (docs/cluster.md). */}
+                  <td>{m.origin ? capitalise(m.origin.description) : new Date(m.trainedAt).toLocaleString('en-GB')}</td>
+                  <td className="num">{m.origin ? '–' : `${(m.trainMs / 1000).toFixed(1)} s`}</td>
+                  <td>
+                    {m.stale
+                      ? m.origin
+                        ? 'Out of date: the data changed since the signals were exported; export and fit again'
+                        : 'Out of date: the data changed since training'
+                      : 'Current'}
+                  </td>
                 </tr>
               ))}
             </tbody>
@@ -183,3 +190,5 @@ export function Models() {
     </section>
   );
 }
+
+const capitalise = (t: string): string => t.charAt(0).toUpperCase() + t.slice(1);

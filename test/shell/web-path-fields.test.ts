@@ -26,6 +26,9 @@ const ATTACKS: Record<string, (target: string) => unknown> = {
   'evaluate.holdout source.file': (target) => ({ source: { file: target } }),
   'recommend customersFile': (target) => ({ customersFile: target, out: target }),
   'recommend out': (target) => ({ customers: ['c1'], out: target }),
+  'signals.export out': (target) => ({ out: target }),
+  'model.import dir': (target) => ({ dir: target }),
+  'model.import idsFolder': (target) => ({ dir: 'model', idsFolder: target }),
 };
 const key = (f: PathField) => `${f.method} ${f.field}`;
 

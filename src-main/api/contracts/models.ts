@@ -3,6 +3,7 @@ import { AudienceSchema } from '../../core/editing/brief-schema.ts';
 import { VALUE_TRANSFORMS } from '../../core/matrix/values.ts';
 import { TUNE_BUDGET } from '../../core/models/tune-budget.ts';
 import { method } from '../define.ts';
+import { ModelOriginView } from './cluster.ts';
 import { JobState } from './jobs.ts';
 
 /**
@@ -121,6 +122,8 @@ export const ModelInfo = z.object({
   /** This model's row of the latest offline evaluation, if one ran after it was trained. */
   evaluation: MetricsRow.extend({ evaluatedAt: z.number() }).nullable(),
   tuning: TuningView.nullable(),
+  /** Where a model trained elsewhere came from (null: trained here). */
+  origin: ModelOriginView.nullable(),
 });
 
 /** The validated blend stored with the models (issue 10 item 3): what the hybrid is, and the figures it was chosen by. */

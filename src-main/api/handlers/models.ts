@@ -11,6 +11,7 @@ import { readCustomerList, recommend } from '../../services/recommend.ts';
 import { checkInputFile } from '../../services/user-file.ts';
 import { searchItems, similarItems } from '../../services/recommend-items.ts';
 import { trainJob } from '../../services/train/train-job.ts';
+import { describeOrigin } from '../../services/cluster/import-model.ts';
 import type { TrainOptions } from '../../services/train/train-models.ts';
 import { DEFAULT_TUNE, tunedTrainJob } from '../../services/tune/train-tuned.ts';
 import { dataFingerprint } from '../../store/models.ts';
@@ -134,6 +135,7 @@ export function modelHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
           sizeBytes: m.sizeBytes,
           evaluation: row && ev.offline ? { ...metricsRow(row), evaluatedAt: ev.offline.evaluatedAt } : null,
           tuning: tuning ? finite(tuning) : null,
+          origin: m.report.origin ? { ...m.report.origin, description: describeOrigin(m.report.origin) } : null,
         };
       }),
       hybrid: hybridView(ctx.db),

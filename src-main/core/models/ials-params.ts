@@ -20,6 +20,11 @@ import { InputError } from '../errors.ts';
  *   solve and end 0.5% above 3 steps in loss, NDCG@10 of iALS 0.081 vs 0.079, of the iALS hybrid
  *   0.076 vs 0.077 — close, but not clearly unchanged, so the default stays 3.
  * - `seed`: the initial factors are the only randomness; same seed, same model.
+ * - `regularizationScaling`: absent (or 'none') for every model trained here: λ is the same for every row.
+ *   'signals' only on a model imported from Spark's ALS, which weights λ by the number of positive entries
+ *   of the row being solved (ALS.scala `computeFactors`: `solver.solve(ls, numExplicits * regParam)`, after
+ *   the ALS-WR paper, Zhou et al. 2008): folding a customer in must then use λ·n_u to match Spark's own
+ *   solution. Training never reads it.
  */
 export interface IalsParams {
   factors: number;
@@ -30,6 +35,7 @@ export interface IalsParams {
   iterations: number;
   cgSteps: number;
   seed: number;
+  regularizationScaling?: 'none' | 'signals';
 }
 
 export const IALS_DEFAULTS: Readonly<IalsParams> = {
@@ -67,6 +73,9 @@ export function ialsParams(given: Partial<IalsParams> = {}): IalsParams {
   }
   if (!Number.isInteger(p.cgSteps) || p.cgSteps < 1) {
     throw new InputError(`cgSteps must be an integer >= 1, got ${p.cgSteps}`, where('cgSteps'));
+  }
+  if (p.regularizationScaling !== undefined && p.regularizationScaling !== 'none' && p.regularizationScaling !== 'signals') {
+    throw new InputError(`regularizationScaling must be 'none' or 'signals', got ${String(p.regularizationScaling)}`, where('regularizationScaling'));
   }
   if (!Number.isInteger(p.seed)) throw new InputError(`seed must be an integer, got ${p.seed}`, where('seed'));
   return p;

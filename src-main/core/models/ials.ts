@@ -86,7 +86,8 @@ export class IalsModel implements Scorer {
     solveRows(
       {
         k,
-        lambda: this.params.regularization,
+        // A model imported from Spark weights λ by the row's positive entries (ials-params.ts).
+        lambda: this.params.regularization * (this.params.regularizationScaling === 'signals' ? idx.length : 1),
         cgSteps: 2 * k, // near-exact: CG ends in at most k steps in exact arithmetic
         rows: { rows: 1, indptr: Int32Array.of(0, idx.length), indices: Int32Array.from(idx), conf: Float32Array.from(conf) },
         target: x,
@@ -126,19 +127,9 @@ export class IalsModel implements Scorer {
    * params JSON, the JSON padded with spaces to 4 bytes, then X and Y as float32.
    */
   serialize(): Uint8Array {
-    const json = new TextEncoder().encode(JSON.stringify(this.params));
-    const jsonLen = Math.ceil(json.length / 4) * 4;
-    const head = 24 + jsonLen;
-    const out = new Uint8Array(head + this.customerFactors.byteLength + this.itemFactors.byteLength);
-    const view = new DataView(out.buffer);
-    out.set(MAGIC, 0);
-    view.setUint32(4, 1, true);
-    view.setUint32(8, this.customerCount, true);
-    view.setUint32(12, this.itemCount, true);
-    view.setUint32(16, this.factors, true);
-    view.setUint32(20, jsonLen, true);
-    out.fill(0x20, 24, head);
-    out.set(json, 24);
+    const own = inPlace.get(this);
+    if (own) return own; // allocateIals: the factors were filled in place
+    const { out, head } = serializedHeader(this.params, this.customerCount, this.itemCount);
     writeFloats(out, head, this.customerFactors);
     writeFloats(out, head + this.customerFactors.byteLength, this.itemFactors);
     return out;
@@ -166,6 +157,47 @@ export class IalsModel implements Scorer {
 }
 
 const MAGIC = new TextEncoder().encode('IALS');
+
+/** The serialized form's header written into a buffer of the full length; the factors go at `head`. */
+function serializedHeader(params: IalsParams, customers: number, items: number): { out: Uint8Array; head: number } {
+  const k = params.factors;
+  const json = new TextEncoder().encode(JSON.stringify(params));
+  const jsonLen = Math.ceil(json.length / 4) * 4;
+  const head = 24 + jsonLen;
+  const out = new Uint8Array(head + 4 * k * (customers + items));
+  const view = new DataView(out.buffer);
+  out.set(MAGIC, 0);
+  view.setUint32(4, 1, true);
+  view.setUint32(8, customers, true);
+  view.setUint32(12, items, true);
+  view.setUint32(16, k, true);
+  view.setUint32(20, jsonLen, true);
+  out.fill(0x20, 24, head);
+  out.set(json, 24);
+  return { out, head };
+}
+
+const LITTLE_ENDIAN = new Uint8Array(Uint16Array.of(1).buffer)[0] === 1;
+
+/**
+ * A zero model whose factor arrays are views into its own serialized bytes, for filling in place: a large
+ * model built outside training (an imported one: a million items × 64 factors is 256 MB) is then stored
+ * without a second copy. The serialized floats are little-endian, so on a big-endian machine the arrays are
+ * separate and `serialize()` copies as usual.
+ */
+export function allocateIals(params: IalsParams, customers: number, items: number): IalsModel {
+  const k = params.factors;
+  if (!LITTLE_ENDIAN) return new IalsModel(params, new Float32Array(customers * k), new Float32Array(items * k));
+  const { out, head } = serializedHeader(params, customers, items);
+  const x = new Float32Array(out.buffer, out.byteOffset + head, customers * k);
+  const y = new Float32Array(out.buffer, out.byteOffset + head + 4 * customers * k, items * k);
+  const model = new IalsModel(params, x, y);
+  inPlace.set(model, out);
+  return model;
+}
+
+/** The bytes an `allocateIals` model lives in (serialize returns them as they are). */
+const inPlace = new WeakMap<IalsModel, Uint8Array>();
 
 function writeFloats(out: Uint8Array, at: number, a: Float32Array): void {
   const le = new DataView(out.buffer, out.byteOffset + at, a.byteLength);

@@ -41,6 +41,8 @@ export default defineConfig(({ mode }) => {
   return {
     root,
     publicDir: false,
+    // Node's export conditions (hyparquet's file reader and writer exist only under 'node').
+    resolve: { conditions: ['node', 'module', 'import', 'default'] },
     build: {
       outDir: path.join(root, 'dist-electron'),
       emptyOutDir: false,

@@ -7,6 +7,9 @@ import { WORKERS } from '../electron/vite.electron.config.ts';
 const here = path.dirname(fileURLToPath(import.meta.url));
 const root = path.resolve(here, '../../..');
 
+/** Package export conditions for code that runs in Node (shared with the Electron build). */
+export const NODE_CONDITIONS = ['node', 'module', 'import', 'default'];
+
 /** Where the Node build lands (gitignored); bin/launch.js looks for it there. */
 export const NODE_OUT_DIR = path.join(root, 'dist-node');
 
@@ -22,6 +25,9 @@ export default defineConfig({
   root,
   publicDir: false,
   logLevel: 'warn',
+  // Node's export conditions, not a browser's: hyparquet and hyparquet-writer export their file readers and
+  // writers (asyncBufferFromFile, parquetWriteFile) only under the node condition.
+  resolve: { conditions: NODE_CONDITIONS },
   build: {
     outDir: process.env.SHELFWRIGHT_NODE_OUT ?? NODE_OUT_DIR,
     emptyOutDir: true,

@@ -1,5 +1,6 @@
 import type { CliCommand } from '../command.ts';
 import { audienceCommands } from './audience.ts';
+import { exportSignalsCommand, importModelCommand } from './cluster.ts';
 import { curationCommands } from './curation.ts';
 import { demoCommand, importCommand, statsCommand } from './data.ts';
 import { modelCommands } from './models.ts';
@@ -10,6 +11,8 @@ import { infoCommand } from './workspace.ts';
 export const COMMANDS: readonly CliCommand[] = [
   infoCommand,
   importCommand,
+  importModelCommand,
+  exportSignalsCommand,
   statsCommand,
   demoCommand,
   ...modelCommands,

@@ -206,8 +206,16 @@ const modelsCommand: CliCommand = {
       env.io.out(JSON.stringify(r, null, 2));
       return EXIT.ok;
     }
-    const rows = r.models.map((m) => [m.kind, new Date(m.trainedAt).toISOString().slice(0, 16).replace('T', ' '), m.trainMs / 1000, m.stale ? 'stale: retrain' : 'current', m.evaluation ? val(m.evaluation.ndcg) : '–']);
-    env.io.out([r.models.length ? table(['model', 'trained (UTC)', 'seconds', 'status', 'NDCG (evaluate)'], rows) : 'no trained models', ...hybridLines(r.hybrid)].join('\n'));
+    const rows = r.models.map((m) => [
+      m.kind,
+      new Date(m.trainedAt).toISOString().slice(0, 16).replace('T', ' '),
+      m.trainMs / 1000,
+      m.stale ? (m.origin ? "stale: the workspace's data changed since the export" : 'stale: retrain') : 'current',
+      m.evaluation ? val(m.evaluation.ndcg) : '–',
+    ]);
+    // A model trained elsewhere says where (docs/cluster.md).
+    const origins = r.models.filter((m) => m.origin).map((m) => `${m.kind}: ${m.origin!.description}`);
+    env.io.out([r.models.length ? table(['model', 'trained (UTC)', 'seconds', 'status', 'NDCG (evaluate)'], rows) : 'no trained models', ...origins, ...hybridLines(r.hybrid)].join('\n'));
     return EXIT.ok;
   },
 };

@@ -249,6 +249,22 @@ export class CurationService {
   }
 
   /**
+   * The meter's target bands (issue 12 item 4): replaces the brief's `targets` and fills nothing, since a
+   * band changes how readings are judged, not the list. Checked by the brief's own schema; a published
+   * edition refuses (#draft).
+   */
+  setTargets(edition: string, label: string, targets: unknown): ShelfView {
+    const world = this.world();
+    return this.db.transaction(() => {
+      const e = this.#draft(edition);
+      const s = this.shelves.byLabel(e.id, label);
+      const b = parseBrief({ ...s.brief, targets });
+      this.shelves.setBrief(s.id, b);
+      return this.#read(world, e, this.shelves.byLabel(e.id, label));
+    })();
+  }
+
+  /**
    * Refill: fills the shelf afresh, the only way to start over (e.g. after new signals); later shelves keep
    * their lists but for what the new one takes. Only reads the shelf and its meter when `refill` is false.
    */

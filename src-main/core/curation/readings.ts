@@ -4,7 +4,7 @@
  * this table; the machine key of each reading is the field it has in the meter (and in JSON). The scales
  * themselves are computed in meter.ts, each beside the definition it follows.
  */
-import type { Brief, ShelfMeter } from './types.ts';
+import type { Brief } from './types.ts';
 
 /** The shelf readings an editor watches (DESIGN.md "Meter readings"), in the order screens show them. */
 export const SHELF_READING_KEYS = [
@@ -142,7 +142,12 @@ export const EDITION_READINGS = {
 } as const;
 
 /** A reading of a shelf meter by its key (the age block is nested in ShelfMeter). */
-export function readingOf(m: Pick<ShelfMeter, 'age'> & Record<Exclude<ShelfReadingKey, 'ageMedianDays' | 'ageShareUnder30Days'>, number | null>, key: ShelfReadingKey): number {
+export interface MeterLike extends Record<Exclude<ShelfReadingKey, 'ageMedianDays' | 'ageShareUnder30Days'>, number | null> {
+  age: { medianDays: number | null; shareUnder30Days: number | null };
+}
+
+/** A reading of a shelf meter (core's, or the api's with null for no data) by its key; NaN without data. */
+export function readingOf(m: MeterLike, key: ShelfReadingKey): number {
   const v = key === 'ageMedianDays' ? m.age.medianDays : key === 'ageShareUnder30Days' ? m.age.shareUnder30Days : m[key];
   return v === null || v === undefined ? NaN : v;
 }
@@ -270,4 +275,24 @@ export function targetProblem(targets: Targets): string | null {
     }
   }
   return null;
+}
+
+/**
+ * A what-if change in the reading's unit, signed: "+0.02", "−5 pts" (percentage points for shares),
+ * "+12 days"; a change that rounds to nothing is "no change".
+ */
+export function formatChange(spec: Pick<ReadingSpec, 'unit'>, d: number | null | undefined): string {
+  if (d === null || d === undefined || !Number.isFinite(d)) return 'no data';
+  const text = spec.unit === 'share' ? `${Math.abs(Math.round(d * 100))} pts` : spec.unit === 'days' ? `${Math.abs(Math.round(d))} days` : Math.abs(d).toFixed(2);
+  if (/^0(\.0+)?( pts| days)?$/.test(text)) return 'no change';
+  return `${d > 0 ? '+' : '−'}${text}`;
+}
+
+/** A what-if change with where it moves the reading against its band, in words. */
+export function describeChange(key: ShelfReadingKey, before: number | null, delta: number | null | undefined, band: Band): { text: string; direction: Direction } {
+  const spec = READINGS[key];
+  const text = formatChange(spec, delta);
+  const b = before ?? NaN;
+  const direction = text === 'no change' ? 'no change' : towardTarget(b, b + (delta ?? NaN), band);
+  return { text, direction };
 }

@@ -8,6 +8,8 @@ import { list, num, positionals, str } from '../flags.ts';
 import { describeExclusions } from '../../../core/curation/exclusion-words.ts';
 import { formatNumber, table } from '../format.ts';
 import { UsageError } from '../command.ts';
+import { renderWhatIf } from './meter-whatif.ts';
+import { meterCommands, renderMeter } from './meter.ts';
 
 /** Editions, shelves and editorial actions on the command line. Thin: flags → one api call → print. */
 
@@ -30,20 +32,12 @@ export function renderShelf(v: ShelfView): string {
   ]);
   const m = v.meter;
   const head = `${v.edition} / ${v.label}  (${v.size} slots${v.locked ? ', locked' : ''}, pool ${v.poolSize})`;
-  const meter = [
-    `distance ${val(m.intraListDistance)}`,
-    `novelty ${val(m.novelty)}`,
-    `median age ${val(m.age.medianDays)} d`,
-    `sponsored ${pct(m.promotedShareCount)} of slots, ${pct(m.promotedShareExposure)} of exposure`,
-    `calibration gap ${val(m.calibrationGap)}`,
-    `relevance ${val(m.predictedRelevance)}`,
-    `saturated slots ${m.saturatedSlots.length}`,
-  ].join(' · ');
+
   const left = describeExclusions(v.excluded);
   const resting = left ? `\nleft out of the pool: ${left}` : '';
   const viol = v.violations.length ? `\nrules not met:\n${v.violations.map((x) => `  ${x.rule}: ${x.reason}`).join('\n')}` : '';
   const price = describeChoiceCost(m.choiceCost ?? NaN);
-  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\nmeter: ${meter}\n${price}${resting}${viol}${renderChanges(v)}`;
+  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\n\nmeter\n${renderMeter(v)}\n${price}${resting}${viol}${renderChanges(v)}`;
 }
 
 /** What the action or refill changed against the list before, and the relevance the kept list gives up. */
@@ -439,6 +433,7 @@ export const curationCommands: CliCommand[] = [
   shelfCommand('refill', 'start the shelf over: fill it afresh (actions keep the list; a locked shelf stays as it is)', 'shelf.fill'),
   shelfCommand('fill', "the same as 'shelf refill'", 'shelf.fill'),
   shelfCommand('meter', 'a shelf as it stands with its meter and the rules it could not meet', 'shelf.show'),
+  ...meterCommands,
   actionCommand('pin', 'fix an item at a slot', 'EDITION SHELF ITEM --slot N', { slot: { type: 'string' } }, { slot: 'the slot to fix the item at, counting from 1 (required)' }, (env, rest) => ({
     kind: 'pin',
     item: oneItem(rest),
@@ -514,22 +509,8 @@ export const curationCommands: CliCommand[] = [
       const r = await call(t, 'shelf.whatif', { edition: edition!, shelf: shelf!, slot, n });
       if (env.json) env.io.out(JSON.stringify(r, null, 2));
       else {
-        const d = (x: number | null | undefined) => (x === null || x === undefined ? '–' : `${x >= 0 ? '+' : ''}${formatNumber(x)}`);
-        env.io.out(
-          table(
-            ['item', 'title', 'sponsored', 'pct', 'Δ distance', 'Δ novelty', 'Δ sponsored', 'Δ calibration'],
-            r.candidates.map((c) => [
-              c.item,
-              c.title,
-              c.promoted ? 'Sponsored' : '',
-              Math.round(c.percentile * 100),
-              d(c.delta['intraListDistance']),
-              d(c.delta['novelty']),
-              d(c.delta['promotedShareCount']),
-              d(c.delta['calibrationGap']),
-            ]),
-          ),
-        );
+        const current = await call(t, 'shelf.show', { edition: edition!, shelf: shelf! });
+        env.io.out(renderWhatIf(r, current.brief as unknown as Parameters<typeof renderWhatIf>[1]));
       }
       return EXIT.ok;
     },

@@ -1,7 +1,7 @@
 import AxeBuilder from '@axe-core/playwright';
 import fs from 'node:fs';
 import { createHandlerTable, invoke } from '../src-main/api/handler-table.ts';
-import { formatDelta } from '../src-renderer/components/Meter.tsx';
+import { bandFor, describeChange, DIRECTION_WORDS } from '../src-main/core/curation/readings.ts';
 import { expect, test } from './fixtures.ts';
 
 /**
@@ -47,7 +47,8 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
   // The meter on screen is the live one: it equals what the api reports for the shelf now.
   const live = await invoke(createHandlerTable(app.ctx), 'shelf.show', { edition: 'Week 49', shelf: 'Homepage row' });
   expect(live.ok).toBe(true);
-  const meter = (live as { ok: true; value: { meter: { intraListDistance: number | null } } }).value.meter;
+  const liveShelf = (live as { ok: true; value: { meter: { intraListDistance: number | null }; brief: Parameters<typeof bandFor>[0] } }).value;
+  const meter = liveShelf.meter;
   const variety = meter.intraListDistance === null ? '—' : meter.intraListDistance.toFixed(2);
   await expect(page.getByLabel('Shelf meter').locator('.reading', { hasText: 'Variety' })).toContainText(variety);
   await expect(page.locator('.history li')).toHaveText([/^Pinned .* to slot 2/, /^(Boosted|Sank) /, /^Banned /]);
@@ -64,10 +65,12 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
   const meterPanel = page.getByLabel('Shelf meter');
   const whatif = await invoke(createHandlerTable(app.ctx), 'shelf.whatif', { edition: 'Week 49', shelf: 'Homepage row', slot: 5, n: 200 });
   const row = (whatif as { ok: true; value: { candidates: { title: string; delta: Record<string, number | null> }[] } }).value.candidates.find((c) => c.title === candidate);
-  const expectedVariety = formatDelta(row?.delta.intraListDistance, 'n');
+  const change = describeChange('intraListDistance', meter.intraListDistance, row?.delta.intraListDistance, bandFor(liveShelf.brief, 'intraListDistance'));
+  const words = change.direction === 'closer' || change.direction === 'further' || change.direction === 'stays within' ? `, ${DIRECTION_WORDS[change.direction]}` : '';
+  const expectedVariety = `${change.text}${words}`;
   await first.hover();
   await expect(meterPanel).toContainText(`If ${candidate} went into slot 5:`);
-  await expect(meterPanel.locator('.reading', { hasText: 'Variety' }).locator('.delta')).toHaveText(` ${expectedVariety}`);
+  await expect(meterPanel.locator('.reading', { hasText: 'Variety' }).locator('.delta')).toHaveText(expectedVariety);
   await page.mouse.move(5, 5);
   await expect(meterPanel).toContainText('Point at or focus a candidate');
   await first.getByRole('button', { name: `Pin ${candidate} into slot 5` }).focus();

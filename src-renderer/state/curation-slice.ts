@@ -22,7 +22,7 @@ export interface LastChange {
 }
 
 /** Where an error is shown: beside the control the editor used. */
-export type ErrorArea = 'list' | 'new' | 'board' | 'addShelf' | 'shelf' | 'brief' | 'publish' | 'export' | 'compare';
+export type ErrorArea = 'list' | 'new' | 'board' | 'addShelf' | 'shelf' | 'brief' | 'targets' | 'publish' | 'export' | 'compare';
 
 export interface CurationSlice {
   curation: {
@@ -51,6 +51,8 @@ export interface CurationSlice {
   redo(): Promise<void>;
   refill(): Promise<void>;
   setBrief(brief: Brief): Promise<boolean>;
+  /** The meter's target bands on the open shelf's brief ({} = every reading back to its default band). */
+  setTargets(targets: RequestOf<'shelf.targets'>['targets']): Promise<boolean>;
   publish(): Promise<boolean>;
   exportEdition(format: ExportFormat): Promise<ExportResult | null>;
   compare(a: string, b: string): Promise<void>;
@@ -180,6 +182,7 @@ export function createCurationSlice(client: Client, clock: () => number): StateC
       redo: async () => void (await shelfCall('shelf', () => client.call('shelf.redo', refs()))),
       refill: async () => void (await shelfCall('shelf', () => client.call('shelf.fill', refs()))),
       setBrief: (brief) => shelfCall('brief', () => client.call('shelf.brief', { ...refs(), brief })),
+      setTargets: (targets) => shelfCall('targets', () => client.call('shelf.targets', { ...refs(), targets })),
       async publish() {
         const e = get().curation.edition;
         if (!e) return false;

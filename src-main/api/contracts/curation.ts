@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { TargetsSchema } from '../../core/curation/target-schema.ts';
+import { TargetsShape } from '../../core/curation/target-schema.ts';
 import { BriefSchema } from '../../core/editing/brief-schema.ts';
 import { method } from '../define.ts';
 
@@ -220,7 +220,7 @@ export const curationMethods = {
   }),
   'shelf.targets': method({
     summary: "Set the meter's target bands on a shelf's brief (readings left out keep their default band); the list is not filled again.",
-    request: z.object({ ...shelfRef, targets: TargetsSchema }).strict(),
+    request: z.object({ ...shelfRef, targets: TargetsShape }).strict(),
     response: ShelfView,
   }),
   'shelf.fill': method({

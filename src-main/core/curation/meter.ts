@@ -173,7 +173,10 @@ export function meterShelf(ctx: CurationContext, slots: Int32Array, inputs: Mete
   };
 }
 
-/** The shelf's and the audience's category shares, for every category either holds; largest audience share first. */
+/**
+ * The shelf's and the audience's category shares, for every category either holds; the categories that
+ * weigh most on either side first, so a short list shows both what the audience wants and what the shelf has.
+ */
 function categoryMix(ctx: CurationContext, audience: Float64Array, shelf: Float64Array): ShelfMeter['categoryMix'] {
   let sa = 0;
   let ss = 0;
@@ -185,5 +188,5 @@ function categoryMix(ctx: CurationContext, audience: Float64Array, shelf: Float6
     const s = ss > 0 ? (shelf[g] as number) / ss : 0;
     if (a > 0 || s > 0) out.push({ category: ctx.facets.category.values[g] as string, shelf: s, audience: a });
   }
-  return out.sort((x, y) => y.audience - x.audience || y.shelf - x.shelf || (x.category < y.category ? -1 : 1));
+  return out.sort((x, y) => Math.max(y.audience, y.shelf) - Math.max(x.audience, x.shelf) || y.audience - x.audience || (x.category < y.category ? -1 : 1));
 }

@@ -152,11 +152,21 @@ export function readingOf(m: MeterLike, key: ShelfReadingKey): number {
   return v === null || v === undefined ? NaN : v;
 }
 
+type Loose<T> = { [K in keyof T]?: T[K] | undefined };
+/** Targets as the api's schemas give them (ends may be present as undefined). */
+export type LooseTargets = Partial<Record<TargetKey, Loose<Band> | undefined>>;
+
+/** What of a brief the bands read: its sponsored limits and its targets (core's Brief, or the api's). */
+export interface BandSource {
+  rules: { promoted: Loose<Brief['rules']['promoted']> };
+  targets?: LooseTargets | undefined;
+}
+
 /**
  * The band a reading is held to on this brief: the brief's own target, else the default; the sponsored
  * shares take the brief's sponsored limits (count or exposure), so one band is never set in two places.
  */
-export function bandFor(brief: Pick<Brief, 'rules' | 'targets'>, key: ShelfReadingKey): Band {
+export function bandFor(brief: BandSource, key: ShelfReadingKey): Band {
   if (key === 'promotedShareCount') return clean({ min: brief.rules.promoted.minCount, max: brief.rules.promoted.maxCount });
   if (key === 'promotedShareExposure') return clean({ min: brief.rules.promoted.minExposure, max: brief.rules.promoted.maxExposure });
   return clean(brief.targets?.[key] ?? READINGS[key].defaultBand);
@@ -257,10 +267,11 @@ export function ageBinOf(days: number): number {
  * Checks targets as the brief's schema does not: a band's ends inside the reading's range and min ≤ max.
  * Returns the first problem in words, or null.
  */
-export function targetProblem(targets: Targets): string | null {
-  for (const [k, band] of Object.entries(targets) as [TargetKey, Band][]) {
-    const spec = READINGS[k];
+export function targetProblem(targets: LooseTargets): string | null {
+  for (const [k, b] of Object.entries(targets)) {
+    const spec = (TARGET_KEYS as readonly string[]).includes(k) ? READINGS[k as TargetKey] : undefined;
     if (!spec) return `'${k}' is not a reading with a target`;
+    const band = clean(b ?? {});
     for (const end of ['min', 'max'] as const) {
       const v = band[end];
       if (v === undefined) continue;

@@ -8,10 +8,12 @@ import { TARGET_KEYS, targetProblem, type Targets } from './readings.ts';
 
 const BandSchema = z.object({ min: z.number().optional(), max: z.number().optional() }).strict();
 
-export const TargetsSchema = z
+/** The shape alone: the api takes this and lets the service say a range problem in words (InputError). */
+export const TargetsShape = z
   .object(Object.fromEntries(TARGET_KEYS.map((k) => [k, BandSchema.optional()])) as Record<(typeof TARGET_KEYS)[number], z.ZodOptional<typeof BandSchema>>)
-  .strict()
-  .superRefine((t, ctx) => {
+  .strict();
+
+export const TargetsSchema = TargetsShape.superRefine((t, ctx) => {
     const problem = targetProblem(t as Targets);
-    if (problem) ctx.addIssue({ code: z.ZodIssueCode.custom, message: problem });
-  });
+  if (problem) ctx.addIssue({ code: z.ZodIssueCode.custom, message: problem });
+});

@@ -106,7 +106,7 @@ export interface ShelfMeter {
   promotedShareExposure: number;
   /** Steck's KL(p‖q̃) over its ceiling ln(1/α), in [0, 1]. */
   calibrationGap: number;
-  /** The shelf's category mix beside its audience's, for every category either has (shares, largest audience first). */
+  /** The shelf's category mix beside its audience's, for every category either has (shares; largest on either side first). */
   categoryMix: { category: string; shelf: number; audience: number }[];
   predictedRelevance: number;
   /** The share of predicted relevance the dials and rules give up against the best list (choice-cost.ts). */

@@ -24,6 +24,7 @@ import {
 } from '../../core/editing/index.ts';
 import { parseBrief } from '../../core/editing/brief-schema.ts';
 import { catalogueNames, checkBriefNames, checkName, type CatalogueNames } from '../../core/curation/brief-names.ts';
+import { targetProblem, type LooseTargets } from '../../core/curation/readings.ts';
 import type { Item } from '../../core/types.ts';
 import type { EditionRepo, Edition } from '../../store/editions.ts';
 import type { EditorialRepo } from '../../store/editorial-actions.ts';
@@ -253,7 +254,9 @@ export class CurationService {
    * band changes how readings are judged, not the list. Checked by the brief's own schema; a published
    * edition refuses (#draft).
    */
-  setTargets(edition: string, label: string, targets: unknown): ShelfView {
+  setTargets(edition: string, label: string, targets: LooseTargets): ShelfView {
+    const problem = targetProblem(targets);
+    if (problem) throw new InputError(problem);
     const world = this.world();
     return this.db.transaction(() => {
       const e = this.#draft(edition);

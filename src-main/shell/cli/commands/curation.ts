@@ -510,7 +510,7 @@ export const curationCommands: CliCommand[] = [
       if (env.json) env.io.out(JSON.stringify(r, null, 2));
       else {
         const current = await call(t, 'shelf.show', { edition: edition!, shelf: shelf! });
-        env.io.out(renderWhatIf(r, current.brief as unknown as Parameters<typeof renderWhatIf>[1]));
+        env.io.out(renderWhatIf(r, current.brief));
       }
       return EXIT.ok;
     },

@@ -10,6 +10,7 @@ import {
   SHELF_READING_KEYS,
   TARGET_KEYS,
   type Band,
+  type BandSource,
   type TargetKey,
   type Targets,
 } from '../../../core/curation/readings.ts';
@@ -34,7 +35,7 @@ const STATUS_WORDS = { below: 'below target', within: 'on target', above: 'above
 /** One row per reading: name, value, range, band in words and where the value stands. */
 export function renderMeter(v: Pick<ShelfView, 'meter' | 'brief'>): string {
   const m = v.meter;
-  const brief = v.brief as unknown as Brief;
+  const brief: BandSource = v.brief;
   const rows = SHELF_READING_KEYS.map((k) => {
     const spec = READINGS[k];
     const value = readingOf(m, k);

@@ -307,3 +307,45 @@ export function describeChange(key: ShelfReadingKey, before: number | null, delt
   const direction = text === 'no change' ? 'no change' : towardTarget(b, b + (delta ?? NaN), band);
   return { text, direction };
 }
+
+/** One reading as every surface prints it: the command line's table, the JSON and HTML exports. */
+export interface ReadingRow {
+  key: ShelfReadingKey;
+  name: string;
+  /** On the reading's scale; null without data. */
+  value: number | null;
+  /** The value as people read it ("0.48", "3%", "522 days"). */
+  text: string;
+  range: string;
+  target: Band;
+  /** "target 0.40 or more", "no target". */
+  targetText: string;
+  status: BandStatus;
+}
+
+export function readingRows(m: MeterLike, brief: BandSource): ReadingRow[] {
+  return SHELF_READING_KEYS.map((key) => {
+    const spec = READINGS[key];
+    const v = readingOf(m, key);
+    const target = bandFor(brief, key);
+    return {
+      key,
+      name: spec.name,
+      value: Number.isFinite(v) ? v : null,
+      text: formatReading(spec, v),
+      range: formatRange(spec),
+      target,
+      targetText: describeBand(spec, target),
+      status: bandStatus(v, target),
+    };
+  });
+}
+
+/**
+ * Whether a stored meter is on these scales: meters stored before them (in editions published earlier)
+ * lack `noveltyBits`, and their variety, novelty and calibration gap are on other scales, so surfaces
+ * that read a stored meter leave such a one out rather than print it under these names.
+ */
+export function onCurrentScales(m: object | null | undefined): boolean {
+  return !!m && 'noveltyBits' in m;
+}

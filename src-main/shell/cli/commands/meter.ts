@@ -1,13 +1,9 @@
 import type { ShelfView } from '../../../api/contracts/curation.ts';
 import {
-  bandFor,
-  bandStatus,
   describeBand,
   formatRange,
-  formatReading,
   READINGS,
-  readingOf,
-  SHELF_READING_KEYS,
+  readingRows,
   TARGET_KEYS,
   type Band,
   type BandSource,
@@ -36,12 +32,7 @@ const STATUS_WORDS = { below: 'below target', within: 'on target', above: 'above
 export function renderMeter(v: Pick<ShelfView, 'meter' | 'brief'>): string {
   const m = v.meter;
   const brief: BandSource = v.brief;
-  const rows = SHELF_READING_KEYS.map((k) => {
-    const spec = READINGS[k];
-    const value = readingOf(m, k);
-    const band = bandFor(brief, k);
-    return [spec.name, formatReading(spec, value), formatRange(spec), describeBand(spec, band), STATUS_WORDS[bandStatus(value, band)]];
-  });
+  const rows = readingRows(m, brief).map((r) => [r.name, r.text, r.range, r.targetText, STATUS_WORDS[r.status]]);
   const sat =
     m.saturatedSlots.length > 0
       ? `\n${m.saturatedSlots.length === 1 ? 'Slot' : 'Slots'} ${m.saturatedSlots.join(', ')}: most of this audience already has ${m.saturatedSlots.length === 1 ? 'this item' : 'these items'}.`

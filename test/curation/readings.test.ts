@@ -60,6 +60,14 @@ describe('calibration gap on [0, 1]', () => {
     expect(meterShelf(ctx, Int32Array.of(0, 1), { ...base, audienceCategories: Float64Array.of(1, 1, 0) }).calibrationGap).toBeCloseTo(0, 12);
   });
 
+  it('reads about 0.52 at best for 8 slots over 20 equally liked categories (a short shelf cannot cover them)', () => {
+    // By hand from Steck (2018)'s KL with α = 0.01: 8 categories at q = 1/8 give q̃ = 0.99/8 + 0.0005 = 0.12425,
+    // 12 absent ones q̃ = 0.0005; KL = 0.4·ln(0.05/0.12425) + 0.6·ln(100) = 2.39899 nats → 2.39899 / ln 100.
+    const p = new Array(20).fill(1);
+    const q = p.map((_, g) => (g < 8 ? 1 : 0));
+    expect(calibrationGap(p, q) / CALIBRATION_GAP_CEILING).toBeCloseTo(0.520934, 5);
+  });
+
   it('never leaves [0, 1] for any audience and shelf mix', () => {
     const weights = fc.array(fc.integer({ min: 0, max: 20 }), { minLength: 4, maxLength: 4 }).filter((w) => w.some((x) => x > 0));
     fc.assert(

@@ -104,6 +104,12 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
 
   // Reordering by mouse: the card lands on the slot under the pointer (issue 12).
   const sixth = (await slot(6).locator('.slot-title').innerText()).replace(/\s*(Sponsored|Pinned)\s*/g, '').trim();
+  // As an editor would: scroll so slot 3 sits just below the meter strip, which stays at the top of the
+  // window (issue 12 item 4), with slot 6 in view below it; a pointer can only drag what it can reach.
+  await slot(3).evaluate((el) => {
+    const strip = document.querySelector('.meter-strip')?.getBoundingClientRect().bottom ?? 0;
+    window.scrollBy(0, el.getBoundingClientRect().top - strip - 8);
+  });
   const grip = (await slot(6).getByRole('button', { name: /^Move / }).boundingBox())!;
   const onto = (await slot(3).boundingBox())!;
   await page.mouse.move(grip.x + grip.width / 2, grip.y + grip.height / 2);

@@ -53,6 +53,7 @@ test('meter gauges, a target band set through the page, what-if words, a sticky 
   await details.getByText('Set targets for this shelf').click();
   await details.getByLabel('Variety, at least').fill('0.99');
   await details.getByLabel('Price of choices, at most (percent)').fill('50');
+  expect(await seriousA11yViolations(page)).toEqual([]);
   await details.getByRole('button', { name: 'Save targets' }).click();
   await expect(variety).toContainText('below target, ≥ 0.99target 0.99 or more');
   await expect(meter.locator('.gauge', { hasText: 'Price of choices' })).toContainText(/(on target|no data yet), ≤ 50%target 50% or less/);

@@ -166,7 +166,10 @@ function CategoryMix({ mix }: { mix: ShelfMeter['categoryMix'] }) {
           ))}
           {rest.length > 0 && (
             <li className="muted">
-              <span className="mix-name">{rest.length} more {rest.length === 1 ? 'category' : 'categories'}</span>
+              <span className="mix-name">
+                {rest.length} other{rest.length === 1 ? '' : 's'}
+                <span className="sr-only"> {rest.length === 1 ? 'category' : 'categories'}</span>
+              </span>
               <span className="mix-bars" aria-hidden="true">
                 <span className="mix-bar mix-shelf" style={{ width: `${restShelf * 100}%` }} />
                 <span className="mix-bar mix-audience" style={{ width: `${restAudience * 100}%` }} />

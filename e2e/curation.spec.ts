@@ -105,10 +105,13 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
   // Reordering by mouse: the card lands on the slot under the pointer (issue 12).
   const sixth = (await slot(6).locator('.slot-title').innerText()).replace(/\s*(Sponsored|Pinned)\s*/g, '').trim();
   // As an editor would: scroll so slot 3 sits just below the meter strip, which stays at the top of the
-  // window (issue 12 item 4), with slot 6 in view below it; a pointer can only drag what it can reach.
+  // window (issue 12 item 4), with slot 6 in view below it; a pointer can only drag what it can reach. The
+  // window is made taller for the drag so that slot 3 lies clear of dnd-kit's auto-scroll band (the top 20%
+  // of the window), which the dragged card would otherwise enter under the strip and scroll the list away.
+  await page.setViewportSize({ width: 1280, height: 1000 });
   await slot(3).evaluate((el) => {
     const strip = document.querySelector('.meter-strip')?.getBoundingClientRect().bottom ?? 0;
-    window.scrollBy(0, el.getBoundingClientRect().top - strip - 8);
+    window.scrollBy(0, el.getBoundingClientRect().top - strip - 60);
   });
   const grip = (await slot(6).getByRole('button', { name: /^Move / }).boundingBox())!;
   const onto = (await slot(3).boundingBox())!;
@@ -119,6 +122,7 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
   await page.mouse.up();
   await expect(slot(3).locator('.slot-title')).toContainText(sixth);
   await expect(page.locator('.history li').last()).toContainText(`Moved ${sixth}, slot 6 → 3`);
+  await page.setViewportSize({ width: 1280, height: 800 });
 
   const axe = await new AxeBuilder({ page }).analyze();
   expect(axe.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.help}`)).toEqual([]);

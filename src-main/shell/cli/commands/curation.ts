@@ -10,6 +10,7 @@ import { formatNumber, table } from '../format.ts';
 import { UsageError } from '../command.ts';
 import { renderWhatIf } from './meter-whatif.ts';
 import { meterCommands, renderMeter } from './meter.ts';
+import { EDITION_READINGS } from '../../../core/curation/readings.ts';
 
 /** Editions, shelves and editorial actions on the command line. Thin: flags → one api call → print. */
 
@@ -315,7 +316,7 @@ export const curationCommands: CliCommand[] = [
           [
             `edition '${v.label}' (${v.date}, ${v.status})`,
             ...v.shelves.map(renderShelf),
-            `edition meter: ${m.distinctItems} distinct items · supplier exposure Gini ${val(m.supplierExposureGini)} · ${m.overlaps.length} overlapping shelf pairs`,
+            `edition meter: ${EDITION_READINGS.distinctItems.name} ${m.distinctItems} · ${EDITION_READINGS.supplierExposureGini.name} ${val(m.supplierExposureGini)} (0–1) · ${m.overlaps.length} overlapping shelf pairs`,
           ].join('\n\n'),
         );
       }

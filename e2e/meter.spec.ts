@@ -92,5 +92,13 @@ test('meter gauges, a target band set through the page, what-if words, a sticky 
     expect(box!.y).toBeGreaterThanOrEqual(-1);
     expect(box!.y).toBeLessThan(2);
     await expect(variety).toBeInViewport();
+    // A control reached by keyboard scrolls into view below the strip, not under it (WCAG 2.2, 2.4.11).
+    const boost = page.getByRole('list', { name: 'Slots' }).getByRole('listitem', { name: /^Slot 1:/ }).getByRole('button', { name: 'Boost' });
+    // Put the button under the strip (inside the window, so nothing else would scroll it), then reach it.
+    await page.evaluate(() => (document.activeElement as HTMLElement | null)?.blur());
+    await boost.evaluate((el, stripBottom) => window.scrollBy(0, el.getBoundingClientRect().top - (stripBottom - 30)), box!.y + box!.height);
+    expect((await boost.boundingBox())!.y).toBeLessThan(box!.y + box!.height);
+    await boost.focus();
+    await expect.poll(async () => (await boost.boundingBox())!.y).toBeGreaterThanOrEqual(box!.y + box!.height);
   }
 });

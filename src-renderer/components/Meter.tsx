@@ -1,3 +1,4 @@
+import { useEffect, useRef } from 'react';
 import { describeChoiceCost } from '../../src-main/core/curation/choice-cost.ts';
 import {
   AGE_BINS,
@@ -70,6 +71,28 @@ function shortBand(spec: ReadingSpec, band: Band): string {
   return `≤ ${f(band.max ?? NaN)}`;
 }
 
+/**
+ * The strip's height as the page's scroll padding (styles.css `--sticky-top`), so a control reached by
+ * keyboard is scrolled into view below the strip, never under it (WCAG 2.2, 2.4.11 Focus Not Obscured).
+ */
+function useStickyTop() {
+  const ref = useRef<HTMLElement | null>(null);
+  useEffect(() => {
+    const el = ref.current;
+    if (!el) return;
+    const root = document.documentElement;
+    const set = () => root.style.setProperty('--sticky-top', `${Math.ceil(el.getBoundingClientRect().height) + 8}px`);
+    set();
+    const ro = typeof ResizeObserver === 'undefined' ? null : new ResizeObserver(set);
+    ro?.observe(el);
+    return () => {
+      ro?.disconnect();
+      root.style.removeProperty('--sticky-top');
+    };
+  }, []);
+  return ref;
+}
+
 /** The value as the gauge's headline: shares as %, days as days, scores with their 0–1 range beside them. */
 function valueText(spec: ReadingSpec, v: number): string {
   const text = formatReading(spec, v);
@@ -82,8 +105,9 @@ function valueText(spec: ReadingSpec, v: number): string {
  * shows the change in words and whether it moves toward the shelf's target.
  */
 export function ShelfMeterPanel({ meter, brief, title = 'Meter', preview }: { meter: ShelfMeter; brief: BriefBands; title?: string; preview?: MeterPreview | null }) {
+  const strip = useStickyTop();
   return (
-    <section className="panel meter meter-strip" aria-label={title}>
+    <section ref={strip} className="panel meter meter-strip" aria-label={title}>
       <div className="meter-head">
         <h2>{title}</h2>
         <p className="small muted preview-line" aria-live="polite">

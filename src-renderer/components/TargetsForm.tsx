@@ -34,7 +34,13 @@ function TargetFields({ brief, disabled }: { brief: BandSource; disabled: boolea
   const busy = useApp((s) => s.curation.busy);
   const error = useApp((s) => s.curation.errors.targets);
   const id = useId();
-  const initial = () => Object.fromEntries(TARGET_KEYS.map((k) => { const b = bandFor(brief, k); return [k, { min: toText(k, b.min), max: toText(k, b.max) }]; })) as Record<TargetKey, { min: string; max: string }>;
+  const initial = () =>
+    Object.fromEntries(
+      TARGET_KEYS.map((k) => {
+        const b = bandFor(brief, k);
+        return [k, { min: toText(k, b.min), max: toText(k, b.max) }];
+      }),
+    ) as Record<TargetKey, { min: string; max: string }>;
   const [text, setText] = useState(initial);
   const save = () => {
     const targets: Targets = {};
@@ -49,61 +55,61 @@ function TargetFields({ brief, disabled }: { brief: BandSource; disabled: boolea
     void setTargets(targets);
   };
   return (
-      <form
-        onSubmit={(e) => {
-          e.preventDefault();
-          save();
-        }}
-      >
-        <p className="small muted">Leave an end empty for no limit. Shares are in percent; median age in days. Sponsored shares follow the brief’s sponsored limits.</p>
-        <table className="targets-table">
-          <thead>
-            <tr>
-              <th scope="col">Reading</th>
-              <th scope="col">At least</th>
-              <th scope="col">At most</th>
-            </tr>
-          </thead>
-          <tbody>
-            {TARGET_KEYS.map((k) => {
-              const spec = READINGS[k];
-              const unit = spec.unit === 'share' ? '%' : spec.unit === 'days' ? 'days' : '0–1';
-              return (
-                <tr key={k}>
-                  <th scope="row" id={`${id}-${k}`}>
-                    {spec.name} <span className="muted small">({unit})</span>
-                  </th>
-                  {(['min', 'max'] as const).map((end) => (
-                    <td key={end}>
-                      <input
-                        type="number"
-                        inputMode="decimal"
-                        step="any"
-                        aria-label={`${spec.name}, ${end === 'min' ? 'at least' : 'at most'}${spec.unit === 'share' ? ' (percent)' : spec.unit === 'days' ? ' (days)' : ''}`}
-                        value={text[k][end]}
-                        disabled={disabled}
-                        onChange={(e) => setText((t) => ({ ...t, [k]: { ...t[k], [end]: e.target.value } }))}
-                      />
-                    </td>
-                  ))}
-                </tr>
-              );
-            })}
-          </tbody>
-        </table>
-        <div className="toolbar">
-          <button type="submit" disabled={disabled || busy}>
-            Save targets
-          </button>
-          <button type="button" className="quiet" disabled={disabled || busy} onClick={() => void setTargets({})}>
-            Back to defaults
-          </button>
-        </div>
-        {error && (
-          <p className="error" role="alert">
-            Targets not saved: {error}
-          </p>
-        )}
-      </form>
+    <form
+      onSubmit={(e) => {
+        e.preventDefault();
+        save();
+      }}
+    >
+      <p className="small muted">Leave an end empty for no limit. Shares are in percent; median age in days. Sponsored shares follow the brief’s sponsored limits.</p>
+      <table className="targets-table">
+        <thead>
+          <tr>
+            <th scope="col">Reading</th>
+            <th scope="col">At least</th>
+            <th scope="col">At most</th>
+          </tr>
+        </thead>
+        <tbody>
+          {TARGET_KEYS.map((k) => {
+            const spec = READINGS[k];
+            const unit = spec.unit === 'share' ? '%' : spec.unit === 'days' ? 'days' : '0–1';
+            return (
+              <tr key={k}>
+                <th scope="row" id={`${id}-${k}`}>
+                  {spec.name} <span className="muted small">({unit})</span>
+                </th>
+                {(['min', 'max'] as const).map((end) => (
+                  <td key={end}>
+                    <input
+                      type="number"
+                      inputMode="decimal"
+                      step="any"
+                      aria-label={`${spec.name}, ${end === 'min' ? 'at least' : 'at most'}${spec.unit === 'share' ? ' (percent)' : spec.unit === 'days' ? ' (days)' : ''}`}
+                      value={text[k][end]}
+                      disabled={disabled}
+                      onChange={(e) => setText((t) => ({ ...t, [k]: { ...t[k], [end]: e.target.value } }))}
+                    />
+                  </td>
+                ))}
+              </tr>
+            );
+          })}
+        </tbody>
+      </table>
+      <div className="toolbar">
+        <button type="submit" disabled={disabled || busy}>
+          Save targets
+        </button>
+        <button type="button" className="quiet" disabled={disabled || busy} onClick={() => void setTargets({})}>
+          Back to defaults
+        </button>
+      </div>
+      {error && (
+        <p className="error" role="alert">
+          Targets not saved: {error}
+        </p>
+      )}
+    </form>
   );
 }

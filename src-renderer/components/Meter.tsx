@@ -157,6 +157,13 @@ function Gauge({ k, meter, brief, preview }: { k: ShelfReadingKey; meter: ShelfM
   );
 }
 
+/** The band a shelf has until its brief sets one, in words for the help list. */
+function defaultWords(spec: ReadingSpec): string {
+  if (spec.key === 'promotedShareCount' || spec.key === 'promotedShareExposure') return '';
+  const d = describeBand(spec, spec.defaultBand);
+  return d === 'no target' ? ' No target unless you set one.' : ` Default ${d}.`;
+}
+
 const MIX_ROWS = 6;
 
 /** The shelf's category mix beside its audience's: one pair of bars per category, the weightiest on either side first. */
@@ -269,7 +276,10 @@ export function MeterDetails({ meter, children }: { meter: ShelfMeter; children?
           <div key={k}>
             <dt>{READINGS[k].name}</dt>
             <dd id={`help-${k}`}>
-              {READINGS[k].help} <span className="muted">Range {formatRange(READINGS[k])}.</span>
+              {READINGS[k].help}{' '}
+              <span className="muted">
+                Range {formatRange(READINGS[k])}.{defaultWords(READINGS[k])}
+              </span>
             </dd>
           </div>
         ))}

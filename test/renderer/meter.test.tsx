@@ -81,5 +81,11 @@ describe('the shelf meter at a glance', () => {
     fireEvent.click(within(details).getByRole('button', { name: 'Save targets' }));
     expect((await within(details).findByRole('alert')).textContent).toBe("Targets not saved: Novelty: the target's upper end must be within 0–1, got 3.00");
     expect(app.store.getState().curation.edition!.shelves[0]!.brief.targets).toEqual(shelf.brief.targets);
+
+    // Back to the stated defaults: variety 0.40 or more again.
+    fireEvent.click(within(details).getByRole('button', { name: 'Back to defaults' }));
+    await waitFor(() => expect(app.store.getState().curation.edition!.shelves[0]!.brief.targets).toEqual({}));
+    await waitFor(() => expect(within(strip).getAllByRole('listitem')[0]!.textContent).toMatch(/target, ≥ 0\.40target 0\.40 or more$/));
+    expect((within(details).getByLabelText('Variety, at least') as HTMLInputElement).value).toBe('0.4');
   });
 });

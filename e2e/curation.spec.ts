@@ -1,7 +1,7 @@
 import AxeBuilder from '@axe-core/playwright';
 import fs from 'node:fs';
 import { createHandlerTable, invoke } from '../src-main/api/handler-table.ts';
-import { formatDelta } from '../src-renderer/components/Meter.tsx';
+import { bandFor, describeChange, DIRECTION_WORDS } from '../src-main/core/curation/readings.ts';
 import { expect, test } from './fixtures.ts';
 
 /**
@@ -47,7 +47,8 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
   // The meter on screen is the live one: it equals what the api reports for the shelf now.
   const live = await invoke(createHandlerTable(app.ctx), 'shelf.show', { edition: 'Week 49', shelf: 'Homepage row' });
   expect(live.ok).toBe(true);
-  const meter = (live as { ok: true; value: { meter: { intraListDistance: number | null } } }).value.meter;
+  const liveShelf = (live as { ok: true; value: { meter: { intraListDistance: number | null }; brief: Parameters<typeof bandFor>[0] } }).value;
+  const meter = liveShelf.meter;
   const variety = meter.intraListDistance === null ? '—' : meter.intraListDistance.toFixed(2);
   await expect(page.getByLabel('Shelf meter').locator('.reading', { hasText: 'Variety' })).toContainText(variety);
   await expect(page.locator('.history li')).toHaveText([/^Pinned .* to slot 2/, /^(Boosted|Sank) /, /^Banned /]);
@@ -64,10 +65,12 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
   const meterPanel = page.getByLabel('Shelf meter');
   const whatif = await invoke(createHandlerTable(app.ctx), 'shelf.whatif', { edition: 'Week 49', shelf: 'Homepage row', slot: 5, n: 200 });
   const row = (whatif as { ok: true; value: { candidates: { title: string; delta: Record<string, number | null> }[] } }).value.candidates.find((c) => c.title === candidate);
-  const expectedVariety = formatDelta(row?.delta.intraListDistance, 'n');
+  const change = describeChange('intraListDistance', meter.intraListDistance, row?.delta.intraListDistance, bandFor(liveShelf.brief, 'intraListDistance'));
+  const words = change.direction === 'closer' || change.direction === 'further' || change.direction === 'stays within' ? `, ${DIRECTION_WORDS[change.direction]}` : '';
+  const expectedVariety = `${change.text}${words}`;
   await first.hover();
   await expect(meterPanel).toContainText(`If ${candidate} went into slot 5:`);
-  await expect(meterPanel.locator('.reading', { hasText: 'Variety' }).locator('.delta')).toHaveText(` ${expectedVariety}`);
+  await expect(meterPanel.locator('.reading', { hasText: 'Variety' }).locator('.delta')).toHaveText(expectedVariety);
   await page.mouse.move(5, 5);
   await expect(meterPanel).toContainText('Point at or focus a candidate');
   await first.getByRole('button', { name: `Pin ${candidate} into slot 5` }).focus();
@@ -101,6 +104,15 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
 
   // Reordering by mouse: the card lands on the slot under the pointer (issue 12).
   const sixth = (await slot(6).locator('.slot-title').innerText()).replace(/\s*(Sponsored|Pinned)\s*/g, '').trim();
+  // As an editor would: scroll so slot 3 sits just below the meter strip, which stays at the top of the
+  // window (issue 12 item 4), with slot 6 in view below it; a pointer can only drag what it can reach. The
+  // window is made taller for the drag so that slot 3 lies clear of dnd-kit's auto-scroll band (the top 20%
+  // of the window), which the dragged card would otherwise enter under the strip and scroll the list away.
+  await page.setViewportSize({ width: 1280, height: 1000 });
+  await slot(3).evaluate((el) => {
+    const strip = document.querySelector('.meter-strip')?.getBoundingClientRect().bottom ?? 0;
+    window.scrollBy(0, el.getBoundingClientRect().top - strip - 60);
+  });
   const grip = (await slot(6).getByRole('button', { name: /^Move / }).boundingBox())!;
   const onto = (await slot(3).boundingBox())!;
   await page.mouse.move(grip.x + grip.width / 2, grip.y + grip.height / 2);
@@ -110,6 +122,7 @@ test('an edition with two shelves: pin, boost, ban, live meter, publish, export'
   await page.mouse.up();
   await expect(slot(3).locator('.slot-title')).toContainText(sixth);
   await expect(page.locator('.history li').last()).toContainText(`Moved ${sixth}, slot 6 → 3`);
+  await page.setViewportSize({ width: 1280, height: 800 });
 
   const axe = await new AxeBuilder({ page }).analyze();
   expect(axe.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical').map((v) => `${v.id}: ${v.help}`)).toEqual([]);

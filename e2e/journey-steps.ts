@@ -108,7 +108,7 @@ async function timeAction(page: Page, click: () => Promise<void>, shown: Shown[]
 
 /** The meter's readings as shown, one string per reading, without the what-if line. */
 async function meterText(page: Page): Promise<string[]> {
-  return page.getByLabel('Shelf meter').locator('.reading dd').evaluateAll((els) => els.map((e) => e.firstChild?.textContent ?? ''));
+  return page.getByLabel('Shelf meter').locator('.reading .gauge-value').evaluateAll((els) => els.map((e) => e.textContent ?? ''));
 }
 
 async function editShelf(page: Page, o: JourneyOptions): Promise<void> {
@@ -144,10 +144,10 @@ async function editShelf(page: Page, o: JourneyOptions): Promise<void> {
   await expect(history).toHaveText([/^Pinned /, /^Boosted /]);
   console.log(`timing: boost shown in list and meter ${boostMs.toFixed(0)} ms after the click`);
   const banned = await title(1);
-  const meterBefore = (await page.locator('[aria-label="Shelf meter"] .readings').textContent()) ?? '';
+  const meterBefore = (await page.locator('[aria-label="Shelf meter"] .gauges').textContent()) ?? '';
   const banMs = await timeAction(page, () => slot(1).getByRole('button', { name: 'Ban' }).click(), [
     { selector: 'ol[aria-label="Slots"]', text: banned, present: false },
-    { selector: '[aria-label="Shelf meter"] .readings', text: meterBefore, present: false },
+    { selector: '[aria-label="Shelf meter"] .gauges', text: meterBefore, present: false },
   ]);
   await expect(slots).not.toContainText(banned);
   console.log(`timing: ban shown in list and meter ${banMs.toFixed(0)} ms after the click`);
@@ -156,7 +156,7 @@ async function editShelf(page: Page, o: JourneyOptions): Promise<void> {
   // The meter on screen is the live one (equal to the api's now) and moved with the ban.
   const live = await o.api('shelf.show', { edition: 'Week 1', shelf: 'Homepage row' });
   const variety = live.meter.intraListDistance === null ? '—' : (live.meter.intraListDistance as number).toFixed(2);
-  await expect(page.getByLabel('Shelf meter').locator('.reading', { hasText: 'Variety' }).locator('dd')).toContainText(variety);
+  await expect(page.getByLabel('Shelf meter').locator('.reading', { hasText: 'Variety' }).locator('.gauge-value')).toContainText(variety);
   expect(await meterText(page)).not.toEqual(before);
 
   // Anchors: search, add, remove, add again; rank the pool towards them and pin a proposal.

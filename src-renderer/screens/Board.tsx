@@ -1,4 +1,5 @@
 import { useId, useState, type FormEvent } from 'react';
+import { formatReading, READINGS } from '../../src-main/core/curation/readings.ts';
 import { EditionMeterPanel } from '../components/Meter.tsx';
 import { pct } from '../components/format.ts';
 import { ItemPicture } from '../components/ItemPicture.tsx';
@@ -94,7 +95,8 @@ export function Board() {
                 {s.locked ? ' · locked: its list stays as it is until unlocked' : ''}
               </p>
               <p>
-                Variety {s.meter.intraListDistance?.toFixed(2) ?? '—'} · Sponsored {sponsored} ({pct(s.meter.promotedShareCount)})
+                {READINGS.intraListDistance.name} {formatReading(READINGS.intraListDistance, s.meter.intraListDistance)} (0–1) · Sponsored {sponsored} (
+                {pct(s.meter.promotedShareCount)})
               </p>
               {s.violations.length > 0 && <p className="warn">{s.violations.length} rule{s.violations.length === 1 ? '' : 's'} not met</p>}
               <ol className="mini-slots">

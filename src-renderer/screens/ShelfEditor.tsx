@@ -5,10 +5,11 @@ import { AnchorPicker } from '../components/AnchorPicker.tsx';
 import { BanPanel } from '../components/BanPanel.tsx';
 import { BriefEditor } from '../components/BriefEditor.tsx';
 import { CandidatePool } from '../components/CandidatePool.tsx';
-import { ShelfMeterPanel } from '../components/Meter.tsx';
+import { MeterDetails, ShelfMeterPanel } from '../components/Meter.tsx';
 import { PublishedBanner } from '../components/PublishedBanner.tsx';
 import { BacktestPanel, SimilarPanel } from '../components/ShelfInsights.tsx';
 import { SlotList } from '../components/SlotList.tsx';
+import { TargetsForm } from '../components/TargetsForm.tsx';
 import { changeMarks, describeChanges } from '../components/change-words.ts';
 import { useApp } from '../state/store.ts';
 
@@ -120,11 +121,14 @@ export function ShelfEditor() {
           </ul>
         </div>
       )}
+      <ShelfMeterPanel meter={shelf.meter} brief={shelf.brief} title="Shelf meter" preview={preview} />
       <div className="editor-grid">
         <SlotList slots={shelf.slots} readOnly={readOnly} busy={busy} marks={changeMarks(change?.changes ?? null)} onAct={(a) => void act(a)} />
         <div className="side">
-          <ShelfMeterPanel meter={shelf.meter} title="Shelf meter" preview={preview} dials={describeAutoDials(shelf.brief.autoDials, shelf.brief.weights)} />
           <CandidatePool shelf={shelf} slot={Math.min(slot, shelf.size)} onSlot={setSlot} readOnly={readOnly} onAct={(a) => void act(a)} />
+          <MeterDetails meter={shelf.meter} dials={describeAutoDials(shelf.brief.autoDials, shelf.brief.weights)}>
+            <TargetsForm brief={shelf.brief} disabled={published} />
+          </MeterDetails>
           <BacktestPanel shelf={shelf} />
           <SimilarPanel key={shelf.label} shelf={shelf} />
           <BanPanel shelf={shelf} readOnly={readOnly} />

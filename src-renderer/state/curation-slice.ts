@@ -24,7 +24,7 @@ export interface LastChange {
 }
 
 /** Where an error is shown: beside the control the editor used. */
-export type ErrorArea = 'list' | 'new' | 'board' | 'addShelf' | 'shelf' | 'brief' | 'ban' | 'names' | 'publish' | 'export' | 'compare';
+export type ErrorArea = 'list' | 'new' | 'board' | 'addShelf' | 'shelf' | 'brief' | 'ban' | 'names' | 'targets' | 'publish' | 'export' | 'compare';
 
 export interface CurationSlice {
   curation: {
@@ -58,6 +58,8 @@ export interface CurationSlice {
   setBrief(brief: Brief): Promise<boolean>;
   /** A ban on a category, supplier or tag with its scope (shown beside the ban form, not the slots). */
   banRule(facet: 'category' | 'supplier' | 'tag', value: string, scope: string): Promise<boolean>;
+  /** The meter's target bands on the open shelf's brief ({} = every reading back to its default band). */
+  setTargets(targets: RequestOf<'shelf.targets'>['targets']): Promise<boolean>;
   publish(): Promise<boolean>;
   exportEdition(format: ExportFormat): Promise<ExportResult | null>;
   compare(a: string, b: string): Promise<void>;
@@ -197,6 +199,7 @@ export function createCurationSlice(client: Client, clock: () => number): StateC
           set((s) => ({ curation: { ...s.curation, errors: { ...s.curation.errors, names: describeError(e) } } }));
         }
       },
+      setTargets: (targets) => shelfCall('targets', () => client.call('shelf.targets', { ...refs(), targets })),
       async publish() {
         const e = get().curation.edition;
         if (!e) return false;

@@ -47,7 +47,7 @@ describe('shelfwright edition and shelf commands', () => {
       const r = await run('shelf', 'add', 'week 10', label, '--size', size, '--rest', '1');
       expect(r.code).toBe(0);
       expect(r.out).toMatch(new RegExp(`week 10 / ${label}`));
-      expect(r.out).toMatch(/meter: distance/);
+      expect(r.out).toMatch(/^Variety +\d\.\d\d +0–1 /m);
     }
 
     const pinned = await json('shelf', 'pin', 'week 10', 'Front', 'SKU-012', '--slot', '1', '--reason', 'launch week');
@@ -74,7 +74,7 @@ describe('shelfwright edition and shelf commands', () => {
 
     const meter = await run('shelf', 'meter', 'week 10', 'Front');
     expect(meter.code).toBe(0);
-    expect(meter.out).toMatch(/sponsored \d+% of slots/);
+    expect(meter.out).toMatch(/^Sponsored slots +\d+% +0–100% +target 20% or less/m);
     // The price of the editor's choices, in words (the pin of a low-ranked item in slot 1 costs something).
     expect(meter.out).toMatch(/^These choices cost \d+% of predicted relevance against the most relevant list for this audience\.$/m);
     // A shelf added without weights had its dials set for its brief, and the meter says so (issue 10 item 4).

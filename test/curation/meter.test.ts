@@ -53,22 +53,32 @@ describe('meterShelf', () => {
     const m = meterShelf(ctx, Int32Array.of(0, 1, 2, 3), inputs);
     // Ages 10, 20, 40, 100 days: median (20 + 40)/2 = 30, mean 42.5, two of four under 30 days.
     expect(m.age).toEqual({ medianDays: 30, meanDays: 42.5, newestDays: 10, oldestDays: 100, shareUnder30Days: 0.5 });
-    // Zhou et al. (2010): self-information −log2 p = 1, 2, 3, 1 → mean 1.75 bits.
-    expect(m.novelty).toBeCloseTo(1.75, 12);
+    // Zhou et al. (2010): self-information −log2 p = 1, 2, 3, 1 → mean 1.75 bits. The ceiling is −log2 of
+    // the floor, half the smallest share (0.125 / 2 → 4 bits), so novelty on [0, 1] is 1.75 / 4.
+    expect(m.noveltyBits).toBeCloseTo(1.75, 12);
+    expect(m.novelty).toBeCloseTo(1.75 / 4, 12);
     expect(m.promotedShareCount).toBe(0.25);
     expect(m.promotedShareExposure).toBeCloseTo(
       1 / Math.log2(3) / (1 + 1 / Math.log2(3) + 0.5 + 1 / Math.log2(5)),
       12,
     );
-    // Steck (2018), α = 0.01: audience (0.5, 0.5), shelf 3 Lamps : 1 Rug = (0.75, 0.25); by hand 0.140535.
-    expect(m.calibrationGap).toBeCloseTo(0.140535, 6);
+    // Steck (2018), α = 0.01: audience (0.5, 0.5), shelf 3 Lamps : 1 Rug = (0.75, 0.25); by hand 0.140535
+    // nats, over the ceiling ln(1/α) = ln 100 = 4.605170 → 0.030517.
+    expect(m.calibrationGap).toBeCloseTo(0.140535 / Math.log(100), 6);
+    expect(m.categoryMix).toEqual([
+      { category: 'Lamps', shelf: 0.75, audience: 0.5 },
+      { category: 'Rugs', shelf: 0.25, audience: 0.5 },
+    ]);
+    // Ages 10, 20, 40, 100 days → bins under 1 week, 1–4 weeks (10, 20), 1–3 months (40), 3–12 months (100).
+    expect(m.ageHistogram).toEqual([0, 2, 1, 1, 0]);
     // Relevance of the scored items only (the Rug is outside the pool): (0.9 + 0.7 + 0.5) / 3.
     expect(m.predictedRelevance).toBeCloseTo(0.7, 12);
     expect(m.saturation).toEqual([0.6, 0.2, 0.5, 0.9]);
     // Strictly above 0.5: 0.5 itself is not flagged.
     expect(m.saturatedSlots).toEqual([0, 3]);
-    // cos: AB .8, AC 0, AD .6, BC .6, BD .96, CD .8 → mean distance (0.2 + 1 + 0.4 + 0.4 + 0.04 + 0.2) / 6.
-    expect(m.intraListDistance).toBeCloseTo(2.24 / 6, 6);
+    // cos: AB .8, AC 0, AD .6, BC .6, BD .96, CD .8 → mean distance (0.2 + 1 + 0.4 + 0.4 + 0.04 + 0.2) / 6,
+    // halved onto [0, 1] as variety.
+    expect(m.intraListDistance).toBeCloseTo(2.24 / 12, 6);
   });
 
   it('skips unknown dates and empty slots, and gives NaN where there is no data', () => {

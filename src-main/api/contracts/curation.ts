@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { TargetsShape } from '../../core/curation/target-schema.ts';
 import { BriefSchema } from '../../core/editing/brief-schema.ts';
 import { method } from '../define.ts';
 
@@ -11,18 +12,24 @@ const reading = z.number().nullable();
 const label = (what: string) => z.string().trim().min(1, `name the ${what}`);
 const shelfRef = { edition: label('edition'), shelf: label('shelf') };
 
+/** Each reading on the scale, and under the name, of core/curation/readings.ts. */
 export const ShelfMeterView = z.object({
   intraListDistance: reading,
   age: z.object({ medianDays: reading, meanDays: reading, newestDays: reading, oldestDays: reading, shareUnder30Days: reading }),
+  /** Items per age bin (readings.ts AGE_BINS). */
+  ageHistogram: z.array(z.number().int()),
   novelty: reading,
+  noveltyBits: reading,
   promotedShareCount: reading,
   promotedShareExposure: reading,
   calibrationGap: reading,
+  categoryMix: z.array(z.object({ category: z.string(), shelf: z.number(), audience: z.number() })),
   predictedRelevance: reading,
   /** Share of predicted relevance the brief's dials and rules give up against the most relevant list (0..1). */
   choiceCost: reading,
   saturation: z.array(reading),
-  saturatedSlots: z.array(z.number().int()),
+  /** Slots flagged as saturated, counting from 1 as editors do. */
+  saturatedSlots: z.array(z.number().int().min(1)),
 });
 
 export const EditionMeterView = z.object({
@@ -229,6 +236,11 @@ export const curationMethods = {
   'shelf.brief': method({
     summary: "Replace a shelf's brief (size, filters, quotas, promoted bounds, rest period...): an undoable action that keeps the list where the new brief allows.",
     request: z.object({ ...shelfRef, brief: ApiBriefRequest, reason: z.string().max(500).optional() }).strict(),
+    response: ShelfView,
+  }),
+  'shelf.targets': method({
+    summary: "Set the meter's target bands on a shelf's brief (readings left out keep their default band); the list is not filled again.",
+    request: z.object({ ...shelfRef, targets: TargetsShape }).strict(),
     response: ShelfView,
   }),
   'shelf.fill': method({

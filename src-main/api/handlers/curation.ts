@@ -42,6 +42,7 @@ type Names =
   | 'catalogue.names'
   | 'shelf.add'
   | 'shelf.brief'
+  | 'shelf.targets'
   | 'shelf.fill'
   | 'shelf.show'
   | 'shelf.act'
@@ -84,6 +85,7 @@ export function curationHandlers(ctx: AppContext): { [M in Names]: Handler<M> } 
     'catalogue.names': () => curationRepos(ctx.db).items.names(),
     'shelf.add': (r) => shelf(svc().addShelf(r.edition, r.label, withAnchorIds(r.brief))),
     'shelf.brief': (r) => shelf(svc().setBrief(r.edition, r.shelf, withAnchorIds(r.brief), r.reason)),
+    'shelf.targets': (r) => shelf(svc().setTargets(r.edition, r.shelf, r.targets)),
     'shelf.fill': (r) => shelf(svc().fill(r.edition, r.shelf, true)),
     'shelf.show': (r) => shelf(svc().fill(r.edition, r.shelf, false)),
     'shelf.act': (r) => shelf(svc().act(r.edition, r.shelf, toRequest(r.action, (ids) => anchorRowIds(ctx.db, ids)), r.reason)),

@@ -41,6 +41,11 @@ export interface CurationContext {
   popularity: Float64Array;
   /** −log2 p_i (Zhou et al. 2010), precomputed with the floor described in `buildCurationContext`. */
   selfInformation: Float64Array;
+  /**
+   * −log2 of that floor: the most self-information any item can have here, so mean self-information lies
+   * in [0, ceiling] and the meter's novelty (mean / ceiling) in [0, 1].
+   */
+  selfInformationCeiling: number;
 }
 
 export interface ContextOptions {
@@ -146,6 +151,7 @@ export function buildCurationContext(items: readonly Item[], options: ContextOpt
     vectors,
     popularity,
     selfInformation,
+    selfInformationCeiling: -Math.log2(floor),
   };
 }
 

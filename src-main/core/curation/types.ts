@@ -3,6 +3,8 @@
  * Shared by core/curation (fill, rules, meter), the store, the services, the api and the renderer.
  */
 
+import type { Targets } from './readings.ts';
+
 export type Facet = 'category' | 'supplier' | 'tag';
 
 /** "At most n items per category / supplier / tag on a shelf." `value` narrows it to one value. */
@@ -73,6 +75,8 @@ export interface Brief {
   /** MMR trade-off: 1 = relevance only, 0 = diversity only (Carbonell & Goldstein 1998). */
   lambda: number;
   rules: Rules;
+  /** The editor's target band per meter reading (readings.ts); a reading left out keeps its default band. */
+  targets?: Targets;
 }
 
 /** One scored candidate of a shelf's pool. `relevance` is the blended score in [0, 1]. */
@@ -95,14 +99,26 @@ export interface FillResult {
   violations: RuleViolation[];
 }
 
-/** DESIGN.md "Meter readings" for one shelf. NaN where a reading has no data. */
+/**
+ * DESIGN.md "Meter readings" for one shelf, each on the scale readings.ts states (meter.ts computes them).
+ * NaN where a reading has no data.
+ */
 export interface ShelfMeter {
+  /** Variety: Ziegler et al.'s intra-list distance over cosine, halved into [0, 1]. */
   intraListDistance: number;
   age: { medianDays: number; meanDays: number; newestDays: number; oldestDays: number; shareUnder30Days: number };
+  /** Items per bin of readings.ts AGE_BINS (items with no date are left out). */
+  ageHistogram: number[];
+  /** Mean self-information over its ceiling, in [0, 1]. */
   novelty: number;
+  /** The same, in bits: 2^bits is "one customer in N" has a typical item. */
+  noveltyBits: number;
   promotedShareCount: number;
   promotedShareExposure: number;
+  /** Steck's KL(p‖q̃) over its ceiling ln(1/α), in [0, 1]. */
   calibrationGap: number;
+  /** The shelf's category mix beside its audience's, for every category either has (shares; largest on either side first). */
+  categoryMix: { category: string; shelf: number; audience: number }[];
   predictedRelevance: number;
   /** The share of predicted relevance the dials and rules give up against the best list (choice-cost.ts). */
   choiceCost: number;

@@ -13,7 +13,7 @@ import { DAY_MS } from '../types.ts';
 import { costOf } from './choice-cost.ts';
 import type { CurationContext } from './context.ts';
 import type { MeterInputs } from './meter.ts';
-import { meterShelf, SATURATION_THRESHOLD, YOUNG_DAYS } from './meter.ts';
+import { CALIBRATION_GAP_CEILING, meterShelf, SATURATION_THRESHOLD, scaledNovelty, YOUNG_DAYS } from './meter.ts';
 import type { ShelfMeter, ShelfReadings, WhatIf, WhatIfReading } from './types.ts';
 import { WHAT_IF_READINGS } from './types.ts';
 
@@ -149,7 +149,8 @@ export function whatIfBatch(
     if (!Number.isInteger(c) || c < 0 || c >= ctx.n) throw new BugError(`what-if: candidate index ${c}`);
     let simC = 0;
     for (let o = 0; o < others.length; o++) simC += dot(vectors, dim, c, others[o] as number);
-    after.intraListDistance[k] = pairs === 0 ? NaN : 1 - (simPairs + simC) / pairs;
+    // Variety: the intra-list distance halved onto [0, 1], as meter.ts `variety`.
+    after.intraListDistance[k] = pairs === 0 ? NaN : (1 - (simPairs + simC) / pairs) / 2;
 
     const added = ctx.addedAt[c] as number;
     if (Number.isNaN(added)) {
@@ -166,13 +167,13 @@ export function whatIfBatch(
       after.ageOldestDays[k] = nAges === 0 ? d : Math.max(maxAge, d);
       after.ageShareUnder30Days[k] = (young + (d < YOUNG_DAYS ? 1 : 0)) / (nAges + 1);
     }
-    after.novelty[k] = (info + (ctx.selfInformation[c] as number)) / k1;
+    after.novelty[k] = scaledNovelty(ctx, (info + (ctx.selfInformation[c] as number)) / k1);
     const isProm = ctx.promoted[c] === 1 ? 1 : 0;
     after.promotedShareCount[k] = (prom + isProm) / k1;
     after.promotedShareExposure[k] = (promExp + isProm * (disc[slot] as number)) / expWith;
     const g = ctx.category[c] as number;
     after.calibrationGap[k] =
-      pSum > 0 ? klBase - (baseTerms[g] ?? 0) + (g < p.length ? term(g, (catCounts[g] as number) + 1) : 0) : NaN;
+      pSum > 0 ? (klBase - (baseTerms[g] ?? 0) + (g < p.length ? term(g, (catCounts[g] as number) + 1) : 0)) / CALIBRATION_GAP_CEILING : NaN;
     const r = inputs.relevance[c] as number;
     after.predictedRelevance[k] = Number.isNaN(r)
       ? relCount === 0

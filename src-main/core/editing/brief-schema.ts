@@ -4,6 +4,7 @@
  * usable brief from just a size. The rule checks with field names live in curation/brief-check.ts.
  */
 import { z } from 'zod';
+import { TargetsSchema } from '../curation/target-schema.ts';
 import type { Brief } from '../curation/types.ts';
 
 const Facet = z.enum(['category', 'supplier', 'tag']);
@@ -85,6 +86,9 @@ export const BriefSchema = z
       })
       .strict()
       .default({ quotas: [], promoted: {}, restPeriod: 0, allowRepeatInEdition: false }),
+    // The meter's target bands (core/curation/readings.ts); absent in briefs stored before them, which
+    // read as the default bands, so no migration is needed.
+    targets: TargetsSchema.optional(),
   })
   .strict();
 

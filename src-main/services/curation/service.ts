@@ -29,6 +29,7 @@ import {
 } from '../../core/editing/index.ts';
 import { parseBrief } from '../../core/editing/brief-schema.ts';
 import { catalogueNames, checkBriefNames, checkName, type CatalogueNames } from '../../core/curation/brief-names.ts';
+import { targetProblem, type LooseTargets } from '../../core/curation/readings.ts';
 import type { Item } from '../../core/types.ts';
 import type { EditionRepo, Edition } from '../../store/editions.ts';
 import type { EditorialRepo } from '../../store/editorial-actions.ts';
@@ -285,6 +286,24 @@ export class CurationService {
       // fields may come back in another order).
       if (isDeepStrictEqual(b, s.brief)) return this.#read(world, e, s);
       return this.#apply(world, e, s, { kind: 'brief', brief: b, was: s.brief }, reason);
+    })();
+  }
+
+  /**
+   * The meter's target bands (issue 12 item 4): replaces the brief's `targets` and fills nothing, since a
+   * band changes how readings are judged, not the list. Checked by the brief's own schema; a published
+   * edition refuses (#draft).
+   */
+  setTargets(edition: string, label: string, targets: LooseTargets): ShelfView {
+    const problem = targetProblem(targets);
+    if (problem) throw new InputError(problem);
+    const world = this.world();
+    return this.db.transaction(() => {
+      const e = this.#draft(edition);
+      const s = this.shelves.byLabel(e.id, label);
+      const b = parseBrief({ ...s.brief, targets });
+      this.shelves.setBrief(s.id, b);
+      return this.#read(world, e, this.shelves.byLabel(e.id, label));
     })();
   }
 

@@ -141,7 +141,8 @@ export function shelfView(
     locked: shelf.locked,
     brief: shelf.brief,
     slots: filled.slots.map((s) => slotView(s, s.itemId === null ? undefined : itemById(s.itemId))),
-    meter: filled.meter,
+    // Saturated slots counted from 1, as the slots above and the editors count them (issue 12: "Slots 0").
+    meter: { ...filled.meter, saturatedSlots: filled.meter.saturatedSlots.map((s) => s + 1) },
     violations: filled.violations.map((v) => ({ ...v, title: ruleWords(v.rule, shelf.brief) })),
     poolSize: filled.poolSize,
     excluded: filled.excluded,

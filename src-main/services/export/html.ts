@@ -6,6 +6,7 @@
  */
 import type { EditionSnapshot } from '../../core/editing/snapshot.ts';
 import { DISCLOSURE_NOTE, SPONSORED } from './labels.ts';
+import { exportedReadings } from './meter-rows.ts';
 
 /** Escapes the five characters with meaning in HTML text and attribute values. */
 export function escapeHtml(s: string): string {
@@ -26,8 +27,25 @@ li { border: 1px solid #ccc; border-radius: 6px; padding: 0.5rem; }
 .sponsored { display: inline-block; font-size: 0.75rem; font-weight: 700; border: 1px solid #1d1d1f; border-radius: 3px; padding: 0 0.3rem; margin-top: 0.3rem; }
 .empty { color: #777; font-style: italic; }
 .pic { display: block; width: 48px; height: 48px; object-fit: contain; border-radius: 4px; background: #eee; margin-bottom: 0.3rem; }
+.meter { color: #333; font-size: 0.85rem; }
+.meter dl { display: grid; grid-template-columns: max-content max-content 1fr; gap: 0.1rem 0.8rem; margin: 0.4rem 0 0; }
+.meter dd { margin: 0; }
 footer { color: #555; font-size: 0.85rem; border-top: 1px solid #ccc; padding-top: 0.5rem; }
 `;
+
+/** The shelf's meter as a closed disclosure (no script needed): name, value with range, target in words. */
+function meterHtml(shelf: EditionSnapshot['shelves'][number]): string {
+  const rows = exportedReadings(shelf);
+  if (!rows) return '';
+  const cells = rows
+    .map((r) => {
+      const where = r.status === 'no target' ? r.targetText : `${r.targetText}, ${r.status === 'within' ? 'on target' : r.status === 'no data' ? 'no data' : `${r.status} target`}`;
+      const range = r.range.startsWith('days') ? '' : ` (${r.range})`;
+      return `<dt>${escapeHtml(r.name)}</dt><dd>${escapeHtml(r.text + range)}</dd><dd>${escapeHtml(where)}</dd>`;
+    })
+    .join('');
+  return `\n<details class="meter"><summary>Meter</summary><dl>${cells}</dl></details>`;
+}
 
 /**
  * The policy the file carries: nothing may load but images inlined as data: URLs and its own inline style
@@ -52,7 +70,7 @@ export function editionHtml(e: EditionSnapshot, pictures: ReadonlyMap<string, st
           return `<li><span class="pos">${s.slot + 1}</span>${picture(s.externalId)}<span class="title">${escapeHtml(s.title ?? s.externalId)}</span><span class="meta">${meta}</span>${label}</li>`;
         })
         .join('\n');
-      return `<section><h2>${escapeHtml(shelf.label)}</h2>\n<ol>\n${items}\n</ol></section>`;
+      return `<section><h2>${escapeHtml(shelf.label)}</h2>\n<ol>\n${items}\n</ol>${meterHtml(shelf)}</section>`;
     })
     .join('\n');
   return `<!doctype html>

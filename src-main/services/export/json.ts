@@ -1,6 +1,7 @@
-/** JSON export of an edition: the snapshot's shelves and slots, each slot saying in words whether it is sponsored. */
+/** JSON export of an edition: the snapshot's shelves and slots, each slot saying in words whether it is sponsored, and each shelf's meter. */
 import type { EditionSnapshot } from '../../core/editing/snapshot.ts';
 import { DISCLOSURE_NOTE, SPONSORED } from './labels.ts';
+import { exportedReadings } from './meter-rows.ts';
 
 export function editionJson(e: EditionSnapshot): string {
   const doc = {
@@ -20,6 +21,10 @@ export function editionJson(e: EditionSnapshot): string {
         pinned: s.pinned,
         percentile: s.percentile,
       })),
+      // Each reading by its one name, on its scale, with its range and the shelf's target band.
+      meter:
+        exportedReadings(shelf)?.map((r) => ({ reading: r.key, name: r.name, value: r.value, shown: r.text, range: r.range, target: r.target, targetText: r.targetText, status: r.status })) ??
+        null,
     })),
   };
   return JSON.stringify(doc, null, 2) + '\n';

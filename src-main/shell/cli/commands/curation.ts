@@ -9,6 +9,9 @@ import { describeExclusions } from '../../../core/curation/exclusion-words.ts';
 import { formatNumber, table } from '../format.ts';
 import { publishCheck, publishCheckLines } from '../../../core/editing/publish-check.ts';
 import { UsageError } from '../command.ts';
+import { renderWhatIf } from './meter-whatif.ts';
+import { meterCommands, renderMeter } from './meter.ts';
+import { EDITION_READINGS } from '../../../core/curation/readings.ts';
 
 /** Editions, shelves and editorial actions on the command line. Thin: flags → one api call → print. */
 
@@ -31,15 +34,7 @@ export function renderShelf(v: ShelfView): string {
   ]);
   const m = v.meter;
   const head = `${v.edition} / ${v.label}  (${v.size} slots${v.locked ? ', locked' : ''}, pool ${v.poolSize})`;
-  const meter = [
-    `distance ${val(m.intraListDistance)}`,
-    `novelty ${val(m.novelty)}`,
-    `median age ${val(m.age.medianDays)} d`,
-    `sponsored ${pct(m.promotedShareCount)} of slots, ${pct(m.promotedShareExposure)} of exposure`,
-    `calibration gap ${val(m.calibrationGap)}`,
-    `relevance ${val(m.predictedRelevance)}`,
-    `saturated slots ${m.saturatedSlots.length}`,
-  ].join(' · ');
+
   const left = describeExclusions(v.excluded);
   const resting = left ? `\nleft out of the pool: ${left}` : '';
   const viol = v.violations.length ? `\nrules not met:\n${v.violations.map((x) => `  ${x.title}: ${x.reason}`).join('\n')}` : '';
@@ -47,7 +42,7 @@ export function renderShelf(v: ShelfView): string {
   const price = describeChoiceCost(m.choiceCost ?? NaN) + (dials ? `\n${dials}` : '');
   const banned = [...v.ruleBans.map((b) => `${b.facet} ${b.value} (${b.reach})`), ...v.bans.map((b) => `${b.item} ${b.title} (${b.reach})`)];
   const bans = banned.length ? `\nbanned here: ${banned.join(', ')}` : '';
-  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\nmeter: ${meter}\n${price}${resting}${bans}${viol}${renderChanges(v)}`;
+  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\n\nmeter\n${renderMeter(v)}\n${price}${resting}${bans}${viol}${renderChanges(v)}`;
 }
 
 /** What the action or refill changed against the list before, and the relevance the kept list gives up. */
@@ -328,7 +323,7 @@ export const curationCommands: CliCommand[] = [
           [
             `edition '${v.label}' (${v.date}, ${v.status})`,
             ...v.shelves.map(renderShelf),
-            `edition meter: ${m.distinctItems} distinct items · supplier exposure Gini ${val(m.supplierExposureGini)} · ${m.overlaps.length} overlapping shelf pairs`,
+            `edition meter: ${EDITION_READINGS.distinctItems.name} ${m.distinctItems} · ${EDITION_READINGS.supplierExposureGini.name} ${val(m.supplierExposureGini)} (0–1) · ${m.overlaps.length} overlapping shelf pairs`,
           ].join('\n\n'),
         );
       }
@@ -470,6 +465,7 @@ export const curationCommands: CliCommand[] = [
   shelfCommand('refill', 'start the shelf over: fill it afresh (actions keep the list; a locked shelf stays as it is)', 'shelf.fill'),
   shelfCommand('fill', "the same as 'shelf refill'", 'shelf.fill'),
   shelfCommand('meter', 'a shelf as it stands with its meter and the rules it could not meet', 'shelf.show'),
+  ...meterCommands,
   actionCommand('pin', 'fix an item at a slot', 'EDITION SHELF ITEM --slot N', { slot: { type: 'string' } }, { slot: 'the slot to fix the item at, counting from 1 (required)' }, (env, rest) => ({
     kind: 'pin',
     item: oneItem(rest),
@@ -558,22 +554,8 @@ export const curationCommands: CliCommand[] = [
       const r = await call(t, 'shelf.whatif', { edition: edition!, shelf: shelf!, slot, n });
       if (env.json) env.io.out(JSON.stringify(r, null, 2));
       else {
-        const d = (x: number | null | undefined) => (x === null || x === undefined ? '–' : `${x >= 0 ? '+' : ''}${formatNumber(x)}`);
-        env.io.out(
-          table(
-            ['item', 'title', 'sponsored', 'pct', 'Δ distance', 'Δ novelty', 'Δ sponsored', 'Δ calibration'],
-            r.candidates.map((c) => [
-              c.item,
-              c.title,
-              c.promoted ? 'Sponsored' : '',
-              Math.round(c.percentile * 100),
-              d(c.delta['intraListDistance']),
-              d(c.delta['novelty']),
-              d(c.delta['promotedShareCount']),
-              d(c.delta['calibrationGap']),
-            ]),
-          ),
-        );
+        const current = await call(t, 'shelf.show', { edition: edition!, shelf: shelf! });
+        env.io.out(renderWhatIf(r, current.brief));
       }
       return EXIT.ok;
     },

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { BriefSchema } from '../../core/editing/brief-schema.ts';
 import { method } from '../define.ts';
+import { ReasonView } from './reason.ts';
 
 /**
  * Editions, shelves, editorial actions (with undo and redo), publish, compare, export, backtest and
@@ -42,6 +43,10 @@ export const SlotView = z.object({
   pinned: z.boolean(),
   score: reading,
   percentile: reading,
+  /** Place by score among the pool's candidates (1 = best, ties share the best place); null outside the pool. */
+  rank: z.number().int().min(1).nullable(),
+  /** The main reason it was proposed, from the data; null when no part of its score has evidence to show. */
+  reason: ReasonView.nullable(),
   contributions: z.record(z.string(), z.number()),
 });
 

@@ -20,6 +20,7 @@ import { dateMs, type Edition } from '../../store/editions.ts';
 import type { Shelf, SlotRow } from '../../store/shelves.ts';
 import type { Db } from '../../store/workspace.ts';
 import { scoredPool } from './pool-cache.ts';
+import { explainSlots, reasonFacts, type SlotExplanation } from './slot-reasons.ts';
 import { curationRepos } from './repos.ts';
 import { trendFor, type CurationWorld } from './world.ts';
 import { ownedMatrix } from '../holdout/trained.ts';
@@ -32,6 +33,8 @@ export interface FilledShelf {
   /** Pool items (dense), best first by boosted score, with their percentiles (shared: do not change). */
   ranked: () => readonly { index: number; percentile: number }[];
   meter: ShelfMeter;
+  /** Per slot: its rank in the pool and the main reason it was proposed (slot-reasons.ts). */
+  explanations: SlotExplanation[];
   violations: RuleViolation[];
   /** Candidates in the pool, and why the others were left out. */
   poolSize: number;
@@ -301,12 +304,15 @@ export function fillAndMeter(
       contributions: x ? { ...x.contributions } : {},
     };
   });
+  const withAudience = audienceAffinityOf(world, brief, editionDate) === null ? null : readings.audience;
+  const explanations = explainSlots(reasonFacts(world, brief, editionDate, withAudience), scores, posOf, dense);
   return {
     slots,
     dense,
     inputs,
     ranked: scored.ranked,
     meter,
+    explanations,
     violations,
     poolSize: pool.items.length,
     excluded: { ...pool.excluded },

@@ -1,4 +1,5 @@
 import { describeChoiceCost } from '../../../core/curation/choice-cost.ts';
+import { reasonWords } from '../../../core/curation/reason-words.ts';
 import type { ShelfView } from '../../../api/contracts/curation.ts';
 import type { RequestOf } from '../../../api/contract.ts';
 import { checkOutputFile, writeFileWhole } from '../../../services/user-file.ts';
@@ -26,7 +27,7 @@ export function renderShelf(v: ShelfView): string {
     s.supplier ?? '',
     s.promoted ? 'Sponsored' : '',
     s.pinned ? 'pin' : '',
-    s.percentile === null ? '–' : `${Math.round(s.percentile * 100)}`,
+    s.rank === null ? '–' : `${formatNumber(s.rank)} of ${formatNumber(v.poolSize)}`,
   ]);
   const m = v.meter;
   const head = `${v.edition} / ${v.label}  (${v.size} slots${v.locked ? ', locked' : ''}, pool ${v.poolSize})`;
@@ -43,7 +44,13 @@ export function renderShelf(v: ShelfView): string {
   const resting = left ? `\nleft out of the pool: ${left}` : '';
   const viol = v.violations.length ? `\nrules not met:\n${v.violations.map((x) => `  ${x.rule}: ${x.reason}`).join('\n')}` : '';
   const price = describeChoiceCost(m.choiceCost ?? NaN);
-  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\nmeter: ${meter}\n${price}${resting}${viol}${renderChanges(v)}`;
+  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'rank'], rows)}${renderReasons(v)}\nmeter: ${meter}\n${price}${resting}${viol}${renderChanges(v)}`;
+}
+
+/** Each slot's main reason in words, as the app says it (core/curation/reason-words.ts). */
+function renderReasons(v: ShelfView): string {
+  const lines = v.slots.filter((s) => s.reason !== null).map((s) => `  ${s.slot}. ${reasonWords(s.reason!, { count: formatNumber })}`);
+  return lines.length ? `\nwhy:\n${lines.join('\n')}` : '';
 }
 
 /** What the action or refill changed against the list before, and the relevance the kept list gives up. */

@@ -2,10 +2,12 @@ import { useVirtualizer } from '@tanstack/react-virtual';
 import { useEffect, useId, useRef } from 'react';
 import type { ShelfAction, ShelfView } from '../state/curation-slice.ts';
 import { useApp } from '../state/store.ts';
-import { topPercent } from './format.ts';
+import { reasonWords } from '../../src-main/core/curation/reason-words.ts';
+import { rankWords, screenNumbers } from './format.ts';
 import { SlotSelect } from './SlotSelect.tsx';
 
-const ROW_PX = 56;
+/** Three lines: title, rank, reason. */
+const ROW_PX = 72;
 
 /**
  * The best candidates not on the shelf for one slot, from `shelf.whatif`, virtualised
@@ -53,8 +55,13 @@ export function CandidatePool({ shelf, slot, onSlot, readOnly, onAct }: { shelf:
                 <div className="candidate-main">
                   <p className="slot-title">{c.title}</p>
                   <p className="small">
-                    {c.promoted && <span className="sponsored">Sponsored</span>} <span className="muted">{topPercent(c.percentile, 'unit')} of pool</span>
+                    {c.promoted && <span className="sponsored">Sponsored</span>} <span className="muted">{rankWords(c.rank, shelf.poolSize)}</span>
                   </p>
+                  {c.reason && (
+                    <p className="small reason" title={reasonWords(c.reason, screenNumbers)}>
+                      {reasonWords(c.reason, screenNumbers)}
+                    </p>
+                  )}
                 </div>
                 <button
                   type="button"

@@ -33,3 +33,22 @@ export function topPercent(p: number | null | undefined, scale: PercentileScale)
   if (unit < 0 || unit > 1) throw new RangeError(`percentile ${p} is outside the ${scale === 'hundred' ? '0–100' : '0–1'} scale`);
   return `top ${Math.max(1, Math.ceil((1 - unit) * 100 - 1e-9))}%`;
 }
+
+/** Whole numbers in the editor's locale, with its thousands separators (Intl; the browser's language). */
+const counts = new Intl.NumberFormat(undefined, { maximumFractionDigits: 0 });
+export function count(n: number | null | undefined): string {
+  return n === null || n === undefined || !Number.isFinite(n) ? NO_DATA : counts.format(n);
+}
+
+/** Numbers in reasons (core/curation/reason-words.ts) as the screen shows them. */
+export const screenNumbers = { count: (n: number) => count(n) };
+
+/**
+ * An item's place in its pool: "3 of 1,204". The rank is 1 + the candidates scoring higher (ties share the
+ * best place), so any two different scores read differently, which "top 1%" never did for a shelf drawn
+ * from the head of a large pool.
+ */
+export function rankWords(rank: number | null | undefined, poolSize: number): string {
+  if (rank === null || rank === undefined) return 'not in the pool';
+  return `${count(rank)} of ${count(poolSize)} in the pool`;
+}

@@ -119,7 +119,7 @@ export function ShelfEditor() {
         </div>
       )}
       <div className="editor-grid">
-        <SlotList slots={shelf.slots} readOnly={readOnly} busy={busy} marks={changeMarks(change?.changes ?? null)} onAct={(a) => void act(a)} />
+        <SlotList slots={shelf.slots} readOnly={readOnly} busy={busy} marks={changeMarks(change?.changes ?? null)} poolSize={shelf.poolSize} onAct={(a) => void act(a)} />
         <div className="side">
           <ShelfMeterPanel meter={shelf.meter} title="Shelf meter" preview={preview} />
           <CandidatePool shelf={shelf} slot={Math.min(slot, shelf.size)} onSlot={setSlot} readOnly={readOnly} onAct={(a) => void act(a)} />

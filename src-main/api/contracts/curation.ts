@@ -248,7 +248,16 @@ export const curationMethods = {
       slot: z.number().int(),
       before: z.record(z.string(), reading),
       candidates: z.array(
-        z.object({ item: z.string(), title: z.string(), promoted: z.boolean(), percentile: z.number(), delta: z.record(z.string(), reading) }),
+        z.object({
+          item: z.string(),
+          title: z.string(),
+          promoted: z.boolean(),
+          percentile: z.number(),
+          /** Place by score in the pool, 1 = best (ties share the best place). */
+          rank: z.number().int().min(1),
+          reason: ReasonView.nullable(),
+          delta: z.record(z.string(), reading),
+        }),
       ),
     }),
   }),

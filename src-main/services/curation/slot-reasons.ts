@@ -74,12 +74,14 @@ export function reasonFacts(world: CurationWorld, brief: Brief, editionDate: num
   };
 }
 
-/** Rank and main reason per slot (`dense`: dense item per slot, -1 empty; `posOf`: pool position per item). */
+/** Rank and main reason of dense item i (`posOf`: pool position per dense item, -1 outside the pool). */
+export function explainItem(facts: ReasonFacts, scores: PoolScores, posOf: Int32Array, i: number): SlotExplanation {
+  const p = i < 0 ? -1 : posOf[i]!;
+  if (p < 0) return { rank: null, reason: null };
+  return { rank: scores.ranks()[p]!, reason: mainReason(scores.explain(p), facts) };
+}
+
+/** Rank and main reason per slot (`dense`: dense item per slot, -1 empty). */
 export function explainSlots(facts: ReasonFacts, scores: PoolScores, posOf: Int32Array, dense: Int32Array): SlotExplanation[] {
-  const ranks = scores.ranks();
-  return Array.from(dense, (i) => {
-    const p = i < 0 ? -1 : posOf[i]!;
-    if (p < 0) return { rank: null, reason: null };
-    return { rank: ranks[p]!, reason: mainReason(scores.explain(p), facts) };
-  });
+  return Array.from(dense, (i) => explainItem(facts, scores, posOf, i));
 }

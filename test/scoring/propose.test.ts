@@ -55,6 +55,15 @@ describe('propose', () => {
       expect(it.blended).toBeCloseTo(sum, 5);
       for (const e of [...it.evidence.content, ...(it.coldStart ? [] : it.evidence.collaborative)]) expect(e.itemId).toBe(anchor);
     }
+    // Ranks count the candidates scoring higher, so the twenty best read 1, 2, 3... where their percentiles
+    // all round to the top 1% of the pool; a reason names the anchor only when it is this brief's anchor.
+    for (let q = 0; q < r.items.length; q++) {
+      const higher = r.items.filter((x) => x.score > r.items[q]!.score).length;
+      expect(r.items[q]!.rank).toBe(1 + higher);
+    }
+    const anchorExt = items[10]!.externalId;
+    for (const it of r.items) if (it.reason?.kind === 'anchor') expect(it.reason.anchor.item).toBe(anchorExt);
+    expect(r.items.some((x) => x.reason !== null)).toBe(true);
     // No trained models in this workspace: content and item-kNN are fitted in memory, and it says so.
     expect(r.notes.join(' ')).toMatch(/fitted in memory/);
     expect(r.available.content && r.available.collaborative && r.available.audience).toBe(true);

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { ReasonView } from './reason.ts';
 import { AudienceSchema } from '../../core/editing/brief-schema.ts';
 import { VALUE_TRANSFORMS } from '../../core/matrix/values.ts';
 import { TUNE_BUDGET } from '../../core/models/tune-budget.ts';
@@ -202,6 +203,10 @@ export const ProposedView = ItemRef.extend({
   sponsored: z.boolean(),
   score: z.number(),
   percentile: z.number(),
+  /** Place by score in the pool, 1 = best (ties share the best place): tells apart what "top 1%" cannot. */
+  rank: z.number().int().min(1),
+  /** The main reason, from the data (core/curation/reasons.ts); null when no part has evidence to show. */
+  reason: ReasonView.nullable(),
   coldStart: z.boolean(),
   contributions: z.record(z.string(), z.number()),
   raw: z.record(z.string(), reading),

@@ -205,6 +205,8 @@ export function modelHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
           sponsored: x.promoted,
           score: x.score,
           percentile: x.percentile,
+          rank: x.rank,
+          reason: x.reason,
           coldStart: x.coldStart,
           contributions: { ...x.contributions },
           raw: { ...x.raw },

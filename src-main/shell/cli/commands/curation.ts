@@ -524,12 +524,12 @@ export const curationCommands: CliCommand[] = [
         const d = (x: number | null | undefined) => (x === null || x === undefined ? '–' : `${x >= 0 ? '+' : ''}${formatNumber(x)}`);
         env.io.out(
           table(
-            ['item', 'title', 'sponsored', 'pct', 'Δ distance', 'Δ novelty', 'Δ sponsored', 'Δ calibration'],
+            ['item', 'title', 'sponsored', 'rank', 'Δ distance', 'Δ novelty', 'Δ sponsored', 'Δ calibration'],
             r.candidates.map((c) => [
               c.item,
               c.title,
               c.promoted ? 'Sponsored' : '',
-              Math.round(c.percentile * 100),
+              formatNumber(c.rank),
               d(c.delta['intraListDistance']),
               d(c.delta['novelty']),
               d(c.delta['promotedShareCount']),

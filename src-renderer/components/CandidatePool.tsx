@@ -3,7 +3,7 @@ import { useEffect, useId, useRef } from 'react';
 import type { ShelfAction, ShelfView } from '../state/curation-slice.ts';
 import { useApp } from '../state/store.ts';
 import { reasonWords } from '../../src-main/core/curation/reason-words.ts';
-import { rankWords, screenNumbers } from './format.ts';
+import { count, rankWords, screenNumbers } from './format.ts';
 import { SlotSelect } from './SlotSelect.tsx';
 
 /** Three lines: title, rank, reason. */
@@ -39,7 +39,7 @@ export function CandidatePool({ shelf, slot, onSlot, readOnly, onAct }: { shelf:
           Could not rank the candidates: {whatif.error}
         </p>
       )}
-      <p className="muted small">{whatif.loading && items.length === 0 ? 'Ranking…' : `${items.length} candidates not on this shelf, best first`}</p>
+      <p className="muted small">{whatif.loading && items.length === 0 ? 'Ranking…' : `${count(items.length)} candidates not on this shelf, best first`}</p>
       <div ref={scroller} className="pool-scroll" onMouseLeave={() => focus(null)}>
         <ul style={{ height: virtual.getTotalSize(), position: 'relative' }} aria-label="Candidates for this slot">
           {virtual.getVirtualItems().map((v) => {

@@ -1,7 +1,7 @@
 import { useId, useState } from 'react';
 import type { ShelfView } from '../state/curation-slice.ts';
 import { useApp } from '../state/store.ts';
-import { num, pct } from './format.ts';
+import { num, pct, dateWords, count } from './format.ts';
 import { Notes } from './Notes.tsx';
 
 /**
@@ -45,7 +45,7 @@ export function BacktestPanel({ shelf }: { shelf: ShelfView }) {
       {result && (
         <div aria-live="polite" aria-label="Backtest result">
           <p className="small">
-            {result.windowStart} to {result.windowEnd} ({result.windowDays} days) · {result.audienceActive.toLocaleString('en')} audience
+            {dateWords(result.windowStart)} to {dateWords(result.windowEnd)} ({result.windowDays} days) · {count(result.audienceActive)} audience
             customers active
           </p>
           <div className="compare-bars">

@@ -52,3 +52,29 @@ export function rankWords(rank: number | null | undefined, poolSize: number): st
   if (rank === null || rank === undefined) return 'not in the pool';
   return `${count(rank)} of ${count(poolSize)} in the pool`;
 }
+
+/**
+ * The one date format on screen: the editor's locale (Intl.DateTimeFormat, e.g. "7 Dec 2026" or
+ * "Dec 7, 2026"); exports keep ISO 8601 (YYYY-MM-DD). A calendar date (an edition's, "YYYY-MM-DD") is read
+ * and shown in UTC so it never shifts a day with the time zone; a moment (unix ms: published, trained) is
+ * shown in the editor's own time zone, with its time.
+ */
+const calendarDay = new Intl.DateTimeFormat(undefined, { dateStyle: 'medium', timeZone: 'UTC' });
+const moment = new Intl.DateTimeFormat(undefined, { dateStyle: 'medium', timeStyle: 'short' });
+const ISO_DAY = /^(\d{4})-(\d{2})-(\d{2})$/;
+
+export function dateWords(day: string | null | undefined): string {
+  if (day === null || day === undefined || day === '') return NO_DATA;
+  const m = ISO_DAY.exec(day);
+  if (!m) return day; // not a calendar date: shown as it came, never guessed at
+  return calendarDay.format(Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3])));
+}
+
+/** A calendar day given as unix ms at UTC midnight (the store's dates), in the screen's one format. */
+export function dayWords(ms: number | null | undefined): string {
+  return ms === null || ms === undefined || !Number.isFinite(ms) ? NO_DATA : calendarDay.format(ms);
+}
+
+export function momentWords(ms: number | null | undefined): string {
+  return ms === null || ms === undefined || !Number.isFinite(ms) ? NO_DATA : moment.format(ms);
+}

@@ -1,6 +1,6 @@
 import { useId, useState, type FormEvent } from 'react';
 import { EditionMeterPanel } from '../components/Meter.tsx';
-import { pct } from '../components/format.ts';
+import { count, dateWords, pct } from '../components/format.ts';
 import { PublishConfirm } from '../components/PublishConfirm.tsx';
 import { PublishedBanner } from '../components/PublishedBanner.tsx';
 import { ExportPanel } from './ExportPanel.tsx';
@@ -58,7 +58,7 @@ export function Board() {
     <section className="screen" aria-labelledby="board-h">
       <header className="screen-head">
         <h1 id="board-h">
-          {edition.label} <span className="muted">· {edition.date} · {published ? 'Published' : 'Draft'}</span>
+          {edition.label} <span className="muted">· {dateWords(edition.date)} · {published ? 'Published' : 'Draft'}</span>
         </h1>
         {!published && (
           <button type="button" disabled={busy || confirming || edition.shelves.length === 0} onClick={() => setConfirming(true)}>
@@ -89,7 +89,7 @@ export function Board() {
             <article key={s.label} className="panel shelf-card" aria-label={`Shelf ${s.label}`}>
               <h2>{s.label}</h2>
               <p className="muted">
-                {s.slots.filter((x) => x.item).length} of {s.size} slots filled · pool of {s.poolSize}
+                {s.slots.filter((x) => x.item).length} of {s.size} slots filled · pool of {count(s.poolSize)}
                 {s.locked ? ' · locked: its list stays as it is until unlocked' : ''}
               </p>
               <p>

@@ -1,6 +1,7 @@
 import { useId, useState } from 'react';
 import type { ExportFormat } from '../state/curation-slice.ts';
 import { useApp } from '../state/store.ts';
+import { count } from '../components/format.ts';
 
 const TYPES: Record<ExportFormat, string> = { csv: 'text/csv', json: 'application/json', html: 'text/html' };
 
@@ -49,7 +50,7 @@ export function ExportPanel() {
       )}
       {exported && (
         <p className="muted" aria-live="polite">
-          Saved {exported.filename} ({exported.content.length.toLocaleString('en')} characters).
+          Saved {exported.filename} ({count(exported.content.length)} characters).
         </p>
       )}
     </section>

@@ -3,6 +3,7 @@ import { MAX_UPLOAD_BYTES } from '../../src-main/api/contracts/data.ts';
 import { SIGNAL_KINDS } from '../../src-main/core/types.ts';
 import type { ImportSource, ImportTarget, SignalKind } from '../state/import-slice.ts';
 import { useApp } from '../state/store.ts';
+import { count } from '../components/format.ts';
 
 /**
  * The fields each target can fill. A copy of src-main/ingest/fields.ts FIELDS, which the renderer may not
@@ -248,8 +249,8 @@ export function Import() {
         <section className={`panel${report.committed ? '' : ' failed'}`} aria-live="polite" aria-label="Import report">
           <h2>{report.committed ? 'Imported' : 'Nothing was imported'}</h2>
           <p>
-            {report.rows.toLocaleString('en')} rows read · {report.added.toLocaleString('en')} added · {report.updated.toLocaleString('en')} updated ·{' '}
-            {report.unchanged.toLocaleString('en')} unchanged · {report.rejected.toLocaleString('en')} rejected · {(report.elapsedMs / 1000).toFixed(1)} s
+            {count(report.rows)} rows read · {count(report.added)} added · {count(report.updated)} updated ·{' '}
+            {count(report.unchanged)} unchanged · {count(report.rejected)} rejected · {(report.elapsedMs / 1000).toFixed(1)} s
           </p>
           {report.warnings.map((w) => (
             <p key={w} className="warn">
@@ -259,7 +260,7 @@ export function Import() {
           {report.errorCount > 0 && (
             <>
               <p className="error" role="alert">
-                {report.errorCount.toLocaleString('en')} row problem{report.errorCount === 1 ? '' : 's'} in {report.file}
+                {count(report.errorCount)} row problem{report.errorCount === 1 ? '' : 's'} in {report.file}
                 {report.committed ? '' : ': correct them and import again.'}
               </p>
               <table>

@@ -1,7 +1,7 @@
 import { useEffect, useId, useMemo, useState } from 'react';
 import { HoldoutPanel } from '../components/HoldoutPanel.tsx';
 import { MetricsChart } from '../components/MetricsChart.tsx';
-import { num, pct } from '../components/format.ts';
+import { num, pct, momentWords, count } from '../components/format.ts';
 import { useApp } from '../state/store.ts';
 import { Notes } from '../components/Notes.tsx';
 
@@ -89,7 +89,7 @@ function EvaluationPanel() {
           {evaluation.stale && <p className="warn">The workspace changed since this evaluation; evaluate again for current figures.</p>}
           <table>
             <caption className="muted small">
-              Held-out test: {evaluation.split.test.toLocaleString('en')} signals · evaluated {new Date(evaluation.evaluatedAt).toLocaleString('en-GB')}
+              Held-out test: {count(evaluation.split.test)} signals · evaluated {momentWords(evaluation.evaluatedAt)}
             </caption>
             <thead>
               <tr>
@@ -111,7 +111,7 @@ function EvaluationPanel() {
                   <td className="num">{num(r.precision, 3)}</td>
                   <td className="num">{num(r.map, 3)}</td>
                   <td className="num">{pct(r.coverage)}</td>
-                  <td className="num">{r.customers}</td>
+                  <td className="num">{count(r.customers)}</td>
                 </tr>
               ))}
             </tbody>
@@ -162,7 +162,7 @@ export function Models() {
               {list.map((m) => (
                 <tr key={m.id}>
                   <th scope="row">{m.kind}</th>
-                  <td>{new Date(m.trainedAt).toLocaleString('en-GB')}</td>
+                  <td>{momentWords(m.trainedAt)}</td>
                   <td className="num">{(m.trainMs / 1000).toFixed(1)} s</td>
                   <td>{m.stale ? 'Out of date: the data changed since training' : 'Current'}</td>
                 </tr>

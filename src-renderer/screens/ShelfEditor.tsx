@@ -8,6 +8,7 @@ import { PublishedBanner } from '../components/PublishedBanner.tsx';
 import { BacktestPanel, SimilarPanel } from '../components/ShelfInsights.tsx';
 import { SlotList } from '../components/SlotList.tsx';
 import { changeMarks, describeChanges } from '../components/change-words.ts';
+import { count } from '../components/format.ts';
 import { useApp } from '../state/store.ts';
 
 
@@ -91,7 +92,7 @@ export function ShelfEditor() {
         </p>
       )}
       <p className="muted small" aria-live="polite">
-        {shelf.slots.filter((s) => s.item).length} of {shelf.size} slots filled from a pool of {shelf.poolSize}
+        {shelf.slots.filter((s) => s.item).length} of {shelf.size} slots filled from a pool of {count(shelf.poolSize)}
         {lastMs !== null ? ` · last change shown in ${Math.round(lastMs)} ms` : ''}
       </p>
       <p className="small changes-line" aria-live="polite">

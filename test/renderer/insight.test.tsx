@@ -2,7 +2,7 @@
 import { fireEvent, screen, waitFor, within } from '@testing-library/react';
 import { describe, expect, it } from 'vitest';
 import { audienceOf, draftOf, type Audience } from '../../src-renderer/components/AudienceField.tsx';
-import { topPercent } from '../../src-renderer/components/format.ts';
+import { dateWords, topPercent } from '../../src-renderer/components/format.ts';
 import { seededApp } from './app-harness.tsx';
 import { openRowInEditor } from './seed.ts';
 
@@ -109,7 +109,8 @@ describe('backtest and similar items in the shelf editor', () => {
     fireEvent.click(within(backtest).getByRole('button', { name: 'Run backtest' }));
     const result = await within(backtest).findByLabelText('Backtest result');
     const api = await app.h.client.call('shelf.backtest', { edition: 'Week 49', shelf: 'Row', windowDays: 14 });
-    expect(result.textContent).toContain(`${api.windowStart} to ${api.windowEnd} (14 days)`);
+    // Dates on screen in the editor's locale, through the one formatter (format.ts dateWords).
+    expect(result.textContent).toContain(`${dateWords(api.windowStart)} to ${dateWords(api.windowEnd)} (14 days)`);
     // Share = engaged / active audience, shown as a percentage with one decimal.
     expect(within(result).getByLabelText(/^This shelf: /).textContent).toBe(`${((api.shelf.engaged / api.audienceActive) * 100).toFixed(1)}%`);
     expect(within(result).getByLabelText(/^Popularity only: /).textContent).toBe(`${((api.popularity.engaged / api.audienceActive) * 100).toFixed(1)}%`);

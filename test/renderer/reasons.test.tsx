@@ -2,7 +2,7 @@
 import { screen, waitFor, within } from '@testing-library/react';
 import { describe, expect, it, onTestFinished } from 'vitest';
 import { reasonWords } from '../../src-main/core/curation/reason-words.ts';
-import { count, rankWords, screenNumbers } from '../../src-renderer/components/format.ts';
+import { count, dateWords, momentWords, rankWords, screenNumbers } from '../../src-renderer/components/format.ts';
 import { seededApp } from './app-harness.tsx';
 import { openRowInEditor } from './seed.ts';
 
@@ -82,11 +82,21 @@ describe('reasons in the shelf editor', () => {
   });
 });
 
-describe('numbers on screen', () => {
+describe('numbers and dates on screen', () => {
   it("groups thousands in the editor's locale (Intl.NumberFormat, ECMA-402) and says where an item stands", () => {
     const expected = new Intl.NumberFormat(undefined).format(1234567);
     expect(count(1234567)).toBe(expected);
     expect(rankWords(3, 1204)).toBe(`3 of ${new Intl.NumberFormat(undefined).format(1204)} in the pool`);
     expect(rankWords(null, 10)).toBe('not in the pool');
+  });
+
+  it('shows a calendar date in the locale, on its own day whatever the time zone, and keeps what is not a date as it came', () => {
+    // ECMA-402: Intl.DateTimeFormat with timeZone 'UTC' formats the instant UTC midnight as that same day.
+    const same = new Intl.DateTimeFormat(undefined, { dateStyle: 'medium', timeZone: 'UTC' }).format(Date.UTC(2026, 11, 7));
+    expect(dateWords('2026-12-07')).toBe(same);
+    expect(dateWords('2026-12-07')).toContain('2026');
+    expect(dateWords('next week')).toBe('next week');
+    expect(dateWords(null)).toBe('—');
+    expect(momentWords(Number.NaN)).toBe('—');
   });
 });

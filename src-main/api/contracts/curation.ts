@@ -204,7 +204,13 @@ export const curationMethods = {
   'edition.export': method({
     summary: 'The edition as CSV, JSON or a standalone HTML preview (sponsored items labelled in words).',
     request: z.object({ edition: label('edition'), format: z.enum(['csv', 'json', 'html']) }).strict(),
-    response: z.object({ format: z.enum(['csv', 'json', 'html']), filename: z.string(), content: z.string() }),
+    response: z.object({
+      format: z.enum(['csv', 'json', 'html']),
+      filename: z.string(),
+      content: z.string(),
+      /** A CSV is a bare table: its columns and the sponsored disclosure come as this separate text file. */
+      notes: z.object({ filename: z.string(), content: z.string() }).nullable(),
+    }),
   }),
   'shelf.add': method({
     summary: 'Add a shelf to a draft edition and fill it from its brief.',

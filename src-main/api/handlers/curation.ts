@@ -4,7 +4,7 @@ import { curationModelSource } from '../../services/curation/model-source.ts';
 import { forgetTasteGroupName, nameTasteGroup, setTasteGroupSettings, tasteGroupsView } from '../../services/curation/taste-groups.ts';
 import { CurationService, type ActionRequest } from '../../services/curation/service.ts';
 import type { EditionView, ShelfView } from '../../services/curation/views.ts';
-import { exportEdition } from '../../services/export/index.ts';
+import { exportEdition, exportNotes } from '../../services/export/index.ts';
 import type { AppContext } from '../../services/context.ts';
 import { forgetCustomer } from '../../services/forget.ts';
 import type { ResponseOf } from '../contract.ts';
@@ -74,7 +74,8 @@ export function curationHandlers(ctx: AppContext): { [M in Names]: Handler<M> } 
     'edition.export': (r) => {
       const snap = svc().snapshotOf(r.edition);
       const safe = snap.edition.label.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '') || 'edition';
-      return { format: r.format, filename: `${safe}.${r.format}`, content: exportEdition(snap, r.format) };
+      const notes = exportNotes(snap, r.format);
+      return { format: r.format, filename: `${safe}.${r.format}`, content: exportEdition(snap, r.format), notes: notes === null ? null : { filename: `${safe}.notes.txt`, content: notes } };
     },
     'shelf.add': (r) => shelf(svc().addShelf(r.edition, r.label, withAnchorIds(r.brief))),
     'shelf.brief': (r) => shelf(svc().setBrief(r.edition, r.shelf, withAnchorIds(r.brief))),

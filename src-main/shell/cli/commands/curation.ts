@@ -384,7 +384,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'an edition as CSV, JSON or a standalone HTML preview',
     usage: ['LABEL --format csv|json|html [--out FILE]'],
     options: { format: { type: 'string' }, out: { type: 'string' } },
-    about: { format: 'csv, json or html (required)', out: 'write the export to this file (default: print it on stdout)' },
+    about: { format: 'csv, json or html (required)', out: 'write the export to this file (default: print it on stdout); a CSV gets its notes beside it in FILE.notes.txt' },
     help: '  without --out the export is written to stdout\n\nexample:\n  shelfwright edition export "week 10" --format html --out week10.html',
     async run(env) {
       const [label] = positionals(env, ['LABEL']);
@@ -396,9 +396,17 @@ export const curationCommands: CliCommand[] = [
       const r = await call(t, 'edition.export', { edition: label!, format });
       if (out) {
         writeFileWhole(out, r.content);
-        env.io.out(env.json ? JSON.stringify({ format, file: out, bytes: Buffer.byteLength(r.content) }) : `wrote ${out}`);
+        // A CSV's notes (columns, sponsored disclosure) go beside it: FILE without its extension + .notes.txt.
+        const notes = r.notes ? `${out.replace(/\.[^./\\]*$/, '')}.notes.txt` : null;
+        if (notes) writeFileWhole(notes, r.notes!.content);
+        const wrote = notes ? `wrote ${out} and ${notes}` : `wrote ${out}`;
+        env.io.out(env.json ? JSON.stringify({ format, file: out, ...(notes && { notes }), bytes: Buffer.byteLength(r.content) }) : wrote);
       } else if (env.json) env.io.out(JSON.stringify(r, null, 2));
-      else env.printFile(r.content);
+      else {
+        env.printFile(r.content);
+        // The table alone on stdout; its notes on stderr, so a pipe still receives one clean CSV.
+        if (r.notes) env.io.err(r.notes.content);
+      }
       return EXIT.ok;
     },
   },

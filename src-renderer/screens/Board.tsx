@@ -103,6 +103,8 @@ export function Board() {
                   </li>
                 ))}
               </ol>
+              {/* The card lists the first five slots; the rest are counted, so a card never looks complete when it is not. */}
+              {s.slots.length > 5 && <p className="muted small">+{count(s.slots.length - 5)} more</p>}
               <button
                 type="button"
                 aria-label={`Edit shelf ${s.label}`}

@@ -53,7 +53,10 @@ async function trainAndEvaluate(page: Page, o: JourneyOptions): Promise<void> {
   const trained = page.getByRole('region', { name: 'Trained models' });
   await expect(trained.locator('tbody th').first()).toBeVisible();
   const kinds = await trained.locator('tbody th').allInnerTexts();
-  expect(kinds).toEqual(expect.arrayContaining(['content', 'itemknn', 'ials', 'ease', 'popularity']));
+  // Named in words with the method's name kept in brackets (core/models/model-words.ts).
+  expect(kinds.map((k) => /\(([^)]*)\)$/.exec(k)?.[1])).toEqual(
+    expect.arrayContaining(['content, TF-IDF', 'item-kNN', 'iALS matrix factorisation', 'EASE', 'popularity baseline']),
+  );
 
   // Evaluate against the held-out tenth of the signals (never imported), with one unknown customer and item.
   const panel = page.getByRole('region', { name: 'Evaluate against a file' });

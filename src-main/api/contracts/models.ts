@@ -149,8 +149,10 @@ export const HybridView = z.object({
 export const OfflineEvaluation = z.object({
   k: z.number().int(),
   evaluatedAt: z.number(),
-  /** The workspace changed since this evaluation ran. */
+  /** The workspace changed, or the models were retrained, since this evaluation ran. */
   stale: z.boolean(),
+  /** Why it is stale, in words (null when current). */
+  staleReason: z.string().nullable(),
   split: z.object({ validationFrom: z.number(), testFrom: z.number(), train: z.number().int(), validation: z.number().int(), test: z.number().int() }),
   /** The hybrid's weight of each model, chosen on the validation window. */
   weights: z.record(z.string(), z.number()),
@@ -248,7 +250,7 @@ export const modelMethods = {
     response: JobState,
   }),
   'evaluate.latest': method({
-    summary: 'The latest stored offline evaluation (null when none ran since training).',
+    summary: 'The latest stored offline evaluation, kept (marked stale) after a retrain; null when none is stored.',
     request: z.object({}).strict(),
     response: z.object({ evaluation: OfflineEvaluation.nullable() }),
   }),

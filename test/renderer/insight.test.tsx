@@ -107,6 +107,8 @@ describe('backtest and similar items in the shelf editor', () => {
     const backtest = await screen.findByRole('region', { name: 'Backtest' });
     fireEvent.change(within(backtest).getByLabelText('Window (last days of the data)'), { target: { value: '14' } });
     fireEvent.click(within(backtest).getByRole('button', { name: 'Run backtest' }));
+    // It says what it measures before any figure, without a pointer.
+    expect(within(backtest).getByText(/^What it measures: of this shelf’s audience who were active in the last 14 days/)).toBeTruthy();
     const result = await within(backtest).findByLabelText('Backtest result');
     const api = await app.h.client.call('shelf.backtest', { edition: 'Week 49', shelf: 'Row', windowDays: 14 });
     // Dates on screen in the editor's locale, through the one formatter (format.ts dateWords).

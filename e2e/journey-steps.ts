@@ -134,7 +134,7 @@ async function editShelf(page: Page, o: JourneyOptions): Promise<void> {
   const history = page.locator('.history li');
   const title = async (n: number) => (await slot(n).locator('.slot-title').innerText()).replace(/\s*(Sponsored|Pinned)\s*/g, '').trim();
   await expect(slot(8)).toBeVisible();
-  await expect(slot(1)).toContainText(/top \d+% of pool/);
+  await expect(slot(1)).toContainText(/\d+ of [\d,.\s]+ in the pool/);
   const before = await meterText(page);
 
   // Each action: the time from the click until the list shows it. List and meter come from one shelf
@@ -180,8 +180,8 @@ async function editShelf(page: Page, o: JourneyOptions): Promise<void> {
   await anchors.getByRole('button', { name: 'Rank the pool towards these anchors' }).click();
   const proposals = anchors.getByRole('list', { name: 'Proposals ranked towards the anchors' });
   await expect(proposals.getByRole('listitem')).toHaveCount(8);
-  // propose reports 0–100 percentiles; the screen shows them on the same "top N%" scale as the slots.
-  await expect(proposals.getByRole('listitem').first()).toContainText(/top \d+% of pool/);
+  // Proposals say their place in the pool, as the slots do.
+  await expect(proposals.getByRole('listitem').first()).toContainText(/\d+ of [\d,.\s]+ in the pool/);
   await anchors.getByLabel('Pin a proposal into slot').selectOption('8');
   // The buttons name the chosen slot: read a label only once it says slot 8.
   const pick = proposals.getByRole('button', { name: /^Pin .* into slot 8$/ }).first();

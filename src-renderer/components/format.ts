@@ -20,20 +20,6 @@ export function today(d = new Date()): string {
   return `${d.getFullYear()}-${m}-${day}`;
 }
 
-/**
- * The one place percentiles become words. The api speaks two scales: `propose` returns 0–100 while slots
- * and `shelf.whatif` return 0–1 (1 = best of the pool in both). Editors read "top N%": the share of the
- * pool ranked at or above the item, rounded up so the best item reads "top 1%", never "top 0%".
- */
-export type PercentileScale = 'unit' | 'hundred';
-
-export function topPercent(p: number | null | undefined, scale: PercentileScale): string {
-  if (p === null || p === undefined || !Number.isFinite(p)) return NO_DATA;
-  const unit = scale === 'hundred' ? p / 100 : p;
-  if (unit < 0 || unit > 1) throw new RangeError(`percentile ${p} is outside the ${scale === 'hundred' ? '0–100' : '0–1'} scale`);
-  return `top ${Math.max(1, Math.ceil((1 - unit) * 100 - 1e-9))}%`;
-}
-
 /** Whole numbers in the editor's locale, with its thousands separators (Intl; the browser's language). */
 const counts = new Intl.NumberFormat(undefined, { maximumFractionDigits: 0 });
 export function count(n: number | null | undefined): string {

@@ -225,7 +225,7 @@ export function propose(db: Db, brief: Brief, options: ProposeOptions): Proposal
       multiplier: s.multiplier,
       percentile: Math.round(s.percentile * 1000) / 10,
       rank: ranks[p]!,
-      reason: mainReason(s, facts),
+      reason: mainReason({ ...s, contentStandsIn: scores.available.content }, facts),
       coldStart: s.coldStart,
       contributions: s.contributions,
       raw: s.raw,

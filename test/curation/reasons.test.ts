@@ -139,6 +139,11 @@ describe('the main reason', () => {
     const cold = mainReason(parts(1, { collaborative: 0.5 }, { coldStart: true, evidence: ev }), facts(items));
     expect(cold).toMatchObject({ kind: 'anchor', via: 'content', anchor: { title: 'Clay Mug' } });
     expect(reasonWords(cold!)).toBe('Like anchor “Clay Mug”: similar in title, description or attributes');
+    // Without anchors the scorer keeps a cold item's own audience part (hybrid.ts): the audience speaks for it.
+    const held = [{ item: 'sku-1', title: 'Oak Lamp', people: 3, did: 'purchase' as const }];
+    const audience = facts(items, { audience: { size: 9, heldFor: () => held } });
+    const own = mainReason(parts(1, { audience: 0.5 }, { coldStart: true, contentStandsIn: false }), audience);
+    expect(reasonWords(own!)).toBe('People in this audience bought “Oak Lamp” (3 of 9 people)');
   });
 
   it('says an item is rising only when its recent window holds more than the one before, else the next part speaks', () => {

@@ -39,6 +39,12 @@ export interface ScoreParts {
   contributions: Record<Component, number>;
   /** Anchors behind the content and collaborative parts, strongest first (dense items). */
   evidence: { content: { item: number }[]; collaborative: { item: number }[] };
+  /**
+   * Whether content stood in for a cold item's collaborative and audience parts: the scorer does so only
+   * when content was available (anchors and a content model; PoolScores.available.content). Absent: taken
+   * to be so when there is content evidence.
+   */
+  contentStandsIn?: boolean;
 }
 
 /** The data reasons are drawn from. Items are dense indices into `items`. */
@@ -117,7 +123,7 @@ export function mainReason(x: ScoreParts, facts: ReasonFacts): Reason | null {
   const i = x.index;
   for (const [part] of parts) {
     let r: Reason | null = null;
-    const stand = x.coldStart && (part === 'collaborative' || part === 'audience');
+    const stand = x.coldStart && (x.contentStandsIn ?? x.evidence.content.length > 0) && (part === 'collaborative' || part === 'audience');
     if (part === 'content' || stand) r = anchorReason(facts, i, x.evidence.content[0]?.item ?? x.evidence.collaborative[0]?.item, 'content');
     else if (part === 'collaborative') r = anchorReason(facts, i, x.evidence.collaborative[0]?.item, 'collaborative');
     else if (part === 'audience') r = audienceReason(facts, i);

@@ -78,7 +78,7 @@ export function reasonFacts(world: CurationWorld, brief: Brief, editionDate: num
 export function explainItem(facts: ReasonFacts, scores: PoolScores, posOf: Int32Array, i: number): SlotExplanation {
   const p = i < 0 ? -1 : posOf[i]!;
   if (p < 0) return { rank: null, reason: null };
-  return { rank: scores.ranks()[p]!, reason: mainReason(scores.explain(p), facts) };
+  return { rank: scores.ranks()[p]!, reason: mainReason({ ...scores.explain(p), contentStandsIn: scores.available.content }, facts) };
 }
 
 /** Rank and main reason per slot (`dense`: dense item per slot, -1 empty). */

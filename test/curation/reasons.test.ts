@@ -141,7 +141,7 @@ describe('the main reason', () => {
     expect(reasonWords(cold!)).toBe('Like anchor “Clay Mug”: similar in title, description or attributes');
     // Without anchors the scorer keeps a cold item's own audience part (hybrid.ts): the audience speaks for it.
     const held = [{ item: 'sku-1', title: 'Oak Lamp', people: 3, did: 'purchase' as const }];
-    const audience = facts(items, { audience: { size: 9, heldFor: () => held } });
+    const audience = facts(items, { audience: { size: 9, heldFor: () => held }, customerCount: 20 });
     const own = mainReason(parts(1, { audience: 0.5 }, { coldStart: true, contentStandsIn: false }), audience);
     expect(reasonWords(own!)).toBe('People in this audience bought “Oak Lamp” (3 of 9 people)');
   });
@@ -220,8 +220,12 @@ describe('what the audience holds that leads to an item', () => {
     // Oak Lamp: two bought it and two viewed it: the tie goes to the kind listed first (view).
     expect(held[0]).toMatchObject({ people: 2, did: 'view' });
     expect(held[2]).toMatchObject({ people: 1, did: 'purchase' });
-    const r = mainReason(parts(3, { audience: 0.7 }), facts(items, { audience: { size: 4, heldFor: (i) => heldLeadingTo(h, Float32Array.from(S[i]!), i, items) } }));
+    const aud = { size: 4, heldFor: (i: number) => heldLeadingTo(h, Float32Array.from(S[i]!), i, items) };
+    const r = mainReason(parts(3, { audience: 0.7 }), facts(items, { audience: aud, customerCount: 5 }));
     expect(reasonWords(r!, { count: (n) => n.toLocaleString('en-GB') })).toBe('People in this audience viewed “Oak Lamp” and “Oak Shade” (2 and 3 of 4 people)');
+    // An audience of every customer is said as customers.
+    const all = mainReason(parts(3, { audience: 0.7 }), facts(items, { audience: aud, customerCount: 4 }));
+    expect(reasonWords(all!)).toBe('Customers viewed “Oak Lamp” and “Oak Shade” (2 and 3 of 4 customers)');
   });
 
   it('gives no audience reason when the audience holds nothing like the item, and the next part speaks', () => {

@@ -12,6 +12,8 @@ export const ReasonView = z.discriminatedUnion('kind', [
   z.object({
     kind: z.literal('audience'),
     audienceSize: count,
+    /** The audience is every customer of the shop. */
+    everyone: z.boolean(),
     held: z.array(z.object({ ...Named, people: count, did: z.enum(SIGNAL_KINDS) })).min(1),
   }),
   z.object({

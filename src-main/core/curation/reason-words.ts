@@ -61,7 +61,9 @@ export function reasonWords(r: Reason, c: NumberWords = plainNumbers): string {
       const verbs = new Set(r.held.map((h) => h.did));
       const what =
         verbs.size === 1 ? `${DID[r.held[0]!.did]} ${list(r.held.map((h) => quoted(h.title)))}` : list(r.held.map((h) => `${DID[h.did]} ${quoted(h.title)}`));
-      return `People in this audience ${what} (${list(r.held.map((h) => c.count(h.people)))} of ${c.count(r.audienceSize)} people)`;
+      // A shelf for everyone says "customers": "people in this audience" would suggest a narrower group.
+      const [who, unit] = r.everyone ? ['Customers', 'customers'] : ['People in this audience', 'people'];
+      return `${who} ${what} (${list(r.held.map((h) => c.count(h.people)))} of ${c.count(r.audienceSize)} ${unit})`;
     }
     case 'anchor': {
       const shared: string[] = [];

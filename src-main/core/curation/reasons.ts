@@ -24,7 +24,7 @@ export interface AudienceHeld extends NamedItem {
 }
 
 export type Reason =
-  | { kind: 'audience'; audienceSize: number; held: AudienceHeld[] }
+  | { kind: 'audience'; audienceSize: number; everyone: boolean; held: AudienceHeld[] }
   | { kind: 'anchor'; via: 'content' | 'collaborative'; anchor: NamedItem; sharedTags: string[]; sameCategory: string | null; sameSupplier: string | null }
   | { kind: 'rising'; recent: number; previous: number; windowDays: number; noun: SignalKind | null }
   | { kind: 'new'; ageDays: number }
@@ -108,7 +108,8 @@ function popularReason(facts: ReasonFacts, i: number): Reason | null {
 function audienceReason(facts: ReasonFacts, i: number): Reason | null {
   if (!facts.audience) return null;
   const held = facts.audience.heldFor(i).slice(0, AUDIENCE_ITEMS_NAMED);
-  return held.length > 0 ? { kind: 'audience', audienceSize: facts.audience.size, held } : null;
+  const size = facts.audience.size;
+  return held.length > 0 ? { kind: 'audience', audienceSize: size, everyone: size === facts.customerCount, held } : null;
 }
 
 /**

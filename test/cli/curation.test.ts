@@ -121,6 +121,9 @@ describe('shelfwright edition and shelf commands', () => {
     const rows = parse(csv.out) as string[][];
     expect(rows[0]![8]).toBe('sponsored');
     expect(rows.length).toBe(1 + 15);
+    // Each filled slot carries its rank in the pool it was filled from, frozen at publish.
+    expect(rows[0]![11]).toBe('rank');
+    for (const r of rows.slice(1)) if (r[4] !== '') expect(r[11]).toMatch(/^[1-9]\d*$/);
     expect(csv.err).toMatch(/differ by country/);
     const csvOut = path.join(path.dirname(w), 'week10.csv');
     expect((await run('edition', 'export', 'week 10', '--format', 'csv', '--out', csvOut)).out).toBe(`wrote ${csvOut} and ${path.join(path.dirname(w), 'week10.notes.txt')}`);

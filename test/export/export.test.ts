@@ -16,6 +16,7 @@ function slot(k: number, title: string, promoted = false): SnapshotSlot {
     pinned: k === 0,
     score: 0.5,
     percentile: 0.9 - k * 0.1,
+    rank: k + 1,
   };
 }
 
@@ -59,7 +60,8 @@ describe('CSV export', () => {
     const text = exportEdition(snapshot, 'csv');
     // Strict: every record has the header's column count (csv-parse rejects a ragged record by default).
     const rows = parse(text) as string[][];
-    expect(rows[0]).toEqual(['edition', 'date', 'shelf', 'slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pinned', 'percentile']);
+    expect(rows[0]).toEqual(['edition', 'date', 'shelf', 'slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pinned', 'percentile', 'rank']);
+    expect(rows.slice(1, 4).map((r) => r[11])).toEqual(['1', '2', '3']);
     expect(rows.slice(1, 7).map((r) => r[5])).toEqual(HOSTILE.map((t) => `'${t}`));
     expect(rows.slice(1).every((r) => !/^[=+\-@\t\r]/.test(r.join('')))).toBe(true);
     expect(rows[2]![8]).toBe('Sponsored');

@@ -18,7 +18,7 @@ export function csvCell(value: string | number | boolean | null): string {
   return /[",\r\n]/.test(s) ? `"${s.replaceAll('"', '""')}"` : s;
 }
 
-export const CSV_HEADER = ['edition', 'date', 'shelf', 'slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pinned', 'percentile'] as const;
+export const CSV_HEADER = ['edition', 'date', 'shelf', 'slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pinned', 'percentile', 'rank'] as const;
 
 export function editionCsv(e: EditionSnapshot): string {
   const rows: (string | number | boolean | null)[][] = [[...CSV_HEADER]];
@@ -36,6 +36,7 @@ export function editionCsv(e: EditionSnapshot): string {
         s.promoted ? SPONSORED : '',
         s.pinned ? 'pinned' : '',
         s.percentile === null ? null : Math.round(s.percentile * 100),
+        s.rank ?? null,
       ]);
     }
   }
@@ -55,6 +56,7 @@ const COLUMN_NOTES: Readonly<Record<(typeof CSV_HEADER)[number], string>> = {
   sponsored: `"${SPONSORED}" for a promoted (paid) item, else empty`,
   pinned: '"pinned" when the editor fixed the item at this slot',
   percentile: "the item's score as a percentile of the shelf's pool when it was filled, 0 to 100",
+  rank: "the item's place by score in the shelf's pool when it was filled, 1 = best (different scores never share a place); empty for an edition published before ranks were kept",
 };
 
 /** The notes that travel beside the CSV: what it is, its columns, and the sponsored disclosure. */

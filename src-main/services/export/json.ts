@@ -19,6 +19,7 @@ export function editionJson(e: EditionSnapshot): string {
         sponsored: s.promoted ? SPONSORED : null,
         pinned: s.pinned,
         percentile: s.percentile,
+        rank: s.rank ?? null,
       })),
     })),
   };

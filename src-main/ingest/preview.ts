@@ -24,6 +24,8 @@ export interface ImportPreview {
   extraColumns: string[];
   /** The first SAMPLE_ROWS data rows as text, for the column-mapping screen. */
   sampleRows: string[][];
+  /** The file line each sample row starts on (a quoted CSV field may span lines), to point at a rejected cell. */
+  sampleLines: number[];
   /** Everything wrong so far, each as `file:line:column: reason`. Empty means the sample would import. */
   problems: string[];
 }
@@ -36,7 +38,7 @@ export const SAMPLE_ROWS = 20;
  * screen shows them next to the columns so the editor can fix the mapping and look again.
  */
 export async function previewFile(file: string, target: ImportTarget, o: PreviewOptions = {}): Promise<ImportPreview> {
-  const out: ImportPreview = { format: 'csv', delimiter: null, headers: [], mapping: {}, extraColumns: [], sampleRows: [], problems: [] };
+  const out: ImportPreview = { format: 'csv', delimiter: null, headers: [], mapping: {}, extraColumns: [], sampleRows: [], sampleLines: [], problems: [] };
   let convert: ReturnType<typeof rowConverter> | undefined;
   const problems: Problem[] = [];
   try {
@@ -61,6 +63,7 @@ export async function previewFile(file: string, target: ImportTarget, o: Preview
         },
         row(values, line, record) {
           out.sampleRows.push(values.map(asText));
+          out.sampleLines.push(line);
           problems.length = 0;
           convert?.(values, problems);
           const inRecord = record === undefined ? '' : `record ${record}: `;

@@ -29,14 +29,22 @@ export function listModels(db: Db): ModelStatus[] {
   return modelStatus(db);
 }
 
-/** The latest stored offline evaluation, or null when none has run since the models were trained. */
-export function latestEvaluation(db: Db): StoredOffline | null {
+/**
+ * The latest stored offline evaluation, from the current models or the ones they replaced (the store keeps
+ * the previous model of each kind), so a retrain does not wipe the figures off the screen: they stay, marked
+ * as measuring the models before (`retrainedSince`). null when no stored model carries one.
+ */
+export function latestEvaluation(db: Db): (StoredOffline & { retrainedSince: boolean }) | null {
+  const all = new ModelRepo(db).list();
   let best: StoredOffline | null = null;
-  for (const m of modelStatus(db)) {
+  for (const m of all) {
     const off = (m.evaluation as ModelEvaluationRecord | null)?.offline;
     if (off && (!best || off.evaluatedAt > best.evaluatedAt)) best = off;
   }
-  return best;
+  if (!best) return null;
+  // evaluateAndStore runs after the models it measures were trained: any current model trained later is not in it.
+  const retrainedSince = all.some((m) => m.current && m.trainedAt > best.evaluatedAt);
+  return { ...best, retrainedSince };
 }
 
 /**

@@ -22,6 +22,8 @@ import { ModelRepo } from '../store/models.ts';
 import type { Db } from '../store/workspace.ts';
 import { loadWorld, trendFor, type ModelSource } from './curation/world.ts';
 import { anchorRelevanceOf } from './curation/shelf-fill.ts';
+import { reasonFacts } from './curation/slot-reasons.ts';
+import { mainReason, type Reason } from '../core/curation/reasons.ts';
 import { blendOf, ownedMatrix } from './holdout/trained.ts';
 
 export interface LoadedModels {
@@ -115,6 +117,10 @@ export interface ProposedItem {
   multiplier: number;
   /** Percentile within the pool, 0..100 (what editors see). */
   percentile: number;
+  /** Place by score in the pool, 1 = best, ties sharing the best place (scoring/rank.ts). */
+  rank: number;
+  /** The main reason it is proposed, from the data (core/curation/reasons.ts). */
+  reason: Reason | null;
   coldStart: boolean;
   contributions: Record<Component, number>;
   raw: Record<Component, number>;
@@ -206,7 +212,11 @@ export function propose(db: Db, brief: Brief, options: ProposeOptions): Proposal
     title: ds.items[e.item]!.title,
     similarity: e.similarity,
   });
-  const items = scores.top(n).map((s: ScoredItem): ProposedItem => {
+  const facts = reasonFacts(world, brief, editionDate, affinity ? audience : null);
+  const ranks = scores.ranks();
+  const order = scores.order();
+  const items = Array.from(order.subarray(0, n), (p): ProposedItem => {
+    const s: ScoredItem = scores.explain(p);
     const it = ds.items[s.index]!;
     return {
       itemId: it.id,
@@ -217,6 +227,8 @@ export function propose(db: Db, brief: Brief, options: ProposeOptions): Proposal
       blended: s.blended,
       multiplier: s.multiplier,
       percentile: Math.round(s.percentile * 1000) / 10,
+      rank: ranks[p]!,
+      reason: mainReason({ ...s, contentStandsIn: scores.available.content }, facts),
       coldStart: s.coldStart,
       contributions: s.contributions,
       raw: s.raw,

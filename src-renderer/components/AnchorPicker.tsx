@@ -2,7 +2,8 @@ import { useId, useState, type FormEvent } from 'react';
 import type { ShelfView } from '../state/curation-slice.ts';
 import type { ItemRef } from '../state/insight-slice.ts';
 import { useApp } from '../state/store.ts';
-import { topPercent } from './format.ts';
+import { rankWords, screenNumbers } from './format.ts';
+import { reasonWords } from '../../src-main/core/curation/reason-words.ts';
 import { SlotSelect } from './SlotSelect.tsx';
 
 /**
@@ -119,8 +120,10 @@ export function AnchorPicker({ shelf, readOnly }: { shelf: ShelfView; readOnly: 
                 <span>
                   {p.title} {p.sponsored && <span className="sponsored">Sponsored</span>}{' '}
                   <span className="muted small">
-                    {topPercent(p.percentile, 'hundred')} of pool{p.coldStart ? ' · new item' : ''}
+                    {rankWords(p.rank, proposal.poolSize)}
+                    {p.coldStart ? ' · new item' : ''}
                   </span>
+                  {p.reason && <span className="small reason-line">{reasonWords(p.reason, screenNumbers)}</span>}
                 </span>
                 <button type="button" className="quiet" disabled={readOnly} aria-label={`Pin ${p.title} into slot ${slot}`} onClick={() => void act({ kind: 'pin', slot, item: p.item })}>
                   Pin

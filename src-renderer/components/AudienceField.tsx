@@ -1,6 +1,7 @@
 import { useEffect, useId } from 'react';
 import type { Brief } from '../state/curation-slice.ts';
 import { useApp } from '../state/store.ts';
+import { count } from './format.ts';
 
 export type Audience = NonNullable<Brief['audience']>;
 
@@ -98,7 +99,7 @@ export function AudienceField({ draft, onChange, disabled }: { draft: AudienceDr
             )}
             {list.map((g) => (
               <option key={g.group} value={optionOf(g.group, g.name)}>
-                {g.name ? `“${g.name}”` : `Group ${g.group + 1}`} ({g.customers.toLocaleString('en')} customers): {g.categories.slice(0, 3).map((c) => c.value).join(', ') || 'no categories'}
+                {g.name ? `“${g.name}”` : `Group ${g.group + 1}`} ({count(g.customers)} customers): {g.categories.slice(0, 3).map((c) => c.value).join(', ') || 'no categories'}
                 {g.tags.length > 0 ? ` · ${g.tags.slice(0, 3).map((t) => t.value).join(', ')}` : ''}
               </option>
             ))}

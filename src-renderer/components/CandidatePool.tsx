@@ -2,11 +2,13 @@ import { useVirtualizer } from '@tanstack/react-virtual';
 import { useEffect, useId, useRef } from 'react';
 import type { ShelfAction, ShelfView } from '../state/curation-slice.ts';
 import { useApp } from '../state/store.ts';
-import { topPercent } from './format.ts';
+import { reasonWords } from '../../src-main/core/curation/reason-words.ts';
+import { count, rankWords, screenNumbers } from './format.ts';
 import { ItemPicture } from './ItemPicture.tsx';
 import { SlotSelect } from './SlotSelect.tsx';
 
-const ROW_PX = 56;
+/** Three lines: title, rank, reason. */
+const ROW_PX = 72;
 
 /**
  * The best candidates not on the shelf for one slot, from `shelf.whatif`, virtualised
@@ -38,7 +40,7 @@ export function CandidatePool({ shelf, slot, onSlot, readOnly, onAct }: { shelf:
           Could not rank the candidates: {whatif.error}
         </p>
       )}
-      <p className="muted small">{whatif.loading && items.length === 0 ? 'Ranking…' : `${items.length} candidates not on this shelf, best first`}</p>
+      <p className="muted small">{whatif.loading && items.length === 0 ? 'Ranking…' : `${count(items.length)} candidates not on this shelf, best first`}</p>
       <div ref={scroller} className="pool-scroll" onMouseLeave={() => focus(null)}>
         <ul style={{ height: virtual.getTotalSize(), position: 'relative' }} aria-label="Candidates for this slot">
           {virtual.getVirtualItems().map((v) => {
@@ -55,8 +57,13 @@ export function CandidatePool({ shelf, slot, onSlot, readOnly, onAct }: { shelf:
                 <div className="candidate-main">
                   <p className="slot-title">{c.title}</p>
                   <p className="small">
-                    {c.promoted && <span className="sponsored">Sponsored</span>} <span className="muted">{topPercent(c.percentile, 'unit')} of pool</span>
+                    {c.promoted && <span className="sponsored">Sponsored</span>} <span className="muted">{rankWords(c.rank, shelf.poolSize)}</span>
                   </p>
+                  {c.reason && (
+                    <p className="small reason" title={reasonWords(c.reason, screenNumbers)}>
+                      {reasonWords(c.reason, screenNumbers)}
+                    </p>
+                  )}
                 </div>
                 <button
                   type="button"

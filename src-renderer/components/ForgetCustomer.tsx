@@ -1,5 +1,6 @@
 import { useId, useState, type FormEvent } from 'react';
 import { useApp } from '../state/store.ts';
+import { count } from './format.ts';
 
 /**
  * Erase one customer (`customer.forget`): their signals, their row and model rows that held them. Two
@@ -74,7 +75,7 @@ export function ForgetCustomer() {
       )}
       {done && !error && (
         <p className="notice" role="status">
-          Customer {done.customer} erased: {done.signals.toLocaleString('en')} signals removed
+          Customer {done.customer} erased: {count(done.signals)} signals removed
           {done.modelsDeleted.length > 0 ? `; models removed: ${done.modelsDeleted.join(', ')}` : ''}
           {done.modelsStale.length > 0 ? `; out of date until retrained: ${done.modelsStale.join(', ')}` : ''}.
           {!done.bytesRemoved && ' The file could not be rewritten yet (another program was reading it): traces may remain until the next training run or opening of the workspace.'}

@@ -4,6 +4,7 @@ import { useApp } from '../state/store.ts';
 import { num, pct } from './format.ts';
 import { MetricsChart } from './MetricsChart.tsx';
 import { Notes } from './Notes.tsx';
+import { modelWords } from '../../src-main/core/models/model-words.ts';
 
 /**
  * "Evaluate against a file": the editor brings held-out pairs (customer, item; CSV or JSON Lines, mapped
@@ -19,7 +20,7 @@ export function HoldoutPanel() {
   const [k, setK] = useState(20);
   const id = useId();
   const rows = result?.models ?? [];
-  const labels = useMemo(() => rows.map((r) => r.model), [rows]);
+  const labels = useMemo(() => rows.map((r) => modelWords(r.model)), [rows]);
   const series = useMemo(
     () => [
       { name: `NDCG@${result?.k ?? k}`, values: rows.map((r) => r.ndcg), color: '#24605a' },
@@ -91,7 +92,7 @@ export function HoldoutPanel() {
             <tbody>
               {rows.map((r) => (
                 <tr key={r.model}>
-                  <th scope="row">{r.model}</th>
+                  <th scope="row">{modelWords(r.model)}</th>
                   <td className="num">{num(r.ndcg, 3)}</td>
                   <td className="num">{num(r.recall, 3)}</td>
                   <td className="num">{num(r.hitRate, 3)}</td>

@@ -1,7 +1,7 @@
 import { useId, useState } from 'react';
 import type { ShelfView } from '../state/curation-slice.ts';
 import { useApp } from '../state/store.ts';
-import { num, pct } from './format.ts';
+import { num, pct, dateWords, count } from './format.ts';
 import { Notes } from './Notes.tsx';
 
 /**
@@ -30,9 +30,14 @@ export function BacktestPanel({ shelf }: { shelf: ShelfView }) {
   return (
     <section className="panel" aria-labelledby={`${id}-h`}>
       <h2 id={`${id}-h`}>Backtest</h2>
+      <p className="small" id={`${id}-what`}>
+        What it measures: of this shelf’s audience who were active in the last {count(days)} days of the data, the share who interacted
+        with at least one of the shelf’s items in those days, beside the same share for a list of the same size of the items most
+        customers chose in the {count(days)} days before. It replays the past; it does not predict how the shelf will do.
+      </p>
       <div className="field">
         <label htmlFor={`${id}-d`}>Window (last days of the data)</label>
-        <input id={`${id}-d`} type="number" min={1} max={365} value={days} onChange={(e) => setDays(Number(e.target.value))} />
+        <input id={`${id}-d`} type="number" min={1} max={365} value={days} aria-describedby={`${id}-what`} onChange={(e) => setDays(Number(e.target.value))} />
       </div>
       <button type="button" className="quiet" disabled={busy} onClick={() => void run(days)}>
         {busy ? 'Replaying…' : 'Run backtest'}
@@ -45,7 +50,7 @@ export function BacktestPanel({ shelf }: { shelf: ShelfView }) {
       {result && (
         <div aria-live="polite" aria-label="Backtest result">
           <p className="small">
-            {result.windowStart} to {result.windowEnd} ({result.windowDays} days) · {result.audienceActive.toLocaleString('en')} audience
+            {dateWords(result.windowStart)} to {dateWords(result.windowEnd)} ({result.windowDays} days) · {count(result.audienceActive)} audience
             customers active
           </p>
           <div className="compare-bars">

@@ -14,30 +14,42 @@ import {
 import { SortableContext, sortableKeyboardCoordinates, useSortable, verticalListSortingStrategy } from '@dnd-kit/sortable';
 import type { ShelfAction, ShelfView } from '../state/curation-slice.ts';
 import type { changeMarks } from './change-words.ts';
-import { topPercent } from './format.ts';
+import { reasonWords } from '../../src-main/core/curation/reason-words.ts';
+import { rankWords, screenNumbers } from './format.ts';
 import { ItemPicture } from './ItemPicture.tsx';
 
 type Slot = ShelfView['slots'][number];
 type Mark = ReturnType<typeof changeMarks> extends Map<string, infer M> ? M : never;
 
-/** Component contributions as labelled bars: why the scorer proposed the item (the numbers are in the text too). */
-export function ExplanationBars({ contributions }: { contributions: Record<string, number> }) {
-  const entries = Object.entries(contributions).filter(([, v]) => Number.isFinite(v));
-  const max = Math.max(1e-9, ...entries.map(([, v]) => Math.abs(v)));
+/**
+ * Component contributions as labelled bars, second to the reason. Every row draws on one scale (`scale`:
+ * the largest contribution on the shelf), so a longer bar in one row is a larger part than a shorter one in
+ * another; the numbers are in the text too.
+ */
+export function ExplanationBars({ contributions, scale }: { contributions: Record<string, number>; scale: number }) {
+  const entries = Object.entries(contributions).filter(([, v]) => Number.isFinite(v) && v > 0);
   if (entries.length === 0) return <p className="muted small">No score parts (placed by hand).</p>;
+  const full = Math.max(1e-9, scale);
   return (
-    <ul className="bars" aria-label="Why this item">
+    <ul className="bars" aria-label="Parts of the score">
       {entries.map(([k, v]) => (
         <li key={k}>
           <span className="bar-label">{k}</span>
           <span className="bar-track" aria-hidden="true">
-            <span className="bar-fill" style={{ width: `${(Math.abs(v) / max) * 100}%` }} />
+            <span className="bar-fill" style={{ width: `${Math.min(1, v / full) * 100}%` }} />
           </span>
           <span className="bar-value">{v.toFixed(2)}</span>
         </li>
       ))}
     </ul>
   );
+}
+
+/** The largest contribution on the shelf: the one scale its bars share. */
+export function barScale(slots: readonly { contributions: Record<string, number> }[]): number {
+  let m = 0;
+  for (const s of slots) for (const v of Object.values(s.contributions)) if (Number.isFinite(v) && v > m) m = v;
+  return m;
 }
 
 interface RowProps {
@@ -47,10 +59,12 @@ interface RowProps {
   busy: boolean;
   /** How the last change touched this item, if it did: shown in words, not colour alone. */
   mark: Mark | undefined;
+  poolSize: number;
+  scale: number;
   onAct(action: ShelfAction): void;
 }
 
-function SlotRow({ slot, readOnly, busy, mark, onAct }: RowProps) {
+function SlotRow({ slot, readOnly, busy, mark, poolSize, scale, onAct }: RowProps) {
   // Busy only disables the sortable (aria-disabled on the handle), not the button, so keyboard focus stays put.
   const { attributes, listeners, setNodeRef, transform, transition, isDragging } = useSortable({
     id: sortId(slot),
@@ -84,11 +98,14 @@ function SlotRow({ slot, readOnly, busy, mark, onAct }: RowProps) {
           {mark?.kind === 'moved' && <span className="tag change">Was slot {mark.from}</span>}
         </p>
         {item && (
+          <p className="reason">{slot.reason ? reasonWords(slot.reason, screenNumbers) : <span className="muted">No part of its score has evidence to show in words.</span>}</p>
+        )}
+        {item && (
           <p className="muted small">
-            {slot.category || 'no category'} · {slot.supplier || 'no supplier'} · {topPercent(slot.percentile, 'unit')} of pool
+            {slot.category || 'no category'} · {slot.supplier || 'no supplier'} · {rankWords(slot.rank, poolSize)}
           </p>
         )}
-        {item && <ExplanationBars contributions={slot.contributions} />}
+        {item && <ExplanationBars contributions={slot.contributions} scale={scale} />}
       </div>
       {item && !readOnly && (
         <div className="slot-actions" role="group" aria-label={`Actions for ${name}`}>
@@ -140,12 +157,15 @@ export function SlotList({
   readOnly,
   busy = false,
   marks = new Map(),
+  poolSize,
   onAct,
 }: {
   slots: readonly Slot[];
   readOnly: boolean;
   busy?: boolean;
   marks?: ReadonlyMap<string, Mark>;
+  /** Candidates in the pool the ranks are counted in. */
+  poolSize: number;
   onAct(a: ShelfAction): void;
 }) {
   // A small distance before a drag starts, so a click on the handle is not a drag.
@@ -178,6 +198,7 @@ export function SlotList({
     onDragCancel: ({ active }: { active: { id: string | number } }) => `Move cancelled; ${title(active.id)} stays in slot ${slotNo(active.id)}.`,
   };
   const lifted = dragging === null ? undefined : byId(dragging);
+  const scale = barScale(slots);
   const screenReaderInstructions = {
     draggable: 'To move an item, press Space, use the arrow keys to choose a slot, then press Space again. Escape cancels.',
   };
@@ -193,7 +214,7 @@ export function SlotList({
       <SortableContext items={slots.map(sortId)} strategy={verticalListSortingStrategy}>
         <ol className="slots" aria-label="Slots">
           {slots.map((s) => (
-            <SlotRow key={sortId(s)} slot={s} readOnly={readOnly} busy={busy} mark={s.item === null ? undefined : marks.get(s.item)} onAct={onAct} />
+            <SlotRow key={sortId(s)} slot={s} readOnly={readOnly} busy={busy} mark={s.item === null ? undefined : marks.get(s.item)} poolSize={poolSize} scale={scale} onAct={onAct} />
           ))}
         </ol>
       </SortableContext>

@@ -20,16 +20,47 @@ export function today(d = new Date()): string {
   return `${d.getFullYear()}-${m}-${day}`;
 }
 
-/**
- * The one place percentiles become words. The api speaks two scales: `propose` returns 0–100 while slots
- * and `shelf.whatif` return 0–1 (1 = best of the pool in both). Editors read "top N%": the share of the
- * pool ranked at or above the item, rounded up so the best item reads "top 1%", never "top 0%".
- */
-export type PercentileScale = 'unit' | 'hundred';
+/** Whole numbers in the editor's locale, with its thousands separators (Intl; the browser's language). */
+const counts = new Intl.NumberFormat(undefined, { maximumFractionDigits: 0 });
+export function count(n: number | null | undefined): string {
+  return n === null || n === undefined || !Number.isFinite(n) ? NO_DATA : counts.format(n);
+}
 
-export function topPercent(p: number | null | undefined, scale: PercentileScale): string {
-  if (p === null || p === undefined || !Number.isFinite(p)) return NO_DATA;
-  const unit = scale === 'hundred' ? p / 100 : p;
-  if (unit < 0 || unit > 1) throw new RangeError(`percentile ${p} is outside the ${scale === 'hundred' ? '0–100' : '0–1'} scale`);
-  return `top ${Math.max(1, Math.ceil((1 - unit) * 100 - 1e-9))}%`;
+/** Numbers in reasons (core/curation/reason-words.ts) as the screen shows them. */
+export const screenNumbers = { count: (n: number) => count(n) };
+
+/**
+ * An item's place in its pool: "3 of 1,204". The rank is 1 + the candidates scoring higher (ties share the
+ * best place), so any two different scores read differently, which "top 1%" never did for a shelf drawn
+ * from the head of a large pool.
+ */
+export function rankWords(rank: number | null | undefined, poolSize: number): string {
+  if (rank === null || rank === undefined) return 'not in the pool';
+  return `${count(rank)} of ${count(poolSize)} in the pool`;
+}
+
+/**
+ * The one date format on screen: the editor's locale (Intl.DateTimeFormat, e.g. "7 Dec 2026" or
+ * "Dec 7, 2026"); exports keep ISO 8601 (YYYY-MM-DD). A calendar date (an edition's, "YYYY-MM-DD") is read
+ * and shown in UTC so it never shifts a day with the time zone; a moment (unix ms: published, trained) is
+ * shown in the editor's own time zone, with its time.
+ */
+const calendarDay = new Intl.DateTimeFormat(undefined, { dateStyle: 'medium', timeZone: 'UTC' });
+const moment = new Intl.DateTimeFormat(undefined, { dateStyle: 'medium', timeStyle: 'short' });
+const ISO_DAY = /^(\d{4})-(\d{2})-(\d{2})$/;
+
+export function dateWords(day: string | null | undefined): string {
+  if (day === null || day === undefined || day === '') return NO_DATA;
+  const m = ISO_DAY.exec(day);
+  if (!m) return day; // not a calendar date: shown as it came, never guessed at
+  return calendarDay.format(Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3])));
+}
+
+/** A calendar day given as unix ms at UTC midnight (the store's dates), in the screen's one format. */
+export function dayWords(ms: number | null | undefined): string {
+  return ms === null || ms === undefined || !Number.isFinite(ms) ? NO_DATA : calendarDay.format(ms);
+}
+
+export function momentWords(ms: number | null | undefined): string {
+  return ms === null || ms === undefined || !Number.isFinite(ms) ? NO_DATA : moment.format(ms);
 }

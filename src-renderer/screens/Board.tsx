@@ -1,7 +1,7 @@
 import { useId, useState, type FormEvent } from 'react';
 import { formatReading, READINGS } from '../../src-main/core/curation/readings.ts';
 import { EditionMeterPanel } from '../components/Meter.tsx';
-import { pct } from '../components/format.ts';
+import { count, dateWords, pct } from '../components/format.ts';
 import { ItemPicture } from '../components/ItemPicture.tsx';
 import { PublishConfirm } from '../components/PublishConfirm.tsx';
 import { PublishedBanner } from '../components/PublishedBanner.tsx';
@@ -60,7 +60,7 @@ export function Board() {
     <section className="screen" aria-labelledby="board-h">
       <header className="screen-head">
         <h1 id="board-h">
-          {edition.label} <span className="muted">· {edition.date} · {published ? 'Published' : 'Draft'}</span>
+          {edition.label} <span className="muted">· {dateWords(edition.date)} · {published ? 'Published' : 'Draft'}</span>
         </h1>
         {!published && (
           <button type="button" disabled={busy || confirming || edition.shelves.length === 0} onClick={() => setConfirming(true)}>
@@ -91,7 +91,7 @@ export function Board() {
             <article key={s.label} className="panel shelf-card" aria-label={`Shelf ${s.label}`}>
               <h2>{s.label}</h2>
               <p className="muted">
-                {s.slots.filter((x) => x.item).length} of {s.size} slots filled · pool of {s.poolSize}
+                {s.slots.filter((x) => x.item).length} of {s.size} slots filled · pool of {count(s.poolSize)}
                 {s.locked ? ' · locked: its list stays as it is until unlocked' : ''}
               </p>
               <p>
@@ -106,6 +106,8 @@ export function Board() {
                   </li>
                 ))}
               </ol>
+              {/* The card lists the first five slots; the rest are counted, so a card never looks complete when it is not. */}
+              {s.slots.length > 5 && <p className="muted small">+{count(s.slots.length - 5)} more</p>}
               <button
                 type="button"
                 aria-label={`Edit shelf ${s.label}`}

@@ -1,5 +1,5 @@
 import { useEffect, useId, useState, type FormEvent } from 'react';
-import { today } from '../components/format.ts';
+import { today, dateWords } from '../components/format.ts';
 import { useApp } from '../state/store.ts';
 
 function NewEditionForm() {
@@ -93,7 +93,7 @@ export function Editions() {
               {editions.map((e) => (
                 <tr key={e.id}>
                   <td>{e.label}</td>
-                  <td>{e.date}</td>
+                  <td>{dateWords(e.date)}</td>
                   <td>{e.status === 'published' ? 'Published' : 'Draft'}</td>
                   <td>
                     <button type="button" className="quiet" aria-label={`Open edition ${e.label}`} onClick={async () => (await open(e.label)) && go('board')}>

@@ -1,12 +1,13 @@
 import { useId, useState } from 'react';
 import type { ExportFormat } from '../state/curation-slice.ts';
 import { useApp } from '../state/store.ts';
+import { count } from '../components/format.ts';
 
 const TYPES: Record<ExportFormat, string> = { csv: 'text/csv', json: 'application/json', html: 'text/html' };
 
 /** Saves through a Blob and a download link: no network, works in Electron and in the browser. */
-function download(filename: string, content: string, format: ExportFormat): void {
-  const url = URL.createObjectURL(new Blob([content], { type: TYPES[format] }));
+function download(filename: string, content: string, type: string): void {
+  const url = URL.createObjectURL(new Blob([content], { type }));
   const a = document.createElement('a');
   a.href = url;
   a.download = filename;
@@ -37,7 +38,9 @@ export function ExportPanel() {
         type="button"
         onClick={async () => {
           const r = await exportEdition(format);
-          if (r) download(r.filename, r.content, r.format);
+          if (r) download(r.filename, r.content, TYPES[r.format]);
+          // A CSV is a bare table; its columns and the sponsored disclosure are saved beside it.
+          if (r?.notes) download(r.notes.filename, r.notes.content, 'text/plain');
         }}
       >
         Export edition
@@ -49,7 +52,7 @@ export function ExportPanel() {
       )}
       {exported && (
         <p className="muted" aria-live="polite">
-          Saved {exported.filename} ({exported.content.length.toLocaleString('en')} characters).
+          Saved {exported.filename} ({count(exported.content.length)} characters){exported.notes ? ` and its notes, ${exported.notes.filename}` : ''}.
         </p>
       )}
     </section>

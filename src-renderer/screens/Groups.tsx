@@ -1,6 +1,7 @@
 import { useEffect, useId, useState, type FormEvent } from 'react';
 import type { AudienceGroups } from '../state/insight-slice.ts';
 import { useApp } from '../state/store.ts';
+import { count } from '../components/format.ts';
 
 type Group = AudienceGroups['groups'][number];
 
@@ -39,7 +40,7 @@ function GroupCard({ g, all, shelfOpen }: { g: Group; all: Group[]; shelfOpen: b
       </h2>
       {loose(g, all) && <p className="warn">Loose group: its members agree far less than other groups' do; a shelf aimed here has no clear taste to serve.</p>}
       <p>
-        <strong>{g.customers.toLocaleString('en')}</strong> customers a shelf aimed here would reach · cohesion {two(g.cohesion)} · nearest{' '}
+        <strong>{count(g.customers)}</strong> customers a shelf aimed here would reach · cohesion {two(g.cohesion)} · nearest{' '}
         {nearest ? (nearest.name ?? `group ${nearest.group}`) : '—'} at {two(g.separation)} · silhouette {two(g.silhouette)}
       </p>
       <p className="small">
@@ -79,7 +80,7 @@ function GroupCard({ g, all, shelfOpen }: { g: Group; all: Group[]; shelfOpen: b
           )}
         </div>
       </form>
-      {aimed && <p className="small" role="status">Shelf “{shelf}” now reaches this group’s {g.customers.toLocaleString('en')} customers.</p>}
+      {aimed && <p className="small" role="status">Shelf “{shelf}” now reaches this group’s {count(g.customers)} customers.</p>}
     </article>
   );
 }
@@ -141,7 +142,7 @@ export function Groups() {
           <div className="panel">
             <h2>Sizes</h2>
             <p className="small">
-              {groups.k} groups, chosen between {groups.settings.minK} and {groups.settings.maxK} · mean silhouette {two(groups.silhouette)} · {groups.notEnoughHistory.toLocaleString('en')} of {groups.customers.toLocaleString('en')} customers
+              {groups.k} groups, chosen between {groups.settings.minK} and {groups.settings.maxK} · mean silhouette {two(groups.silhouette)} · {count(groups.notEnoughHistory)} of {count(groups.customers)} customers
               have too little history yet
             </p>
             <ul className="bars wide" aria-label="Customers per group">
@@ -152,7 +153,7 @@ export function Groups() {
                     <span className="bar-track">
                       <span className="bar-fill" style={{ width: `${(100 * n) / largest}%` }} />
                     </span>
-                    <span className="bar-value">{n.toLocaleString('en')}</span>
+                    <span className="bar-value">{count(n)}</span>
                   </li>
                 ),
               )}

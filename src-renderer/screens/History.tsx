@@ -1,5 +1,6 @@
 import { useEffect, useId, useState, type FormEvent } from 'react';
 import { useApp } from '../state/store.ts';
+import { dateWords, momentWords } from '../components/format.ts';
 
 /** Published editions and what changed between two of them, shelf by shelf. */
 export function History() {
@@ -32,7 +33,7 @@ export function History() {
           <ul>
             {published.map((e) => (
               <li key={e.id}>
-                {e.label} · {e.date} · published {e.publishedAt ? new Date(e.publishedAt).toLocaleString('en-GB') : ''}
+                {e.label} · {dateWords(e.date)} · published {momentWords(e.publishedAt)}
               </li>
             ))}
           </ul>
@@ -51,7 +52,7 @@ export function History() {
                 <option value="">Choose…</option>
                 {editions.map((e) => (
                   <option key={e.id} value={e.label}>
-                    {e.label} ({e.date})
+                    {e.label} ({dateWords(e.date)})
                   </option>
                 ))}
               </select>

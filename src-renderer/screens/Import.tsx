@@ -3,6 +3,8 @@ import { MAX_UPLOAD_BYTES } from '../../src-main/api/contracts/data.ts';
 import { SIGNAL_KINDS } from '../../src-main/core/types.ts';
 import type { ImportReport, ImportSource, ImportTarget, SignalKind } from '../state/import-slice.ts';
 import { useApp } from '../state/store.ts';
+import { count } from '../components/format.ts';
+import { EXPECTED_COLUMNS, rejectedCells } from '../components/import-columns.ts';
 
 /**
  * The fields each target can fill. A copy of src-main/ingest/fields.ts FIELDS, which the renderer may not
@@ -57,6 +59,31 @@ function MappingTable({ target, headers, mapping, onChange }: { target: ImportTa
   );
 }
 
+/** The columns the chosen target expects, before any file is picked: names, whether required, what goes in. */
+function ExpectedColumns({ target }: { target: ImportTarget }) {
+  return (
+    <table className="expected-columns">
+      <caption className="muted small">Columns this file should have (headers are matched ignoring case, spaces and underscores)</caption>
+      <thead>
+        <tr>
+          <th scope="col">Column</th>
+          <th scope="col">Needed</th>
+          <th scope="col">What goes in it</th>
+        </tr>
+      </thead>
+      <tbody>
+        {EXPECTED_COLUMNS[target].map((c) => (
+          <tr key={c.field}>
+            <th scope="row">{c.field}</th>
+            <td>{c.required ? 'required' : 'optional'}</td>
+            <td>{c.about}</td>
+          </tr>
+        ))}
+      </tbody>
+    </table>
+  );
+}
+
 const megabytes = (bytes: number) => `${(bytes / (1024 * 1024)).toFixed(bytes < 10 * 1024 * 1024 ? 1 : 0)} MB`;
 
 /** Import a catalogue, customers or signals: pick a file, check the mapping and the first rows, import. */
@@ -92,6 +119,9 @@ export function Import() {
   // kind for every row; with a kind column the main side refuses a kind for every row, so none is sent.
   const noKindColumn = target === 'signals' && !effective['kind'];
   const everyRowKind = noKindColumn && kind ? { kind } : {};
+  const rejected = preview && report && !report.committed ? rejectedCells(report.errors, preview.headers, preview.sampleLines) : new Map<string, string>();
+  /** A reported column as the editor knows it: its header beside a CSV column number. */
+  const columnName = (c: string | number | null) => (typeof c === 'number' && preview?.headers[c - 1] ? `${c} (${preview.headers[c - 1]})` : (c ?? ''));
 
   return (
     <section className="screen" aria-labelledby="import-h">
@@ -146,6 +176,7 @@ export function Import() {
             />
           </div>
         </div>
+        <ExpectedColumns target={target} />
         <button type="submit" disabled={busy || !source}>
           Preview
         </button>
@@ -219,9 +250,17 @@ export function Import() {
               <tbody>
                 {preview.sampleRows.slice(0, 8).map((r, i) => (
                   <tr key={i}>
-                    {r.map((c, j) => (
-                      <td key={j}>{c}</td>
-                    ))}
+                    {r.map((c, j) => {
+                      // A cell the last import rejected is marked in words and outline, not colour alone.
+                      const why = rejected.get(`${i}:${j}`);
+                      return why === undefined ? (
+                        <td key={j}>{c}</td>
+                      ) : (
+                        <td key={j} className="rejected" aria-invalid="true" title={why}>
+                          {c} <span className="rejected-why">(rejected: {why})</span>
+                        </td>
+                      );
+                    })}
                   </tr>
                 ))}
               </tbody>
@@ -248,8 +287,8 @@ export function Import() {
         <section className={`panel${report.committed ? '' : ' failed'}`} aria-live="polite" aria-label="Import report">
           <h2>{report.committed ? 'Imported' : 'Nothing was imported'}</h2>
           <p>
-            {report.rows.toLocaleString('en')} rows read · {report.added.toLocaleString('en')} added · {report.updated.toLocaleString('en')} updated ·{' '}
-            {report.unchanged.toLocaleString('en')} unchanged · {report.rejected.toLocaleString('en')} rejected · {(report.elapsedMs / 1000).toFixed(1)} s
+            {count(report.rows)} rows read · {count(report.added)} added · {count(report.updated)} updated ·{' '}
+            {count(report.unchanged)} unchanged · {count(report.rejected)} rejected · {(report.elapsedMs / 1000).toFixed(1)} s
           </p>
           {report.pictures && <p>{picturesLine(report.pictures)}</p>}
           {report.warnings.map((w) => (
@@ -260,7 +299,7 @@ export function Import() {
           {report.errorCount > 0 && (
             <>
               <p className="error" role="alert">
-                {report.errorCount.toLocaleString('en')} row problem{report.errorCount === 1 ? '' : 's'} in {report.file}
+                {count(report.errorCount)} row problem{report.errorCount === 1 ? '' : 's'} in {report.file}
                 {report.committed ? '' : ': correct them and import again.'}
               </p>
               <table>
@@ -275,7 +314,7 @@ export function Import() {
                   {report.errors.slice(0, 50).map((p, i) => (
                     <tr key={i}>
                       <td className="num">{p.line ?? ''}</td>
-                      <td>{p.column ?? ''}</td>
+                      <td>{columnName(p.column)}</td>
                       <td>{p.reason}</td>
                     </tr>
                   ))}

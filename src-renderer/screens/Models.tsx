@@ -1,10 +1,11 @@
 import { useEffect, useId, useMemo, useState } from 'react';
 import { HoldoutPanel } from '../components/HoldoutPanel.tsx';
 import { MetricsChart } from '../components/MetricsChart.tsx';
-import { num, pct } from '../components/format.ts';
+import { num, pct, momentWords, count } from '../components/format.ts';
 import { useApp } from '../state/store.ts';
 import { Notes } from '../components/Notes.tsx';
 import { jobStageLine } from '../components/job-words.ts';
+import { metricHelp, modelWords } from '../../src-main/core/models/model-words.ts';
 
 function TrainPanel() {
   const job = useApp((s) => s.models.job);
@@ -60,7 +61,7 @@ function EvaluationPanel() {
   const [k, setK] = useState(10);
   const id = useId();
   const rows = evaluation?.rows ?? [];
-  const labels = useMemo(() => rows.map((r) => r.model), [rows]);
+  const labels = useMemo(() => rows.map((r) => modelWords(r.model)), [rows]);
   const series = useMemo(
     () => [
       { name: `NDCG@${evaluation?.k ?? k}`, values: rows.map((r) => r.ndcg), color: '#24605a' },
@@ -87,10 +88,11 @@ function EvaluationPanel() {
       )}
       {evaluation ? (
         <>
-          {evaluation.stale && <p className="warn">The workspace changed since this evaluation; evaluate again for current figures.</p>}
+          {/* Kept after a retrain, so the last figures stay in view; said in words when they no longer measure what is in use. */}
+          {evaluation.stale && <p className="warn">Out of date: {evaluation.staleReason ?? 'the workspace changed since this evaluation; evaluate again'}.</p>}
           <table>
             <caption className="muted small">
-              Held-out test: {evaluation.split.test.toLocaleString('en')} signals · evaluated {new Date(evaluation.evaluatedAt).toLocaleString('en-GB')}
+              Held-out test: {count(evaluation.split.test)} signals · evaluated {momentWords(evaluation.evaluatedAt)}
             </caption>
             <thead>
               <tr>
@@ -106,17 +108,25 @@ function EvaluationPanel() {
             <tbody>
               {rows.map((r) => (
                 <tr key={r.model}>
-                  <th scope="row">{r.model}</th>
+                  <th scope="row">{modelWords(r.model)}</th>
                   <td className="num">{num(r.ndcg, 3)}</td>
                   <td className="num">{num(r.recall, 3)}</td>
                   <td className="num">{num(r.precision, 3)}</td>
                   <td className="num">{num(r.map, 3)}</td>
                   <td className="num">{pct(r.coverage)}</td>
-                  <td className="num">{r.customers}</td>
+                  <td className="num">{count(r.customers)}</td>
                 </tr>
               ))}
             </tbody>
           </table>
+          <dl className="metric-help small" aria-label="What each figure measures">
+            {metricHelp(evaluation.k).map((m) => (
+              <div key={m.metric}>
+                <dt>{m.metric}</dt>
+                <dd>{m.help}</dd>
+              </div>
+            ))}
+          </dl>
           <MetricsChart labels={labels} series={series} title={`Models and baselines at K = ${evaluation.k}`} />
           <Notes notes={evaluation.notes} />
         </>
@@ -162,9 +172,9 @@ export function Models() {
             <tbody>
               {list.map((m) => (
                 <tr key={m.id}>
-                  <th scope="row">{m.kind}</th>
+                  <th scope="row">{modelWords(m.kind)}</th>
                   {/* A model trained elsewhere says where it came from, in words (docs/cluster.md). */}
-                  <td>{m.origin ? capitalise(m.origin.description) : new Date(m.trainedAt).toLocaleString('en-GB')}</td>
+                  <td>{m.origin ? capitalise(m.origin.description) : momentWords(m.trainedAt)}</td>
                   <td className="num">{m.origin ? '–' : `${(m.trainMs / 1000).toFixed(1)} s`}</td>
                   <td>
                     {m.stale

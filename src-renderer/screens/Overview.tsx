@@ -1,14 +1,14 @@
 import { useEffect, useId, useState, type FormEvent } from 'react';
 import { ForgetCustomer } from '../components/ForgetCustomer.tsx';
 import { useApp } from '../state/store.ts';
+import { count, dayWords } from '../components/format.ts';
 
-const numberFormat = new Intl.NumberFormat('en');
 
 function Count({ label, value }: { label: string; value: number }) {
   return (
     <div className="count">
       <dt>{label}</dt>
-      <dd>{numberFormat.format(value)}</dd>
+      <dd>{count(value)}</dd>
     </div>
   );
 }
@@ -24,9 +24,6 @@ export function ago(then: number, now: number): string {
   return `${Math.round(h / 24)} days ago`;
 }
 
-function day(t: number | null): string {
-  return t === null ? '—' : new Date(t).toISOString().slice(0, 10);
-}
 
 function OpenForm() {
   const openWorkspace = useApp((s) => s.openWorkspace);
@@ -156,9 +153,9 @@ export function Overview() {
             <p aria-label="Data freshness">
               {stats.lastSignalAt === null
                 ? 'No signals yet: import interactions to get personalised candidates.'
-                : `Signals from ${day(stats.firstSignalAt)} to ${day(stats.lastSignalAt)} (newest ${ago(stats.lastSignalAt, now)})`}
+                : `Signals from ${dayWords(stats.firstSignalAt)} to ${dayWords(stats.lastSignalAt)} (newest ${ago(stats.lastSignalAt, now)})`}
               {stats.lastImportAt !== null ? ` · last import ${ago(stats.lastImportAt, now)}` : ''}
-              {` · ${numberFormat.format(stats.availableItems)} items available, ${numberFormat.format(stats.promotedItems)} promoted`}
+              {` · ${count(stats.availableItems)} items available, ${count(stats.promotedItems)} promoted`}
             </p>
           )}
           {readAt !== null && (

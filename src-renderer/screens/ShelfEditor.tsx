@@ -11,6 +11,7 @@ import { BacktestPanel, SimilarPanel } from '../components/ShelfInsights.tsx';
 import { SlotList } from '../components/SlotList.tsx';
 import { TargetsForm } from '../components/TargetsForm.tsx';
 import { changeMarks, describeChanges } from '../components/change-words.ts';
+import { count } from '../components/format.ts';
 import { useApp } from '../state/store.ts';
 
 
@@ -94,7 +95,7 @@ export function ShelfEditor() {
         </p>
       )}
       <p className="muted small" aria-live="polite">
-        {shelf.slots.filter((s) => s.item).length} of {shelf.size} slots filled from a pool of {shelf.poolSize}
+        {shelf.slots.filter((s) => s.item).length} of {shelf.size} slots filled from a pool of {count(shelf.poolSize)}
         {lastMs !== null ? ` · last change shown in ${Math.round(lastMs)} ms` : ''}
       </p>
       <p className="small changes-line" aria-live="polite">
@@ -123,7 +124,7 @@ export function ShelfEditor() {
       )}
       <ShelfMeterPanel meter={shelf.meter} brief={shelf.brief} title="Shelf meter" preview={preview} />
       <div className="editor-grid">
-        <SlotList slots={shelf.slots} readOnly={readOnly} busy={busy} marks={changeMarks(change?.changes ?? null)} onAct={(a) => void act(a)} />
+        <SlotList slots={shelf.slots} readOnly={readOnly} busy={busy} marks={changeMarks(change?.changes ?? null)} poolSize={shelf.poolSize} onAct={(a) => void act(a)} />
         <div className="side">
           <CandidatePool shelf={shelf} slot={Math.min(slot, shelf.size)} onSlot={setSlot} readOnly={readOnly} onAct={(a) => void act(a)} />
           <MeterDetails meter={shelf.meter} dials={describeAutoDials(shelf.brief.autoDials, shelf.brief.weights)}>

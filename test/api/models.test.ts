@@ -74,6 +74,18 @@ describe('models api', () => {
     expect(knn.evaluation!.ndcg).toBe(evaluation!.rows.find((r) => r.model === 'itemknn')!.ndcg);
   }, 30_000);
 
+  it('evaluate.latest keeps the last evaluation after a retrain, marked stale in words', async () => {
+    const { evaluation: before }: ResponseOf<'evaluate.latest'> = await ok('evaluate.latest', {});
+    const job: ResponseOf<'train.start'> = await ok('train.start', { ials: { factors: 8, iterations: 4 }, threads: 2 });
+    expect((await ctx.jobs.settled(job.id)).state).toBe('done');
+    const { evaluation: after }: ResponseOf<'evaluate.latest'> = await ok('evaluate.latest', {});
+    expect(after!.rows).toEqual(before!.rows);
+    expect(after!.evaluatedAt).toBe(before!.evaluatedAt);
+    expect(after!.stale).toBe(true);
+    expect(after!.staleReason).toMatch(/^the models were retrained since/);
+    expect(before!.staleReason).toBeNull();
+  }, 30_000);
+
   it('item.search finds by title or id, LIKE wildcards taken literally; item.similar explains neighbours', async () => {
     const { items }: ResponseOf<'item.search'> = await ok('item.search', { query: first.item, limit: 5 });
     expect(items[0]!.item).toBe(first.item); // exact id first

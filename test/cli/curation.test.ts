@@ -121,9 +121,17 @@ describe('shelfwright edition and shelf commands', () => {
     expect(cmpText).not.toContain('{id}');
 
     const csv = await run('edition', 'export', 'week 10', '--format', 'csv');
-    const rows = parse(csv.out, { relax_column_count: true }) as string[][];
+    // One table (csv-parse, strict column count): the header and 15 slots; the notes come on stderr.
+    const rows = parse(csv.out) as string[][];
     expect(rows[0]![8]).toBe('sponsored');
-    expect(rows.length).toBe(1 + 15 + 1);
+    expect(rows.length).toBe(1 + 15);
+    // Each filled slot carries its rank in the pool it was filled from, frozen at publish.
+    expect(rows[0]![11]).toBe('rank');
+    for (const r of rows.slice(1)) if (r[4] !== '') expect(r[11]).toMatch(/^[1-9]\d*$/);
+    expect(csv.err).toMatch(/differ by country/);
+    const csvOut = path.join(path.dirname(w), 'week10.csv');
+    expect((await run('edition', 'export', 'week 10', '--format', 'csv', '--out', csvOut)).out).toBe(`wrote ${csvOut} and ${path.join(path.dirname(w), 'week10.notes.txt')}`);
+    expect(fs.readFileSync(path.join(path.dirname(w), 'week10.notes.txt'), 'utf8')).toMatch(/^ {2}sponsored: "Sponsored" for a promoted/m);
     const sponsoredRows = rows.filter((r) => r[8] === 'Sponsored').length;
     expect(sponsoredRows).toBe(before.shelves.flatMap((s: { slots: { promoted: boolean }[] }) => s.slots).filter((x: { promoted: boolean }) => x.promoted).length);
     const doc = JSON.parse((await run('edition', 'export', 'week 10', '--format', 'json')).out);

@@ -2,7 +2,7 @@ import { parse } from 'csv-parse/sync';
 import { describe, expect, it } from 'vitest';
 import type { EditionSnapshot, SnapshotSlot } from '../../src-main/core/editing/snapshot.ts';
 import { parseBrief } from '../../src-main/core/editing/brief-schema.ts';
-import { csvCell, DISCLOSURE_NOTE, escapeHtml, exportEdition } from '../../src-main/services/export/index.ts';
+import { csvCell, DISCLOSURE_NOTE, escapeHtml, exportEdition, exportNotes } from '../../src-main/services/export/index.ts';
 
 function slot(k: number, title: string, promoted = false): SnapshotSlot {
   return {
@@ -16,6 +16,7 @@ function slot(k: number, title: string, promoted = false): SnapshotSlot {
     pinned: k === 0,
     score: 0.5,
     percentile: 0.9 - k * 0.1,
+    rank: k + 1,
   };
 }
 
@@ -57,15 +58,31 @@ describe('CSV export', () => {
   // an independent RFC 4180 reader, must read back exactly the neutralised values.
   it('round-trips through an RFC 4180 reader with every hostile title neutralised', () => {
     const text = exportEdition(snapshot, 'csv');
-    const rows = parse(text, { relax_column_count: true }) as string[][];
-    expect(rows[0]).toEqual(['edition', 'date', 'shelf', 'slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pinned', 'percentile']);
+    // Strict: every record has the header's column count (csv-parse rejects a ragged record by default).
+    const rows = parse(text) as string[][];
+    expect(rows[0]).toEqual(['edition', 'date', 'shelf', 'slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pinned', 'percentile', 'rank']);
+    expect(rows.slice(1, 4).map((r) => r[11])).toEqual(['1', '2', '3']);
     expect(rows.slice(1, 7).map((r) => r[5])).toEqual(HOSTILE.map((t) => `'${t}`));
     expect(rows.slice(1).every((r) => !/^[=+\-@\t\r]/.test(r.join('')))).toBe(true);
     expect(rows[2]![8]).toBe('Sponsored');
     expect(rows[1]![8]).toBe('');
     expect(rows[1]![0]).toBe('Week <10> & "friends"');
-    expect(rows.at(-1)![0]).toBe(`Note: ${DISCLOSURE_NOTE}`);
     expect(DISCLOSURE_NOTE).toMatch(/differ by country/);
+  });
+
+  // RFC 4180 section 2 defines a CSV as an optional header line and records of the same number of fields;
+  // it has no comments, so a free-text note row would be read as a record. csv-parse with `columns: true`
+  // (each record an object keyed by the header) reads exactly one record per slot and nothing else.
+  it('is one table: a header and one record per slot, no note row; the note travels in a separate file', () => {
+    const text = exportEdition(snapshot, 'csv');
+    const records = parse(text, { columns: true }) as Record<string, string>[];
+    expect(records).toHaveLength(snapshot.shelves[0]!.slots.length);
+    expect(records.map((r) => r['slot'])).toEqual(['1', '2', '3', '4', '5', '6', '7']);
+    expect(text).not.toContain('Note:');
+    const notes = exportNotes(snapshot, 'csv')!;
+    expect(notes).toContain(DISCLOSURE_NOTE);
+    for (const column of Object.keys(records[0]!)) expect(notes).toMatch(new RegExp(`^  ${column}: `, 'm'));
+    expect(exportNotes(snapshot, 'json')).toBeNull();
   });
 });
 
@@ -100,6 +117,9 @@ describe('HTML preview', () => {
 
   it('labels the sponsored item in words and carries the disclosure note', () => {
     expect(html.match(/>Sponsored</g)).toHaveLength(1);
+    // The label is its own element on its own line, apart from the supplier (read as text: "Mossgate Sponsored").
+    expect(html).toMatch(/<span class="meta">lanterns · Mossgate<\/span> <span class="sponsored">Sponsored<\/span>/);
+    expect(html).toMatch(/\.meta \{[^}]*display: block/);
     expect(html).toContain(escapeHtml(DISCLOSURE_NOTE));
     expect(html).toMatch(/<style>/);
   });

@@ -2,32 +2,9 @@
 import { fireEvent, screen, waitFor, within } from '@testing-library/react';
 import { describe, expect, it } from 'vitest';
 import { audienceOf, draftOf, type Audience } from '../../src-renderer/components/AudienceField.tsx';
-import { topPercent } from '../../src-renderer/components/format.ts';
+import { dateWords, rankWords } from '../../src-renderer/components/format.ts';
 import { seededApp } from './app-harness.tsx';
 import { openRowInEditor } from './seed.ts';
-
-describe('topPercent', () => {
-  // "Top N%" = the share of the pool ranked at or above the item: the usual reading of a percentile rank
-  // (common practice, no source). The api's two scales are from src-main/api/contracts (propose vs slots).
-  it('reads both api scales the same way: 0–1 (slots, what-if) and 0–100 (propose)', () => {
-    expect(topPercent(0.95, 'unit')).toBe('top 5%');
-    expect(topPercent(95, 'hundred')).toBe('top 5%');
-    expect(topPercent(0.5, 'unit')).toBe(topPercent(50, 'hundred'));
-    expect(topPercent(0, 'unit')).toBe('top 100%');
-  });
-
-  it('never says "top 0%": the best item reads "top 1%", and a fraction of a percent rounds up', () => {
-    expect(topPercent(1, 'unit')).toBe('top 1%');
-    expect(topPercent(99.5, 'hundred')).toBe('top 1%');
-    expect(topPercent(0.981, 'unit')).toBe('top 2%');
-  });
-
-  it('shows a dash for no data and refuses a value off its scale (a 0–100 value read as 0–1)', () => {
-    expect(topPercent(null, 'unit')).toBe('—');
-    expect(() => topPercent(95, 'unit')).toThrow('percentile 95 is outside the 0–1 scale');
-    expect(() => topPercent(-1, 'hundred')).toThrow('outside the 0–100 scale');
-  });
-});
 
 describe('audience choice', () => {
   it('round-trips each kind and names what is missing', () => {
@@ -87,7 +64,9 @@ describe('anchors in the shelf editor', () => {
     const ranked = await within(panel).findByRole('list', { name: 'Proposals ranked towards the anchors' });
     const rows = within(ranked).getAllByRole('listitem');
     expect(rows.length).toBeGreaterThan(0);
-    for (const r of rows) expect(r.textContent).toMatch(/top \d{1,3}% of pool/);
+    // Each proposal says its place in the pool ("3 of 12 in the pool"), the scale the slots use.
+    const proposal = app.store.getState().insight.proposal!;
+    rows.forEach((r, q) => expect(r.textContent).toContain(rankWords(proposal.items[q]!.rank, proposal.poolSize)));
     // Saving puts the anchors in the shelf's brief, named by the shop's ids, and refills the shelf.
     fireEvent.click(within(panel).getByRole('button', { name: 'Fill the shelf from these anchors' }));
     await waitFor(() => expect(app.store.getState().curation.edition?.shelves.find((x) => x.label === 'Row')?.brief.anchors).toEqual(['i-2']));
@@ -107,9 +86,12 @@ describe('backtest and similar items in the shelf editor', () => {
     const backtest = await screen.findByRole('region', { name: 'Backtest' });
     fireEvent.change(within(backtest).getByLabelText('Window (last days of the data)'), { target: { value: '14' } });
     fireEvent.click(within(backtest).getByRole('button', { name: 'Run backtest' }));
+    // It says what it measures before any figure, without a pointer.
+    expect(within(backtest).getByText(/^What it measures: of this shelf’s audience who were active in the last 14 days/)).toBeTruthy();
     const result = await within(backtest).findByLabelText('Backtest result');
     const api = await app.h.client.call('shelf.backtest', { edition: 'Week 49', shelf: 'Row', windowDays: 14 });
-    expect(result.textContent).toContain(`${api.windowStart} to ${api.windowEnd} (14 days)`);
+    // Dates on screen in the editor's locale, through the one formatter (format.ts dateWords).
+    expect(result.textContent).toContain(`${dateWords(api.windowStart)} to ${dateWords(api.windowEnd)} (14 days)`);
     // Share = engaged / active audience, shown as a percentage with one decimal.
     expect(within(result).getByLabelText(/^This shelf: /).textContent).toBe(`${((api.shelf.engaged / api.audienceActive) * 100).toFixed(1)}%`);
     expect(within(result).getByLabelText(/^Popularity only: /).textContent).toBe(`${((api.popularity.engaged / api.audienceActive) * 100).toFixed(1)}%`);

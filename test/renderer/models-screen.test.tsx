@@ -28,6 +28,7 @@ const evaluation = {
   k: 10,
   evaluatedAt: Date.UTC(2026, 11, 1),
   stale: false,
+  staleReason: null,
   split: { validationFrom: 1, testFrom: 2, train: 1000, validation: 100, test: 250 },
   weights: {},
   rows: [row('hybrid', 0.31, 0.42), row('ials', 0.28, 0.4), row('popularity', 0.12, null)],
@@ -54,7 +55,12 @@ describe('models screen', () => {
     );
     const region = await screen.findByRole('region', { name: 'Evaluation: models against baselines' });
     const cells = await within(region).findAllByRole('rowheader');
-    expect(cells.map((c) => c.textContent)).toEqual(['hybrid', 'ials', 'popularity']);
+    // Models named in words, the method's name kept beside them.
+    expect(cells.map((c) => c.textContent)).toEqual(['The blend the shelves use (validated hybrid)', 'Taste patterns across all customers (iALS matrix factorisation)', 'Most customers first (popularity baseline)']);
+    // Each metric explained in one line, visible without a pointer.
+    const help = within(region).getByLabelText('What each figure measures');
+    expect(within(help).getAllByRole('term').map((t) => t.textContent)).toEqual(['NDCG@10', 'Recall@10', 'Precision@10', 'MAP', 'Coverage', 'Customers']);
+    expect(within(region).queryByText(/^Out of date/)).toBeNull();
     expect(within(region).getAllByRole('row')[3]?.textContent).toContain('—');
     const last = plots.at(-1);
     // Grouped bars: each model's two bars stand either side of its label, 0.4 apart (0.8 of a group / 2 series).
@@ -63,6 +69,27 @@ describe('models screen', () => {
     expect(ndcg).toEqual([0.31, null, 0.28, null, 0.12, null]);
     expect(recall).toEqual([null, 0.42, null, 0.4, null, null]);
     expect(last?.opts.series.slice(1).map((s) => s.label)).toEqual(['NDCG@10', 'Recall@10']);
+  });
+});
+
+describe('an evaluation kept after retraining', () => {
+  it('stays on screen, marked out of date with the reason in words', async () => {
+    const stale = { ...evaluation, stale: true, staleReason: 'the models were retrained since: these figures measure the models before; evaluate again' };
+    const client = createClient(async (method): Promise<ApiResult<unknown>> => {
+      if (method === 'models.list') return { ok: true, value: { models: [] } };
+      if (method === 'evaluate.latest') return { ok: true, value: { evaluation: stale } };
+      return { ok: false, error: { code: 'input', message: method } };
+    });
+    render(
+      <StoreContext.Provider value={createAppStore(client)}>
+        <Models />
+      </StoreContext.Provider>,
+    );
+    const region = await screen.findByRole('region', { name: 'Evaluation: models against baselines' });
+    expect((await within(region).findByText(/^Out of date/)).textContent).toBe(
+      'Out of date: the models were retrained since: these figures measure the models before; evaluate again.',
+    );
+    expect(within(region).getAllByRole('rowheader')).toHaveLength(3);
   });
 });
 
@@ -99,7 +126,7 @@ describe('evaluate against a file', () => {
     fireEvent.click(within(region).getByRole('button', { name: 'Evaluate against this file' }));
     const table = await within(region).findByRole('table', { name: 'Models scored on the file' });
     expect(sent).toEqual([{ source: { fileName: 'week.csv', content: 'customer,item\nc1,i1\n' }, k: 5 }]);
-    expect(within(table).getAllByRole('rowheader').map((c) => c.textContent)).toEqual(['ials', 'random']);
+    expect(within(table).getAllByRole('rowheader').map((c) => c.textContent)).toEqual(['Taste patterns across all customers (iALS matrix factorisation)', 'Random order (baseline)']);
     expect(within(table).getAllByRole('row')[2]?.textContent).toContain('baseline or blend');
     expect(within(region).getByLabelText('Holdout summary').textContent).toContain('2 unknown customers (2 rows) · 1 unknown item (1 row)');
     expect(plots.at(-1)?.opts.series.slice(1).map((s) => s.label)).toEqual(['NDCG@5', 'Recall@5', 'HitRate@5']);

@@ -55,6 +55,28 @@ describe('propose', () => {
       expect(it.blended).toBeCloseTo(sum, 5);
       for (const e of [...it.evidence.content, ...(it.coldStart ? [] : it.evidence.collaborative)]) expect(e.itemId).toBe(anchor);
     }
+    // Ranks count the candidates scoring higher, so the twenty best read 1, 2, 3... where their percentiles
+    // all round to the top 1% of the pool; a reason names the anchor only when it is this brief's anchor.
+    for (let q = 0; q < r.items.length; q++) {
+      const higher = r.items.filter((x) => x.score > r.items[q]!.score).length;
+      expect(r.items[q]!.rank).toBe(1 + higher);
+    }
+    const anchorExt = items[10]!.externalId;
+    for (const it of r.items) if (it.reason?.kind === 'anchor') expect(it.reason.anchor.item).toBe(anchorExt);
+    expect(r.items.some((x) => x.reason !== null)).toBe(true);
+    // An audience reason names items and head counts the store confirms: distinct customers with that kind of
+    // signal on the item (the audience here is every customer).
+    const wide = propose(db, brief([], { content: 0, collaborative: 0, audience: 1, popularity: 0, trend: 0, freshness: 0 }), { editionDate, n: 10 });
+    const said = wide.items.flatMap((x) => (x.reason?.kind === 'audience' ? [x.reason] : []));
+    expect(said.length).toBeGreaterThan(0);
+    const held = db.prepare(
+      `SELECT count(DISTINCT s.customer_id) AS n FROM signal s JOIN item i ON i.id = s.item_id
+       WHERE i.external_id = ? AND s.kind = (SELECT code FROM signal_kind WHERE name = ?)`,
+    );
+    for (const reason of said) {
+      expect(reason.everyone).toBe(true);
+      for (const h of reason.held) expect((held.get(h.item, h.did) as { n: number }).n).toBe(h.people);
+    }
     // No trained models in this workspace: content and item-kNN are fitted in memory, and it says so.
     expect(r.notes.join(' ')).toMatch(/fitted in memory/);
     expect(r.available.content && r.available.collaborative && r.available.audience).toBe(true);

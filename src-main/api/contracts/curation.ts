@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { TargetsShape } from '../../core/curation/target-schema.ts';
 import { BriefSchema } from '../../core/editing/brief-schema.ts';
 import { method } from '../define.ts';
+import { ReasonView } from './reason.ts';
 
 /**
  * Editions, shelves, editorial actions (with undo and redo), publish, compare, export, backtest and
@@ -49,6 +50,10 @@ export const SlotView = z.object({
   pinned: z.boolean(),
   score: reading,
   percentile: reading,
+  /** Place by score among the pool's candidates (1 = best, ties share the best place); null outside the pool. */
+  rank: z.number().int().min(1).nullable(),
+  /** The main reason it was proposed, from the data; null when no part of its score has evidence to show. */
+  reason: ReasonView.nullable(),
   contributions: z.record(z.string(), z.number()),
 });
 
@@ -221,7 +226,13 @@ export const curationMethods = {
   'edition.export': method({
     summary: 'The edition as CSV, JSON or a standalone HTML preview (sponsored items labelled in words).',
     request: z.object({ edition: label('edition'), format: z.enum(['csv', 'json', 'html']) }).strict(),
-    response: z.object({ format: z.enum(['csv', 'json', 'html']), filename: z.string(), content: z.string() }),
+    response: z.object({
+      format: z.enum(['csv', 'json', 'html']),
+      filename: z.string(),
+      content: z.string(),
+      /** A CSV is a bare table: its columns and the sponsored disclosure come as this separate text file. */
+      notes: z.object({ filename: z.string(), content: z.string() }).nullable(),
+    }),
   }),
   'catalogue.names': method({
     summary: 'The distinct categories, suppliers and tags of the catalogue, sorted: the names a brief, a limit or a ban may use.',
@@ -275,7 +286,16 @@ export const curationMethods = {
       slot: z.number().int(),
       before: z.record(z.string(), reading),
       candidates: z.array(
-        z.object({ item: z.string(), title: z.string(), promoted: z.boolean(), percentile: z.number(), delta: z.record(z.string(), reading) }),
+        z.object({
+          item: z.string(),
+          title: z.string(),
+          promoted: z.boolean(),
+          percentile: z.number(),
+          /** Place by score in the pool, 1 = best (ties share the best place). */
+          rank: z.number().int().min(1),
+          reason: ReasonView.nullable(),
+          delta: z.record(z.string(), reading),
+        }),
       ),
     }),
   }),

@@ -103,6 +103,8 @@ export const ImportPreview = z.object({
   mapping: z.record(z.string(), z.string()),
   extraColumns: z.array(z.string()),
   sampleRows: z.array(z.array(z.string())),
+  /** The file line each sample row starts on. */
+  sampleLines: z.array(z.number().int()),
   problems: z.array(z.string()),
 });
 export type ImportPreview = z.infer<typeof ImportPreview>;

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { ReasonView } from './reason.ts';
 import { AudienceSchema } from '../../core/editing/brief-schema.ts';
 import { VALUE_TRANSFORMS } from '../../core/matrix/values.ts';
 import { TUNE_BUDGET } from '../../core/models/tune-budget.ts';
@@ -156,8 +157,10 @@ export const HybridView = z.object({
 export const OfflineEvaluation = z.object({
   k: z.number().int(),
   evaluatedAt: z.number(),
-  /** The workspace changed since this evaluation ran. */
+  /** The workspace changed, or the models were retrained, since this evaluation ran. */
   stale: z.boolean(),
+  /** Why it is stale, in words (null when current). */
+  staleReason: z.string().nullable(),
   split: z.object({ validationFrom: z.number(), testFrom: z.number(), train: z.number().int(), validation: z.number().int(), test: z.number().int() }),
   /** The hybrid's weight of each model, chosen on the validation window. */
   weights: z.record(z.string(), z.number()),
@@ -210,6 +213,10 @@ export const ProposedView = ItemRef.extend({
   sponsored: z.boolean(),
   score: z.number(),
   percentile: z.number(),
+  /** Place by score in the pool, 1 = best (ties share the best place): tells apart what "top 1%" cannot. */
+  rank: z.number().int().min(1),
+  /** The main reason, from the data (core/curation/reasons.ts); null when no part has evidence to show. */
+  reason: ReasonView.nullable(),
   coldStart: z.boolean(),
   contributions: z.record(z.string(), z.number()),
   raw: z.record(z.string(), reading),
@@ -251,7 +258,7 @@ export const modelMethods = {
     response: JobState,
   }),
   'evaluate.latest': method({
-    summary: 'The latest stored offline evaluation (null when none ran since training).',
+    summary: 'The latest stored offline evaluation, kept (marked stale) after a retrain; null when none is stored.',
     request: z.object({}).strict(),
     response: z.object({ evaluation: OfflineEvaluation.nullable() }),
   }),

@@ -5,7 +5,7 @@ import { curationModelSource } from '../../services/curation/model-source.ts';
 import { forgetTasteGroupName, nameTasteGroup, setTasteGroupSettings, tasteGroupsView } from '../../services/curation/taste-groups.ts';
 import { CurationService, type ActionRequest } from '../../services/curation/service.ts';
 import type { EditionView, ShelfView } from '../../services/curation/views.ts';
-import { exportEdition } from '../../services/export/index.ts';
+import { exportEdition, exportNotes } from '../../services/export/index.ts';
 import { pictureUrls } from '../../services/pictures.ts';
 import type { AppContext } from '../../services/context.ts';
 import { forgetCustomer } from '../../services/forget.ts';
@@ -80,7 +80,8 @@ export function curationHandlers(ctx: AppContext): { [M in Names]: Handler<M> } 
       const safe = snap.edition.label.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '') || 'edition';
       const ids = snap.shelves.flatMap((x) => x.slots.flatMap((y) => (y.externalId === null ? [] : [y.externalId])));
       const pictures = r.format === 'html' ? pictureUrls(ctx.db, ids) : undefined;
-      return { format: r.format, filename: `${safe}.${r.format}`, content: exportEdition(snap, r.format, pictures) };
+      const notes = exportNotes(snap, r.format);
+      return { format: r.format, filename: `${safe}.${r.format}`, content: exportEdition(snap, r.format, pictures), notes: notes === null ? null : { filename: `${safe}.notes.txt`, content: notes } };
     },
     'catalogue.names': () => curationRepos(ctx.db).items.names(),
     'shelf.add': (r) => shelf(svc().addShelf(r.edition, r.label, withAnchorIds(r.brief))),

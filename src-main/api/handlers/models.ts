@@ -151,7 +151,12 @@ export function modelHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
         evaluation: {
           k: off.k,
           evaluatedAt: off.evaluatedAt,
-          stale: off.fingerprint !== dataFingerprint(ctx.db),
+          stale: off.retrainedSince || off.fingerprint !== dataFingerprint(ctx.db),
+          staleReason: off.retrainedSince
+            ? 'the models were retrained since: these figures measure the models before; evaluate again'
+            : off.fingerprint !== dataFingerprint(ctx.db)
+              ? 'the workspace changed since this evaluation; evaluate again for current figures'
+              : null,
           split: off.split,
           weights: { ...off.weights },
           hybrid: off.hybrid ?? null,
@@ -208,6 +213,8 @@ export function modelHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
           sponsored: x.promoted,
           score: x.score,
           percentile: x.percentile,
+          rank: x.rank,
+          reason: x.reason,
           coldStart: x.coldStart,
           contributions: { ...x.contributions },
           raw: { ...x.raw },

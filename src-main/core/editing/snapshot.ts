@@ -15,6 +15,8 @@ export interface SnapshotSlot {
   pinned: boolean;
   score: number | null;
   percentile: number | null;
+  /** Place by score in the shelf's pool when filled, 1 = best; absent in snapshots published before ranks were kept. */
+  rank?: number | null;
 }
 
 export interface SnapshotShelf {

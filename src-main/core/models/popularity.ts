@@ -51,11 +51,31 @@ export interface TrendParams {
  * from 1 only as evidence accumulates, so one view of a new item does not make it "trending".
  */
 export function trendRatios(ds: Dataset, params: TrendParams = {}): Float64Array {
-  const w = (params.windowDays ?? 14) * DAY_MS;
   const a = params.a ?? 5;
   const b = params.b ?? 5;
-  if (!(w > 0)) throw new InputError(`windowDays must be > 0, got ${params.windowDays}`);
   if (!(a >= 0 && b > 0)) throw new InputError(`trend smoothing needs a >= 0 and b > 0, got a=${a}, b=${b}`);
+  const { recent, previous } = trendWindows(ds, params);
+  for (let i = 0; i < recent.length; i++) recent[i] = (recent[i]! + a) / (previous[i]! + b);
+  return recent;
+}
+
+/** The two windows trendRatios compares, as counts: what an editor is told when an item is rising. */
+export interface TrendWindows {
+  /** End of the recent window (unix ms, exclusive). */
+  now: number;
+  windowDays: number;
+  /** Signals per dense item in [now − w, now) and in [now − 2w, now − w). */
+  recent: Float64Array;
+  previous: Float64Array;
+  /** The one signal kind code of each item's signals in both windows; -1 none, -2 more than one kind. */
+  kind: Int8Array;
+}
+
+/** Counts each item's signals in the recent and previous windows (defaults as trendRatios'). */
+export function trendWindows(ds: Dataset, params: Pick<TrendParams, 'now' | 'windowDays'> = {}): TrendWindows {
+  const windowDays = params.windowDays ?? 14;
+  const w = windowDays * DAY_MS;
+  if (!(w > 0)) throw new InputError(`windowDays must be > 0, got ${params.windowDays}`);
   const s = ds.signals;
   let now = params.now ?? -Infinity;
   if (params.now === undefined) {
@@ -64,13 +84,19 @@ export function trendRatios(ds: Dataset, params: TrendParams = {}): Float64Array
   }
   const recent = new Float64Array(ds.items.length);
   const previous = new Float64Array(ds.items.length);
+  const kind = new Int8Array(ds.items.length).fill(-1);
   for (let k = 0; k < s.length; k++) {
     const t = s.at[k]!;
-    if (t >= now - w && t < now) recent[s.item[k]!]!++;
-    else if (t >= now - 2 * w && t < now - w) previous[s.item[k]!]!++;
+    const i = s.item[k]!;
+    if (t >= now - w && t < now) recent[i]!++;
+    else if (t >= now - 2 * w && t < now - w) previous[i]!++;
+    else continue;
+    const was = kind[i]!;
+    const c = s.kind[k]!;
+    if (was === -1) kind[i] = c;
+    else if (was !== c) kind[i] = -2;
   }
-  for (let i = 0; i < recent.length; i++) recent[i] = (recent[i]! + a) / (previous[i]! + b);
-  return recent;
+  return { now, windowDays, recent, previous, kind };
 }
 
 /**

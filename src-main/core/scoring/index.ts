@@ -4,6 +4,7 @@ export { normaliseInto, percentileInto, minMaxInto, type Normalisation } from '.
 export { freshnessInto, DEFAULT_FRESHNESS_HALF_LIFE_DAYS } from './freshness.ts';
 export { resolveAudience, audienceAffinityInto, groupOf, missingGroupName, type AffinityOptions, type AffinityReport } from './audience.ts';
 export { HybridScorer, type HybridModels, type HybridItemData, type HybridOptions, type PoolRequest } from './hybrid.ts';
+export { competitionRanksInto, topShare } from './rank.ts';
 export { PoolScores, type ScoredItem, type Evidence } from './pool-scores.ts';
 export { CustomerHybrid } from './customer-mode.ts';
 export { BlendScorer } from './blend-scorer.ts';

@@ -1,4 +1,5 @@
 import { orderInto } from './normalise.ts';
+import { competitionRanksInto } from './rank.ts';
 import { COMPONENT_COUNT, COMPONENTS, C_CONTENT, type Component } from './components.ts';
 
 /** An item that drove a candidate's content or collaborative part, with its similarity. */
@@ -64,6 +65,7 @@ export class PoolScores {
   readonly coldStart: Uint8Array;
   readonly contributions: Float32Array;
   readonly #p: PoolScoresParts;
+  #ranks: Int32Array | undefined;
 
   constructor(parts: PoolScoresParts) {
     this.#p = parts;
@@ -84,6 +86,15 @@ export class PoolScores {
     const order = new Int32Array(this.n);
     orderInto(this.score, this.n, order, new Float64Array(this.n), true);
     return order;
+  }
+
+  /** Each pool position's rank by score, 1 = best, ties sharing the best place (rank.ts); made on first call. */
+  ranks(): Int32Array {
+    if (!this.#ranks) {
+      this.#ranks = new Int32Array(this.n);
+      competitionRanksInto(this.score, this.n, this.#ranks, new Float64Array(this.n));
+    }
+    return this.#ranks;
   }
 
   /** The explained candidate at pool position p. */

@@ -11,14 +11,21 @@ import type { Brief, Candidate } from '../../core/curation/types.ts';
 import type { PoolScores } from '../../core/scoring/index.ts';
 import type { CurationWorld } from './world.ts';
 
+/** A pool item with its percentile and its rank by score (1 = best, scoring/rank.ts). */
+export interface RankedCandidate {
+  index: number;
+  percentile: number;
+  rank: number;
+}
+
 /** A scored pool with what the fill, the slots and the what-if read from it, built once. */
 export interface ScoredPool {
   pool: CandidatePool;
   scores: PoolScores;
   /** Candidates best first by boosted score (the fill's input). */
   candidates: Candidate[];
-  /** Pool items best first with their percentiles (the what-if's list), made on first call. */
-  ranked: () => readonly { index: number; percentile: number }[];
+  /** Pool items best first with their percentiles and ranks (the what-if's list), made on first call. */
+  ranked: () => readonly RankedCandidate[];
   /** Pool position of each dense item, -1 outside the pool. */
   posOf: Int32Array;
   /** Blended score (before boosts) of each dense item, NaN outside the pool: the meter's relevance. */
@@ -101,7 +108,11 @@ export function scoredPool(
     relevance[i] = scores.blended[p]!;
   }
   const candidates = Array.from(order, (p): Candidate => ({ index: scores.pool[p]!, relevance: scores.score[p]! }));
-  let list: { index: number; percentile: number }[] | undefined;
-  const ranked = () => (list ??= Array.from(order, (p) => ({ index: scores.pool[p]!, percentile: scores.percentile[p]! })));
+  let list: RankedCandidate[] | undefined;
+  const ranked = () => {
+    if (list) return list;
+    const ranks = scores.ranks();
+    return (list = Array.from(order, (p) => ({ index: scores.pool[p]!, percentile: scores.percentile[p]!, rank: ranks[p]! })));
+  };
   return remember(scored, sk, { pool, scores, candidates, ranked, posOf, relevance }, SCORED_KEPT);
 }

@@ -34,6 +34,7 @@ function snapshotNow(svc: CurationService, label: string, publishedAt: number): 
           pinned: x.pinned,
           score: x.score,
           percentile: x.percentile,
+          rank: x.rank,
         })),
       };
     }),

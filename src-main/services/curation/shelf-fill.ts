@@ -19,7 +19,8 @@ import { InputError } from '../../core/errors.ts';
 import { dateMs, type Edition } from '../../store/editions.ts';
 import type { Shelf, SlotRow } from '../../store/shelves.ts';
 import type { Db } from '../../store/workspace.ts';
-import { scoredPool } from './pool-cache.ts';
+import { scoredPool, type RankedCandidate } from './pool-cache.ts';
+import { explainItem, explainSlots, reasonFacts, type SlotExplanation } from './slot-reasons.ts';
 import { curationRepos } from './repos.ts';
 import { trendFor, type CurationWorld } from './world.ts';
 import { ownedMatrix } from '../holdout/trained.ts';
@@ -29,9 +30,13 @@ export interface FilledShelf {
   /** Dense item per slot (-1 = empty), and the meter's inputs: what a what-if needs. */
   dense: Int32Array;
   inputs: MeterInputs;
-  /** Pool items (dense), best first by boosted score, with their percentiles (shared: do not change). */
-  ranked: () => readonly { index: number; percentile: number }[];
+  /** Pool items (dense), best first by boosted score, with their percentiles and ranks (shared: do not change). */
+  ranked: () => readonly RankedCandidate[];
   meter: ShelfMeter;
+  /** Per slot: its rank in the pool and the main reason it was proposed (slot-reasons.ts). */
+  explanations: SlotExplanation[];
+  /** The same for any dense item (a what-if candidate): null reason and rank outside the pool. */
+  explain: (i: number) => SlotExplanation;
   violations: RuleViolation[];
   /** Candidates in the pool, and why the others were left out. */
   poolSize: number;
@@ -322,12 +327,17 @@ export function fillAndMeter(
       contributions: x ? { ...x.contributions } : {},
     };
   });
+  const withAudience = audienceAffinityOf(world, brief, editionDate) === null ? null : readings.audience;
+  const facts = reasonFacts(world, brief, editionDate, withAudience);
+  const explanations = explainSlots(facts, scores, posOf, dense);
   return {
     slots,
     dense,
     inputs,
     ranked: scored.ranked,
     meter,
+    explanations,
+    explain: (i) => explainItem(facts, scores, posOf, i),
     violations,
     poolSize: pool.items.length,
     excluded: { ...pool.excluded },

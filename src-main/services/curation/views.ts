@@ -14,6 +14,8 @@ import type { ActionEntry } from '../../store/editorial-actions.ts';
 import type { Shelf, SlotRow } from '../../store/shelves.ts';
 import { describeAction } from './action-words.ts';
 import type { FilledShelf } from './shelf-fill.ts';
+import type { SlotExplanation } from './slot-reasons.ts';
+import type { Reason } from '../../core/curation/reasons.ts';
 
 export interface SlotView {
   /** 1-based position on the shelf. */
@@ -27,6 +29,10 @@ export interface SlotView {
   pinned: boolean;
   score: number | null;
   percentile: number | null;
+  /** Place by score among the pool's candidates, 1 = best; null when the item is not in the pool. */
+  rank: number | null;
+  /** The main reason it was proposed, from the data (core/curation/reasons.ts); null when none shows. */
+  reason: Reason | null;
   contributions: Record<string, number>;
 }
 
@@ -102,7 +108,7 @@ export interface EditionView {
   meter: EditionMeter;
 }
 
-export function slotView(s: SlotRow, item: Item | undefined): SlotView {
+export function slotView(s: SlotRow, item: Item | undefined, why?: SlotExplanation): SlotView {
   return {
     slot: s.slot + 1,
     item: item?.externalId ?? null,
@@ -113,6 +119,8 @@ export function slotView(s: SlotRow, item: Item | undefined): SlotView {
     pinned: s.pinned,
     score: s.score,
     percentile: s.percentile,
+    rank: s.itemId === null ? null : (why?.rank ?? null),
+    reason: s.itemId === null ? null : (why?.reason ?? null),
     contributions: s.contributions,
   };
 }
@@ -140,7 +148,7 @@ export function shelfView(
     size: shelf.size,
     locked: shelf.locked,
     brief: shelf.brief,
-    slots: filled.slots.map((s) => slotView(s, s.itemId === null ? undefined : itemById(s.itemId))),
+    slots: filled.slots.map((s) => slotView(s, s.itemId === null ? undefined : itemById(s.itemId), filled.explanations[s.slot])),
     // Saturated slots counted from 1, as the slots above and the editors count them (issue 12: "Slots 0").
     meter: { ...filled.meter, saturatedSlots: filled.meter.saturatedSlots.map((s) => s + 1) },
     violations: filled.violations.map((v) => ({ ...v, title: ruleWords(v.rule, shelf.brief) })),

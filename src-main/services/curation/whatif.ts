@@ -5,13 +5,14 @@
 import { WHAT_IF_READINGS, type ShelfReadings, type WhatIfReading } from '../../core/curation/types.ts';
 import { whatIfBatch } from '../../core/curation/whatif.ts';
 import { InputError } from '../../core/errors.ts';
+import type { Reason } from '../../core/curation/reasons.ts';
 import type { CurationService } from './service.ts';
 import { fillAndMeter } from './shelf-fill.ts';
 
 export interface WhatIfView {
   slot: number;
   before: ShelfReadings;
-  candidates: { item: string; title: string; promoted: boolean; percentile: number; delta: ShelfReadings }[];
+  candidates: { item: string; title: string; promoted: boolean; percentile: number; rank: number; reason: Reason | null; delta: ShelfReadings }[];
 }
 
 /** `slot` is 1-based; `n` candidates, best first by boosted score. Reads only. */
@@ -34,7 +35,7 @@ export function shelfWhatIf(svc: CurationService, edition: string, label: string
       const delta = {} as Record<WhatIfReading, number>;
       for (const r of WHAT_IF_READINGS) delta[r] = batch.delta[r][q]!;
       const it = items[c.index]!;
-      return { item: it.externalId, title: it.title, promoted: it.promoted, percentile: c.percentile, delta };
+      return { item: it.externalId, title: it.title, promoted: it.promoted, percentile: c.percentile, rank: c.rank, reason: filled.explain(c.index).reason, delta };
     }),
   };
 }

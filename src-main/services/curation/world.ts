@@ -163,6 +163,19 @@ export function loadWorld(db: Db, source: ModelSource = noModels): CurationWorld
  * back-dated edition must not see signals from after its date. Returns undefined for "the world's own".
  */
 export function trendFor(world: CurationWorld, editionDate: number): Float32Array | null | undefined {
+  const end = trendEnd(world, editionDate);
+  if (end === undefined) return undefined;
+  const at = `trend@${editionDate}`;
+  let trend = world.memo.get(at) as Float32Array | undefined;
+  if (!trend) world.memo.set(at, (trend = Float32Array.from(trendRatios(world.ds, { now: editionDate }))));
+  return trend;
+}
+
+/**
+ * Where trendFor's recent window ends for an edition: its date when that is before the end of the history,
+ * else undefined ("the world's own": just after the latest signal, trendRatios' default).
+ */
+export function trendEnd(world: CurationWorld, editionDate: number): number | undefined {
   const s = world.ds.signals;
   if (s.length === 0) return undefined;
   let last = -Infinity;
@@ -173,9 +186,5 @@ export function trendFor(world: CurationWorld, editionDate: number): Float32Arra
     for (let k = 0; k < s.length; k++) if (s.at[k]! > last) last = s.at[k]!;
     world.memo.set(key, last);
   }
-  if (!(editionDate < last + 1)) return undefined;
-  const at = `trend@${editionDate}`;
-  let trend = world.memo.get(at) as Float32Array | undefined;
-  if (!trend) world.memo.set(at, (trend = Float32Array.from(trendRatios(world.ds, { now: editionDate }))));
-  return trend;
+  return editionDate < last + 1 ? editionDate : undefined;
 }

@@ -23,7 +23,7 @@ ol { display: grid; grid-template-columns: repeat(auto-fill, minmax(11rem, 1fr))
 li { border: 1px solid #ccc; border-radius: 6px; padding: 0.5rem; }
 .pos { color: #555; font-size: 0.8rem; }
 .title { font-weight: 600; display: block; }
-.meta { color: #555; font-size: 0.85rem; }
+.meta { color: #555; font-size: 0.85rem; display: block; }
 .sponsored { display: inline-block; font-size: 0.75rem; font-weight: 700; border: 1px solid #1d1d1f; border-radius: 3px; padding: 0 0.3rem; margin-top: 0.3rem; }
 .empty { color: #777; font-style: italic; }
 .pic { display: block; width: 48px; height: 48px; object-fit: contain; border-radius: 4px; background: #eee; margin-bottom: 0.3rem; }
@@ -67,7 +67,8 @@ export function editionHtml(e: EditionSnapshot, pictures: ReadonlyMap<string, st
           if (s.externalId === null) return `<li><span class="pos">${s.slot + 1}</span> <span class="empty">empty</span></li>`;
           const meta = [s.category, s.supplier].filter((x): x is string => !!x).map(escapeHtml).join(' · ');
           const label = s.promoted ? `<span class="sponsored">${SPONSORED}</span>` : '';
-          return `<li><span class="pos">${s.slot + 1}</span>${picture(s.externalId)}<span class="title">${escapeHtml(s.title ?? s.externalId)}</span><span class="meta">${meta}</span>${label}</li>`;
+          // The label on its own line after the category and supplier, never run into the supplier's name.
+          return `<li><span class="pos">${s.slot + 1}</span>${picture(s.externalId)}<span class="title">${escapeHtml(s.title ?? s.externalId)}</span><span class="meta">${meta}</span>${label ? ` ${label}` : ''}</li>`;
         })
         .join('\n');
       return `<section><h2>${escapeHtml(shelf.label)}</h2>\n<ol>\n${items}\n</ol>${meterHtml(shelf)}</section>`;

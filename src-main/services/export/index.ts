@@ -1,5 +1,5 @@
 import type { EditionSnapshot } from '../../core/editing/snapshot.ts';
-import { editionCsv } from './csv.ts';
+import { editionCsv, editionCsvNotes } from './csv.ts';
 import { editionHtml } from './html.ts';
 import { editionJson } from './json.ts';
 
@@ -9,6 +9,14 @@ export const EXPORT_FORMATS: readonly ExportFormat[] = ['csv', 'json', 'html'];
 /** The edition in one of the export formats, as text; `pictures` (data: URLs by external id) embed in HTML. */
 export function exportEdition(e: EditionSnapshot, format: ExportFormat, pictures?: ReadonlyMap<string, string>): string {
   return format === 'csv' ? editionCsv(e) : format === 'json' ? editionJson(e) : editionHtml(e, pictures);
+}
+
+/**
+ * The notes file that goes beside an export, or null: only the CSV needs one, since a CSV is a bare table
+ * (JSON and HTML carry their note inside).
+ */
+export function exportNotes(e: EditionSnapshot, format: ExportFormat): string | null {
+  return format === 'csv' ? editionCsvNotes(e) : null;
 }
 
 export { csvCell } from './csv.ts';

@@ -20,6 +20,7 @@ export function editionJson(e: EditionSnapshot): string {
         sponsored: s.promoted ? SPONSORED : null,
         pinned: s.pinned,
         percentile: s.percentile,
+        rank: s.rank ?? null,
       })),
       // Each reading by its one name, on its scale, with its range and the shelf's target band.
       meter:

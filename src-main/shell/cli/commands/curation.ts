@@ -1,4 +1,5 @@
 import { describeAutoDials, describeChoiceCost } from '../../../core/curation/choice-cost.ts';
+import { reasonWords } from '../../../core/curation/reason-words.ts';
 import type { ShelfView } from '../../../api/contracts/curation.ts';
 import type { RequestOf } from '../../../api/contract.ts';
 import { checkOutputFile, writeFileWhole } from '../../../services/user-file.ts';
@@ -30,7 +31,7 @@ export function renderShelf(v: ShelfView): string {
     s.supplier ?? '',
     s.promoted ? 'Sponsored' : '',
     s.pinned ? 'pin' : '',
-    s.percentile === null ? '–' : `${Math.round(s.percentile * 100)}`,
+    s.rank === null ? '–' : `${formatNumber(s.rank)} of ${formatNumber(v.poolSize)}`,
   ]);
   const m = v.meter;
   const head = `${v.edition} / ${v.label}  (${v.size} slots${v.locked ? ', locked' : ''}, pool ${v.poolSize})`;
@@ -42,7 +43,13 @@ export function renderShelf(v: ShelfView): string {
   const price = describeChoiceCost(m.choiceCost ?? NaN) + (dials ? `\n${dials}` : '');
   const banned = [...v.ruleBans.map((b) => `${b.facet} ${b.value} (${b.reach})`), ...v.bans.map((b) => `${b.item} ${b.title} (${b.reach})`)];
   const bans = banned.length ? `\nbanned here: ${banned.join(', ')}` : '';
-  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'pct'], rows)}\n\nmeter\n${renderMeter(v)}\n${price}${resting}${bans}${viol}${renderChanges(v)}`;
+  return `${head}\n${table(['slot', 'item', 'title', 'category', 'supplier', 'sponsored', 'pin', 'rank'], rows)}${renderReasons(v)}\n\nmeter\n${renderMeter(v)}\n${price}${resting}${bans}${viol}${renderChanges(v)}`;
+}
+
+/** Each slot's main reason in words, as the app says it (core/curation/reason-words.ts). */
+function renderReasons(v: ShelfView): string {
+  const lines = v.slots.filter((s) => s.reason !== null).map((s) => `  ${s.slot}. ${reasonWords(s.reason!, { count: formatNumber })}`);
+  return lines.length ? `\nwhy:\n${lines.join('\n')}` : '';
 }
 
 /** What the action or refill changed against the list before, and the relevance the kept list gives up. */
@@ -400,7 +407,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'an edition as CSV, JSON or a standalone HTML preview',
     usage: ['LABEL --format csv|json|html [--out FILE]'],
     options: { format: { type: 'string' }, out: { type: 'string' } },
-    about: { format: 'csv, json or html (required)', out: 'write the export to this file (default: print it on stdout)' },
+    about: { format: 'csv, json or html (required)', out: 'write the export to this file (default: print it on stdout); a CSV gets its notes beside it in FILE.notes.txt' },
     help: '  without --out the export is written to stdout\n\nexample:\n  shelfwright edition export "week 10" --format html --out week10.html',
     async run(env) {
       const [label] = positionals(env, ['LABEL']);
@@ -412,9 +419,17 @@ export const curationCommands: CliCommand[] = [
       const r = await call(t, 'edition.export', { edition: label!, format });
       if (out) {
         writeFileWhole(out, r.content);
-        env.io.out(env.json ? JSON.stringify({ format, file: out, bytes: Buffer.byteLength(r.content) }) : `wrote ${out}`);
+        // A CSV's notes (columns, sponsored disclosure) go beside it: FILE without its extension + .notes.txt.
+        const notes = r.notes ? `${out.replace(/\.[^./\\]*$/, '')}.notes.txt` : null;
+        if (notes) writeFileWhole(notes, r.notes!.content);
+        const wrote = notes ? `wrote ${out} and ${notes}` : `wrote ${out}`;
+        env.io.out(env.json ? JSON.stringify({ format, file: out, ...(notes && { notes }), bytes: Buffer.byteLength(r.content) }) : wrote);
       } else if (env.json) env.io.out(JSON.stringify(r, null, 2));
-      else env.printFile(r.content);
+      else {
+        env.printFile(r.content);
+        // The table alone on stdout; its notes on stderr, so a pipe still receives one clean CSV.
+        if (r.notes) env.io.err(r.notes.content);
+      }
       return EXIT.ok;
     },
   },

@@ -1,6 +1,6 @@
 import type { ResponseOf } from '../../../api/contract.ts';
 import { bandFor, describeChange, DIRECTION_WORDS, READINGS, type BandSource, type ShelfReadingKey } from '../../../core/curation/readings.ts';
-import { table } from '../format.ts';
+import { formatNumber, table } from '../format.ts';
 
 /** The readings `shelf whatif` prints a column for, by the names of core/curation/readings.ts. */
 const COLUMNS: ShelfReadingKey[] = ['intraListDistance', 'novelty', 'calibrationGap', 'promotedShareCount', 'predictedRelevance'];
@@ -13,7 +13,7 @@ export function renderWhatIf(r: ResponseOf<'shelf.whatif'>, brief: BandSource): 
     return `${c.text}${words}`;
   };
   return table(
-    ['item', 'title', 'sponsored', 'pct', ...COLUMNS.map((k) => `Δ ${READINGS[k].name}`)],
-    r.candidates.map((c) => [c.item, c.title, c.promoted ? 'Sponsored' : '', Math.round(c.percentile * 100), ...COLUMNS.map((k) => cell(k, c.delta[k]))]),
+    ['item', 'title', 'sponsored', 'rank', ...COLUMNS.map((k) => `Δ ${READINGS[k].name}`)],
+    r.candidates.map((c) => [c.item, c.title, c.promoted ? 'Sponsored' : '', formatNumber(c.rank), ...COLUMNS.map((k) => cell(k, c.delta[k]))]),
   );
 }

@@ -1,4 +1,5 @@
 import { plural } from '../../../core/util/plural.ts';
+import { reasonWords } from '../../../core/curation/reason-words.ts';
 import type { ResponseOf } from '../../../api/contract.ts';
 import { call, CliApiError } from '../call.ts';
 import { EXIT, type CliCommand, type CommandEnv } from '../command.ts';
@@ -397,11 +398,11 @@ const proposeCommand: CliCommand = {
       env.io.out(JSON.stringify(r, null, 2));
       return EXIT.ok;
     }
-    const why = (c: Record<string, number>) =>
+    // The main reason in words first (as the app says it), then the parts of the score that weighed most.
+    const parts = (c: Record<string, number>) =>
       Object.entries(c).filter(([, v]) => v > 0).sort((a, b) => b[1] - a[1]).slice(0, 3).map(([k, v]) => `${k} ${formatNumber(v)}`).join(', ');
-    const rows = r.items.map((x, q) => [q + 1, x.item, x.title, x.category, Math.round(x.percentile), why(x.contributions),
-      x.evidence.content[0]?.title ?? x.evidence.collaborative[0]?.title ?? '', flags(x.coldStart, x.sponsored)]);
-    env.io.out(`pool of ${r.poolSize} on ${r.date}\n${table(['#', 'item', 'title', 'category', 'pct', 'because', 'like', 'notes'], rows)}${r.notes.length ? `\n${r.notes.join('\n')}` : ''}`);
+    const rows = r.items.map((x) => [x.rank, x.item, x.title, x.category, x.reason ? reasonWords(x.reason, { count: formatNumber }) : '–', parts(x.contributions), flags(x.coldStart, x.sponsored)]);
+    env.io.out(`pool of ${formatNumber(r.poolSize)} on ${r.date}\n${table(['rank', 'item', 'title', 'category', 'why', 'parts', 'notes'], rows)}${r.notes.length ? `\n${r.notes.join('\n')}` : ''}`);
     return EXIT.ok;
   },
 };

@@ -24,6 +24,11 @@ export const EXPECTED_COLUMNS: Readonly<Record<ImportTarget, readonly ExpectedCo
     { field: 'added_at', required: false, about: 'the day the item was added: an ISO 8601 date (2026-03-02), or a d/m/y or m/d/y date with its order chosen' },
     { field: 'promoted', required: false, about: 'yes/no, true/false or 1/0: a paid placement, labelled "Sponsored"' },
     { field: 'available', required: false, about: 'yes/no, true/false or 1/0: in stock' },
+    {
+      field: 'image',
+      required: false,
+      about: 'a picture file: a path (from the file\'s own folder) or file: address; web addresses are recorded, never fetched; a blank cell removes the picture',
+    },
   ],
   customers: [{ field: 'id', required: true, about: "the shop's own customer id; other columns are kept as attributes" }],
   signals: [

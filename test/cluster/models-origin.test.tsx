@@ -5,6 +5,7 @@ import type { ApiResult } from '../../src-main/api/define.ts';
 import { createClient } from '../../src-renderer/client/client.ts';
 import { Models } from '../../src-renderer/screens/Models.tsx';
 import { createAppStore, StoreContext } from '../../src-renderer/state/store.ts';
+import { modelWords } from '../../src-main/core/models/model-words.ts';
 
 // uPlot draws on a canvas, which happy-dom lacks (notes/toolchain.md).
 vi.mock('uplot', () => ({ default: class { static paths = { bars: () => () => null }; destroy() {} } }));
@@ -40,10 +41,10 @@ describe('models screen, a model imported from a cluster', () => {
     renderWith([model('ials', true, origin), model('content', false, null)]);
     const region = await screen.findByRole('region', { name: 'Trained models' });
     const rows = await within(region).findAllByRole('row');
-    const ials = rows.find((r) => r.textContent?.startsWith('ials'))!;
+    const ials = rows.find((r) => r.textContent?.startsWith(modelWords('ials')))!;
     expect(ials.textContent).toContain('Trained on a cluster (Spark 3.5.1 ALS), imported 2026-12-04, rank 128');
     expect(ials.textContent).toContain('Out of date: the data changed since the signals were exported; export and fit again');
-    const content = rows.find((r) => r.textContent?.startsWith('content'))!;
+    const content = rows.find((r) => r.textContent?.startsWith(modelWords('content')))!;
     expect(content.textContent).toContain('Current');
     expect(content.textContent).not.toContain('cluster');
   });

@@ -146,6 +146,31 @@ describe('ContentModel', () => {
     });
   });
 
+  it('scores by exact cosine, not only through the top-K neighbour lists', () => {
+    // The quality reference (bench/quality/reference.py `content`) scores with the full cosine matrix, its
+    // diagonal zeroed: score(u, j) = mean over the distinct history items h ≠ j of cos(h, j). Checked here
+    // against brute-force dense dot products of the item vectors, with lists cut to one neighbour each.
+    const model = fitContent(planted, { k: 1 }).model;
+    const p = plantedBlocks();
+    const hist = Array.from(p.history.indices.subarray(p.history.indptr[p.customer]!, p.history.indptr[p.customer + 1]!));
+    const v = model.vectors;
+    const dense = (r: number): Float64Array => {
+      const d = new Float64Array(v.cols);
+      for (let q = v.indptr[r]!; q < v.indptr[r + 1]!; q++) d[v.indices[q]!] = v.data[q]!;
+      return d;
+    };
+    const out = new Float32Array(model.itemCount);
+    model.scoreInto(p.customer, p.history, out);
+    let beyondLists = 0;
+    for (let j = 0; j < model.itemCount; j++) {
+      const dj = dense(j);
+      const expected = hist.filter((h) => h !== j).reduce((s, h) => s + dense(h).reduce((t, x, f) => t + x * dj[f]!, 0), 0) / hist.length;
+      expect(out[j]).toBeCloseTo(expected, 6);
+      if (expected > 0 && !hist.some((h) => model.similarItems(h, 1).items.includes(j))) beyondLists++;
+    }
+    expect(beyondLists).toBeGreaterThan(0); // the check covers items no neighbour list holds
+  });
+
   it('takes the history as presence: quantities do not change the scores', () => {
     // The quality reference (bench/quality/reference.py, `content`) scores with the binary history matrix.
     const model = fitContent(planted, { k: 11 }).model;

@@ -77,7 +77,7 @@ export const TuningView = z.object({
   k: z.number().int(),
   tunedAt: z.number(),
   split: z.object({ method: z.enum(['time', 'random']), train: z.number().int(), validation: z.number().int(), customers: z.number().int() }),
-  /** 'hybrid' on the content model: the grid of the hybrid's content weight. */
+  /** 'hybrid' only on a content model tuned before the validated blend: the retired grid of the hybrid's content weight. */
   grid: z.object({
     model: z.string(),
     best: z.record(z.string(), z.union([z.number(), z.string()])),
@@ -99,6 +99,7 @@ export const TuningView = z.object({
   }),
   /** The data fingerprint the tuning saw (absent for tunings stored before it was kept). */
   fingerprint: z.string().optional(),
+  /** Only on content models tuned before the validated blend (the retired content-weight search). */
   hybridContentWeight: z.number().optional(),
 });
 

@@ -33,10 +33,7 @@ export { TUNE_BUDGET } from '../../core/models/tune-budget.ts';
  */
 export const IALS_SEARCH_ITERATIONS = 5;
 
-/** Weight of the content component in the hybrid blend, the other weights held (brief defaults: 0.3). */
-export const HYBRID_CONTENT_GRID = [0, 0.1, 0.3, 0.6, 1] as const;
-
-/** The parameters each model's grid varies (the hybrid's content weight has no training flag to fix it). */
+/** The parameters each model's grid varies (the hybrid is the validated blend, learned at training: no grid here). */
 export const GRID_PARAMS = {
   itemknn: ['k', 'shrink', 'values'],
   ials: ['regularization', 'alpha', 'scaling', 'factors'],

@@ -43,9 +43,6 @@ export interface ModelSearchOptions {
 
 export interface ModelSearches {
   tunings: ModelTuning[];
-  /** The best fitted item-kNN and iALS (the hybrid's search blends them). */
-  itemknn: Scorer;
-  ials: Scorer;
   /** Milliseconds one plain fit of the searched models took here, and the predicted spend of the whole search. */
   plainMs: number;
   spentMs: number;
@@ -142,7 +139,6 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
 
   // 1. The start of every model: its plain cost, and a fitted model even when nothing is searched.
   const trials = new Map<GridModel, GridTrial[]>();
-  const bestModel = new Map<GridModel, Scorer>();
   const startScore = new Map<GridModel, EvalResult>();
   const unit = new Map<GridModel, number>();
   let plainMs = 0;
@@ -154,7 +150,6 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
     const r = o.measure(s.model, m);
     const ms = performance.now() - t0;
     startScore.set(s.model, r);
-    bestModel.set(s.model, m);
     const shown = s.shown ?? ((p: Point) => p);
     trials.set(s.model, [{ params: shown(s.start), ndcg: r.ndcg, recall: r.cappedRecall, elapsedMs: ms }]);
     // iALS's start ran `sweeps` of the training's sweeps: a plain fit costs iterations / sweeps as much.
@@ -194,8 +189,6 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
         const r = o.measure(model, m);
         const list = trials.get(model)!;
         list.push({ params: (s.shown ?? ((x: Point) => ({ ...x })))(p), ndcg: r.ndcg, recall: r.cappedRecall, elapsedMs: performance.now() - t0 });
-        const bestSoFar = Math.max(...list.slice(0, -1).map((t) => (Number.isNaN(t.ndcg) ? -1 : t.ndcg)));
-        if (r.ndcg > bestSoFar + 1e-9) bestModel.set(model, m);
         return r.ndcg;
       },
     });
@@ -219,7 +212,7 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
   }
   // Grid order of the result: item-kNN, EASE, iALS (as before).
   tunings.sort((a, b) => ['itemknn', 'ease', 'ials'].indexOf(a.model) - ['itemknn', 'ease', 'ials'].indexOf(b.model));
-  return { tunings, itemknn: bestModel.get('itemknn')!, ials: bestModel.get('ials')!, plainMs, spentMs: spent, notes };
+  return { tunings, plainMs, spentMs: spent, notes };
 }
 
 /** The axes of a model's grid, leaving out the parameters the caller fixed (they stay at the caller's value). */

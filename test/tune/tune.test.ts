@@ -103,6 +103,13 @@ describe('tuneDataset', () => {
     expect(grid('itemknn').trials.length).toBeGreaterThan(1);
     expect(grid('ials').search!.axes['regularization']).toEqual([...IALS_GRID.regularization]);
     expect(['converged', 'budget']).toContain(grid('ials').search!.stopped);
+    // Factors are searched last, upward from the default, each larger count with λ searched again: the trials'
+    // factor counts never fall, and every count the search lists was fitted at two or more λ (or ended it).
+    const ialsFactors = grid('ials').trials.map((t) => t.params['factors'] as number);
+    for (let q = 1; q < ialsFactors.length; q++) expect(ialsFactors[q]!).toBeGreaterThanOrEqual(ialsFactors[q - 1]!);
+    expect(grid('ials').search!.axes['factors']![0]).toBe(64);
+    expect(grid('ials').search!.axes['factors']!.length).toBeGreaterThan(1); // budget 20 affords 128 factors here
+    for (const f of grid('ials').search!.axes['factors']!) expect(ialsFactors).toContain(f);
     // The predicted spend of the searches never passes the budget (in plain fits of the searched models).
     expect(r.budget.plainFits).toBe(20);
     expect(r.budget.spentMs).toBeLessThanOrEqual(r.budget.plainFits * r.budget.plainMs + 1e-6);
@@ -156,13 +163,14 @@ describe('tuneDataset with fixed parameters', () => {
 });
 
 describe('tuneDataset with iALS alpha fixed', () => {
-  it('searches both scalings at that alpha only, as one confidence axis', async () => {
+  it('searches both scalings at that alpha only (no alpha axis)', async () => {
     const d = tempDir('tune-alpha');
     const { db } = await handWorkspace(d);
     try {
       const r = await tuneDataset(loadDataset(db), { k: 3, iterations: 2, threads: 1, fixed: { ials: { alpha: 10 } } });
       const ials = r.models.find((x) => x.model === 'ials')!;
-      expect(ials.search!.axes['confidence']).toEqual(['linear 10', 'log 10']);
+      expect(ials.search!.axes['scaling']).toEqual(['linear', 'log']);
+      expect(ials.search!.axes['alpha']).toBeUndefined();
       for (const t of ials.trials) expect(t.params['alpha']).toBe(10);
       expect(ials.fixed).toEqual({ alpha: 10 });
       expect(r.params.ials!.alpha).toBe(10);

@@ -36,7 +36,7 @@ export const TrainRequest = z
     /**
      * Tune each model's grid on a validation split first, then train the best settings on all signals. `when`:
      * 'always' tunes; 'changed' tunes only when the data changed since the last tuning, else trains that
-     * tuning's settings again. `budget`: plain fits the search may spend (grid.ts TUNE_BUDGET, default 2).
+     * tuning's settings again. `budget`: plain fits the search may spend (grid.ts TUNE_BUDGET, default 3).
      */
     tune: z
       .object({

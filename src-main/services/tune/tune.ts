@@ -77,7 +77,7 @@ export interface TuneOptions {
   sampleCustomers?: number;
   /** iALS sweeps of the final training (trials run fewer: grid.ts IALS_SEARCH_ITERATIONS). Default 15. */
   iterations?: number;
-  /** Plain fits the per-model searches may spend (grid.ts TUNE_BUDGET). Default 2. */
+  /** Plain fits the per-model searches may spend (grid.ts TUNE_BUDGET). Default 3. */
   budget?: number;
   threads?: number;
   /** Grid parameters held at these values (the caller's own training parameters); the rest is searched. */

@@ -26,6 +26,7 @@ import type { Dataset } from '../core/types.ts';
 import { loadDataset } from '../store/dataset.ts';
 import { ModelRepo } from '../store/models.ts';
 import type { Db } from '../store/workspace.ts';
+import { notYetAvailable } from './tune/split.ts';
 
 export interface EvaluateOptions {
   /** List length K. Default 10. */
@@ -72,6 +73,7 @@ export function evaluateWorkspace(db: Db, options: EvaluateOptions = {}): Worksp
  * Counting components (popularity, trend, the cold-start test) and the popularity baseline read all
  * history before the window being measured, so the baseline has the same information as the hybrid.
  * Customers are sampled (seeded) to at most `sampleCustomers` per window; all models see one sample.
+ * Items added (else first signalled) at or after a window's cut are neither ranked nor truth in that window.
  */
 export function evaluateDataset(ds: Dataset, options: EvaluateOptions = {}): WorkspaceEvaluation {
   const k = options.k ?? 10;
@@ -108,8 +110,14 @@ export function evaluateDataset(ds: Dataset, options: EvaluateOptions = {}): Wor
   else notes.push(`EASE left out: ${ds.items.length} items (its dense inverse is costly above 5,000)`);
   models.set('ials', record('ials', fitIals(train, { seed, ...options.params?.ials }, fitOpts)));
 
+  // Each window is measured over the catalogue of its cut's moment, as the tuner and the blend do
+  // (services/tune/split.ts `unavailable`): an item added (else first signalled) at or after the cut is
+  // neither ranked nor truth there, since no list served at the cut could have held it.
+  const notYetInValidation = notYetAvailable(ds, cuts.validationFrom);
+  const notYetInTest = notYetAvailable(ds, cuts.testFrom);
+
   // Validation: the validated blend over every model (services/tune/blend.ts does the same for training).
-  const valEval = new RankingEvaluator(train, sampleTruth(evalTruth(train, validation), cap, seededRng(seed)), k);
+  const valEval = new RankingEvaluator(train, sampleTruth(evalTruth(train, validation, undefined, notYetInValidation), cap, seededRng(seed)), k, notYetInValidation);
   if (valEval.customerCount === 0) throw new InputError('no customer has both history and new items in the validation window');
   const t0 = performance.now();
   const inputs: BlendModelInput[] = [...models].map(([name, m]) => ({ name: name as BlendModel, scorer: { name, scoreInto: (u, h, out) => m.scoreInto(u, h, out) } }));
@@ -120,7 +128,7 @@ export function evaluateDataset(ds: Dataset, options: EvaluateOptions = {}): Wor
   if (!blend.validated) notes.push(blend.reason);
 
   // Test: every model, the hybrid as chosen, and the baselines, on one customer sample.
-  const testEval = new RankingEvaluator(trainVal, sampleTruth(evalTruth(trainVal, test), cap, seededRng(seed + 1)), k);
+  const testEval = new RankingEvaluator(trainVal, sampleTruth(evalTruth(trainVal, test, undefined, notYetInTest), cap, seededRng(seed + 1)), k, notYetInTest);
   if (testEval.customerCount === 0) throw new InputError('no customer has both history and new items in the test window');
   const rows: EvalResult[] = [];
   for (const [name, model] of models) rows.push(testEval.evaluate({ name, scoreInto: (u, h, out) => model.scoreInto(u, h, out) }));

@@ -5,7 +5,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { generateDemoShop } from '../../demo-data/generator/index.ts';
 import { buildInteractionMatrix } from '../../src-main/core/matrix/build.ts';
 import { fitItemKnn } from '../../src-main/core/models/itemknn.ts';
-import { evaluateWorkspace, saveEvaluation } from '../../src-main/services/evaluate.ts';
+import { quantileCuts } from '../../src-main/core/matrix/split.ts';
+import type { Dataset } from '../../src-main/core/types.ts';
+import { evaluateDataset, evaluateWorkspace, saveEvaluation } from '../../src-main/services/evaluate.ts';
 import { ModelRepo } from '../../src-main/store/models.ts';
 import { importFile } from '../../src-main/services/import.ts';
 import { loadDataset } from '../../src-main/store/dataset.ts';
@@ -67,5 +69,42 @@ describe('evaluateWorkspace', () => {
   it('refuses a bad K and sample size, naming the field', () => {
     expect(() => evaluateWorkspace(db, { k: 0 })).toThrow(/k must be a whole number/);
     expect(() => evaluateWorkspace(db, { sampleCustomers: 0.5 })).toThrow(/sampleCustomers/);
+  });
+});
+
+describe('evaluateDataset and items added after a cut', () => {
+  it('neither ranks nor counts as truth an item added after the test cut: its test-window sales change nothing', () => {
+    // A list served at the cut could not have held an item that did not yet exist (the same rule as the
+    // tuner's validationSplit `unavailable`). So whatever happens to such an item inside the test window
+    // must leave every test row unchanged: here 40 customers buy a new item there, or nobody does.
+    const base = loadDataset(db);
+    const cuts = quantileCuts(base);
+    const launched = base.items.length;
+    const items = [...base.items, { ...base.items[0]!, id: 1_000_000, externalId: 'launched-after-cut', addedAt: cuts.testFrom + 1 }];
+    const withSales = (buyers: number): Dataset => {
+      const s = base.signals;
+      const n = s.length + buyers;
+      const grow = <T extends Int32Array | Uint8Array | Float32Array | Float64Array>(a: T, extra: (q: number) => number): T => {
+        const out = new (a.constructor as new (n: number) => T)(n);
+        out.set(a);
+        for (let q = 0; q < buyers; q++) out[s.length + q] = extra(q);
+        return out;
+      };
+      return {
+        ...base,
+        items,
+        signals: {
+          length: n,
+          customer: grow(s.customer, (q) => q),
+          item: grow(s.item, () => launched),
+          kind: grow(s.kind, () => s.kind[0]!),
+          value: grow(s.value, () => 1),
+          at: grow(s.at, () => cuts.testFrom + 2),
+        },
+      };
+    };
+    const opts = { k: 5, sampleCustomers: 150, seed: 2, cuts, params: { ials: { factors: 8, iterations: 3 } } };
+    const rows = (ds: Dataset) => evaluateDataset(ds, opts).test.map(({ elapsedMs: _, ...r }) => r);
+    expect(rows(withSales(40))).toEqual(rows(withSales(0)));
   });
 });

@@ -81,6 +81,23 @@ describe('contentVectors', () => {
     }
   });
 
+  it('leaves price out by default, so a shared price band alone makes no similarity', () => {
+    // Two items with no word, category or supplier in common, in the same price band.
+    const pair = [item(0, 'brass lantern', { price: 5 }), item(1, 'violin bow', { price: 5 }), item(2, 'seed tray', { price: 90 })];
+    const plain = contentVectors(pair);
+    expect(plain.featureNames.some((f) => f.startsWith('price:'))).toBe(false);
+    const m = fitContent(pair).model;
+    const sim = new Float32Array(3);
+    m.similarityInto(0, sim);
+    expect(sim[1]).toBe(0);
+    // Asked for, the band one-hot at weight w on a unit text part gives the pair cosine w²/(1 + w²)
+    // (hand computation: rows (t, w)/√(1+w²) with orthogonal t).
+    const w = 0.5;
+    const banded = fitContent(pair, { priceBands: 2, attributeWeight: w }).model;
+    banded.similarityInto(0, sim);
+    expect(sim[1]).toBeCloseTo((w * w) / (1 + w * w), 6);
+  });
+
   it('rejects a negative attribute weight', () => {
     expect(() => contentVectors(items, { attributeWeight: -1 })).toThrow(/attributeWeight/);
   });
@@ -127,6 +144,43 @@ describe('ContentModel', () => {
     out.forEach((v, j) => {
       if (!hist.includes(j)) expect(v).toBeCloseTo(expected[j]!, 6);
     });
+  });
+
+  it('scores by exact cosine, not only through the top-K neighbour lists', () => {
+    // The quality reference (bench/quality/reference.py `content`) scores with the full cosine matrix, its
+    // diagonal zeroed: score(u, j) = mean over the distinct history items h ≠ j of cos(h, j). Checked here
+    // against brute-force dense dot products of the item vectors, with lists cut to one neighbour each.
+    const model = fitContent(planted, { k: 1 }).model;
+    const p = plantedBlocks();
+    const hist = Array.from(p.history.indices.subarray(p.history.indptr[p.customer]!, p.history.indptr[p.customer + 1]!));
+    const v = model.vectors;
+    const dense = (r: number): Float64Array => {
+      const d = new Float64Array(v.cols);
+      for (let q = v.indptr[r]!; q < v.indptr[r + 1]!; q++) d[v.indices[q]!] = v.data[q]!;
+      return d;
+    };
+    const out = new Float32Array(model.itemCount);
+    model.scoreInto(p.customer, p.history, out);
+    let beyondLists = 0;
+    for (let j = 0; j < model.itemCount; j++) {
+      const dj = dense(j);
+      const expected = hist.filter((h) => h !== j).reduce((s, h) => s + dense(h).reduce((t, x, f) => t + x * dj[f]!, 0), 0) / hist.length;
+      expect(out[j]).toBeCloseTo(expected, 6);
+      if (expected > 0 && !hist.some((h) => model.similarItems(h, 1).items.includes(j))) beyondLists++;
+    }
+    expect(beyondLists).toBeGreaterThan(0); // the check covers items no neighbour list holds
+  });
+
+  it('takes the history as presence: quantities do not change the scores', () => {
+    // The quality reference (bench/quality/reference.py, `content`) scores with the binary history matrix.
+    const model = fitContent(planted, { k: 11 }).model;
+    const p = plantedBlocks();
+    const heavy = { ...p.history, data: p.history.data.map((v, q) => v * (q + 7)) };
+    const a = new Float32Array(model.itemCount);
+    const b = new Float32Array(model.itemCount);
+    model.scoreInto(p.customer, p.history, a);
+    model.scoreInto(p.customer, heavy, b);
+    expect(Array.from(b)).toEqual(Array.from(a));
   });
 
   it('rejects bytes of another model', () => {

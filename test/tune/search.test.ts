@@ -76,6 +76,25 @@ describe('coordinateSearch', () => {
     expect(r.best).toEqual({ lambda: 100 });
   });
 
+  it('refines a marked log axis at the geometric midpoints next to its best, within the budget', async () => {
+    // A unimodal objective peaking at λ = 10^2.3 ≈ 200 on a half-decade grid: the grid's best is 300 (10^2.48);
+    // the quarter-decade midpoints next to it are √(100·300) ≈ 170 and √(300·1000) ≈ 550 (two significant
+    // digits), and 170 (10^2.23) lies nearer the peak than 300 (hand computation).
+    const grid = [10, 30, 100, 300, 1000, 3000, 10_000];
+    const objective1 = (p: Point) => -Math.abs(Math.log10(p['lambda'] as number) - 2.3);
+    const run = (refine: boolean, budget: number) =>
+      coordinateSearch({ axes: [{ name: 'lambda', values: grid, refine }], start: { lambda: 1000 }, budget, cost: () => 1, evaluate: objective1 });
+    const plain = await run(false, 20);
+    expect(plain.best).toEqual({ lambda: 300 }); // |2.477 − 2.3| < |2 − 2.3|
+    const refined = await run(true, 20);
+    expect(refined.trials.slice(plain.trials.length).map((t) => t.point['lambda'])).toEqual([170, 550]);
+    expect(refined.best).toEqual({ lambda: 170 }); // |2.230 − 2.3| = 0.07 < 0.177
+    // With no budget left after the line search, the refinement is skipped and the search says so.
+    const short = await run(true, plain.spent);
+    expect(short.best).toEqual({ lambda: 300 });
+    expect(short.stopped).toBe('budget');
+  });
+
   it('stops with CancelledError between trials once cancelled, and reports each trial before it runs', async () => {
     const ac = new AbortController();
     const seen: number[] = [];

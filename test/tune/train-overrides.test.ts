@@ -91,7 +91,7 @@ describe('train --tune with flags of the user', () => {
     // The job's summary line.
     const summary = r.out.split('\n')[0]!;
     expect(summary).toMatch(
-      /^tuned \(random split; itemknn NDCG@3 [\d.]+, ease not searched, ials NDCG@3 [\d.]+, hybrid NDCG@3 [\d.]+; \d+ settings tried for [\d.]+ of 20 plain fits\) and trained 5 models/,
+      /^tuned \(random split; itemknn NDCG@3 [\d.]+, ease not searched, ials NDCG@3 [\d.]+; \d+ settings tried for [\d.]+ of 20 plain fits\) and trained 5 models/,
     );
     expect(summary).toMatch(/; fixed by you: itemknn k=2, ease lambda=300 values=presence \(every setting of its grid, so not searched\), ials factors=3(; hybrid: .+)?$/);
   }, 60_000);
@@ -103,11 +103,11 @@ describe('train --tune with flags of the user', () => {
       elapsedMs: 1000,
       models: [
         { model: 'ials', trials: [], best: { factors: 64, regularization: 0.01, alpha: 1, scaling: 'linear' }, ndcg: 0.5, fixed: {}, searched: true },
-        { model: 'hybrid', trials: [], best: { content: 0.3 }, ndcg: 0.6, fixed: {}, searched: true },
+        { model: 'ease', trials: [], best: { lambda: 300, values: 'presence' }, ndcg: 0.6, fixed: {}, searched: true },
       ] satisfies ModelTuning[],
     };
     expect(tunedSummary({ models: ['ials', 'content'], elapsedMs: 500 }, tuning)).toBe(
-      'tuned (time split; ials NDCG@10 0.500, hybrid NDCG@10 0.600) and trained 2 models in 1.5 s',
+      'tuned (time split; ials NDCG@10 0.500, ease NDCG@10 0.600) and trained 2 models in 1.5 s',
     );
   });
 });

@@ -6,7 +6,7 @@ import { createHandlerTable, invoke } from '../../src-main/api/handler-table.ts'
 import { confidence } from '../../src-main/core/models/ials-params.ts';
 import { AppContext } from '../../src-main/services/context.ts';
 import { importFile } from '../../src-main/services/import.ts';
-import { HYBRID_CONTENT_GRID, IALS_GRID, TUNE_BUDGET } from '../../src-main/services/tune/grid.ts';
+import { IALS_GRID, TUNE_BUDGET } from '../../src-main/services/tune/grid.ts';
 import { validationSplit } from '../../src-main/services/tune/split.ts';
 import { tuneDataset } from '../../src-main/services/tune/tune.ts';
 import { loadDataset } from '../../src-main/store/dataset.ts';
@@ -90,7 +90,8 @@ describe('tuneDataset', () => {
     expect(grid('itemknn').trials[0]!.params).toEqual({ k: 50, shrink: 10, values: 'presence' });
     expect(grid('ease').trials[0]!.params).toEqual({ lambda: 500, values: 'presence' });
     expect(grid('ials').trials[0]!.params).toEqual({ regularization: 10, alpha: 1, scaling: 'log', factors: 64 });
-    expect(grid('hybrid').trials).toHaveLength(HYBRID_CONTENT_GRID.length);
+    // The hybrid is not tuned here: the validated blend is learned at training (blend.ts).
+    expect(r.models.map((m) => m.model)).toEqual(['itemknn', 'ease', 'ials']);
     for (const m of r.models) {
       const keys = m.trials.map((t) => JSON.stringify(Object.entries(t.params).sort()));
       expect(new Set(keys).size).toBe(keys.length);
@@ -102,6 +103,13 @@ describe('tuneDataset', () => {
     expect(grid('itemknn').trials.length).toBeGreaterThan(1);
     expect(grid('ials').search!.axes['regularization']).toEqual([...IALS_GRID.regularization]);
     expect(['converged', 'budget']).toContain(grid('ials').search!.stopped);
+    // Factors are searched last, upward from the default, each larger count with λ searched again: the trials'
+    // factor counts never fall, and every count the search lists was fitted at two or more λ (or ended it).
+    const ialsFactors = grid('ials').trials.map((t) => t.params['factors'] as number);
+    for (let q = 1; q < ialsFactors.length; q++) expect(ialsFactors[q]!).toBeGreaterThanOrEqual(ialsFactors[q - 1]!);
+    expect(grid('ials').search!.axes['factors']![0]).toBe(64);
+    expect(grid('ials').search!.axes['factors']!.length).toBeGreaterThan(1); // budget 20 affords 128 factors here
+    for (const f of grid('ials').search!.axes['factors']!) expect(ialsFactors).toContain(f);
     // The predicted spend of the searches never passes the budget (in plain fits of the searched models).
     expect(r.budget.plainFits).toBe(20);
     expect(r.budget.spentMs).toBeLessThanOrEqual(r.budget.plainFits * r.budget.plainMs + 1e-6);
@@ -111,7 +119,6 @@ describe('tuneDataset', () => {
     expect(r.params.ials).toMatchObject(grid('ials').best);
     expect(r.params.itemknn).toEqual(grid('itemknn').best);
     expect(r.params.ease).toMatchObject(grid('ease').best);
-    expect(HYBRID_CONTENT_GRID).toContain(r.hybridContentWeight);
     expect(r.split.method).toBe('time');
   }, 60_000);
 
@@ -119,7 +126,7 @@ describe('tuneDataset', () => {
     const ds = loadDataset(shop);
     const opts = { k: 10, seed: 3, iterations: 4, threads: 1, sampleCustomers: 100 };
     const small = await tuneDataset(ds, { ...opts, budget: TUNE_BUDGET.min });
-    const fits = (r: typeof small) => r.models.filter((m) => m.model !== 'hybrid').reduce((n, m) => n + m.trials.length, 0);
+    const fits = (r: typeof small) => r.models.reduce((n, m) => n + m.trials.length, 0);
     // At 0.5 plain fits the starts alone use the budget up: one fit per model.
     expect(fits(small)).toBe(3);
     await expect(tuneDataset(ds, { ...opts, budget: 0.1 })).rejects.toThrow(/budget must be from 0.5 to 20 plain fits, got 0.1/);
@@ -128,7 +135,7 @@ describe('tuneDataset', () => {
 });
 
 describe('tuneDataset with fixed parameters', () => {
-  it('does not search a model whose every grid parameter is fixed, and still tunes the hybrid over it', async () => {
+  it('does not search a model whose every grid parameter is fixed, and still fits it once', async () => {
     const d = tempDir('tune-fixed');
     const { db } = await handWorkspace(d);
     try {
@@ -144,10 +151,10 @@ describe('tuneDataset with fixed parameters', () => {
       for (const t of grid('itemknn').trials) expect(t.params['shrink']).toBe(0);
       expect(Object.keys(grid('itemknn').search!.axes)).toEqual(['k', 'values']);
       expect(grid('ease')).toMatchObject({ searched: true, fixed: {} });
-      expect(grid('hybrid').trials).toHaveLength(HYBRID_CONTENT_GRID.length);
-      // The unsearched iALS was fitted once, for the hybrid, and reported as such in the progress.
-      expect(seen.filter((p) => p.model === 'ials')).toHaveLength(1);
-      expect(seen.at(-1)).toMatchObject({ model: 'hybrid', fraction: 1 });
+      // The unsearched iALS was fitted once (its start point), and reported as such in the progress.
+      expect(seen.filter((p) => p.model === 'ials' && p.fraction < 1)).toHaveLength(1);
+      expect(seen.at(-1)).toMatchObject({ fraction: 1 });
+      expect(r.models.map((m) => m.model)).not.toContain('hybrid');
     } finally {
       db.close();
       fs.rmSync(d, { recursive: true, force: true });
@@ -156,13 +163,14 @@ describe('tuneDataset with fixed parameters', () => {
 });
 
 describe('tuneDataset with iALS alpha fixed', () => {
-  it('searches both scalings at that alpha only, as one confidence axis', async () => {
+  it('searches both scalings at that alpha only (no alpha axis)', async () => {
     const d = tempDir('tune-alpha');
     const { db } = await handWorkspace(d);
     try {
       const r = await tuneDataset(loadDataset(db), { k: 3, iterations: 2, threads: 1, fixed: { ials: { alpha: 10 } } });
       const ials = r.models.find((x) => x.model === 'ials')!;
-      expect(ials.search!.axes['confidence']).toEqual(['linear 10', 'log 10']);
+      expect(ials.search!.axes['scaling']).toEqual(['linear', 'log']);
+      expect(ials.search!.axes['alpha']).toBeUndefined();
       for (const t of ials.trials) expect(t.params['alpha']).toBe(10);
       expect(ials.fixed).toEqual({ alpha: 10 });
       expect(r.params.ials!.alpha).toBe(10);
@@ -202,7 +210,8 @@ describe('train.start with tune', () => {
       expect(ials.tuning).not.toBeNull();
       expect(ials.params).toMatchObject(ials.tuning!.grid.best);
       expect(models.find((m) => m.kind === 'itemknn')!.params).toMatchObject(models.find((m) => m.kind === 'itemknn')!.tuning!.grid.best);
-      expect(HYBRID_CONTENT_GRID).toContain(models.find((m) => m.kind === 'content')!.tuning!.hybridContentWeight);
+      // Content has no grid: its share of the hybrid is the validated blend's (no dead content-weight record).
+      expect(models.find((m) => m.kind === 'content')!.tuning).toBeNull();
     } finally {
       ctx.close();
       fs.rmSync(d, { recursive: true, force: true });

@@ -49,7 +49,7 @@ export const TrainRequest = z
     /**
      * Tune each model's grid on a validation split first, then train the best settings on all signals. `when`:
      * 'always' tunes; 'changed' tunes only when the data changed since the last tuning, else trains that
-     * tuning's settings again. `budget`: plain fits the search may spend (grid.ts TUNE_BUDGET, default 2).
+     * tuning's settings again. `budget`: plain fits the search may spend (grid.ts TUNE_BUDGET, default 3).
      * Left out, training follows the product's default (services/tune/train-tuned.ts DEFAULT_TUNE: tune when the data changed), whoever
      * asks (the app's Train button, `shelfwright train`); `false` trains the defaults and the given values as
      * they are, with no search.
@@ -84,7 +84,7 @@ export const TuningView = z.object({
   k: z.number().int(),
   tunedAt: z.number(),
   split: z.object({ method: z.enum(['time', 'random']), train: z.number().int(), validation: z.number().int(), customers: z.number().int() }),
-  /** 'hybrid' on the content model: the grid of the hybrid's content weight. */
+  /** 'hybrid' only on a content model tuned before the validated blend: the retired grid of the hybrid's content weight. */
   grid: z.object({
     model: z.string(),
     best: z.record(z.string(), z.union([z.number(), z.string()])),
@@ -106,6 +106,7 @@ export const TuningView = z.object({
   }),
   /** The data fingerprint the tuning saw (absent for tunings stored before it was kept). */
   fingerprint: z.string().optional(),
+  /** Only on content models tuned before the validated blend (the retired content-weight search). */
   hybridContentWeight: z.number().optional(),
 });
 

@@ -15,6 +15,8 @@
  * gives the same trials on any machine, loaded or not.
  *
  * Choice rule: a point replaces the best only when it scores more than 1e-9 higher (ties keep the earlier point).
+ * An axis marked `refine` gets one more step after convergence: the geometric midpoints between its best value
+ * and the grid neighbours (successive refinement of a line search, as in a grid search refined around its best).
  */
 import { CancelledError, InputError } from '../../core/errors.ts';
 
@@ -25,6 +27,11 @@ export interface Axis {
   name: string;
   /** Numbers in ascending order (a log grid), or categories (any order; every one is tried). */
   values: readonly AxisValue[];
+  /**
+   * Refine this log axis once the cycles have converged: try the geometric midpoints between the best value
+   * and its neighbours on the axis (a quarter decade on a half-decade grid), keeping one that scores higher.
+   */
+  refine?: boolean;
 }
 
 export interface SearchTrial {
@@ -70,7 +77,12 @@ function withStart(axis: Axis, v: AxisValue | undefined): AxisValue[] {
 
 export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> {
   if (!(o.budget >= 0) || !Number.isFinite(o.budget)) throw new InputError(`the search budget must be a finite number >= 0, got ${o.budget}`);
-  const axes = o.axes.map((a) => ({ name: a.name, values: withStart(a, o.start[a.name]), ordered: a.values.every((x) => typeof x === 'number') }));
+  const axes = o.axes.map((a) => ({
+    name: a.name,
+    values: withStart(a, o.start[a.name]),
+    ordered: a.values.every((x) => typeof x === 'number'),
+    refine: a.refine === true,
+  }));
   const seen = new Map<string, number>();
   const trials: SearchTrial[] = [];
   let spent = 0;
@@ -140,6 +152,24 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
       }
     }
     if (!improved) break;
+  }
+  // Refinement of log axes between the grid points next to the optimum (budget permitting): validation
+  // quality is close to unimodal along such an axis, so the optimum lies within a grid step of the best.
+  for (const axis of axes) {
+    if (!axis.refine || !axis.ordered) continue;
+    const v = axis.values as number[];
+    const i = v.indexOf(best[axis.name] as number);
+    const mids = [v[i - 1], v[i + 1]].filter((x): x is number => x !== undefined && x > 0).map((x) => Number(Math.sqrt(x * v[i]!).toPrecision(2)));
+    let winner: { p: Point; s: number } | null = null;
+    for (const m of mids) {
+      const p = { ...best, [axis.name]: m };
+      const s = await score(p);
+      if (better(s) && (!winner || s > winner.s + 1e-9)) winner = { p, s };
+    }
+    if (winner) {
+      best = winner.p;
+      bestScore = winner.s;
+    }
   }
   return { best, score: bestScore, trials, spent, budget: o.budget, stopped: short ? 'budget' : 'converged' };
 }

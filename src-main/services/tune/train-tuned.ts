@@ -54,7 +54,8 @@ export function reusableTuning(db: Db, kinds: readonly string[]): { params: NonN
   const current = modelStatus(db);
   const records = new Map<string, unknown>();
   const params: Record<string, Record<string, number | string>> = {};
-  for (const kind of ['itemknn', 'ials', 'ease', 'content'] as const) {
+  // Content has no grid (its weight in the hybrid is the validated blend's, learned at every training).
+  for (const kind of ['itemknn', 'ials', 'ease'] as const) {
     if (!kinds.includes(kind)) continue;
     const m = current.find((x) => x.kind === kind);
     const t = (m?.evaluation as { tuning?: StoredTuning } | null)?.tuning;
@@ -64,7 +65,7 @@ export function reusableTuning(db: Db, kinds: readonly string[]): { params: NonN
     }
     if (t.fingerprint !== now) return null;
     records.set(kind, t);
-    if (kind !== 'content' && t.grid) {
+    if (t.grid) {
       const grid = GRID_PARAMS[kind as GridModel] as readonly string[];
       params[kind] = Object.fromEntries(Object.entries(t.grid.best).filter(([key]) => grid.includes(key)));
     }
@@ -149,10 +150,7 @@ export function storeTuning(db: Db, summary: TrainSummary, tuning: TuneResult): 
   db.transaction(() => {
     summary.models.forEach((kind, q) => {
       const grid = tuning.models.find((m) => m.model === kind);
-      const hybrid = tuning.models.find((m) => m.model === 'hybrid');
-      if (kind === 'content' && hybrid) {
-        repo.setEvaluation(summary.ids[q]!, { tuning: { ...common, hybridContentWeight: tuning.hybridContentWeight, grid: hybrid } });
-      } else if (grid) repo.setEvaluation(summary.ids[q]!, { tuning: { ...common, grid } });
+      if (grid) repo.setEvaluation(summary.ids[q]!, { tuning: { ...common, grid } });
     });
   })();
 }
@@ -168,7 +166,7 @@ export function tunedSummary(
   tuning: Pick<TuneResult, 'k' | 'split' | 'models' | 'elapsedMs'> & Partial<Pick<TuneResult, 'budget'>>,
 ): string {
   const best = tuning.models.map((m) => (m.searched ? `${m.model} NDCG@${tuning.k} ${m.ndcg.toFixed(3)}` : `${m.model} not searched`)).join(', ');
-  const fits = tuning.models.filter((m) => m.model !== 'hybrid').reduce((n, m) => n + m.trials.length, 0);
+  const fits = tuning.models.reduce((n, m) => n + m.trials.length, 0);
   const spend = tuning.budget
     ? `; ${plural(fits, 'setting')} tried for ${(tuning.budget.spentMs / Math.max(1, tuning.budget.plainMs)).toFixed(1)} of ${tuning.budget.plainFits} plain fits`
     : '';

@@ -2,32 +2,27 @@
  * Tuning (issue 6 item 4, issue 10 item 2): each model's log grid (grid.ts) is searched by coordinate search
  * under a budget of plain fits (model-search.ts, search.ts), every trial fitted on the train part of a seeded
  * validation split (split.ts) and measured by NDCG@K on the validation part; the best setting of each model
- * is what `train` then refits on all signals. The hybrid's content weight is tuned last, over the
- * best item-kNN and iALS of the grid, so it can reach items nobody has interacted with (cold start: the
- * hybrid substitutes content for the collaborative and audience components of such items).
+ * is what `train` then refits on all signals. What the hybrid serves is the validated blend, learned after
+ * the refit on the same split (blend.ts); tuning no longer searches a content weight of its own (that
+ * search's result was never served).
  *
  * Parameters the caller fixed (TuneOptions.fixed, the user's own training values) are held at the caller's
  * value: the grid varies only the rest of that model's parameters (grid points de-duplicated after fixing),
  * and a model whose every grid parameter is fixed is not searched (its record has no trials and
- * `searched: false`; item-kNN and iALS are then fitted once all the same, as the hybrid's components).
+ * `searched: false`; it is still fitted once at its start point).
  *
  * Choice rule: the highest NDCG@K; a later trial must beat the best so far by more than 1e-9, so ties keep
  * the earlier (grid-order) setting and the outcome does not depend on floating-point noise.
  */
-import { DEFAULT_WEIGHTS } from '../../core/editing/brief-schema.ts';
-import { CancelledError, InputError } from '../../core/errors.ts';
+import { InputError } from '../../core/errors.ts';
 import { evalTruth, RankingEvaluator, sampleTruth, type EvalResult } from '../../core/eval/index.ts';
 import { buildInteractionMatrix } from '../../core/matrix/build.ts';
-import { fitContent } from '../../core/models/content.ts';
 import type { ValueTransform } from '../../core/matrix/values.ts';
-import { trendRatios } from '../../core/models/popularity.ts';
 import type { Scorer } from '../../core/models/scorer.ts';
 import { seededRng } from '../../core/rng.ts';
-import { CustomerHybrid, HybridScorer } from '../../core/scoring/index.ts';
 import type { Dataset } from '../../core/types.ts';
-import { columnCounts, datasetDate } from '../holdout/trained.ts';
 import { TRAIN_EASE_DEFAULTS, type TrainOptions } from '../train/train-models.ts';
-import { HYBRID_CONTENT_GRID, TUNE_BUDGET, type FixedParams } from './grid.ts';
+import { TUNE_BUDGET, type FixedParams } from './grid.ts';
 import { searchModels } from './model-search.ts';
 import type { AxisValue } from './search.ts';
 import { validationSplit } from './split.ts';
@@ -46,7 +41,7 @@ export interface GridTrial {
 }
 
 export interface ModelTuning {
-  model: 'itemknn' | 'ials' | 'ease' | 'hybrid';
+  model: 'itemknn' | 'ials' | 'ease';
   /** Grid order; empty when the model was not searched. */
   trials: GridTrial[];
   /** The best trial's setting; when not searched, the caller's fixed setting. */
@@ -66,8 +61,6 @@ export interface TuneResult {
   seed: number;
   split: { method: 'time' | 'random'; train: number; validation: number; customers: number; from: number | null };
   models: ModelTuning[];
-  /** The best content weight of the hybrid (other weights at the brief defaults). */
-  hybridContentWeight: number;
   /** The best settings as training parameters. */
   params: NonNullable<TrainOptions['params']>;
   /** The budget in plain fits, what one plain fit of the searched models took here, and what the searches spent. */
@@ -84,7 +77,7 @@ export interface TuneOptions {
   sampleCustomers?: number;
   /** iALS sweeps of the final training (trials run fewer: grid.ts IALS_SEARCH_ITERATIONS). Default 15. */
   iterations?: number;
-  /** Plain fits the per-model searches may spend (grid.ts TUNE_BUDGET). Default 2. */
+  /** Plain fits the per-model searches may spend (grid.ts TUNE_BUDGET). Default 3. */
   budget?: number;
   threads?: number;
   /** Grid parameters held at these values (the caller's own training parameters); the rest is searched. */
@@ -114,26 +107,7 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   if (!useEase) notes.push(`EASE not tuned: ${ds.items.length} items, above ${EASE_TUNE_MAX_ITEMS} (each fit would take minutes); it trains with the default lambda`);
 
   const fixed = o.fixed ?? {};
-  // Progress: the per-model searches take the first 90% of the bar (by budget spent), the hybrid's grid the rest.
-  const SEARCH_SHARE = 0.9;
-  const total = HYBRID_CONTENT_GRID.length;
-  let done = 0;
-  // Fits run on this thread; yielding to the event loop before each one lets a poller (the CLI, the app's
-  // job status) see the progress and a cancel arrive between trials.
-  const step = async (model: string): Promise<void> => {
-    await new Promise((r) => setImmediate(r));
-    if (o.signal?.aborted) throw new CancelledError('tuning cancelled');
-    o.onProgress?.({ model, trial: done + 1, trials: total, fraction: SEARCH_SHARE + ((1 - SEARCH_SHARE) * done) / total });
-    done++;
-  };
   const measure = (name: string, m: Scorer): EvalResult => ev.evaluate({ name, scoreInto: (u, h, out) => m.scoreInto(u, h, out) });
-  const trial = (params: TrialParams, r: EvalResult, t0: number): GridTrial => ({
-    params,
-    ndcg: r.ndcg,
-    recall: r.cappedRecall,
-    elapsedMs: performance.now() - t0,
-  });
-  const fitOpts = o.signal ? { signal: o.signal } : {};
   const iterations = o.iterations ?? 15;
   const searched = await searchModels({
     train,
@@ -145,36 +119,11 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
     seed,
     ...(o.threads !== undefined && { threads: o.threads }),
     ...(o.signal && { signal: o.signal }),
-    onTrial: (model, t, spentShare) => o.onProgress?.({ model, trial: t, trials: 0, fraction: SEARCH_SHARE * spentShare }),
+    onTrial: (model, t, spentShare) => o.onProgress?.({ model, trial: t, trials: 0, fraction: spentShare }),
   });
   notes.push(...searched.notes);
   const models: ModelTuning[] = [...searched.tunings];
-  const knn = { bestModel: searched.itemknn };
-  const ials = { bestModel: searched.ials };
-
-  // The hybrid's content weight, over the best collaborative and affinity models.
-  const content = fitContent(ds.items, {}, fitOpts).model;
-  const date = split.from ?? datasetDate(ds);
-  const h = new HybridScorer(
-    { content, collaborative: knn.bestModel!, affinity: ials.bestModel! },
-    {
-      customersPerItem: columnCounts(train),
-      trend: split.method === 'time' ? Float32Array.from(trendRatios(ds, { now: date })) : null,
-      addedAt: Float64Array.from(ds.items, (it) => it.addedAt ?? Number.NaN),
-    },
-  );
-  const hybrid = new CustomerHybrid(h, train, date);
-  hybrid.precompute(ev.customers);
-  const hy = new Search<Scorer>('hybrid', {});
-  for (const content of HYBRID_CONTENT_GRID) {
-    await step('hybrid');
-    const t0 = performance.now();
-    const eff = hybrid.effective({ ...DEFAULT_WEIGHTS, content });
-    const r = ev.evaluateFill('hybrid', (_u, c, out) => hybrid.blendCached(c, eff, out));
-    hy.offer(trial({ content }, r, t0), null);
-  }
-  models.push(hy.result());
-  o.onProgress?.({ model: 'hybrid', trial: total, trials: total, fraction: 1 });
+  o.onProgress?.({ model: models.at(-1)?.model ?? 'ials', trial: 0, trials: 0, fraction: 1 });
 
   const best = (name: string) => models.find((m) => m.model === name)?.best;
   const bk = best('itemknn')!;
@@ -191,7 +140,6 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
     seed,
     split: { method: split.method, train: split.train.length, validation: split.validation.length, customers: ev.customerCount, from: split.from },
     models,
-    hybridContentWeight: best('hybrid')!['content'] as number,
     params: {
       itemknn: { k: bk['k'] as number, shrink: bk['shrink'] as number, values: bk['values'] as ValueTransform },
       ials: { ...ialsSetting, seed, ...(o.iterations !== undefined && { iterations: o.iterations }) },
@@ -201,33 +149,4 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
     elapsedMs: performance.now() - started,
     notes,
   };
-}
-
-/** The running best of one model's grid (first of equals kept), or the one setting of a model not searched. */
-class Search<M> {
-  readonly trials: GridTrial[] = [];
-  best: GridTrial | null = null;
-  bestModel: M | null = null;
-  private held: TrialParams | null = null;
-  constructor(
-    readonly model: ModelTuning['model'],
-    readonly fixed: TrialParams,
-  ) {}
-  /** Every grid parameter fixed by the caller: this setting is the result, with no trial (model: its fit, if any). */
-  hold(params: TrialParams, model: M | null): void {
-    this.held = params;
-    this.bestModel = model;
-  }
-  offer(t: GridTrial, model: M | null): void {
-    this.trials.push(t);
-    const score = Number.isNaN(t.ndcg) ? -1 : t.ndcg;
-    if (!this.best || score > (Number.isNaN(this.best.ndcg) ? -1 : this.best.ndcg) + 1e-9) {
-      this.best = t;
-      this.bestModel = model;
-    }
-  }
-  result(): ModelTuning {
-    if (this.held) return { model: this.model, trials: [], best: this.held, ndcg: Number.NaN, fixed: this.fixed, searched: false };
-    return { model: this.model, trials: this.trials, best: this.best!.params, ndcg: this.best!.ndcg, fixed: this.fixed, searched: true };
-  }
 }

@@ -36,6 +36,7 @@ function tunedCell(m: StoredModel, given: Record<string, Record<string, unknown>
   const t = m.tuning;
   if (!t) return '';
   const ndcg = `NDCG@${t.k} ${val(t.grid.ndcg)}`;
+  // A content model tuned before the validated blend carries the retired content-weight grid.
   if (t.grid.model === 'hybrid') return `hybrid ${Object.entries(t.grid.best).map(([a, b]) => `${a}=${b}`).join(' ')} (${ndcg})`;
   if (t.grid.trials.length === 0) return `${Object.entries(t.grid.best).map(([a, b]) => `${a}=${b}`).join(' ')} (fixed by you: not searched)`;
   let differs = false;

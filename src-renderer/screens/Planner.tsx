@@ -1,24 +1,41 @@
 import { useId, useState, type FormEvent } from 'react';
+import { today } from '../components/format.ts';
 import { useApp } from '../state/store.ts';
 import type { PlanView } from '../state/planner-slice.ts';
 
 const num = (x: number | null, d = 2) => (x === null ? '–' : x.toFixed(d));
 
+/** The Monday after today (YYYY-MM-DD, local time): where a plan of the weeks ahead usually starts. */
+export function nextMonday(d = new Date()): string {
+  const ahead = ((8 - d.getDay()) % 7) || 7;
+  return today(new Date(d.getFullYear(), d.getMonth(), d.getDate() + ahead));
+}
+
 function PlanForm() {
   const edition = useApp((s) => s.curation.edition);
   const shelves = edition?.shelves.map((x) => x.label) ?? [];
+  const go = useApp((s) => s.go);
   const busy = useApp((s) => s.planner.busy);
   const makePlan = useApp((s) => s.makePlan);
   const [shelf, setShelf] = useState('');
   const [more, setMore] = useState('');
-  const [start, setStart] = useState('');
+  const [start, setStart] = useState(() => nextMonday());
   const [weeks, setWeeks] = useState(6);
   const [name, setName] = useState('');
   const id = useId();
   const submit = (e: FormEvent) => {
     e.preventDefault();
     const others = more.split(',').map((x) => x.trim()).filter(Boolean);
-    void makePlan({ shelf: shelf.trim(), start, weeks, ...(name.trim() && { name: name.trim() }), ...(others.length > 0 && { shelves: others }) });
+    // A shelf of the open edition plans from that edition; any other name, from the newest edition that has it.
+    const fromOpen = edition !== null && shelves.includes(shelf.trim());
+    void makePlan({
+      shelf: shelf.trim(),
+      start,
+      weeks,
+      ...(fromOpen && { edition: edition.label }),
+      ...(name.trim() && { name: name.trim() }),
+      ...(others.length > 0 && { shelves: others }),
+    });
   };
   return (
     <form className="panel" onSubmit={submit} aria-labelledby={`${id}-h`}>
@@ -26,7 +43,7 @@ function PlanForm() {
       <div className="row">
         <div className="field">
           <label htmlFor={`${id}-shelf`}>Shelf</label>
-          <input id={`${id}-shelf`} list={`${id}-shelves`} value={shelf} onChange={(e) => setShelf(e.target.value)} required />
+          <input id={`${id}-shelf`} list={`${id}-shelves`} value={shelf} onChange={(e) => setShelf(e.target.value)} aria-describedby={`${id}-shelf-hint`} required />
           <datalist id={`${id}-shelves`}>
             {shelves.map((l) => (
               <option key={l} value={l} />
@@ -50,8 +67,22 @@ function PlanForm() {
           <input id={`${id}-name`} value={name} onChange={(e) => setName(e.target.value)} />
         </div>
       </div>
+      <p id={`${id}-shelf-hint`} className="muted">
+        {edition && shelves.length > 0 ? (
+          <>A shelf of the open edition “{edition.label}” ({shelves.join(', ')}) keeps its brief in the plan; another name is taken from the newest edition that has it.</>
+        ) : (
+          <>
+            The planner plans a shelf you have set up in an edition, with its brief.{' '}
+            {edition ? `The open edition “${edition.label}” has no shelves yet.` : 'No edition is open.'} Type a shelf's name, or{' '}
+            <button type="button" className="quiet" onClick={() => go('editions')}>
+              go to Editions
+            </button>{' '}
+            to open or start one.
+          </>
+        )}
+      </p>
       <button type="submit" disabled={busy || shelf.trim() === '' || start === ''}>
-        Plan
+        {busy ? 'Solving…' : 'Plan'}
       </button>
     </form>
   );
@@ -97,10 +128,10 @@ function Calendar({ plan, shelf }: { plan: PlanView; shelf: number }) {
                   {x.promoted && <span className="sponsored"> Sponsored</span>}
                   {x.pinned && <span> (pinned)</span>}
                   <span className="cell-actions">
-                    <button type="button" disabled={busy || x.pinned} onClick={() => void pin(x.item!, w.week, label)} aria-label={`Pin ${x.item} to week ${w.week}`}>
+                    <button type="button" disabled={busy || x.pinned} onClick={() => void pin(x.item!, w.week, label)} aria-label={`Pin ${x.title} (${x.item}) to week ${w.week}`}>
                       Pin
                     </button>
-                    <button type="button" disabled={busy} onClick={() => void ban(x.item!)} aria-label={`Ban ${x.item} from the plan`}>
+                    <button type="button" disabled={busy} onClick={() => void ban(x.item!)} aria-label={`Ban ${x.title} (${x.item}) from the plan`}>
                       Ban
                     </button>
                   </span>
@@ -117,6 +148,8 @@ function Calendar({ plan, shelf }: { plan: PlanView; shelf: number }) {
 function Meter({ plan }: { plan: PlanView }) {
   const draft = useApp((s) => s.draftPlanWeek);
   const busy = useApp((s) => s.planner.busy);
+  const open = useApp((s) => s.openEdition);
+  const go = useApp((s) => s.go);
   return (
     <table aria-label="Plan meter">
       <thead>
@@ -143,7 +176,9 @@ function Meter({ plan }: { plan: PlanView }) {
               <td>{num(w.meter.value)}</td>
               <td>
                 {d ? (
-                  <span>{d.edition}</span>
+                  <button type="button" className="quiet" aria-label={`Open draft edition ${d.edition}`} onClick={async () => (await open(d.edition)) && go('board')}>
+                    {d.edition}
+                  </button>
                 ) : (
                   <button type="button" disabled={busy || plan.status === 'infeasible'} onClick={() => void draft(w.week)}>
                     Make draft of week {w.week}
@@ -176,17 +211,23 @@ export function Planner() {
   const busy = useApp((s) => s.planner.busy);
   const resolve = useApp((s) => s.resolvePlan);
   return (
-    <section aria-labelledby="planner-h">
-      <h1 id="planner-h">Planner</h1>
+    <section className="screen" aria-labelledby="planner-h">
+      <header className="screen-head">
+        <h1 id="planner-h">Planner</h1>
+      </header>
       <PlanForm />
       {error && (
         <p className="error" role="alert">
           {error}
         </p>
       )}
-      {message && <p role="status">{message}</p>}
+      {/* One live region, always present, so a screen reader hears both "solving" and what the solve did. */}
+      <p role="status" className={busy || message ? 'notice' : 'sr-only'}>
+        {busy ? 'Solving… a plan over many weeks can take a few seconds.' : message}
+      </p>
+      {plan === null && !busy && <p className="muted">No plan yet. Name a shelf and its first week above, then Plan: the calendar of the weeks ahead appears here.</p>}
       {plan && (
-        <div className="panel">
+        <div className="panel" aria-busy={busy}>
           <h2>
             {plan.name}: {plan.shelves.join(', ')} from {plan.start}
           </h2>
@@ -207,9 +248,13 @@ export function Planner() {
             </div>
           )}
           {plan.shelves.map((l, s) => (
-            <Calendar key={l} plan={plan} shelf={s} />
+            <div className="plan-scroll" key={l} role="region" aria-label={`Calendar of ${l}`} tabIndex={0}>
+              <Calendar plan={plan} shelf={s} />
+            </div>
           ))}
-          <Meter plan={plan} />
+          <div className="plan-scroll" role="region" aria-label="Meter per week" tabIndex={0}>
+            <Meter plan={plan} />
+          </div>
           {plan.forecast && (
             <p>
               Seasonal fit: {plan.forecast.method}; on the last {plan.forecast.heldOutWeeks} weeks, MASE {num(plan.forecast.categories.mase)} for categories (seasonal naive{' '}

@@ -35,7 +35,7 @@ describe('the planner screen', () => {
     fireEvent.click(within(table).getByRole('button', { name: 'Lock week 1 of Row' }));
     await waitFor(() => expect(screen.getByRole('table', { name: 'Plan for Row' }).textContent).toContain('(locked)'));
     const item = column(screen.getByRole('table', { name: 'Plan for Row' }), 2)[0]!;
-    fireEvent.click(screen.getByRole('button', { name: `Pin ${item} to week 2` }));
+    fireEvent.click(screen.getByRole('button', { name: new RegExp(`^Pin .+ \\(${item}\\) to week 2$`) }));
     await waitFor(() => expect(screen.getByRole('table', { name: 'Plan for Row' }).textContent).toContain('(pinned)'));
     fireEvent.click(screen.getByRole('button', { name: 'Re-solve' }));
     await waitFor(() => expect(screen.getByRole('status').textContent).toMatch(/^Re-solved: \d+ placements? changed\.$/));

@@ -1,0 +1,115 @@
+import type { Locator, Page } from '@playwright/test';
+import { expect, seriousA11yViolations, test } from './fixtures.ts';
+import { SHOP } from './seed.ts';
+
+/**
+ * The rotation planner through the page (issue 14): plan one shelf of the small invented shop for four weeks,
+ * pin an item to a week, ban another from the horizon, lock a week, re-solve, then turn a planned week into a
+ * draft edition and find it, with the planned items, on the editions screen. Every wait is on something the
+ * page shows (the machine is shared and slow), never on a clock.
+ */
+
+const SLOW = { timeout: 120_000 };
+const WEEKS = 4;
+const SLOTS = 3;
+const SHELF = 'Homepage row';
+const PLAN = 'Winter rotation';
+
+/** The calendar as item ids: grid[week - 1][slot - 1], read from the cells' data-item. */
+async function grid(table: Locator): Promise<string[][]> {
+  const rows = await table.locator('tbody tr').evaluateAll((trs) => trs.map((tr) => [...tr.querySelectorAll('td')].map((td) => (td as HTMLElement).dataset['item'] ?? '')));
+  return Array.from({ length: WEEKS }, (_, w) => rows.map((r) => r[w]!));
+}
+
+/** The seeded shop's title of an item (seed.ts numbers items i-1 … i-12 in title order): known outside the page. */
+const titleOf = (item: string) => SHOP.titles[Number(item.slice(2)) - 1]!;
+
+/** Waits until the last action has finished: the busy note gone and the buttons enabled again. */
+async function settled(page: Page): Promise<void> {
+  await expect(page.getByRole('button', { name: 'Re-solve' })).toBeEnabled(SLOW);
+}
+
+test('plan a shelf for four weeks, pin, ban, lock, re-solve, and make a draft edition of a planned week', async ({ page, app }) => {
+  test.setTimeout(600_000);
+  await page.goto(app.shell.pageUrl);
+  const screens = page.getByRole('navigation', { name: 'Screens' });
+
+  // The planner plans the shelves of an edition: start one with a shelf of three slots.
+  await screens.getByRole('button', { name: 'Editions', exact: true }).click();
+  await page.getByLabel('Name').fill('Week 50');
+  await page.getByLabel('Date').fill('2026-12-07');
+  await page.getByRole('button', { name: 'Start edition' }).click();
+  await page.getByLabel('Shelf name').fill(SHELF);
+  await page.getByLabel('Slots').fill(String(SLOTS));
+  await page.getByRole('button', { name: 'Add shelf' }).click();
+  await expect(page.getByRole('article', { name: `Shelf ${SHELF}` })).toContainText(`${SLOTS} of ${SLOTS} slots filled`, SLOW);
+
+  await screens.getByRole('button', { name: 'Planner', exact: true }).click();
+  const form = page.getByRole('form', { name: 'Plan the weeks ahead' });
+  await form.getByLabel('Shelf', { exact: true }).fill(SHELF);
+  await form.getByLabel('First week').fill('2026-12-14');
+  await form.getByLabel('Weeks').fill(String(WEEKS));
+  await form.getByLabel('Plan name').fill(PLAN);
+  await form.getByRole('button', { name: 'Plan' }).click();
+  const table = page.getByRole('table', { name: `Plan for ${SHELF}` });
+  await expect(table.locator('tbody tr')).toHaveCount(SLOTS, SLOW);
+  await settled(page);
+  const first = await grid(table);
+  // Twelve items, four weeks of three: every slot filled, no item twice in a week.
+  for (const week of first) {
+    expect(week.every((x) => /^i-\d+$/.test(x))).toBe(true);
+    expect(new Set(week).size).toBe(SLOTS);
+  }
+  expect(await seriousA11yViolations(page)).toEqual([]);
+
+  // Pin the first slot of week 2 to week 2.
+  const pinned = first[1]![0]!;
+  await table.getByRole('button', { name: new RegExp(`^Pin .*\\(${pinned}\\) to week 2$`) }).click();
+  await expect(table.locator('tbody tr').first().locator('td').nth(1)).toContainText('(pinned)', SLOW);
+  await settled(page);
+
+  // Ban an item of week 3 that is neither the pinned one nor in week 1 (which is locked next).
+  const banned = first[2]!.find((x) => x !== pinned && !first[0]!.includes(x))!;
+  expect(banned).toBeDefined();
+  await table.getByRole('button', { name: new RegExp(`^Ban .*\\(${banned}\\) from the plan$`) }).first().click();
+  await expect(table.locator(`td[data-item="${banned}"]`)).toHaveCount(0, SLOW);
+  await settled(page);
+  const afterBan = await grid(table);
+
+  // Lock week 1: its items stay as they are.
+  await table.getByRole('button', { name: `Lock week 1 of ${SHELF}` }).click();
+  await expect(table.getByRole('columnheader', { name: /^Week 1 / })).toContainText('(locked)', SLOW);
+  await settled(page);
+  const locked = (await grid(table))[0]!;
+  expect(locked).toEqual(afterBan[0]);
+
+  await page.getByRole('button', { name: 'Re-solve' }).click();
+  await expect(page.getByRole('status').filter({ hasText: /^Re-solved: \d+ placements? changed\.$/ })).toBeVisible(SLOW);
+  await settled(page);
+  const last = await grid(table);
+  expect(last[1]).toContain(pinned);
+  expect(last.flat()).not.toContain(banned);
+  expect(last[0]).toEqual(locked);
+  // Re-solving with nothing new keeps the plan: the keep bonus exists so a re-solve changes as little as it can.
+  await expect(page.getByRole('status')).toHaveText('Re-solved: 0 placements changed.');
+  expect(last).toEqual(await grid(table));
+  // Against the first plan, the edits moved little: at most half of the cells changed (common practice, no
+  // source: a re-plan that reshuffles most of the calendar defeats planning ahead).
+  const moved = last.flat().filter((x, k) => x !== first.flat()[k]).length;
+  expect(moved).toBeLessThanOrEqual((WEEKS * SLOTS) / 2);
+  console.log(`re-plan after pin, ban and lock: ${moved} of ${WEEKS * SLOTS} placements differ from the first plan`);
+
+  // Make a draft of week 2 and find it on the editions screen with the planned items.
+  await page.getByRole('button', { name: 'Make draft of week 2' }).click();
+  const draft = `${PLAN} · week 2`;
+  await expect(page.getByRole('status')).toHaveText(`Draft edition “${draft}” made from week 2.`, SLOW);
+  expect(await seriousA11yViolations(page)).toEqual([]);
+  await screens.getByRole('button', { name: 'Editions', exact: true }).click();
+  const row = page.getByRole('row', { name: new RegExp(`^${draft}`) });
+  await expect(row).toContainText('Draft', SLOW);
+  await page.getByRole('button', { name: `Open edition ${draft}` }).click();
+  const shelf = page.getByRole('article', { name: `Shelf ${SHELF}` });
+  await expect(shelf).toBeVisible(SLOW);
+  for (const item of last[1]!) await expect(shelf).toContainText(titleOf(item));
+  expect(await seriousA11yViolations(page)).toEqual([]);
+});

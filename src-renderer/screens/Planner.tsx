@@ -145,6 +145,69 @@ function Calendar({ plan, shelf }: { plan: PlanView; shelf: number }) {
   );
 }
 
+/**
+ * Pins any item to any week: the calendar's own Pin keeps an item where the solver put it, this puts a chosen
+ * item into a chosen week. The item is named by id or by the title of an item already in the plan.
+ */
+function PinForm({ plan }: { plan: PlanView }) {
+  const pin = useApp((s) => s.pinInPlan);
+  const busy = useApp((s) => s.planner.busy);
+  const [item, setItem] = useState('');
+  const [week, setWeek] = useState(1);
+  const [chosen, setShelf] = useState(plan.shelves[0]!);
+  const shelf = plan.shelves.includes(chosen) ? chosen : plan.shelves[0]!;
+  const id = useId();
+  const known = new Map<string, string>();
+  for (const w of plan.weeks) for (const sh of w.shelves) for (const x of sh.slots) if (x.item !== null) known.set(x.item, x.title ?? x.item);
+  const submit = (e: FormEvent) => {
+    e.preventDefault();
+    const typed = item.trim();
+    const byTitle = [...known].find(([, t]) => t === typed)?.[0];
+    void pin(known.has(typed) ? typed : (byTitle ?? typed), Math.min(week, plan.weeks.length), shelf);
+  };
+  return (
+    <form onSubmit={submit} aria-labelledby={`${id}-h`}>
+      <h3 id={`${id}-h`}>Pin an item to a week</h3>
+      <div className="row">
+        <div className="field">
+          <label htmlFor={`${id}-item`}>Item (id or title)</label>
+          <input id={`${id}-item`} list={`${id}-items`} value={item} onChange={(e) => setItem(e.target.value)} required />
+          <datalist id={`${id}-items`}>
+            {[...known].map(([x, t]) => (
+              <option key={x} value={x} label={t} />
+            ))}
+          </datalist>
+        </div>
+        <div className="field">
+          <label htmlFor={`${id}-week`}>Week</label>
+          <select id={`${id}-week`} value={Math.min(week, plan.weeks.length)} onChange={(e) => setWeek(Number(e.target.value))}>
+            {plan.weeks.map((w) => (
+              <option key={w.week} value={w.week}>
+                Week {w.week} ({w.date})
+              </option>
+            ))}
+          </select>
+        </div>
+        {plan.shelves.length > 1 && (
+          <div className="field">
+            <label htmlFor={`${id}-on`}>On shelf</label>
+            <select id={`${id}-on`} value={shelf} onChange={(e) => setShelf(e.target.value)}>
+              {plan.shelves.map((l) => (
+                <option key={l} value={l}>
+                  {l}
+                </option>
+              ))}
+            </select>
+          </div>
+        )}
+      </div>
+      <button type="submit" disabled={busy || item.trim() === ''}>
+        Pin and re-solve
+      </button>
+    </form>
+  );
+}
+
 function Meter({ plan }: { plan: PlanView }) {
   const draft = useApp((s) => s.draftPlanWeek);
   const busy = useApp((s) => s.planner.busy);
@@ -252,6 +315,7 @@ export function Planner() {
               <Calendar plan={plan} shelf={s} />
             </div>
           ))}
+          <PinForm plan={plan} />
           <div className="plan-scroll" role="region" aria-label="Meter per week" tabIndex={0}>
             <Meter plan={plan} />
           </div>

@@ -35,20 +35,22 @@ export function createPlannerSlice(client: Client): StateCreator<AppState, [], [
         return false;
       }
     };
-    const again = (extra: Partial<PlanRequest>) =>
+    /** Re-solves with one more edit; the message says which edit, so two re-solves in a row read differently. */
+    const again = (extra: Partial<PlanRequest>, did: string | null) =>
       run(async () => {
         const p = get().planner.plan;
         if (!p) throw new Error('Make a plan first.');
         const plan = await client.call('plan.solve', { name: p.name, shelf: p.shelves[0]!, edition: p.edition, ...extra });
-        return { plan, message: plan.changed === null ? null : `Re-solved: ${plan.changed} placement${plan.changed === 1 ? '' : 's'} changed.` };
+        const changed = plan.changed === null ? null : `${plan.changed} placement${plan.changed === 1 ? '' : 's'} changed.`;
+        return { plan, message: changed === null ? did : did === null ? `Re-solved: ${changed}` : `${did} and re-solved: ${changed}` };
       });
     return {
       planner: { plan: null, busy: false, error: null, message: null },
       makePlan: (req) => run(async () => ({ plan: await client.call('plan.solve', req), message: null })),
-      pinInPlan: (item, week, shelf) => again({ pins: [{ item, week, shelf }] }),
-      lockPlanWeek: (week, shelf) => again({ locks: [{ week, shelf }] }),
-      banFromPlan: (item) => again({ bans: [item] }),
-      resolvePlan: () => again({}),
+      pinInPlan: (item, week, shelf) => again({ pins: [{ item, week, shelf }] }, `Pinned ${item} to week ${week} of ${shelf}`),
+      lockPlanWeek: (week, shelf) => again({ locks: [{ week, shelf }] }, `Locked week ${week} of ${shelf}`),
+      banFromPlan: (item) => again({ bans: [item] }, `Banned ${item} from the plan`),
+      resolvePlan: () => again({}, null),
       draftPlanWeek: (week) =>
         run(async () => {
           const p = get().planner.plan;

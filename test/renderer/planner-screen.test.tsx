@@ -34,6 +34,7 @@ describe('the planner screen', () => {
 
     fireEvent.click(within(table).getByRole('button', { name: 'Lock week 1 of Row' }));
     await waitFor(() => expect(screen.getByRole('table', { name: 'Plan for Row' }).textContent).toContain('(locked)'));
+    expect(screen.getByRole('status').textContent).toMatch(/^Locked week 1 of Row and re-solved: \d+ placements? changed\.$/);
     const item = column(screen.getByRole('table', { name: 'Plan for Row' }), 2)[0]!;
     fireEvent.click(screen.getByRole('button', { name: new RegExp(`^Pin .+ \\(${item}\\) to week 2$`) }));
     await waitFor(() => expect(screen.getByRole('table', { name: 'Plan for Row' }).textContent).toContain('(pinned)'));
@@ -50,6 +51,19 @@ describe('the planner screen', () => {
       .pluck()
       .all();
     expect(slots).toEqual(column(after, 2));
+  });
+
+  it('says where shelves come from when no edition is open, and the first week defaults to a Monday', () => {
+    app.render();
+    fireEvent.click(screen.getByRole('button', { name: 'Planner' }));
+    const form = screen.getByRole('form', { name: 'Plan the weeks ahead' });
+    expect(form.textContent).toContain('No edition is open.');
+    const start = (within(form).getByLabelText('First week') as HTMLInputElement).value;
+    // ISO 8601: the week starts on Monday; getUTCDay() of a date-only string read as UTC is 1 for a Monday.
+    expect(new Date(`${start}T00:00:00Z`).getUTCDay()).toBe(1);
+    expect(screen.getByText(/^No plan yet\./)).toBeTruthy();
+    fireEvent.click(within(form).getByRole('button', { name: 'go to Editions' }));
+    expect(screen.getByRole('heading', { level: 1 }).textContent).toBe('Editions');
   });
 
   it('shows the error in words when the shelf does not exist', async () => {

@@ -22,6 +22,7 @@ function PlanForm() {
   const [start, setStart] = useState(() => nextMonday());
   const [weeks, setWeeks] = useState(6);
   const [name, setName] = useState('');
+  const [rest, setRest] = useState('');
   const id = useId();
   const submit = (e: FormEvent) => {
     e.preventDefault();
@@ -35,6 +36,7 @@ function PlanForm() {
       ...(fromOpen && { edition: edition.label }),
       ...(name.trim() && { name: name.trim() }),
       ...(others.length > 0 && { shelves: others }),
+      ...(rest !== '' && { horizon: { restWeeks: Number(rest) } }),
     });
   };
   return (
@@ -63,10 +65,26 @@ function PlanForm() {
           <input id={`${id}-weeks`} type="number" min={1} max={52} value={weeks} onChange={(e) => setWeeks(Number(e.target.value))} />
         </div>
         <div className="field">
+          <label htmlFor={`${id}-rest`}>Rest weeks</label>
+          <input
+            id={`${id}-rest`}
+            type="number"
+            min={0}
+            max={51}
+            value={rest}
+            placeholder="brief's"
+            onChange={(e) => setRest(e.target.value)}
+            aria-describedby={`${id}-rest-hint`}
+          />
+        </div>
+        <div className="field">
           <label htmlFor={`${id}-name`}>Plan name</label>
           <input id={`${id}-name`} value={name} onChange={(e) => setName(e.target.value)} />
         </div>
       </div>
+      <p id={`${id}-rest-hint`} className="muted">
+        Rest weeks: how many weeks an item sits out before it runs again (empty: the shelf brief's rest period; 0 lets it run week after week).
+      </p>
       <p id={`${id}-shelf-hint`} className="muted">
         {edition && shelves.length > 0 ? (
           <>A shelf of the open edition “{edition.label}” ({shelves.join(', ')}) keeps its brief in the plan; another name is taken from the newest edition that has it.</>
@@ -125,8 +143,13 @@ function Calendar({ plan, shelf }: { plan: PlanView; shelf: number }) {
               return (
                 <td key={w.week} data-item={x.item}>
                   <span>{x.title}</span> <small>{x.item}</small>
-                  {x.promoted && <span className="sponsored"> Sponsored</span>}
-                  {x.pinned && <span> (pinned)</span>}
+                  {x.promoted && (
+                    <>
+                      {' '}
+                      <span className="sponsored">Sponsored</span>
+                    </>
+                  )}
+                  {x.pinned && <strong className="pinned"> (pinned)</strong>}
                   <span className="cell-actions">
                     <button type="button" disabled={busy || x.pinned} onClick={() => void pin(x.item!, w.week, label)} aria-label={`Pin ${x.title} (${x.item}) to week ${w.week}`}>
                       Pin
@@ -295,11 +318,18 @@ export function Planner() {
             {plan.name}: {plan.shelves.join(', ')} from {plan.start}
           </h2>
           <p>
-            Solved {plan.method === 'exact' ? 'exactly' : 'by the heuristic'} ({plan.status}); {plan.candidates} candidates of {plan.pool}.{' '}
+            Solved {plan.method === 'exact' ? 'exactly' : 'by the heuristic'} ({plan.status}) over the best {plan.candidates.toLocaleString('en')} of {plan.pool.toLocaleString('en')} items.{' '}
             <button type="button" disabled={busy} onClick={() => void resolve()}>
               Re-solve
             </button>
           </p>
+          {plan.notes.length > 0 && (
+            <ul aria-label="Notes on this plan" className="muted">
+              {plan.notes.map((n) => (
+                <li key={n}>{n}</li>
+              ))}
+            </ul>
+          )}
           {plan.diagnosis && (
             <div role="alert">
               <p>The rules cannot all hold; this plan breaks some and was not stored. Each of these alone makes a plan possible:</p>

@@ -10,7 +10,7 @@ type PlanRequest = RequestOf<'plan.solve'>;
 export interface PlannerSlice {
   planner: { plan: PlanView | null; busy: boolean; error: string | null; message: string | null };
   /** Plans (or re-plans under the same name) from the form. */
-  makePlan(req: Pick<PlanRequest, 'name' | 'shelf' | 'shelves' | 'start' | 'weeks'>): Promise<boolean>;
+  makePlan(req: Pick<PlanRequest, 'name' | 'shelf' | 'shelves' | 'edition' | 'start' | 'weeks' | 'horizon'>): Promise<boolean>;
   /** Keeps the item in that week (1-based) on that shelf, and re-solves. */
   pinInPlan(item: string, week: number, shelf: string): Promise<boolean>;
   /** Keeps the week's items on that shelf as they are, and re-solves the rest. */

@@ -119,6 +119,7 @@ test('plan a shelf for four weeks, pin, ban, lock, re-solve, and make a draft ed
   await page.getByRole('button', { name: 'Make draft of week 2' }).click();
   const draft = `${PLAN} · week 2`;
   await expect(status).toHaveText(`Draft edition “${draft}” made from week 2.`, SLOW);
+  await expect(page.getByRole('button', { name: `Open draft edition ${draft}` })).toBeVisible();
   expect(await seriousA11yViolations(page)).toEqual([]);
   await screens.getByRole('button', { name: 'Editions', exact: true }).click();
   const row = page.getByRole('row', { name: new RegExp(`^${draft}`) });

@@ -35,6 +35,11 @@ describe('the planner screen', () => {
     fireEvent.click(within(table).getByRole('button', { name: 'Lock week 1 of Row' }));
     await waitFor(() => expect(screen.getByRole('table', { name: 'Plan for Row' }).textContent).toContain('(locked)'));
     expect(screen.getByRole('status').textContent).toMatch(/^Locked week 1 of Row and re-solved: \d+ placements? changed\.$/);
+    // Banning an item of the locked week: the lock wins, and the message says so.
+    fireEvent.click(screen.getByRole('button', { name: new RegExp(`^Ban .+ \\(${week1[0]}\\) from the plan$`) }));
+    await waitFor(() => expect(screen.getByRole('status').textContent).toMatch(new RegExp(`^Banned ${week1[0]} from the plan and re-solved: .* It stays in locked week 1 of Row: a locked week keeps its items\\.$`)));
+    expect(column(screen.getByRole('table', { name: 'Plan for Row' }), 1)).toEqual(week1);
+    expect(column(screen.getByRole('table', { name: 'Plan for Row' }), 2)).not.toContain(week1[0]);
     const item = column(screen.getByRole('table', { name: 'Plan for Row' }), 2)[0]!;
     fireEvent.click(screen.getByRole('button', { name: new RegExp(`^Pin .+ \\(${item}\\) to week 2$`) }));
     await waitFor(() => expect(screen.getByRole('table', { name: 'Plan for Row' }).textContent).toContain('(pinned)'));

@@ -25,6 +25,9 @@ describe('the planner screen', () => {
     fireEvent.change(within(form).getByLabelText('Weeks'), { target: { value: '3' } });
     fireEvent.change(within(form).getByLabelText('Plan name'), { target: { value: 'winter' } });
     fireEvent.click(within(form).getByRole('button', { name: 'Plan' }));
+    // While it solves the page says so, and the button cannot start a second solve.
+    expect(screen.getByRole('status').textContent).toMatch(/^Solving…/);
+    expect((within(form).getByRole('button', { name: 'Solving…' }) as HTMLButtonElement).disabled).toBe(true);
     const table = await screen.findByRole('table', { name: 'Plan for Row' });
     expect(within(table).getAllByRole('columnheader').map((h) => h.textContent?.replace('Lock', '').trim())).toEqual(['Slot', 'Week 1 2026-12-07', 'Week 2 2026-12-14', 'Week 3 2026-12-21']);
     const week1 = column(table, 1);

@@ -1,5 +1,12 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
 import type { Locator, Page } from '@playwright/test';
-import { expect, seriousA11yViolations, test } from './fixtures.ts';
+import { createHandlerTable } from '../src-main/api/handler-table.ts';
+import { AppContext } from '../src-main/services/context.ts';
+import { buildDemoWorkspace } from '../src-main/services/demo.ts';
+import { startWebShell } from '../src-main/shell/web/server.ts';
+import { DIST, ensureBuilt, expect, JOURNEY_SHOP, seriousA11yViolations, test } from './fixtures.ts';
 import { SHOP } from './seed.ts';
 
 /**
@@ -129,4 +136,94 @@ test('plan a shelf for four weeks, pin, ban, lock, re-solve, and make a draft ed
   await expect(shelf).toBeVisible(SLOW);
   for (const item of last[1]!) await expect(shelf).toContainText(titleOf(item));
   expect(await seriousA11yViolations(page)).toEqual([]);
+});
+
+/**
+ * The same screen on the invented garden shop with trained models (the demo build at the journey's size): the
+ * plan is valued by the models' relevance, not popularity, and a pinned week becomes a draft with those items.
+ */
+test('on the trained demo shop: plan two shelves for six weeks with rest weeks, pin, and draft a week', async ({ page }) => {
+  test.setTimeout(900_000);
+  ensureBuilt();
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-plan-demo-'));
+  const file = path.join(dir, 'demo.sqlite');
+  const { seed, items, customers, signals } = JOURNEY_SHOP;
+  await buildDemoWorkspace(file, { seed, size: { items, customers, signals }, tune: false });
+  const ctx = new AppContext();
+  ctx.open(file, { create: false });
+  const shell = await startWebShell({ table: createHandlerTable(ctx), uploads: ctx.uploads, staticDir: DIST });
+  try {
+    await page.goto(shell.pageUrl);
+    const screens = page.getByRole('navigation', { name: 'Screens' });
+    const status = page.getByRole('region', { name: 'Planner' }).getByRole('status');
+    await screens.getByRole('button', { name: 'Editions', exact: true }).click();
+    await page.getByLabel('Name').fill('Week 50');
+    await page.getByLabel('Date').fill('2026-12-07');
+    await page.getByRole('button', { name: 'Start edition' }).click();
+    for (const [label, size] of [['Front page', '6'], ['Newsletter', '4']] as const) {
+      await page.getByLabel('Shelf name').fill(label);
+      await page.getByLabel('Slots').fill(size);
+      await page.getByRole('button', { name: 'Add shelf' }).click();
+      await expect(page.getByRole('article', { name: `Shelf ${label}` })).toContainText(`${size} of ${size} slots filled`, SLOW);
+    }
+
+    await screens.getByRole('button', { name: 'Planner', exact: true }).click();
+    const form = page.getByRole('form', { name: 'Plan the weeks ahead' });
+    await form.getByLabel('Shelf', { exact: true }).fill('Front page');
+    await form.getByLabel('More shelves (comma-separated)').fill('Newsletter');
+    await form.getByLabel('First week').fill('2026-12-14');
+    await form.getByLabel('Weeks', { exact: true }).fill('6');
+    await form.getByLabel('Rest weeks').fill('1');
+    await form.getByLabel('Plan name').fill('Garden winter');
+    await form.getByRole('button', { name: 'Plan' }).click();
+    const front = page.getByRole('table', { name: 'Plan for Front page' });
+    const news = page.getByRole('table', { name: 'Plan for Newsletter' });
+    await expect(front.locator('tbody tr')).toHaveCount(6, SLOW);
+    await expect(news.locator('tbody tr')).toHaveCount(4);
+    await expect(page.getByRole('button', { name: 'Re-solve', exact: true })).toBeEnabled(SLOW);
+    // Trained models value the items: no fallback note, and the meter's relevance is a number.
+    await expect(page.getByRole('list', { name: 'Notes on this plan' })).toHaveCount(0);
+    await expect(page.getByRole('table', { name: 'Plan meter' }).getByRole('row', { name: /^Horizon/ })).not.toContainText('–');
+    const weeks = async (table: Locator) => {
+      const rows = await table.locator('tbody tr').evaluateAll((trs) => trs.map((tr) => [...tr.querySelectorAll('td')].map((td) => (td as HTMLElement).dataset['item'] ?? '')));
+      return Array.from({ length: 6 }, (_, w) => rows.map((r) => r[w]!));
+    };
+    const before = await weeks(front);
+    // Rest weeks 1: an item shown in a week sits out the next one.
+    for (let w = 1; w < 6; w++) for (const x of before[w]!) expect(before[w - 1]).not.toContain(x);
+
+    // Pin a Front-page item of week 1 into week 4 (week 1 + rest 1 allows it).
+    const pinned = before[0]!.find((x) => !before[3]!.includes(x) && !before[2]!.includes(x) && !before[4]!.includes(x))!;
+    const pinForm = page.getByRole('form', { name: 'Pin an item to a week' });
+    await pinForm.getByLabel('Item (id or title)').fill(pinned);
+    await pinForm.getByLabel('Week').selectOption('4');
+    await pinForm.getByLabel('On shelf').selectOption('Front page');
+    await pinForm.getByRole('button', { name: 'Pin and re-solve' }).click();
+    await expect(status).toHaveText(new RegExp(`^Pinned ${pinned} to week 4 of Front page and re-solved: `), SLOW);
+    const after = await weeks(front);
+    expect(after[3]).toContain(pinned);
+
+    // The planned titles of week 4, as the calendar shows them (the first span of each cell).
+    const planned = await front.locator('tbody tr').evaluateAll((trs) => trs.map((tr) => tr.querySelectorAll('td')[3]!.querySelector('span')!.textContent!));
+    await page.getByRole('button', { name: 'Make draft of week 4' }).click();
+    const draft = 'Garden winter · week 4';
+    await expect(status).toHaveText(`Draft edition “${draft}” made from week 4.`, SLOW);
+    expect(await seriousA11yViolations(page)).toEqual([]);
+    await page.getByRole('button', { name: `Open draft edition ${draft}` }).click();
+    const shelf = page.getByRole('article', { name: 'Shelf Front page' });
+    await expect(shelf).toContainText('6 of 6 slots filled', SLOW);
+    // The board's card previews a few titles; the shelf editor lists every slot, in the plan's order, pinned.
+    await page.getByRole('button', { name: 'Edit shelf Front page' }).click();
+    const slots = page.getByRole('list', { name: 'Slots' });
+    await expect(slots.getByRole('listitem', { name: /^Slot \d+:/ })).toHaveCount(6, SLOW);
+    for (const [k, t] of planned.entries()) {
+      const slot = slots.getByRole('listitem', { name: new RegExp(`^Slot ${k + 1}:`) });
+      await expect(slot).toContainText(t);
+      await expect(slot.getByText('Pinned', { exact: true })).toBeVisible();
+    }
+  } finally {
+    await shell.close();
+    ctx.close();
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
 });

@@ -1,17 +1,24 @@
 /**
  * The README's pictures, from a real (demo) workspace: `npx tsx e2e/docs-screenshots.ts WORKSPACE`
- * writes docs/screenshots/overview.png, shelf-editor.png and groups.png at 1280×800. It works on a copy of the
+ * writes docs/screenshots/overview.png, shelf-editor.png, groups.png and planner.png at 1280×800, and planner-800.png
+ * (the Planner in an 800-pixel-wide window). It works on a copy of the
  * workspace, so the original is never changed. A script, not a test: run it when the screens change.
  */
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { chromium } from '@playwright/test';
+import { chromium, type Locator } from '@playwright/test';
 import { createHandlerTable } from '../src-main/api/handler-table.ts';
 import { AppContext } from '../src-main/services/context.ts';
 import { startWebShell } from '../src-main/shell/web/server.ts';
 import { ensureBuilt, ROOT } from './fixtures.ts';
 import config from '../playwright.config.ts';
+
+/** Waits until a button is enabled again (the page disables them while it works): on state, not on time. */
+async function expectEnabled(button: Locator): Promise<void> {
+  await button.waitFor();
+  await button.page().waitForFunction((el) => el !== null && !(el as HTMLButtonElement).disabled, await button.elementHandle(), { timeout: 180_000 });
+}
 
 async function main(): Promise<void> {
   const source = process.argv[2];
@@ -56,7 +63,35 @@ async function main(): Promise<void> {
     await screens.getByRole('button', { name: 'Taste groups', exact: true }).click();
     await page.getByRole('list', { name: 'Customers per group' }).waitFor({ timeout: 60_000 });
     await page.screenshot({ path: path.join(out, 'groups.png') });
-    console.log(`wrote ${out}/overview.png, shelf-editor.png and groups.png`);
+
+    // The Planner: the shelf set up above, planned for six weeks from the edition's date; one item pinned by
+    // hand and the first week locked, so the calendar shows both marks.
+    await screens.getByRole('button', { name: 'Planner', exact: true }).click();
+    const form = page.getByRole('form', { name: 'Plan the weeks ahead' });
+    await form.getByLabel('Shelf', { exact: true }).fill('Homepage row');
+    await form.getByLabel('First week').fill('2026-12-07');
+    await form.getByLabel('Weeks', { exact: true }).fill('6');
+    await form.getByLabel('Rest weeks').fill('1');
+    await form.getByLabel('Plan name').fill('Winter rotation');
+    await form.getByRole('button', { name: 'Plan' }).click();
+    const calendar = page.getByRole('table', { name: 'Plan for Homepage row' });
+    const resolve = page.getByRole('button', { name: 'Re-solve', exact: true });
+    await calendar.waitFor({ timeout: 180_000 });
+    await expectEnabled(resolve);
+    await calendar.getByRole('button', { name: /^Pin .* to week 3$/ }).nth(1).click();
+    await page.getByRole('status').filter({ hasText: /^Pinned / }).waitFor({ timeout: 180_000 });
+    await expectEnabled(resolve);
+    await calendar.getByRole('button', { name: 'Lock week 1 of Homepage row' }).click();
+    await page.getByRole('status').filter({ hasText: /^Locked week 1/ }).waitFor({ timeout: 180_000 });
+    await expectEnabled(resolve);
+    // From the status line down: what the last edit did, then the plan and its calendar.
+    const top = page.getByRole('region', { name: 'Planner' }).getByRole('status');
+    await top.evaluate((h) => h.scrollIntoView({ block: 'start' }));
+    await page.screenshot({ path: path.join(out, 'planner.png') });
+    await page.setViewportSize({ width: 800, height: 800 });
+    await top.evaluate((h) => h.scrollIntoView({ block: 'start' }));
+    await page.screenshot({ path: path.join(out, 'planner-800.png') });
+    console.log(`wrote ${out}/overview.png, shelf-editor.png, groups.png, planner.png and planner-800.png`);
   } finally {
     await browser.close();
     await shell.close();

@@ -1,24 +1,43 @@
 import { useId, useState, type FormEvent } from 'react';
+import { today } from '../components/format.ts';
 import { useApp } from '../state/store.ts';
 import type { PlanView } from '../state/planner-slice.ts';
 
 const num = (x: number | null, d = 2) => (x === null ? '–' : x.toFixed(d));
 
+/** The Monday after today (YYYY-MM-DD, local time): where a plan of the weeks ahead usually starts. */
+export function nextMonday(d = new Date()): string {
+  const ahead = ((8 - d.getDay()) % 7) || 7;
+  return today(new Date(d.getFullYear(), d.getMonth(), d.getDate() + ahead));
+}
+
 function PlanForm() {
   const edition = useApp((s) => s.curation.edition);
   const shelves = edition?.shelves.map((x) => x.label) ?? [];
+  const go = useApp((s) => s.go);
   const busy = useApp((s) => s.planner.busy);
   const makePlan = useApp((s) => s.makePlan);
   const [shelf, setShelf] = useState('');
   const [more, setMore] = useState('');
-  const [start, setStart] = useState('');
+  const [start, setStart] = useState(() => nextMonday());
   const [weeks, setWeeks] = useState(6);
   const [name, setName] = useState('');
+  const [rest, setRest] = useState('');
   const id = useId();
   const submit = (e: FormEvent) => {
     e.preventDefault();
     const others = more.split(',').map((x) => x.trim()).filter(Boolean);
-    void makePlan({ shelf: shelf.trim(), start, weeks, ...(name.trim() && { name: name.trim() }), ...(others.length > 0 && { shelves: others }) });
+    // A shelf of the open edition plans from that edition; any other name, from the newest edition that has it.
+    const fromOpen = edition !== null && shelves.includes(shelf.trim());
+    void makePlan({
+      shelf: shelf.trim(),
+      start,
+      weeks,
+      ...(fromOpen && { edition: edition.label }),
+      ...(name.trim() && { name: name.trim() }),
+      ...(others.length > 0 && { shelves: others }),
+      ...(rest !== '' && { horizon: { restWeeks: Number(rest) } }),
+    });
   };
   return (
     <form className="panel" onSubmit={submit} aria-labelledby={`${id}-h`}>
@@ -26,7 +45,7 @@ function PlanForm() {
       <div className="row">
         <div className="field">
           <label htmlFor={`${id}-shelf`}>Shelf</label>
-          <input id={`${id}-shelf`} list={`${id}-shelves`} value={shelf} onChange={(e) => setShelf(e.target.value)} required />
+          <input id={`${id}-shelf`} list={`${id}-shelves`} value={shelf} onChange={(e) => setShelf(e.target.value)} aria-describedby={`${id}-shelf-hint`} required />
           <datalist id={`${id}-shelves`}>
             {shelves.map((l) => (
               <option key={l} value={l} />
@@ -46,12 +65,42 @@ function PlanForm() {
           <input id={`${id}-weeks`} type="number" min={1} max={52} value={weeks} onChange={(e) => setWeeks(Number(e.target.value))} />
         </div>
         <div className="field">
+          <label htmlFor={`${id}-rest`}>Rest weeks</label>
+          <input
+            id={`${id}-rest`}
+            type="number"
+            min={0}
+            max={51}
+            value={rest}
+            placeholder="brief's"
+            onChange={(e) => setRest(e.target.value)}
+            aria-describedby={`${id}-rest-hint`}
+          />
+        </div>
+        <div className="field">
           <label htmlFor={`${id}-name`}>Plan name</label>
           <input id={`${id}-name`} value={name} onChange={(e) => setName(e.target.value)} />
         </div>
       </div>
+      <p id={`${id}-rest-hint`} className="muted">
+        Rest weeks: how many weeks an item sits out before it runs again (empty: the shelf brief's rest period; 0 lets it run week after week).
+      </p>
+      <p id={`${id}-shelf-hint`} className="muted">
+        {edition && shelves.length > 0 ? (
+          <>A shelf of the open edition “{edition.label}” ({shelves.join(', ')}) keeps its brief in the plan; another name is taken from the newest edition that has it.</>
+        ) : (
+          <>
+            The planner plans a shelf you have set up in an edition, with its brief.{' '}
+            {edition ? `The open edition “${edition.label}” has no shelves yet.` : 'No edition is open.'} Type a shelf's name, or{' '}
+            <button type="button" className="quiet" onClick={() => go('editions')}>
+              go to Editions
+            </button>{' '}
+            to open or start one.
+          </>
+        )}
+      </p>
       <button type="submit" disabled={busy || shelf.trim() === '' || start === ''}>
-        Plan
+        {busy ? 'Solving…' : 'Plan'}
       </button>
     </form>
   );
@@ -94,13 +143,18 @@ function Calendar({ plan, shelf }: { plan: PlanView; shelf: number }) {
               return (
                 <td key={w.week} data-item={x.item}>
                   <span>{x.title}</span> <small>{x.item}</small>
-                  {x.promoted && <span className="sponsored"> Sponsored</span>}
-                  {x.pinned && <span> (pinned)</span>}
+                  {x.promoted && (
+                    <>
+                      {' '}
+                      <span className="sponsored">Sponsored</span>
+                    </>
+                  )}
+                  {x.pinned && <strong className="pinned"> (pinned)</strong>}
                   <span className="cell-actions">
-                    <button type="button" disabled={busy || x.pinned} onClick={() => void pin(x.item!, w.week, label)} aria-label={`Pin ${x.item} to week ${w.week}`}>
+                    <button type="button" disabled={busy || x.pinned} onClick={() => void pin(x.item!, w.week, label)} aria-label={`Pin ${x.title} (${x.item}) to week ${w.week}`}>
                       Pin
                     </button>
-                    <button type="button" disabled={busy} onClick={() => void ban(x.item!)} aria-label={`Ban ${x.item} from the plan`}>
+                    <button type="button" disabled={busy} onClick={() => void ban(x.item!)} aria-label={`Ban ${x.title} (${x.item}) from the plan`}>
                       Ban
                     </button>
                   </span>
@@ -114,9 +168,74 @@ function Calendar({ plan, shelf }: { plan: PlanView; shelf: number }) {
   );
 }
 
+/**
+ * Pins any item to any week: the calendar's own Pin keeps an item where the solver put it, this puts a chosen
+ * item into a chosen week. The item is named by id or by the title of an item already in the plan.
+ */
+function PinForm({ plan }: { plan: PlanView }) {
+  const pin = useApp((s) => s.pinInPlan);
+  const busy = useApp((s) => s.planner.busy);
+  const [item, setItem] = useState('');
+  const [week, setWeek] = useState(1);
+  const [chosen, setShelf] = useState(plan.shelves[0]!);
+  const shelf = plan.shelves.includes(chosen) ? chosen : plan.shelves[0]!;
+  const id = useId();
+  const known = new Map<string, string>();
+  for (const w of plan.weeks) for (const sh of w.shelves) for (const x of sh.slots) if (x.item !== null) known.set(x.item, x.title ?? x.item);
+  const submit = (e: FormEvent) => {
+    e.preventDefault();
+    const typed = item.trim();
+    const byTitle = [...known].find(([, t]) => t === typed)?.[0];
+    void pin(known.has(typed) ? typed : (byTitle ?? typed), Math.min(week, plan.weeks.length), shelf);
+  };
+  return (
+    <form onSubmit={submit} aria-labelledby={`${id}-h`}>
+      <h3 id={`${id}-h`}>Pin an item to a week</h3>
+      <div className="row">
+        <div className="field">
+          <label htmlFor={`${id}-item`}>Item (id or title)</label>
+          <input id={`${id}-item`} list={`${id}-items`} value={item} onChange={(e) => setItem(e.target.value)} required />
+          <datalist id={`${id}-items`}>
+            {[...known].map(([x, t]) => (
+              <option key={x} value={x} label={t} />
+            ))}
+          </datalist>
+        </div>
+        <div className="field">
+          <label htmlFor={`${id}-week`}>Week</label>
+          <select id={`${id}-week`} value={Math.min(week, plan.weeks.length)} onChange={(e) => setWeek(Number(e.target.value))}>
+            {plan.weeks.map((w) => (
+              <option key={w.week} value={w.week}>
+                Week {w.week} ({w.date})
+              </option>
+            ))}
+          </select>
+        </div>
+        {plan.shelves.length > 1 && (
+          <div className="field">
+            <label htmlFor={`${id}-on`}>On shelf</label>
+            <select id={`${id}-on`} value={shelf} onChange={(e) => setShelf(e.target.value)}>
+              {plan.shelves.map((l) => (
+                <option key={l} value={l}>
+                  {l}
+                </option>
+              ))}
+            </select>
+          </div>
+        )}
+      </div>
+      <button type="submit" disabled={busy || item.trim() === ''}>
+        Pin and re-solve
+      </button>
+    </form>
+  );
+}
+
 function Meter({ plan }: { plan: PlanView }) {
   const draft = useApp((s) => s.draftPlanWeek);
   const busy = useApp((s) => s.planner.busy);
+  const open = useApp((s) => s.openEdition);
+  const go = useApp((s) => s.go);
   return (
     <table aria-label="Plan meter">
       <thead>
@@ -143,7 +262,9 @@ function Meter({ plan }: { plan: PlanView }) {
               <td>{num(w.meter.value)}</td>
               <td>
                 {d ? (
-                  <span>{d.edition}</span>
+                  <button type="button" className="quiet" aria-label={`Open draft edition ${d.edition}`} onClick={async () => (await open(d.edition)) && go('board')}>
+                    {d.edition}
+                  </button>
                 ) : (
                   <button type="button" disabled={busy || plan.status === 'infeasible'} onClick={() => void draft(w.week)}>
                     Make draft of week {w.week}
@@ -176,26 +297,39 @@ export function Planner() {
   const busy = useApp((s) => s.planner.busy);
   const resolve = useApp((s) => s.resolvePlan);
   return (
-    <section aria-labelledby="planner-h">
-      <h1 id="planner-h">Planner</h1>
+    <section className="screen" aria-labelledby="planner-h">
+      <header className="screen-head">
+        <h1 id="planner-h">Planner</h1>
+      </header>
       <PlanForm />
       {error && (
         <p className="error" role="alert">
           {error}
         </p>
       )}
-      {message && <p role="status">{message}</p>}
+      {/* One live region, always present, so a screen reader hears both "solving" and what the solve did. */}
+      <p role="status" className={busy || message ? 'notice' : 'sr-only'}>
+        {busy ? 'Solving… a plan over many weeks can take a few seconds.' : message}
+      </p>
+      {plan === null && !busy && <p className="muted">No plan yet. Name a shelf and its first week above, then Plan: the calendar of the weeks ahead appears here.</p>}
       {plan && (
-        <div className="panel">
+        <div className="panel" aria-busy={busy}>
           <h2>
             {plan.name}: {plan.shelves.join(', ')} from {plan.start}
           </h2>
           <p>
-            Solved {plan.method === 'exact' ? 'exactly' : 'by the heuristic'} ({plan.status}); {plan.candidates} candidates of {plan.pool}.{' '}
+            Solved {plan.method === 'exact' ? 'exactly' : 'by the heuristic'} ({plan.status}) over the best {plan.candidates.toLocaleString('en')} of {plan.pool.toLocaleString('en')} items.{' '}
             <button type="button" disabled={busy} onClick={() => void resolve()}>
               Re-solve
             </button>
           </p>
+          {plan.notes.length > 0 && (
+            <ul aria-label="Notes on this plan" className="muted">
+              {plan.notes.map((n) => (
+                <li key={n}>{n}</li>
+              ))}
+            </ul>
+          )}
           {plan.diagnosis && (
             <div role="alert">
               <p>The rules cannot all hold; this plan breaks some and was not stored. Each of these alone makes a plan possible:</p>
@@ -207,9 +341,14 @@ export function Planner() {
             </div>
           )}
           {plan.shelves.map((l, s) => (
-            <Calendar key={l} plan={plan} shelf={s} />
+            <div className="plan-scroll" key={l} role="region" aria-label={`Calendar of ${l}`} tabIndex={0}>
+              <Calendar plan={plan} shelf={s} />
+            </div>
           ))}
-          <Meter plan={plan} />
+          <PinForm plan={plan} />
+          <div className="plan-scroll" role="region" aria-label="Meter per week" tabIndex={0}>
+            <Meter plan={plan} />
+          </div>
           {plan.forecast && (
             <p>
               Seasonal fit: {plan.forecast.method}; on the last {plan.forecast.heldOutWeeks} weeks, MASE {num(plan.forecast.categories.mase)} for categories (seasonal naive{' '}

@@ -10,7 +10,7 @@ type PlanRequest = RequestOf<'plan.solve'>;
 export interface PlannerSlice {
   planner: { plan: PlanView | null; busy: boolean; error: string | null; message: string | null };
   /** Plans (or re-plans under the same name) from the form. */
-  makePlan(req: Pick<PlanRequest, 'name' | 'shelf' | 'shelves' | 'start' | 'weeks'>): Promise<boolean>;
+  makePlan(req: Pick<PlanRequest, 'name' | 'shelf' | 'shelves' | 'edition' | 'start' | 'weeks' | 'horizon'>): Promise<boolean>;
   /** Keeps the item in that week (1-based) on that shelf, and re-solves. */
   pinInPlan(item: string, week: number, shelf: string): Promise<boolean>;
   /** Keeps the week's items on that shelf as they are, and re-solves the rest. */
@@ -35,20 +35,28 @@ export function createPlannerSlice(client: Client): StateCreator<AppState, [], [
         return false;
       }
     };
-    const again = (extra: Partial<PlanRequest>) =>
+    /** Re-solves with one more edit; the message says which edit, so two re-solves in a row read differently. */
+    const again = (extra: Partial<PlanRequest>, did: string | null, after: (plan: PlanView) => string = () => '') =>
       run(async () => {
         const p = get().planner.plan;
         if (!p) throw new Error('Make a plan first.');
         const plan = await client.call('plan.solve', { name: p.name, shelf: p.shelves[0]!, edition: p.edition, ...extra });
-        return { plan, message: plan.changed === null ? null : `Re-solved: ${plan.changed} placement${plan.changed === 1 ? '' : 's'} changed.` };
+        const changed = plan.changed === null ? null : `${plan.changed} placement${plan.changed === 1 ? '' : 's'} changed.`;
+        const said = changed === null ? did : did === null ? `Re-solved: ${changed}` : `${did} and re-solved: ${changed}`;
+        return { plan, message: `${said ?? ''}${after(plan)}` || null };
       });
+    /** A lock keeps its week as it was, ban or not: say so when a banned item stays in a locked week. */
+    const stillIn = (item: string) => (plan: PlanView) => {
+      const where = plan.weeks.flatMap((w) => w.shelves.filter((sh) => sh.slots.some((x) => x.item === item)).map((sh) => `week ${w.week} of ${sh.label}`));
+      return where.length === 0 ? '' : ` It stays in locked ${where.join(', ')}: a locked week keeps its items.`;
+    };
     return {
       planner: { plan: null, busy: false, error: null, message: null },
       makePlan: (req) => run(async () => ({ plan: await client.call('plan.solve', req), message: null })),
-      pinInPlan: (item, week, shelf) => again({ pins: [{ item, week, shelf }] }),
-      lockPlanWeek: (week, shelf) => again({ locks: [{ week, shelf }] }),
-      banFromPlan: (item) => again({ bans: [item] }),
-      resolvePlan: () => again({}),
+      pinInPlan: (item, week, shelf) => again({ pins: [{ item, week, shelf }] }, `Pinned ${item} to week ${week} of ${shelf}`),
+      lockPlanWeek: (week, shelf) => again({ locks: [{ week, shelf }] }, `Locked week ${week} of ${shelf}`),
+      banFromPlan: (item) => again({ bans: [item] }, `Banned ${item} from the plan`, stillIn(item)),
+      resolvePlan: () => again({}, null),
       draftPlanWeek: (week) =>
         run(async () => {
           const p = get().planner.plan;

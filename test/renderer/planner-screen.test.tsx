@@ -25,6 +25,9 @@ describe('the planner screen', () => {
     fireEvent.change(within(form).getByLabelText('Weeks'), { target: { value: '3' } });
     fireEvent.change(within(form).getByLabelText('Plan name'), { target: { value: 'winter' } });
     fireEvent.click(within(form).getByRole('button', { name: 'Plan' }));
+    // While it solves the page says so, and the button cannot start a second solve.
+    expect(screen.getByRole('status').textContent).toMatch(/^Solving…/);
+    expect((within(form).getByRole('button', { name: 'Solving…' }) as HTMLButtonElement).disabled).toBe(true);
     const table = await screen.findByRole('table', { name: 'Plan for Row' });
     expect(within(table).getAllByRole('columnheader').map((h) => h.textContent?.replace('Lock', '').trim())).toEqual(['Slot', 'Week 1 2026-12-07', 'Week 2 2026-12-14', 'Week 3 2026-12-21']);
     const week1 = column(table, 1);
@@ -34,8 +37,14 @@ describe('the planner screen', () => {
 
     fireEvent.click(within(table).getByRole('button', { name: 'Lock week 1 of Row' }));
     await waitFor(() => expect(screen.getByRole('table', { name: 'Plan for Row' }).textContent).toContain('(locked)'));
+    expect(screen.getByRole('status').textContent).toMatch(/^Locked week 1 of Row and re-solved: \d+ placements? changed\.$/);
+    // Banning an item of the locked week: the lock wins, and the message says so.
+    fireEvent.click(screen.getByRole('button', { name: new RegExp(`^Ban .+ \\(${week1[0]}\\) from the plan$`) }));
+    await waitFor(() => expect(screen.getByRole('status').textContent).toMatch(new RegExp(`^Banned ${week1[0]} from the plan and re-solved: .* It stays in locked week 1 of Row: a locked week keeps its items\\.$`)));
+    expect(column(screen.getByRole('table', { name: 'Plan for Row' }), 1)).toEqual(week1);
+    expect(column(screen.getByRole('table', { name: 'Plan for Row' }), 2)).not.toContain(week1[0]);
     const item = column(screen.getByRole('table', { name: 'Plan for Row' }), 2)[0]!;
-    fireEvent.click(screen.getByRole('button', { name: `Pin ${item} to week 2` }));
+    fireEvent.click(screen.getByRole('button', { name: new RegExp(`^Pin .+ \\(${item}\\) to week 2$`) }));
     await waitFor(() => expect(screen.getByRole('table', { name: 'Plan for Row' }).textContent).toContain('(pinned)'));
     fireEvent.click(screen.getByRole('button', { name: 'Re-solve' }));
     await waitFor(() => expect(screen.getByRole('status').textContent).toMatch(/^Re-solved: \d+ placements? changed\.$/));
@@ -50,6 +59,19 @@ describe('the planner screen', () => {
       .pluck()
       .all();
     expect(slots).toEqual(column(after, 2));
+  });
+
+  it('says where shelves come from when no edition is open, and the first week defaults to a Monday', () => {
+    app.render();
+    fireEvent.click(screen.getByRole('button', { name: 'Planner' }));
+    const form = screen.getByRole('form', { name: 'Plan the weeks ahead' });
+    expect(form.textContent).toContain('No edition is open.');
+    const start = (within(form).getByLabelText('First week') as HTMLInputElement).value;
+    // ISO 8601: the week starts on Monday; getUTCDay() of a date-only string read as UTC is 1 for a Monday.
+    expect(new Date(`${start}T00:00:00Z`).getUTCDay()).toBe(1);
+    expect(screen.getByText(/^No plan yet\./)).toBeTruthy();
+    fireEvent.click(within(form).getByRole('button', { name: 'go to Editions' }));
+    expect(screen.getByRole('heading', { level: 1 }).textContent).toBe('Editions');
   });
 
   it('shows the error in words when the shelf does not exist', async () => {

@@ -94,8 +94,14 @@ export function buildPlan(db: Db, world: CurationWorld, setup: PlanSetup): Built
   // Relevance per shelf over the catalogue, in [0, 1].
   const rel: Float64Array[] = setup.shelves.map((sh) => {
     const v = validatedRelevance(world, sh.brief, startMs);
-    if (v) return v.relevance;
-    notes.push(`${sh.label}: no trained model says anything about relevance for this brief; items are valued by popularity`);
+    if (v && spread(v.relevance)) return v.relevance;
+    // A relevance equal for every item (e.g. min–max of a constant score before any model is trained) would value
+    // every placement at 0 and leave the plan arbitrary; popularity at least tells items apart.
+    notes.push(
+      v
+        ? `${sh.label}: relevance comes out equal for every item for this brief (are the models trained?); items are valued by popularity`
+        : `${sh.label}: no trained model says anything about relevance for this brief; items are valued by popularity`,
+    );
     let max = 0;
     for (const p of ctx.popularity) if (p > max) max = p;
     return Float64Array.from(ctx.popularity, (p) => (max > 0 ? p / max : 0));
@@ -198,4 +204,16 @@ export function buildPlan(db: Db, world: CurationWorld, setup: PlanSetup): Built
     ...(previous && { previous }),
   };
   return { inst, relevance, fit, weekDates: weekMs.map(isoDay), profile, pool: poolSize, notes };
+}
+
+/** Whether the finite values differ at all (NaN marks items outside the universe). */
+function spread(x: Float64Array): boolean {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const v of x) {
+    if (Number.isNaN(v)) continue;
+    if (v < lo) lo = v;
+    if (v > hi) hi = v;
+  }
+  return hi > lo;
 }

@@ -53,10 +53,21 @@ describe('dials set per brief (issue 10 item 4)', () => {
     await trained();
     const world = loadWorld(opened!.db, curationModelSource);
     // The 5% case itself is checked on the demo shop (test/integration/default-dials.test.ts); this small shop's
-    // editorial dials cost less, so the limit is set below what they cost here.
-    const brief = parseBrief({ size: 4, anchors: [1], audience: { kind: 'rule', category: 'notebooks', signalKinds: ['purchase', 'view'], withinDays: 90 } });
-    const fixed = dialCost(world, { ...brief, weights: { ...DEFAULT_WEIGHTS, ...EDITORIAL_DIALS } }, DATE);
-    expect(fixed).toBeGreaterThan(0);
+    // editorial dials cost less, so the limit is set below what they cost here. Which of these small briefs the
+    // editorial dials cost anything on depends on the models' details, so the first that does is taken.
+    const NOTEBOOKS = { kind: 'rule', category: 'notebooks', signalKinds: ['purchase', 'view'], withinDays: 90 };
+    const costed = [
+      { size: 4, anchors: [1], audience: NOTEBOOKS },
+      { size: 4, audience: NOTEBOOKS },
+      { size: 3, audience: KITES },
+      { size: 6, audience: NOTEBOOKS },
+      { size: 4, anchors: [2], audience: { kind: 'everyone' } },
+    ]
+      .map((b) => parseBrief(b))
+      .map((brief) => ({ brief, fixed: dialCost(world, { ...brief, weights: { ...DEFAULT_WEIGHTS, ...EDITORIAL_DIALS } }, DATE) }))
+      .find((c) => c.fixed > 0);
+    expect(costed).toBeDefined();
+    const { brief, fixed } = costed!;
     const set = fitDials(world, brief, DATE, fixed / 2);
     expect(set.autoDials!.cost!).toBeLessThanOrEqual(fixed / 2);
     expect(dialCost(world, set, DATE)).toBeLessThanOrEqual(fixed / 2);

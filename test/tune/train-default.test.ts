@@ -3,6 +3,9 @@ import { describe, expect, it } from 'vitest';
 import { createHandlerTable, invoke } from '../../src-main/api/handler-table.ts';
 import { AppContext } from '../../src-main/services/context.ts';
 import { ModelRepo, modelStatus } from '../../src-main/store/models.ts';
+import path from 'node:path';
+import { importFile } from '../../src-main/services/import.ts';
+import { openWorkspace } from '../../src-main/store/workspace.ts';
 import { handWorkspace, tempDir } from '../holdout/fixture.ts';
 
 /**
@@ -65,4 +68,39 @@ describe('train.start without a word on tuning', () => {
       fs.rmSync(d, { recursive: true, force: true });
     }
   });
+
+  it('trains a shop too small to tune with the default settings, and says so; asked to tune outright, it refuses', async () => {
+    // Two customers with one signal each: no customer keeps history on both sides of a validation split.
+    const d = tempDir('train-default-tiny');
+    const file = path.join(d, 'tiny.sqlite');
+    fs.writeFileSync(path.join(d, 'items.csv'), 'id,title,category\ni1,Moss lantern,garden\ni2,Copper kettle,kitchen\ni3,Paper notebook,stationery\n');
+    fs.writeFileSync(path.join(d, 'customers.csv'), 'id\nu1\nu2\n');
+    fs.writeFileSync(path.join(d, 'signals.csv'), 'customer,item,kind\nu1,i1,purchase\nu2,i2,view\n');
+    const db = openWorkspace(file);
+    for (const target of ['items', 'customers', 'signals'] as const) {
+      const r = await importFile(db, { target, file: path.join(d, `${target}.csv`) });
+      if (!r.committed) throw new Error(`import of ${target} failed: ${JSON.stringify(r.errors)}`);
+    }
+    db.close();
+    const ctx = new AppContext();
+    ctx.open(file, { create: false });
+    try {
+      const table = createHandlerTable(ctx);
+      const run = async (payload: unknown) => {
+        const started = await invoke(table, 'train.start', payload);
+        if (!started.ok) throw new Error(started.error.message);
+        return ctx.jobs.settled((started.value as { id: string }).id);
+      };
+      const plain = await run({ models: ['content', 'itemknn', 'popularity'], threads: 1 });
+      expect(plain.error).toBeNull();
+      expect(plain.summary).toMatch(/^not tuned \(no customer has two or more items: nothing can be held out for tuning\): trained 3 models with the default settings/);
+      expect(modelStatus(ctx.db).map((m) => m.kind).sort()).toEqual(['content', 'itemknn', 'popularity']);
+      const asked = await run({ models: ['content', 'itemknn', 'popularity'], threads: 1, tune: { k: 10 } });
+      expect(asked.state).toBe('failed');
+      expect(asked.error).toMatch(/nothing can be held out for tuning/);
+    } finally {
+      ctx.close();
+      fs.rmSync(d, { recursive: true, force: true });
+    }
+  }, 60_000);
 });

@@ -20,6 +20,18 @@ import { quantileCuts, splitByTime } from '../../core/matrix/split.ts';
 import { seededRng } from '../../core/rng.ts';
 import type { Dataset } from '../../core/types.ts';
 
+
+/**
+ * The two refusals of a shop too small to tune: nothing to hold out, or nothing left to measure on what was held
+ * out (tune.ts). The default training (train-tuned.ts) falls back to the default settings on either.
+ */
+export const NOTHING_TO_HOLD_OUT = 'no customer has two or more items: nothing can be held out for tuning';
+export const TOO_LITTLE_TO_TUNE = 'no customer has both train history and new validation items: too little data to tune';
+
+/** Whether an error (possibly rebuilt from a worker thread's message) is one of the refusals above. */
+export function tooLittleToTune(e: unknown): e is InputError {
+  return e instanceof InputError && (e.message === NOTHING_TO_HOLD_OUT || e.message === TOO_LITTLE_TO_TUNE);
+}
 export interface ValidationSplit {
   method: 'time' | 'random';
   /** Signal indices of each part, in signal order. */
@@ -85,6 +97,6 @@ function randomSplit(ds: Dataset, share: number, seed: number): { train: Int32Ar
   const train: number[] = [];
   const validation: number[] = [];
   for (let k = 0; k < s.length; k++) (held.has(s.customer[k]! * nI + s.item[k]!) ? validation : train).push(k);
-  if (validation.length === 0) throw new InputError('no customer has two or more items: nothing can be held out for tuning');
+  if (validation.length === 0) throw new InputError(NOTHING_TO_HOLD_OUT);
   return { train: Int32Array.from(train), validation: Int32Array.from(validation) };
 }

@@ -18,6 +18,7 @@ import { trainAndSave, type TrainSummary } from '../train/train-job.ts';
 import type { TrainOptions } from '../train/train-models.ts';
 import { fixedParams, GRID_PARAMS, type GridModel } from './grid.ts';
 import { tuneInThread } from './offline-thread.ts';
+import { tooLittleToTune } from './split.ts';
 import type { ModelTuning, TuneOptions, TuneResult } from './tune.ts';
 
 /** Share of the progress bar taken by tuning (it fits about 20 models; training fits 5). */
@@ -80,7 +81,7 @@ export async function tuneAndTrain(
   request: TuneRequest,
   report: (p: { stage: string; fraction: number; model?: string; iteration?: number; iterations?: number }) => void,
   signal: AbortSignal,
-): Promise<TunedTraining | { summary: TrainSummary; reused: true }> {
+): Promise<TunedTraining | { summary: TrainSummary; reused: true } | { summary: TrainSummary; untuned: string }> {
   const { when, ...tune } = request;
   const kinds = options.models ?? ['content', 'itemknn', 'ials', 'ease', 'popularity'];
   const reuse = when === 'changed' ? reusableTuning(db, kinds) : null;
@@ -105,23 +106,32 @@ export async function tuneAndTrain(
     return { summary, reused: true };
   }
   const fixed = fixedParams(options.params);
-  const tuning = await tuneInThread(
-    file,
-    {
-      ...tune,
-      // The caller's own grid parameters are held during the search, not only applied afterwards.
-      ...(Object.keys(fixed).length && { fixed }),
-      ...(options.threads !== undefined && { threads: options.threads }),
-      // Trials run as many sweeps as the final training will.
-      ...(options.params?.ials?.iterations !== undefined && tune.iterations === undefined && { iterations: options.params.ials.iterations }),
-    },
-    {
-      signal,
-      // A budgeted search does not know its trial count in advance (trials 0): the bar's fraction is its spend.
-      onProgress: (p) =>
-        report({ stage: 'tune', model: p.model, ...(p.trials > 0 && { iteration: p.trial, iterations: p.trials }), fraction: p.fraction * TUNE_SHARE }),
-    },
-  );
+  let tuning: TuneResult;
+  try {
+    tuning = await tuneInThread(
+      file,
+      {
+        ...tune,
+        // The caller's own grid parameters are held during the search, not only applied afterwards.
+        ...(Object.keys(fixed).length && { fixed }),
+        ...(options.threads !== undefined && { threads: options.threads }),
+        // Trials run as many sweeps as the final training will.
+        ...(options.params?.ials?.iterations !== undefined && tune.iterations === undefined && { iterations: options.params.ials.iterations }),
+      },
+      {
+        signal,
+        // A budgeted search does not know its trial count in advance (trials 0): the bar's fraction is its spend.
+        onProgress: (p) =>
+          report({ stage: 'tune', model: p.model, ...(p.trials > 0 && { iteration: p.trial, iterations: p.trials }), fraction: p.fraction * TUNE_SHARE }),
+      },
+    );
+  } catch (e) {
+    // The default (tune when the data changed) must still train a shop too small to hold out a validation
+    // split, with the default settings; asked to tune outright, the refusal stands.
+    if (when !== 'changed' || !tooLittleToTune(e)) throw e;
+    const summary = await trainAndSave(db, file, options, { signal, onProgress: report, onWait: (holder) => report({ stage: waitingLine(holder), fraction: 1 }) });
+    return { summary, untuned: e.message };
+  }
   if (signal.aborted) throw new CancelledError('training cancelled');
   // The grid's best already holds the caller's fixed values; the caller's other parameters (iterations...) are added.
   const params = {
@@ -181,6 +191,9 @@ export function tunedTrainJob(db: Db, file: string, options: TrainOptions, tune:
   return async (report, signal) => {
     const r = await tuneAndTrain(db, file, options, tune, report, signal);
     const after = `${r.summary.blend ? `; hybrid: ${r.summary.blend.reason}` : ''}${r.summary.stale ? `; ${STALE_NOTE}` : ''}`;
+    if ('untuned' in r) {
+      return `not tuned (${r.untuned}): trained ${plural(r.summary.models.length, 'model')} with the default settings in ${(r.summary.elapsedMs / 1000).toFixed(1)} s${after}`;
+    }
     if ('reused' in r) {
       return `not tuned: the data is unchanged since the last tuning, whose settings trained ${plural(r.summary.models.length, 'model')} in ${(r.summary.elapsedMs / 1000).toFixed(1)} s${after}`;
     }

@@ -25,7 +25,7 @@ import { TRAIN_EASE_DEFAULTS, type TrainOptions } from '../train/train-models.ts
 import { TUNE_BUDGET, type FixedParams } from './grid.ts';
 import { searchModels } from './model-search.ts';
 import type { AxisValue } from './search.ts';
-import { validationSplit } from './split.ts';
+import { TOO_LITTLE_TO_TUNE, validationSplit } from './split.ts';
 
 /** Largest catalogue whose EASE λ is searched (each fit costs n³/2: seconds here, minutes at 20,000). */
 const EASE_TUNE_MAX_ITEMS = 5000;
@@ -102,7 +102,7 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   const validation = buildInteractionMatrix(ds, { rows: split.validation });
   const truth = sampleTruth(evalTruth(train, validation, undefined, split.unavailable), o.sampleCustomers ?? 1000, seededRng(seed));
   const ev = new RankingEvaluator(train, truth, k, split.unavailable);
-  if (ev.customerCount === 0) throw new InputError('no customer has both train history and new validation items: too little data to tune');
+  if (ev.customerCount === 0) throw new InputError(TOO_LITTLE_TO_TUNE);
   const useEase = ds.items.length <= EASE_TUNE_MAX_ITEMS;
   if (!useEase) notes.push(`EASE not tuned: ${ds.items.length} items, above ${EASE_TUNE_MAX_ITEMS} (each fit would take minutes); it trains with the default lambda`);
 

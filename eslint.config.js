@@ -87,4 +87,16 @@ export default tseslint.config(
       }],
     },
   },
+  // SQL lives only in store/ (one repository function per statement, named for what it does): no statement is
+  // prepared, executed or pragma'd on a connection anywhere else. A regex's own .exec is not a connection.
+  {
+    files: ['src-main/**', 'src-renderer/**', 'demo-data/**'],
+    ignores: ['src-main/store/**'],
+    rules: {
+      'no-restricted-syntax': ['error',
+        { selector: "CallExpression[callee.property.name=/^(prepare|pragma)$/]", message: 'SQL only in src-main/store: call a store function' },
+        { selector: "CallExpression[callee.property.name='exec'][callee.object.name=/^(db|database|conn|connection)$/]", message: 'SQL only in src-main/store: call a store function' },
+      ],
+    },
+  },
 );

@@ -27,7 +27,7 @@ import {
   type ShelfDiff,
   type ShelfEdits,
 } from '../../core/editing/index.ts';
-import { parseBrief } from '../../core/editing/brief-schema.ts';
+import { withDefaultWeights, type BriefRequest } from '../../core/editing/brief-schema.ts';
 import { catalogueNames, checkBriefNames, checkName, type CatalogueNames } from '../../core/curation/brief-names.ts';
 import type { Item } from '../../core/types.ts';
 import type { EditionRepo, Edition } from '../../store/editions.ts';
@@ -250,13 +250,13 @@ export class CurationService {
    * A brief that leaves out `weights` gets dials set for it (services/curation/brief-dials.ts): at most 5% of
    * validated relevance for its audience and anchors. Weights given are the editor's and are kept.
    */
-  addShelf(edition: string, label: string, brief: unknown): ShelfView {
+  addShelf(edition: string, label: string, brief: BriefRequest): ShelfView {
     const world = this.world();
-    const given = aimByName(parseBrief(brief), world.groupNames);
+    const given = aimByName(withDefaultWeights(brief), world.groupNames);
     checkBriefNames(namesOf(world), given);
     return this.db.transaction(() => {
       const e = this.#draft(edition);
-      const b = dialsFor(world, given, gaveWeights(brief), undefined, dateMs(e.date));
+      const b = dialsFor(world, given, brief.weights !== undefined, undefined, dateMs(e.date));
       return this.#refillEdition(world, e, this.shelves.add(e.id, label, b).id, 'fromTarget', { start: 'over' }).view;
     })();
   }
@@ -267,14 +267,14 @@ export class CurationService {
    * Dials set for the brief stay set for it (and are set again when its audience or anchors change) unless
    * the editor sends other weights, which are theirs from then on (brief-dials.ts `dialsFor`).
    */
-  setBrief(edition: string, label: string, brief: unknown, reason?: string): ShelfView {
+  setBrief(edition: string, label: string, brief: BriefRequest, reason?: string): ShelfView {
     const world = this.world();
-    const given = aimByName(parseBrief(brief), world.groupNames);
+    const given = aimByName(withDefaultWeights(brief), world.groupNames);
     checkBriefNames(namesOf(world), given);
     return this.db.transaction(() => {
       const e = this.#draft(edition);
       const s = this.shelves.byLabel(e.id, label);
-      const b = dialsFor(world, given, gaveWeights(brief), s.brief, dateMs(e.date));
+      const b = dialsFor(world, given, brief.weights !== undefined, s.brief, dateMs(e.date));
       if (b.size < s.size) {
         const pinnedBeyond = Object.keys(this.#edits(s).pins).filter((k) => Number(k) >= b.size);
         if (pinnedBeyond.length) {
@@ -339,8 +339,7 @@ export class CurationService {
       case 'refill':
         return { kind: 'refill' };
       case 'anchors':
-        // Checked like a brief's anchors (shelf.brief's schema): existing row ids.
-        parseBrief({ ...shelf.brief, anchors: a.anchors });
+        // Whole row ids by the request's type; that they exist is checked here.
         checkBriefNames(namesOf(world), { ...shelf.brief, anchors: a.anchors });
         return { kind: 'anchors', anchors: a.anchors.slice(), was: shelf.brief.anchors.slice() };
       case 'move': {
@@ -475,6 +474,3 @@ function namesOf(world: CurationWorld): CatalogueNames {
 }
 
 /** Whether a brief as sent carries weights of its own (the editor's dials) rather than leaving them to the service. */
-function gaveWeights(brief: unknown): boolean {
-  return typeof brief === 'object' && brief !== null && (brief as { weights?: unknown }).weights !== undefined;
-}

@@ -4,6 +4,7 @@
  * re-filled slots commit together or not at all (better-sqlite3 docs/api.md, .transaction).
  */
 import { meterEdition } from '../../core/curation/edition-meter.ts';
+import type { EditionMeter } from '../../core/curation/types.ts';
 import { isDeepStrictEqual } from 'node:util';
 import { InputError, NotFoundError } from '../../core/errors.ts';
 import {
@@ -39,7 +40,7 @@ import { aimByName } from './group-aim.ts';
 import { dialsFor } from './brief-dials.ts';
 import { dateMs } from '../../store/editions.ts';
 import { curationRepos } from './repos.ts';
-import { fillAndMeter, frozenDense, type FillMode } from './shelf-fill.ts';
+import { fillAndMeter, frozenDense, type FilledShelf, type FillMode } from './shelf-fill.ts';
 import { listChanges } from '../../core/curation/stable-fill.ts';
 import { editionSnapshot, publishEdition } from './publish.ts';
 import { actionViews, changesView, shelfView, type EditionView, type ShelfView } from './views.ts';
@@ -110,8 +111,14 @@ export class CurationService {
 
   /** Reads a shelf as stored, with its meter (no fill). */
   #read(world: CurationWorld, edition: Edition, shelf: Shelf): ShelfView {
-    const filled = fillAndMeter(this.db, world, shelf, edition, this.#edits(shelf), false);
-    return shelfView(edition, shelf, filled, this.#item(world), this.editorial.entries(shelf.id), this.#edits(shelf));
+    return this.#readFilled(world, edition, shelf).view;
+  }
+
+  /** A shelf as stored, read once: the slots and meter (`filled`) and the view built from exactly those. */
+  #readFilled(world: CurationWorld, edition: Edition, shelf: Shelf): { filled: FilledShelf; view: ShelfView } {
+    const edits = this.#edits(shelf);
+    const filled = fillAndMeter(this.db, world, shelf, edition, edits, false);
+    return { filled, view: shelfView(edition, shelf, filled, this.#item(world), this.editorial.entries(shelf.id), edits) };
   }
 
   /**
@@ -234,16 +241,19 @@ export class CurationService {
   }
 
   showEdition(label: string): EditionView {
+    const r = this.readEdition(label);
+    return { ...r.edition, shelves: r.shelves.map((x) => x.view), meter: r.meter };
+  }
+
+  /**
+   * Every shelf of an edition as stored, each read once (its slots with row ids, its meter and its view), and
+   * the edition meter over those same lists: what a view and a publish snapshot are both built from.
+   */
+  readEdition(label: string): { edition: Edition; shelves: { filled: FilledShelf; view: ShelfView }[]; meter: EditionMeter } {
     const world = this.world();
     const e = this.editions.byLabel(label);
-    const shelves = this.shelves.list(e.id).map((s) => this.#read(world, e, s));
-    const { ctx } = world;
-    const dense = shelves.map((v) =>
-      Int32Array.from(this.shelves.slots(this.shelves.byLabel(e.id, v.label).id), (s) =>
-        s.itemId === null ? -1 : (ctx.indexOfId.get(s.itemId) ?? -1),
-      ),
-    );
-    return { ...e, shelves, meter: meterEdition(ctx, dense) };
+    const shelves = this.shelves.list(e.id).map((s) => this.#readFilled(world, e, s));
+    return { edition: e, shelves, meter: meterEdition(world.ctx, shelves.map((x) => x.filled.dense)) };
   }
 
   /**

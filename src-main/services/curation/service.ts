@@ -40,7 +40,7 @@ import { aimByName } from './group-aim.ts';
 import { dialsFor } from './brief-dials.ts';
 import { dateMs } from '../../store/editions.ts';
 import { curationRepos } from './repos.ts';
-import { fillAndMeter, frozenDense, type FilledShelf, type FillMode } from './shelf-fill.ts';
+import { fillAndMeter, frozenDense, readShelf, type FilledShelf, type FillMode } from './shelf-fill.ts';
 import { listChanges } from '../../core/curation/stable-fill.ts';
 import { editionSnapshot, publishEdition } from './publish.ts';
 import { actionViews, changesView, shelfView, type EditionView, type ShelfView } from './views.ts';
@@ -117,7 +117,7 @@ export class CurationService {
   /** A shelf as stored, read once: the slots and meter (`filled`) and the view built from exactly those. */
   #readFilled(world: CurationWorld, edition: Edition, shelf: Shelf): { filled: FilledShelf; view: ShelfView } {
     const edits = this.#edits(shelf);
-    const filled = fillAndMeter(this.db, world, shelf, edition, edits, false);
+    const filled = fillAndMeter(world, shelf, edition, readShelf(this.db, shelf, edition), edits, false);
     return { filled, view: shelfView(edition, shelf, filled, this.#item(world), this.editorial.entries(shelf.id), edits) };
   }
 
@@ -157,8 +157,10 @@ export class CurationService {
     const lists: Record<string, ListAround> = {};
     let propagate = reach === 'all';
     let view: ShelfView | undefined;
+    // Everything the fills read from the store, read before any shelf is filled and written.
+    const reads = new Map(shelves.map((s) => [s.id, readShelf(this.db, s, edition)]));
     for (const s of shelves) {
-      const storedIds = this.shelves.slots(s.id).map((r) => r.itemId);
+      const storedIds = reads.get(s.id)!.stored.map((r) => r.itemId);
       const stored = Int32Array.from(storedIds, dense);
       if (!propagate && s.id !== targetId) {
         for (const i of stored) if (i >= 0) earlier.add(i);
@@ -175,7 +177,7 @@ export class CurationService {
         const rescored = s.id === targetId && how.rescored ? how.rescored : undefined;
         mode = { current: stored, repair: true, measureGivenUp: s.id === targetId, ...(rescored && { rescored }) };
       }
-      const filled = fillAndMeter(this.db, world, s, edition, edits.get(s.id)!, mode, used);
+      const filled = fillAndMeter(world, s, edition, reads.get(s.id)!, edits.get(s.id)!, mode, used);
       const afterIds = filled.slots.map((r) => r.itemId);
       // An undone list that is still admissible comes back exactly, with the violations it had.
       const violations = restoring && sameList(afterIds, back.before) ? back.beforeViolations : filled.violations;

@@ -4,7 +4,7 @@
  * re-filled slots commit together or not at all (better-sqlite3 docs/api.md, .transaction).
  */
 import { meterEdition } from '../../core/curation/edition-meter.ts';
-import type { EditionMeter } from '../../core/curation/types.ts';
+import type { EditionMeter, RuleViolation } from '../../core/curation/types.ts';
 import { isDeepStrictEqual } from 'node:util';
 import { InputError, NotFoundError } from '../../core/errors.ts';
 import {
@@ -41,7 +41,7 @@ import { dialsFor } from './brief-dials.ts';
 import { dateMs } from '../../store/editions.ts';
 import { curationRepos } from './repos.ts';
 import { fillAndMeter, frozenDense, readShelf, type FilledShelf, type FillMode } from './shelf-fill.ts';
-import { listChanges } from '../../core/curation/stable-fill.ts';
+import { listChanges, type ListChanges } from '../../core/curation/stable-fill.ts';
 import { editionSnapshot, publishEdition } from './publish.ts';
 import { actionViews, changesView, shelfView, type EditionView, type ShelfView } from './views.ts';
 import { shelfWhatIf, type WhatIfView } from './whatif.ts';
@@ -156,9 +156,10 @@ export class CurationService {
     const earlier = new Set<number>();
     const lists: Record<string, ListAround> = {};
     let propagate = reach === 'all';
-    let view: ShelfView | undefined;
     // Everything the fills read from the store, read before any shelf is filled and written.
     const reads = new Map(shelves.map((s) => [s.id, readShelf(this.db, s, edition)]));
+    const writes: { shelfId: number; slots: FilledShelf['slots']; violations: RuleViolation[] }[] = [];
+    let target: { shelf: Shelf; filled: FilledShelf; changes: ListChanges } | undefined;
     for (const s of shelves) {
       const storedIds = reads.get(s.id)!.stored.map((r) => r.itemId);
       const stored = Int32Array.from(storedIds, dense);
@@ -181,7 +182,7 @@ export class CurationService {
       const afterIds = filled.slots.map((r) => r.itemId);
       // An undone list that is still admissible comes back exactly, with the violations it had.
       const violations = restoring && sameList(afterIds, back.before) ? back.beforeViolations : filled.violations;
-      this.shelves.replaceSlots(s.id, filled.slots, violations);
+      writes.push({ shelfId: s.id, slots: filled.slots, violations });
       if (!sameList(storedIds, afterIds)) {
         lists[String(s.id)] = { before: storedIds, beforeViolations: s.violations, after: afterIds };
       }
@@ -193,16 +194,17 @@ export class CurationService {
         if (!before.delete(i)) changed = true;
       }
       propagate = propagate || changed || before.size > 0;
-      if (s.id === targetId) {
-        const changes = filled.changes ?? listChanges(stored, filled.dense);
-        view = {
-          ...shelfView(edition, this.shelves.get(s.id), { ...filled, violations }, this.#item(world), this.editorial.entries(s.id), edits.get(s.id)!),
-          changes: changesView(changes, (i) => world.ds.items[i], this.shelves.get(s.id).brief),
-          relevanceGivenUp: filled.relevanceGivenUp ?? null,
-        };
-      }
+      if (s.id === targetId) target = { shelf: s, filled: { ...filled, violations }, changes: filled.changes ?? listChanges(stored, filled.dense) };
     }
-    if (!view) throw new NotFoundError(`no shelf with id ${targetId} in edition '${edition.label}'`);
+    if (!target) throw new NotFoundError(`no shelf with id ${targetId} in edition '${edition.label}'`);
+    // Then the writes, all after the fills: no fill above read a list written in this refill.
+    for (const w of writes) this.shelves.replaceSlots(w.shelfId, w.slots, w.violations);
+    const { shelf, filled, changes } = target;
+    const view: ShelfView = {
+      ...shelfView(edition, shelf, filled, this.#item(world), this.editorial.entries(shelf.id), edits.get(shelf.id)!),
+      changes: changesView(changes, (i) => world.ds.items[i], shelf.brief),
+      relevanceGivenUp: filled.relevanceGivenUp ?? null,
+    };
     return { view, lists };
   }
 

@@ -3,7 +3,7 @@ import { InputError } from '../core/errors.ts';
 import type { SignalKind } from '../core/types.ts';
 import { plural } from '../core/util/plural.ts';
 import { CatalogueWriter, logImport, type CustomerWrite, type ItemWrite, type SignalBatch } from '../store/catalogue-writes.ts';
-import type { Db } from '../store/workspace.ts';
+import { checkForeignKeys, foreignKeysChecked, type Db } from '../store/workspace.ts';
 import { beginWriteAsync, endWrite } from '../store/write-lock.ts';
 import { planColumns, type ColumnPlan, type ImportTarget, type Mapping } from './fields.ts';
 import { PictureIntake, type PendingPicture, type PictureReading, type PictureSummary } from './pictures.ts';
@@ -103,12 +103,12 @@ export async function runImport(db: Db, o: RunOptions): Promise<ImportReport> {
   // own transaction, so every reference is valid by construction; the per-row foreign-key probe cost ~40%
   // of insert time (measured). The pragma is a no-op inside a transaction (SQLite docs, "PRAGMA
   // foreign_keys"), hence set before BEGIN and restored after COMMIT or ROLLBACK.
-  const foreignKeys = db.pragma('foreign_keys', { simple: true }) as number;
-  if (o.target === 'signals' && foreignKeys) db.pragma('foreign_keys = OFF');
+  const foreignKeys = foreignKeysChecked(db);
+  if (o.target === 'signals' && foreignKeys) checkForeignKeys(db, false);
   try {
     return await inTransaction(db, o, format, started);
   } finally {
-    if (o.target === 'signals' && foreignKeys) db.pragma('foreign_keys = ON');
+    if (o.target === 'signals' && foreignKeys) checkForeignKeys(db, true);
   }
 }
 

@@ -3,7 +3,7 @@ import { generateDemoShop } from '../../demo-data/generator/index.ts';
 import { BugError, CancelledError, InputError, WorkspaceBusyError } from '../core/errors.ts';
 import { workspaceInUse } from '../store/in-use.ts';
 import { replaceRefusal } from '../store/replaceable.ts';
-import { openWorkspace } from '../store/workspace.ts';
+import { checkpointAndEmptyLog, openWorkspace } from '../store/workspace.ts';
 import { describeHolder } from '../store/write-lock.ts';
 import { importFile, type ImportReport } from './import.ts';
 import { makeTempFolder } from './temp-folders.ts';
@@ -106,7 +106,7 @@ export async function buildDemoWorkspace(file: string, options: DemoBuildOptions
         }
       }
       step('finishing');
-      db.pragma('wal_checkpoint(TRUNCATE)');
+      checkpointAndEmptyLog(db);
     } finally {
       db.close();
     }

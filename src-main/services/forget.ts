@@ -14,7 +14,7 @@
  */
 import { BugError, NotFoundError } from '../core/errors.ts';
 import { refuseWhileAppWrites } from '../store/write-lock.ts';
-import { raiseErasureGeneration, scrubFreedBytes, scrubImportLog } from '../store/erasure.ts';
+import { deleteCustomerAndSignals, deleteModelsOfKinds, raiseErasureGeneration, scrubFreedBytes, scrubImportLog } from '../store/erasure.ts';
 import { dataFingerprint, ModelRepo } from '../store/models.ts';
 import type { Db } from '../store/workspace.ts';
 
@@ -67,13 +67,10 @@ export function forgetCustomer(db: Db, externalId: string): ForgetReport {
  * in one and then scrubs the freed bytes, which must happen after the commit.
  */
 export function eraseCustomerRows(db: Db, externalId: string): Omit<ForgetReport, 'customer' | 'bytesRemoved' | 'message'> {
-  const row = db.prepare('SELECT id FROM customer WHERE external_id = ?').get(externalId) as { id: number } | undefined;
-  if (!row) throw new NotFoundError(`no customer with id '${externalId}'`);
-  const signals = db.prepare('DELETE FROM signal WHERE customer_id = ?').run(row.id).changes;
-  db.prepare('DELETE FROM customer WHERE id = ?').run(row.id);
-  const list = PER_CUSTOMER_KINDS.map(() => '?').join(',');
-  const kinds = db.prepare(`SELECT DISTINCT kind FROM model WHERE kind IN (${list})`).pluck().all(...PER_CUSTOMER_KINDS) as string[];
-  db.prepare(`DELETE FROM model WHERE kind IN (${list})`).run(...PER_CUSTOMER_KINDS);
+  const deleted = deleteCustomerAndSignals(db, externalId);
+  if (!deleted) throw new NotFoundError(`no customer with id '${externalId}'`);
+  const { signals } = deleted;
+  const kinds = deleteModelsOfKinds(db, PER_CUSTOMER_KINDS);
   const importLogScrubbed = scrubImportLog(db, externalId);
   raiseErasureGeneration(db);
   const now = dataFingerprint(db);

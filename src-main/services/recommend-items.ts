@@ -5,7 +5,7 @@
 import { DEFAULT_WEIGHTS } from '../core/editing/brief-schema.ts';
 import { NotFoundError } from '../core/errors.ts';
 import { DEFAULT_COLD_START_MIN_CUSTOMERS } from '../core/scoring/index.ts';
-import { ItemRepo, rowToItem, type ItemRow } from '../store/items.ts';
+import { ItemRepo, searchItemsByIdOrTitle } from '../store/items.ts';
 import type { Db } from '../store/workspace.ts';
 import { loadWorld } from './curation/world.ts';
 import { loadCurrentModels, storedModelSource } from './propose.ts';
@@ -71,25 +71,9 @@ export function similarItems(db: Db, externalId: string, n: number): { item: Ite
   return { item: brief(found), neighbours, notes };
 }
 
-/**
- * Items whose external id or title contains `query` (case-insensitive for ASCII, SQLite's LIKE). Order:
- * exact id, then id prefix, then title prefix, then the rest, each by title. LIKE's wildcards in the query
- * are escaped, so "50%" finds "50%" and nothing else.
- */
+/** The catalogue search (store/items.ts searchItemsByIdOrTitle), as briefs. */
 export function searchItems(db: Db, query: string, limit: number): ItemBrief[] {
-  const q = query.trim();
-  if (q === '') return [];
-  const esc = q.replace(/[\\%_]/g, (m) => `\\${m}`);
-  const rows = db
-    .prepare<{ q: string; any: string; prefix: string; limit: number }, ItemRow>(
-      `SELECT * FROM item
-       WHERE external_id LIKE @any ESCAPE '\\' OR title LIKE @any ESCAPE '\\'
-       ORDER BY CASE WHEN external_id = @q THEN 0 WHEN external_id LIKE @prefix ESCAPE '\\' THEN 1
-                     WHEN title LIKE @prefix ESCAPE '\\' THEN 2 ELSE 3 END, title, external_id
-       LIMIT @limit`,
-    )
-    .all({ q, any: `%${esc}%`, prefix: `${esc}%`, limit });
-  return rows.map((r) => brief(rowToItem(r)));
+  return searchItemsByIdOrTitle(db, query, limit).map(brief);
 }
 
 function brief(it: { externalId: string; title: string; category: string; promoted: boolean }): ItemBrief {

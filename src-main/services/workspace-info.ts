@@ -1,3 +1,4 @@
+import { countWorkspaceRows } from '../store/stats.ts';
 import { userVersion } from '../store/workspace.ts';
 import type { AppContext } from './context.ts';
 
@@ -14,13 +15,5 @@ export interface WorkspaceInfoResult {
 export function workspaceInfo(ctx: AppContext): WorkspaceInfoResult {
   if (!ctx.isOpen) return { open: false, file: null, schemaVersion: null, items: 0, customers: 0, signals: 0 };
   const db = ctx.db;
-  const count = (table: 'item' | 'customer' | 'signal') => db.prepare(`SELECT count(*) FROM ${table}`).pluck().get() as number;
-  return {
-    open: true,
-    file: ctx.file,
-    schemaVersion: userVersion(db),
-    items: count('item'),
-    customers: count('customer'),
-    signals: count('signal'),
-  };
+  return { open: true, file: ctx.file, schemaVersion: userVersion(db), ...countWorkspaceRows(db) };
 }

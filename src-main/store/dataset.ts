@@ -45,3 +45,13 @@ export function loadDataset(db: Db): Dataset {
     signals: { length: k, customer, item, kind, value, at },
   };
 }
+
+/**
+ * Only the external ids of items and customers, in the dense order every model follows (row id, as
+ * `loadDataset` reads them): placing a model's factors needs no titles.
+ */
+export function externalIdsInModelOrder(db: Db): { items: string[]; customers: string[] } {
+  const items = db.prepare('SELECT external_id FROM item ORDER BY id').pluck().all() as string[];
+  const customers = db.prepare('SELECT external_id FROM customer ORDER BY id').pluck().all() as string[];
+  return { items, customers };
+}

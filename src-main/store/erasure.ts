@@ -128,3 +128,24 @@ export function scrubImportLog(db: Db, externalId: string): number {
   }
   return changed;
 }
+
+/**
+ * Deletes a customer's signals and then the customer row (signals reference it). Returns how many signals went,
+ * or null when no customer has that id (nothing is changed). Call it inside the erasing transaction.
+ */
+export function deleteCustomerAndSignals(db: Db, externalId: string): { signals: number } | null {
+  const row = db.prepare('SELECT id FROM customer WHERE external_id = ?').get(externalId) as { id: number } | undefined;
+  if (!row) return null;
+  const signals = db.prepare('DELETE FROM signal WHERE customer_id = ?').run(row.id).changes;
+  db.prepare('DELETE FROM customer WHERE id = ?').run(row.id);
+  return { signals };
+}
+
+/** Deletes every stored model of the given kinds; returns the kinds that had at least one (unsorted). */
+export function deleteModelsOfKinds(db: Db, kinds: readonly string[]): string[] {
+  if (kinds.length === 0) return [];
+  const list = kinds.map(() => '?').join(',');
+  const found = db.prepare(`SELECT DISTINCT kind FROM model WHERE kind IN (${list})`).pluck().all(...kinds) as string[];
+  db.prepare(`DELETE FROM model WHERE kind IN (${list})`).run(...kinds);
+  return found;
+}

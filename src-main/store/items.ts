@@ -80,3 +80,24 @@ export class ItemRepo {
     return out;
   }
 }
+
+/**
+ * Items whose external id or title contains `query` (case-insensitive for ASCII, SQLite's LIKE). Order:
+ * exact id, then id prefix, then title prefix, then the rest, each by title. LIKE's wildcards in the query
+ * are escaped, so "50%" finds "50%" and nothing else. An empty (or blank) query finds nothing.
+ */
+export function searchItemsByIdOrTitle(db: Db, query: string, limit: number): Item[] {
+  const q = query.trim();
+  if (q === '') return [];
+  const esc = q.replace(/[\\%_]/g, (m) => `\\${m}`);
+  const rows = db
+    .prepare<{ q: string; any: string; prefix: string; limit: number }, ItemRow>(
+      `SELECT * FROM item
+       WHERE external_id LIKE @any ESCAPE '\\' OR title LIKE @any ESCAPE '\\'
+       ORDER BY CASE WHEN external_id = @q THEN 0 WHEN external_id LIKE @prefix ESCAPE '\\' THEN 1
+                     WHEN title LIKE @prefix ESCAPE '\\' THEN 2 ELSE 3 END, title, external_id
+       LIMIT @limit`,
+    )
+    .all({ q, any: `%${esc}%`, prefix: `${esc}%`, limit });
+  return rows.map(rowToItem);
+}

@@ -97,9 +97,8 @@ export class ShelfRepo {
     if (this.#byLabel.get(editionId, label)) {
       throw new InputError(`label: this edition already has a shelf called '${label}'`, { column: 'label' });
     }
-    const b = parseBrief(brief);
     const p = this.#nextPos.get(editionId)!.p;
-    const id = Number(this.#insert.run({ e: editionId, p, label, size: b.size, brief: JSON.stringify(b) }).lastInsertRowid);
+    const id = Number(this.#insert.run({ e: editionId, p, label, size: brief.size, brief: JSON.stringify(brief) }).lastInsertRowid);
     return this.get(id);
   }
 
@@ -120,8 +119,7 @@ export class ShelfRepo {
   }
 
   setBrief(id: number, brief: Brief): void {
-    const b = parseBrief(brief);
-    this.#setBrief.run({ id, size: b.size, brief: JSON.stringify(b) });
+    this.#setBrief.run({ id, size: brief.size, brief: JSON.stringify(brief) });
   }
 
   setLocked(id: number, locked: boolean): void {

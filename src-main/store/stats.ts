@@ -81,3 +81,9 @@ function longTailShare(db: Db, items: number, signals: number): number | null {
     .get(head) as number;
   return (signals - headSignals) / signals;
 }
+
+/** The three row counts a title bar shows; cheap (no scan beyond SQLite's count). */
+export function countWorkspaceRows(db: Db): { items: number; customers: number; signals: number } {
+  const count = (table: 'item' | 'customer' | 'signal') => db.prepare(`SELECT count(*) FROM ${table}`).pluck().get() as number;
+  return { items: count('item'), customers: count('customer'), signals: count('signal') };
+}

@@ -130,6 +130,21 @@ export function userVersion(db: Db): number {
   return db.pragma('user_version', { simple: true }) as number;
 }
 
+/** Moves the write-ahead log into the main file and empties it, so the file alone holds the workspace. */
+export function checkpointAndEmptyLog(db: Db): void {
+  db.pragma('wal_checkpoint(TRUNCATE)');
+}
+
+/** Whether SQLite checks foreign keys on this connection. */
+export function foreignKeysChecked(db: Db): boolean {
+  return (db.pragma('foreign_keys', { simple: true }) as number) === 1;
+}
+
+/** Turns foreign-key checks on or off; a no-op inside a transaction (SQLite docs, "PRAGMA foreign_keys"). */
+export function checkForeignKeys(db: Db, on: boolean): void {
+  db.pragma(`foreign_keys = ${on ? 'ON' : 'OFF'}`);
+}
+
 /** Tables every workspace has had since schema 1 (migrations/001-foundation.ts): how a workspace is told apart. */
 export const WORKSPACE_TABLES: readonly string[] = ['item', 'customer', 'signal', 'import_log'];
 

@@ -12,6 +12,7 @@ import { trainAndSave } from '../../src-main/services/train/train-job.ts';
 import { BlendRepo } from '../../src-main/store/blends.ts';
 import type { Db } from '../../src-main/store/workspace.ts';
 import { openSeeded } from './fixture.ts';
+import { parseBriefRequest } from '../../src-main/core/editing/brief-schema.ts';
 
 let opened: { db: Db; file: string } | undefined;
 afterEach(() => {
@@ -38,7 +39,7 @@ describe('anchor shelves draw on the validated blend (issue 10 item 4)', () => {
     const db = await trainedWith({ kind: 'single', model: 'ease', normalisation: 'zscore', weights: { ease: 1 }, coldContent: false });
     const service = new CurationService(db, curationModelSource, () => Date.parse('2026-03-01T12:00:00Z'));
     service.newEdition('w', '2026-03-02');
-    const view = service.addShelf('w', 'Related', { size: 8, anchors: [1, 6], weights: ONLY_COLLABORATIVE, lambda: 1 });
+    const view = service.addShelf('w', 'Related', parseBriefRequest({ size: 8, anchors: [1, 6], weights: ONLY_COLLABORATIVE, lambda: 1 }));
 
     // EASE's own scores for a customer holding the two anchors (Steck 2019, S = X·B; B itself is checked against
     // ml-matrix in test/models/ease.test.ts): the shelf must be their top 8.

@@ -3,6 +3,7 @@ import { backtestShelf } from '../../src-main/services/curation/backtest.ts';
 import { CurationService } from '../../src-main/services/curation/service.ts';
 import type { Db } from '../../src-main/store/workspace.ts';
 import { DAY, openSeeded } from './fixture.ts';
+import { parseBriefRequest } from '../../src-main/core/editing/brief-schema.ts';
 
 let db: Db | undefined;
 afterEach(() => db?.close());
@@ -14,7 +15,7 @@ describe('backtest', () => {
     ({ db } = openSeeded());
     const svc = new CurationService(db);
     svc.newEdition('w', '2026-03-02');
-    svc.addShelf('w', 'Front', { size: 5, include: { categories: ['teapots', 'lanterns'] } });
+    svc.addShelf('w', 'Front', parseBriefRequest({ size: 5, include: { categories: ['teapots', 'lanterns'] } }));
     const e = svc.editions.byLabel('w');
     const shelf = svc.shelves.byLabel(e.id, 'Front');
     const r = backtestShelf(svc.world(), shelf, svc.shelves.slots(shelf.id), 28);
@@ -53,7 +54,7 @@ describe('backtest', () => {
     ({ db } = openSeeded());
     const svc = new CurationService(db);
     svc.newEdition('w', '2026-03-02');
-    svc.addShelf('w', 'Teapot buyers', { size: 4, audience: { kind: 'rule', category: 'teapots', signalKinds: ['purchase'], withinDays: 90 } });
+    svc.addShelf('w', 'Teapot buyers', parseBriefRequest({ size: 4, audience: { kind: 'rule', category: 'teapots', signalKinds: ['purchase'], withinDays: 90 } }));
     const e = svc.editions.byLabel('w');
     const shelf = svc.shelves.byLabel(e.id, 'Teapot buyers');
     const r = backtestShelf(svc.world(), shelf, svc.shelves.slots(shelf.id), 28);

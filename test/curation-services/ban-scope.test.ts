@@ -8,6 +8,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import { CurationService } from '../../src-main/services/curation/service.ts';
 import type { Db } from '../../src-main/store/workspace.ts';
 import { openSeeded, SUPPLIERS } from './fixture.ts';
+import { parseBriefRequest } from '../../src-main/core/editing/brief-schema.ts';
 
 let db: Db | undefined;
 afterEach(() => db?.close());
@@ -17,8 +18,8 @@ function setup(): CurationService {
   let t = Date.parse('2026-03-01T09:00:00Z');
   const svc = new CurationService(db!, undefined, () => (t += 1000));
   svc.newEdition('w10', '2026-03-02');
-  svc.addShelf('w10', 'Front', { size: 6 });
-  svc.addShelf('w10', 'Side', { size: 4 });
+  svc.addShelf('w10', 'Front', parseBriefRequest({ size: 6 }));
+  svc.addShelf('w10', 'Side', parseBriefRequest({ size: 4 }));
   return svc;
 }
 

@@ -10,6 +10,7 @@ import { loadWorld } from '../../src-main/services/curation/world.ts';
 import { trainAndSave } from '../../src-main/services/train/train-job.ts';
 import type { Db } from '../../src-main/store/workspace.ts';
 import { openSeeded } from './fixture.ts';
+import { parseBriefRequest } from '../../src-main/core/editing/brief-schema.ts';
 
 let opened: { db: Db; file: string } | undefined;
 afterEach(() => {
@@ -34,7 +35,7 @@ const KITES = { kind: 'rule', category: 'kites', signalKinds: ['purchase', 'view
 describe('dials set per brief (issue 10 item 4)', () => {
   it('a new brief without weights gets dials that cost at most 5%, found from the editorial dials down', async () => {
     const service = await trained();
-    const view = service.addShelf('w', 'Kites', { size: 4, audience: KITES });
+    const view = service.addShelf('w', 'Kites', parseBriefRequest({ size: 4, audience: KITES }));
     const w = view.brief.weights;
     expect(view.brief.autoDials).toBeDefined();
     expect(view.brief.autoDials!.limit).toBe(DIAL_COST_LIMIT);
@@ -77,7 +78,7 @@ describe('dials set per brief (issue 10 item 4)', () => {
   it("never overwrites the editor's dials, and sets its own again when the audience changes", async () => {
     const service = await trained();
     const mine = { ...DEFAULT_WEIGHTS, popularity: 0.9, trend: 0.4, freshness: 0.4 };
-    const editor = service.addShelf('w', 'Mine', { size: 4, audience: KITES, weights: mine });
+    const editor = service.addShelf('w', 'Mine', parseBriefRequest({ size: 4, audience: KITES, weights: mine }));
     expect(editor.brief.weights).toEqual(mine);
     expect(editor.brief.autoDials).toBeUndefined();
     expect(describeAutoDials(editor.brief.autoDials, editor.brief.weights)).toBeNull();
@@ -86,7 +87,7 @@ describe('dials set per brief (issue 10 item 4)', () => {
     expect(moved.brief.weights).toEqual(mine);
     expect(moved.brief.autoDials).toBeUndefined();
 
-    const auto = service.addShelf('w', 'Auto', { size: 4, audience: KITES });
+    const auto = service.addShelf('w', 'Auto', parseBriefRequest({ size: 4, audience: KITES }));
     const first = auto.brief.autoDials!;
     // The same brief sent back unchanged (as the brief form does) keeps the dials set for it.
     const same = service.setBrief('w', 'Auto', { ...auto.brief, anchors: [], lambda: 0.6 });
@@ -102,7 +103,7 @@ describe('dials set per brief (issue 10 item 4)', () => {
     const turned = service.setBrief('w', 'Auto', { ...everyone.brief, anchors: [], weights: { ...everyone.brief.weights, popularity: 0.3 } });
     expect(turned.brief.weights.popularity).toBe(0.3);
     expect(turned.brief.autoDials).toBeUndefined();
-    const again = service.setBrief('w', 'Auto', { ...turned.brief, anchors: [], audience: KITES });
+    const again = service.setBrief('w', 'Auto', parseBriefRequest({ ...turned.brief, anchors: [], audience: KITES }));
     expect(again.brief.weights).toEqual(turned.brief.weights);
   }, 60_000);
 
@@ -110,7 +111,7 @@ describe('dials set per brief (issue 10 item 4)', () => {
     opened = openSeeded();
     const service = new CurationService(opened.db); // no models at all: nothing can say what is relevant
     service.newEdition('w', '2026-03-02');
-    const view = service.addShelf('w', 'Front', { size: 4 });
+    const view = service.addShelf('w', 'Front', parseBriefRequest({ size: 4 }));
     expect(view.brief.weights).toEqual(DEFAULT_WEIGHTS);
     expect(view.brief.autoDials).toEqual({ limit: DIAL_COST_LIMIT, cost: null });
     expect(describeAutoDials(view.brief.autoDials, view.brief.weights)).toMatch(/could not be set for this brief yet/);

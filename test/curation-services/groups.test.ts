@@ -12,6 +12,7 @@ import { dataFingerprint } from '../../src-main/store/models.ts';
 import { readGroupSettings } from '../../src-main/store/taste-groups.ts';
 import type { Db } from '../../src-main/store/workspace.ts';
 import { openSeeded } from './fixture.ts';
+import { parseBriefRequest } from '../../src-main/core/editing/brief-schema.ts';
 
 let db: Db | undefined;
 afterEach(() => db?.close());
@@ -66,7 +67,7 @@ describe('taste-group audiences', () => {
     // A shelf for one group.
     const svc = new CurationService(db, curationModelSource);
     svc.newEdition('w', '2026-03-02');
-    const v = svc.addShelf('w', 'For one group', { size: 4, audience: { kind: 'group', group: 0 } });
+    const v = svc.addShelf('w', 'For one group', parseBriefRequest({ size: 4, audience: { kind: 'group', group: 0 } }));
     expect(v.slots).toHaveLength(4);
   });
 
@@ -106,12 +107,12 @@ describe('taste-group audiences', () => {
     const before = lanternGroup();
     nameTasteGroup(db, world(db).ds, before, 'Lantern people');
     svc.newEdition('w', '2026-03-02');
-    const v = svc.addShelf('w', 'Lanterns', { size: 4, audience: { kind: 'group', group: before, name: 'Lantern people' } });
+    const v = svc.addShelf('w', 'Lanterns', parseBriefRequest({ size: 4, audience: { kind: 'group', group: before, name: 'Lantern people' } }));
     expect(v.violations.filter((x) => x.rule === 'audience')).toEqual([]);
     // Aimed by number at a group that has a name, the brief keeps the name; aimed by name, it gets the number.
-    const byNumber = svc.addShelf('w', 'By number', { size: 4, audience: { kind: 'group', group: before } });
+    const byNumber = svc.addShelf('w', 'By number', parseBriefRequest({ size: 4, audience: { kind: 'group', group: before } }));
     expect(byNumber.brief.audience).toEqual({ kind: 'group', group: before, name: 'Lantern people' });
-    const byName = svc.addShelf('w', 'By name', { size: 4, audience: { kind: 'group', group: 0, name: 'Lantern people' } });
+    const byName = svc.addShelf('w', 'By name', parseBriefRequest({ size: 4, audience: { kind: 'group', group: 0, name: 'Lantern people' } }));
     expect(byName.brief.audience).toEqual({ kind: 'group', group: before, name: 'Lantern people' });
     const reached = () => Array.from(audienceReadings(world(db!), svc.showEdition('w').shelves.find((s) => s.label === 'Lanterns')!.brief, dateMs('2026-03-02')).audience);
     expect(reached()).toEqual(lanternCustomers);
@@ -152,7 +153,7 @@ describe('taste-group audiences', () => {
     store(db, plantedIals(30, 40), 1);
     const svc = new CurationService(db, curationModelSource);
     svc.newEdition('w', '2026-03-02');
-    const v = svc.addShelf('w', 'Numbered', { size: 4, audience: { kind: 'group', group: 2 } });
+    const v = svc.addShelf('w', 'Numbered', parseBriefRequest({ size: 4, audience: { kind: 'group', group: 2 } }));
     expect(v.violations.filter((x) => x.rule === 'audience')).toEqual([]);
     const w = world(db);
     const members = Array.from(w.groups!.entries()).filter(([, g]) => g === 2).map(([d]) => d);

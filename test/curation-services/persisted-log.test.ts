@@ -3,6 +3,7 @@ import { seededRng } from '../../src-main/core/rng.ts';
 import { CurationService, type ActionRequest } from '../../src-main/services/curation/service.ts';
 import type { Db } from '../../src-main/store/workspace.ts';
 import { openSeeded } from './fixture.ts';
+import { parseBriefRequest } from '../../src-main/core/editing/brief-schema.ts';
 
 let db: Db | undefined;
 afterEach(() => db?.close());
@@ -25,8 +26,8 @@ describe('the stored action log', () => {
     ({ db } = openSeeded());
     const svc = new CurationService(db, undefined, () => 1_772_000_000_000);
     svc.newEdition('w', '2026-03-02');
-    svc.addShelf('w', 'A', { size: 5 });
-    svc.addShelf('w', 'B', { size: 4, rules: { quotas: [{ facet: 'category', max: 2 }] } });
+    svc.addShelf('w', 'A', parseBriefRequest({ size: 5 }));
+    svc.addShelf('w', 'B', parseBriefRequest({ size: 4, rules: { quotas: [{ facet: 'category', max: 2 }] } }));
     const start = editorialState(db);
     const rng = seededRng(42);
     const sku = () => `SKU-${String(1 + rng.int(40)).padStart(3, '0')}`;
@@ -68,7 +69,7 @@ describe('what-if', () => {
     ({ db } = openSeeded());
     const svc = new CurationService(db);
     svc.newEdition('w', '2026-03-02');
-    const v = svc.addShelf('w', 'A', { size: 5, rules: { promoted: { maxCount: 0 } } });
+    const v = svc.addShelf('w', 'A', parseBriefRequest({ size: 5, rules: { promoted: { maxCount: 0 } } }));
     expect(v.slots.every((s) => !s.promoted)).toBe(true);
     const r = svc.whatIf('w', 'A', 2, 40);
     const onShelf = new Set(v.slots.map((s) => s.item));

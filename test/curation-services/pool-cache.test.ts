@@ -10,6 +10,7 @@ import { trainAndSave } from '../../src-main/services/train/train-job.ts';
 import type { Db } from '../../src-main/store/workspace.ts';
 import { brief, state } from '../curation/helpers.ts';
 import { openSeeded } from './fixture.ts';
+import { parseBriefRequest } from '../../src-main/core/editing/brief-schema.ts';
 
 let db: Db;
 let file: string;
@@ -33,9 +34,9 @@ describe('remembered pools and scores (issue 4)', () => {
     let t = Date.parse('2026-03-01T09:00:00Z');
     const svc = new CurationService(db, curationModelSource, () => (t += 1000));
     svc.newEdition('w', '2026-03-02');
-    svc.addShelf('w', 'Front', { size: 8 });
-    svc.addShelf('w', 'Group', { size: 5, audience: { kind: 'group', group: 1 } });
-    svc.addShelf('w', 'Related', { size: 4, anchors: [3, 5] });
+    svc.addShelf('w', 'Front', parseBriefRequest({ size: 8 }));
+    svc.addShelf('w', 'Group', parseBriefRequest({ size: 5, audience: { kind: 'group', group: 1 } }));
+    svc.addShelf('w', 'Related', parseBriefRequest({ size: 4, anchors: [3, 5] }));
     const rng = seededRng(11);
     const sku = (i: number) => `SKU-${String(i).padStart(3, '0')}`;
     for (let step = 0; step < 60; step++) {

@@ -2,6 +2,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import { CurationService } from '../../src-main/services/curation/service.ts';
 import type { Db } from '../../src-main/store/workspace.ts';
 import { openSeeded } from './fixture.ts';
+import { parseBriefRequest } from '../../src-main/core/editing/brief-schema.ts';
 
 let db: Db | undefined;
 afterEach(() => db?.close());
@@ -18,7 +19,7 @@ describe('curation service', () => {
   it('fills a new shelf to its size with named items and a meter', () => {
     const svc = setup();
     svc.newEdition('week 10', '2026-03-02');
-    const v = svc.addShelf('week 10', 'Front', { size: 6 });
+    const v = svc.addShelf('week 10', 'Front', parseBriefRequest({ size: 6 }));
     expect(v.slots).toHaveLength(6);
     expect(v.slots.every((s) => s.item?.startsWith('SKU-'))).toBe(true);
     expect(new Set(items(v)).size).toBe(6);
@@ -29,7 +30,7 @@ describe('curation service', () => {
   it('pins, bans and boosts, and undoes each back to the earlier shelf', () => {
     const svc = setup();
     svc.newEdition('w', '2026-03-02');
-    const v0 = svc.addShelf('w', 'Front', { size: 5 });
+    const v0 = svc.addShelf('w', 'Front', parseBriefRequest({ size: 5 }));
     const v1 = svc.act('w', 'Front', { kind: 'pin', slot: 3, item: 'SKU-040' }, 'launch week');
     expect(v1.slots[2]).toMatchObject({ item: 'SKU-040', pinned: true, promoted: true });
     expect(v1.actions[0]).toMatchObject({ kind: 'pin', reason: 'launch week' });
@@ -50,7 +51,7 @@ describe('curation service', () => {
   it('keeps a locked shelf as it is while actions are recorded', () => {
     const svc = setup();
     svc.newEdition('w', '2026-03-02');
-    svc.addShelf('w', 'Front', { size: 4 });
+    svc.addShelf('w', 'Front', parseBriefRequest({ size: 4 }));
     const locked = svc.act('w', 'Front', { kind: 'lock' });
     expect(locked.slots.every((s) => s.percentile !== null)).toBe(true);
     const after = svc.act('w', 'Front', { kind: 'ban', item: locked.slots[0]!.item!, scope: 'shelf' });
@@ -65,8 +66,8 @@ describe('curation service', () => {
   it('bans a category by rule across the edition', () => {
     const svc = setup();
     svc.newEdition('w', '2026-03-02');
-    svc.addShelf('w', 'A', { size: 4 });
-    svc.addShelf('w', 'B', { size: 4 });
+    svc.addShelf('w', 'A', parseBriefRequest({ size: 4 }));
+    svc.addShelf('w', 'B', parseBriefRequest({ size: 4 }));
     svc.act('w', 'A', { kind: 'banRule', facet: 'category', value: 'teapots', scope: 'edition' });
     const b = svc.fill('w', 'B');
     expect(b.slots.every((s) => s.category !== 'teapots')).toBe(true);
@@ -75,7 +76,7 @@ describe('curation service', () => {
   it('publishes a read-only edition and rests its items in the next one', () => {
     const svc = setup();
     svc.newEdition('w10', '2026-03-02');
-    const front = svc.addShelf('w10', 'Front', { size: 5, rules: { restPeriod: 1 } });
+    const front = svc.addShelf('w10', 'Front', parseBriefRequest({ size: 5, rules: { restPeriod: 1 } }));
     const snap = svc.publish('w10');
     expect(snap.shelves[0]!.slots.map((s) => s.externalId)).toEqual(items(front));
     expect(() => svc.act('w10', 'Front', { kind: 'lock' })).toThrow(/published and read-only/);
@@ -99,7 +100,7 @@ describe('curation service', () => {
     expect(() => svc.newEdition('w', '2026-02-30')).toThrow(/date: expected a calendar date/);
     svc.newEdition('w', '2026-03-02');
     expect(() => svc.newEdition('w', '2026-03-03')).toThrow(/already exists/);
-    svc.addShelf('w', 'Front', { size: 3 });
+    svc.addShelf('w', 'Front', parseBriefRequest({ size: 3 }));
     expect(() => svc.act('w', 'Front', { kind: 'pin', slot: 1, item: 'NOPE' })).toThrow(/no item with id 'NOPE'/);
     expect(() => svc.act('w', 'Front', { kind: 'pin', slot: 4, item: 'SKU-001' })).toThrow(/slot must be between 1 and 3, got 4/);
     // The failed action changed nothing.
@@ -109,11 +110,11 @@ describe('curation service', () => {
   it('refuses a category, supplier or tag no item carries, in a brief or a ban, and changes nothing', () => {
     const svc = setup();
     svc.newEdition('w', '2026-03-02');
-    expect(() => svc.addShelf('w', 'Front', { size: 4, include: { categories: ['teapot'] } })).toThrow(
+    expect(() => svc.addShelf('w', 'Front', parseBriefRequest({ size: 4, include: { categories: ['teapot'] } }))).toThrow(
       "Only these categories, entry 1 (categories): no item has the category 'teapot' (did you mean 'teapots'?)",
     );
     expect(svc.showEdition('w').shelves).toHaveLength(0);
-    const v = svc.addShelf('w', 'Front', { size: 4 });
+    const v = svc.addShelf('w', 'Front', parseBriefRequest({ size: 4 }));
     expect(() => svc.act('w', 'Front', { kind: 'banRule', facet: 'category', value: 'kite', scope: 'shelf' })).toThrow(/did you mean 'kites'/);
     expect(svc.fill('w', 'Front', false).slots).toEqual(v.slots);
     expect(svc.fill('w', 'Front', false).actions).toHaveLength(0);

@@ -6,6 +6,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import { CurationService } from '../../src-main/services/curation/service.ts';
 import type { Db } from '../../src-main/store/workspace.ts';
 import { openSeeded } from './fixture.ts';
+import { parseBriefRequest } from '../../src-main/core/editing/brief-schema.ts';
 
 let db: Db | undefined;
 afterEach(() => db?.close());
@@ -25,7 +26,7 @@ const changedOthers = (a: (string | null)[], b: (string | null)[], self: string)
 describe('the editor\'s desk (issue 12)', () => {
   it('a pin puts its item in its slot, shifts the rest down by one, and only the last item leaves', () => {
     const svc = setup();
-    const v0 = svc.addShelf('w', 'Front', { size: 8 });
+    const v0 = svc.addShelf('w', 'Front', parseBriefRequest({ size: 8 }));
     const before = items(v0);
     const off = Array.from({ length: 40 }, (_, k) => `SKU-${String(k + 1).padStart(3, '0')}`).find((s) => !before.includes(s))!;
     const v1 = svc.act('w', 'Front', { kind: 'pin', slot: 2, item: off });
@@ -40,7 +41,7 @@ describe('the editor\'s desk (issue 12)', () => {
 
   it('a ban brings exactly one replacement into the banned slot; boost and sink keep the membership', () => {
     const svc = setup();
-    const v0 = svc.addShelf('w', 'Front', { size: 8 });
+    const v0 = svc.addShelf('w', 'Front', parseBriefRequest({ size: 8 }));
     const before = items(v0);
     const v1 = svc.act('w', 'Front', { kind: 'ban', item: before[3]!, scope: 'shelf' });
     expect(changedOthers(before, items(v1), before[3]!)).toBe(1);
@@ -66,7 +67,7 @@ describe('the editor\'s desk (issue 12)', () => {
 
   it('only Refill starts over: after it the list is what a new shelf of the same brief and edits gets', () => {
     const svc = setup();
-    const v0 = svc.addShelf('w', 'Front', { size: 6 });
+    const v0 = svc.addShelf('w', 'Front', parseBriefRequest({ size: 6 }));
     const off = Array.from({ length: 40 }, (_, k) => `SKU-${String(k + 1).padStart(3, '0')}`).find((s) => !items(v0).includes(s))!;
     svc.act('w', 'Front', { kind: 'pin', slot: 1, item: off });
     const kept = svc.act('w', 'Front', { kind: 'unpin', slot: 1 });
@@ -83,7 +84,7 @@ describe('the editor\'s desk (issue 12)', () => {
 describe('each verb does what its name says (issue 12)', () => {
   it('the log names verb, item, slots and factor', () => {
     const svc = setup();
-    const v0 = svc.addShelf('w', 'Front', { size: 8 });
+    const v0 = svc.addShelf('w', 'Front', parseBriefRequest({ size: 8 }));
     const second = v0.slots[1]!;
     const v1 = svc.act('w', 'Front', { kind: 'boost', item: second.item!, factor: 0.01 });
     const to = items(v1).indexOf(second.item) + 1;
@@ -96,7 +97,7 @@ describe('each verb does what its name says (issue 12)', () => {
 
   it('a ban is listed and lifted; refill and fill-from-anchors undo like any action; a new action clears redo', () => {
     const svc = setup();
-    const v0 = svc.addShelf('w', 'Front', { size: 5 });
+    const v0 = svc.addShelf('w', 'Front', parseBriefRequest({ size: 5 }));
     const banned = v0.slots[2]!;
     const v1 = svc.act('w', 'Front', { kind: 'ban', item: banned.item!, scope: 'shelf' });
     expect(v1.bans).toEqual([{ item: banned.item, title: banned.title, scope: 'shelf', reach: 'this shelf' }]);

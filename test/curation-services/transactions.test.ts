@@ -3,6 +3,7 @@ import { CurationService } from '../../src-main/services/curation/service.ts';
 import { ShelfRepo } from '../../src-main/store/shelves.ts';
 import type { Db } from '../../src-main/store/workspace.ts';
 import { openSeeded } from './fixture.ts';
+import { parseBriefRequest } from '../../src-main/core/editing/brief-schema.ts';
 
 let db: Db | undefined;
 afterEach(() => db?.close());
@@ -18,13 +19,13 @@ describe('curation writes', () => {
     ({ db } = openSeeded());
     const svc = new CurationService(db);
     svc.newEdition('w', '2026-03-02');
-    svc.addShelf('w', 'Front', { size: 4 });
+    svc.addShelf('w', 'Front', parseBriefRequest({ size: 4 }));
     svc.act('w', 'Front', { kind: 'pin', slot: 1, item: 'SKU-003' });
     const before = dump(db);
     // All-zero weights pass the schema (each is >= 0) but leave the scorer nothing to blend: the error is
     // thrown by the fill, after the new brief was written inside the transaction.
     const zero = { content: 0, collaborative: 0, audience: 0, popularity: 0, trend: 0, freshness: 0 };
-    expect(() => svc.setBrief('w', 'Front', { size: 6, weights: zero })).toThrow(/blend weights leave nothing to score with/);
+    expect(() => svc.setBrief('w', 'Front', parseBriefRequest({ size: 6, weights: zero }))).toThrow(/blend weights leave nothing to score with/);
     expect(dump(db)).toEqual(before);
   });
 
@@ -32,7 +33,7 @@ describe('curation writes', () => {
     ({ db } = openSeeded());
     const svc = new CurationService(db);
     svc.newEdition('w', '2026-03-02');
-    svc.addShelf('w', 'Front', { size: 4 });
+    svc.addShelf('w', 'Front', parseBriefRequest({ size: 4 }));
     db.prepare(`UPDATE shelf SET brief = json_set(brief, '$.lambda', 7)`).run();
     expect(() => new ShelfRepo(db!).byLabel(1, 'Front')).toThrow(/lambda/);
   });

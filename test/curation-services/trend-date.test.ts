@@ -4,6 +4,7 @@ import { CurationService } from '../../src-main/services/curation/service.ts';
 import { loadWorld, noModels, trendFor } from '../../src-main/services/curation/world.ts';
 import type { Db } from '../../src-main/store/workspace.ts';
 import { DAY, openSeeded } from './fixture.ts';
+import { parseBriefRequest } from '../../src-main/core/editing/brief-schema.ts';
 
 let db: Db | undefined;
 afterEach(() => db?.close());
@@ -27,7 +28,7 @@ describe('the trend an edition is scored with', () => {
   it('fills a shelf of a back-dated edition as its date allows, and differently from one dated after the data', () => {
     ({ db } = openSeeded());
     const svc = new CurationService(db);
-    const brief = { size: 5, weights: { content: 0, collaborative: 0, audience: 0, popularity: 0, trend: 1, freshness: 0 } };
+    const brief = parseBriefRequest({ size: 5, weights: { content: 0, collaborative: 0, audience: 0, popularity: 0, trend: 1, freshness: 0 } });
     // Every fixture item exists by 26 February (the newest is added four days before 1 March), so only the
     // trend can tell the two editions apart (checked: with the end-of-history trend for both, they match).
     svc.newEdition('back', '2026-02-26');

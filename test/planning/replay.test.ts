@@ -4,6 +4,7 @@ import { DAY_MS } from '../../src-main/core/types.ts';
 import { CurationService } from '../../src-main/services/curation/service.ts';
 import { PlanService } from '../../src-main/services/planning/service.ts';
 import { openSeeded } from '../curation-services/fixture.ts';
+import { parseBriefRequest } from '../../src-main/core/editing/brief-schema.ts';
 
 describe('replaying a plan on history', () => {
   it('counts, per week, the active audience and who touched a planned item (hand-counted)', () => {
@@ -31,7 +32,7 @@ describe('replaying a plan on history', () => {
     const { db } = openSeeded();
     const cur = new CurationService(db);
     cur.newEdition('week 9', '2026-02-23');
-    cur.addShelf('week 9', 'Front', { size: 4 });
+    cur.addShelf('week 9', 'Front', parseBriefRequest({ size: 4 }));
     const b = await new PlanService(db).backtest({ shelf: 'Front', weeks: 3, horizon: { restWeeks: 0, maxAppearances: 3 } });
     expect(b.weeks.map((w) => w.date)).toEqual(['2026-02-08', '2026-02-15', '2026-02-22']);
     for (const w of b.weeks) {

@@ -5,13 +5,14 @@ import { curationRepos } from '../../src-main/services/curation/repos.ts';
 import { buildPlan } from '../../src-main/services/planning/build.ts';
 import { PlanService } from '../../src-main/services/planning/service.ts';
 import { openSeeded } from '../curation-services/fixture.ts';
+import { parseBriefRequest } from '../../src-main/core/editing/brief-schema.ts';
 
 function shop() {
   const { db } = openSeeded();
   const cur = new CurationService(db);
   cur.newEdition('week 9', '2026-02-23');
-  cur.addShelf('week 9', 'Front', { size: 4, rules: { restPeriod: 1, quotas: [{ facet: 'category', max: 2 }] } });
-  cur.addShelf('week 9', 'Gifts', { size: 3, include: { tags: ['gift'] } });
+  cur.addShelf('week 9', 'Front', parseBriefRequest({ size: 4, rules: { restPeriod: 1, quotas: [{ facet: 'category', max: 2 }] } }));
+  cur.addShelf('week 9', 'Gifts', parseBriefRequest({ size: 3, include: { tags: ['gift'] } }));
   return { db, svc: new PlanService(db) };
 }
 

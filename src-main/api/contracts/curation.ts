@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { TargetsShape } from '../../core/curation/target-schema.ts';
-import { BriefSchema } from '../../core/editing/brief-schema.ts';
+import { BriefRequestSchema, BriefSchema } from '../../core/editing/brief-schema.ts';
 import { method } from '../define.ts';
 import { ReasonView } from './reason.ts';
 
@@ -61,15 +61,14 @@ export const SlotView = z.object({
 export const ViolationView = z.object({ rule: z.string(), reason: z.string(), title: z.string() });
 
 /** A brief as the api speaks it: anchors named by the shop's item ids (the store keeps row ids). */
-export const ApiBrief = BriefSchema.extend({
-  anchors: z.array(z.string().trim().min(1, 'name each anchor by its item id')).default([]),
-});
+const anchorIds = z.array(z.string().trim().min(1, 'name each anchor by its item id')).default([]);
+export const ApiBrief = BriefSchema.extend({ anchors: anchorIds });
 
 /**
- * A brief as a request carries it: weights left out mean "set the dials for this brief"
- * (services/curation/brief-dials.ts), so they get no default here; `autoDials` is the service's to set.
+ * A brief as a request carries it (core/editing/brief-schema.ts BriefRequestSchema: weights left out mean "set
+ * the dials for this brief"), anchors named by item ids. This is the one parse of a brief on its way in.
  */
-export const ApiBriefRequest = ApiBrief.extend({ weights: BriefSchema.shape.weights.unwrap().optional() });
+export const ApiBriefRequest = BriefRequestSchema.extend({ anchors: anchorIds });
 
 const Named = { item: z.string(), title: z.string() };
 export const ChangesView = z.object({

@@ -1,3 +1,5 @@
+import type { z } from 'zod';
+import type { BriefRequest } from '../../core/editing/brief-schema.ts';
 import { anchorExternalIds, anchorRowIds } from '../../services/curation/anchors.ts';
 import { backtestShelf } from '../../services/curation/backtest.ts';
 import { curationRepos } from '../../services/curation/repos.ts';
@@ -11,7 +13,7 @@ import type { AppContext } from '../../services/context.ts';
 import { forgetCustomer } from '../../services/forget.ts';
 import type { ResponseOf } from '../contract.ts';
 import type { Handler } from '../handler-table.ts';
-import type { ShelfAction } from '../contracts/curation.ts';
+import type { ApiBriefRequest, ShelfAction } from '../contracts/curation.ts';
 
 /** NaN and ±Infinity (a reading with no data) become null: JSON has no NaN, and the schemas say null. */
 export function finite<T>(v: T): T {
@@ -57,7 +59,9 @@ type Names =
 
 export function curationHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
   const svc = () => new CurationService(ctx.db, curationModelSource);
-  const withAnchorIds = <B extends { anchors: string[] }>(b: B) => ({ ...b, anchors: anchorRowIds(ctx.db, b.anchors) });
+  // The request's brief was parsed by the contract (ApiBriefRequest, built on core's BriefRequestSchema); only
+  // its anchors change here, from item ids to row ids, so it is the core type (as core's parseBriefRequest casts).
+  const withAnchorIds = (b: z.output<typeof ApiBriefRequest>) => ({ ...b, anchors: anchorRowIds(ctx.db, b.anchors) }) as BriefRequest;
   const apiShelf = (v: ShelfView) => ({ ...v, brief: { ...v.brief, anchors: anchorExternalIds(ctx.db, v.brief.anchors) } });
   const shelf = (v: ShelfView) => finite(apiShelf(v)) as unknown as ResponseOf<'shelf.show'>;
   const edition = (v: EditionView) => finite({ ...v, shelves: v.shelves.map(apiShelf) }) as unknown as ResponseOf<'edition.show'>;

@@ -23,14 +23,16 @@
  * few candidates near the top, instead of O(pool × dim); the picks are the same as the full update's
  * (test/curation-services/fill-lazy.test.ts checks them against it).
  */
-import { BugError, InputError } from '../errors.ts';
+import { BugError } from '../errors.ts';
 import { log2Discounts } from '../metrics/discount.ts';
 import { checkBrief } from './brief-check.ts';
 import type { EditorialState } from './candidates.ts';
-import { compileFilters, exclusionReasons } from './candidates.ts';
+import { compileFilters } from './candidates.ts';
 import type { CurationContext } from './context.ts';
 import { checkFinished, ViolationLog } from './fill-report.ts';
+import { forEachPin } from './pins.ts';
 import { QuotaCounter } from './quota-counter.ts';
+import { promotedCountBounds } from './share-counts.ts';
 import type { Brief, Candidate, FillResult } from './types.ts';
 
 export interface FillInput {
@@ -54,8 +56,7 @@ export function fillShelf(input: FillInput): FillResult {
   const disc = log2Discounts(n);
   let totalDisc = 0;
   for (let r = 0; r < n; r++) totalDisc += disc[r] as number;
-  const maxCount = promo.maxCount === undefined ? n : Math.floor(promo.maxCount * n + EPS);
-  const minCount = promo.minCount === undefined ? 0 : Math.ceil(promo.minCount * n - EPS);
+  const { minCount, maxCount } = promotedCountBounds(promo, n);
   const maxExp = promo.maxExposure === undefined ? Infinity : promo.maxExposure * totalDisc + EPS;
   const minExp = promo.minExposure === undefined ? 0 : promo.minExposure * totalDisc - EPS;
 
@@ -113,28 +114,14 @@ export function fillShelf(input: FillInput): FillResult {
   const cf = compileFilters(ctx, brief, state, input.editionDate);
   const pinnedSlots = new Set<number>();
   const pinnedItems = new Set<number>();
-  for (const [slot, item] of [...state.pins].sort((a, b) => a[0] - b[0])) {
-    if (!Number.isInteger(slot) || slot < 0 || slot >= n) {
-      throw new InputError(`pin: slot ${slot + 1} is outside the shelf of ${n} slots`, { column: 'pins' });
-    }
-    if (!Number.isInteger(item) || item < 0 || item >= ctx.n) throw new BugError(`fill: pinned item index ${item}`);
-    if (pinnedItems.has(item)) {
-      throw new InputError(`pin: item ${ctx.externalIds[item]} is pinned to two slots`, { column: 'pins' });
-    }
+  forEachPin(ctx, cf, state, n, log, (slot, item, label) => {
     pinnedItems.add(item);
-    const label = `slot ${slot + 1}: item ${ctx.externalIds[item]}`;
-    const why = exclusionReasons(ctx, cf, state, item);
-    if (why[0] === 'outOfStock') {
-      log.add('pin', `${label} is out of stock; the pin is not applied`);
-      continue;
-    }
-    if (why.length > 0) log.add('pin', `${label} is kept by its pin although it breaks: ${why.join(', ')}`);
     for (const b of quotas.breaches(item)) log.add(b.name, `${label} is pinned beyond the limit (${b.value})`);
     const k = slotOfCand.get(item);
     const r = k === undefined ? 0 : (rel[k] as number);
     pinnedSlots.add(slot);
     place(slot, item, lambda * r - (1 - lambda) * (placedCount === 0 ? 0 : maxSimTo(ctx, item, slots)));
-  }
+  });
 
   // Pinned and out-of-stock candidates are never proposed: drop them from every scan at once.
   for (let k = 0; k < m; k++) {

@@ -14,7 +14,7 @@
  *     the breach most is made (fewest items changed), each reported with the rule that forced it.
  * What the list gives up against a full fill is measured by the caller (the meter's predicted relevance).
  */
-import { BugError, InputError } from '../errors.ts';
+import { BugError } from '../errors.ts';
 import { log2Discounts } from '../metrics/discount.ts';
 import { checkBrief } from './brief-check.ts';
 import { compileFilters, exclusionReasons } from './candidates.ts';
@@ -23,7 +23,9 @@ import { similarity } from './context.ts';
 import type { FillInput } from './fill.ts';
 import { checkFinished, ViolationLog } from './fill-report.ts';
 import { mmrObjective } from './mmr.ts';
+import { forEachPin } from './pins.ts';
 import { QuotaCounter, quotaName } from './quota-counter.ts';
+import { promotedCountBounds } from './share-counts.ts';
 import type { Brief, FillResult } from './types.ts';
 
 export interface StableFillInput extends FillInput {
@@ -78,23 +80,7 @@ export function stableFill(input: StableFillInput): StableFillResult {
   const log = new ViolationLog();
   const cf = compileFilters(ctx, brief, state, input.editionDate);
   const pins = new Map<number, number>();
-  for (const [slot, item] of [...state.pins].sort((a, b) => a[0] - b[0])) {
-    if (!Number.isInteger(slot) || slot < 0 || slot >= n) {
-      throw new InputError(`pin: slot ${slot + 1} is outside the shelf of ${n} slots`, { column: 'pins' });
-    }
-    if (!Number.isInteger(item) || item < 0 || item >= ctx.n) throw new BugError(`fill: pinned item index ${item}`);
-    if ([...pins.values()].includes(item)) {
-      throw new InputError(`pin: item ${ctx.externalIds[item]} is pinned to two slots`, { column: 'pins' });
-    }
-    const label = `slot ${slot + 1}: item ${ctx.externalIds[item]}`;
-    const why = exclusionReasons(ctx, cf, state, item);
-    if (why[0] === 'outOfStock') {
-      log.add('pin', `${label} is out of stock; the pin is not applied`);
-      continue;
-    }
-    if (why.length > 0) log.add('pin', `${label} is kept by its pin although it breaks: ${why.join(', ')}`);
-    pins.set(slot, item);
-  }
+  forEachPin(ctx, cf, state, n, log, (slot, item) => pins.set(slot, item));
   const pinnedItems = new Set(pins.values());
 
   // The unpinned items of the current list in order; -1 marks a slot opened by an item that must leave.
@@ -288,8 +274,7 @@ function ruleBook(ctx: CurationContext, brief: Brief): (slots: Int32Array) => Br
   const disc = log2Discounts(n);
   let totalDisc = 0;
   for (let s = 0; s < n; s++) totalDisc += disc[s] as number;
-  const maxCount = promo.maxCount === undefined ? n : Math.floor(promo.maxCount * n + EPS);
-  const minCount = promo.minCount === undefined ? 0 : Math.ceil(promo.minCount * n - EPS);
+  const { minCount, maxCount } = promotedCountBounds(promo, n);
   const maxExp = promo.maxExposure === undefined ? Infinity : promo.maxExposure * totalDisc;
   const minExp = promo.minExposure === undefined ? 0 : promo.minExposure * totalDisc;
   const quotas = brief.rules.quotas.map((q) => ({

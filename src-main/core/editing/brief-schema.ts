@@ -1,7 +1,8 @@
 /**
- * The brief as a zod schema: a brief crosses every boundary (the editor's form, a CLI flag, the JSON
- * stored with a shelf), so it is parsed on the way in and on the way out of the store. Defaults give a
- * usable brief from just a size. The rule checks with field names live in curation/brief-check.ts.
+ * The brief as a zod schema, the one parser of a brief. A request's brief (the editor's form, a CLI flag) is
+ * parsed once, by the api contract built on BriefRequestSchema; the service and the store take the parsed type.
+ * The JSON stored with a shelf is parsed on its way out of the store (older rows get newer fields' defaults).
+ * Defaults give a usable brief from just a size. The rule checks with field names live in curation/brief-check.ts.
  */
 import { z } from 'zod';
 import { TargetsSchema } from '../curation/target-schema.ts';
@@ -97,4 +98,23 @@ export type BriefInput = z.input<typeof BriefSchema>;
 /** Parses a brief (throws ZodError naming the field); the output is the core Brief type. */
 export function parseBrief(input: unknown): Brief {
   return BriefSchema.parse(input) as Brief;
+}
+
+/**
+ * A brief as a request to add a shelf or change its brief carries it: weights left out mean "set the dials for
+ * this brief" (services/curation/brief-dials.ts), so they get no default. The api contract extends this schema
+ * (anchors named by item ids) and parses it once; the service and the store take the parsed type.
+ */
+export const BriefRequestSchema = BriefSchema.extend({ weights: BriefSchema.shape.weights.unwrap().optional() });
+
+export type BriefRequest = Omit<Brief, 'weights'> & { weights?: Brief['weights'] };
+
+/** Parses a brief request (throws ZodError naming the field), for callers that do not come through the api. */
+export function parseBriefRequest(input: unknown): BriefRequest {
+  return BriefRequestSchema.parse(input) as BriefRequest;
+}
+
+/** The brief a request asks for, with the default dials where it gave none. */
+export function withDefaultWeights(b: BriefRequest): Brief {
+  return { ...b, weights: b.weights ?? DEFAULT_WEIGHTS };
 }

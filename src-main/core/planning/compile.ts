@@ -1,17 +1,14 @@
 /**
  * The plan's rules as numbers the solvers read: slot counts, promoted bounds, quota groups, supplier floors and
  * caps, the sponsored cap per week, and which (shelf, week, candidate) may be chosen at all. Shares become slot
- * counts as the fill rounds them (core/curation/fill.ts: a cap rounds down, a floor up, with a 1e-9 allowance
- * so 0.25 × 24 is exactly 6). The independent checker (check.ts) does not use this file.
+ * counts by the fill's one rounding (core/curation/share-counts.ts). The independent checker (check.ts) does not use this file.
  */
 import { InputError } from '../errors.ts';
 import { checkBrief } from '../curation/brief-check.ts';
 import { quotaName } from '../curation/quota-counter.ts';
+import { capOf, floorOf, promotedCountBounds } from '../curation/share-counts.ts';
 import type { PlanInstance } from './types.ts';
 
-const EPS = 1e-9;
-export const capOf = (share: number, n: number): number => Math.floor(share * n + EPS);
-export const floorOf = (share: number, n: number): number => Math.ceil(share * n - EPS);
 
 /** "At most `max` of `members` on shelf `shelf` each week": one quota and one facet value. */
 export interface QuotaGroup {
@@ -92,8 +89,9 @@ export function compilePlan(inst: PlanInstance): CompiledPlan {
   let perWeek = 0;
   for (const k of sizes) perWeek += k;
   const totalSlots = perWeek * N;
-  const promotedMin = Int32Array.from(shelves, (s) => (s.rules.promoted.minCount === undefined ? 0 : floorOf(s.rules.promoted.minCount, s.size)));
-  const promotedMax = Int32Array.from(shelves, (s) => (s.rules.promoted.maxCount === undefined ? s.size : capOf(s.rules.promoted.maxCount, s.size)));
+  const bounds = shelves.map((s) => promotedCountBounds(s.rules.promoted, s.size));
+  const promotedMin = Int32Array.from(bounds, (b) => b.minCount);
+  const promotedMax = Int32Array.from(bounds, (b) => b.maxCount);
   const promoted = Uint8Array.from(candidates, (i) => ctx.promoted[i]!);
   const supplier = Int32Array.from(candidates, (i) => ctx.supplier[i]!);
 

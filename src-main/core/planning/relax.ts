@@ -6,7 +6,7 @@
  * alone restores feasibility. When none does alone, every family is relaxed to its loosest at once and the
  * answer says so. Pins and locks are the editor's word: they are relaxed last, as a family of their own.
  */
-import { capOf, floorOf } from './compile.ts';
+import { capOf, floorOf } from '../curation/share-counts.ts';
 import { solveExact, type LpSolver } from './milp.ts';
 import type { PlanInstance, RuleFamily } from './types.ts';
 

@@ -18,7 +18,7 @@ import { allocateIals, IalsModel } from '../../core/models/ials.ts';
 import { transpose } from '../../core/matrix/csr.ts';
 import { equivalentRegularization, importedIalsParams, parseAlsMetadata, type SparkAlsMetadata } from '../../core/models/spark-als.ts';
 import type { Dataset } from '../../core/types.ts';
-import { loadDataset } from '../../store/dataset.ts';
+import { externalIdsInModelOrder, loadDataset } from '../../store/dataset.ts';
 import { erasureGeneration } from '../../store/erasure.ts';
 import { dataFingerprint, type ModelOrigin, type ModelRecord } from '../../store/models.ts';
 import type { Db } from '../../store/workspace.ts';
@@ -184,8 +184,7 @@ async function placeIds(db: Db, exportDir: string, manifest: ExportManifest) {
   db.transaction(() => {
     generation = erasureGeneration(db);
     fingerprintNow = dataFingerprint(db);
-    itemExternal = db.prepare('SELECT external_id FROM item ORDER BY id').pluck().all() as string[];
-    customerExternal = db.prepare('SELECT external_id FROM customer ORDER BY id').pluck().all() as string[];
+    ({ items: itemExternal, customers: customerExternal } = externalIdsInModelOrder(db));
   }).deferred();
   if (generation !== manifest.erasureGeneration) {
     throw new InputError(

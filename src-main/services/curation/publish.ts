@@ -8,36 +8,40 @@ import type { EditionSnapshot } from '../../core/editing/snapshot.ts';
 import { InputError } from '../../core/errors.ts';
 import type { CurationService } from './service.ts';
 
-/** The edition as it stands, in snapshot form; `publishedAt` 0 for a draft. */
+/**
+ * The edition as it stands, in snapshot form; `publishedAt` 0 for a draft. Built from one read of each shelf
+ * (CurationService.readEdition): the row ids come from the same slots the names and meter were read from.
+ */
 function snapshotNow(svc: CurationService, label: string, publishedAt: number): EditionSnapshot {
-  const view = svc.showEdition(label);
+  const { edition, shelves, meter } = svc.readEdition(label);
   return {
-    edition: { id: view.id, label: view.label, date: view.date },
+    edition: { id: edition.id, label: edition.label, date: edition.date },
     publishedAt,
-    editionMeter: view.meter,
-    shelves: view.shelves.map((s) => {
-      const rows = svc.shelves.slots(svc.shelves.byLabel(view.id, s.label).id);
-      return {
-        label: s.label,
-        position: s.position,
-        brief: s.brief,
-        meter: s.meter,
-        violations: s.violations,
-        slots: s.slots.map((x, k) => ({
-          slot: x.slot - 1,
-          itemId: rows[k]?.itemId ?? null,
+    editionMeter: meter,
+    shelves: shelves.map(({ filled, view: s }) => ({
+      label: s.label,
+      position: s.position,
+      brief: s.brief,
+      meter: s.meter,
+      violations: s.violations,
+      // The view's slots are filled.slots one for one (views.ts shelfView), so slot k is row k.
+      slots: filled.slots.map((row, k) => {
+        const x = s.slots[k]!;
+        return {
+          slot: row.slot,
+          itemId: row.itemId,
           externalId: x.item,
           title: x.title,
           category: x.category,
           supplier: x.supplier,
           promoted: x.promoted,
-          pinned: x.pinned,
-          score: x.score,
-          percentile: x.percentile,
+          pinned: row.pinned,
+          score: row.score,
+          percentile: row.percentile,
           rank: x.rank,
-        })),
-      };
-    }),
+        };
+      }),
+    })),
   };
 }
 

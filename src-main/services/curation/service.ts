@@ -4,6 +4,7 @@
  * re-filled slots commit together or not at all (better-sqlite3 docs/api.md, .transaction).
  */
 import { meterEdition } from '../../core/curation/edition-meter.ts';
+import type { EditionMeter, RuleViolation } from '../../core/curation/types.ts';
 import { isDeepStrictEqual } from 'node:util';
 import { InputError, NotFoundError } from '../../core/errors.ts';
 import {
@@ -27,7 +28,7 @@ import {
   type ShelfDiff,
   type ShelfEdits,
 } from '../../core/editing/index.ts';
-import { parseBrief } from '../../core/editing/brief-schema.ts';
+import { withDefaultWeights, type BriefRequest } from '../../core/editing/brief-schema.ts';
 import { catalogueNames, checkBriefNames, checkName, type CatalogueNames } from '../../core/curation/brief-names.ts';
 import { targetProblem, type LooseTargets } from '../../core/curation/readings.ts';
 import type { Item } from '../../core/types.ts';
@@ -40,8 +41,8 @@ import { aimByName } from './group-aim.ts';
 import { dialsFor } from './brief-dials.ts';
 import { dateMs } from '../../store/editions.ts';
 import { curationRepos } from './repos.ts';
-import { fillAndMeter, frozenDense, type FillMode } from './shelf-fill.ts';
-import { listChanges } from '../../core/curation/stable-fill.ts';
+import { fillAndMeter, frozenDense, readShelf, type FilledShelf, type FillMode } from './shelf-fill.ts';
+import { listChanges, type ListChanges } from '../../core/curation/stable-fill.ts';
 import { editionSnapshot, publishEdition } from './publish.ts';
 import { actionViews, changesView, shelfView, type EditionView, type ShelfView } from './views.ts';
 import { shelfWhatIf, type WhatIfView } from './whatif.ts';
@@ -111,8 +112,14 @@ export class CurationService {
 
   /** Reads a shelf as stored, with its meter (no fill). */
   #read(world: CurationWorld, edition: Edition, shelf: Shelf): ShelfView {
-    const filled = fillAndMeter(this.db, world, shelf, edition, this.#edits(shelf), false);
-    return shelfView(edition, shelf, filled, this.#item(world), this.editorial.entries(shelf.id), this.#edits(shelf));
+    return this.#readFilled(world, edition, shelf).view;
+  }
+
+  /** A shelf as stored, read once: the slots and meter (`filled`) and the view built from exactly those. */
+  #readFilled(world: CurationWorld, edition: Edition, shelf: Shelf): { filled: FilledShelf; view: ShelfView } {
+    const edits = this.#edits(shelf);
+    const filled = fillAndMeter(world, shelf, edition, readShelf(this.db, shelf, edition), edits, false);
+    return { filled, view: shelfView(edition, shelf, filled, this.#item(world), this.editorial.entries(shelf.id), edits) };
   }
 
   /**
@@ -150,9 +157,12 @@ export class CurationService {
     const earlier = new Set<number>();
     const lists: Record<string, ListAround> = {};
     let propagate = reach === 'all';
-    let view: ShelfView | undefined;
+    // Everything the fills read from the store, read before any shelf is filled and written.
+    const reads = new Map(shelves.map((s) => [s.id, readShelf(this.db, s, edition)]));
+    const writes: { shelfId: number; slots: FilledShelf['slots']; violations: RuleViolation[] }[] = [];
+    let target: { shelf: Shelf; filled: FilledShelf; changes: ListChanges } | undefined;
     for (const s of shelves) {
-      const storedIds = this.shelves.slots(s.id).map((r) => r.itemId);
+      const storedIds = reads.get(s.id)!.stored.map((r) => r.itemId);
       const stored = Int32Array.from(storedIds, dense);
       if (!propagate && s.id !== targetId) {
         for (const i of stored) if (i >= 0) earlier.add(i);
@@ -169,11 +179,11 @@ export class CurationService {
         const rescored = s.id === targetId && how.rescored ? how.rescored : undefined;
         mode = { current: stored, repair: true, measureGivenUp: s.id === targetId, ...(rescored && { rescored }) };
       }
-      const filled = fillAndMeter(this.db, world, s, edition, edits.get(s.id)!, mode, used);
+      const filled = fillAndMeter(world, s, edition, reads.get(s.id)!, edits.get(s.id)!, mode, used);
       const afterIds = filled.slots.map((r) => r.itemId);
       // An undone list that is still admissible comes back exactly, with the violations it had.
       const violations = restoring && sameList(afterIds, back.before) ? back.beforeViolations : filled.violations;
-      this.shelves.replaceSlots(s.id, filled.slots, violations);
+      writes.push({ shelfId: s.id, slots: filled.slots, violations });
       if (!sameList(storedIds, afterIds)) {
         lists[String(s.id)] = { before: storedIds, beforeViolations: s.violations, after: afterIds };
       }
@@ -185,16 +195,17 @@ export class CurationService {
         if (!before.delete(i)) changed = true;
       }
       propagate = propagate || changed || before.size > 0;
-      if (s.id === targetId) {
-        const changes = filled.changes ?? listChanges(stored, filled.dense);
-        view = {
-          ...shelfView(edition, this.shelves.get(s.id), { ...filled, violations }, this.#item(world), this.editorial.entries(s.id), edits.get(s.id)!),
-          changes: changesView(changes, (i) => world.ds.items[i], this.shelves.get(s.id).brief),
-          relevanceGivenUp: filled.relevanceGivenUp ?? null,
-        };
-      }
+      if (s.id === targetId) target = { shelf: s, filled: { ...filled, violations }, changes: filled.changes ?? listChanges(stored, filled.dense) };
     }
-    if (!view) throw new NotFoundError(`no shelf with id ${targetId} in edition '${edition.label}'`);
+    if (!target) throw new NotFoundError(`no shelf with id ${targetId} in edition '${edition.label}'`);
+    // Then the writes, all after the fills: no fill above read a list written in this refill.
+    for (const w of writes) this.shelves.replaceSlots(w.shelfId, w.slots, w.violations);
+    const { shelf, filled, changes } = target;
+    const view: ShelfView = {
+      ...shelfView(edition, shelf, filled, this.#item(world), this.editorial.entries(shelf.id), edits.get(shelf.id)!),
+      changes: changesView(changes, (i) => world.ds.items[i], shelf.brief),
+      relevanceGivenUp: filled.relevanceGivenUp ?? null,
+    };
     return { view, lists };
   }
 
@@ -235,29 +246,32 @@ export class CurationService {
   }
 
   showEdition(label: string): EditionView {
+    const r = this.readEdition(label);
+    return { ...r.edition, shelves: r.shelves.map((x) => x.view), meter: r.meter };
+  }
+
+  /**
+   * Every shelf of an edition as stored, each read once (its slots with row ids, its meter and its view), and
+   * the edition meter over those same lists: what a view and a publish snapshot are both built from.
+   */
+  readEdition(label: string): { edition: Edition; shelves: { filled: FilledShelf; view: ShelfView }[]; meter: EditionMeter } {
     const world = this.world();
     const e = this.editions.byLabel(label);
-    const shelves = this.shelves.list(e.id).map((s) => this.#read(world, e, s));
-    const { ctx } = world;
-    const dense = shelves.map((v) =>
-      Int32Array.from(this.shelves.slots(this.shelves.byLabel(e.id, v.label).id), (s) =>
-        s.itemId === null ? -1 : (ctx.indexOfId.get(s.itemId) ?? -1),
-      ),
-    );
-    return { ...e, shelves, meter: meterEdition(ctx, dense) };
+    const shelves = this.shelves.list(e.id).map((s) => this.#readFilled(world, e, s));
+    return { edition: e, shelves, meter: meterEdition(world.ctx, shelves.map((x) => x.filled.dense)) };
   }
 
   /**
    * A brief that leaves out `weights` gets dials set for it (services/curation/brief-dials.ts): at most 5% of
    * validated relevance for its audience and anchors. Weights given are the editor's and are kept.
    */
-  addShelf(edition: string, label: string, brief: unknown): ShelfView {
+  addShelf(edition: string, label: string, brief: BriefRequest): ShelfView {
     const world = this.world();
-    const given = aimByName(parseBrief(brief), world.groupNames);
+    const given = aimByName(withDefaultWeights(brief), world.groupNames);
     checkBriefNames(namesOf(world), given);
     return this.db.transaction(() => {
       const e = this.#draft(edition);
-      const b = dialsFor(world, given, gaveWeights(brief), undefined, dateMs(e.date));
+      const b = dialsFor(world, given, brief.weights !== undefined, undefined, dateMs(e.date));
       return this.#refillEdition(world, e, this.shelves.add(e.id, label, b).id, 'fromTarget', { start: 'over' }).view;
     })();
   }
@@ -268,14 +282,14 @@ export class CurationService {
    * Dials set for the brief stay set for it (and are set again when its audience or anchors change) unless
    * the editor sends other weights, which are theirs from then on (brief-dials.ts `dialsFor`).
    */
-  setBrief(edition: string, label: string, brief: unknown, reason?: string): ShelfView {
+  setBrief(edition: string, label: string, brief: BriefRequest, reason?: string): ShelfView {
     const world = this.world();
-    const given = aimByName(parseBrief(brief), world.groupNames);
+    const given = aimByName(withDefaultWeights(brief), world.groupNames);
     checkBriefNames(namesOf(world), given);
     return this.db.transaction(() => {
       const e = this.#draft(edition);
       const s = this.shelves.byLabel(e.id, label);
-      const b = dialsFor(world, given, gaveWeights(brief), s.brief, dateMs(e.date));
+      const b = dialsFor(world, given, brief.weights !== undefined, s.brief, dateMs(e.date));
       if (b.size < s.size) {
         const pinnedBeyond = Object.keys(this.#edits(s).pins).filter((k) => Number(k) >= b.size);
         if (pinnedBeyond.length) {
@@ -358,8 +372,7 @@ export class CurationService {
       case 'refill':
         return { kind: 'refill' };
       case 'anchors':
-        // Checked like a brief's anchors (shelf.brief's schema): existing row ids.
-        parseBrief({ ...shelf.brief, anchors: a.anchors });
+        // Whole row ids by the request's type; that they exist is checked here.
         checkBriefNames(namesOf(world), { ...shelf.brief, anchors: a.anchors });
         return { kind: 'anchors', anchors: a.anchors.slice(), was: shelf.brief.anchors.slice() };
       case 'move': {
@@ -494,6 +507,3 @@ function namesOf(world: CurationWorld): CatalogueNames {
 }
 
 /** Whether a brief as sent carries weights of its own (the editor's dials) rather than leaving them to the service. */
-function gaveWeights(brief: unknown): boolean {
-  return typeof brief === 'object' && brief !== null && (brief as { weights?: unknown }).weights !== undefined;
-}

@@ -195,27 +195,45 @@ function historyOf(world: CurationWorld): Csr {
 }
 
 /**
+ * What a shelf's fill reads from the store, read once before the pure chain (pool, scores, fill, meter) runs:
+ * the bans that reach it, the items of the last `restPeriod` published editions (row ids), and its slots as
+ * stored (what mode 'read' meters, and the list a stable fill keeps).
+ */
+export interface ShelfReads {
+  bans: { items: ReadonlySet<number>; rules: EditorialState['banRules'] };
+  resting: readonly number[];
+  stored: SlotRow[];
+}
+
+export function readShelf(db: Db, shelf: Shelf, edition: Edition): ShelfReads {
+  const repos = curationRepos(db);
+  return {
+    bans: repos.editorial.activeBans(shelf.id, edition.id),
+    resting: [...itemsOn(repos.editions.lastPublished(edition.date, shelf.brief.rules.restPeriod))],
+    stored: repos.shelves.slots(shelf.id),
+  };
+}
+
+/**
  * The fill's editorial state in dense indices: this shelf's edits, the bans that reach it, the rest
  * period, and `usedInEdition` (dense items the caller says other shelves of the edition already hold).
  */
 export function editorialState(
-  db: Db,
   world: CurationWorld,
   shelf: Shelf,
-  edition: Edition,
+  reads: ShelfReads,
   edits: ShelfEdits,
   usedInEdition: ReadonlySet<number>,
 ): EditorialState {
   const { ctx } = world;
   const dense = (id: number) => ctx.indexOfId.get(id);
-  const bans = curationRepos(db).editorial.activeBans(shelf.id, edition.id);
   const banSet = new Set<number>();
-  for (const id of bans.items) {
+  for (const id of reads.bans.items) {
     const i = dense(id);
     if (i !== undefined) banSet.add(i);
   }
   const resting = new Set<number>();
-  for (const id of itemsOn(curationRepos(db).editions.lastPublished(edition.date, shelf.brief.rules.restPeriod))) {
+  for (const id of reads.resting) {
     const i = dense(id);
     if (i !== undefined) resting.add(i);
   }
@@ -224,7 +242,7 @@ export function editorialState(
     const i = dense(id);
     if (i !== undefined && Number(slot) < shelf.size) pins.set(Number(slot), i);
   }
-  return { bans: banSet, banRules: bans.rules, resting, usedInEdition, pins };
+  return { bans: banSet, banRules: reads.bans.rules, resting, usedInEdition, pins };
 }
 
 /** Dense items of a frozen (locked) shelf, one per slot (-1 = empty or no longer in the catalogue). */
@@ -238,14 +256,14 @@ export function frozenDense(world: CurationWorld, shelf: Shelf, edits: ShelfEdit
 
 /**
  * Fills and meters the shelf; the caller stores `slots` inside its transaction. A locked shelf keeps its
- * frozen items (scored afresh). In mode 'read' (or `false`) the stored slots and violations are read back and
- * metered, and nothing is filled.
+ * frozen items (scored afresh). In mode 'read' (or `false`) the stored slots and violations are metered, and
+ * nothing is filled. It reads nothing from the store itself: `reads` (readShelf) holds all of that.
  */
 export function fillAndMeter(
-  db: Db,
   world: CurationWorld,
   shelf: Shelf,
   edition: Edition,
+  reads: ShelfReads,
   edits: ShelfEdits,
   mode: FillMode | boolean = 'full',
   usedInEdition: ReadonlySet<number> = new Set(),
@@ -254,7 +272,7 @@ export function fillAndMeter(
   const { ctx, hybrid } = world;
   const brief = shelf.brief;
   const editionDate = dateMs(edition.date);
-  const state = editorialState(db, world, shelf, edition, edits, usedInEdition);
+  const state = editorialState(world, shelf, reads, edits, usedInEdition);
   const multipliers = new Map<number, number>();
   for (const [id, f] of Object.entries(edits.boosts)) {
     const i = ctx.indexOfId.get(Number(id));
@@ -277,7 +295,7 @@ export function fillAndMeter(
   const pinnedDense = new Set(state.pins.values());
   if (how === 'read') {
     // The shelf as stored, with the scores it was filled with.
-    stored = curationRepos(db).shelves.slots(shelf.id);
+    stored = reads.stored;
     dense = new Int32Array(shelf.size).fill(-1);
     for (const s of stored) if (s.slot < shelf.size && s.itemId !== null) dense[s.slot] = ctx.indexOfId.get(s.itemId) ?? -1;
     violations = shelf.violations;

@@ -7,7 +7,7 @@ import { whatIfBatch } from '../../core/curation/whatif.ts';
 import { InputError } from '../../core/errors.ts';
 import type { Reason } from '../../core/curation/reasons.ts';
 import type { CurationService } from './service.ts';
-import { fillAndMeter } from './shelf-fill.ts';
+import { fillAndMeter, readShelf } from './shelf-fill.ts';
 
 export interface WhatIfView {
   slot: number;
@@ -23,7 +23,7 @@ export function shelfWhatIf(svc: CurationService, edition: string, label: string
   if (!Number.isInteger(slot) || slot < 1 || slot > shelf.size) {
     throw new InputError(`slot: must be between 1 and ${shelf.size}, got ${slot}`, { column: 'slot' });
   }
-  const filled = fillAndMeter(svc.db, world, shelf, e, svc.editsOf(shelf), false);
+  const filled = fillAndMeter(world, shelf, e, readShelf(svc.db, shelf, e), svc.editsOf(shelf), false);
   const on = new Set(filled.dense);
   const picks = filled.ranked().filter((c) => !on.has(c.index)).slice(0, n);
   const batch = whatIfBatch(world.ctx, filled.dense, slot - 1, Int32Array.from(picks, (c) => c.index), filled.inputs);

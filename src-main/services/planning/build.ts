@@ -11,7 +11,7 @@
 import { buildCandidatePool, type EditorialState } from '../../core/curation/candidates.ts';
 import { fitAt, seasonalProfile, type SeasonalProfile } from '../../core/planning/seasonal-fit.ts';
 import type { HorizonRules, Plan, PlanInstance, PlanObjective } from '../../core/planning/types.ts';
-import { floorOf } from '../../core/planning/compile.ts';
+import { floorOf } from '../../core/curation/share-counts.ts';
 import { DAY_MS } from '../../core/types.ts';
 import { itemsOn } from '../../core/editing/snapshot.ts';
 import { curationRepos } from '../curation/repos.ts';

@@ -87,6 +87,32 @@ function ExpectedColumns({ target }: { target: ImportTarget }) {
 const megabytes = (bytes: number) => `${(bytes / (1024 * 1024)).toFixed(bytes < 10 * 1024 * 1024 ? 1 : 0)} MB`;
 
 /** Import a catalogue, customers or signals: pick a file, check the mapping and the first rows, import. */
+/**
+ * After an import that changed the data, the models still describe the data before it: offer the training the
+ * Models screen would start (the api's default: tune when the data changed), and go there to follow it.
+ */
+function RetrainOffer() {
+  const trained = useApp((s) => s.models.list.length > 0);
+  const running = useApp((s) => s.models.job?.state === 'running');
+  const startTraining = useApp((s) => s.startTraining);
+  const go = useApp((s) => s.go);
+  return (
+    <p data-testid="retrain-offer">
+      {trained ? 'The models were trained before this import, so proposals do not reflect it yet. ' : 'No models are trained yet. '}
+      <button
+        type="button"
+        disabled={running}
+        onClick={() => {
+          void startTraining();
+          go('models');
+        }}
+      >
+        {trained ? 'Retrain the models now' : 'Train the models now'}
+      </button>
+    </p>
+  );
+}
+
 export function Import() {
   const { preview, report, busy, error } = useApp((s) => s.importer);
   const previewImport = useApp((s) => s.previewImport);
@@ -291,6 +317,7 @@ export function Import() {
             {count(report.unchanged)} unchanged · {count(report.rejected)} rejected · {(report.elapsedMs / 1000).toFixed(1)} s
           </p>
           {report.pictures && <p>{picturesLine(report.pictures)}</p>}
+          {report.committed && report.added + report.updated > 0 && <RetrainOffer />}
           {report.warnings.map((w) => (
             <p key={w} className="warn">
               Warning: {w}

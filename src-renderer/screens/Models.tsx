@@ -167,6 +167,7 @@ export function Models() {
                 <th scope="col">Trained</th>
                 <th scope="col" className="num">Time</th>
                 <th scope="col">Status</th>
+                <th scope="col">Notes</th>
               </tr>
             </thead>
             <tbody>
@@ -182,6 +183,16 @@ export function Models() {
                         ? 'Out of date: the data changed since the signals were exported; export and fit again'
                         : 'Out of date: the data changed since training'
                       : 'Current'}
+                  </td>
+                  <td>
+                    {m.notes.length === 0 ? (
+                      '–'
+                    ) : (
+                      <details>
+                        <summary>{m.notes.length === 1 ? '1 note' : `${m.notes.length} notes`}</summary>
+                        <Notes notes={m.notes} />
+                      </details>
+                    )}
                   </td>
                 </tr>
               ))}

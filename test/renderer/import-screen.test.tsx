@@ -56,3 +56,25 @@ describe('import screen', () => {
     expect(second.children[2]).toBe(marked[0]);
   });
 });
+
+describe('after an import that changed the data', () => {
+  it('offers to retrain, and the offer starts the training and opens the models screen', async () => {
+    app.store.getState().go('import');
+    app.render();
+    const file = new File(['id,title,category\nnew-1,Willow basket,garden\n'], 'items.csv', { type: 'text/csv' });
+    fireEvent.change(await screen.findByLabelText('…or upload a file (CSV, JSON, JSON Lines)'), { target: { files: [file] } });
+    const previewButton = screen.getByRole('button', { name: 'Preview' });
+    await waitFor(() => expect(previewButton.hasAttribute('disabled')).toBe(false));
+    fireEvent.click(previewButton);
+    const preview = await screen.findByRole('region', { name: 'Preview' });
+    fireEvent.click(within(preview).getByRole('button', { name: 'Import' }));
+    const report = await screen.findByRole('region', { name: 'Import report' });
+    await waitFor(() => expect(within(report).getByRole('heading').textContent).toBe('Imported'));
+    const offer = within(report).getByTestId('retrain-offer');
+    fireEvent.click(within(offer).getByRole('button', { name: /^(Re)?[tT]rain the models now$/ }));
+    await waitFor(() => expect(app.store.getState().nav.screen).toBe('models'));
+    await waitFor(() => expect(app.store.getState().models.job).not.toBeNull());
+    // Let the training end before the workspace closes.
+    await waitFor(() => expect(app.store.getState().models.job?.state).not.toBe('running'), { timeout: 120_000 });
+  }, 150_000);
+});

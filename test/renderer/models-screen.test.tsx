@@ -177,3 +177,31 @@ describe('the Train button', () => {
     expect(within(panel).getByRole('button', { name: 'Train models' })).toHaveProperty('disabled', false);
   });
 });
+
+describe("a model's notes", () => {
+  it('open from its row; a model without notes says so with a dash', async () => {
+    const info = (id: number, kind: string, notes: string[]) => ({
+      id, kind, params: {}, trainedAt: Date.UTC(2026, 11, 1), trainMs: 1200, iterations: null, losses: [], notes,
+      stale: false, sizeBytes: 10, evaluation: null, tuning: null, origin: null,
+    });
+    const notes = ['EASE not tuned: 9,000 items, above 8,000', 'stored as the top 1,000 weights per item'];
+    const client = createClient(async (method): Promise<ApiResult<unknown>> => {
+      if (method === 'models.list') return { ok: true, value: { models: [info(1, 'ease', notes), info(2, 'popularity', [])] } };
+      if (method === 'evaluate.latest') return { ok: true, value: { evaluation: null } };
+      return { ok: false, error: { code: 'input', message: method } };
+    });
+    render(
+      <StoreContext.Provider value={createAppStore(client)}>
+        <Models />
+      </StoreContext.Provider>,
+    );
+    const region = await screen.findByRole('region', { name: 'Trained models' });
+    const rows = await within(region).findAllByRole('row');
+    const ease = rows.find((r) => r.textContent?.includes('(EASE)'))!;
+    const summary = within(ease).getByText('2 notes');
+    fireEvent.click(summary);
+    expect(within(ease).getAllByRole('listitem').map((li) => li.textContent)).toEqual(notes);
+    const popularity = rows.find((r) => r.textContent?.includes('popularity'))!;
+    expect(popularity.lastElementChild?.textContent).toBe('–');
+  });
+});

@@ -1,13 +1,13 @@
 /**
  * The README's pictures, from a real (demo) workspace: `npx tsx e2e/docs-screenshots.ts WORKSPACE`
- * writes docs/screenshots/overview.png, shelf-editor.png, groups.png and planner.png at 1280×800, and planner-800.png
- * (the Planner in an 800-pixel-wide window). It works on a copy of the
+ * writes docs/screenshots/overview.png, board-1280.png, shelf-editor.png, groups.png and planner.png at 1280×800, and
+ * board-800.png, shelf-editor-800.png and planner-800.png (in an 800-pixel-wide window). It works on a copy of the
  * workspace, so the original is never changed. A script, not a test: run it when the screens change.
  */
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { chromium, type Locator } from '@playwright/test';
+import { chromium, type Locator, type Page } from '@playwright/test';
 import { createHandlerTable } from '../src-main/api/handler-table.ts';
 import { AppContext } from '../src-main/services/context.ts';
 import { startWebShell } from '../src-main/shell/web/server.ts';
@@ -18,6 +18,12 @@ import config from '../playwright.config.ts';
 async function expectEnabled(button: Locator): Promise<void> {
   await button.waitFor();
   await button.page().waitForFunction((el) => el !== null && !(el as HTMLButtonElement).disabled, await button.elementHandle(), { timeout: 180_000 });
+}
+
+/** Waits for the item pictures to be drawn (the page asks for them after it renders its lists), on state. */
+async function picturesShown(page: Page): Promise<void> {
+  await page.locator('img.thumb').first().waitFor({ timeout: 60_000 });
+  await page.waitForFunction(() => [...document.querySelectorAll<HTMLImageElement>('img.thumb')].every((i) => i.complete), undefined, { timeout: 60_000 });
 }
 
 async function main(): Promise<void> {
@@ -48,9 +54,18 @@ async function main(): Promise<void> {
     const refused = page.getByRole('alert');
     await Promise.race([page.getByLabel('Shelf name').waitFor(), refused.waitFor()]);
     if (await refused.isVisible()) throw new Error(`could not start the edition: ${await refused.innerText()}`);
-    await page.getByLabel('Shelf name').fill('Homepage row');
-    await page.getByLabel('Slots').fill('8');
-    await page.getByRole('button', { name: 'Add shelf' }).click();
+    // The board: two shelves as cards with their readings, the edition meter below.
+    for (const [label, size] of [['Homepage row', '8'], ['Newsletter block', '6']] as const) {
+      await page.getByLabel('Shelf name').fill(label);
+      await page.getByLabel('Slots').fill(size);
+      await page.getByRole('button', { name: 'Add shelf' }).click();
+      await page.getByRole('article', { name: `Shelf ${label}` }).getByText(`${size} of ${size} slots filled`).waitFor({ timeout: 60_000 });
+    }
+    await picturesShown(page);
+    await page.screenshot({ path: path.join(out, 'board-1280.png') });
+    await page.setViewportSize({ width: 800, height: 800 });
+    await page.screenshot({ path: path.join(out, 'board-800.png') });
+    await page.setViewportSize({ width: 1280, height: 800 });
     await page.getByRole('button', { name: 'Edit shelf Homepage row' }).click();
     const slots = page.getByRole('list', { name: 'Slots' });
     await slots.getByRole('listitem', { name: /^Slot 2:/ }).getByRole('button', { name: 'Pin' }).click();
@@ -58,7 +73,14 @@ async function main(): Promise<void> {
     const pool = page.getByRole('list', { name: 'Candidates for this slot' });
     await pool.getByRole('listitem').first().hover();
     await page.getByText(/^If .* went into slot 1:/).waitFor();
+    await picturesShown(page);
     await page.screenshot({ path: path.join(out, 'shelf-editor.png') });
+    await page.setViewportSize({ width: 800, height: 800 });
+    // At 800 px the side panels go below the slots: the top of the screen, as the editor first sees it.
+    await page.mouse.move(5, 5);
+    await page.evaluate(() => window.scrollTo(0, 0));
+    await page.screenshot({ path: path.join(out, 'shelf-editor-800.png') });
+    await page.setViewportSize({ width: 1280, height: 800 });
 
     await screens.getByRole('button', { name: 'Taste groups', exact: true }).click();
     await page.getByRole('list', { name: 'Customers per group' }).waitFor({ timeout: 60_000 });
@@ -91,7 +113,7 @@ async function main(): Promise<void> {
     await page.setViewportSize({ width: 800, height: 800 });
     await top.evaluate((h) => h.scrollIntoView({ block: 'start' }));
     await page.screenshot({ path: path.join(out, 'planner-800.png') });
-    console.log(`wrote ${out}/overview.png, shelf-editor.png, groups.png, planner.png and planner-800.png`);
+    console.log(`wrote ${out}/overview.png, board-1280.png, board-800.png, shelf-editor.png, shelf-editor-800.png, groups.png, planner.png and planner-800.png`);
   } finally {
     await browser.close();
     await shell.close();

@@ -79,7 +79,7 @@ async function trainAndEvaluate(page: Page, o: JourneyOptions): Promise<void> {
 }
 
 /** What the screen must show for an action to count as shown: a selector's text containing (or not) some text. */
-interface Shown {
+export interface Shown {
   selector: string;
   text: string;
   present: boolean;
@@ -90,7 +90,7 @@ interface Shown {
  * frame is painted: a MutationObserver checks after each change, so the figure is not rounded up to the
  * test runner's polling interval.
  */
-async function timeAction(page: Page, click: () => Promise<void>, shown: Shown[]): Promise<number> {
+export async function timeAction(page: Page, click: () => Promise<void>, shown: Shown[]): Promise<number> {
   await page.evaluate((conds) => {
     const w = window as unknown as { swTiming?: Promise<number> };
     w.swTiming = new Promise<number>((resolve) => {

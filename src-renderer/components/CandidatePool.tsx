@@ -41,7 +41,14 @@ export function CandidatePool({ shelf, slot, onSlot, readOnly, onAct }: { shelf:
         </p>
       )}
       <p className="muted small">{whatif.loading && items.length === 0 ? 'Ranking…' : `${count(items.length)} candidates not on this shelf, best first`}</p>
-      <div ref={scroller} className="pool-scroll" onMouseLeave={() => focus(null)}>
+      {/* Read-only, the Pin buttons are disabled and cannot take focus, so the list itself does: a scrolling
+          region must be reachable by keyboard (WCAG 2.1.1; axe "scrollable-region-focusable"). */}
+      <div
+        ref={scroller}
+        className="pool-scroll"
+        onMouseLeave={() => focus(null)}
+        {...(readOnly ? { tabIndex: 0, role: 'region', 'aria-labelledby': `${id}-h` } : {})}
+      >
         <ul style={{ height: virtual.getTotalSize(), position: 'relative' }} aria-label="Candidates for this slot">
           {virtual.getVirtualItems().map((v) => {
             const c = items[v.index];

@@ -2,6 +2,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import { CurationService } from '../../src-main/services/curation/service.ts';
 import type { Db } from '../../src-main/store/workspace.ts';
 import { DAY, openSeeded } from './fixture.ts';
+import { parseBriefRequest } from '../../src-main/core/editing/brief-schema.ts';
 
 let db: Db | undefined;
 afterEach(() => db?.close());
@@ -28,7 +29,7 @@ describe("each slot's rank and main reason", () => {
   it('ranks each slot in its pool so that different scores never share a rank', () => {
     const svc = setup();
     svc.newEdition('w', EDITION);
-    const v = svc.addShelf('w', 'Front', { size: 8 });
+    const v = svc.addShelf('w', 'Front', parseBriefRequest({ size: 8 }));
     const ranks = v.slots.map((s) => s.rank!);
     expect(ranks.every((r) => Number.isInteger(r) && r >= 1 && r <= v.poolSize)).toBe(true);
     for (const a of v.slots) for (const b of v.slots) if (a.score !== b.score) expect(a.rank).not.toBe(b.rank);
@@ -39,7 +40,7 @@ describe("each slot's rank and main reason", () => {
   it("says 'popular' with the item's distinct customers as the store counts them", () => {
     const svc = setup();
     svc.newEdition('w', EDITION);
-    const v = svc.addShelf('w', 'Popular', { size: 5, weights: only('popularity') });
+    const v = svc.addShelf('w', 'Popular', parseBriefRequest({ size: 5, weights: only('popularity') }));
     const customers = (db!.prepare('SELECT count(*) AS n FROM customer').get() as { n: number }).n;
     for (const s of v.slots) {
       const held = (
@@ -52,12 +53,12 @@ describe("each slot's rank and main reason", () => {
   it("says 'new' with the days since the item was added, and 'rising' with the two windows' counts", () => {
     const svc = setup();
     svc.newEdition('w', EDITION);
-    const fresh = svc.addShelf('w', 'New', { size: 4, weights: only('freshness') });
+    const fresh = svc.addShelf('w', 'New', parseBriefRequest({ size: 4, weights: only('freshness') }));
     for (const s of fresh.slots) {
       const added = (db!.prepare('SELECT added_at AS a FROM item WHERE external_id = ?').get(s.item) as { a: number }).a;
       expect(s.reason).toEqual({ kind: 'new', ageDays: Math.floor((Date.parse(EDITION) - added) / DAY) });
     }
-    const rising = svc.addShelf('w', 'Rising', { size: 4, weights: only('trend') });
+    const rising = svc.addShelf('w', 'Rising', parseBriefRequest({ size: 4, weights: only('trend') }));
     // The edition is dated after the last signal: the windows end just after it (world.ts trendFor).
     const last = (db!.prepare('SELECT max(at) AS t FROM signal').get() as { t: number }).t;
     const now = last + 1;

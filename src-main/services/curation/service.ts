@@ -28,7 +28,7 @@ import {
   type ShelfDiff,
   type ShelfEdits,
 } from '../../core/editing/index.ts';
-import { withDefaultWeights, type BriefRequest } from '../../core/editing/brief-schema.ts';
+import { parseBrief, withDefaultWeights, type BriefRequest } from '../../core/editing/brief-schema.ts';
 import { catalogueNames, checkBriefNames, checkName, type CatalogueNames } from '../../core/curation/brief-names.ts';
 import { targetProblem, type LooseTargets } from '../../core/curation/readings.ts';
 import type { Item } from '../../core/types.ts';

@@ -6,7 +6,6 @@
  */
 import { mkdir, writeFile } from 'node:fs/promises';
 import { basename, join } from 'node:path';
-import sharp from 'sharp';
 import type { Rng } from '../../src-main/core/rng.ts';
 import { drawing, type Palette } from './drawings.ts';
 import { CATEGORIES } from './scenario.ts';
@@ -37,6 +36,8 @@ export function assignPictures(rng: Rng, categories: readonly number[]): string[
 /** Writes every category's colourings into `dir` (the pictures folder, or its temporary stand-in); returns the paths written. */
 export async function writePictures(rng: Rng, dir: string): Promise<string[]> {
   await mkdir(dir, { recursive: true });
+  // Loaded here, not with the module: the command line imports the generator, and only `demo` draws.
+  const sharp = (await import('sharp')).default;
   const jobs: { file: string; svg: string }[] = [];
   CATEGORIES.forEach((category, c) => {
     for (let v = 0; v < PICTURE_VARIANTS; v++) jobs.push({ file: join(dir, basename(pictureFile(c, v))), svg: drawing(category, palette(rng)) });

@@ -1,4 +1,3 @@
-import sharp from 'sharp';
 
 /**
  * One item picture made small, with sharp (libvips). Decoding and encoding run on libuv's thread pool
@@ -6,6 +5,14 @@ import sharp from 'sharp';
  */
 
 /** The settings below, as a number stored with each thumbnail: change any of them and raise it. */
+
+/**
+ * sharp (a native addon with libvips) loads on the first picture, not with the module: every command that
+ * imports the ingest layer would otherwise pay for it at start-up (bench:cli).
+ */
+let sharpLoaded: Promise<typeof import('sharp')> | undefined;
+const loadSharp = async () => (await (sharpLoaded ??= import('sharp'))).default;
+
 export const THUMB_RECIPE = 1;
 /** Thumbnails fit a 96 px square (twice the 48 px the page draws them at, for high-density screens). */
 export const THUMB_SIDE = 96;
@@ -41,6 +48,7 @@ export type ThumbResult = { ok: true; thumb: ThumbImage } | { ok: false; reason:
  * throw: the importer shows a placeholder for it and warns.
  */
 export async function makeThumbnail(bytes: Buffer): Promise<ThumbResult> {
+  const sharp = await loadSharp();
   let format: string | undefined;
   try {
     format = (await sharp(bytes, { limitInputPixels: MAX_PICTURE_PIXELS }).metadata()).format;

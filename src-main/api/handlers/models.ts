@@ -11,7 +11,7 @@ import { readCustomerList, recommend } from '../../services/recommend.ts';
 import { checkInputFile } from '../../services/user-file.ts';
 import { searchItems, similarItems } from '../../services/recommend-items.ts';
 import { trainJob } from '../../services/train/train-job.ts';
-import { describeOrigin } from '../../services/cluster/import-model.ts';
+import { describeOrigin } from '../../services/cluster/origin-words.ts';
 import type { TrainOptions } from '../../services/train/train-models.ts';
 import { DEFAULT_TUNE, tunedTrainJob } from '../../services/tune/train-tuned.ts';
 import { dataFingerprint } from '../../store/models.ts';

@@ -10,6 +10,7 @@
  * rank, ids the map does not know or repeats, NaN or infinite factors, and an erasure since the export
  * (the model would carry the erased person's data: DESIGN.md, erasure is final).
  */
+import { describeOrigin } from './origin-words.ts';
 import fs from 'node:fs';
 import path from 'node:path';
 import { InputError } from '../../core/errors.ts';
@@ -210,7 +211,4 @@ async function exportedToCurrent(exportDir: string, name: 'customers' | 'items',
   return Int32Array.from(exported, (id) => rowOf.get(id) ?? -1);
 }
 
-/** "trained on a cluster (Spark 3.5.1 ALS), imported 2026-12-04, rank 128" — the line the app and the CLI show. */
-export function describeOrigin(o: ModelOrigin): string {
-  return `trained on a cluster (Spark ${o.sparkVersion} ALS), imported ${new Date(o.importedAt).toISOString().slice(0, 10)}, rank ${o.rank}`;
-}
+export { describeOrigin };

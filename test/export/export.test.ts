@@ -124,3 +124,13 @@ describe('HTML preview', () => {
     expect(html).toMatch(/<style>/);
   });
 });
+
+describe('percentiles in the exports', () => {
+  it('are on one scale, 0 to 100, in the CSV and the JSON alike', () => {
+    const csv = parse(exportEdition(snapshot, 'csv'), { columns: true }) as Record<string, string>[];
+    const json = JSON.parse(exportEdition(snapshot, 'json')) as { shelves: { slots: { percentile: number | null }[] }[] };
+    const fromJson = json.shelves.flatMap((s) => s.slots.map((x) => x.percentile));
+    expect(fromJson.slice(0, 3)).toEqual([90, 80, 70]);
+    expect(csv.map((r) => (r['percentile'] === '' ? null : Number(r['percentile'])))).toEqual(fromJson);
+  });
+});

@@ -7,7 +7,7 @@
  * OWASP "CSV Injection" guidance advises (DESIGN.md "Reliability and safety rules").
  */
 import type { EditionSnapshot } from '../../core/editing/snapshot.ts';
-import { DISCLOSURE_NOTE, SPONSORED } from './labels.ts';
+import { DISCLOSURE_NOTE, exportedPercentile, SPONSORED } from './labels.ts';
 
 const FORMULA_START = new Set(['=', '+', '-', '@', '\t', '\r']);
 
@@ -35,7 +35,7 @@ export function editionCsv(e: EditionSnapshot): string {
         s.supplier,
         s.promoted ? SPONSORED : '',
         s.pinned ? 'pinned' : '',
-        s.percentile === null ? null : Math.round(s.percentile * 100),
+        exportedPercentile(s.percentile),
         s.rank ?? null,
       ]);
     }

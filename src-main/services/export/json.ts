@@ -1,6 +1,6 @@
 /** JSON export of an edition: the snapshot's shelves and slots, each slot saying in words whether it is sponsored, and each shelf's meter. */
 import type { EditionSnapshot } from '../../core/editing/snapshot.ts';
-import { DISCLOSURE_NOTE, SPONSORED } from './labels.ts';
+import { DISCLOSURE_NOTE, exportedPercentile, SPONSORED } from './labels.ts';
 import { exportedReadings } from './meter-rows.ts';
 
 export function editionJson(e: EditionSnapshot): string {
@@ -19,7 +19,7 @@ export function editionJson(e: EditionSnapshot): string {
         supplier: s.supplier,
         sponsored: s.promoted ? SPONSORED : null,
         pinned: s.pinned,
-        percentile: s.percentile,
+        percentile: exportedPercentile(s.percentile),
         rank: s.rank ?? null,
       })),
       // Each reading by its one name, on its scale, with its range and the shelf's target band.

@@ -122,6 +122,28 @@ describe('tuneDataset', () => {
     expect(r.split.method).toBe('time');
   }, 60_000);
 
+  it('runs the same trials whatever the clock says: a machine 1,000 times slower, or slow for one model only', async () => {
+    const ds = loadDataset(shop);
+    const opts = { k: 10, seed: 3, iterations: 4, threads: 1, sampleCustomers: 150, budget: 3 };
+    // A clock that runs 1,000× fast, and one that jumps by a minute at every read after the first few (a
+    // machine loaded mid-run): the budget is counted in predicted cost (trial-cost.ts), so neither may change a trial.
+    const fast = performance.now.bind(performance);
+    let reads = 0;
+    let t = 0;
+    const slow = () => fast() * 1000;
+    const lurching = () => (++reads > 4 ? (t += 60_000) : t);
+    const a = await tuneDataset(ds, opts);
+    const b = await tuneDataset(ds, { ...opts, now: slow });
+    const c = await tuneDataset(ds, { ...opts, now: lurching });
+    const trials = (r: typeof a) => r.models.map((m) => ({ model: m.model, params: m.trials.map((x) => x.params), ndcg: m.trials.map((x) => x.ndcg), search: m.search }));
+    expect(trials(b)).toEqual(trials(a));
+    expect(trials(c)).toEqual(trials(a));
+    expect(b.budget).toEqual(a.budget);
+    expect(c.params).toEqual(a.params);
+    // The clock still times the trials for the record.
+    expect(c.models.some((m) => m.trials.some((x) => x.elapsedMs >= 60_000))).toBe(true);
+  }, 90_000);
+
   it('at the smallest budget fits each model\'s defaults only, and a budget out of range is refused by name', async () => {
     const ds = loadDataset(shop);
     const opts = { k: 10, seed: 3, iterations: 4, threads: 1, sampleCustomers: 100 };

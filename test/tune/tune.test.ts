@@ -7,7 +7,7 @@ import { confidence } from '../../src-main/core/models/ials-params.ts';
 import { AppContext } from '../../src-main/services/context.ts';
 import { importFile } from '../../src-main/services/import.ts';
 import { IALS_GRID, TUNE_BUDGET } from '../../src-main/services/tune/grid.ts';
-import { validationSplit } from '../../src-main/services/tune/split.ts';
+import { confirmationHalves, validationSplit } from '../../src-main/services/tune/split.ts';
 import { tuneDataset } from '../../src-main/services/tune/tune.ts';
 import { loadDataset } from '../../src-main/store/dataset.ts';
 import { ModelRepo } from '../../src-main/store/models.ts';
@@ -39,6 +39,22 @@ describe('validationSplit', () => {
     for (const k of s.validation) expect(ds.signals.at[k]!).toBeGreaterThanOrEqual(s.from!);
     expect(lastTrain).toBeLessThan(s.from!);
     expect(s.validation.length / ds.signals.length).toBeGreaterThan(0.15);
+  });
+
+  it('cuts a time validation window into an earlier half that chooses and a later half that confirms', () => {
+    const ds = loadDataset(shop);
+    const s = validationSplit(ds, { share: 0.2 });
+    const h = confirmationHalves(ds, s.validation, 'time', 1);
+    expect(h.choose.length + h.confirm.length).toBe(s.validation.length);
+    const latestChoose = Math.max(...Array.from(h.choose, (k) => ds.signals.at[k]!));
+    for (const k of h.confirm) expect(ds.signals.at[k]!).toBeGreaterThanOrEqual(latestChoose);
+    expect(Math.min(h.choose.length, h.confirm.length) / s.validation.length).toBeGreaterThan(0.4);
+    // A random split's halves share no customer, and the same seed deals them alike.
+    const r = confirmationHalves(ds, s.validation, 'random', 1);
+    const who = (rows: Int32Array) => new Set(Array.from(rows, (k) => ds.signals.customer[k]));
+    const later = who(r.confirm);
+    for (const c of who(r.choose)) expect(later.has(c)).toBe(false);
+    expect(confirmationHalves(ds, s.validation, 'random', 1)).toEqual(r);
   });
 
   it('without times holds out whole pairs per customer at random, seeded, never a customer\'s last item', async () => {

@@ -112,8 +112,11 @@ describe('tuneDataset', () => {
       const keys = m.trials.map((t) => JSON.stringify(Object.entries(t.params).sort()));
       expect(new Set(keys).size).toBe(keys.length);
       const best = Math.max(...m.trials.map((t) => t.ndcg));
-      expect(m.ndcg).toBe(best);
-      expect(m.trials.find((t) => t.ndcg === best)!.params).toEqual(m.best);
+      // The chosen setting is a trial; EASE may take a larger λ within one standard error of the best
+      // (model-search.ts oneStandardErrorUp), every other model the best.
+      expect(m.trials.find((t) => JSON.stringify(t.params) === JSON.stringify(m.best))!.ndcg).toBe(m.ndcg);
+      if (m.model !== 'ease') expect(m.ndcg).toBe(best);
+      else expect(m.ndcg).toBeLessThanOrEqual(best);
     }
     // More than the defaults was tried, and the search says what it covered and why it stopped.
     expect(grid('itemknn').trials.length).toBeGreaterThan(1);

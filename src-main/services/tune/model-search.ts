@@ -29,7 +29,8 @@ import type { GridTrial, ModelTuning } from './tune.ts';
 export interface ModelSearchOptions {
   train: Csr;
   /** NDCG and recall of a fitted model on the validation split. */
-  measure: (name: string, m: Scorer) => EvalResult;
+  /** `perCustomer`, when given (length `customers`), receives each validation customer's NDCG (paired comparisons). */
+  measure: (name: string, m: Scorer, perCustomer?: Float64Array) => EvalResult;
   /** Plain fits the search may spend (grid.ts TUNE_BUDGET). */
   budget: number;
   useEase: boolean;
@@ -164,6 +165,8 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
 
   // 1. The start of every model: its plain cost, and a fitted model even when nothing is searched.
   const trials = new Map<GridModel, GridTrial[]>();
+  /** EASE's per-customer NDCG of each trial, by point (the one-standard-error rule below). */
+  const easePer = new Map<string, Float64Array>();
   const startScore = new Map<GridModel, EvalResult>();
   const unit = new Map<GridModel, number>();
   let plainMs = 0;
@@ -172,7 +175,9 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
     o.onTrial(s.model, 1, 0);
     const t0 = now();
     const m = await s.fit(s.start);
-    const r = o.measure(s.model, m);
+    const per = s.model === 'ease' ? new Float64Array(o.customers) : undefined;
+    const r = o.measure(s.model, m, per);
+    if (per) easePer.set(JSON.stringify(s.start), per);
     const ms = now() - t0;
     startScore.set(s.model, r);
     const shown = s.shown ?? ((p: Point) => p);
@@ -205,7 +210,9 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
       if (JSON.stringify(p) === startKey) return startScore.get(model)!.ndcg;
       const t0 = now();
       const m = await s.fit(p);
-      const r = o.measure(model, m);
+      const per = model === 'ease' ? new Float64Array(o.customers) : undefined;
+      const r = o.measure(model, m, per);
+      if (per) easePer.set(JSON.stringify(p), per);
       const list = trials.get(model)!;
       list.push({ params: (s.shown ?? ((x: Point) => ({ ...x })))(p), ndcg: r.ndcg, recall: r.cappedRecall, elapsedMs: now() - t0 });
       return r.ndcg;
@@ -249,6 +256,14 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
         found.score = stage.score;
       }
     }
+    if (model === 'ease') {
+      const pick = oneStandardErrorUp(found.best, 'lambda', easePer);
+      if (pick) {
+        notes.push(pick.note);
+        found.best = pick.point;
+        found.score = trials.get(model)!.find((t) => JSON.stringify(t.params) === JSON.stringify(pick.point))?.ndcg ?? found.score;
+      }
+    }
     found.spent = searchedSpent;
     spent += found.spent;
     const list = trials.get(model)!;
@@ -290,4 +305,38 @@ export function halfDecades(grid: readonly number[]): number[] {
 function axesOf<M extends GridModel>(model: M, grid: Record<string, readonly (number | string)[]>, fixed: FixedParams): Axis[] {
   const held = (fixed[model] ?? {}) as Record<string, unknown>;
   return (GRID_PARAMS[model] as readonly string[]).filter((p) => held[p] === undefined).map((name) => ({ name, values: grid[name]! }));
+}
+
+/**
+ * The one-standard-error rule (Hastie, Tibshirani & Friedman, The Elements of Statistical Learning, 2nd ed.,
+ * §7.10; the blend's rule too, core/eval/validated-blend.ts): among the settings tried with the best one's other
+ * parameters, take the most regularised (largest `axis`) whose validation NDCG lies within one standard error of
+ * the best's, the error paired per customer. Why for EASE's λ: its validation curve is flat near the optimum
+ * (Online Retail: λ 300 and 500 tie), so which of several tied values wins was decided by the search's start;
+ * the rule decides ties on principle, towards the simpler model (a stronger pull of B towards 0). Null when
+ * no larger value is within one standard error.
+ */
+export function oneStandardErrorUp(best: Point, axis: string, perCustomer: ReadonlyMap<string, Float64Array>): { point: Point; note: string } | null {
+  const bestPer = perCustomer.get(JSON.stringify(best));
+  if (!bestPer || bestPer.length < 2) return null;
+  let pick: { point: Point; mean: number; se: number } | null = null;
+  for (const [key, per] of perCustomer) {
+    const p = JSON.parse(key) as Point;
+    const same = Object.keys(best).every((k) => k === axis || p[k] === best[k]);
+    if (!same || !((p[axis] as number) > (best[axis] as number))) continue;
+    if (pick && (p[axis] as number) <= (pick.point[axis] as number)) continue;
+    const n = per.length;
+    let sum = 0;
+    for (let c = 0; c < n; c++) sum += per[c]! - bestPer[c]!;
+    const mean = sum / n;
+    let ss = 0;
+    for (let c = 0; c < n; c++) ss += (per[c]! - bestPer[c]! - mean) ** 2;
+    const se = Math.sqrt(ss / (n - 1) / n);
+    if (mean >= -se) pick = { point: p, mean, se };
+  }
+  if (!pick) return null;
+  return {
+    point: pick.point,
+    note: `EASE λ ${pick.point[axis]} chosen over ${best[axis]} by the one-standard-error rule (validation NDCG ${pick.mean.toFixed(4)} ± ${pick.se.toFixed(4)} against it)`,
+  };
 }

@@ -110,7 +110,7 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   if (!useEase) notes.push(`EASE not tuned: ${ds.items.length} items, above ${EASE_TUNE_MAX_ITEMS} (each fit would take minutes); it trains with the default lambda`);
 
   const fixed = o.fixed ?? {};
-  const measure = (name: string, m: Scorer): EvalResult => ev.evaluate({ name, scoreInto: (u, h, out) => m.scoreInto(u, h, out) });
+  const measure = (name: string, m: Scorer, perCustomer?: Float64Array): EvalResult => ev.evaluateFill(name, (u, _c, out) => m.scoreInto(u, train, out), perCustomer);
   const iterations = o.iterations ?? 15;
   const searched = await searchModels({
     train,

@@ -141,6 +141,37 @@ describe('validateBlend', () => {
     });
   });
 
+  it('weakens the content path for cold items when it costs on the later window though not on the first', () => {
+    // Customers 0-59 are the first window, 60-119 the later one. iALS ranks each customer's truth first, with
+    // graded scores 0-0.9 elsewhere; items 17-19 are cold. Content scores the cold items 0 for the first
+    // customers and 1 for the later ones, so at share 1 the cold items (content z 2.4) pass the truth (iALS z
+    // about 1.9) only there (common practice, no source: a path kept for costing nothing must keep costing
+    // nothing out of sample).
+    const C = 120;
+    const N = 20;
+    const truthItem = (u: number) => u % 17;
+    const history = binaryRows(Array.from({ length: C }, (_, u) => [(truthItem(u) + 1) % 17]), N);
+    const win = (from: number, to: number) => binaryRows(Array.from({ length: C }, (_, u) => (u >= from && u < to ? [truthItem(u)] : [])), N);
+    const ials = table('ials', Array.from({ length: C }, (_, u) => Float32Array.from({ length: N }, (_, i) => (i === truthItem(u) ? 1 : ((i * 7 + u) % 10) / 10))));
+    const content = table('content', Array.from({ length: C }, (_, u) => Float32Array.from({ length: N }, (_, i) => (i >= 17 && u >= 60 ? 1 : 0))));
+    const models = [
+      { name: 'content' as const, scorer: { name: 'content', scoreInto: content.scoreInto } },
+      { name: 'ials' as const, scorer: { name: 'ials', scoreInto: ials.scoreInto } },
+    ];
+    const customersPerItem = Int32Array.from({ length: N }, (_, i) => (i >= 17 ? 1 : 50));
+    const first = new RankingEvaluator(history, evalTruth(history, win(0, 60)), 3);
+    const later = new RankingEvaluator(history, evalTruth(history, win(60, 120)), 3);
+    const alone = validateBlend(first, history, models, { customersPerItem });
+    expect(alone).toMatchObject({ kind: 'single', model: 'ials', coldContent: true });
+    expect(alone.coldShare ?? 1).toBe(1);
+    const r = validateBlend(first, history, models, { customersPerItem, confirm: later });
+    expect(r).toMatchObject({ kind: 'single', model: 'ials' });
+    expect(r.coldContent ? r.coldShare! : 0).toBeLessThan(1);
+    expect(r.reason).toMatch(/; the content path for cold items (is weakened to 0\.\d+ by|cost NDCG on) the later window/);
+    // Without the path (or with a weaker one) the first window still reads what iALS alone reads there.
+    expect(r.validation.ndcg).toBeGreaterThanOrEqual(r.validation.singles.find((x) => x.model === 'ials')!.ndcg - 1e-12);
+  });
+
   it('is the single model when no blend beats it, and says so', () => {
     const C = 60;
     const N = 10;

@@ -269,11 +269,39 @@ export function validateBlend(
   }
   let o = winner!;
   let confirmed: NonNullable<ValidatedBlend['validation']['confirm']> | undefined;
+  // The content path for cold items was kept on the first window when it cost nothing there, which is mostly
+  // no evidence at all (few cold items are truth there); the later window must not show a cost either.
+  let coldNote = '';
+  const laterCold = (weights: Float64Array, share: number): number => {
+    if (!options.confirm || share === 0 || options.confirm.customerCount < minCustomers) return share;
+    const kept = laterColdShare(options.confirm, history, ordered, { weights, coldShare: share, normalisation: o.normalisation }, cold, contentAt);
+    if (kept < share) coldNote = kept === 0 ? '; the content path for cold items cost NDCG on the later window, so it is left out' : `; the content path for cold items is weakened to ${kept} by the later window`;
+    return kept;
+  };
+  /** The best single model's first-window figure with a content-path share (its raw figure without one). */
+  const singleFigure = (weights: Float64Array, share: number): number =>
+    share === o.singleCold ? o.singleNdcg : share === 0 ? best.ndcg : specNdcg(evaluator, history, ordered, { weights, coldShare: share, normalisation: o.normalisation }, cold, contentAt);
+  const firstShare = o.coldShare;
+  o = { ...o, coldShare: laterCold(o.weights, o.coldShare) };
+  if (o.coldShare !== firstShare) {
+    // The first window's figure is measured again with the path the later window left; a blend that no longer
+    // beats its best model there is not kept (never below its best part on validation).
+    trials++;
+    o = { ...o, ndcg: specNdcg(evaluator, history, ordered, o, cold, contentAt) };
+    if (o.weights[bestAt]! < 1 && !(o.ndcg > best.ndcg + 1e-9)) {
+      const singleWeights = Float64Array.from(o.weights, (_, q) => (q === bestAt ? 1 : 0));
+      const share = laterCold(singleWeights, o.singleCold);
+      o = { ...o, weights: singleWeights, coldShare: share, ndcg: singleFigure(singleWeights, share) };
+    }
+  }
   if (o.weights[bestAt]! < 1 && options.confirm) {
     confirmed = confirmLater(options.confirm, history, ordered, o, bestAt, cold, contentAt, minCustomers);
     if (!confirmed.held) {
       const found = { ...o };
-      o = { ...o, weights: Float64Array.from(o.weights, (_, q) => (q === bestAt ? 1 : 0)), coldShare: o.singleCold, ndcg: o.singleNdcg };
+      const singleWeights = Float64Array.from(o.weights, (_, q) => (q === bestAt ? 1 : 0));
+      coldNote = '';
+      const share = laterCold(singleWeights, o.singleCold);
+      o = { ...o, weights: singleWeights, coldShare: share, ndcg: singleFigure(singleWeights, share) };
       const c = confirmed;
       const path = o.coldShare > 0 ? `; cold items keep a content path${o.coldShare < 1 ? ` (share ${o.coldShare})` : ''}` : '';
       const spec: BlendSpec = { kind: 'blend', model: null, normalisation: found.normalisation, weights: {}, coldContent: false };
@@ -286,7 +314,7 @@ export function validateBlend(
           : `on the later validation window it did not beat ${best.model} by more than its standard error (gain ${c.gain.toFixed(4)} ± ${c.se.toFixed(4)} NDCG@${k})`;
       const r = single(
         true,
-        `${describeBlend(spec)} beat ${best.model} on the earlier validation window (NDCG@${k} ${found.ndcg.toFixed(4)} against ${best.ndcg.toFixed(4)}), but ${verdict}, so the hybrid is ${best.model}${path}`,
+        `${describeBlend(spec)} beat ${best.model} on the earlier validation window (NDCG@${k} ${found.ndcg.toFixed(4)} against ${best.ndcg.toFixed(4)}), but ${verdict}, so the hybrid is ${best.model}${path}${coldNote}`,
         o.coldShare,
         o.ndcg,
         trials + 2,
@@ -300,7 +328,7 @@ export function validateBlend(
       ? `no blend beat ${best.model} on validation by more than its standard error (best gain ${guarded.gain.toFixed(4)} ± ${guarded.se.toFixed(4)} NDCG@${k})`
       : `no blend beat ${best.model} on validation`;
     return {
-      ...single(true, `${why}, so the hybrid is ${best.model}${path}`, o.coldShare, o.ndcg, trials),
+      ...single(true, `${why}, so the hybrid is ${best.model}${path}${coldNote}`, o.coldShare, o.ndcg, trials),
       normalisation: o.normalisation,
     };
   }
@@ -322,7 +350,7 @@ export function validateBlend(
     validation: { k, customers, ndcg: o.ndcg, singles, bestSingle: best.model, trials: trials + (confirmed ? 2 : 0), ...(confirmed && { confirm: confirmed }) },
     reason: `${describeBlend(spec)}: NDCG@${k} ${o.ndcg.toFixed(4)} on validation against ${best.ndcg.toFixed(4)} for ${best.model} alone${
       confirmed ? `; on a later window ${confirmed.ndcg.toFixed(4)} against ${confirmed.single.toFixed(4)}` : ''
-    }`,
+    }${coldNote}`,
   };
 }
 
@@ -362,6 +390,54 @@ function confirmLater(
   const single = ev.evaluateFill(model.name, (u, _c, out) => model.scorer.scoreInto(u, history, out), singlePer).ndcg;
   const { mean, se } = pairedGain(blendPer, singlePer);
   return { customers, ndcg: blend, single, gain: mean, se, held: mean > se };
+}
+
+/**
+ * The strongest content-path share, at most `o.coldShare` (COLD_SHARES, then none), that costs nothing on the
+ * later window against no path at all, with the weights fixed.
+ */
+function laterColdShare(
+  ev: RankingEvaluator,
+  history: Csr,
+  ordered: readonly BlendModelInput[],
+  o: { weights: Float64Array; coldShare: number; normalisation: CustomerNormalisation },
+  cold: Uint8Array | null,
+  contentAt: number,
+): number {
+  if (!cold || contentAt < 0) return o.coldShare;
+  const at = (share: number) => specNdcg(ev, history, ordered, { ...o, coldShare: share }, cold, contentAt);
+  const none = at(0);
+  for (const share of COLD_SHARES) {
+    if (share > o.coldShare) continue;
+    if (at(share) >= none) return share;
+  }
+  return 0;
+}
+
+/** NDCG@K of a blend spec (weights, normalisation, cold share) on an evaluator's customers, scored afresh. */
+function specNdcg(
+  ev: RankingEvaluator,
+  history: Csr,
+  ordered: readonly BlendModelInput[],
+  o: { weights: Float64Array; coldShare: number; normalisation: CustomerNormalisation },
+  cold: Uint8Array | null,
+  contentAt: number,
+): number {
+  const N = history.cols;
+  const M = ordered.length;
+  const cols = Array.from({ length: M }, () => new Float32Array(N));
+  const raw = new Float32Array(N);
+  const scratch = new Float64Array(N);
+  const share = cold && contentAt >= 0 ? o.coldShare : 0;
+  return ev.evaluateFill('hybrid', (u, _c, out) => {
+    const hist = history.indices.subarray(history.indptr[u]!, history.indptr[u + 1]!);
+    for (let m = 0; m < M; m++) {
+      if (!(o.weights[m]! > 0) && !(m === contentAt && share > 0)) continue;
+      ordered[m]!.scorer.scoreInto(u, history, raw);
+      normaliseForCustomer(o.normalisation, raw, hist, cols[m]!, scratch);
+    }
+    blendColumnsInto(cols, o.weights, share > 0 ? cold : null, share > 0 ? cols[contentAt]! : null, out, share);
+  }).ndcg;
 }
 
 /** Mean and standard error of the paired differences a − b (per customer). */

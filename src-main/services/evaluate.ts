@@ -1,6 +1,7 @@
 import { InputError } from '../core/errors.ts';
 import {
   customersPerItem,
+  MIN_BLEND_CUSTOMERS,
   evalTruth,
   RankingEvaluator,
   sampleTruth,
@@ -26,7 +27,7 @@ import type { Dataset } from '../core/types.ts';
 import { loadDataset } from '../store/dataset.ts';
 import { ModelRepo } from '../store/models.ts';
 import type { Db } from '../store/workspace.ts';
-import { notYetAvailable } from './tune/split.ts';
+import { confirmationHalves, notYetAvailable } from './tune/split.ts';
 
 export interface EvaluateOptions {
   /** List length K. Default 10. */
@@ -67,7 +68,8 @@ export function evaluateWorkspace(db: Db, options: EvaluateOptions = {}): Worksp
  * (train | validation | test, split.ts):
  * 1. learned models (content, item-kNN, EASE, iALS) are fitted on train only;
  * 2. the validated blend (core/eval/validated-blend.ts) is chosen on validation over every model, with
- *    train as each customer's history (popularity counted on train);
+ *    train as each customer's history (popularity counted on train): weights on the window's earlier half,
+ *    kept only if they also beat the best single model on its later half, as training does (tune/blend.ts);
  * 3. everything is measured on test, with train + validation as history: those items are excluded from
  *    the lists and read by history-based scorers (item-kNN, content, EASE); iALS keeps its train factors.
  * Counting components (popularity, trend, the cold-start test) and the popularity baseline read all
@@ -117,13 +119,19 @@ export function evaluateDataset(ds: Dataset, options: EvaluateOptions = {}): Wor
   const notYetInTest = notYetAvailable(ds, cuts.testFrom);
 
   // Validation: the validated blend over every model (services/tune/blend.ts does the same for training).
-  const valEval = new RankingEvaluator(train, sampleTruth(evalTruth(train, validation, undefined, notYetInValidation), cap, seededRng(seed)), k, notYetInValidation);
+  const windowEvaluator = (v: Csr, rngSeed: number) =>
+    new RankingEvaluator(train, sampleTruth(evalTruth(train, v, undefined, notYetInValidation), cap, seededRng(rngSeed)), k, notYetInValidation);
+  const halves = confirmationHalves(ds, split.validation, 'time', seed);
+  const chooseEval = windowEvaluator(m(halves.choose), seed);
+  const confirmEval = windowEvaluator(m(halves.confirm), seed + 2);
+  const twoWindows = chooseEval.customerCount >= MIN_BLEND_CUSTOMERS && confirmEval.customerCount >= MIN_BLEND_CUSTOMERS;
+  const valEval = twoWindows ? chooseEval : windowEvaluator(validation, seed);
   if (valEval.customerCount === 0) throw new InputError('no customer has both history and new items in the validation window');
   const t0 = performance.now();
   const inputs: BlendModelInput[] = [...models].map(([name, m]) => ({ name: name as BlendModel, scorer: { name, scoreInto: (u, h, out) => m.scoreInto(u, h, out) } }));
   const trainPopularity = fitPopularity(train).model;
   inputs.push({ name: 'popularity', scorer: { name: 'popularity', scoreInto: (u, h, out) => trainPopularity.scoreInto(u, h, out) } });
-  const blend = validateBlend(valEval, train, inputs, { customersPerItem: customersPerItem(train) });
+  const blend = validateBlend(valEval, train, inputs, { customersPerItem: customersPerItem(train), ...(twoWindows && { confirm: confirmEval }) });
   const searchMs = performance.now() - t0;
   if (!blend.validated) notes.push(blend.reason);
 

@@ -1,6 +1,8 @@
 /**
  * The tuning search's budget, in plain fits: tuning may spend this many times what one fit of every searched
- * model at its defaults costs (measured on the validation split's train part, each fit with its measurement).
+ * model at its defaults costs (on the validation split's train part, each fit with its measurement), every cost
+ * predicted from the data's sizes (services/tune/trial-cost.ts), not read from the clock, so a loaded machine
+ * runs the same trials as an idle one.
  * Default 3: issue 10 item 5 bounds default tuning by 3 plain fits of all models. Measured on Online Retail
  * (2 cores, load average about 8, back to back): `train` with tuning 58 s wall, 45 CPU-s, against 32 s wall,
  * 19 CPU-s for `train --no-tune` (every model on all signals plus the validated blend): the whole tuned run,

@@ -4,8 +4,12 @@
  * (split.ts, the same split `train --tune` measures on), and core/eval/validated-blend.ts chooses the blend
  * (or the single model) by NDCG@K on the validation part. Nothing is written here; training stores the
  * result with its models (store/blends.ts).
+ *
+ * The validation part is cut in two (split.ts `confirmationHalves`): the weights are chosen on the earlier half
+ * and a blend is kept only if it also beats the best single model on the later half (validated-blend.ts says
+ * why). When either half has too few customers to measure, the whole part chooses, unconfirmed, as before.
  */
-import { evalTruth, RankingEvaluator, sampleTruth, validateBlend, type BlendModel, type BlendModelInput, type ValidatedBlend } from '../../core/eval/index.ts';
+import { evalTruth, MIN_BLEND_CUSTOMERS, RankingEvaluator, sampleTruth, validateBlend, type BlendModel, type BlendModelInput, type ValidatedBlend } from '../../core/eval/index.ts';
 import { buildInteractionMatrix, type BuildOptions } from '../../core/matrix/build.ts';
 import { fitContent } from '../../core/models/content.ts';
 import { fitEase } from '../../core/models/ease.ts';
@@ -18,7 +22,7 @@ import { InputError } from '../../core/errors.ts';
 import { columnCounts } from '../holdout/trained.ts';
 import { fitIalsThreaded } from '../train/ials-threads.ts';
 import { TRAIN_EASE_DEFAULTS, type TrainOptions } from '../train/train-models.ts';
-import { validationSplit } from './split.ts';
+import { confirmationHalves, validationSplit } from './split.ts';
 
 export interface BlendTrainingOptions {
   /** NDCG@K the blend is chosen by. Default 10 (the tuner's). */
@@ -57,8 +61,13 @@ export async function learnBlend(
   const budget = o.budgetBytes ?? 256 * 2 ** 20;
   const perCustomer = 4 * Math.max(1, kinds.length) * Math.max(1, ds.items.length);
   const cap = Math.max(1, Math.min(o.sampleCustomers ?? 1000, Math.floor(budget / perCustomer)));
-  const truth = sampleTruth(evalTruth(train, validation, undefined, split.unavailable), cap, seededRng(seed));
-  const ev = new RankingEvaluator(train, truth, k, split.unavailable);
+  const windowEvaluator = (v: typeof validation, rngSeed: number) =>
+    new RankingEvaluator(train, sampleTruth(evalTruth(train, v, undefined, split.unavailable), cap, seededRng(rngSeed)), k, split.unavailable);
+  const halves = confirmationHalves(ds, split.validation, split.method, seed);
+  const chooseEv = windowEvaluator(buildInteractionMatrix(ds, { ...o.matrix, rows: halves.choose }), seed);
+  const confirmEv = windowEvaluator(buildInteractionMatrix(ds, { ...o.matrix, rows: halves.confirm }), seed + 1);
+  const twoWindows = chooseEv.customerCount >= MIN_BLEND_CUSTOMERS && confirmEv.customerCount >= MIN_BLEND_CUSTOMERS;
+  const ev = twoWindows ? chooseEv : windowEvaluator(validation, seed);
   const fitOpts = o.signal ? { signal: o.signal } : {};
   const models: BlendModelInput[] = [];
   const add = (name: BlendModel, m: Scorer) => models.push({ name, scorer: { name, scoreInto: (u, h, out) => m.scoreInto(u, h, out) } });
@@ -70,7 +79,7 @@ export async function learnBlend(
     else if (kind === 'popularity') add(kind, fitPopularity(train).model);
     else add(kind, (await fitIalsThreaded(train, { seed, ...params.ials }, { ...fitOpts, ...(o.threads !== undefined && { threads: o.threads }) })).model);
   }
-  const r = validateBlend(ev, train, models, { customersPerItem: columnCounts(train) });
+  const r = validateBlend(ev, train, models, { customersPerItem: columnCounts(train), ...(twoWindows && { confirm: confirmEv }) });
   return { ...r, validation: { ...r.validation, method: split.method } };
 }
 

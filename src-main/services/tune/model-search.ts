@@ -2,17 +2,18 @@
  * The per-model searches of tuning (issue 10 item 2): item-kNN, EASE and iALS, each by coordinate search on
  * its log grid (search.ts) under one shared budget measured in plain fits.
  *
- * Budget: first each searched model is fitted at its start point (its defaults, with the caller's fixed values),
- * which measures what one plain fit of it costs here (fit + measurement on the validation split). The pool is
+ * Budget: first each searched model is fitted at its start point (its defaults, with the caller's fixed values).
+ * What one plain fit of each costs (fit + measurement on the validation split; iALS with the training's full
+ * sweeps) is predicted from the sizes of the data by trial-cost.ts, never measured: the clock of a loaded
+ * machine would otherwise change which trials run, so the same data would not give the same search. The pool is
  * `budget` × the sum of those plain costs; the starts are paid from it, and the rest is shared in order EASE
  * (a third), item-kNN (half of what is left) and iALS (the remainder), so whatever a model leaves unspent goes to
- * the next. A trial's cost is predicted from the plain cost by a fixed cost model (iALS: its sweeps and the
- * per-sweep work at its factor count; item-kNN and EASE: one plain fit), so the search decides from predictions
- * and never waits on the clock mid-search.
+ * the next. Every trial's cost is predicted the same way (iALS: its sweeps at its factor count; item-kNN: its
+ * neighbour count). The clock (`now`) only times the trials for the record.
  */
 import { CancelledError } from '../../core/errors.ts';
 import type { EvalResult } from '../../core/eval/index.ts';
-import { nnz, type Csr } from '../../core/matrix/csr.ts';
+import type { Csr } from '../../core/matrix/csr.ts';
 import { EASE_DEFAULTS, fitEase } from '../../core/models/ease.ts';
 import { IALS_DEFAULTS, type IalsParams } from '../../core/models/ials-params.ts';
 import { fitItemKnn, ITEMKNN_DEFAULTS } from '../../core/models/itemknn.ts';
@@ -22,12 +23,14 @@ import { fitIalsThreaded } from '../train/ials-threads.ts';
 import { TRAIN_EASE_DEFAULTS } from '../train/train-models.ts';
 import { EASE_GRID, fullyFixed, GRID_PARAMS, IALS_GRID, IALS_SEARCH_ITERATIONS, ITEMKNN_GRID, type FixedParams, type GridModel } from './grid.ts';
 import { coordinateSearch, type Axis, type AxisValue, type Point } from './search.ts';
+import { costSizes, easeCost, ialsCost, itemKnnCost } from './trial-cost.ts';
 import type { GridTrial, ModelTuning } from './tune.ts';
 
 export interface ModelSearchOptions {
   train: Csr;
   /** NDCG and recall of a fitted model on the validation split. */
-  measure: (name: string, m: Scorer) => EvalResult;
+  /** `perCustomer`, when given (length `customers`), receives each validation customer's NDCG (paired comparisons). */
+  measure: (name: string, m: Scorer, perCustomer?: Float64Array) => EvalResult;
   /** Plain fits the search may spend (grid.ts TUNE_BUDGET). */
   budget: number;
   useEase: boolean;
@@ -35,15 +38,19 @@ export interface ModelSearchOptions {
   /** iALS sweeps of the final training. */
   iterations: number;
   seed: number;
+  /** Validation customers `measure` scores (a term of every trial's predicted cost). */
+  customers: number;
   threads?: number;
   signal?: AbortSignal;
+  /** The clock the trials' elapsed times are read from (default performance.now); it decides nothing. */
+  now?: () => number;
   /** Before each fit: the model, the trial's number and the share of the pool spent so far. */
   onTrial: (model: GridModel, trial: number, spentShare: number) => void;
 }
 
 export interface ModelSearches {
   tunings: ModelTuning[];
-  /** Milliseconds one plain fit of the searched models took here, and the predicted spend of the whole search. */
+  /** Predicted cost (trial-cost.ts: reference CPU-ms) of one plain fit of the searched models, and of the search's trials. */
   plainMs: number;
   spentMs: number;
   notes: string[];
@@ -53,8 +60,10 @@ interface Searcher {
   model: GridModel;
   axes: Axis[];
   start: Point;
-  /** Cost of a point relative to the start's (the start is 1). */
-  relCost: (p: Point) => number;
+  /** Predicted cost of a trial at the point (trial-cost.ts). */
+  cost: (p: Point) => number;
+  /** Predicted cost of one plain fit (for iALS: the training's sweeps at the start's factors). */
+  plain: number;
   fit: (p: Point) => Promise<Scorer>;
   /** The point as training parameters (iALS's confidence axis is two of them); default: as it is. */
   shown?: (p: Point) => Point;
@@ -81,6 +90,8 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
   const fitOpts = o.signal ? { signal: o.signal } : {};
   const items = o.train.cols;
   const searchers: Searcher[] = [];
+  const now = o.now ?? (() => performance.now());
+  const sizes = costSizes(o.train, o.customers);
 
   // item-kNN: "all" is k = the catalogue size; grid values above it are the same as "all".
   const ks = [...new Set(ITEMKNN_GRID.k.map((k) => (k === 'all' ? items : Math.min(k, items))))].sort((a, b) => a - b);
@@ -88,7 +99,8 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
     model: 'itemknn',
     axes: axesOf('itemknn', { k: ks, shrink: ITEMKNN_GRID.shrink, values: ITEMKNN_GRID.values }, o.fixed),
     start: { k: Math.min(ITEMKNN_DEFAULTS.k, Math.max(1, items)), shrink: ITEMKNN_DEFAULTS.shrink, values: ITEMKNN_DEFAULTS.values, ...o.fixed.itemknn },
-    relCost: () => 1,
+    cost: (p) => itemKnnCost(sizes, p['k'] as number),
+    plain: 0, // set below from the start
     fit: async (p) => fitItemKnn(o.train, { k: p['k'] as number, shrink: p['shrink'] as number, values: p['values'] as ValueTransform }, fitOpts).model,
   });
   if (o.useEase) {
@@ -97,13 +109,11 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
       // λ is refined to quarter decades around its best (the optimum is broad but not flat; common practice, no source).
       axes: axesOf('ease', { lambda: EASE_GRID.lambda, values: EASE_GRID.values }, o.fixed).map((x) => (x.name === 'lambda' ? { ...x, refine: true } : x)),
       start: { lambda: EASE_DEFAULTS.lambda, values: EASE_DEFAULTS.values, ...o.fixed.ease },
-      relCost: () => 1,
+      cost: () => easeCost(sizes),
+      plain: easeCost(sizes),
       fit: async (p) => fitEase(o.train, { ...TRAIN_EASE_DEFAULTS, lambda: p['lambda'] as number, values: p['values'] as ValueTransform }, fitOpts).model,
     });
   }
-  // iALS: per sweep, CG touches every observed entry k times and every row's k × k Gram products (Hu et al. §4,
-  // Takács et al. 2011), so a sweep costs about nnz·k + (customers + items)·k².
-  const work = (k: number) => nnz(o.train) * k + (o.train.rows + o.train.cols) * k * k;
   const heldI = (o.fixed.ials ?? {}) as Record<string, unknown>;
   // Axis order: the confidence first (its scaling, then α along a decade grid), then λ: the regularisation that
   // suits a confidence depends on it (the data term of eq. 3 grows with the confidences), so λ is line-searched
@@ -135,7 +145,12 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
     model: 'ials',
     axes: ialsAxes,
     start: ialsStart,
-    relCost: (p) => work(p['factors'] as number) / work(ialsStart['factors'] as number),
+    // Per sweep, CG touches every observed entry k times and every row's k × k Gram products (trial-cost.ts).
+    cost: (p) => ialsCost(sizes, p['factors'] as number, sweeps),
+    // A plain fit counts as iterations / sweeps of the start's trials, measurement included, as the budget was
+    // defined when it was read from the clock (so 3 plain fits buy what they bought before, e.g. the demo's iALS
+    // λ refinement to 32: its `evaluate` NDCG@10 0.126, against 0.094 at λ 10).
+    plain: (o.iterations / sweeps) * ialsCost(sizes, ialsStart['factors'] as number, sweeps),
     shown: ialsParams,
     ...(growFactors && {
       grow: { axis: 'factors', values: IALS_GRID.factors, inner: { name: 'regularization', values: halfDecades(IALS_GRID.regularization) } },
@@ -153,23 +168,27 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
 
   // 1. The start of every model: its plain cost, and a fitted model even when nothing is searched.
   const trials = new Map<GridModel, GridTrial[]>();
+  /** EASE's per-customer NDCG of each trial, by point (the one-standard-error rule below). */
+  const easePer = new Map<string, Float64Array>();
   const startScore = new Map<GridModel, EvalResult>();
   const unit = new Map<GridModel, number>();
   let plainMs = 0;
   for (const s of searchers) {
     if (o.signal?.aborted) throw new CancelledError('tuning cancelled');
     o.onTrial(s.model, 1, 0);
-    const t0 = performance.now();
+    const t0 = now();
     const m = await s.fit(s.start);
-    const r = o.measure(s.model, m);
-    const ms = performance.now() - t0;
+    const per = s.model === 'ease' ? new Float64Array(o.customers) : undefined;
+    const r = o.measure(s.model, m, per);
+    if (per) easePer.set(JSON.stringify(s.start), per);
+    const ms = now() - t0;
     startScore.set(s.model, r);
     const shown = s.shown ?? ((p: Point) => p);
     trials.set(s.model, [{ params: shown(s.start), ndcg: r.ndcg, recall: r.cappedRecall, elapsedMs: ms }]);
-    // iALS's start ran `sweeps` of the training's sweeps: a plain fit costs iterations / sweeps as much.
-    const plain = s.model === 'ials' ? (ms * o.iterations) / sweeps : ms;
-    unit.set(s.model, s.model === 'ials' ? ms : plain);
-    if (!fullyFixed(s.model, o.fixed)) plainMs += plain;
+    if (s.model === 'itemknn') s.plain = s.cost(s.start);
+    // What the start cost (iALS's ran `sweeps` of the training's sweeps, so less than its plain fit).
+    unit.set(s.model, s.cost(s.start));
+    if (!fullyFixed(s.model, o.fixed)) plainMs += s.plain;
   }
 
   // 2. The searches, sharing what is left of the pool.
@@ -187,22 +206,25 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
       continue;
     }
     const u = unit.get(model)!;
+    const plain = s.plain;
     const budgetMs = Math.max(0, pool - spent) * shareOf[model];
     const startKey = JSON.stringify(s.start);
     const evaluate = async (p: Point): Promise<number> => {
       if (JSON.stringify(p) === startKey) return startScore.get(model)!.ndcg;
-      const t0 = performance.now();
+      const t0 = now();
       const m = await s.fit(p);
-      const r = o.measure(model, m);
+      const per = model === 'ease' ? new Float64Array(o.customers) : undefined;
+      const r = o.measure(model, m, per);
+      if (per) easePer.set(JSON.stringify(p), per);
       const list = trials.get(model)!;
-      list.push({ params: (s.shown ?? ((x: Point) => ({ ...x })))(p), ndcg: r.ndcg, recall: r.cappedRecall, elapsedMs: performance.now() - t0 });
+      list.push({ params: (s.shown ?? ((x: Point) => ({ ...x })))(p), ndcg: r.ndcg, recall: r.cappedRecall, elapsedMs: now() - t0 });
       return r.ndcg;
     };
     const found = await coordinateSearch({
       axes: s.axes,
       start: s.start,
       budget: budgetMs,
-      cost: (p) => (JSON.stringify(p) === startKey ? 0 : u * s.relCost(p)),
+      cost: (p) => (JSON.stringify(p) === startKey ? 0 : s.cost(p)),
       ...(o.signal && { signal: o.signal }),
       onTrial: (t) => o.onTrial(model, t.trial, pool > 0 ? Math.min(1, (spent + t.spent) / pool) : 1),
       evaluate,
@@ -215,7 +237,7 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
       for (const v of s.grow.values.filter((x) => x > (found.best[s.grow!.axis] as number))) {
         const left = budgetMs - searchedSpent;
         const start = { ...found.best, [s.grow.axis]: v };
-        if (u * s.relCost(start) > left + 1e-9) {
+        if (s.cost(start) > left + 1e-9) {
           found.stopped = 'budget';
           break;
         }
@@ -225,7 +247,7 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
           axes: [s.grow.inner],
           start,
           budget: left,
-          cost: (p) => u * s.relCost(p),
+          cost: (p) => s.cost(p),
           ...(o.signal && { signal: o.signal }),
           onTrial: (t) => o.onTrial(model, trials.get(model)!.length + 1, pool > 0 ? Math.min(1, (spent + offset + t.spent) / pool) : 1),
           evaluate,
@@ -235,6 +257,14 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
         if (!(stage.score > found.score + 1e-9)) break;
         found.best = stage.best;
         found.score = stage.score;
+      }
+    }
+    if (model === 'ease') {
+      const pick = oneStandardErrorUp(found.best, 'lambda', easePer);
+      if (pick) {
+        notes.push(pick.note);
+        found.best = pick.point;
+        found.score = trials.get(model)!.find((t) => JSON.stringify(t.params) === JSON.stringify(pick.point))?.ndcg ?? found.score;
       }
     }
     found.spent = searchedSpent;
@@ -253,8 +283,8 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
           ...(s.grow ? [[s.grow.axis, [s.start[s.grow.axis]!, ...grown]] as [string, AxisValue[]]] : []),
         ]),
         // Both include the start, which was paid from the pool before the search got its share.
-        budgetPlainFits: u > 0 ? (budgetMs + u) / (model === 'ials' ? (u * o.iterations) / sweeps : u) : 0,
-        spentPlainFits: u > 0 ? (found.spent + u) / (model === 'ials' ? (u * o.iterations) / sweeps : u) : 0,
+        budgetPlainFits: plain > 0 ? (budgetMs + u) / plain : 0,
+        spentPlainFits: plain > 0 ? (found.spent + u) / plain : 0,
         stopped: found.stopped,
       },
     });
@@ -278,4 +308,38 @@ export function halfDecades(grid: readonly number[]): number[] {
 function axesOf<M extends GridModel>(model: M, grid: Record<string, readonly (number | string)[]>, fixed: FixedParams): Axis[] {
   const held = (fixed[model] ?? {}) as Record<string, unknown>;
   return (GRID_PARAMS[model] as readonly string[]).filter((p) => held[p] === undefined).map((name) => ({ name, values: grid[name]! }));
+}
+
+/**
+ * The one-standard-error rule (Hastie, Tibshirani & Friedman, The Elements of Statistical Learning, 2nd ed.,
+ * §7.10; the blend's rule too, core/eval/validated-blend.ts): among the settings tried with the best one's other
+ * parameters, take the most regularised (largest `axis`) whose validation NDCG lies within one standard error of
+ * the best's, the error paired per customer. Why for EASE's λ: its validation curve is flat near the optimum
+ * (Online Retail: λ 300 and 500 tie), so which of several tied values wins was decided by the search's start;
+ * the rule decides ties on principle, towards the simpler model (a stronger pull of B towards 0). Null when
+ * no larger value is within one standard error.
+ */
+export function oneStandardErrorUp(best: Point, axis: string, perCustomer: ReadonlyMap<string, Float64Array>): { point: Point; note: string } | null {
+  const bestPer = perCustomer.get(JSON.stringify(best));
+  if (!bestPer || bestPer.length < 2) return null;
+  let pick: { point: Point; mean: number; se: number } | null = null;
+  for (const [key, per] of perCustomer) {
+    const p = JSON.parse(key) as Point;
+    const same = Object.keys(best).every((k) => k === axis || p[k] === best[k]);
+    if (!same || !((p[axis] as number) > (best[axis] as number))) continue;
+    if (pick && (p[axis] as number) <= (pick.point[axis] as number)) continue;
+    const n = per.length;
+    let sum = 0;
+    for (let c = 0; c < n; c++) sum += per[c]! - bestPer[c]!;
+    const mean = sum / n;
+    let ss = 0;
+    for (let c = 0; c < n; c++) ss += (per[c]! - bestPer[c]! - mean) ** 2;
+    const se = Math.sqrt(ss / (n - 1) / n);
+    if (mean >= -se) pick = { point: p, mean, se };
+  }
+  if (!pick) return null;
+  return {
+    point: pick.point,
+    note: `EASE λ ${pick.point[axis]} chosen over ${best[axis]} by the one-standard-error rule (validation NDCG ${pick.mean.toFixed(4)} ± ${pick.se.toFixed(4)} against it)`,
+  };
 }

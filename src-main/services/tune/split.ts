@@ -100,3 +100,26 @@ function randomSplit(ds: Dataset, share: number, seed: number): { train: Int32Ar
   if (validation.length === 0) throw new InputError(NOTHING_TO_HOLD_OUT);
   return { train: Int32Array.from(train), validation: Int32Array.from(validation) };
 }
+
+/**
+ * A validation window cut in two for the validated blend (core/eval/validated-blend.ts `confirm`): weights are
+ * chosen on `choose` and must hold on `confirm`. A time split is cut at the median time of its signals, so
+ * `confirm` is the later half (consecutive windows, as in rolling-origin evaluation); a random split's
+ * customers are dealt to one half or the other by a seeded draw, so the halves share no customer.
+ */
+export function confirmationHalves(ds: Dataset, rows: Int32Array, method: 'time' | 'random', seed: number): { choose: Int32Array; confirm: Int32Array } {
+  const s = ds.signals;
+  const choose: number[] = [];
+  const confirm: number[] = [];
+  if (method === 'time') {
+    const times = Float64Array.from(rows, (k) => s.at[k]!).filter((t) => t === t).sort();
+    const mid = times.length ? times[Math.floor(times.length / 2)]! : Infinity;
+    // Untimed signals (rare in a time split) stay with the earlier half, where the weights are chosen.
+    for (const k of rows) (s.at[k]! >= mid ? confirm : choose).push(k);
+  } else {
+    const rng = seededRng(seed + 7919);
+    const side = Uint8Array.from({ length: ds.customerIds.length }, () => rng.int(2));
+    for (const k of rows) (side[s.customer[k]!] ? confirm : choose).push(k);
+  }
+  return { choose: Int32Array.from(choose), confirm: Int32Array.from(confirm) };
+}

@@ -63,7 +63,7 @@ export interface TuneResult {
   models: ModelTuning[];
   /** The best settings as training parameters. */
   params: NonNullable<TrainOptions['params']>;
-  /** The budget in plain fits, what one plain fit of the searched models took here, and what the searches spent. */
+  /** The budget in plain fits, and the predicted cost (services/tune/trial-cost.ts) of one plain fit of the searched models and of the searches. */
   budget: { plainFits: number; plainMs: number; spentMs: number };
   elapsedMs: number;
   notes: string[];
@@ -83,11 +83,14 @@ export interface TuneOptions {
   /** Grid parameters held at these values (the caller's own training parameters); the rest is searched. */
   fixed?: FixedParams;
   signal?: AbortSignal;
+  /** The clock trials are timed by, for the record only (default performance.now): the search never reads it. */
+  now?: () => number;
   onProgress?: (p: { model: string; trial: number; trials: number; fraction: number }) => void;
 }
 
 export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<TuneResult> {
-  const started = performance.now();
+  const now = o.now ?? (() => performance.now());
+  const started = now();
   const k = o.k ?? 10;
   const seed = o.seed ?? 1;
   if (!Number.isInteger(k) || k < 1) throw new InputError(`k must be a whole number >= 1, got ${k}`, { column: 'k' });
@@ -107,7 +110,7 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   if (!useEase) notes.push(`EASE not tuned: ${ds.items.length} items, above ${EASE_TUNE_MAX_ITEMS} (each fit would take minutes); it trains with the default lambda`);
 
   const fixed = o.fixed ?? {};
-  const measure = (name: string, m: Scorer): EvalResult => ev.evaluate({ name, scoreInto: (u, h, out) => m.scoreInto(u, h, out) });
+  const measure = (name: string, m: Scorer, perCustomer?: Float64Array): EvalResult => ev.evaluateFill(name, (u, _c, out) => m.scoreInto(u, train, out), perCustomer);
   const iterations = o.iterations ?? 15;
   const searched = await searchModels({
     train,
@@ -117,6 +120,8 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
     fixed,
     iterations,
     seed,
+    customers: ev.customerCount,
+    now,
     ...(o.threads !== undefined && { threads: o.threads }),
     ...(o.signal && { signal: o.signal }),
     onTrial: (model, t, spentShare) => o.onProgress?.({ model, trial: t, trials: 0, fraction: spentShare }),
@@ -146,7 +151,7 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
       ...(be && { ease: { ...TRAIN_EASE_DEFAULTS, lambda: be['lambda'] as number, values: be['values'] as ValueTransform } }),
     },
     budget: { plainFits: budget, plainMs: searched.plainMs, spentMs: searched.spentMs },
-    elapsedMs: performance.now() - started,
+    elapsedMs: now() - started,
     notes,
   };
 }

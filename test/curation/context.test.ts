@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { buildCurationContext, hasFacet, similarity } from '../../src-main/core/curation/context.ts';
 import { context, item } from './helpers.ts';
+import { selfInformation } from '../../src-main/core/metrics/novelty.ts';
 
 describe('buildCurationContext', () => {
   it('codes facets densely and keeps tags as CSR-like lists', () => {
@@ -30,11 +31,14 @@ describe('buildCurationContext', () => {
     expect(similarity(ctx, 2, 0)).toBe(0);
   });
 
-  it('gives self-information −log2 p, flooring p = 0 at 1 / (customers + 1)', () => {
+  it('gives self-information −log2 p, counting an item nobody has as one customer, as the offline novelty does', () => {
     const items = [item(1), item(2)];
-    const ctx = buildCurationContext(items, { vectors: new Float32Array(2), dim: 1, popularity: [0.25, 0], customerCount: 7 });
+    const ctx = buildCurationContext(items, { vectors: new Float32Array(2), dim: 1, popularity: [0.25, 0], customerCount: 8 });
     expect(ctx.selfInformation[0]).toBeCloseTo(2, 12);
+    // One floor for the meter and the evaluation: log2(8 / 1) = 3, the ceiling the meter scales by.
+    expect(ctx.selfInformation[1]).toBeCloseTo(selfInformation(0, 8), 12);
     expect(ctx.selfInformation[1]).toBeCloseTo(3, 12);
+    expect(ctx.selfInformationCeiling).toBeCloseTo(3, 12);
   });
 
   it('rejects vectors of the wrong size and shares outside [0, 1]', () => {

@@ -82,16 +82,18 @@ describe('calibration gap on [0, 1]', () => {
 
 describe('novelty on [0, 1]', () => {
   it('reads 0 for items everyone has and 1 for items nobody has', () => {
-    // Zhou et al. (2010): self-information −log2 p_i. With 3 customers an untouched item counts as 1 / (3 + 1)
-    // (context.ts), so the ceiling is log2 4 = 2 bits; p = 1/3 gives log2 3 = 1.585 bits → 0.792.
-    const items = [item(1), item(2), item(3)];
-    const ctx = buildCurationContext(items, { vectors: Float32Array.of(1, 1, 1), dim: 1, popularity: [1, 0, 1 / 3], customerCount: 3 });
+    // Zhou et al. (2010): self-information −log2 p_i. An untouched item counts as one customer, as the offline
+    // novelty counts it (core/metrics/novelty.ts), so with 4 customers the ceiling is log2 4 = 2 bits, reached
+    // by the rarest item and an untouched one alike; p = 1/2 gives 1 bit → 0.5.
+    const items = [item(1), item(2), item(3), item(4)];
+    const ctx = buildCurationContext(items, { vectors: Float32Array.of(1, 1, 1, 1), dim: 1, popularity: [1, 0, 1 / 4, 1 / 2], customerCount: 4 });
     expect(ctx.selfInformationCeiling).toBeCloseTo(2, 12);
     expect(meterShelf(ctx, Int32Array.of(0), base).novelty).toBeCloseTo(0, 12);
     expect(meterShelf(ctx, Int32Array.of(1), base).novelty).toBeCloseTo(1, 12);
-    const third = meterShelf(ctx, Int32Array.of(2), base);
-    expect(third.noveltyBits).toBeCloseTo(Math.log2(3), 12);
-    expect(third.novelty).toBeCloseTo(Math.log2(3) / 2, 12);
+    expect(meterShelf(ctx, Int32Array.of(2), base).novelty).toBeCloseTo(1, 12);
+    const half = meterShelf(ctx, Int32Array.of(3), base);
+    expect(half.noveltyBits).toBeCloseTo(1, 12);
+    expect(half.novelty).toBeCloseTo(0.5, 12);
   });
 });
 

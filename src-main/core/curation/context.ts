@@ -4,6 +4,7 @@
  * strings or objects. Facet values (category, supplier, tag) become small integer codes.
  */
 import { BugError } from '../errors.ts';
+import { selfInformation as selfInformationOf } from '../metrics/novelty.ts';
 import type { Item } from '../types.ts';
 import type { Facet } from './types.ts';
 
@@ -55,9 +56,9 @@ export interface ContextOptions {
   /** Share of customers who interacted with each item, in [0, 1]. */
   popularity: ArrayLike<number>;
   /**
-   * Customers behind `popularity`. An item nobody touched has p = 0 and infinite self-information; we
-   * count it as 1 / (customers + 1) instead (add-one smoothing: common practice, no source). Without a
-   * count, half the smallest positive share is used.
+   * Customers behind `popularity`. An item nobody touched has p = 0 and infinite self-information; it is
+   * counted as one customer, as the offline novelty counts it (core/metrics/novelty.ts selfInformation: one
+   * floor for the meter and the evaluation). Without a count, half the smallest positive share is used.
    */
   customerCount?: number;
 }
@@ -129,10 +130,13 @@ export function buildCurationContext(items: readonly Item[], options: ContextOpt
     popularity[i] = p;
     if (p > 0 && p < smallest) smallest = p;
   }
-  const floor =
-    options.customerCount !== undefined ? 1 / (options.customerCount + 1) : Number.isFinite(smallest) ? smallest / 2 : 1;
+  const customers = options.customerCount;
+  const floor = customers !== undefined ? 1 / Math.max(1, customers) : Number.isFinite(smallest) ? smallest / 2 : 1;
   const selfInformation = new Float64Array(n);
-  for (let i = 0; i < n; i++) selfInformation[i] = -Math.log2(Math.max(popularity[i] as number, floor));
+  for (let i = 0; i < n; i++) {
+    const p = popularity[i] as number;
+    selfInformation[i] = customers !== undefined && customers >= 1 ? selfInformationOf(p * customers, customers) : -Math.log2(Math.max(p, floor));
+  }
   return {
     n,
     itemIds,

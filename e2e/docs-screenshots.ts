@@ -4,15 +4,9 @@
  * board-800.png, shelf-editor-800.png and planner-800.png (in an 800-pixel-wide window). It works on a copy of the
  * workspace, so the original is never changed. A script, not a test: run it when the screens change.
  */
-import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
-import { chromium, type Locator, type Page } from '@playwright/test';
-import { createHandlerTable } from '../src-main/api/handler-table.ts';
-import { AppContext } from '../src-main/services/context.ts';
-import { startWebShell } from '../src-main/shell/web/server.ts';
-import { ensureBuilt, ROOT } from './fixtures.ts';
-import config from '../playwright.config.ts';
+import type { Locator, Page } from '@playwright/test';
+import { openScreenshotSession } from './screenshot-session.ts';
 
 /** Waits until a button is enabled again (the page disables them while it works): on state, not on time. */
 async function expectEnabled(button: Locator): Promise<void> {
@@ -27,22 +21,8 @@ async function picturesShown(page: Page): Promise<void> {
 }
 
 async function main(): Promise<void> {
-  const source = process.argv[2];
-  if (!source || !fs.existsSync(source)) throw new Error('usage: npx tsx e2e/docs-screenshots.ts WORKSPACE.sqlite (an existing, trained workspace)');
-  ensureBuilt();
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-docs-'));
-  const copy = path.join(dir, path.basename(source));
-  for (const suffix of ['', '-wal', '-shm']) if (fs.existsSync(source + suffix)) fs.copyFileSync(source + suffix, copy + suffix);
-  const ctx = new AppContext();
-  ctx.open(copy, { create: false });
-  const shell = await startWebShell({ table: createHandlerTable(ctx), uploads: ctx.uploads, staticDir: path.join(ROOT, 'dist', 'renderer') });
-  const browser = await chromium.launch(config.use?.launchOptions);
-  const out = path.join(ROOT, 'docs', 'screenshots');
-  fs.mkdirSync(out, { recursive: true });
+  const { page, out, close } = await openScreenshotSession('docs-screenshots.ts', process.argv[2]);
   try {
-    const page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
-    await page.goto(shell.pageUrl);
-    await page.getByText(/models? trained/).waitFor({ timeout: 60_000 });
     await page.getByText(/^Signals from /).waitFor();
     await page.screenshot({ path: path.join(out, 'overview.png') });
 
@@ -115,10 +95,7 @@ async function main(): Promise<void> {
     await page.screenshot({ path: path.join(out, 'planner-800.png') });
     console.log(`wrote ${out}/overview.png, board-1280.png, board-800.png, shelf-editor.png, shelf-editor-800.png, groups.png, planner.png and planner-800.png`);
   } finally {
-    await browser.close();
-    await shell.close();
-    ctx.close();
-    fs.rmSync(dir, { recursive: true, force: true });
+    await close();
   }
 }
 

@@ -4,33 +4,12 @@
  * what-if under the pointer) and meter-800-scrolled.png (the strip still in view further down). It works on
  * a copy of the workspace, so the original is never changed. A script, not a test: run it when the meter changes.
  */
-import fs from 'node:fs';
-import os from 'node:os';
 import path from 'node:path';
-import { chromium } from '@playwright/test';
-import { createHandlerTable } from '../src-main/api/handler-table.ts';
-import { AppContext } from '../src-main/services/context.ts';
-import { startWebShell } from '../src-main/shell/web/server.ts';
-import { ensureBuilt, ROOT } from './fixtures.ts';
-import config from '../playwright.config.ts';
+import { openScreenshotSession } from './screenshot-session.ts';
 
 async function main(): Promise<void> {
-  const source = process.argv[2];
-  if (!source || !fs.existsSync(source)) throw new Error('usage: npx tsx e2e/meter-screenshots.ts WORKSPACE.sqlite (an existing, trained workspace)');
-  ensureBuilt();
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-meter-'));
-  const copy = path.join(dir, path.basename(source));
-  for (const suffix of ['', '-wal', '-shm']) if (fs.existsSync(source + suffix)) fs.copyFileSync(source + suffix, copy + suffix);
-  const ctx = new AppContext();
-  ctx.open(copy, { create: false });
-  const shell = await startWebShell({ table: createHandlerTable(ctx), uploads: ctx.uploads, staticDir: path.join(ROOT, 'dist', 'renderer') });
-  const browser = await chromium.launch(config.use?.launchOptions);
-  const out = path.join(ROOT, 'docs', 'screenshots');
-  fs.mkdirSync(out, { recursive: true });
+  const { page, out, close } = await openScreenshotSession('meter-screenshots.ts', process.argv[2]);
   try {
-    const page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
-    await page.goto(shell.pageUrl);
-    await page.getByText(/models? trained/).waitFor({ timeout: 60_000 });
     const screens = page.getByRole('navigation', { name: 'Screens' });
     await screens.getByRole('button', { name: 'Editions', exact: true }).click();
     await page.getByLabel('Name').fill('Garden week');
@@ -63,10 +42,7 @@ async function main(): Promise<void> {
     await page.screenshot({ path: path.join(out, 'meter-800-scrolled.png') });
     console.log(`wrote ${out}/meter-1280.png, meter-800.png and meter-800-scrolled.png`);
   } finally {
-    await browser.close();
-    await shell.close();
-    ctx.close();
-    fs.rmSync(dir, { recursive: true, force: true });
+    await close();
   }
 }
 

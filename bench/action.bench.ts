@@ -10,11 +10,9 @@
  */
 import fs from 'node:fs';
 import os from 'node:os';
-import path from 'node:path';
-import { createHandlerTable, invoke, type HandlerTable } from '../src-main/api/handler-table.ts';
+import { invoke } from '../src-main/api/handler-table.ts';
 import { seededRng } from '../src-main/core/rng.ts';
-import { AppContext } from '../src-main/services/context.ts';
-import { buildDemoWorkspace } from '../src-main/services/demo.ts';
+import { openBenchDemo } from './demo-copy.ts';
 
 interface SlotOut {
   item: string | null;
@@ -25,21 +23,7 @@ interface ShelfOut {
   meter: Record<string, unknown>;
 }
 
-const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-action-bench-'));
-const file = path.join(dir, 'demo.sqlite');
-const prebuilt = process.env['SW_BENCH_DEMO'];
-if (prebuilt) {
-  fs.copyFileSync(prebuilt, file);
-  console.log(`demo workspace copied from ${prebuilt}`);
-} else {
-  const t0 = performance.now();
-  await buildDemoWorkspace(file);
-  console.log(`demo workspace built in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
-}
-
-const app = new AppContext();
-app.open(file, { create: false });
-const table: HandlerTable = createHandlerTable(app);
+const { dir, app, table } = await openBenchDemo('sw-action-bench-');
 const counts = app.db.prepare('SELECT (SELECT count(*) FROM item) AS items, (SELECT count(*) FROM signal) AS signals, (SELECT max(at) FROM signal) AS last').get() as {
   items: number;
   signals: number;

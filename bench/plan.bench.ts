@@ -11,25 +11,10 @@
  */
 import fs from 'node:fs';
 import os from 'node:os';
-import path from 'node:path';
-import { createHandlerTable, invoke, type HandlerTable } from '../src-main/api/handler-table.ts';
-import { AppContext } from '../src-main/services/context.ts';
-import { buildDemoWorkspace } from '../src-main/services/demo.ts';
+import { invoke } from '../src-main/api/handler-table.ts';
+import { openBenchDemo } from './demo-copy.ts';
 
-const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-plan-bench-'));
-const file = path.join(dir, 'demo.sqlite');
-const prebuilt = process.env['SW_BENCH_DEMO'];
-if (prebuilt) {
-  fs.copyFileSync(prebuilt, file);
-  console.log(`demo workspace copied from ${prebuilt}`);
-} else {
-  const t0 = performance.now();
-  await buildDemoWorkspace(file);
-  console.log(`demo workspace built in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
-}
-const app = new AppContext();
-app.open(file, { create: false });
-const table: HandlerTable = createHandlerTable(app);
+const { dir, app, table } = await openBenchDemo('sw-plan-bench-');
 
 async function call(name: string, payload: unknown): Promise<{ value: Record<string, unknown>; ms: number; cpuMs: number }> {
   const c0 = process.cpuUsage();

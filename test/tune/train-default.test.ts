@@ -13,6 +13,13 @@ import { handWorkspace, tempDir } from '../holdout/fixture.ts';
  * changed since the last tuning and otherwise trains that tuning's settings again; `tune: false` trains plainly.
  * The app's Train button and `shelfwright train` without flags both send such a request (test/renderer, test/cli).
  */
+/** Starts train.start through the handler table and waits for the job to settle. */
+async function trainJob(ctx: AppContext, payload: unknown) {
+  const started = await invoke(createHandlerTable(ctx), 'train.start', payload);
+  if (!started.ok) throw new Error(started.error.message);
+  return ctx.jobs.settled((started.value as { id: string }).id);
+}
+
 describe('train.start without a word on tuning', () => {
   it('tunes changed data, retrains unchanged data with the last tuning, and trains plainly when told not to tune', async () => {
     const d = tempDir('train-default');
@@ -21,11 +28,8 @@ describe('train.start without a word on tuning', () => {
     const ctx = new AppContext();
     ctx.open(file, { create: false });
     try {
-      const table = createHandlerTable(ctx);
       const run = async (payload: unknown) => {
-        const started = await invoke(table, 'train.start', payload);
-        if (!started.ok) throw new Error(started.error.message);
-        const job = await ctx.jobs.settled((started.value as { id: string }).id);
+        const job = await trainJob(ctx, payload);
         expect(job.error).toBeNull();
         expect(job.state).toBe('done');
         return job.summary ?? '';
@@ -85,12 +89,7 @@ describe('train.start without a word on tuning', () => {
     const ctx = new AppContext();
     ctx.open(file, { create: false });
     try {
-      const table = createHandlerTable(ctx);
-      const run = async (payload: unknown) => {
-        const started = await invoke(table, 'train.start', payload);
-        if (!started.ok) throw new Error(started.error.message);
-        return ctx.jobs.settled((started.value as { id: string }).id);
-      };
+      const run = (payload: unknown) => trainJob(ctx, payload);
       const plain = await run({ models: ['content', 'itemknn', 'popularity'], threads: 1 });
       expect(plain.error).toBeNull();
       expect(plain.summary).toMatch(/^not tuned \(no customer has two or more items: nothing can be held out for tuning\): trained 3 models with the default settings/);

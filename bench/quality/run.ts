@@ -122,7 +122,7 @@ async function main() {
   });
   const lines = [
     `Quality on ${datasetName()}, ${data}; measured: ${root}`,
-    `test: ${tuned?.customers ?? plain?.customers ?? '?'} customers, ${tuned?.pairs ?? plain?.pairs ?? '?'} held-out pairs; K = ${k}; items bought in training are not ranked`,
+    `test: ${tuned?.customers ?? plain?.customers ?? '?'} customers, ${tuned?.pairs ?? plain?.pairs ?? '?'} held-out pairs; K = ${k}; items a customer has in training are not ranked`,
     `machine: ${os.availableParallelism()} cores, load average ${os.loadavg().map((x) => x.toFixed(1)).join(' ')} at the end`,
     '',
     table.text,

@@ -21,7 +21,9 @@ Models:
 - EASE: Steck (2019) eq. 8 on presence: P = (X'X + lambda I)^-1, B = I - P diag(1/diag P), diag B = 0.
 - iALS: Hu, Koren & Volinsky (2008) eq. 4 in alternating sweeps, each row solved by CG_STEPS conjugate-gradient
   steps warm-started from the last sweep (Takacs, Pilaszy & Tikk 2011), vectorised over all rows, preference p = 1 where the customer bought, confidence c = 1 + alpha r (linear) or
-  1 + alpha log(1 + r / eps), eps = 1 (log), r = the summed quantity.
+  1 + alpha log(1 + r / eps), eps = 1 (log), r = the summed value: a purchase's quantity, or for a signal of
+  kind 'rating' its stars less 2.5 (signal_value: Shelfwright's reading of a rating; prepare_movielens.py keeps
+  only 3 stars and more, so presence is unchanged and the Online Retail data, all purchases, reads as before).
 - content: TF-IDF of the item text (scikit-learn TfidfVectorizer, smooth idf, l2 norm, English stop
   words) and cosine similarity; score(u,j) = mean cosine of j to the customer's distinct history items.
 """
@@ -51,6 +53,21 @@ def read_csv(path):
         return list(csv.DictReader(f))
 
 
+# A rating's positive evidence, as Shelfwright's matrix reads it (core/matrix/build.ts RATING_NEUTRAL): a rating r
+# counts max(0, r - 2.5), so on a 1-5 scale 3, 4 and 5 stars weigh 0.5, 1.5 and 2.5. Every other kind (a purchase's
+# quantity, a count of views) keeps its value. Only iALS reads values; the other models read presence.
+RATING_NEUTRAL = 2.5
+
+
+def signal_value(row):
+    v = float(row['value'])
+    if row.get('kind') == 'rating':
+        if v <= RATING_NEUTRAL:
+            raise ValueError(f'a rating of {v} carries no positive evidence: drop it when preparing the data')
+        return v - RATING_NEUTRAL
+    return v
+
+
 class Data:
     def __init__(self, folder):
         items = read_csv(os.path.join(folder, 'items.csv'))
@@ -62,7 +79,7 @@ class Data:
         self.customer_index = {c: n for n, c in enumerate(self.customer_ids)}
         self.u = np.array([self.customer_index[r['customer']] for r in train], dtype=np.int64)
         self.i = np.array([self.item_index[r['item']] for r in train], dtype=np.int64)
-        self.v = np.array([float(r['value']) for r in train])
+        self.v = np.array([signal_value(r) for r in train])
         self.at = np.array([r['at'] for r in train])
         test = read_csv(os.path.join(folder, 'test.csv'))
         self.test = {}

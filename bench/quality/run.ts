@@ -1,8 +1,9 @@
 /**
  * Quality benchmark on real data (issue 10 item 8): `npm run bench:quality [-- options]`.
  *
- * Reads the import files bench/quality/prepare.py makes from the UCI Online Retail log (see
- * bench/quality/README.md): items.csv, train.csv (signals before the split time), test.csv (held-out pairs).
+ * Reads the import files bench/quality/prepare.py makes from the UCI Online Retail log, or prepare_movielens.py
+ * from MovieLens 100K (see bench/quality/README.md): items.csv, train.csv (signals before the split time),
+ * test.csv (held-out pairs), split.json (whose `dataset` names the data in the table's title).
  * Ours: both files are imported into a temporary workspace through the `shelfwright` command (the real import
  * path), trained once with `train --tune --k K` and once with plain `train`, and scored with
  * `evaluate --holdout test.csv --k K` (every model, the hybrid, a random baseline; items the customer has in
@@ -40,6 +41,13 @@ for (const f of ['items.csv', 'train.csv', 'test.csv']) {
     console.error(`${path.join(data, f)} is missing: make the import files first (bench/quality/README.md), or pass --data DIR`);
     process.exit(1);
   }
+}
+/** The data set's name for the table's title: split.json's `dataset` (prepare.py and prepare_movielens.py write it). */
+function datasetName(): string {
+  const file = path.join(data, 'split.json');
+  if (!fs.existsSync(file)) return 'unnamed data (no split.json)';
+  const name = (JSON.parse(fs.readFileSync(file, 'utf8')) as { dataset?: unknown }).dataset;
+  return typeof name === 'string' && name !== '' ? name : 'unnamed data (split.json names none)';
 }
 fs.mkdirSync(out, { recursive: true });
 const tmp = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-quality-'));
@@ -113,8 +121,8 @@ async function main() {
     reference: ref ? Object.fromEntries(Object.entries(ref.report.models).map(([m, v]) => [m, { ndcg: v.ndcg, recall: v.recall }])) : null,
   });
   const lines = [
-    `Quality on UCI Online Retail (CC BY 4.0), ${data}; measured: ${root}`,
-    `test: ${tuned?.customers ?? plain?.customers ?? '?'} customers, ${tuned?.pairs ?? plain?.pairs ?? '?'} held-out pairs; K = ${k}; items bought in training are not ranked`,
+    `Quality on ${datasetName()}, ${data}; measured: ${root}`,
+    `test: ${tuned?.customers ?? plain?.customers ?? '?'} customers, ${tuned?.pairs ?? plain?.pairs ?? '?'} held-out pairs; K = ${k}; items a customer has in training are not ranked`,
     `machine: ${os.availableParallelism()} cores, load average ${os.loadavg().map((x) => x.toFixed(1)).join(' ')} at the end`,
     '',
     table.text,

@@ -190,7 +190,7 @@ describe('tuneDataset with fixed parameters', () => {
       // item-kNN: shrink held at 0 in every trial; the search has no shrink axis.
       expect(grid('itemknn')).toMatchObject({ searched: true, fixed: { shrink: 0 } });
       for (const t of grid('itemknn').trials) expect(t.params['shrink']).toBe(0);
-      expect(Object.keys(grid('itemknn').search!.axes)).toEqual(['k', 'values', 'normalize']);
+      expect(Object.keys(grid('itemknn').search!.axes)).toEqual(['normalize', 'k', 'values']);
       expect(grid('ease')).toMatchObject({ searched: true, fixed: {} });
       // The unsearched iALS was fitted once (its start point), and reported as such in the progress.
       expect(seen.filter((p) => p.model === 'ials' && p.fraction < 1)).toHaveLength(1);

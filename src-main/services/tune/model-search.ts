@@ -97,7 +97,11 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
   const ks = [...new Set(ITEMKNN_GRID.k.map((k) => (k === 'all' ? items : Math.min(k, items))))].sort((a, b) => a - b);
   searchers.push({
     model: 'itemknn',
-    axes: axesOf('itemknn', { k: ks, shrink: ITEMKNN_GRID.shrink, values: ITEMKNN_GRID.values, normalize: ITEMKNN_GRID.normalize }, o.fixed),
+    // The normalisation first: it changes how much each history item's list weighs, so k and shrink are then
+    // line-searched for the normalisation chosen; searched last, its change would re-open every other axis.
+    axes: axesOf('itemknn', { k: ks, shrink: ITEMKNN_GRID.shrink, values: ITEMKNN_GRID.values, normalize: ITEMKNN_GRID.normalize }, o.fixed).sort(
+      (a, b) => Number(b.name === 'normalize') - Number(a.name === 'normalize'),
+    ),
     start: {
       k: Math.min(ITEMKNN_DEFAULTS.k, Math.max(1, items)),
       shrink: ITEMKNN_DEFAULTS.shrink,

@@ -183,10 +183,13 @@ export function collectNeighbours(
       const kth = heap.worstScore;
       let over = 0;
       for (let c = 0; c < nCand; c++) if (candScore[c]! >= kth) over++;
-      if (wide.capacity < over) wide = new TopKHeap(Math.max(over, 2 * wide.capacity));
-      wide.clear();
-      for (let c = 0; c < nCand; c++) if (candScore[c]! >= kth) wide.push(candIdx[c]!, candScore[c]!);
-      source = wide;
+      if (over > k) {
+        // Some candidate left out ties the K-th: rank everything at or above it (most rows have no such tie).
+        if (wide.capacity < over) wide = new TopKHeap(Math.max(over, 2 * wide.capacity));
+        wide.clear();
+        for (let c = 0; c < nCand; c++) if (candScore[c]! >= kth) wide.push(candIdx[c]!, candScore[c]!);
+        source = wide;
+      }
     }
     if (q + source.size > indices.length) {
       const grown = Math.max(indices.length * 2, q + source.size);

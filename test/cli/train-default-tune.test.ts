@@ -50,6 +50,7 @@ describe('train flags out of range', () => {
     [['--budget', 'lots'], /--budget must be a number of plain fits from 0.5 to 20, got 'lots'/],
     [['--knn-values', 'sqrt'], /--knn-values must be presence, log or linear, got 'sqrt'/],
     [['--ease-values', 'binary'], /--ease-values must be presence, log or linear, got 'binary'/],
+    [['--knn-normalize', 'max'], /--knn-normalize must be none or sum, got 'max'/],
     [['--no-tune', '--tune'], /give --tune or --no-tune, not both/],
     [['--no-tune', '--budget', '2'], /--budget sets what tuning may spend; it does nothing with --no-tune/],
   ])('train %j is a usage error naming the flag, and stores nothing', async (flags, message) => {

@@ -41,3 +41,31 @@ describe('topN (the selection under item-kNN, content, EASE and popularity)', ()
     expect(Array.from(nb.data)).toEqual([4, 3, 8, 6, 12, 9]);
   });
 });
+
+describe("collectNeighbours with ties: 'all'", () => {
+  it('keeps the k best and every candidate tied with the k-th (float32), best first, lower index first among equals (property)', () => {
+    fc.assert(
+      fc.property(fc.array(fc.integer({ min: -2, max: 4 }), { minLength: 0, maxLength: 30 }), fc.integer({ min: 1, max: 8 }), (raw, k) => {
+        const n = raw.length;
+        const scores = raw.map((v) => v / 3); // few distinct values: many ties
+        const nb = collectNeighbours(1, k, (_i, sink) => scores.forEach((s, j) => sink.push(j, s)), { ties: 'all' });
+        const sorted = scores.map((s, j) => [Math.fround(s), j] as const).sort((a, b) => b[0] - a[0] || a[1] - b[1]);
+        const kth = n >= k ? sorted[k - 1]![0] : -Infinity;
+        const expected = n > k ? sorted.filter(([s]) => s >= kth) : sorted;
+        expect(Array.from(nb.indices)).toEqual(expected.map(([, j]) => j));
+        expect(Array.from(nb.data)).toEqual(expected.map(([s]) => s));
+      }),
+    );
+  });
+
+  it('gives the same neighbour set when the candidates are renumbered (property)', () => {
+    fc.assert(
+      fc.property(fc.array(fc.integer({ min: 0, max: 3 }), { minLength: 1, maxLength: 25 }), fc.integer({ min: 1, max: 6 }), (raw, k) => {
+        const n = raw.length;
+        const a = collectNeighbours(1, k, (_i, sink) => raw.forEach((s, j) => sink.push(j, s)), { ties: 'all' });
+        const b = collectNeighbours(1, k, (_i, sink) => raw.forEach((s, j) => sink.push(n - 1 - j, s)), { ties: 'all' });
+        expect(new Set(Array.from(b.indices).map((j) => n - 1 - j))).toEqual(new Set(a.indices));
+      }),
+    );
+  });
+});

@@ -85,7 +85,7 @@ describe('train --tune with flags of the user', () => {
     const line = (kind: string) => r.out.split('\n').find((l) => l.startsWith(`${kind} `)) ?? '';
     expect(line('ials')).toMatch(/factors=3 \(fixed by you\)/);
     expect(line('ials')).toMatch(/regularization=[\d.]+ alpha=[\d.]+ scaling=(linear|log) factors=3 \(fixed by you\) \(NDCG@3 /);
-    expect(line('itemknn')).toMatch(/k=2 \(fixed by you\) shrink=\d+ values=(presence|log|linear) \(NDCG@3 /);
+    expect(line('itemknn')).toMatch(/k=2 \(fixed by you\) shrink=\d+ values=(presence|log|linear) normalize=(none|sum) \(NDCG@3 /);
     expect(line('ease')).toMatch(/lambda=300 values=presence \(fixed by you: not searched\)/);
     expect(r.out).not.toMatch(/your flag|grid's best was/);
     // The job's summary line.

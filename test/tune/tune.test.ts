@@ -103,7 +103,7 @@ describe('tuneDataset', () => {
     const grid = (m: string) => r.models.find((x) => x.model === m)!;
     // The first trial of each model is its defaults (the start of the coordinate search), except iALS, which
     // starts at regularisation 10 with log confidence (model-search.ts IALS_SEARCH_START).
-    expect(grid('itemknn').trials[0]!.params).toEqual({ k: 50, shrink: 10, values: 'presence' });
+    expect(grid('itemknn').trials[0]!.params).toEqual({ k: 50, shrink: 10, values: 'presence', normalize: 'none' });
     expect(grid('ease').trials[0]!.params).toEqual({ lambda: 500, values: 'presence' });
     expect(grid('ials').trials[0]!.params).toEqual({ regularization: 10, alpha: 1, scaling: 'log', factors: 64 });
     // The hybrid is not tuned here: the validated blend is learned at training (blend.ts).
@@ -190,7 +190,7 @@ describe('tuneDataset with fixed parameters', () => {
       // item-kNN: shrink held at 0 in every trial; the search has no shrink axis.
       expect(grid('itemknn')).toMatchObject({ searched: true, fixed: { shrink: 0 } });
       for (const t of grid('itemknn').trials) expect(t.params['shrink']).toBe(0);
-      expect(Object.keys(grid('itemknn').search!.axes)).toEqual(['k', 'values']);
+      expect(Object.keys(grid('itemknn').search!.axes)).toEqual(['normalize', 'k', 'values']);
       expect(grid('ease')).toMatchObject({ searched: true, fixed: {} });
       // The unsearched iALS was fitted once (its start point), and reported as such in the progress.
       expect(seen.filter((p) => p.model === 'ials' && p.fraction < 1)).toHaveLength(1);

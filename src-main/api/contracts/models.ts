@@ -43,7 +43,10 @@ export const TrainRequest = z
       })
       .strict()
       .optional(),
-    itemknn: z.object({ k: z.number().int().min(1).optional(), shrink: z.number().min(0).optional(), values: ValueTransformName.optional() }).strict().optional(),
+    itemknn: z
+      .object({ k: z.number().int().min(1).optional(), shrink: z.number().min(0).optional(), values: ValueTransformName.optional(), normalize: z.enum(['none', 'sum']).optional() })
+      .strict()
+      .optional(),
     ease: z.object({ lambda: z.number().positive().optional(), values: ValueTransformName.optional() }).strict().optional(),
     threads: z.number().int().min(1).max(8).optional(),
     /**

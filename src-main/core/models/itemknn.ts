@@ -14,6 +14,15 @@ import { collectNeighbours, neighbourRowInto, neighbourTopN, type Neighbours } f
  * keeps its K most similar items; a customer's score for j is Σ_h x_uh · sim(h, j) over the history
  * items h whose lists contain j, where x_uh is the history value through the model's transform
  * (matrix/values.ts; presence by default, so x is binary as in Sarwar et al.'s setting).
+ *
+ * Among candidates tied with the K-th similarity, all are kept (topn.ts collectNeighbours, `ties: 'all'`), so
+ * the model does not depend on the order of the catalogue.
+ *
+ * `normalize: 'sum'` is Deshpande & Karypis (2004), "Item-based top-N recommendation algorithms", ACM TOIS
+ * 22(1), §4.2 (similarity normalisation): each history item's kept similarities are scaled to sum to 1 when
+ * scoring, so an item whose neighbourhood is dense (many high similarities) does not outweigh the rest of the
+ * history; they report it improving top-N quality on most of their data sets. The stored similarities stay the
+ * cosines (similar items and their values are unchanged); tuning searches the option (services/tune/grid.ts).
  */
 export interface ItemKnnParams {
   /** Neighbours kept per item. Default 50. */
@@ -22,16 +31,39 @@ export interface ItemKnnParams {
   shrink?: number;
   /** How a matrix value enters, in the fit and in scoring (matrix/values.ts). Default presence. */
   values?: ValueTransform;
+  /** 'sum': each history item's neighbour similarities sum to 1 in scoring (Deshpande & Karypis 2004 §4.2). Default 'none'. */
+  normalize?: KnnNormalize;
 }
 
-export const ITEMKNN_DEFAULTS = { k: 50, shrink: 10, values: 'presence' } as const satisfies ItemKnnParams;
+export const KNN_NORMALIZE = ['none', 'sum'] as const;
+export type KnnNormalize = (typeof KNN_NORMALIZE)[number];
+
+export const ITEMKNN_DEFAULTS = { k: 50, shrink: 10, values: 'presence', normalize: 'none' } as const satisfies ItemKnnParams;
+
+function checkNormalize(v: unknown): KnnNormalize {
+  if (!KNN_NORMALIZE.includes(v as KnnNormalize)) throw new InputError(`item-kNN normalize must be one of ${KNN_NORMALIZE.join(', ')}, got ${String(v)}`);
+  return v as KnnNormalize;
+}
 
 export class ItemKnnModel implements Scorer {
   readonly kind = 'itemknn' as const;
   constructor(
     readonly neighbours: Neighbours,
     readonly values: ValueTransform = ITEMKNN_DEFAULTS.values,
-  ) {}
+    readonly normalize: KnnNormalize = ITEMKNN_DEFAULTS.normalize,
+  ) {
+    const nb = neighbours;
+    this.#scale = new Float32Array(nb.items).fill(1);
+    if (normalize === 'sum') {
+      for (let h = 0; h < nb.items; h++) {
+        let s = 0;
+        for (let q = nb.indptr[h]!, e = nb.indptr[h + 1]!; q < e; q++) s += nb.data[q]!;
+        this.#scale[h] = s > 0 ? 1 / s : 0;
+      }
+    }
+  }
+  /** Per history item, the factor of its similarities in scoring (1, or 1 / their sum under 'sum'). */
+  readonly #scale: Float32Array;
 
   get itemCount(): number {
     return this.neighbours.items;
@@ -43,7 +75,7 @@ export class ItemKnnModel implements Scorer {
     const t = this.values;
     for (let p = history.indptr[u]!, end = history.indptr[u + 1]!; p < end; p++) {
       const h = history.indices[p]!;
-      const x = transformValue(t, history.data[p]!);
+      const x = transformValue(t, history.data[p]!) * this.#scale[h]!;
       for (let q = nb.indptr[h]!, e = nb.indptr[h + 1]!; q < e; q++) out[nb.indices[q]!]! += x * nb.data[q]!;
     }
   }
@@ -58,21 +90,32 @@ export class ItemKnnModel implements Scorer {
 
   serialize(): Uint8Array {
     const nb = this.neighbours;
-    return packSections(MAGIC, 2, [Int32Array.of(nb.items), nb.indptr, nb.indices, nb.data, Int32Array.of(transformCode(this.values))]);
+    const norm = KNN_NORMALIZE.indexOf(this.normalize);
+    return packSections(MAGIC, 3, [Int32Array.of(nb.items), nb.indptr, nb.indices, nb.data, Int32Array.of(transformCode(this.values)), Int32Array.of(norm)]);
   }
 }
 
 const MAGIC = 'SWITMKNN';
 
-/** Reads format 2, and format 1 (before value transforms: raw values, i.e. linear). */
+/**
+ * Reads format 3 (with the normalisation), format 2 (before it: none) and format 1 (before value transforms too:
+ * raw values, i.e. linear).
+ */
 export function loadItemKnn(bytes: Uint8Array): ItemKnnModel {
   const version = formatVersion(bytes);
-  const r = new SectionReader(bytes, MAGIC, version === 1 ? 1 : 2);
+  const r = new SectionReader(bytes, MAGIC, version === 1 ? 1 : version === 2 ? 2 : 3);
   const items = r.i32()[0]!;
   const indptr = r.i32();
   if (indptr.length !== items + 1) throw new InputError('not a valid item-kNN model: neighbour offsets do not match the item count');
   const nb = { items, indptr, indices: r.i32(), data: r.f32() };
-  return new ItemKnnModel(nb, version === 1 ? 'linear' : transformFromCode(r.i32()[0]!));
+  const values = version === 1 ? 'linear' : transformFromCode(r.i32()[0]!);
+  let normalize: KnnNormalize = 'none';
+  if (version >= 3) {
+    const code = r.i32()[0]!;
+    if (!(code >= 0 && code < KNN_NORMALIZE.length)) throw new InputError(`not a valid item-kNN model: unknown normalisation code ${code}`);
+    normalize = KNN_NORMALIZE[code]!;
+  }
+  return new ItemKnnModel(nb, values, normalize);
 }
 
 /**
@@ -87,6 +130,7 @@ export function fitItemKnn(raw: Csr, params: ItemKnnParams = {}, o: FitOptions =
   const k = params.k ?? ITEMKNN_DEFAULTS.k;
   const shrink = params.shrink ?? ITEMKNN_DEFAULTS.shrink;
   const values = checkTransform(params.values ?? ITEMKNN_DEFAULTS.values);
+  const normalize = checkNormalize(params.normalize ?? ITEMKNN_DEFAULTS.normalize);
   if (!(Number.isInteger(k) && k > 0)) throw new InputError(`item-kNN k must be a positive integer, got ${k}`);
   if (!(shrink >= 0)) throw new InputError(`item-kNN shrink must be >= 0, got ${shrink}`);
   const x = transformMatrix(raw, values);
@@ -130,10 +174,10 @@ export function fitItemKnn(raw: Csr, params: ItemKnnParams = {}, o: FitOptions =
       acc[j] = 0;
       seen[j] = 0;
     }
-  });
+  }, { ties: 'all' });
   const elapsedMs = performance.now() - start;
   return {
-    model: new ItemKnnModel(neighbours, values),
-    report: { kind: 'itemknn', elapsedMs, notes: [`item-kNN: ${nItems} items, k ${k}, shrink ${shrink}, values ${values}`] },
+    model: new ItemKnnModel(neighbours, values, normalize),
+    report: { kind: 'itemknn', elapsedMs, notes: [`item-kNN: ${nItems} items, k ${k}, shrink ${shrink}, values ${values}, normalize ${normalize}`] },
   };
 }

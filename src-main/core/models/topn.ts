@@ -16,6 +16,10 @@ export class TopKHeap {
   get size(): number {
     return this.#size;
   }
+  /** The score of the worst kept pair (the K-th best once full); −Infinity when empty. */
+  get worstScore(): number {
+    return this.#size === 0 ? Number.NEGATIVE_INFINITY : this.#score[0]!;
+  }
   clear(): void {
     this.#size = 0;
   }
@@ -23,9 +27,12 @@ export class TopKHeap {
   static #worse(s1: number, i1: number, s2: number, i2: number): boolean {
     return s1 < s2 || (s1 === s2 && i1 > i2);
   }
-  push(index: number, score: number): void {
+  push(index: number, raw: number): void {
     const k = this.capacity;
-    if (k === 0 || score !== score) return;
+    if (k === 0 || raw !== raw) return;
+    // Compared as stored (float32): a float64 score against float32 ones would break ties by the direction of
+    // rounding instead of by index (two equal similarities, one already stored, would differ).
+    const score = Math.fround(raw);
     const idx = this.#idx;
     const sc = this.#score;
     if (this.#size < k) {
@@ -117,21 +124,75 @@ export function neighbourRowInto(nb: Neighbours, i: number, out: Float32Array): 
   out[i] = 0;
 }
 
+/** Where a row's candidate neighbours go (a TopKHeap, or collectNeighbours' recorder). */
+export interface NeighbourSink {
+  push(index: number, score: number): void;
+}
+
 /**
- * Builds neighbour lists row by row: `row(i, heap)` pushes item i's candidate neighbours into the heap.
+ * Builds neighbour lists row by row: `row(i, sink)` pushes item i's candidate neighbours (each index once).
  * The lists are grown as needed, so memory follows the neighbours actually found, not items × K.
+ *
+ * `ties: 'all'` keeps, beyond the K best, every candidate whose similarity (as stored, float32) equals the K-th's,
+ * as k-nearest-neighbour rules commonly do (Venables & Ripley, Modern Applied Statistics with S, 4th ed., 2002,
+ * §12.3: "if there are ties for the kth nearest vector, all candidates are included"). Why: otherwise which of
+ * the tied items make the list depends on the order of the catalogue (here the lower index wins; a partition
+ * picks arbitrarily), so renumbering the items would change the model. Tied candidates carry the same
+ * evidence by the similarity's own measure, so none is preferred; lists may then exceed K by the ties.
+ * 'lowerIndex' (the default) keeps exactly K, the lower index first among equals.
  */
-export function collectNeighbours(items: number, k: number, row: (i: number, heap: TopKHeap) => void): Neighbours {
+export function collectNeighbours(
+  items: number,
+  k: number,
+  row: (i: number, sink: NeighbourSink) => void,
+  o: { ties?: 'lowerIndex' | 'all' } = {},
+): Neighbours {
   const heap = new TopKHeap(k);
+  const all = o.ties === 'all';
+  // With ties kept: every candidate of the row is recorded too, and those at or above the K-th are ranked again.
+  let candIdx = new Int32Array(all ? Math.min(items, 1 << 16) : 0);
+  let candScore = new Float32Array(candIdx.length);
+  let wide = new TopKHeap(0);
+  let nCand = 0;
+  const recorder: NeighbourSink = {
+    push(index, score) {
+      if (score !== score) return;
+      if (nCand === candIdx.length) {
+        const ni = new Int32Array(Math.max(16, 2 * nCand));
+        ni.set(candIdx);
+        const ns = new Float32Array(ni.length);
+        ns.set(candScore);
+        candIdx = ni;
+        candScore = ns;
+      }
+      candIdx[nCand] = index;
+      candScore[nCand++] = score;
+      heap.push(index, score);
+    },
+  };
   const indptr = new Int32Array(items + 1);
   let indices = new Int32Array(Math.min(items * k, 1 << 16));
   let data = new Float32Array(indices.length);
   let q = 0;
   for (let i = 0; i < items; i++) {
     heap.clear();
-    row(i, heap);
-    if (q + heap.size > indices.length) {
-      const grown = Math.max(indices.length * 2, q + heap.size);
+    nCand = 0;
+    row(i, all ? recorder : heap);
+    let source = heap;
+    if (all && heap.size === k && nCand > k) {
+      const kth = heap.worstScore;
+      let over = 0;
+      for (let c = 0; c < nCand; c++) if (candScore[c]! >= kth) over++;
+      if (over > k) {
+        // Some candidate left out ties the K-th: rank everything at or above it (most rows have no such tie).
+        if (wide.capacity < over) wide = new TopKHeap(Math.max(over, 2 * wide.capacity));
+        wide.clear();
+        for (let c = 0; c < nCand; c++) if (candScore[c]! >= kth) wide.push(candIdx[c]!, candScore[c]!);
+        source = wide;
+      }
+    }
+    if (q + source.size > indices.length) {
+      const grown = Math.max(indices.length * 2, q + source.size);
       const ni = new Int32Array(grown);
       ni.set(indices);
       const nd = new Float32Array(grown);
@@ -139,7 +200,8 @@ export function collectNeighbours(items: number, k: number, row: (i: number, hea
       indices = ni;
       data = nd;
     }
-    q += heap.drainInto(indices, data, q);
+    q += source.drainInto(indices, data, q);
+    heap.clear();
     indptr[i + 1] = q;
   }
   return { items, indptr, indices: indices.slice(0, q), data: data.slice(0, q) };

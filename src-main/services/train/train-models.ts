@@ -164,7 +164,7 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
       if (kind === 'content') keep(kind, p.content ?? {}, fitContent(data.items, p.content));
       else if (kind === 'itemknn') {
         const fit = fitItemKnn(matrix, p.itemknn);
-        keep(kind, { ...p.itemknn, values: fit.model.values }, fit); // the transform is stored even when defaulted
+        keep(kind, { ...p.itemknn, values: fit.model.values, normalize: fit.model.normalize }, fit); // stored even when defaulted
       }
       else if (kind === 'popularity') keep(kind, {}, fitPopularity(matrix));
       else if (kind === 'ease' && easeThread) {

@@ -7,10 +7,11 @@
  * Nothing divides λ by the number of customers, items or interactions, so the λ that balances the data term
  * grows with the confidences (α and the values) and with the number of observations per row: on large,
  * heavy-tailed logs it lies orders of magnitude above the 0.01 default, hence 10⁻² to 10³.
- * item-kNN: neighbours up to 400 and "all" (every item, k = the catalogue size), shrinkage 0 to 200, and the
- * value transform. EASE: λ from 10 to 10⁴ (Steck 2019 tunes λ over such decades) and the value transform.
+ * item-kNN: neighbours up to 400 and "all" (every item, k = the catalogue size), shrinkage 0 to 200, the
+ * value transform, and Deshpande & Karypis's (2004) similarity normalisation (core/models/itemknn.ts). EASE: λ from 10 to 10⁴ (Steck 2019 tunes λ over such decades) and the value transform.
  */
 import { VALUE_TRANSFORMS } from '../../core/matrix/values.ts';
+import { KNN_NORMALIZE } from '../../core/models/itemknn.ts';
 
 export const IALS_GRID = {
   regularization: [0.01, 0.1, 1, 10, 100, 1000],
@@ -20,7 +21,7 @@ export const IALS_GRID = {
 } as const;
 
 /** 'all' keeps every item as a neighbour: k is set to the catalogue size when the grid is laid out. */
-export const ITEMKNN_GRID = { k: [10, 25, 50, 100, 200, 400, 'all'], shrink: [0, 10, 30, 100, 200], values: VALUE_TRANSFORMS } as const;
+export const ITEMKNN_GRID = { k: [10, 25, 50, 100, 200, 400, 'all'], shrink: [0, 10, 30, 100, 200], values: VALUE_TRANSFORMS, normalize: KNN_NORMALIZE } as const;
 
 export const EASE_GRID = { lambda: [10, 30, 100, 300, 1000, 3000, 10_000], values: VALUE_TRANSFORMS } as const;
 
@@ -38,7 +39,7 @@ export const IALS_SEARCH_ITERATIONS = 3;
 
 /** The parameters each model's grid varies (the hybrid is the validated blend, learned at training: no grid here). */
 export const GRID_PARAMS = {
-  itemknn: ['k', 'shrink', 'values'],
+  itemknn: ['k', 'shrink', 'values', 'normalize'],
   ials: ['regularization', 'alpha', 'scaling', 'factors'],
   ease: ['lambda', 'values'],
 } as const;

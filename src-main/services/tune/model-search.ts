@@ -16,7 +16,7 @@ import type { EvalResult } from '../../core/eval/index.ts';
 import type { Csr } from '../../core/matrix/csr.ts';
 import { EASE_DEFAULTS, fitEase } from '../../core/models/ease.ts';
 import { IALS_DEFAULTS, type IalsParams } from '../../core/models/ials-params.ts';
-import { fitItemKnn, ITEMKNN_DEFAULTS } from '../../core/models/itemknn.ts';
+import { fitItemKnn, ITEMKNN_DEFAULTS, type KnnNormalize } from '../../core/models/itemknn.ts';
 import type { Scorer } from '../../core/models/scorer.ts';
 import type { ValueTransform } from '../../core/matrix/values.ts';
 import { fitIalsThreaded } from '../train/ials-threads.ts';
@@ -97,11 +97,23 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
   const ks = [...new Set(ITEMKNN_GRID.k.map((k) => (k === 'all' ? items : Math.min(k, items))))].sort((a, b) => a - b);
   searchers.push({
     model: 'itemknn',
-    axes: axesOf('itemknn', { k: ks, shrink: ITEMKNN_GRID.shrink, values: ITEMKNN_GRID.values }, o.fixed),
-    start: { k: Math.min(ITEMKNN_DEFAULTS.k, Math.max(1, items)), shrink: ITEMKNN_DEFAULTS.shrink, values: ITEMKNN_DEFAULTS.values, ...o.fixed.itemknn },
+    // The normalisation first: it changes how much each history item's list weighs, so k and shrink are then
+    // line-searched for the normalisation chosen; searched last, its change would re-open every other axis.
+    axes: axesOf('itemknn', { k: ks, shrink: ITEMKNN_GRID.shrink, values: ITEMKNN_GRID.values, normalize: ITEMKNN_GRID.normalize }, o.fixed).sort(
+      (a, b) => Number(b.name === 'normalize') - Number(a.name === 'normalize'),
+    ),
+    start: {
+      k: Math.min(ITEMKNN_DEFAULTS.k, Math.max(1, items)),
+      shrink: ITEMKNN_DEFAULTS.shrink,
+      values: ITEMKNN_DEFAULTS.values,
+      normalize: ITEMKNN_DEFAULTS.normalize,
+      ...o.fixed.itemknn,
+    },
     cost: (p) => itemKnnCost(sizes, p['k'] as number),
     plain: 0, // set below from the start
-    fit: async (p) => fitItemKnn(o.train, { k: p['k'] as number, shrink: p['shrink'] as number, values: p['values'] as ValueTransform }, fitOpts).model,
+    fit: async (p) =>
+      fitItemKnn(o.train, { k: p['k'] as number, shrink: p['shrink'] as number, values: p['values'] as ValueTransform, normalize: p['normalize'] as KnnNormalize }, fitOpts)
+        .model,
   });
   if (o.useEase) {
     searchers.push({

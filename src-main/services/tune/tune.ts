@@ -19,6 +19,7 @@ import { evalTruth, RankingEvaluator, sampleTruth, type EvalResult } from '../..
 import { buildInteractionMatrix } from '../../core/matrix/build.ts';
 import type { ValueTransform } from '../../core/matrix/values.ts';
 import type { Scorer } from '../../core/models/scorer.ts';
+import type { KnnNormalize } from '../../core/models/itemknn.ts';
 import { seededRng } from '../../core/rng.ts';
 import type { Dataset } from '../../core/types.ts';
 import { TRAIN_EASE_DEFAULTS, type TrainOptions } from '../train/train-models.ts';
@@ -146,7 +147,7 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
     split: { method: split.method, train: split.train.length, validation: split.validation.length, customers: ev.customerCount, from: split.from },
     models,
     params: {
-      itemknn: { k: bk['k'] as number, shrink: bk['shrink'] as number, values: bk['values'] as ValueTransform },
+      itemknn: { k: bk['k'] as number, shrink: bk['shrink'] as number, values: bk['values'] as ValueTransform, normalize: bk['normalize'] as KnnNormalize },
       ials: { ...ialsSetting, seed, ...(o.iterations !== undefined && { iterations: o.iterations }) },
       ...(be && { ease: { ...TRAIN_EASE_DEFAULTS, lambda: be['lambda'] as number, values: be['values'] as ValueTransform } }),
     },

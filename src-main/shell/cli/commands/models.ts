@@ -79,6 +79,7 @@ const trainCommand: CliCommand = {
     shrink: { type: 'string' },
     lambda: { type: 'string' },
     'knn-values': { type: 'string' },
+    'knn-normalize': { type: 'string' },
     'ease-values': { type: 'string' },
     threads: { type: 'string' },
     seed: { type: 'string' },
@@ -98,6 +99,7 @@ const trainCommand: CliCommand = {
     shrink: 'item-kNN: damping of similarities built on few customers, >= 0 (default 10)',
     lambda: "the EASE model's regularisation, above 0 (default 500)",
     'knn-values': 'item-kNN: how a customer\'s summed signals on an item count: presence, log or linear (default presence)',
+    'knn-normalize': 'item-kNN: none, or sum (each history item\'s neighbour similarities sum to 1 in scoring; Deshpande & Karypis 2004) (default none)',
     'ease-values': 'EASE: how a customer\'s summed signals on an item count: presence, log or linear (default presence)',
     threads: "threads to train with, 1 to 8 (default the machine's cores, at most 8)",
     seed: 'random seed for iALS and, with --tune, the validation split (default 1)',
@@ -108,7 +110,7 @@ const trainCommand: CliCommand = {
   },
   help: [
     'iALS: --factors, --iterations, --regularization, --alpha, --scaling linear|log (confidence 1+a*r or 1+a*log(1+r)), --seed',
-    'item-kNN: --neighbours, --shrink, --knn-values.  EASE: --lambda, --ease-values.',
+    'item-kNN: --neighbours, --shrink, --knn-values, --knn-normalize.  EASE: --lambda, --ease-values.',
     'Values: the signals of one customer on one item are summed (each weighed by its kind, decayed by age), then',
     'the sum enters as presence (1), log (log(1+v)) or linear (v).',
     'Tuning (by default, when the data changed since the last tuning; --tune always; --no-tune never): a seeded',
@@ -136,7 +138,9 @@ const trainCommand: CliCommand = {
       scaling: scaling as 'linear' | 'log' | undefined,
       seed: int(env, 'seed', 0),
     });
-    const itemknn = only({ k: int(env, 'neighbours'), shrink: nonNeg(env, 'shrink'), values: transform(env, 'knn-values') });
+    const normalize = str(env, 'knn-normalize');
+    if (normalize !== undefined && normalize !== 'none' && normalize !== 'sum') throw new UsageError(`--knn-normalize must be none or sum, got '${normalize}'`);
+    const itemknn = only({ k: int(env, 'neighbours'), shrink: nonNeg(env, 'shrink'), values: transform(env, 'knn-values'), normalize: normalize as 'none' | 'sum' | undefined });
     const lambda = num(env, 'lambda', (x) => x > 0, 'a number > 0');
     const ease = only({ lambda, values: transform(env, 'ease-values') });
     const k = int(env, 'k');

@@ -1,10 +1,10 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import Papa from 'papaparse';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { main } from '../../src-main/shell/cli/main.ts';
 import { capture } from '../cli/capture.ts';
+import { writeTimelessCopy } from './timeless-copy.ts';
 
 /**
  * An editor's whole journey on a log without times, on real data: the UCI "Online Retail" slice (Chen 2015, UCI
@@ -14,8 +14,6 @@ import { capture } from '../cli/capture.ts';
  * import (headers detected, no --map), train, evaluate (the per-customer split, said), the time-dependent parts
  * (neutral and saying so) and the backtests (refused in words), all through the command line.
  */
-const FIXTURE = path.resolve(import.meta.dirname, '../fixtures/online-retail');
-
 let dir: string;
 let ws: string;
 
@@ -30,30 +28,11 @@ async function json(...argv: string[]) {
   return JSON.parse(r.out);
 }
 
-function csv(file: string): Record<string, string>[] {
-  return Papa.parse<Record<string, string>>(fs.readFileSync(file, 'utf8'), { header: true, skipEmptyLines: true }).data;
-}
-
-/** The slice without times: one row per (customer, product), its quantities summed; items without `added`. */
-function writeTimelessCopy(): { items: string; counts: string; pairs: number } {
-  const items = path.join(dir, 'products.csv');
-  fs.writeFileSync(items, Papa.unparse(csv(path.join(FIXTURE, 'items.csv')).map(({ added: _, ...rest }) => rest)));
-  const sums = new Map<string, number>();
-  for (const r of csv(path.join(FIXTURE, 'train.csv'))) {
-    const key = `${r['customer']}\t${r['item']}`;
-    sums.set(key, (sums.get(key) ?? 0) + Number(r['value']));
-  }
-  const counts = path.join(dir, 'basket-counts.csv');
-  const rows = [...sums].map(([key, q]) => [...key.split('\t'), String(q)]);
-  fs.writeFileSync(counts, Papa.unparse({ fields: ['customer_id', 'product', 'quantity'], data: rows }));
-  return { items, counts, pairs: rows.length };
-}
-
 let pairs = 0;
 beforeAll(async () => {
   dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-timeless-'));
   ws = path.join(dir, 'timeless.sqlite');
-  const copy = writeTimelessCopy();
+  const copy = writeTimelessCopy(dir);
   pairs = copy.pairs;
   expect((await run('import', 'items', copy.items)).code).toBe(0);
   const imported = await json('import', 'signals', copy.counts, '--kind', 'other', '--create-customers');

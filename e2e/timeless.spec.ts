@@ -38,6 +38,7 @@ const test = base.extend<{ timeless: { shell: WebShell; pairs: number } }>({
 
 test('evaluate a log without times: time refused in words, the default holds out per customer and says so', async ({ page, timeless }) => {
   await page.goto(timeless.shell.pageUrl);
+  await expect(page.getByLabel('Data freshness')).toContainText('No signal has a time: models are measured on a per-customer holdout');
   await page.getByRole('button', { name: 'Models', exact: true }).click();
   const panel = page.getByRole('region', { name: 'Evaluation: models against baselines' });
   await expect(panel.getByText('No evaluation yet.')).toBeVisible();

@@ -48,6 +48,11 @@ afterAll(() => {
 });
 
 describe('evaluate on a log without times', () => {
+  it('says in stats that no signal has a time', async () => {
+    expect((await run('stats')).out).toContain(`signals    ${pairs.toLocaleString('en')} none with a time`);
+  });
+
+
   it('holds out per customer at random, says so, and the hybrid finds more than popularity', async () => {
     const e = await json('evaluate', '--k', '10');
     expect(e.split.method).toBe('random');

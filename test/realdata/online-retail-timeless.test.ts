@@ -125,6 +125,19 @@ describe('the time-dependent parts on a log without times', () => {
     for (const w of r.weeks) expect(w.meter.seasonalFit).toBe(1);
   }, 60_000);
 
+  it("writes many customers' lists at once as JSON Lines, each full and scored", async () => {
+    const ids = [...new Set(fs.readFileSync(path.join(dir, 'basket-counts.csv'), 'utf8').trim().split('\n').slice(1).map((l) => l.split(',')[0]!))];
+    const list = path.join(dir, 'customers.txt');
+    fs.writeFileSync(list, `customer\n${ids.join('\n')}\n`);
+    const out = path.join(dir, 'top.jsonl');
+    const r = await json('recommend', '--customers', list, '--top', '5', '--out', out);
+    expect([r.customers, r.rows, r.format]).toEqual([ids.length, ids.length * 5, 'jsonl']);
+    const lines = fs.readFileSync(out, 'utf8').trim().split('\n').map((l) => JSON.parse(l) as { customer: string; rank: number; score: number });
+    expect(lines).toHaveLength(ids.length * 5);
+    for (const l of lines) expect(Number.isFinite(l.score)).toBe(true);
+    expect(new Set(lines.map((l) => l.customer)).size).toBe(ids.length);
+  });
+
   it('refuses both backtests in words: there are no past weeks to replay', async () => {
     const shelf = await run('shelf', 'backtest', 'week 1', 'Front');
     expect(shelf.code).toBe(2);

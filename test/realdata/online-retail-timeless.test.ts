@@ -138,6 +138,14 @@ describe('the time-dependent parts on a log without times', () => {
     expect(new Set(lines.map((l) => l.customer)).size).toBe(ids.length);
   });
 
+  it('refuses a decay by age for the cluster export, writing nothing', async () => {
+    const out = path.join(dir, 'cluster-export');
+    const r = await run('export', 'signals', '--format', 'parquet', '--out', out, '--half-life', '30');
+    expect(r.code).toBe(2);
+    expect(r.err).toContain('no signal has a time, so there is no age to decay by');
+    expect(fs.existsSync(out)).toBe(false);
+  });
+
   it('refuses both backtests in words: there are no past weeks to replay', async () => {
     const shelf = await run('shelf', 'backtest', 'week 1', 'Front');
     expect(shelf.code).toBe(2);

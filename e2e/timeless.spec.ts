@@ -49,7 +49,7 @@ test('evaluate a log without times: time refused in words, the default holds out
   await panel.getByLabel('Held out').selectOption('auto');
   await panel.getByRole('button', { name: 'Evaluate', exact: true }).click();
   // An evaluation of five models on 250 customers: long by nature on a loaded two-core machine.
-  await expect(panel.getByTestId('split-words')).toContainText(`Split: random per-customer split (none of the ${timeless.pairs.toLocaleString('en')} signals has a time)`, { timeout: 60_000 });
+  await expect(panel.getByTestId('split-words')).toContainText(`Split: per customer at random (none of the ${timeless.pairs.toLocaleString('en')} signals has a time)`, { timeout: 60_000 });
   await expect(panel.getByRole('alert')).toHaveCount(0);
   const models = await panel.locator('tbody th').allInnerTexts();
   expect(models).toContain('The blend the shelves use (validated hybrid)');

@@ -65,7 +65,7 @@ export function evaluationSplit(ds: Dataset, choice: SplitChoice, o: { cuts?: Ti
     const split = splitByTime(ds, cuts);
     if (split.validation.length > 0 && split.test.length > 0) {
       const untimed = coverage.signals - coverage.timed;
-      const why = `split by time: test from ${isoDay(cuts.testFrom)}, validation from ${isoDay(cuts.validationFrom)}` +
+      const why = `by time: test from ${isoDay(cuts.testFrom)}, validation from ${isoDay(cuts.validationFrom)}` +
         (untimed > 0 ? ` (${untimed.toLocaleString('en')} signals without a time stay in train)` : '');
       return { method: 'time', ...split, cuts, why };
     }
@@ -87,7 +87,7 @@ function random(ds: Dataset, seed: number, because: string): EvaluationSplit {
     if (tooLittleToTune(e)) throw new InputError('no customer has two or more items (left): nothing can be held out to evaluate on');
     throw e;
   }
-  const why = `random per-customer split (${because}): ${Math.round(RANDOM_HOLDOUT_SHARE * 100)}% of each customer's items held out for test, then ${Math.round(RANDOM_HOLDOUT_SHARE * 100)}% of the rest for validation`;
+  const why = `per customer at random (${because}): ${Math.round(RANDOM_HOLDOUT_SHARE * 100)}% of each customer's items held out for test, then ${Math.round(RANDOM_HOLDOUT_SHARE * 100)}% of the rest for validation`;
   return { method: 'random', train: second.train, validation: second.validation, test: first.validation, cuts: null, why };
 }
 

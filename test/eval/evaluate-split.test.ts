@@ -41,7 +41,7 @@ describe('evaluationSplit', () => {
   it('splits by time when every signal has one', () => {
     const s = evaluationSplit(full, 'auto', { seed: 1 });
     expect(s.method).toBe('time');
-    expect(s.why).toMatch(/^split by time: test from 2011-\d\d-\d\d, validation from 2011-\d\d-\d\d$/);
+    expect(s.why).toMatch(/^by time: test from 2011-\d\d-\d\d, validation from 2011-\d\d-\d\d$/);
     for (const k of s.test) expect(full.signals.at[k]).toBeGreaterThanOrEqual(s.cuts!.testFrom);
   });
 

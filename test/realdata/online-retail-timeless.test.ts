@@ -66,7 +66,7 @@ describe('evaluate on a log without times', () => {
     expect(ndcg('popularity')).toBeGreaterThan(ndcg('random'));
     expect(ndcg('hybrid')).toBeGreaterThanOrEqual(ndcg('popularity'));
     const plain = await run('evaluate', '--k', '10');
-    expect(plain.out).toMatch(/^split: random per-customer split \(none of the .* signals has a time\)/m);
+    expect(plain.out).toMatch(/^split: per customer at random \(none of the .* signals has a time\)/m);
   }, 60_000);
 
   it('gives the same figures for the same seed, run after run', async () => {

@@ -209,7 +209,7 @@ describe("a model's notes", () => {
 describe('the evaluation split', () => {
   it('sends the split picked, and says which split measured the figures', async () => {
     const sent: unknown[] = [];
-    const why = "random per-customer split (none of the 3,891 signals has a time): 20% of each customer's items held out for test, then 20% of the rest for validation";
+    const why = "per customer at random (none of the 3,891 signals has a time): 20% of each customer's items held out for test, then 20% of the rest for validation";
     const timeless = { ...evaluation, split: { method: 'random', why, validationFrom: null, testFrom: null, train: 2480, validation: 627, test: 784 } };
     const client = createClient(async (method, payload): Promise<ApiResult<unknown>> => {
       if (method === 'models.list') return { ok: true, value: { models: [] } };

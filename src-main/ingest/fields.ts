@@ -28,7 +28,8 @@ export const REQUIRED: Readonly<Record<ImportTarget, readonly string[]>> = {
 
 const SYNONYMS: Readonly<Record<ImportTarget, Readonly<Record<string, readonly string[]>>>> = {
   items: {
-    id: ['id', 'itemid', 'sku', 'productid', 'item', 'externalid', 'articleid'],
+    // Beside the generic names, the id columns of common exports (a stock code, a track's or a book's id).
+    id: ['id', 'itemid', 'sku', 'productid', 'item', 'externalid', 'articleid', 'stockcode', 'productcode', 'itemcode', 'trackid', 'songid', 'artistid', 'bookid', 'isbn', 'movieid', 'filmid', 'gameid'],
     title: ['title', 'name', 'productname', 'itemname', 'headline'],
     description: ['description', 'desc', 'summary', 'body', 'text'],
     category: ['category', 'section', 'department', 'genre'],
@@ -45,11 +46,13 @@ const SYNONYMS: Readonly<Record<ImportTarget, Readonly<Record<string, readonly s
     id: ['id', 'customerid', 'userid', 'reader', 'readerid', 'customer', 'user', 'externalid', 'memberid'],
   },
   signals: {
-    customer: ['customer', 'customerid', 'userid', 'user', 'reader', 'readerid', 'memberid', 'visitorid'],
-    item: ['item', 'itemid', 'sku', 'productid', 'product', 'articleid', 'article'],
+    customer: ['customer', 'customerid', 'userid', 'user', 'username', 'reader', 'readerid', 'memberid', 'visitorid', 'listener', 'listenerid', 'buyerid', 'clientid', 'accountid'],
+    // What a play-count, basket or library export names the thing counted. Two of them in one file (artist and
+    // track) are refused as ambiguous below: which one the shelf is about is the editor's call (--map item=...).
+    item: ['item', 'itemid', 'sku', 'productid', 'product', 'articleid', 'article', 'stockcode', 'productcode', 'itemcode', 'artist', 'artistid', 'track', 'trackid', 'song', 'songid', 'book', 'bookid', 'isbn', 'movie', 'movieid', 'film', 'filmid', 'game', 'gameid'],
     kind: ['kind', 'event', 'eventtype', 'type', 'action', 'interaction'],
-    value: ['value', 'rating', 'score', 'qty', 'quantity', 'count', 'weight'],
-    at: ['at', 'timestamp', 'time', 'date', 'when', 'datetime', 'eventtime', 'createdat', 'ts'],
+    value: ['value', 'rating', 'bookrating', 'score', 'qty', 'quantity', 'count', 'weight', 'plays', 'playcount', 'playcounts', 'numplays', 'listens', 'listencount', 'times', 'timesplayed', 'timesbought', 'units'],
+    at: ['at', 'timestamp', 'time', 'date', 'when', 'datetime', 'eventtime', 'createdat', 'ts', 'invoicedate', 'orderdate'],
   },
 };
 

@@ -13,7 +13,7 @@ import {
 } from '../core/eval/index.ts';
 import { buildInteractionMatrix, type BuildOptions } from '../core/matrix/build.ts';
 import type { Csr } from '../core/matrix/csr.ts';
-import { quantileCuts, splitByTime, type TimeCuts } from '../core/matrix/split.ts';
+import type { TimeCuts } from '../core/matrix/split.ts';
 import { fitContent, type ContentParams } from '../core/models/content.ts';
 import { fitEase, type EaseParams } from '../core/models/ease.ts';
 import { fitIals } from '../core/models/ials.ts';
@@ -27,6 +27,7 @@ import type { Dataset } from '../core/types.ts';
 import { loadDataset } from '../store/dataset.ts';
 import { ModelRepo } from '../store/models.ts';
 import type { Db } from '../store/workspace.ts';
+import { evaluationSplit, type SplitChoice } from './evaluate-split.ts';
 import { confirmationHalves, notYetAvailable } from './tune/split.ts';
 
 export interface EvaluateOptions {
@@ -35,7 +36,12 @@ export interface EvaluateOptions {
   /** Most customers evaluated per window (seeded sample). Default 2,000. */
   sampleCustomers?: number;
   seed?: number;
-  /** Split cuts; default the last 10% of timed signals is test and the 10% before it validation. */
+  /**
+   * How to cut train | validation | test (evaluate-split.ts): 'time', 'random' (per customer, seeded), or 'auto'
+   * (the default: by time when the signals carry it, else random, saying why).
+   */
+  split?: SplitChoice;
+  /** Time split cuts (implies a time split); default the last 10% of timed signals is test and the 10% before it validation. */
   cuts?: TimeCuts;
   /** Leave EASE out (large catalogues: its inverse is dense). Default: in when items <= 5,000. */
   ease?: boolean;
@@ -46,7 +52,8 @@ export interface EvaluateOptions {
 
 export interface WorkspaceEvaluation {
   k: number;
-  split: { validationFrom: number; testFrom: number; train: number; validation: number; test: number };
+  /** Time cuts are null for a random split; `why` says which split was used and why, in words. */
+  split: { method: 'time' | 'random'; why: string; validationFrom: number | null; testFrom: number | null; train: number; validation: number; test: number };
   /** The hybrid's weight of each model, chosen on the validation window (one model at 1: the hybrid is that model). */
   weights: Partial<Record<BlendModel, number>>;
   /** What the hybrid is and why, in words ("no blend beat itemknn on validation, so the hybrid is itemknn"). */
@@ -64,8 +71,8 @@ export function evaluateWorkspace(db: Db, options: EvaluateOptions = {}): Worksp
 }
 
 /**
- * Offline evaluation of every model, the hybrid and two baselines on a global temporal split
- * (train | validation | test, split.ts):
+ * Offline evaluation of every model, the hybrid and two baselines on a split train | validation | test: a global
+ * temporal split when the signals carry times, else the tuner's seeded per-customer holdout (evaluate-split.ts):
  * 1. learned models (content, item-kNN, EASE, iALS) are fitted on train only;
  * 2. the validated blend (core/eval/validated-blend.ts) is chosen on validation over every model, with
  *    train as each customer's history (popularity counted on train): weights on the window's earlier half,
@@ -87,11 +94,8 @@ export function evaluateDataset(ds: Dataset, options: EvaluateOptions = {}): Wor
   }
   if (ds.items.length === 0 || ds.signals.length === 0) throw new InputError('nothing to evaluate: import items and signals first');
   const notes: string[] = [];
-  const cuts = options.cuts ?? quantileCuts(ds);
-  const split = splitByTime(ds, cuts);
-  if (split.validation.length === 0 || split.test.length === 0) {
-    throw new InputError('the time split left the validation or test window empty; the signals need a time spread');
-  }
+  const split = evaluationSplit(ds, options.split ?? 'auto', { seed, ...(options.cuts && { cuts: options.cuts }) });
+  const cuts = split.cuts;
   const m = (rows: Int32Array): Csr => buildInteractionMatrix(ds, { ...options.matrix, rows });
   const train = m(split.train);
   const validation = m(split.validation);
@@ -112,16 +116,17 @@ export function evaluateDataset(ds: Dataset, options: EvaluateOptions = {}): Wor
   else notes.push(`EASE left out: ${ds.items.length} items (its dense inverse is costly above 5,000)`);
   models.set('ials', record('ials', fitIals(train, { seed, ...options.params?.ials }, fitOpts)));
 
-  // Each window is measured over the catalogue of its cut's moment, as the tuner and the blend do
-  // (services/tune/split.ts `unavailable`): an item added (else first signalled) at or after the cut is
-  // neither ranked nor truth there, since no list served at the cut could have held it.
-  const notYetInValidation = notYetAvailable(ds, cuts.validationFrom);
-  const notYetInTest = notYetAvailable(ds, cuts.testFrom);
+  // Each window of a time split is measured over the catalogue of its cut's moment, as the tuner and the blend
+  // do (services/tune/split.ts `unavailable`): an item added (else first signalled) at or after the cut is
+  // neither ranked nor truth there, since no list served at the cut could have held it. A random split has no
+  // moment: the whole catalogue is ranked, as the tuner's random split does.
+  const notYetInValidation = cuts ? notYetAvailable(ds, cuts.validationFrom) : null;
+  const notYetInTest = cuts ? notYetAvailable(ds, cuts.testFrom) : null;
 
   // Validation: the validated blend over every model (services/tune/blend.ts does the same for training).
   const windowEvaluator = (v: Csr, rngSeed: number) =>
     new RankingEvaluator(train, sampleTruth(evalTruth(train, v, undefined, notYetInValidation), cap, seededRng(rngSeed)), k, notYetInValidation);
-  const halves = confirmationHalves(ds, split.validation, 'time', seed);
+  const halves = confirmationHalves(ds, split.validation, split.method, seed);
   const chooseEval = windowEvaluator(m(halves.choose), seed);
   const confirmEval = windowEvaluator(m(halves.confirm), seed + 2);
   const twoWindows = chooseEval.customerCount >= MIN_BLEND_CUSTOMERS && confirmEval.customerCount >= MIN_BLEND_CUSTOMERS;
@@ -152,8 +157,10 @@ export function evaluateDataset(ds: Dataset, options: EvaluateOptions = {}): Wor
   return {
     k,
     split: {
-      validationFrom: cuts.validationFrom,
-      testFrom: cuts.testFrom,
+      method: split.method,
+      why: split.why,
+      validationFrom: cuts ? cuts.validationFrom : null,
+      testFrom: cuts ? cuts.testFrom : null,
       train: split.train.length,
       validation: split.validation.length,
       test: split.test.length,

@@ -12,6 +12,7 @@ import {
   audienceAffinityInto,
   HybridScorer,
   resolveAudience,
+  audienceWindowNote,
   missingGroupName,
   type Component,
   type HybridModels,
@@ -25,6 +26,8 @@ import { anchorRelevanceOf } from './curation/shelf-fill.ts';
 import { reasonFacts } from './curation/slot-reasons.ts';
 import { mainReason, type Reason } from '../core/curation/reasons.ts';
 import { blendOf, ownedMatrix } from './holdout/trained.ts';
+import { idleDialWords } from '../core/curation/idle-dials.ts';
+import { idleDials, timeCoverageOf } from './curation/time-coverage.ts';
 
 export interface LoadedModels {
   models: HybridModels;
@@ -178,6 +181,8 @@ export function propose(db: Db, brief: Brief, options: ProposeOptions): Proposal
   // A one-off list has no shelf to carry the message: a named group no longer found is refused outright.
   const missing = missingGroupName(brief.audience, world.groupNames);
   if (missing) throw new InputError(missing);
+  const windowNote = audienceWindowNote(brief.audience, ds);
+  if (windowNote) notes.push(windowNote);
   let affinity: Float32Array | null = null;
   let report = { customersUsed: 0, exact: true };
   if (world.blend && audience.length > 0) {
@@ -207,6 +212,8 @@ export function propose(db: Db, brief: Brief, options: ProposeOptions): Proposal
   const anchorRelevance = anchorRelevanceOf(world, anchors);
   const scores = hybrid.scorePool({ pool: pool.items, anchors, weights: brief.weights, editionDate, audienceAffinity: affinity, anchorRelevance, multipliers });
   const scoreMs = performance.now() - t0;
+  // A dial given weight with nothing to read (no times, no dates added) is left out of the blend: say so.
+  notes.push(...idleDialWords(idleDials(timeCoverageOf(world)).filter((d) => brief.weights[d] > 0)));
   const ev = (e: { item: number; similarity: number }): ProposedEvidence => ({
     itemId: ds.items[e.item]!.id,
     title: ds.items[e.item]!.title,

@@ -87,3 +87,8 @@ export function countWorkspaceRows(db: Db): { items: number; customers: number; 
   const count = (table: 'item' | 'customer' | 'signal') => db.prepare(`SELECT count(*) FROM ${table}`).pluck().get() as number;
   return { items: count('item'), customers: count('customer'), signals: count('signal') };
 }
+
+/** How many signals there are and how many carry a time (`at` is NULL for a signal without one). */
+export function signalTimeCoverage(db: Db): { signals: number; timed: number } {
+  return db.prepare('SELECT count(*) AS signals, count(at) AS timed FROM signal').get() as { signals: number; timed: number };
+}

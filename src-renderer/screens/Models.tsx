@@ -6,6 +6,7 @@ import { useApp } from '../state/store.ts';
 import { Notes } from '../components/Notes.tsx';
 import { jobStageLine } from '../components/job-words.ts';
 import { metricHelp, modelWords } from '../../src-main/core/models/model-words.ts';
+import { SPLIT_CHOICES, SPLIT_CHOICE_WORDS, type SplitChoice } from '../../src-main/core/eval/split-choice.ts';
 
 function TrainPanel() {
   const job = useApp((s) => s.models.job);
@@ -59,6 +60,7 @@ function EvaluationPanel() {
   const running = useApp((s) => s.models.job?.state === 'running');
   const start = useApp((s) => s.startEvaluation);
   const [k, setK] = useState(10);
+  const [split, setSplit] = useState<SplitChoice>('auto');
   const id = useId();
   const rows = evaluation?.rows ?? [];
   const labels = useMemo(() => rows.map((r) => modelWords(r.model)), [rows]);
@@ -77,8 +79,19 @@ function EvaluationPanel() {
           <label htmlFor={`${id}-k`}>List length K</label>
           <input id={`${id}-k`} type="number" min={1} max={200} value={k} onChange={(e) => setK(Number(e.target.value))} />
         </div>
+        {/* A shop's export of counts has no times: then only a per-customer holdout can measure anything. */}
+        <div className="field">
+          <label htmlFor={`${id}-split`}>Held out</label>
+          <select id={`${id}-split`} value={split} onChange={(e) => setSplit(e.target.value as SplitChoice)}>
+            {SPLIT_CHOICES.map((c) => (
+              <option key={c} value={c}>
+                {capitalise(SPLIT_CHOICE_WORDS[c])}
+              </option>
+            ))}
+          </select>
+        </div>
       </div>
-      <button type="button" disabled={running} onClick={() => void start(k)}>
+      <button type="button" disabled={running} onClick={() => void start(k, split)}>
         Evaluate
       </button>
       {error && (
@@ -93,6 +106,8 @@ function EvaluationPanel() {
           <table>
             <caption className="muted small">
               Held-out test: {count(evaluation.split.test)} signals · evaluated {momentWords(evaluation.evaluatedAt)}
+              <br />
+              <span data-testid="split-words">Split: {evaluation.split.why ?? 'by time'}</span>
             </caption>
             <thead>
               <tr>

@@ -151,9 +151,12 @@ export function Overview() {
           </dl>
           {stats && (
             <p aria-label="Data freshness">
-              {stats.lastSignalAt === null
+              {stats.signals === 0
                 ? 'No signals yet: import interactions to get personalised candidates.'
-                : `Signals from ${dayWords(stats.firstSignalAt)} to ${dayWords(stats.lastSignalAt)} (newest ${ago(stats.lastSignalAt, now)})`}
+                : stats.lastSignalAt === null
+                  ? // A shop's export of counts: say what that means rather than "no signals".
+                    'No signal has a time: models are measured on a per-customer holdout, and trend and backtests have nothing to read.'
+                  : `Signals from ${dayWords(stats.firstSignalAt)} to ${dayWords(stats.lastSignalAt)} (newest ${ago(stats.lastSignalAt, now)})`}
               {stats.lastImportAt !== null ? ` · last import ${ago(stats.lastImportAt, now)}` : ''}
               {` · ${count(stats.availableItems)} items available, ${count(stats.promotedItems)} promoted`}
             </p>

@@ -1,5 +1,6 @@
 import type { StateCreator } from 'zustand';
 import type { RequestOf, ResponseOf } from '../../src-main/api/contract.ts';
+import type { SplitChoice } from '../../src-main/core/eval/split-choice.ts';
 import { describeError, type Client } from '../client/client.ts';
 import type { AppState } from './store.ts';
 
@@ -21,7 +22,8 @@ export interface ModelsSlice {
   };
   loadModels(): Promise<void>;
   startTraining(req?: TrainRequest): Promise<void>;
-  startEvaluation(k: number): Promise<void>;
+  /** `split` left out: the api's 'auto' (by time when the signals have times, else per customer at random). */
+  startEvaluation(k: number, split?: SplitChoice): Promise<void>;
   cancelJob(): Promise<void>;
 }
 
@@ -77,10 +79,10 @@ export function createModelsSlice(client: Client, sleep: (ms: number) => Promise
           setError('train', describeError(e));
         }
       },
-      async startEvaluation(k) {
+      async startEvaluation(k, split) {
         setError('evaluate', undefined);
         try {
-          await watch(await client.call('evaluate.start', { k }), 'evaluate');
+          await watch(await client.call('evaluate.start', { k, ...(split && { split }) }), 'evaluate');
         } catch (e) {
           setError('evaluate', describeError(e));
         }

@@ -20,7 +20,7 @@ describe('shelfwright plan', () => {
     expect(r.out).toMatch(/slot\s+week 1 2026-03-02\s+week 2 2026-03-09\s+week 3 2026-03-16/);
     expect(r.out).toMatch(/horizon\s+\d+/);
     // 120 days of history: too short for a held-out year, and the command says so rather than print a number.
-    expect(r.out).toContain('seasonal fit: under a year of history plus held-out weeks; no forecast error measured');
+    expect(r.out).toContain('seasonal fit: no forecast error measured (that needs a year of dated history plus held-out weeks)');
     const plan = await cli.json('plan', 'show', 'spring');
     const unused = Array.from({ length: 40 }, (_, k) => `SKU-${String(k + 1).padStart(3, '0')}`).find(
       (x) => !plan.weeks.some((w: { shelves: { slots: { item: string }[] }[] }) => w.shelves.some((s) => s.slots.some((t) => t.item === x))),

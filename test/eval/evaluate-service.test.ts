@@ -44,7 +44,8 @@ describe('evaluateWorkspace', () => {
     for (let q = 1; q < r.test.length; q++) expect(r.test[q]!.ndcg).toBeLessThanOrEqual(r.test[q - 1]!.ndcg);
     expect(r.split.train + r.split.validation + r.split.test).toBe(loadDataset(db).signals.length);
     expect(r.split.test).toBeGreaterThan(0.05 * r.split.train);
-    expect(r.split.validationFrom).toBeLessThanOrEqual(r.split.testFrom);
+    expect(r.split.method).toBe('time');
+    expect(r.split.validationFrom).toBeLessThanOrEqual(r.split.testFrom!);
     expect(r.validation.trials).toBeGreaterThanOrEqual(5);
     // The validated blend: never below its best model on validation, and it says what it is.
     const v = r.validation.blend.validation;

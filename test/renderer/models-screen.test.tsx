@@ -205,3 +205,33 @@ describe("a model's notes", () => {
     expect(popularity.lastElementChild?.textContent).toBe('–');
   });
 });
+
+describe('the evaluation split', () => {
+  it('sends the split picked, and says which split measured the figures', async () => {
+    const sent: unknown[] = [];
+    const why = "per customer at random (none of the 3,891 signals has a time): 20% of each customer's items held out for test, then 20% of the rest for validation";
+    const timeless = { ...evaluation, split: { method: 'random', why, validationFrom: null, testFrom: null, train: 2480, validation: 627, test: 784 } };
+    const client = createClient(async (method, payload): Promise<ApiResult<unknown>> => {
+      if (method === 'models.list') return { ok: true, value: { models: [] } };
+      if (method === 'evaluate.latest') return { ok: true, value: { evaluation: timeless } };
+      if (method === 'evaluate.start') {
+        sent.push(payload);
+        return { ok: false, error: { code: 'input', message: 'a split by time needs at least 3 signals with a time', where: { column: 'split' } } };
+      }
+      return { ok: false, error: { code: 'input', message: method } };
+    });
+    render(
+      <StoreContext.Provider value={createAppStore(client)}>
+        <Models />
+      </StoreContext.Provider>,
+    );
+    const region = await screen.findByRole('region', { name: 'Evaluation: models against baselines' });
+    expect((await within(region).findByTestId('split-words')).textContent).toBe(`Split: ${why}`);
+    const picker = within(region).getByLabelText('Held out') as HTMLSelectElement;
+    expect(Array.from(picker.options, (o) => o.value)).toEqual(['auto', 'time', 'random']);
+    fireEvent.change(picker, { target: { value: 'time' } });
+    fireEvent.click(within(region).getByRole('button', { name: 'Evaluate' }));
+    expect((await within(region).findByRole('alert')).textContent).toContain('a split by time needs at least 3 signals with a time');
+    expect(sent).toEqual([{ k: 10, split: 'time' }]);
+  });
+});

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { IalsModel } from '../../src-main/core/models/ials.ts';
 import { ialsParams } from '../../src-main/core/models/ials-params.ts';
 import { seededRng } from '../../src-main/core/rng.ts';
-import { audienceAffinityInto, resolveAudience } from '../../src-main/core/scoring/index.ts';
+import { audienceAffinityInto, audienceWindowNote, resolveAudience } from '../../src-main/core/scoring/index.ts';
 import { DAY_MS, SIGNAL_KIND_CODE, type Dataset, type Item } from '../../src-main/core/types.ts';
 import { binaryRows } from '../eval/csr-helper.ts';
 import { matrixScorer } from './fakes.ts';
@@ -94,5 +94,39 @@ describe('resolveAudience', () => {
     expect(() =>
       resolveAudience(ds, { kind: 'rule', category: 'seeds', signalKinds: ['bought'], withinDays: 9 }, ed),
     ).toThrow(/unknown signal kind 'bought'/);
+  });
+});
+
+describe('a rule audience on signals without any time', () => {
+  const timeless = (): Dataset => {
+    const at = new Float64Array(3).fill(NaN);
+    return {
+      items: [item(1, 'seeds'), item(2, 'tools')],
+      customerIds: Int32Array.of(10, 11, 12),
+      customerExternalIds: ['a', 'b', 'c'],
+      signals: {
+        length: 3,
+        customer: Int32Array.of(0, 1, 2),
+        item: Int32Array.of(0, 1, 0),
+        kind: Uint8Array.of(SIGNAL_KIND_CODE.other, SIGNAL_KIND_CODE.other, SIGNAL_KIND_CODE.purchase),
+        value: Float32Array.of(3, 1, 2),
+        at,
+      },
+    };
+  };
+  const rule = { kind: 'rule' as const, category: 'seeds', signalKinds: ['other'], withinDays: 30 };
+
+  it('reads the whole history, since no window can be placed, and says so', () => {
+    const ds = timeless();
+    expect(Array.from(resolveAudience(ds, rule, Date.UTC(2026, 0, 1)))).toEqual([0]);
+    expect(audienceWindowNote(rule, ds)).toBe('no signal has a time, so "the last 30 days" cannot be placed: the audience is everyone with such a signal in seeds at any time');
+    expect(audienceWindowNote({ kind: 'everyone' }, ds)).toBeNull();
+  });
+
+  it('keeps the window where some signals have a time: an untimed signal is then in no window', () => {
+    const ds = timeless();
+    ds.signals.at[1] = Date.UTC(2025, 11, 20);
+    expect(Array.from(resolveAudience(ds, rule, Date.UTC(2026, 0, 1)))).toEqual([]);
+    expect(audienceWindowNote(rule, ds)).toBeNull();
   });
 });

@@ -138,3 +138,19 @@ describe('HybridScorer.scorePool', () => {
     expect(() => new HybridScorer(models, { ...data, addedAt: new Float64Array(2) })).toThrow(/catalogue size 6/);
   });
 });
+
+describe('a catalogue and signals without dates', () => {
+  it('leaves trend and freshness out, their weight going to the other components, and scores no NaN', () => {
+    const undated: HybridItemData = { customersPerItem: data.customersPerItem, trend: null, addedAt: new Float64Array(6).fill(Number.NaN) };
+    const h = new HybridScorer(models, undated);
+    const weights = { content: 1, collaborative: 1, audience: 0, popularity: 1, trend: 0.5, freshness: 0.5 };
+    const r = h.scorePool({ pool, anchors, weights, editionDate: ed });
+    expect([r.available.trend, r.available.freshness]).toEqual([false, false]);
+    expect([r.weights.trend, r.weights.freshness]).toEqual([0, 0]);
+    expect(r.weights.content).toBeCloseTo(1 / 3, 9);
+    for (let p = 0; p < pool.length; p++) expect(Number.isFinite(r.explain(p).score)).toBe(true);
+    // With one dated item, freshness tells that one apart again.
+    const one = new HybridScorer(models, { ...undated, addedAt: Float64Array.of(NaN, NaN, ed, NaN, NaN, NaN) });
+    expect(one.scorePool({ pool, anchors, weights, editionDate: ed }).available.freshness).toBe(true);
+  });
+});

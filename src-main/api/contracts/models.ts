@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { ReasonView } from './reason.ts';
 import { AudienceSchema } from '../../core/editing/brief-schema.ts';
+import { SPLIT_CHOICES } from '../../core/eval/split-choice.ts';
 import { VALUE_TRANSFORMS } from '../../core/matrix/values.ts';
 import { TUNE_BUDGET } from '../../core/models/tune-budget.ts';
 import { method } from '../define.ts';
@@ -165,7 +166,19 @@ export const OfflineEvaluation = z.object({
   stale: z.boolean(),
   /** Why it is stale, in words (null when current). */
   staleReason: z.string().nullable(),
-  split: z.object({ validationFrom: z.number(), testFrom: z.number(), train: z.number().int(), validation: z.number().int(), test: z.number().int() }),
+  /**
+   * Which split measured the figures: by time (cuts in unix ms) or per customer at random (no cuts), and why in
+   * words (null for an evaluation stored before the split could be chosen: those were all by time).
+   */
+  split: z.object({
+    method: z.enum(['time', 'random']),
+    why: z.string().nullable(),
+    validationFrom: z.number().nullable(),
+    testFrom: z.number().nullable(),
+    train: z.number().int(),
+    validation: z.number().int(),
+    test: z.number().int(),
+  }),
   /** The hybrid's weight of each model, chosen on the validation window. */
   weights: z.record(z.string(), z.number()),
   /** What the hybrid is and why, in words (null for an evaluation stored before blends were validated). */
@@ -257,8 +270,15 @@ export const modelMethods = {
     response: z.object({ models: z.array(ModelInfo), hybrid: HybridView.nullable() }),
   }),
   'evaluate.start': method({
-    summary: 'Evaluate every model and baseline on a time split as a job; the result is stored with the models.',
-    request: z.object({ k: z.number().int().min(1).max(200).default(10), sampleCustomers: z.number().int().min(1).optional() }).strict(),
+    summary: 'Evaluate every model and baseline on a held-out split as a job; the result is stored with the models.',
+    request: z
+      .object({
+        k: z.number().int().min(1).max(200).default(10),
+        sampleCustomers: z.number().int().min(1).optional(),
+        /** 'auto': by time when the signals carry times, else per customer at random (said in `split.why`). */
+        split: z.enum(SPLIT_CHOICES).default('auto'),
+      })
+      .strict(),
     response: JobState,
   }),
   'evaluate.latest': method({

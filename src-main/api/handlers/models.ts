@@ -4,6 +4,7 @@ import { BlendRepo } from '../../store/blends.ts';
 import type { Db } from '../../store/workspace.ts';
 import { InputError } from '../../core/errors.ts';
 import type { AppContext } from '../../services/context.ts';
+import { refuseImpossibleSplit } from '../../services/evaluate-split.ts';
 import { evaluateHoldout } from '../../services/holdout/evaluate.ts';
 import { evaluateJob, latestEvaluation, listModels, type ModelEvaluationRecord } from '../../services/models-status.ts';
 import { propose } from '../../services/propose.ts';
@@ -141,8 +142,10 @@ export function modelHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
       hybrid: hybridView(ctx.db),
     }),
 
-    'evaluate.start': (req) =>
-      ctx.jobs.start('evaluate', evaluateJob(ctx.db, ctx.file, { k: req.k, ...(req.sampleCustomers !== undefined && { sampleCustomers: req.sampleCustomers }) })),
+    'evaluate.start': (req) => {
+      refuseImpossibleSplit(ctx.db, req.split);
+      return ctx.jobs.start('evaluate', evaluateJob(ctx.db, ctx.file, { k: req.k, split: req.split, ...(req.sampleCustomers !== undefined && { sampleCustomers: req.sampleCustomers }) }));
+    },
 
     'evaluate.latest': () => {
       const off = latestEvaluation(ctx.db);
@@ -157,7 +160,8 @@ export function modelHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
             : off.fingerprint !== dataFingerprint(ctx.db)
               ? 'the workspace changed since this evaluation; evaluate again for current figures'
               : null,
-          split: off.split,
+          // Evaluations stored before the split could be chosen were all by time and carry no words for it.
+          split: { ...off.split, method: off.split.method ?? 'time', why: off.split.why ?? null },
           weights: { ...off.weights },
           hybrid: off.hybrid ?? null,
           rows: off.test.map(metricsRow),

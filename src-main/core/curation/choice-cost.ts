@@ -13,6 +13,7 @@
  * 0.12 reads "these choices cost 12% of predicted relevance". NaN when nothing is relevant (no model).
  */
 import type { CurationContext } from './context.ts';
+import { idleDialWords } from './idle-dials.ts';
 import type { AutoDials, BlendWeights } from './types.ts';
 
 /** The items any shelf could show at `editionDate`: in stock and added by then (the pool's own first two tests). */
@@ -71,7 +72,8 @@ export function describeAutoDials(a: AutoDials | undefined, w: BlendWeights): st
   if (!a) return null;
   const dials = `popularity ${w.popularity}, trend ${w.trend}, freshness ${w.freshness}`;
   const limit = `${Math.round(a.limit * 100)}%`;
-  if (a.cost === null) return `The dials (${dials}) are the product's safe defaults: with no trained model they could not be set for this brief yet.`;
-  if (a.cost <= a.limit) return `The dials (${dials}) were set for this brief so they cost at most ${limit} of predicted relevance.`;
-  return `The dials (${dials}) were set as low as they go for this brief; they still cost ${Math.round(a.cost * 100)}%, above ${limit}.`;
+  const idle = a.idle?.length ? ` ${idleDialWords(a.idle).join(' ')}` : '';
+  if (a.cost === null) return `The dials (${dials}) are the product's safe defaults: with no trained model they could not be set for this brief yet.${idle}`;
+  if (a.cost <= a.limit) return `The dials (${dials}) were set for this brief so they cost at most ${limit} of predicted relevance.${idle}`;
+  return `The dials (${dials}) were set as low as they go for this brief; they still cost ${Math.round(a.cost * 100)}%, above ${limit}.${idle}`;
 }

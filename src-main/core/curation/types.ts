@@ -3,6 +3,7 @@
  * Shared by core/curation (fill, rules, meter), the store, the services, the api and the renderer.
  */
 
+import type { IdleDial } from './idle-dials.ts';
 import type { Targets } from './readings.ts';
 
 export type Facet = 'category' | 'supplier' | 'tag';
@@ -53,6 +54,8 @@ export interface BlendWeights {
 export interface AutoDials {
   limit: number;
   cost: number | null;
+  /** Dials held at 0 because the workspace has nothing for them to read (curation/idle-dials.ts). */
+  idle?: IdleDial[] | undefined;
 }
 
 export interface Brief {

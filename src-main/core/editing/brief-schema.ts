@@ -5,6 +5,7 @@
  * Defaults give a usable brief from just a size. The rule checks with field names live in curation/brief-check.ts.
  */
 import { z } from 'zod';
+import { IDLE_DIALS } from '../curation/idle-dials.ts';
 import { TargetsSchema } from '../curation/target-schema.ts';
 import type { Brief } from '../curation/types.ts';
 
@@ -66,7 +67,7 @@ export const BriefSchema = z
       .strict()
       .default(DEFAULT_WEIGHTS),
     // Set by the service only (services/curation/brief-dials.ts); see core/curation/types.ts.
-    autoDials: z.object({ limit: share, cost: share.nullable() }).strict().optional(),
+    autoDials: z.object({ limit: share, cost: share.nullable(), idle: z.array(z.enum(IDLE_DIALS)).optional() }).strict().optional(),
     lambda: z.number().min(0).max(1).default(0.7),
     rules: z
       .object({

@@ -46,9 +46,14 @@ export function resolveAudience(
   const from = editionDate - audience.withinDays * DAY_MS;
   const s = ds.signals;
   const member = new Uint8Array(nC);
+  // With no signal timed at all (a shop's export of counts), the window cannot be placed: the rule reads the
+  // whole history instead of reaching no one (`audienceWindowNote` says so). Otherwise an untimed signal is
+  // outside every window.
+  const anyTime = !s.at.every((t) => t !== t);
   for (let k = 0; k < s.length; k++) {
     const t = s.at[k]!;
-    if (t >= from && t < editionDate && kinds[s.kind[k]!] && inCategory[s.item[k]!]) member[s.customer[k]!] = 1;
+    const inWindow = anyTime ? t >= from && t < editionDate : true;
+    if (inWindow && kinds[s.kind[k]!] && inCategory[s.item[k]!]) member[s.customer[k]!] = 1;
   }
   const out: number[] = [];
   for (let u = 0; u < nC; u++) if (member[u]) out.push(u);
@@ -59,6 +64,12 @@ export function resolveAudience(
 export function groupOf(audience: { group: number; name?: string }, names?: readonly (string | null)[]): number {
   if (audience.name === undefined) return audience.group;
   return names ? names.indexOf(audience.name) : -1;
+}
+
+/** A rule audience on signals without any time reads the whole history (resolveAudience): the words for it, else null. */
+export function audienceWindowNote(audience: Audience, ds: Dataset): string | null {
+  if (audience.kind !== 'rule' || ds.signals.length === 0 || !ds.signals.at.every((t) => t !== t)) return null;
+  return `no signal has a time, so "the last ${audience.withinDays} days" cannot be placed: the audience is everyone with such a signal in ${audience.category} at any time`;
 }
 
 /** Why a brief aimed at a named group reaches no one, in words; null when the audience is not such a case. */

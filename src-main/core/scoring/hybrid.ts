@@ -94,6 +94,7 @@ export class HybridScorer {
   #column = new Float32Array(0);
   #freshness: Float32Array;
   #freshnessAt = Number.NaN;
+  readonly #dated: boolean;
 
   constructor(models: HybridModels, data: HybridItemData, options: HybridOptions = {}) {
     const n = data.customersPerItem.length;
@@ -111,6 +112,9 @@ export class HybridScorer {
     this.normalisation = options.normalisation ?? 'percentile';
     this.#cacheSize = Math.max(0, options.anchorCacheSize ?? 64);
     this.#freshness = new Float32Array(n);
+    // Freshness reads items' dates added; with none (a catalogue exported without them) every item would read 0,
+    // which tells no item apart: the component is left out and its weight goes to the others.
+    this.#dated = data.addedAt.some((t) => t === t);
   }
 
   /** Freshness of every item at `editionDate`, computed once per date. */
@@ -155,7 +159,7 @@ export class HybridScorer {
       affinity !== null,
       true,
       (req.trend === undefined ? this.data.trend : req.trend) !== null,
-      true,
+      this.#dated,
     ];
     const w = effectiveWeights(req.weights, available);
     const contentRows = available[C_CONTENT] ? Array.from(anchors, (a) => this.similarityRow('content', a)) : [];

@@ -15,6 +15,7 @@
  * `import model` trusts, so the workspace may change in between.
  */
 import fs from 'node:fs';
+import { signalTimeCoverage } from '../../store/stats.ts';
 import path from 'node:path';
 import { parquetWriteFile } from 'hyparquet-writer';
 import { InputError } from '../../core/errors.ts';
@@ -62,6 +63,13 @@ const DEFAULT_ROWS_PER_FILE = 2_000_000;
 /** Writes the export into `out`, which must not exist or be an empty folder; on failure removes what it wrote. */
 export function exportSignals(db: Db, out: string, o: ExportOptions = {}): ExportReport {
   if (o.halfLifeDays !== undefined && !(o.halfLifeDays > 0)) throw new InputError(`the half-life must be a number of days > 0, got ${o.halfLifeDays}`);
+  // A decay asked of signals that carry no time would change nothing while seeming to: refused before any write.
+  if (o.halfLifeDays !== undefined) {
+    const c = signalTimeCoverage(db);
+    if (c.signals > 0 && c.timed === 0) {
+      throw new InputError(`no signal has a time, so there is no age to decay by: leave out the half-life (${c.signals.toLocaleString('en')} signals, none timed)`, { column: 'halfLifeDays' });
+    }
+  }
   prepareOutFolder(out);
   let ds: Dataset | undefined;
   let fingerprint = '';

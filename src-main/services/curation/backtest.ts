@@ -9,6 +9,7 @@
  */
 import { buildCandidatePool } from '../../core/curation/candidates.ts';
 import { resolveAudience } from '../../core/scoring/index.ts';
+import { InputError } from '../../core/errors.ts';
 import { DAY_MS } from '../../core/types.ts';
 import type { Shelf, SlotRow } from '../../store/shelves.ts';
 import type { CurationWorld } from './world.ts';
@@ -52,9 +53,23 @@ export function backtestShelf(world: CurationWorld, shelf: Shelf, slots: readonl
   const { ds, ctx } = world;
   const s = ds.signals;
   let latest = -Infinity;
-  for (let k = 0; k < s.length; k++) if (s.at[k]! > latest) latest = s.at[k]!;
+  let untimed = 0;
+  for (let k = 0; k < s.length; k++) {
+    const t = s.at[k]!;
+    if (t > latest) latest = t;
+    else if (t !== t) untimed++;
+  }
   const notes: string[] = [];
-  if (!Number.isFinite(latest)) latest = 0;
+  // A backtest replays the latest weeks: signals without a time belong to no week. A workspace with none (a
+  // shop's export of counts) has nothing to replay, which is said as such rather than as an empty window at 1970.
+  if (!Number.isFinite(latest)) {
+    throw new InputError(
+      s.length === 0
+        ? 'a backtest replays the latest signals, and the workspace has none yet'
+        : `a backtest replays the latest weeks of signals, and none of the ${s.length.toLocaleString('en')} signals has a time; evaluate the models instead (a per-customer split needs no times)`,
+    );
+  }
+  if (untimed > 0) notes.push(`${untimed.toLocaleString('en')} signals without a time belong to no window and are left out`);
   const end = latest + 1;
   const start = end - windowDays * DAY_MS;
   const before = start - windowDays * DAY_MS;

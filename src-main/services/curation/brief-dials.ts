@@ -17,6 +17,8 @@ import { buildCandidatePool, type EditorialState } from '../../core/curation/can
 import { bestRelevanceSums, choiceCost } from '../../core/curation/choice-cost.ts';
 import type { BlendWeights, Brief } from '../../core/curation/types.ts';
 import { anchorRelevanceOf, audienceAffinityOf, validatedRelevance } from './shelf-fill.ts';
+import type { IdleDial } from '../../core/curation/idle-dials.ts';
+import { idleDials, timeCoverageOf } from './time-coverage.ts';
 import { trendFor, type CurationWorld } from './world.ts';
 
 /**
@@ -62,11 +64,11 @@ export function dialCost(world: CurationWorld, brief: Brief, editionDate: number
   return choiceCost(top, inPool, bestRelevanceSums(inPool, brief.size));
 }
 
-/** The product's dials scaled by `scale`, over the brief's relevance weights. */
-export function scaledDials(brief: Brief, scale: number): BlendWeights {
+/** The product's dials scaled by `scale`, over the brief's relevance weights; `idle` dials (nothing to read) at 0. */
+export function scaledDials(brief: Brief, scale: number, idle: readonly IdleDial[] = []): BlendWeights {
   const d = EDITORIAL_DIALS;
-  const round = (x: number) => Math.round(x * 1e4) / 1e4;
-  return { ...brief.weights, popularity: round(d.popularity * scale), trend: round(d.trend * scale), freshness: round(d.freshness * scale) };
+  const round = (x: number, dial?: IdleDial) => (dial && idle.includes(dial) ? 0 : Math.round(x * 1e4) / 1e4);
+  return { ...brief.weights, popularity: round(d.popularity * scale), trend: round(d.trend * scale, 'trend'), freshness: round(d.freshness * scale, 'freshness') };
 }
 
 /**
@@ -77,16 +79,20 @@ export function scaledDials(brief: Brief, scale: number): BlendWeights {
  */
 export function fitDials(world: CurationWorld, brief: Brief, editionDate: number, limit = DIAL_COST_LIMIT): Brief {
   let last: { weights: BlendWeights; cost: number } | null = null;
+  // A dial with nothing to read (trend without timed signals, freshness without dates added) is held at 0 and
+  // said so, rather than shown at a value that moves nothing.
+  const idle = idleDials(timeCoverageOf(world));
+  const said = idle.length ? { idle } : {};
   for (const scale of DIAL_SCALES) {
-    const weights = scaledDials(brief, scale);
+    const weights = scaledDials(brief, scale, idle);
     const cost = dialCost(world, { ...brief, weights }, editionDate);
     // Nothing to measure with (no trained model, an empty pool): the brief keeps the schema's defaults.
-    if (Number.isNaN(cost)) return { ...brief, autoDials: { limit, cost: null } };
+    if (Number.isNaN(cost)) return { ...brief, autoDials: { limit, cost: null, ...said } };
     last = { weights, cost };
     if (cost <= limit) break;
   }
   const chosen = last!;
-  return { ...brief, weights: chosen.weights, autoDials: { limit, cost: Math.round(chosen.cost * 1e4) / 1e4 } };
+  return { ...brief, weights: chosen.weights, autoDials: { limit, cost: Math.round(chosen.cost * 1e4) / 1e4, ...said } };
 }
 
 const sameWeights = (a: BlendWeights, b: BlendWeights) => (Object.keys(a) as (keyof BlendWeights)[]).every((k) => a[k] === b[k]);

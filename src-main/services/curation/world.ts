@@ -107,7 +107,10 @@ export function loadWorld(db: Db, source: ModelSource = noModels): CurationWorld
   const addedAt = Float64Array.from(ds.items, (it) => it.addedAt ?? NaN);
   // Trend at the end of the history (trendRatios' default: 14-day windows ending just after the latest
   // signal), the reading for any edition dated after it; `trendFor` gives back-dated editions their own.
-  const trend = ds.signals.length > 0 ? Float32Array.from(trendRatios(ds)) : null;
+  // Signals without any time (a shop's export of counts) carry no trend: the component is left out, not read
+  // as "1 for every item", so its weight goes to the components that can tell items apart.
+  const timed = ds.signals.at.some((t) => t === t);
+  const trend = timed ? Float32Array.from(trendRatios(ds)) : null;
   // Min–max within the pool, not percentiles: the validated relevance of a pool's best few hundred items
   // differs by tenths, which percentiles flatten to 0.99-and-up, and the fill's MMR then trades that
   // flattened relevance for variety alone (a 'bought indoor plants' shelf opened with a fire bowl, a watering

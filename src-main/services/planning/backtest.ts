@@ -39,7 +39,13 @@ export async function backtestPlan(
   const s = ds.signals;
   let latest = -Infinity;
   for (let k = 0; k < s.length; k++) if (s.at[k]! > latest) latest = s.at[k]!;
-  if (!Number.isFinite(latest)) throw new InputError('the workspace has no dated signals to replay');
+  if (!Number.isFinite(latest)) {
+    throw new InputError(
+      s.length === 0
+        ? 'the workspace has no signals to replay'
+        : `a plan backtest replays the latest weeks of signals, and none of the ${s.length.toLocaleString('en')} signals has a time: there are no past weeks to replay`,
+    );
+  }
   const end = Math.floor(latest / DAY_MS) * DAY_MS + DAY_MS;
   const start = end - weeks * 7 * DAY_MS;
   const starts = Array.from({ length: weeks }, (_, w) => start + w * 7 * DAY_MS);

@@ -91,6 +91,10 @@ export function buildPlan(db: Db, world: CurationWorld, setup: PlanSetup): Built
   const weekMs = Array.from({ length: N }, (_, w) => startMs + w * 7 * DAY_MS);
   const notes: string[] = [];
   const profile = profileOf(world, setup.historyBefore);
+  // No timed signal (a shop's export of counts): no week of the year can be read, so every fit is 1.
+  if (profile.weeksOfHistory === 0 && world.ds.signals.length > 0) {
+    notes.push('seasonal fit is 1 for every item: no signal has a time, so no season can be read; the plan follows relevance alone');
+  }
   // Relevance per shelf over the catalogue, in [0, 1].
   const rel: Float64Array[] = setup.shelves.map((sh) => {
     const v = validatedRelevance(world, sh.brief, startMs);

@@ -43,13 +43,39 @@ export interface ValidationSplit {
   unavailable: Uint8Array | null;
 }
 
-export function validationSplit(ds: Dataset, o: { share?: number; seed?: number } = {}): ValidationSplit {
-  const share = o.share ?? 0.2;
-  if (!(share > 0 && share < 1)) throw new InputError(`the validation share must be between 0 and 1, got ${share}`);
+/** How many of the signals carry a time: what decides whether a split by time can stand for "recommend now". */
+export interface TimeCoverage {
+  signals: number;
+  timed: number;
+}
+
+export function timeCoverage(ds: Dataset): TimeCoverage {
   const s = ds.signals;
   let timed = 0;
   for (let k = 0; k < s.length; k++) if (s.at[k] === s.at[k]) timed++;
-  if (timed >= 3 && timed * 2 >= s.length) {
+  return { signals: s.length, timed };
+}
+
+/**
+ * The tuner's rule for splitting by time: at least 3 timed signals (quantileCuts' least) and at least half of
+ * all signals timed, since untimed signals always stay in train and a split over a timed minority measures
+ * that minority (common practice, no source). `evaluate` chooses its split by the same rule.
+ */
+export function timesCarrySplit(c: TimeCoverage): boolean {
+  return c.timed >= 3 && c.timed * 2 >= c.signals;
+}
+
+/** Why the tuner's rule refuses a time split, in words an editor reads beside the figures. */
+export function noTimeSplitWords(c: TimeCoverage): string {
+  return c.timed === 0
+    ? `none of the ${c.signals.toLocaleString('en')} signals has a time`
+    : `only ${c.timed.toLocaleString('en')} of ${c.signals.toLocaleString('en')} signals have a time (a split by time needs at least half of them, and at least 3)`;
+}
+
+export function validationSplit(ds: Dataset, o: { share?: number; seed?: number } = {}): ValidationSplit {
+  const share = o.share ?? 0.2;
+  if (!(share > 0 && share < 1)) throw new InputError(`the validation share must be between 0 and 1, got ${share}`);
+  if (timesCarrySplit(timeCoverage(ds))) {
     const cuts = quantileCuts(ds, { testShare: share, validationShare: 0 });
     const split = splitByTime(ds, cuts);
     return { method: 'time', train: split.train, validation: split.test, from: cuts.testFrom, unavailable: notYetAvailable(ds, cuts.testFrom) };
@@ -71,6 +97,27 @@ export function notYetAvailable(ds: Dataset, from: number): Uint8Array {
     const since = item.addedAt ?? (first[i] === Infinity ? null : first[i]!);
     return since !== null && since >= from ? 1 : 0;
   });
+}
+
+/**
+ * The per-customer random holdout above, over `rows` (signal indices; default all signals): `validation` holds
+ * the held-out pairs' signals among `rows`, `train` the rest of `rows`. `evaluate` applies it twice (test from
+ * all signals, then validation from what is left) when the signals cannot carry a split by time.
+ */
+export function randomHoldout(ds: Dataset, share: number, seed: number, rows?: Int32Array): { train: Int32Array; validation: Int32Array } {
+  if (!(share > 0 && share < 1)) throw new InputError(`the held-out share must be between 0 and 1, got ${share}`);
+  if (!rows) return randomSplit(ds, share, seed);
+  const s = ds.signals;
+  const sub = {
+    length: rows.length,
+    customer: Int32Array.from(rows, (k) => s.customer[k]!),
+    item: Int32Array.from(rows, (k) => s.item[k]!),
+    kind: Uint8Array.from(rows, (k) => s.kind[k]!),
+    value: Float32Array.from(rows, (k) => s.value[k]!),
+    at: Float64Array.from(rows, (k) => s.at[k]!),
+  };
+  const r = randomSplit({ ...ds, signals: sub }, share, seed);
+  return { train: Int32Array.from(r.train, (q) => rows[q]!), validation: Int32Array.from(r.validation, (q) => rows[q]!) };
 }
 
 function randomSplit(ds: Dataset, share: number, seed: number): { train: Int32Array; validation: Int32Array } {

@@ -159,7 +159,8 @@ export const statsCommand: CliCommand = {
     out(`workspace ${env.workspace}`);
     out(`  items      ${formatNumber(s.items)} (${formatNumber(s.availableItems)} available, ${formatNumber(s.promotedItems)} promoted, ${formatNumber(s.coldItems)} with no signals)`);
     out(`  customers  ${formatNumber(s.customers)}`);
-    out(`  signals    ${formatNumber(s.signals)} from ${formatDate(s.firstSignalAt)} to ${formatDate(s.lastSignalAt)}`);
+    const span = s.signals > 0 && s.lastSignalAt === null ? 'none with a time' : `from ${formatDate(s.firstSignalAt)} to ${formatDate(s.lastSignalAt)}`;
+    out(`  signals    ${formatNumber(s.signals)} ${span}`);
     out(`  density    ${(100 * s.density).toFixed(3)}% of customer-item pairs`);
     out(`  long tail  ${pct(s.longTailShare)} of signals go to items outside the most-interacted 20%`);
     out(`  last import ${s.lastImportAt === null ? 'never' : new Date(s.lastImportAt).toISOString().replace('T', ' ').slice(0, 16)}`);

@@ -8,6 +8,7 @@ import { followJob } from '../follow-job.ts';
 import { formatNumber, table } from '../format.ts';
 import { UsageError } from '../command.ts';
 import { TUNE_BUDGET } from '../../../core/models/tune-budget.ts';
+import { SPLIT_CHOICES, SPLIT_CHOICE_WORDS, type SplitChoice } from '../../../core/eval/split-choice.ts';
 
 /** Training, evaluation, neighbours, ad-hoc proposals and the top-N export. Thin: flags → api calls → print. */
 
@@ -237,14 +238,15 @@ function metricsTable(rows: Row[], k: number, extra: (r: Row) => (string | numbe
 
 const evaluateCommand: CliCommand = {
   name: 'evaluate',
-  summary: 'evaluate every model against baselines on a time split, or against your own holdout file (--holdout)',
+  summary: 'evaluate every model against baselines on a held-out split (by time, or per customer when signals have no times), or against your own holdout file (--holdout)',
   usage: [
-    '[--k K] [--sample N] [--json]',
+    '[--k K] [--sample N] [--split auto|time|random] [--json]',
     '--holdout FILE [--k K] [--map FIELD=HEADER ...] [--format csv|jsonl|json] [--delimiter C] [--date-order dmy|mdy] [--json]',
   ],
   options: {
     k: { type: 'string' },
     sample: { type: 'string' },
+    split: { type: 'string' },
     holdout: { type: 'string' },
     map: { type: 'string', multiple: true },
     format: { type: 'string' },
@@ -254,6 +256,7 @@ const evaluateCommand: CliCommand = {
   about: {
     k: 'list length scored: 1 to 200 (default 10), with --holdout 1 to 500 (default 20)',
     sample: 'most customers measured per window (default 2000); not used with --holdout',
+    split: `how to hold out: auto (default: ${SPLIT_CHOICE_WORDS.auto}), time (${SPLIT_CHOICE_WORDS.time}), random (${SPLIT_CHOICE_WORDS.random})`,
     holdout: 'score the models against the customer and item pairs in this file instead',
     map: 'repeatable, with --holdout: FIELD=HEADER, read FIELD from column HEADER',
     format: 'with --holdout: csv, json or jsonl (default: from the file extension)',
@@ -273,6 +276,11 @@ const evaluateCommand: CliCommand = {
     if (holdout !== undefined && env.values['sample'] !== undefined) {
       throw new UsageError('--sample only works without --holdout (a holdout file is scored on all its customers)');
     }
+    if (holdout !== undefined && env.values['split'] !== undefined) {
+      throw new UsageError('--split only works without --holdout (a holdout file is its own split)');
+    }
+    const split = str(env, 'split');
+    if (split !== undefined && !(SPLIT_CHOICES as readonly string[]).includes(split)) throw new UsageError(`--split must be ${SPLIT_CHOICES.join(', ')}, got '${split}'`);
     if (holdout === undefined) {
       const holdoutOnly = ['map', 'format', 'delimiter', 'date-order'].find((f) => env.values[f] !== undefined);
       if (holdoutOnly) throw new UsageError(`--${holdoutOnly} only works with --holdout FILE`);
@@ -320,7 +328,11 @@ const evaluateCommand: CliCommand = {
       );
       return EXIT.ok;
     }
-    const job = await call(t, 'evaluate.start', only({ k: k ?? 10, sampleCustomers: int(env, 'sample') }));
+    const job = await call(t, 'evaluate.start', only({ k: k ?? 10, sampleCustomers: int(env, 'sample'), split: split as SplitChoice | undefined })).catch((e: unknown) => {
+      // A split the workspace's signals cannot support is a wrong command line, not bad data: said as --split.
+      if (e instanceof CliApiError && e.error.where?.column === 'split') throw new UsageError(`--split time: ${e.error.message} (--split random, or leave --split out)`);
+      throw e;
+    });
     await followJob(t, job, env.io);
     const { evaluation: e } = await call(t, 'evaluate.latest', {});
     if (!e) throw new CliApiError({ code: 'internal', message: 'the evaluation stored nothing' });
@@ -330,7 +342,8 @@ const evaluateCommand: CliCommand = {
     }
     const w = Object.entries(e.weights).map(([a, b]) => `${a} ${formatNumber(b)}`).join(', ');
     const hybrid = e.hybrid ?? `weights ${w}`;
-    env.io.out(`${metricsTable(e.rows, e.k)}\nsplit: ${e.split.train} train, ${e.split.validation} validation, ${e.split.test} test signals\nhybrid: ${hybrid}${e.notes.length ? `\n${e.notes.join('\n')}` : ''}`);
+    const splitLine = `split: ${e.split.why ?? 'by time'}; ${e.split.train} train, ${e.split.validation} validation, ${e.split.test} test signals`;
+    env.io.out(`${metricsTable(e.rows, e.k)}\n${splitLine}\nhybrid: ${hybrid}${e.notes.length ? `\n${e.notes.join('\n')}` : ''}`);
     return EXIT.ok;
   },
 };

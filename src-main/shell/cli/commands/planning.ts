@@ -46,7 +46,7 @@ export function renderPlan(v: PlanView): string {
       `  categories (${f.categories.series} series): ${val(f.categories.mase)}   seasonal naive: ${val(f.categories.baselineMase)}`,
       `  items (${f.items.series} series):      ${val(f.items.mase)}   seasonal naive: ${val(f.items.baselineMase)}`,
     );
-  } else out.push('', 'seasonal fit: under a year of history plus held-out weeks; no forecast error measured');
+  } else out.push('', 'seasonal fit: no forecast error measured (that needs a year of dated history plus held-out weeks)');
   if (v.diagnosis) {
     out.push('', 'the rules cannot all hold; the plan above breaks some and was not stored.');
     if (v.diagnosis.relaxations.length) out.push('each of these alone makes a plan possible (least change first):', ...v.diagnosis.relaxations.map((r) => `  ${r.family}: ${r.description}`));

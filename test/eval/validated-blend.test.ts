@@ -195,6 +195,32 @@ describe('validateBlend', () => {
     expect(Array.from(shrunk(Float64Array.from([0.2, 0.3, 0.5]), 2, 1))).toEqual([0.2, 0.3, 0.5]);
   });
 
+  it('asks 2.50 standard errors of a blend on its one window when there is no second window to judge it', () => {
+    // 120 customers; iALS finds every customer's next item except customers 0 to 3, which only item-kNN finds.
+    // The blend gains on those 4 customers alone: mean about 4/120 with a paired SE of about 0.0165 (t about
+    // 2), which the one-standard-error rule accepted; the stricter bar keeps iALS.
+    const C = 120;
+    const N = 20;
+    const truthItem = (u: number) => (u * 7) % N;
+    const history = binaryRows(Array.from({ length: C }, (_, u) => [(truthItem(u) + 1) % N]), N);
+    const window = binaryRows(Array.from({ length: C }, (_, u) => [truthItem(u)]), N);
+    const noise = (u: number, i: number) => ((u * 31 + i * 17) % 13) / 100;
+    const knows = (u: number, i: number, yes: boolean) => (yes ? (i === truthItem(u) ? 1 : 0) : noise(u, i));
+    const a = table('itemknn', Array.from({ length: C }, (_, u) => Float32Array.from({ length: N }, (_, i) => knows(u, i, u < 4))));
+    const b = table('ials', Array.from({ length: C }, (_, u) => Float32Array.from({ length: N }, (_, i) => knows(u, i, u >= 4))));
+    const models = [
+      { name: 'itemknn' as const, scorer: { name: 'itemknn', scoreInto: a.scoreInto } },
+      { name: 'ials' as const, scorer: { name: 'ials', scoreInto: b.scoreInto } },
+    ];
+    const r = validateBlend(new RankingEvaluator(history, evalTruth(history, window), 3), history, models);
+    expect(r).toMatchObject({ kind: 'single', model: 'ials', validated: true });
+    const m = /^no blend beat ials on validation by more than 2\.50 standard errors \(best gain (0\.\d+) ± (0\.\d+) NDCG@3\), so the hybrid is ials$/.exec(r.reason);
+    expect(m, r.reason).not.toBeNull();
+    const t = Number(m![1]) / Number(m![2]);
+    expect(t).toBeGreaterThan(1);
+    expect(t).toBeLessThan(CONFIRM_Z);
+  });
+
   it('weakens the content path for cold items when it costs on the later window though not on the first', () => {
     // Customers 0-59 are the first window, 60-119 the later one. iALS ranks each customer's truth first, with
     // graded scores 0-0.9 elsewhere; items 17-19 are cold. Content scores the cold items 0 for the first

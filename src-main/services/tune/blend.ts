@@ -11,7 +11,7 @@
  * earlier or later: its validation customers are dealt to two halves at random, so the second half is an
  * independent sample of customers from the same period, which is what the verdict needs (cross-validation
  * over customers), and no customer's truth is seen by both halves. When either half has too few customers to
- * measure, the whole part chooses, and a blend then needs the stricter bar on that window alone.
+ * measure, the whole part chooses, unconfirmed, under the one-standard-error rule (validated-blend.ts says why).
  */
 import { evalTruth, MIN_BLEND_CUSTOMERS, RankingEvaluator, sampleTruth, validateBlend, type BlendModel, type BlendModelInput, type ValidatedBlend } from '../../core/eval/index.ts';
 import { buildInteractionMatrix, type BuildOptions } from '../../core/matrix/build.ts';

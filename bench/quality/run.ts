@@ -22,6 +22,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { cli, findPython, ROOT, run } from './children.ts';
 import { checkMetrics, type ReferenceLists } from './metric-check.ts';
+import { oursPerCustomer, referencePerCustomer } from './paired.ts';
 import { qualityTable, type Metrics } from './table.ts';
 
 const args = process.argv.slice(2);
@@ -59,6 +60,7 @@ interface HoldoutAnswer {
   pairs: number;
   models: { model: string; ndcg: number; recall: number }[];
   weightsFrom: string;
+  perCustomer?: { customers: string[]; ndcg: Record<string, number[]> };
 }
 interface TrainAnswer {
   models: { kind: string; params: Record<string, unknown>; trainMs: number; tuning: { grid?: { best?: unknown } } | null }[];
@@ -70,11 +72,12 @@ async function ours(mode: 'tuned' | 'plain', base: string) {
   const trainArgs = mode === 'tuned' ? ['train', '--tune', '--k', String(k)] : ['train'];
   const trained = await cli<TrainAnswer>(root, ws, trainArgs, path.join(out, `train-${mode}.log`));
   say(`ours, ${trainArgs.join(' ')}: ${(trained.ms / 1000).toFixed(1)} s`);
-  const evaluated = await cli<HoldoutAnswer>(root, ws, ['evaluate', '--holdout', path.join(data, 'test.csv'), '--k', String(k)]);
+  const evaluated = await cli<HoldoutAnswer>(root, ws, ['evaluate', '--holdout', path.join(data, 'test.csv'), '--k', String(k), '--per-customer']);
   const metrics: Record<string, Metrics> = {};
   for (const m of evaluated.body.models) metrics[m.model] = { ndcg: m.ndcg, recall: m.recall };
   const params = Object.fromEntries(trained.body.models.map((m) => [m.kind, m.params]));
-  return { metrics, params, trainSeconds: trained.ms / 1000, customers: evaluated.body.customers, pairs: evaluated.body.pairs, weightsFrom: evaluated.body.weightsFrom };
+  const perCustomer = evaluated.body.perCustomer ? oursPerCustomer(evaluated.body.perCustomer) : null;
+  return { metrics, params, trainSeconds: trained.ms / 1000, customers: evaluated.body.customers, pairs: evaluated.body.pairs, weightsFrom: evaluated.body.weightsFrom, perCustomer };
 }
 
 /** A reference run kept from before (its report and ranked lists): it changes only when the split does. */
@@ -119,6 +122,8 @@ async function main() {
     tuned: tuned?.metrics ?? null,
     plain: plain?.metrics ?? null,
     reference: ref ? Object.fromEntries(Object.entries(ref.report.models).map(([m, v]) => [m, { ndcg: v.ndcg, recall: v.recall }])) : null,
+    tunedPer: tuned?.perCustomer ?? null,
+    referencePer: ref ? referencePerCustomer(ref.lists) : null,
   });
   const lines = [
     `Quality on ${datasetName()}, ${data}; measured: ${root}`,
@@ -137,7 +142,7 @@ async function main() {
   const text = lines.join('\n');
   console.log(`\n${text}`);
   fs.writeFileSync(path.join(out, 'quality.txt'), `${text}\n`);
-  fs.writeFileSync(path.join(out, 'quality.json'), JSON.stringify({ k, data, tuned, plain, reference: ref?.report ?? null, metricCheck: check, targets: table.targets }, null, 1));
+  fs.writeFileSync(path.join(out, 'quality.json'), JSON.stringify({ k, data, tuned: tuned && { ...tuned, perCustomer: undefined }, plain: plain && { ...plain, perCustomer: undefined }, reference: ref?.report ?? null, metricCheck: check, targets: table.targets }, null, 1));
   if (flag('keep')) say(`workspaces kept in ${tmp}`);
   else fs.rmSync(tmp, { recursive: true, force: true });
 }

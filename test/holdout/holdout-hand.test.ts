@@ -55,6 +55,18 @@ describe('evaluateHoldout on the hand-worked case', () => {
     expect(pop.stale).toBe(false);
   });
 
+  it('answers each customer\'s NDCG@2 when asked: u1 0.386853 and u2 1, worked out above', async () => {
+    const plain = await evaluateHoldout(db, { file: path.join(dir, 'holdout.csv') }, { k: 2 });
+    expect(plain.perCustomer).toBeUndefined();
+    const r = await evaluateHoldout(db, { file: path.join(dir, 'holdout.csv') }, { k: 2, perCustomer: true });
+    expect(r.perCustomer!.customers).toEqual(['u1', 'u2']);
+    const pop = r.perCustomer!.ndcg['popularity']!;
+    expect(pop[0]).toBeCloseTo(1 / Math.log2(3) / (1 + 1 / Math.log2(3)), 12);
+    expect(pop[1]).toBe(1);
+    // Every row has its per-customer list, and the lists average to the row's mean.
+    for (const m of r.models) expect((r.perCustomer!.ndcg[m.model] ?? []).reduce((a, b) => a + b, 0) / 2).toBeCloseTo(m.ndcg, 12);
+  });
+
   it('counts unknown ids, duplicates and pairs the customer already has instead of dropping them silently', async () => {
     const r = await evaluateHoldout(db, { file: path.join(dir, 'holdout.csv') }, { k: 2 });
     expect(r.rows).toBe(7);

@@ -208,6 +208,8 @@ export const HoldoutResult = z.object({
   weightsFrom: z.string(),
   mapping: z.record(z.string(), z.string()),
   notes: z.array(z.string()),
+  /** Asked with `perCustomer`: the customers' ids and each model's NDCG@K per customer, in that order. */
+  perCustomer: z.object({ customers: z.array(z.string()), ndcg: z.record(z.string(), z.array(z.number())) }).optional(),
 });
 
 const ItemRef = z.object({ item: z.string(), title: z.string(), category: z.string(), promoted: z.boolean() });
@@ -296,6 +298,8 @@ export const modelMethods = {
         delimiter: z.string().length(1).optional(),
         dateOrder: z.enum(['dmy', 'mdy']).optional(),
         mapping: z.record(z.string(), z.string()).optional(),
+        /** Also answer each customer's NDCG@K per model (paired standard errors between models). */
+        perCustomer: z.boolean().default(false),
       })
       .strict(),
     response: HoldoutResult,

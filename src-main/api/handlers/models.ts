@@ -178,6 +178,7 @@ export function modelHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
         ...(req.delimiter && { delimiter: req.delimiter }),
         ...(req.dateOrder && { dateOrder: req.dateOrder }),
         ...(req.mapping && { mapping: req.mapping }),
+        perCustomer: req.perCustomer,
       });
       return finite(r);
     },

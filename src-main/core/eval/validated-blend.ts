@@ -18,9 +18,10 @@
  * over-fitting in model selection and subsequent selection bias in performance evaluation", JMLR 11), and on
  * Online Retail a blend 5% ahead of EASE on validation lost to it on the test window. So the caller may pass a
  * second, later window (rolling-origin evaluation: Tashman 2000, "Out-of-sample tests of forecasting accuracy",
- * IJF 16): the blend chosen on the first is kept only when, with its weights fixed, it also beats the same best
- * single model on the later window by more than one paired standard error; otherwise the hybrid is that model.
- * Nothing is chosen on the later window, so its verdict is unbiased. The content path for cold items
+ * IJF 16): the blend's direction chosen on the first is judged there, shrunk towards the best single model by
+ * the strength the later window prefers, and kept only when at that strength it beats the same best single
+ * model on the later window by more than CONFIRM_Z paired standard errors (`confirmLater` says why, with the
+ * Online Retail figures); otherwise the hybrid is that model. The content path for cold items
  * (items with fewer than `coldMinCustomers` customers move to the content model's normalised score, by a
  * share of 1, 0.5 or 0.25) is kept at the strongest share that costs nothing on validation, and dropped
  * when every share would make the result worse.
@@ -78,7 +79,12 @@ export interface ValidatedBlend extends BlendSpec {
     trials: number;
     method?: 'time' | 'random';
     /** The later window's verdict on the blend found (absent: no later window, or no blend to confirm). */
-    confirm?: { customers: number; ndcg: number; single: number; gain: number; se: number; held: boolean };
+    /**
+     * The later window's verdict on the blend found: at the shrinkage strength it chose (`shrink`, the share
+     * of the way from the best single model to the blend; absent in blends stored before it), NDCG of the
+     * blend and of the best single model, their paired gain and its standard error; held when gain > CONFIRM_Z·se.
+     */
+    confirm?: { customers: number; ndcg: number; single: number; gain: number; se: number; held: boolean; shrink?: number };
   };
   /** In words, for `models` and `evaluate`. */
   reason: string;
@@ -97,6 +103,11 @@ export interface ValidatedBlendOptions {
   /** Customers per item in the history (the cold-item test); null = no cold path. */
   customersPerItem?: Int32Array | null;
   coldMinCustomers?: number;
+  /**
+   * How the two windows were cut, for the words only: 'time' (`confirm` is the later window) or 'random'
+   * (the validation customers were dealt to two halves at random; `confirm` holds the other half). Default 'time'.
+   */
+  halves?: 'time' | 'random';
   /** A later validation window over the same history: a blend must beat the best single model there too. */
   confirm?: RankingEvaluator;
 }
@@ -171,6 +182,9 @@ export function validateBlend(
   const bestPer = perSingle[bestAt]!;
   const blendPer = new Float64Array(customers);
   let guarded: { gain: number; se: number } | null = null;
+  const random = options.halves === 'random';
+  const laterName = random ? 'the other half of the validation customers' : 'the later validation window';
+  const laterShort = random ? 'the other half of the validation customers' : 'the later window';
   let winner: Outcome | null = null;
   for (const how of options.normalisations ?? CUSTOMER_NORMALISATIONS) {
     // Each customer's normalised columns, once.
@@ -257,6 +271,11 @@ export function validateBlend(
         blendColumnsInto(views, w, withCold > 0 ? cold : null, withCold > 0 ? views[contentAt]! : null, out, withCold);
       }, blendPer);
       const { mean, se } = pairedGain(blendPer, bestPer);
+      // With no second window (a small shop) this in-sample gain stays under the one-standard-error rule and is
+      // not held to the later window's stricter bar: on so few customers the best single model is itself an
+      // uncertain pick, and the blend hedges across the models. Measured on the Online Retail slice of CI (63
+      // validation customers): the blend's gain there was 0.042 ± 0.024 (t 1.7); kept, the hybrid read NDCG@20
+      // 0.167 on test; refused for 2.50 SE, it was item-kNN alone, 0.134, below content's 0.143.
       if (!(mean > se)) {
         guarded = { gain: mean, se };
         w = new Float64Array(M);
@@ -275,7 +294,7 @@ export function validateBlend(
   const laterCold = (weights: Float64Array, share: number): number => {
     if (!options.confirm || share === 0 || options.confirm.customerCount < minCustomers) return share;
     const kept = laterColdShare(options.confirm, history, ordered, { weights, coldShare: share, normalisation: o.normalisation }, cold, contentAt);
-    if (kept < share) coldNote = kept === 0 ? '; the content path for cold items cost NDCG on the later window, so it is left out' : `; the content path for cold items is weakened to ${kept} by the later window`;
+    if (kept < share) coldNote = kept === 0 ? `; the content path for cold items cost NDCG on ${laterShort}, so it is left out` : `; the content path for cold items is weakened to ${kept} by ${laterShort}`;
     return kept;
   };
   /** The best single model's first-window figure with a content-path share (its raw figure without one). */
@@ -296,6 +315,13 @@ export function validateBlend(
   }
   if (o.weights[bestAt]! < 1 && options.confirm) {
     confirmed = confirmLater(options.confirm, history, ordered, o, bestAt, cold, contentAt, minCustomers);
+    trials += SHRINKS.length;
+    if (confirmed.held && confirmed.shrink !== undefined && confirmed.shrink < 1) {
+      // The first window's figure, for the weights actually kept.
+      const weights = shrunk(o.weights, bestAt, confirmed.shrink);
+      trials++;
+      o = { ...o, weights, ndcg: specNdcg(evaluator, history, ordered, { ...o, weights }, cold, contentAt) };
+    }
     if (!confirmed.held) {
       const found = { ...o };
       const singleWeights = Float64Array.from(o.weights, (_, q) => (q === bestAt ? 1 : 0));
@@ -310,14 +336,14 @@ export function validateBlend(
       });
       const verdict =
         c.customers < minCustomers
-          ? `the later validation window has ${c.customers} customers, fewer than the ${minCustomers} needed to confirm it`
-          : `on the later validation window it did not beat ${best.model} by more than its standard error (gain ${c.gain.toFixed(4)} ± ${c.se.toFixed(4)} NDCG@${k})`;
+          ? `${laterName} has ${c.customers} customers, fewer than the ${minCustomers} needed to confirm it`
+          : `on ${laterName} it did not beat ${best.model} by more than ${CONFIRM_Z.toFixed(2)} standard errors (gain ${c.gain.toFixed(4)} ± ${c.se.toFixed(4)} NDCG@${k}${c.shrink !== undefined && c.shrink < 1 ? ` at ${c.shrink} of the way from ${best.model}` : ''})`;
       const r = single(
         true,
-        `${describeBlend(spec)} beat ${best.model} on the earlier validation window (NDCG@${k} ${found.ndcg.toFixed(4)} against ${best.ndcg.toFixed(4)}), but ${verdict}, so the hybrid is ${best.model}${path}${coldNote}`,
+        `${describeBlend(spec)} beat ${best.model} on ${random ? 'one half of the validation customers' : 'the earlier validation window'} (NDCG@${k} ${found.ndcg.toFixed(4)} against ${best.ndcg.toFixed(4)}), but ${verdict}, so the hybrid is ${best.model}${path}${coldNote}`,
         o.coldShare,
         o.ndcg,
-        trials + 2,
+        trials,
       );
       return { ...r, normalisation: o.normalisation, validation: { ...r.validation, confirm: c } };
     }
@@ -347,16 +373,49 @@ export function validateBlend(
   return {
     ...spec,
     validated: true,
-    validation: { k, customers, ndcg: o.ndcg, singles, bestSingle: best.model, trials: trials + (confirmed ? 2 : 0), ...(confirmed && { confirm: confirmed }) },
+    validation: { k, customers, ndcg: o.ndcg, singles, bestSingle: best.model, trials, ...(confirmed && { confirm: confirmed }) },
     reason: `${describeBlend(spec)}: NDCG@${k} ${o.ndcg.toFixed(4)} on validation against ${best.ndcg.toFixed(4)} for ${best.model} alone${
-      confirmed ? `; on a later window ${confirmed.ndcg.toFixed(4)} against ${confirmed.single.toFixed(4)}` : ''
+      confirmed
+        ? `; on ${random ? 'the other half of the validation customers' : 'a later window'} ${confirmed.ndcg.toFixed(4)} against ${confirmed.single.toFixed(4)} (gain ${confirmed.gain.toFixed(4)} ± ${confirmed.se.toFixed(4)})${
+            confirmed.shrink !== undefined && confirmed.shrink < 1 ? `, where the blend found was kept ${confirmed.shrink} of the way from ${best.model}` : ''
+          }`
+        : ''
     }${coldNote}`,
   };
 }
 
 /**
- * The blend (weights, normalisation and cold path fixed) against the best single model, raw, on the later
- * window's customers: held when the paired gain exceeds one standard error (as on the first window).
+ * Shrinkage strengths tried on the later window: the blend's weights w become λ·w + (1 − λ)·e_best, a path
+ * from the best single model (λ = 0, never tried: it is the comparison) to the blend found (λ = 1).
+ */
+export const SHRINKS = [0.25, 0.5, 0.75, 1] as const;
+
+/**
+ * The later window's evidence a blend needs: its paired gain over the best single model must exceed
+ * CONFIRM_Z standard errors, a one-sided test at 2.5% split over the |SHRINKS| strengths the window chose
+ * among (Bonferroni): z = Φ⁻¹(1 − 0.025/4) = 2.4977 (standard normal quantile).
+ */
+export const CONFIRM_Z = 2.4977;
+
+/**
+ * The blend (direction, normalisation and cold path fixed) judged on the later window's customers: its
+ * weights are shrunk towards the best single model, λ·w + (1 − λ)·e_best for λ in SHRINKS, and the λ with
+ * the highest mean NDCG there is the one kept (stacking with a shrinkage strength chosen out of sample:
+ * Breiman 1996, "Stacked regressions", Machine Learning 24, whose weights are likewise fitted on predictions
+ * the data to score did not make; the one parameter chosen here moves along a fixed path, so the later window
+ * is used for little more than the verdict). It holds when the paired gain at that λ over the best single
+ * model, raw, exceeds CONFIRM_Z standard errors.
+ *
+ * Why shrink and why the stricter bound (measured on Online Retail, `train --tune --budget 10 --k 20`): the
+ * blend 0.222 content + 0.159 item-kNN + 0.619 EASE gained +0.0030 ± 0.0017 NDCG@20 over EASE on the earlier
+ * half and +0.0031 ± 0.0016 on the later half (models fitted on the validation split's train part), yet lost
+ * 0.0020 ± 0.0013 on the test window (models refitted on all the history). The halves agree, so the loss is
+ * no selection bias: the models' relative strength moved between the validation window and the test window
+ * (item-kNN was 0.90× EASE on validation and 0.79× on test; the mean z-score of the truth items under EASE
+ * rose from 1.19 to 1.31 and under content only from 0.67 to 0.70, so content's scale did not cause it, and
+ * dropping content made the test loss larger). No rule that sees only the validation window can detect
+ * such a shift; what it can do is ask more evidence before leaving the best single model and keep the blend
+ * no further from it than the later window supports, so that a shift costs a fraction of the gain.
  */
 function confirmLater(
   ev: RankingEvaluator,
@@ -369,27 +428,70 @@ function confirmLater(
   minCustomers: number,
 ): NonNullable<ValidatedBlend['validation']['confirm']> {
   const customers = ev.customerCount;
-  if (customers < minCustomers) return { customers, ndcg: Number.NaN, single: Number.NaN, gain: Number.NaN, se: Number.NaN, held: false };
+  if (customers < minCustomers) return { customers, ndcg: Number.NaN, single: Number.NaN, gain: Number.NaN, se: Number.NaN, held: false, shrink: 1 };
   const N = history.cols;
   const M = ordered.length;
-  const cols = Array.from({ length: M }, () => new Float32Array(N));
+  // Each customer's normalised columns of the models the blend uses, once (the strengths only re-weight them).
+  const used = ordered.map((_, m) => o.weights[m]! > 0 || (m === contentAt && o.coldShare > 0));
+  const slot = new Int32Array(M).fill(-1);
+  let S = 0;
+  for (let m = 0; m < M; m++) if (used[m]) slot[m] = S++;
+  const cache = new Float32Array(customers * S * N);
   const raw = new Float32Array(N);
   const scratch = new Float64Array(N);
-  const blendPer = new Float64Array(customers);
-  const singlePer = new Float64Array(customers);
-  const blend = ev.evaluateFill('hybrid', (u, _c, out) => {
+  const us = ev.customers;
+  for (let c = 0; c < customers; c++) {
+    const u = us[c]!;
     const hist = history.indices.subarray(history.indptr[u]!, history.indptr[u + 1]!);
     for (let m = 0; m < M; m++) {
-      if (!(o.weights[m]! > 0) && !(m === contentAt && o.coldShare > 0)) continue;
+      if (slot[m]! < 0) continue;
       ordered[m]!.scorer.scoreInto(u, history, raw);
-      normaliseForCustomer(o.normalisation, raw, hist, cols[m]!, scratch);
+      normaliseForCustomer(o.normalisation, raw, hist, cache.subarray((c * S + slot[m]!) * N, (c * S + slot[m]! + 1) * N), scratch);
     }
-    blendColumnsInto(cols, o.weights, o.coldShare > 0 ? cold : null, o.coldShare > 0 ? cols[contentAt]! : null, out, o.coldShare);
-  }, blendPer).ndcg;
+  }
+  const zero = new Float32Array(N);
+  const cols: Float32Array[] = new Array<Float32Array>(M).fill(zero);
   const model = ordered[bestAt]!;
+  const singlePer = new Float64Array(customers);
   const single = ev.evaluateFill(model.name, (u, _c, out) => model.scorer.scoreInto(u, history, out), singlePer).ndcg;
-  const { mean, se } = pairedGain(blendPer, singlePer);
-  return { customers, ndcg: blend, single, gain: mean, se, held: mean > se };
+  const per = SHRINKS.map((shrink) => {
+    const w = shrunk(o.weights, bestAt, shrink);
+    const a = new Float64Array(customers);
+    ev.evaluateFill('hybrid', (_u, c, out) => {
+      for (let m = 0; m < M; m++) cols[m] = slot[m]! >= 0 ? cache.subarray((c * S + slot[m]!) * N, (c * S + slot[m]! + 1) * N) : zero;
+      blendColumnsInto(cols, w, o.coldShare > 0 ? cold : null, o.coldShare > 0 ? cols[contentAt]! : null, out, o.coldShare);
+    }, a);
+    return a;
+  });
+  const v = shrinkVerdict(singlePer, per);
+  const ndcg = per[SHRINKS.indexOf(v.shrink as (typeof SHRINKS)[number])]!.reduce((x, y) => x + y, 0) / customers;
+  return { customers, ndcg, single, ...v };
+}
+
+/**
+ * The later window's verdict from per-customer NDCG: `single` the best single model's, `blends[j]` the blend's
+ * at SHRINKS[j]. The strength with the highest mean gain is kept (ties go to the weaker, nearer the single
+ * model); it holds when that gain exceeds CONFIRM_Z paired standard errors.
+ */
+export function shrinkVerdict(single: Float64Array, blends: readonly Float64Array[]): { shrink: number; gain: number; se: number; held: boolean } {
+  if (blends.length !== SHRINKS.length) throw new RangeError(`one list per shrinkage strength (${SHRINKS.length}) needed, got ${blends.length}`);
+  let at = -1;
+  let best = { mean: Number.NaN, se: Number.NaN };
+  blends.forEach((b, j) => {
+    const g = pairedGain(b, single);
+    if (at < 0 || g.mean > best.mean + 1e-12) {
+      at = j;
+      best = g;
+    }
+  });
+  return { shrink: SHRINKS[at]!, gain: best.mean, se: best.se, held: best.mean > CONFIRM_Z * best.se };
+}
+
+/** λ·w + (1 − λ)·e_best: the weights moved a share 1 − λ of the way back to the best single model. */
+export function shrunk(w: Float64Array, bestAt: number, shrink: number): Float64Array {
+  const t = Float64Array.from(w, (x) => shrink * x);
+  t[bestAt]! += 1 - shrink;
+  return t;
 }
 
 /**

@@ -29,6 +29,8 @@ export interface HoldoutOptions extends HoldoutReadOptions {
   k?: number;
   /** Seed of the random baseline. Default 1. */
   seed?: number;
+  /** Also answer each customer's NDCG@K per model (`perCustomer`), for paired comparisons. Default false. */
+  perCustomer?: boolean;
 }
 
 export interface HoldoutModelRow {
@@ -82,6 +84,12 @@ export interface HoldoutEvaluation {
   weightsFrom: string;
   mapping: Record<string, string>;
   notes: string[];
+  /**
+   * With `perCustomer`: the evaluated customers' ids and, per model, each one's NDCG@K in that order. A gap
+   * between two models' means is then judged by the standard error of the paired differences, which is far
+   * smaller than either mean's own (the customers are the same).
+   */
+  perCustomer?: { customers: string[]; ndcg: Record<string, number[]> };
 }
 
 const EXAMPLES = 5;
@@ -90,16 +98,16 @@ export async function evaluateHoldout(db: Db, source: HoldoutSource, o: HoldoutO
   const k = o.k ?? 20;
   if (!Number.isInteger(k) || k < 1) throw new InputError(`k must be a whole number >= 1, got ${k}`, { column: 'k' });
   const rows = await readHoldout(source, o);
-  return evaluateHoldoutRows(db, loadDataset(db), rows, k, o.seed ?? 1);
+  return evaluateHoldoutRows(db, loadDataset(db), rows, k, o.seed ?? 1, o.perCustomer ?? false);
 }
 
 /** The evaluation proper, on rows already read (tests call it with hand-made rows). */
-export function evaluateHoldoutRows(db: Db, ds: Dataset, rows: HoldoutRows, k: number, seed = 1): HoldoutEvaluation {
+export function evaluateHoldoutRows(db: Db, ds: Dataset, rows: HoldoutRows, k: number, seed = 1, perCustomer = false): HoldoutEvaluation {
   if (ds.items.length === 0) throw new InputError('the workspace has no items: import a catalogue first');
   const models = loadTrainedModels(db, ds);
   if (models.scorers.size === 0) throw new InputError('no trained models: run train first');
   const owned = ownedMatrix(ds);
-  const truthAndCounts = buildTruth(ds, rows, owned);
+  const truthAndCounts = holdoutTruth(ds, rows, owned);
   const { truth } = truthAndCounts;
   if (truth.customers.length === 0) {
     throw new InputError(
@@ -125,15 +133,22 @@ export function evaluateHoldoutRows(db: Db, ds: Dataset, rows: HoldoutRows, k: n
     stale,
     elapsedMs: r.elapsedMs,
   });
+  const each = new Map<string, Float64Array>();
+  const per = (name: string) => {
+    if (!perCustomer) return undefined;
+    const a = new Float64Array(truth.customers.length);
+    each.set(name, a);
+    return a;
+  };
   for (const [name, model] of models.scorers) {
-    out.push(row(evaluator.evaluateFill(name, (u, _c, s) => model.scoreInto(u, models.matrix, s)), status.get(name) ?? null));
+    out.push(row(evaluator.evaluateFill(name, (u, _c, s) => model.scoreInto(u, models.matrix, s), per(name)), status.get(name) ?? null));
   }
   if (models.blend) {
     const blend = models.blend;
-    out.push(row(evaluator.evaluateFill('hybrid', (u, _c, s) => blend.scoreInto(u, models.matrix, s)), null));
+    out.push(row(evaluator.evaluateFill('hybrid', (u, _c, s) => blend.scoreInto(u, models.matrix, s), per('hybrid')), null));
   }
   const random = randomScorer(seed, ds.items.length);
-  out.push(row(evaluator.evaluateFill('random', (u, _c, s) => random.scoreInto(u, models.matrix, s)), null));
+  out.push(row(evaluator.evaluateFill('random', (u, _c, s) => random.scoreInto(u, models.matrix, s), per('random')), null));
   out.sort((a, b) => b.ndcg - a.ndcg || a.model.localeCompare(b.model));
   const notes = [...models.notes];
   if ([...status.values()].some(Boolean)) notes.push('some models are older than the workspace data: retrain for a fair comparison');
@@ -154,6 +169,12 @@ export function evaluateHoldoutRows(db: Db, ds: Dataset, rows: HoldoutRows, k: n
     weightsFrom: models.weightsFrom,
     mapping: rows.mapping as Record<string, string>,
     notes,
+    ...(perCustomer && {
+      perCustomer: {
+        customers: Array.from(truth.customers, (u) => ds.customerExternalIds[u]!),
+        ndcg: Object.fromEntries([...each].map(([m, a]) => [m, Array.from(a)])),
+      },
+    }),
   };
 }
 
@@ -163,7 +184,7 @@ type TruthAndCounts = { truth: EvalTruth } & Pick<
   'usableRows' | 'unknownCustomers' | 'unknownItems' | 'alreadyInWorkspace' | 'duplicateRows' | 'customersWithoutNewItems' | 'coldCustomers'
 >;
 
-function buildTruth(ds: Dataset, rows: HoldoutRows, owned: { indptr: Int32Array; indices: Int32Array }): TruthAndCounts {
+export function holdoutTruth(ds: Dataset, rows: HoldoutRows, owned: { indptr: Int32Array; indices: Int32Array }): TruthAndCounts {
   const customerIndex = new Map<string, number>();
   ds.customerExternalIds.forEach((id, u) => customerIndex.set(id, u));
   const itemIndex = new Map<string, number>();

@@ -5,9 +5,13 @@
  * (or the single model) by NDCG@K on the validation part. Nothing is written here; training stores the
  * result with its models (store/blends.ts).
  *
- * The validation part is cut in two (split.ts `confirmationHalves`): the weights are chosen on the earlier half
- * and a blend is kept only if it also beats the best single model on the later half (validated-blend.ts says
- * why). When either half has too few customers to measure, the whole part chooses, unconfirmed, as before.
+ * The validation part is cut in two (split.ts `confirmationHalves`): the weights are chosen on the earlier half,
+ * the later half shrinks them towards the best single model and keeps the blend only when it beats that model
+ * there by a clear margin (validated-blend.ts `confirmLater` says why). A random split (no times) has no
+ * earlier or later: its validation customers are dealt to two halves at random, so the second half is an
+ * independent sample of customers from the same period, which is what the verdict needs (cross-validation
+ * over customers), and no customer's truth is seen by both halves. When either half has too few customers to
+ * measure, the whole part chooses, unconfirmed, under the one-standard-error rule (validated-blend.ts says why).
  */
 import { evalTruth, MIN_BLEND_CUSTOMERS, RankingEvaluator, sampleTruth, validateBlend, type BlendModel, type BlendModelInput, type ValidatedBlend } from '../../core/eval/index.ts';
 import { buildInteractionMatrix, type BuildOptions } from '../../core/matrix/build.ts';
@@ -79,7 +83,7 @@ export async function learnBlend(
     else if (kind === 'popularity') add(kind, fitPopularity(train).model);
     else add(kind, (await fitIalsThreaded(train, { seed, ...params.ials }, { ...fitOpts, ...(o.threads !== undefined && { threads: o.threads }) })).model);
   }
-  const r = validateBlend(ev, train, models, { customersPerItem: columnCounts(train), ...(twoWindows && { confirm: confirmEv }) });
+  const r = validateBlend(ev, train, models, { customersPerItem: columnCounts(train), halves: split.method, ...(twoWindows && { confirm: confirmEv }) });
   return { ...r, validation: { ...r.validation, method: split.method } };
 }
 

@@ -241,7 +241,7 @@ const evaluateCommand: CliCommand = {
   summary: 'evaluate every model against baselines on a held-out split (by time, or per customer when signals have no times), or against your own holdout file (--holdout)',
   usage: [
     '[--k K] [--sample N] [--split auto|time|random] [--json]',
-    '--holdout FILE [--k K] [--map FIELD=HEADER ...] [--format csv|jsonl|json] [--delimiter C] [--date-order dmy|mdy] [--json]',
+    '--holdout FILE [--k K] [--map FIELD=HEADER ...] [--format csv|jsonl|json] [--delimiter C] [--date-order dmy|mdy] [--per-customer] [--json]',
   ],
   options: {
     k: { type: 'string' },
@@ -252,6 +252,7 @@ const evaluateCommand: CliCommand = {
     format: { type: 'string' },
     delimiter: { type: 'string' },
     'date-order': { type: 'string' },
+    'per-customer': { type: 'boolean' },
   },
   about: {
     k: 'list length scored: 1 to 200 (default 10), with --holdout 1 to 500 (default 20)',
@@ -262,6 +263,7 @@ const evaluateCommand: CliCommand = {
     format: 'with --holdout: csv, json or jsonl (default: from the file extension)',
     delimiter: 'with --holdout: the CSV column separator, one character (default: detected)',
     'date-order': 'with --holdout: dmy or mdy, for dates like 03/04/2026 in the file (ISO 8601 dates need none)',
+    'per-customer': 'with --holdout --json: also each customer\'s NDCG@K per model (for paired comparisons)',
   },
   help: [
     'Recall@K divides by min(K, |held-out items|) (Liang et al. 2018); NDCG@K is binary with a log2 discount.',
@@ -282,7 +284,7 @@ const evaluateCommand: CliCommand = {
     const split = str(env, 'split');
     if (split !== undefined && !(SPLIT_CHOICES as readonly string[]).includes(split)) throw new UsageError(`--split must be ${SPLIT_CHOICES.join(', ')}, got '${split}'`);
     if (holdout === undefined) {
-      const holdoutOnly = ['map', 'format', 'delimiter', 'date-order'].find((f) => env.values[f] !== undefined);
+      const holdoutOnly = ['map', 'format', 'delimiter', 'date-order', 'per-customer'].find((f) => env.values[f] !== undefined);
       if (holdoutOnly) throw new UsageError(`--${holdoutOnly} only works with --holdout FILE`);
     }
     const maxK = holdout ? 500 : 200; // the api's bounds for evaluate.holdout and evaluate.start
@@ -306,6 +308,7 @@ const evaluateCommand: CliCommand = {
         format: format as 'csv' | 'json' | 'jsonl' | undefined,
         delimiter: str(env, 'delimiter'),
         dateOrder: dateOrder as 'dmy' | 'mdy' | undefined,
+        perCustomer: env.values['per-customer'] === true ? true : undefined,
       }));
       if (env.json) {
         env.io.out(JSON.stringify(r, null, 2));

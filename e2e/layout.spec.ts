@@ -1,5 +1,12 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
 import type { Locator, Page } from '@playwright/test';
-import { expect, seriousA11yViolations, test } from './fixtures.ts';
+import { createHandlerTable } from '../src-main/api/handler-table.ts';
+import { AppContext } from '../src-main/services/context.ts';
+import { buildDemoWorkspace } from '../src-main/services/demo.ts';
+import { startWebShell } from '../src-main/shell/web/server.ts';
+import { DIST, ensureBuilt, expect, JOURNEY_SHOP, seriousA11yViolations, test } from './fixtures.ts';
 
 /**
  * How the screens are laid out at the window widths editors use (800, 1280 and 1920 px), asserted on the boxes the
@@ -38,11 +45,11 @@ test('the overview names the workspace by its file name; the full path is on hov
   const name = page.getByRole('heading', { name: 'Workspace e2e.sqlite' });
   await expect(name).toBeVisible(SLOW);
   await expect(name).toHaveAttribute('title', app.workspace);
-  const path = page.locator('.file-path code');
-  await expect(path).toBeHidden();
+  const where = page.locator('.file-path code');
+  await expect(where).toBeHidden();
   await page.getByText('Where it is').click();
-  await expect(path).toBeVisible();
-  await expect(path).toHaveText(app.workspace);
+  await expect(where).toBeVisible();
+  await expect(where).toHaveText(app.workspace);
   // The start command in "Another workspace" stays on one line (it broke after "npm start -- --").
   const command = page.locator('code.command');
   await page.setViewportSize({ width: 800, height: 800 });
@@ -97,6 +104,10 @@ for (const width of [800, 1280, 1920]) {
     const rules = ['Slots', 'Relevance vs variety (0–1, 1 = relevance only)', 'Most sponsored slots (% of shelf, empty = no limit)', 'Rest period (published editions)'];
     const bottoms = await Promise.all(rules.map(async (l) => { const b = await box(page.getByLabel(l, { exact: true }).and(page.locator('input'))); return Math.round(b.y + b.height); }));
     if (width >= 1280) expect(new Set(bottoms).size).toBe(1);
+    // A button beside a field sits on the field's line (the anchors' Search sat 7 px above its input's bottom).
+    const anchors = page.getByRole('region', { name: 'Anchors: rank towards items like these' });
+    const [query, search] = await Promise.all([box(anchors.getByLabel('Find items by title or id')), box(anchors.getByRole('button', { name: 'Search' }))]);
+    expect(Math.abs(query.y + query.height - (search.y + search.height))).toBeLessThan(1);
     expect(await seriousA11yViolations(page)).toEqual([]);
   });
 }
@@ -149,4 +160,39 @@ test("the planner's calendar shows each item's picture beside its id, the title 
     expect(title.y).toBeGreaterThanOrEqual(pic.y + pic.height - 1);
   }
   expect(await seriousA11yViolations(page)).toEqual([]);
+});
+
+test("at 800 px the evaluation's table scrolls in its own region, and its chart fits the panel with short names under the bars", async ({ page }) => {
+  // Evaluation needs a shop with a validation window: the demo shop at the journey's size (the seeded one has none).
+  test.setTimeout(600_000);
+  ensureBuilt();
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-layout-'));
+  const file = path.join(dir, 'demo.sqlite');
+  const { seed, items, customers, signals } = JOURNEY_SHOP;
+  await buildDemoWorkspace(file, { seed, size: { items, customers, signals }, tune: false });
+  const ctx = new AppContext();
+  ctx.open(file, { create: false });
+  const shell = await startWebShell({ table: createHandlerTable(ctx), uploads: ctx.uploads, staticDir: DIST });
+  try {
+    await page.goto(shell.pageUrl);
+    await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Models', exact: true }).click();
+    await page.getByRole('button', { name: 'Evaluate', exact: true }).click();
+    const panel = page.getByRole('region', { name: 'Evaluation: models against baselines' });
+    const figures = panel.getByRole('region', { name: 'Evaluation figures' });
+    await expect(figures.getByRole('table')).toBeVisible({ timeout: 300_000 });
+    await page.setViewportSize({ width: 800, height: 800 });
+    // The chart redraws at the panel's new width instead of keeping the 1280 px one (a resize is observed, not waited out).
+    await expect.poll(async () => (await box(panel.locator('.chart .uplot'))).width - (await box(panel)).width).toBeLessThanOrEqual(0);
+    await noSidewaysScroll(page);
+    const [p, f] = await Promise.all([box(panel), box(figures)]);
+    expect(f.x + f.width).toBeLessThanOrEqual(p.x + p.width);
+    // The table is wider than the window's panel: its region scrolls (and takes keyboard focus to do so).
+    expect(await figures.evaluate((e) => e.scrollWidth > e.clientWidth)).toBe(true);
+    await expect(figures).toHaveAttribute('tabindex', '0');
+    expect(await seriousA11yViolations(page)).toEqual([]);
+  } finally {
+    await shell.close();
+    ctx.close();
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
 });

@@ -100,6 +100,11 @@ for (const width of [800, 1280, 1920]) {
       // A wide window gives the editor more room than a reading screen's 1080 px.
       expect((await box(page.locator('main'))).width).toBeGreaterThan(1300);
     }
+    if (width >= 1280) {
+      // The meter's gauges share the strip's width: no empty tracks left on the right.
+      const [gauges, last] = await Promise.all([box(page.locator('.meter-strip .gauges')), box(page.locator('.meter-strip .gauges > li').last())]);
+      expect(gauges.x + gauges.width - (last.x + last.width)).toBeLessThan(2);
+    }
     // The rules' inputs sit on one line although "Slots" has a one-line label and its neighbours two.
     const rules = ['Slots', 'Relevance vs variety (0–1, 1 = relevance only)', 'Most sponsored slots (% of shelf, empty = no limit)', 'Rest period (published editions)'];
     const bottoms = await Promise.all(rules.map(async (l) => { const b = await box(page.getByLabel(l, { exact: true }).and(page.locator('input'))); return Math.round(b.y + b.height); }));

@@ -129,6 +129,28 @@ test("the board's cards put Edit on one line, and the edition meter's notes read
   expect((await box(page.getByRole('spinbutton', { name: 'Slots' }))).width).toBeLessThanOrEqual(15 * 12 + 1);
 });
 
+test('the fields of a form row are of one height, and a list of problems keeps its bullets inside its box', async ({ page, app }) => {
+  await page.setViewportSize({ width: 800, height: 800 });
+  await page.goto(app.shell.pageUrl);
+  await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Editions', exact: true }).click();
+  const heights = await Promise.all(['Name', 'Date', 'Copy shelves and briefs from'].map(async (l) => Math.round((await box(page.getByLabel(l, { exact: true }))).height)));
+  expect(new Set(heights).size).toBe(1);
+
+  await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Import', exact: true }).click();
+  await page.getByLabel('Upload a file (CSV, JSON, JSON Lines)').setInputFiles({
+    name: 'items.csv',
+    mimeType: 'text/csv',
+    buffer: Buffer.from('id,title,price,promoted\nN1,Copper Plant Mister,9.99,no\nN2,Trellis Panel,-3,maybe\n'),
+  });
+  await page.getByRole('button', { name: 'Preview' }).click();
+  const problems = page.getByRole('list', { name: 'Problems found in the preview' });
+  await expect(problems.getByRole('listitem')).toHaveCount(2, SLOW);
+  const list = await box(problems);
+  // The bullet is drawn left of its item's box: the item starts well inside the list's (bordered) box.
+  for (const item of await problems.getByRole('listitem').all()) expect((await box(item)).x - list.x).toBeGreaterThanOrEqual(20);
+  expect(await seriousA11yViolations(page)).toEqual([]);
+});
+
 test('a date field shows the same focus ring as every other control when reached by keyboard', async ({ page, app }) => {
   await page.goto(app.shell.pageUrl);
   await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Editions', exact: true }).click();

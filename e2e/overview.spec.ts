@@ -13,7 +13,9 @@ test('overview of a small workspace shows its real counts and passes an accessib
   await expect(page.getByRole('heading', { name: 'Workspace overview' })).toBeVisible();
   await expect(counts).toHaveText([String(SHOP.items), String(SHOP.customers), String(SHOP.signals)]);
   console.log(`timing: first screen with counts ${(performance.now() - t0).toFixed(0)} ms after navigation`);
-  await expect(page.getByText(app.workspace)).toBeVisible();
+  // By its file name; the full path is folded under "Where it is" (layout.spec.ts opens it).
+  await expect(page.getByRole('heading', { name: `Workspace ${path.basename(app.workspace)}` })).toBeVisible();
+  await expect(page.getByText(app.workspace)).toBeAttached();
 
   const axe = await new AxeBuilder({ page }).analyze();
   const bad = axe.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');

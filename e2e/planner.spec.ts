@@ -203,8 +203,8 @@ test('on the trained demo shop: plan two shelves for six weeks with rest weeks, 
     const after = await weeks(front);
     expect(after[3]).toContain(pinned);
 
-    // The planned titles of week 4, as the calendar shows them (the first span of each cell).
-    const planned = await front.locator('tbody tr').evaluateAll((trs) => trs.map((tr) => tr.querySelectorAll('td')[3]!.querySelector('span')!.textContent!));
+    // The planned titles of week 4, as the calendar shows them (each cell's title line).
+    const planned = await front.locator('tbody tr').evaluateAll((trs) => trs.map((tr) => tr.querySelectorAll('td')[3]!.querySelector('.cell-title')!.textContent!));
     await page.getByRole('button', { name: 'Make draft of week 4' }).click();
     const draft = 'Garden winter · week 4';
     await expect(status).toHaveText(`Draft edition “${draft}” made from week 4.`, SLOW);

@@ -24,7 +24,8 @@ export interface ScreenshotSession {
 export async function openScreenshotSession(script: string, source: string | undefined): Promise<ScreenshotSession> {
   if (!source || !fs.existsSync(source)) throw new Error(`usage: npx tsx e2e/${script} WORKSPACE.sqlite (an existing, trained workspace)`);
   ensureBuilt();
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-shots-'));
+  // The copy keeps the source's file name, which the pictures show (Overview, the sidebar); the folder says whose it is.
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'shelfwright-screenshots-'));
   const copy = path.join(dir, path.basename(source));
   for (const suffix of ['', '-wal', '-shm']) if (fs.existsSync(source + suffix)) fs.copyFileSync(source + suffix, copy + suffix);
   const ctx = new AppContext();

@@ -1,4 +1,5 @@
 import { useEffect } from 'react';
+import { fileName } from './components/format.ts';
 import { Board } from './screens/Board.tsx';
 import { Editions } from './screens/Editions.tsx';
 import { Groups } from './screens/Groups.tsx';
@@ -99,7 +100,7 @@ export function App() {
         </ul>
         {file && (
           <p className="sidebar-file" title={file}>
-            {file.split(/[\\/]/).pop()}
+            {fileName(file)}
           </p>
         )}
       </nav>

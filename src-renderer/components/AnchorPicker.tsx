@@ -50,7 +50,7 @@ export function AnchorPicker({ shelf, readOnly }: { shelf: ShelfView; readOnly: 
           <label htmlFor={`${id}-q`}>Find items by title or id</label>
           <input id={`${id}-q`} type="search" value={query} onChange={(e) => setQuery(e.target.value)} />
         </div>
-        <button type="submit" className="quiet" disabled={searching || query.trim() === ''} style={{ alignSelf: 'center' }}>
+        <button type="submit" className="quiet" disabled={searching || query.trim() === ''}>
           Search
         </button>
       </form>

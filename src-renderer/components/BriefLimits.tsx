@@ -161,7 +161,7 @@ export function BriefLimits(props: { draft: LimitsDraft; names: CatalogueNames |
                   ))}
                 </select>
               </div>
-              <button type="button" className="quiet" style={{ alignSelf: 'center' }} onClick={() => set({ quotas: draft.quotas.filter((_, j) => j !== k) })}>
+              <button type="button" className="quiet" onClick={() => set({ quotas: draft.quotas.filter((_, j) => j !== k) })}>
                 Remove limit {k + 1}
               </button>
             </li>

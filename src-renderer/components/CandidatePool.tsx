@@ -7,8 +7,8 @@ import { count, rankWords, screenNumbers } from './format.ts';
 import { ItemPicture } from './ItemPicture.tsx';
 import { SlotSelect } from './SlotSelect.tsx';
 
-/** Three lines: title, rank, reason. */
-const ROW_PX = 72;
+/** Four lines: the title (up to two, so it is read whole in the narrow side column), rank, reason. */
+const ROW_PX = 88;
 
 /**
  * The best candidates not on the shelf for one slot, from `shelf.whatif`, virtualised
@@ -62,7 +62,9 @@ export function CandidatePool({ shelf, slot, onSlot, readOnly, onAct }: { shelf:
               >
                 <ItemPicture item={c.item} size="pool" />
                 <div className="candidate-main">
-                  <p className="slot-title">{c.title}</p>
+                  <p className="slot-title" title={c.title}>
+                    {c.title}
+                  </p>
                   <p className="small">
                     {c.promoted && <span className="sponsored">Sponsored</span>} <span className="muted">{rankWords(c.rank, shelf.poolSize)}</span>
                   </p>

@@ -2,6 +2,7 @@ import { plural } from '../../src-main/core/util/plural.ts';
 import { useId, useMemo, useState, type FormEvent } from 'react';
 import { useApp } from '../state/store.ts';
 import { num, pct } from './format.ts';
+import { modelShortWords } from './model-short.ts';
 import { MetricsChart } from './MetricsChart.tsx';
 import { Notes } from './Notes.tsx';
 import { modelWords } from '../../src-main/core/models/model-words.ts';
@@ -20,7 +21,7 @@ export function HoldoutPanel() {
   const [k, setK] = useState(20);
   const id = useId();
   const rows = result?.models ?? [];
-  const labels = useMemo(() => rows.map((r) => modelWords(r.model)), [rows]);
+  const labels = useMemo(() => rows.map((r) => modelShortWords(r.model)), [rows]);
   const series = useMemo(
     () => [
       { name: `NDCG@${result?.k ?? k}`, values: rows.map((r) => r.ndcg), color: '#24605a' },
@@ -77,6 +78,7 @@ export function HoldoutPanel() {
             <strong>{plural(result.unknownItems.distinct, 'unknown item')}</strong> ({plural(result.unknownItems.rows, 'row')}) ·{' '}
             {plural(result.alreadyInWorkspace, 'pair')} already in the workspace
           </p>
+          <div className="table-scroll" role="region" aria-label="Figures on the file" tabIndex={0}>
           <table aria-label="Models scored on the file">
             <thead>
               <tr>
@@ -103,6 +105,7 @@ export function HoldoutPanel() {
               ))}
             </tbody>
           </table>
+          </div>
           <MetricsChart labels={labels} series={series} title={`Scored on ${result.file} at K = ${result.k}`} />
           <Notes notes={result.notes} />
         </div>

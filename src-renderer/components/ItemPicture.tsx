@@ -1,8 +1,8 @@
 import { useEffect } from 'react';
 import { useApp } from '../state/store.ts';
 
-/** Drawn sizes in CSS pixels: a slot card, a pool row, a board line. Thumbnails are stored at 96 px at most. */
-const SIZES = { slot: 48, pool: 40, mini: 20 } as const;
+/** Drawn sizes in CSS pixels: a slot card, a pool row, a planner calendar cell, a board line. Thumbnails are stored at 96 px at most. */
+const SIZES = { slot: 48, pool: 40, cell: 32, mini: 20 } as const;
 
 /**
  * An item's thumbnail, or a neutral placeholder of the same size when it has none (or while it is asked for).

@@ -44,7 +44,13 @@ export function MetricsChart({ labels, series, title }: MetricsChartProps) {
       data,
       el,
     );
-    return () => plot.destroy();
+    // The chart follows its panel's width (it kept the width it was drawn at, and overflowed a narrowed window).
+    const resize = typeof ResizeObserver === 'undefined' ? null : new ResizeObserver(() => plot.setSize({ width: Math.max(320, el.clientWidth || 640), height: 240 }));
+    resize?.observe(el);
+    return () => {
+      resize?.disconnect();
+      plot.destroy();
+    };
   }, [labels, series, title]);
   return <div ref={host} className="chart" aria-hidden="true" />;
 }

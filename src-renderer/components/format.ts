@@ -64,3 +64,8 @@ export function dayWords(ms: number | null | undefined): string {
 export function momentWords(ms: number | null | undefined): string {
   return ms === null || ms === undefined || !Number.isFinite(ms) ? NO_DATA : moment.format(ms);
 }
+
+/** A file's name without its folders (either separator: the workspace may be on Windows). */
+export function fileName(file: string): string {
+  return file.split(/[\\/]/).pop() || file;
+}

@@ -1,5 +1,6 @@
 import { useEffect, useId, useMemo, useState } from 'react';
 import { HoldoutPanel } from '../components/HoldoutPanel.tsx';
+import { modelShortWords } from '../components/model-short.ts';
 import { MetricsChart } from '../components/MetricsChart.tsx';
 import { num, pct, momentWords, count } from '../components/format.ts';
 import { useApp } from '../state/store.ts';
@@ -63,7 +64,7 @@ function EvaluationPanel() {
   const [split, setSplit] = useState<SplitChoice>('auto');
   const id = useId();
   const rows = evaluation?.rows ?? [];
-  const labels = useMemo(() => rows.map((r) => modelWords(r.model)), [rows]);
+  const labels = useMemo(() => rows.map((r) => modelShortWords(r.model)), [rows]);
   const series = useMemo(
     () => [
       { name: `NDCG@${evaluation?.k ?? k}`, values: rows.map((r) => r.ndcg), color: '#24605a' },
@@ -103,6 +104,8 @@ function EvaluationPanel() {
         <>
           {/* Kept after a retrain, so the last figures stay in view; said in words when they no longer measure what is in use. */}
           {evaluation.stale && <p className="warn">Out of date: {evaluation.staleReason ?? 'the workspace changed since this evaluation; evaluate again'}.</p>}
+          {/* Seven columns do not fit an 800 px window: the table scrolls sideways in its own region, not the page. */}
+          <div className="table-scroll" role="region" aria-label="Evaluation figures" tabIndex={0}>
           <table>
             <caption className="muted small">
               Held-out test: {count(evaluation.split.test)} signals · evaluated {momentWords(evaluation.evaluatedAt)}
@@ -134,6 +137,7 @@ function EvaluationPanel() {
               ))}
             </tbody>
           </table>
+          </div>
           <dl className="metric-help small" aria-label="What each figure measures">
             {metricHelp(evaluation.k).map((m) => (
               <div key={m.metric}>

@@ -1,7 +1,7 @@
 import { useEffect, useId, useState, type FormEvent } from 'react';
 import { ForgetCustomer } from '../components/ForgetCustomer.tsx';
 import { useApp } from '../state/store.ts';
-import { count, dayWords } from '../components/format.ts';
+import { count, dayWords, fileName } from '../components/format.ts';
 
 
 function Count({ label, value }: { label: string; value: number }) {
@@ -77,7 +77,7 @@ function OtherWorkspace() {
       <h2 id="other-workspace-h">Another workspace</h2>
       <p className="muted">
         This window works on the workspace Shelfwright was started with. To open another, stop it and start it again with{' '}
-        <code>npm start -- --workspace FILE</code>.
+        <code className="command">npm start -- --workspace FILE</code>.
       </p>
     </div>
   );
@@ -106,6 +106,25 @@ function ModelStatus() {
       <button type="button" className="quiet" onClick={() => go('models')}>
         Go to models
       </button>
+    </div>
+  );
+}
+
+/**
+ * The workspace by its file name, the way an editor knows it; the full path (often a long or temporary folder)
+ * on hover and one click away, not in the way.
+ */
+function WorkspaceName({ file }: { file: string | null }) {
+  if (file === null) return null;
+  return (
+    <div className="file">
+      <h2 className="file-name" title={file}>
+        <span className="muted">Workspace</span> {fileName(file)}
+      </h2>
+      <details className="file-path">
+        <summary>Where it is</summary>
+        <code>{file}</code>
+      </details>
     </div>
   );
 }
@@ -141,9 +160,7 @@ export function Overview() {
       {info && !info.open && <p className="notice">No workspace is open. Open or create one below.</p>}
       {info && info.open && (
         <div className="panel">
-          <p className="file">
-            <span className="muted">File</span> <code>{info.file}</code>
-          </p>
+          <WorkspaceName file={info.file} />
           <dl className="counts" aria-label="What this workspace holds">
             <Count label="Items" value={info.items} />
             <Count label="Customers" value={info.customers} />

@@ -1,5 +1,6 @@
 import { useId, useState, type FormEvent } from 'react';
 import { today } from '../components/format.ts';
+import { ItemPicture } from '../components/ItemPicture.tsx';
 import { useApp } from '../state/store.ts';
 import type { PlanView } from '../state/planner-slice.ts';
 
@@ -106,6 +107,15 @@ function PlanForm() {
   );
 }
 
+/**
+ * A plan's heading: its name, then what it plans unless the name already says it (a plan named by no one is
+ * called "<shelves> from <start>", and the heading said that twice).
+ */
+export function planHeading(plan: Pick<PlanView, 'name' | 'shelves' | 'start'>): string {
+  const what = `${plan.shelves.join(', ')} from ${plan.start}`;
+  return plan.name === what || plan.name === `${plan.shelves.join(' + ')} from ${plan.start}` ? what : `${plan.name}: ${what}`;
+}
+
 /** One shelf's calendar: weeks across, slots down. Sponsored items say so in words. */
 function Calendar({ plan, shelf }: { plan: PlanView; shelf: number }) {
   const label = plan.shelves[shelf]!;
@@ -142,13 +152,12 @@ function Calendar({ plan, shelf }: { plan: PlanView; shelf: number }) {
               if (x.item === null) return <td key={w.week}>(empty)</td>;
               return (
                 <td key={w.week} data-item={x.item}>
-                  <span>{x.title}</span> <small>{x.item}</small>
-                  {x.promoted && (
-                    <>
-                      {' '}
-                      <span className="sponsored">Sponsored</span>
-                    </>
-                  )}
+                  {/* The picture shares a line with the id and marks, so the title below has the cell's whole width. */}
+                  <span className="cell-head">
+                    <ItemPicture item={x.item} size="cell" /> <small>{x.item}</small>
+                    {x.promoted && <span className="sponsored">Sponsored</span>}
+                  </span>
+                  <span className="cell-title">{x.title}</span>
                   {x.pinned && <strong className="pinned"> (pinned)</strong>}
                   <span className="cell-actions">
                     <button type="button" disabled={busy || x.pinned} onClick={() => void pin(x.item!, w.week, label)} aria-label={`Pin ${x.title} (${x.item}) to week ${w.week}`}>
@@ -314,9 +323,7 @@ export function Planner() {
       {plan === null && !busy && <p className="muted">No plan yet. Name a shelf and its first week above, then Plan: the calendar of the weeks ahead appears here.</p>}
       {plan && (
         <div className="panel" aria-busy={busy}>
-          <h2>
-            {plan.name}: {plan.shelves.join(', ')} from {plan.start}
-          </h2>
+          <h2>{planHeading(plan)}</h2>
           <p>
             Solved {plan.method === 'exact' ? 'exactly' : 'by the heuristic'} ({plan.status}) over the best {plan.candidates.toLocaleString('en')} of {plan.pool.toLocaleString('en')} items.{' '}
             <button type="button" disabled={busy} onClick={() => void resolve()}>

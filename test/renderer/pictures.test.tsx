@@ -109,3 +109,24 @@ describe('item pictures on screen', () => {
     expect(pictured).toBe(pool.querySelectorAll('img.thumb-pool').length);
   });
 });
+
+describe('item pictures in the planner', () => {
+  it("shows each calendar cell its item's thumbnail through the board's component, and the placeholder where it has none", async () => {
+    const src = await pictureOddItems();
+    await openRowInEditor(app.store, '2026-11-30', 4);
+    await app.store.getState().makePlan({ shelf: 'Row', start: '2026-12-07', weeks: 2, edition: 'Week 49' });
+    app.store.getState().go('planner');
+    app.render();
+    const table = await screen.findByRole('table', { name: 'Plan for Row' });
+    const cells = [...table.querySelectorAll<HTMLElement>('td[data-item]')];
+    expect(cells).toHaveLength(8); // 4 slots × 2 weeks
+    await waitFor(() => expect(table.querySelectorAll('img.thumb-cell')).toHaveLength(cells.filter((c) => Number(c.dataset['item']!.slice(2)) % 2 === 1).length));
+    for (const td of cells) {
+      const n = Number(td.dataset['item']!.slice(2));
+      if (n % 2 === 1) {
+        expect(td.querySelector('img.thumb-cell')?.getAttribute('src')).toBe(src);
+        expect(td.querySelector('img.thumb-cell')?.getAttribute('alt')).toBe(''); // decorative: the title is beside it
+      } else expect(td.querySelector('.thumb-cell.thumb-none[aria-hidden="true"]')).not.toBeNull();
+    }
+  });
+});

@@ -1,6 +1,7 @@
 // @vitest-environment happy-dom
 import { fireEvent, screen, waitFor, within } from '@testing-library/react';
 import { describe, expect, it } from 'vitest';
+import { planHeading } from '../../src-renderer/screens/Planner.tsx';
 import { seededApp } from './app-harness.tsx';
 import { openRowInEditor } from './seed.ts';
 
@@ -82,5 +83,12 @@ describe('the planner screen', () => {
     fireEvent.change(within(form).getByLabelText('First week'), { target: { value: '2026-12-07' } });
     fireEvent.click(within(form).getByRole('button', { name: 'Plan' }));
     expect((await screen.findByRole('alert')).textContent).toContain("no edition has a shelf labelled 'Nowhere'");
+  });
+
+  it('heads a plan with its name, and says what it plans only once when the name already says it', () => {
+    expect(planHeading({ name: 'Winter rotation', shelves: ['Homepage row'], start: '2026-12-07' })).toBe('Winter rotation: Homepage row from 2026-12-07');
+    // A plan named by no one is called after its shelves (services/planning/service.ts): said once, not twice.
+    expect(planHeading({ name: 'Homepage row from 2026-12-07', shelves: ['Homepage row'], start: '2026-12-07' })).toBe('Homepage row from 2026-12-07');
+    expect(planHeading({ name: 'Row + Block from 2026-12-07', shelves: ['Row', 'Block'], start: '2026-12-07' })).toBe('Row, Block from 2026-12-07');
   });
 });

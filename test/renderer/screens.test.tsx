@@ -16,6 +16,17 @@ describe('overview screen', () => {
     await waitFor(() => expect(within(counts).getAllByRole('definition').map((d) => d.textContent)).toEqual(['12', '6', '30']));
   });
 
+  it('names the workspace by its file name, with the full path on hover and under "Where it is"', async () => {
+    app.render();
+    const name = await screen.findByRole('heading', { name: 'Workspace w.sqlite' });
+    expect(name.getAttribute('title')).toBe(app.h.file);
+    const where = screen.getByText('Where it is').closest('details')!;
+    expect(where.open).toBe(false);
+    expect(where.querySelector('code')?.textContent).toBe(app.h.file);
+    // The sidebar names the same file the same way.
+    expect(screen.getByRole('navigation', { name: 'Screens' }).querySelector('.sidebar-file')?.textContent).toBe('w.sqlite');
+  });
+
   it('shows the error beside the open form when the file does not exist', async () => {
     app.render();
     await screen.findByText(app.h.file);

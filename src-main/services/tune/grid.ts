@@ -71,3 +71,10 @@ export function fullyFixed(model: GridModel, fixed: FixedParams): boolean {
   const held = (fixed[model] ?? {}) as Record<string, unknown>;
   return GRID_PARAMS[model].every((p) => held[p] !== undefined);
 }
+
+/**
+ * The share of iALS's budget its screening (the search at IALS_SEARCH_ITERATIONS sweeps) may spend; the rest
+ * refits the best third of the screened settings at the training's sweeps (model-search.ts, promote.ts).
+ * One half: successive halving gives each rung about the same budget (Li et al. 2018, Hyperband, §3).
+ */
+export const IALS_SCREEN_SHARE = 0.5;

@@ -21,7 +21,7 @@ import type { Scorer } from '../../core/models/scorer.ts';
 import type { ValueTransform } from '../../core/matrix/values.ts';
 import { fitIalsThreaded } from '../train/ials-threads.ts';
 import { TRAIN_EASE_DEFAULTS } from '../train/train-models.ts';
-import { EASE_GRID, fullyFixed, GRID_PARAMS, IALS_GRID, IALS_SCREEN_SHARE, IALS_SEARCH_ITERATIONS, ITEMKNN_GRID, type FixedParams, type GridModel } from './grid.ts';
+import { EASE_GRID, fullyFixed, GRID_PARAMS, IALS_GRID, IALS_SEARCH_ITERATIONS, ialsScreenShare, ITEMKNN_GRID, TUNE_BUDGET, type FixedParams, type GridModel } from './grid.ts';
 import { PROMOTE_ETA, promoteTop } from './promote.ts';
 import { coordinateSearch, type Axis, type AxisValue, type Point } from './search.ts';
 import { costSizes, easeCost, ialsCost, itemKnnCost } from './trial-cost.ts';
@@ -173,7 +173,7 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
     fit: (p) => fitIals(p, sweeps),
     ...(sweeps < o.iterations && {
       promote: {
-        screenShare: IALS_SCREEN_SHARE,
+        screenShare: ialsScreenShare(o.budget, TUNE_BUDGET.default),
         cost: (p: Point) => ialsCost(sizes, p['factors'] as number, o.iterations),
         fit: (p: Point) => fitIals(p, o.iterations),
         tag: { iterations: o.iterations },

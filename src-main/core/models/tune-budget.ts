@@ -10,8 +10,4 @@
  * lies outside the per-model pool (building the split, measuring each trial) is included. Here in core so the
  * api contract and the renderer can state the same bounds as the tuner (services/tune/grid.ts).
  */
-export const TUNE_BUDGET = { default: 3, asked: 6, min: 0.5, max: 20 } as const;
-// `asked`: the default of an explicit `train --tune` (the user asking for a search, not the default training).
-// Twice the default, so that iALS's search keeps what the default gives its low-fidelity screening and the
-// other half pays the refits of its best third at full fidelity (services/tune/grid.ts ialsScreenShare): on
-// Online Retail that rung is what lifts iALS to its numpy reference (bench/quality/README.md).
+export const TUNE_BUDGET = { default: 3, min: 0.5, max: 20 } as const;

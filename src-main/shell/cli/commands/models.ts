@@ -61,9 +61,7 @@ function tuneRequest(noTune: boolean, always: boolean, o: { k: number | undefine
   if (noTune) return false as const;
   const given = only(o);
   if (!always && Object.keys(given).length === 0) return undefined;
-  // Asked for a search outright, the user gets a larger one by default than the default training's
-  // (core/models/tune-budget.ts TUNE_BUDGET.asked: it pays iALS's full-fidelity refits).
-  return { ...(always && { budget: TUNE_BUDGET.asked }), ...given, when: always ? ('always' as const) : ('changed' as const) };
+  return { ...given, when: always ? ('always' as const) : ('changed' as const) };
 }
 
 const trainCommand: CliCommand = {
@@ -105,7 +103,7 @@ const trainCommand: CliCommand = {
     seed: 'random seed for iALS and, with --tune, the validation split (default 1)',
     tune: "search each model's grid first even when the data is unchanged since the last tuning",
     'no-tune': 'train the defaults and your flags as they are, with no search',
-    budget: `what the search may spend, in plain fits of all models, ${TUNE_BUDGET.min} to ${TUNE_BUDGET.max} (default ${TUNE_BUDGET.default}; ${TUNE_BUDGET.asked} with --tune)`,
+    budget: `what the search may spend, in plain fits of all models, ${TUNE_BUDGET.min} to ${TUNE_BUDGET.max} (default ${TUNE_BUDGET.default})`,
     k: 'the list length the grids are judged on, NDCG@K (default 10)',
   },
   help: [
@@ -115,8 +113,7 @@ const trainCommand: CliCommand = {
     'the sum enters as presence (1), log (log(1+v)) or linear (v).',
     'Tuning (by default, when the data changed since the last tuning; --tune always; --no-tune never): a seeded',
     'validation split (by time when the signals have times, else per customer at random), a coordinate search over',
-    'each model\'s log grid judged by NDCG@K (--k, default 10) within --budget plain fits (iALS: its best third of',
-    'settings, tried at 3 sweeps, refitted with all sweeps when the budget allows, as --tune\'s does), the best refitted on all',
+    'each model\'s log grid judged by NDCG@K (--k, default 10) within --budget plain fits, the best refitted on all',
     'signals and stored with what was searched. Unchanged data trains the last tuning\'s settings again.',
     'A setting given as a flag (e.g. --factors 32) is held fixed while the rest of that model\'s grid is searched;',
     'a model with every grid setting given (e.g. EASE with --lambda and --ease-values) is not searched.',

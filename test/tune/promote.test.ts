@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { CancelledError, InputError } from '../../src-main/core/errors.ts';
 import { promoteTop, rankScreened, type Screened } from '../../src-main/services/tune/promote.ts';
 import type { Point } from '../../src-main/services/tune/search.ts';
+import { ialsScreenShare } from '../../src-main/services/tune/grid.ts';
 
 /** Nine screened settings of λ, scored at low fidelity; the full-fidelity score is a different function. */
 const LAMBDAS = [0.1, 1, 3.2, 10, 32, 100, 320, 1000, 3200];
@@ -73,5 +74,18 @@ describe('promoteTop (successive halving, second rung)', () => {
     expect(fits).toBe(0);
     await expect(promoteTop({ screened, budget: 100, cost, eta: 1, evaluate: () => 0 })).rejects.toThrow(InputError);
     await expect(promoteTop({ screened, budget: -1, cost, evaluate: () => 0 })).rejects.toThrow(/budget/);
+  });
+});
+
+describe('ialsScreenShare', () => {
+  it('gives the screening the whole budget up to the default, and never less than half above it', () => {
+    // Up to the default budget nothing is held back for the refits (the default training's search is unchanged).
+    expect(ialsScreenShare(0.5, 3)).toBe(1);
+    expect(ialsScreenShare(3, 3)).toBe(1);
+    // Above it the screening keeps the default's worth until it reaches one half; successive halving gives each
+    // rung about the same budget (Li et al. 2018, Hyperband, section 3), so half is the floor.
+    expect(ialsScreenShare(4, 3)).toBeCloseTo(0.75, 12);
+    expect(ialsScreenShare(6, 3)).toBe(0.5);
+    expect(ialsScreenShare(20, 3)).toBe(0.5);
   });
 });

@@ -21,7 +21,8 @@ import type { Scorer } from '../../core/models/scorer.ts';
 import type { ValueTransform } from '../../core/matrix/values.ts';
 import { fitIalsThreaded } from '../train/ials-threads.ts';
 import { TRAIN_EASE_DEFAULTS } from '../train/train-models.ts';
-import { EASE_GRID, fullyFixed, GRID_PARAMS, IALS_GRID, IALS_SEARCH_ITERATIONS, ITEMKNN_GRID, type FixedParams, type GridModel } from './grid.ts';
+import { EASE_GRID, fullyFixed, GRID_PARAMS, IALS_GRID, IALS_SEARCH_ITERATIONS, ialsScreenShare, ITEMKNN_GRID, TUNE_BUDGET, type FixedParams, type GridModel } from './grid.ts';
+import { PROMOTE_ETA, promoteTop } from './promote.ts';
 import { coordinateSearch, type Axis, type AxisValue, type Point } from './search.ts';
 import { costSizes, easeCost, ialsCost, itemKnnCost } from './trial-cost.ts';
 import type { GridTrial, ModelTuning } from './tune.ts';
@@ -75,6 +76,12 @@ interface Searcher {
    * λ 32 0.100).
    */
   grow?: { axis: string; values: readonly number[]; inner: Axis };
+  /**
+   * Successive halving's second rung (promote.ts): the screening (search and growth) spends `screenShare` of the
+   * model's budget at low fidelity, then the best ⌈n/η⌉ screened settings are fitted at full fidelity with what
+   * is left, and the choice is made among those. Each promoted trial is recorded with `tag` added to its setting.
+   */
+  promote?: { screenShare: number; cost: (p: Point) => number; fit: (p: Point) => Promise<Scorer>; tag: Point };
 }
 
 /**
@@ -153,6 +160,14 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
   };
   const ialsParams = (p: Point): Point => ({ regularization: p['regularization']!, alpha: p['alpha']!, scaling: p['scaling']!, factors: p['factors']! });
   const sweeps = Math.min(IALS_SEARCH_ITERATIONS, o.iterations);
+  const fitIals = async (p: Point, iterations: number): Promise<Scorer> =>
+    (
+      await fitIalsThreaded(
+        o.train,
+        { ...(ialsParams(p) as Partial<IalsParams>), iterations, seed: o.seed },
+        { ...fitOpts, ...(o.threads !== undefined && { threads: o.threads }) },
+      )
+    ).model;
   searchers.push({
     model: 'ials',
     axes: ialsAxes,
@@ -167,14 +182,15 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
     ...(growFactors && {
       grow: { axis: 'factors', values: IALS_GRID.factors, inner: { name: 'regularization', values: halfDecades(IALS_GRID.regularization) } },
     }),
-    fit: async (p) =>
-      (
-        await fitIalsThreaded(
-          o.train,
-          { ...(ialsParams(p) as Partial<IalsParams>), iterations: sweeps, seed: o.seed },
-          { ...fitOpts, ...(o.threads !== undefined && { threads: o.threads }) },
-        )
-      ).model,
+    fit: (p) => fitIals(p, sweeps),
+    ...(sweeps < o.iterations && {
+      promote: {
+        screenShare: ialsScreenShare(o.budget, TUNE_BUDGET.default),
+        cost: (p: Point) => ialsCost(sizes, p['factors'] as number, o.iterations),
+        fit: (p: Point) => fitIals(p, o.iterations),
+        tag: { iterations: o.iterations },
+      },
+    }),
   });
   if (sweeps < o.iterations) notes.push(`iALS trials ran ${sweeps} of the ${o.iterations} training sweeps each (a cheaper fit to rank settings)`);
 
@@ -220,6 +236,8 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
     const u = unit.get(model)!;
     const plain = s.plain;
     const budgetMs = Math.max(0, pool - spent) * shareOf[model];
+    // With a promotion rung, the screening gets its share and the promotions what the screening leaves.
+    const screenMs = budgetMs * (s.promote?.screenShare ?? 1);
     const startKey = JSON.stringify(s.start);
     const evaluate = async (p: Point): Promise<number> => {
       if (JSON.stringify(p) === startKey) return startScore.get(model)!.ndcg;
@@ -235,7 +253,7 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
     const found = await coordinateSearch({
       axes: s.axes,
       start: s.start,
-      budget: budgetMs,
+      budget: screenMs,
       cost: (p) => (JSON.stringify(p) === startKey ? 0 : s.cost(p)),
       ...(o.signal && { signal: o.signal }),
       onTrial: (t) => o.onTrial(model, t.trial, pool > 0 ? Math.min(1, (spent + t.spent) / pool) : 1),
@@ -247,7 +265,7 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
       // Each larger capacity is tried only while affordable, from the best so far; a larger value that does
       // not beat the best with its own λ ends the stage (validation quality rises, then falls with capacity).
       for (const v of s.grow.values.filter((x) => x > (found.best[s.grow!.axis] as number))) {
-        const left = budgetMs - searchedSpent;
+        const left = screenMs - searchedSpent;
         const start = { ...found.best, [s.grow.axis]: v };
         if (s.cost(start) > left + 1e-9) {
           found.stopped = 'budget';
@@ -269,6 +287,37 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
         if (!(stage.score > found.score + 1e-9)) break;
         found.best = stage.best;
         found.score = stage.score;
+      }
+    }
+    if (s.promote) {
+      const pr = s.promote;
+      const screened = trials.get(model)!.map((t) => ({ point: { ...t.params }, score: t.ndcg }));
+      const offset = searchedSpent;
+      const rung = await promoteTop({
+        screened,
+        budget: Math.max(0, budgetMs - searchedSpent),
+        cost: pr.cost,
+        ...(o.signal && { signal: o.signal }),
+        onTrial: (t) => o.onTrial(model, trials.get(model)!.length + 1, pool > 0 ? Math.min(1, (spent + offset + t.spent) / pool) : 1),
+        evaluate: async (p) => {
+          const t0 = now();
+          const r = o.measure(model, await pr.fit(p));
+          trials.get(model)!.push({ params: { ...(s.shown ?? ((x: Point) => ({ ...x })))(p), ...pr.tag }, ndcg: r.ndcg, recall: r.cappedRecall, elapsedMs: now() - t0 });
+          return r.ndcg;
+        },
+      });
+      searchedSpent += rung.spent;
+      if (rung.best) {
+        found.best = rung.best.point;
+        found.score = rung.best.score;
+      }
+      if (rung.skipped > 0) found.stopped = 'budget';
+      // At or below the default budget the screening takes the whole share (ialsScreenShare = 1), so no refit is
+      // expected there: saying that none fitted would be noise on every default training.
+      if (rung.best) {
+        notes.push(`iALS: the best ${rung.promoted.length} of ${screened.length} screened settings refitted with all ${o.iterations} sweeps (successive halving, η ${PROMOTE_ETA}); chosen by that score`);
+      } else if (pr.screenShare < 1) {
+        notes.push(`iALS: no screened setting could be refitted with all ${o.iterations} sweeps within the budget; chosen by its ${sweeps}-sweep score`);
       }
     }
     if (model === 'ease') {

@@ -118,6 +118,8 @@ const trainCommand: CliCommand = {
     'validation split (by time when the signals have times, else per customer at random), a coordinate search over',
     'each model\'s log grid judged by NDCG@K (--k, default 10) within --budget plain fits, the best refitted on all',
     'signals and stored with what was searched. Unchanged data trains the last tuning\'s settings again.',
+    'Above the default budget, iALS\'s best third of settings (tried at 3 sweeps) is refitted with all sweeps and',
+    'chosen by that score (successive halving).',
     'A setting given as a flag (e.g. --factors 32) is held fixed while the rest of that model\'s grid is searched;',
     'a model with every grid setting given (e.g. EASE with --lambda and --ease-values) is not searched.',
   ].join('\n'),

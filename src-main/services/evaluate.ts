@@ -12,6 +12,7 @@ import {
   type ValidatedBlend,
 } from '../core/eval/index.ts';
 import { buildInteractionMatrix, type BuildOptions } from '../core/matrix/build.ts';
+import { signalUnit } from '../core/matrix/signal-unit.ts';
 import type { Csr } from '../core/matrix/csr.ts';
 import type { TimeCuts } from '../core/matrix/split.ts';
 import { fitContent, type ContentParams } from '../core/models/content.ts';
@@ -114,7 +115,7 @@ export function evaluateDataset(ds: Dataset, options: EvaluateOptions = {}): Wor
   const useEase = options.ease ?? ds.items.length <= 5000;
   if (useEase) models.set('ease', record('ease', fitEase(train, options.params?.ease, fitOpts)));
   else notes.push(`EASE left out: ${ds.items.length} items (its dense inverse is costly above 5,000)`);
-  models.set('ials', record('ials', fitIals(train, { seed, ...options.params?.ials }, fitOpts)));
+  models.set('ials', record('ials', fitIals(train, { seed, epsilon: signalUnit(ds, options.matrix?.kindWeights), ...options.params?.ials }, fitOpts)));
 
   // Each window of a time split is measured over the catalogue of its cut's moment, as the tuner and the blend
   // do (services/tune/split.ts `unavailable`): an item added (else first signalled) at or after the cut is

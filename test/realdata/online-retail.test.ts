@@ -5,6 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { evaluateHoldout, type HoldoutEvaluation } from '../../src-main/services/holdout/evaluate.ts';
 import { importFile } from '../../src-main/services/import.ts';
 import { trainAndSave } from '../../src-main/services/train/train-job.ts';
+import { ModelRepo } from '../../src-main/store/models.ts';
 import { openWorkspace, type Db } from '../../src-main/store/workspace.ts';
 
 /**
@@ -66,5 +67,10 @@ describe('the Online Retail slice, time split at 2011-11-11', () => {
     const singles = ['itemknn', 'ials', 'ease', 'content', 'popularity'].map(ndcg);
     expect(ndcg('hybrid')).toBeGreaterThanOrEqual(Math.max(...singles));
     expect(ndcg('hybrid')).toBeGreaterThan(ndcg('popularity'));
+  });
+
+  it("fits iALS's log confidence in ordinary signals: ε is one purchase's weight on a log of purchases only", () => {
+    const ials = new ModelRepo(db).list().find((m) => m.kind === 'ials' && m.current);
+    expect((ials?.params as { epsilon?: number } | undefined)?.epsilon).toBe(5);
   });
 });

@@ -115,7 +115,7 @@ export function buildInteractionMatrix(ds: Dataset, opts: BuildOptions = {}): Cs
 const RATING_CODE = SIGNAL_KIND_CODE.rating;
 
 /** Weights indexed by kind code (SIGNAL_KIND_CODE). */
-function resolveKindWeights(over: Partial<Record<SignalKind, number>> | undefined): Float64Array {
+export function resolveKindWeights(over: Partial<Record<SignalKind, number>> | undefined): Float64Array {
   const out = new Float64Array(SIGNAL_KINDS.length);
   SIGNAL_KINDS.forEach((kind) => {
     const v = over?.[kind] ?? DEFAULT_KIND_WEIGHTS[kind];

@@ -1,4 +1,5 @@
 import { buildInteractionMatrix, type BuildOptions } from '../../core/matrix/build.ts';
+import { signalUnit } from '../../core/matrix/signal-unit.ts';
 import { fitContent, type ContentParams } from '../../core/models/content.ts';
 import { EASE_DEFAULTS, fitEase, type EaseParams } from '../../core/models/ease.ts';
 import type { IalsParams } from '../../core/models/ials-params.ts';
@@ -131,7 +132,9 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
 
   // EASE's inverse is the longest single-threaded stage: with two or more threads it starts now in a
   // thread of its own and overlaps the other models (ease-thread.ts); it is collected in its turn.
-  const p = opts.params ?? {};
+  // iALS's log confidence counts in ordinary signals (core/matrix/signal-unit.ts) unless ε is given.
+  const given = opts.params ?? {};
+  const p = kinds.includes('ials') ? { ...given, ials: { epsilon: signalUnit(data, opts.matrix?.kindWeights), ...given.ials } } : given;
   const limit = easeItemLimit();
   const easeParams = { ...TRAIN_EASE_DEFAULTS, values: EASE_DEFAULTS.values, maxItems: limit.maxItems, ...p.ease };
   const easeNotes = limit.note && p.ease?.maxItems === undefined && matrix.cols > limit.maxItems ? [limit.note] : [];

@@ -36,6 +36,8 @@ export interface ModelSearchOptions {
   budget: number;
   useEase: boolean;
   fixed: FixedParams;
+  /** ε of iALS's log confidence in every trial: the training's (core/matrix/signal-unit.ts), so trials fit what training fits. */
+  ialsEpsilon?: number;
   /** iALS sweeps of the final training. */
   iterations: number;
   seed: number;
@@ -164,7 +166,7 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
     (
       await fitIalsThreaded(
         o.train,
-        { ...(ialsParams(p) as Partial<IalsParams>), iterations, seed: o.seed },
+        { ...(o.ialsEpsilon !== undefined && { epsilon: o.ialsEpsilon }), ...(ialsParams(p) as Partial<IalsParams>), iterations, seed: o.seed },
         { ...fitOpts, ...(o.threads !== undefined && { threads: o.threads }) },
       )
     ).model;

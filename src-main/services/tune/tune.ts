@@ -17,6 +17,7 @@
 import { InputError } from '../../core/errors.ts';
 import { evalTruth, RankingEvaluator, sampleTruth, type EvalResult } from '../../core/eval/index.ts';
 import { buildInteractionMatrix } from '../../core/matrix/build.ts';
+import { signalUnit } from '../../core/matrix/signal-unit.ts';
 import type { ValueTransform } from '../../core/matrix/values.ts';
 import type { Scorer } from '../../core/models/scorer.ts';
 import type { KnnNormalize } from '../../core/models/itemknn.ts';
@@ -120,6 +121,7 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
     useEase,
     fixed,
     iterations,
+    ialsEpsilon: signalUnit(ds),
     seed,
     customers: ev.customerCount,
     now,

@@ -87,3 +87,9 @@ export function countWorkspaceRows(db: Db): { items: number; customers: number; 
   const count = (table: 'item' | 'customer' | 'signal') => db.prepare(`SELECT count(*) FROM ${table}`).pluck().get() as number;
   return { items: count('item'), customers: count('customer'), signals: count('signal') };
 }
+
+/** The three counts a training's cost is predicted from (services/train/outlook.ts): no scan beyond count(*). */
+export function trainingSizes(db: Db): { items: number; customers: number; signals: number } {
+  const one = (sql: string): number => db.prepare(sql).pluck().get() as number;
+  return { items: one('SELECT count(*) FROM item'), customers: one('SELECT count(*) FROM customer'), signals: one('SELECT count(*) FROM signal') };
+}

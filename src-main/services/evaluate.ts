@@ -27,7 +27,7 @@ import type { Dataset } from '../core/types.ts';
 import { loadDataset } from '../store/dataset.ts';
 import { ModelRepo } from '../store/models.ts';
 import type { Db } from '../store/workspace.ts';
-import { confirmationHalves, notYetAvailable } from './tune/split.ts';
+import { confirmationHalves, NOTHING_TO_HOLD_OUT, notYetAvailable, randomThreeWay } from './tune/split.ts';
 
 export interface EvaluateOptions {
   /** List length K. Default 10. */
@@ -46,7 +46,8 @@ export interface EvaluateOptions {
 
 export interface WorkspaceEvaluation {
   k: number;
-  split: { validationFrom: number; testFrom: number; train: number; validation: number; test: number };
+  /** validationFrom and testFrom: null when the signals have no times and the split was random per customer. */
+  split: { validationFrom: number | null; testFrom: number | null; train: number; validation: number; test: number };
   /** The hybrid's weight of each model, chosen on the validation window (one model at 1: the hybrid is that model). */
   weights: Partial<Record<BlendModel, number>>;
   /** What the hybrid is and why, in words ("no blend beat itemknn on validation, so the hybrid is itemknn"). */
@@ -87,10 +88,22 @@ export function evaluateDataset(ds: Dataset, options: EvaluateOptions = {}): Wor
   }
   if (ds.items.length === 0 || ds.signals.length === 0) throw new InputError('nothing to evaluate: import items and signals first');
   const notes: string[] = [];
-  const cuts = options.cuts ?? quantileCuts(ds);
-  const split = splitByTime(ds, cuts);
+  // A log without times (customer, item, count exports) is split per customer at random, as tuning splits it.
+  const byTime = options.cuts !== undefined || mostlyTimed(ds);
+  const cuts = byTime ? (options.cuts ?? quantileCuts(ds)) : null;
+  let split: { train: Int32Array; validation: Int32Array; test: Int32Array };
+  if (cuts) split = splitByTime(ds, cuts);
+  else {
+    try {
+      split = randomThreeWay(ds, { seed });
+    } catch (e) {
+      if (e instanceof InputError && e.message === NOTHING_TO_HOLD_OUT) throw new InputError('no customer has two or more items: nothing can be held out to evaluate on');
+      throw e;
+    }
+    notes.push("the signals carry no times: 10% of each customer's items were held out at random for test and 10% for validation");
+  }
   if (split.validation.length === 0 || split.test.length === 0) {
-    throw new InputError('the time split left the validation or test window empty; the signals need a time spread');
+    throw new InputError(cuts ? 'the time split left the validation or test window empty; the signals need a time spread' : 'too few customers with three or more items to hold out validation and test items');
   }
   const m = (rows: Int32Array): Csr => buildInteractionMatrix(ds, { ...options.matrix, rows });
   const train = m(split.train);
@@ -115,13 +128,13 @@ export function evaluateDataset(ds: Dataset, options: EvaluateOptions = {}): Wor
   // Each window is measured over the catalogue of its cut's moment, as the tuner and the blend do
   // (services/tune/split.ts `unavailable`): an item added (else first signalled) at or after the cut is
   // neither ranked nor truth there, since no list served at the cut could have held it.
-  const notYetInValidation = notYetAvailable(ds, cuts.validationFrom);
-  const notYetInTest = notYetAvailable(ds, cuts.testFrom);
+  const notYetInValidation = cuts ? notYetAvailable(ds, cuts.validationFrom) : undefined;
+  const notYetInTest = cuts ? notYetAvailable(ds, cuts.testFrom) : undefined;
 
   // Validation: the validated blend over every model (services/tune/blend.ts does the same for training).
   const windowEvaluator = (v: Csr, rngSeed: number) =>
     new RankingEvaluator(train, sampleTruth(evalTruth(train, v, undefined, notYetInValidation), cap, seededRng(rngSeed)), k, notYetInValidation);
-  const halves = confirmationHalves(ds, split.validation, 'time', seed);
+  const halves = confirmationHalves(ds, split.validation, cuts ? 'time' : 'random', seed);
   const chooseEval = windowEvaluator(m(halves.choose), seed);
   const confirmEval = windowEvaluator(m(halves.confirm), seed + 2);
   const twoWindows = chooseEval.customerCount >= MIN_BLEND_CUSTOMERS && confirmEval.customerCount >= MIN_BLEND_CUSTOMERS;
@@ -152,8 +165,8 @@ export function evaluateDataset(ds: Dataset, options: EvaluateOptions = {}): Wor
   return {
     k,
     split: {
-      validationFrom: cuts.validationFrom,
-      testFrom: cuts.testFrom,
+      validationFrom: cuts ? cuts.validationFrom : null,
+      testFrom: cuts ? cuts.testFrom : null,
       train: split.train.length,
       validation: split.validation.length,
       test: split.test.length,
@@ -190,6 +203,14 @@ export function saveEvaluation(db: Db, evaluation: WorkspaceEvaluation, evaluate
 
 function baselineRows(e: WorkspaceEvaluation): { model: string; ndcg: number }[] {
   return e.test.filter((r) => r.model === 'popularity' || r.model === 'random').map((r) => ({ model: r.model, ndcg: r.ndcg }));
+}
+
+/** At least half of the signals (and three) carry a time: the split is by time (tune/split.ts decides alike). */
+function mostlyTimed(ds: Dataset): boolean {
+  const at = ds.signals.at;
+  let timed = 0;
+  for (let k = 0; k < at.length; k++) if (at[k] === at[k]) timed++;
+  return timed >= 3 && timed * 2 >= at.length;
 }
 
 function concat(a: Int32Array, b: Int32Array): Int32Array {

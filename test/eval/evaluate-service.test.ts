@@ -44,7 +44,7 @@ describe('evaluateWorkspace', () => {
     for (let q = 1; q < r.test.length; q++) expect(r.test[q]!.ndcg).toBeLessThanOrEqual(r.test[q - 1]!.ndcg);
     expect(r.split.train + r.split.validation + r.split.test).toBe(loadDataset(db).signals.length);
     expect(r.split.test).toBeGreaterThan(0.05 * r.split.train);
-    expect(r.split.validationFrom).toBeLessThanOrEqual(r.split.testFrom);
+    expect(r.split.validationFrom!).toBeLessThanOrEqual(r.split.testFrom!);
     expect(r.validation.trials).toBeGreaterThanOrEqual(5);
     // The validated blend: never below its best model on validation, and it says what it is.
     const v = r.validation.blend.validation;
@@ -106,5 +106,21 @@ describe('evaluateDataset and items added after a cut', () => {
     const opts = { k: 5, sampleCustomers: 150, seed: 2, cuts, params: { ials: { factors: 8, iterations: 3 } } };
     const rows = (ds: Dataset) => evaluateDataset(ds, opts).test.map(({ elapsedMs: _, ...r }) => r);
     expect(rows(withSales(40))).toEqual(rows(withSales(0)));
+  });
+});
+
+describe('evaluateDataset on a log without times (customer, item, count exports)', () => {
+  it('holds out items per customer at random (common practice, no source) instead of refusing for want of a time split', () => {
+    const timed = loadDataset(db);
+    const ds: Dataset = { ...timed, signals: { ...timed.signals, at: new Float64Array(timed.signals.length).fill(Number.NaN) } };
+    const r = evaluateDataset(ds, { k: 5, sampleCustomers: 150, seed: 2, params: { ials: { factors: 8, iterations: 3 } } });
+    expect(r.split.validationFrom).toBeNull();
+    expect(r.split.train + r.split.validation + r.split.test).toBe(ds.signals.length);
+    expect(r.split.test).toBeGreaterThan(0.05 * ds.signals.length);
+    expect(r.split.validation).toBeGreaterThan(0.05 * ds.signals.length);
+    expect(r.notes.join('\n')).toMatch(/no times: 10% of each customer's items were held out at random for test and 10% for validation/);
+    expect(r.test.map((x) => x.model).sort()).toEqual(['content', 'ease', 'hybrid', 'ials', 'itemknn', 'popularity', 'random']);
+    const random = r.test.find((x) => x.model === 'random')!.ndcg;
+    expect(r.test.find((x) => x.model === 'popularity')!.ndcg).toBeGreaterThan(random);
   });
 });

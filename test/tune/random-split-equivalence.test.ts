@@ -9,7 +9,7 @@ import { InputError } from '../../src-main/core/errors.ts';
 import { customerItemSets } from '../../src-main/core/matrix/by-customer.ts';
 import { seededRng } from '../../src-main/core/rng.ts';
 import type { Dataset, Item } from '../../src-main/core/types.ts';
-import { NOTHING_TO_HOLD_OUT, validationSplit } from '../../src-main/services/tune/split.ts';
+import { NOTHING_TO_HOLD_OUT, randomThreeWay, validationSplit } from '../../src-main/services/tune/split.ts';
 
 /** The split as it was before the rewrite (services/tune/split.ts at c3abd73). */
 function referenceSplit(ds: Dataset, share: number, seed: number): { train: Int32Array; validation: Int32Array } {
@@ -98,5 +98,23 @@ describe('the random validation split on large logs', () => {
     const expected = referenceSplit(ds, 0.2, 3);
     expect(got.validation).toEqual(expected.validation);
     expect(got.train.length + got.validation.length).toBe(pairs.length);
+  });
+
+  it('deals each (customer, item) pair, with all its repeats, to one of train, validation and test', () => {
+    const pairs: [number, number][] = [];
+    for (let u = 0; u < 300; u++) for (let q = 0; q < 1 + (u % 17); q++) pairs.push([u, (u * 5 + q * 7) % 90], [u, (u * 5 + q * 7) % 90]);
+    const ds = untimedLog(300, 90, pairs);
+    const r = randomThreeWay(ds, { seed: 4 });
+    const part = new Map<number, string>();
+    for (const [name, rows] of [['train', r.train], ['validation', r.validation], ['test', r.test]] as const) {
+      for (const k of rows) {
+        const key = ds.signals.customer[k]! * 90 + ds.signals.item[k]!;
+        expect(part.get(key) ?? name).toBe(name);
+        part.set(key, name);
+      }
+    }
+    expect(r.train.length + r.validation.length + r.test.length).toBe(pairs.length);
+    expect(r.test.length).toBeGreaterThan(0.05 * pairs.length);
+    expect(r.validation.length).toBeGreaterThan(0.05 * pairs.length);
   });
 });

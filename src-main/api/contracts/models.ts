@@ -162,7 +162,7 @@ export const OfflineEvaluation = z.object({
   stale: z.boolean(),
   /** Why it is stale, in words (null when current). */
   staleReason: z.string().nullable(),
-  split: z.object({ validationFrom: z.number(), testFrom: z.number(), train: z.number().int(), validation: z.number().int(), test: z.number().int() }),
+  split: z.object({ validationFrom: z.number().nullable(), testFrom: z.number().nullable(), train: z.number().int(), validation: z.number().int(), test: z.number().int() }),
   /** The hybrid's weight of each model, chosen on the validation window. */
   weights: z.record(z.string(), z.number()),
   /** What the hybrid is and why, in words (null for an evaluation stored before blends were validated). */

@@ -129,6 +129,31 @@ function randomSplit(ds: Dataset, share: number, seed: number): { train: Int32Ar
 }
 
 /**
+ * Train, validation and test for a log without times (`evaluate`): per customer at random as the tuner's split
+ * does, `testShare` of each customer's distinct items held out for test, then `validationShare` (of the whole)
+ * from what is left for validation, each with every signal on those pairs; customers with one item stay in train.
+ */
+export function randomThreeWay(ds: Dataset, o: { testShare?: number; validationShare?: number; seed?: number } = {}): { train: Int32Array; validation: Int32Array; test: Int32Array } {
+  const testShare = o.testShare ?? 0.1;
+  const validationShare = o.validationShare ?? 0.1;
+  const seed = o.seed ?? 1;
+  const first = randomSplit(ds, testShare, seed);
+  const rest = first.train;
+  const s = ds.signals;
+  const pick = <T extends Int32Array | Uint8Array | Float32Array | Float64Array>(a: T): T => {
+    const out = new (a.constructor as new (n: number) => T)(rest.length);
+    for (let q = 0; q < rest.length; q++) out[q] = a[rest[q]!]!;
+    return out;
+  };
+  const sub: Dataset = {
+    ...ds,
+    signals: { length: rest.length, customer: pick(s.customer), item: pick(s.item), kind: pick(s.kind), value: pick(s.value), at: pick(s.at) },
+  };
+  const second = randomSplit(sub, validationShare / (1 - testShare), seed + 1);
+  return { train: second.train.map((q) => rest[q]!), validation: second.validation.map((q) => rest[q]!), test: first.validation };
+}
+
+/**
  * A validation window cut in two for the validated blend (core/eval/validated-blend.ts `confirm`): weights are
  * chosen on `choose` and must hold on `confirm`. A time split is cut at the median time of its signals, so
  * `confirm` is the later half (consecutive windows, as in rolling-origin evaluation); a random split's

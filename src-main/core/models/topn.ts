@@ -19,6 +19,10 @@ export class TopKHeap {
   clear(): void {
     this.#size = 0;
   }
+  /** The lowest score kept (the next push must beat it once the heap is full); -Infinity when empty. */
+  get worstScore(): number {
+    return this.#size > 0 ? this.#score[0]! : -Infinity;
+  }
   /** true when (s1, i1) ranks below (s2, i2). */
   static #worse(s1: number, i1: number, s2: number, i2: number): boolean {
     return s1 < s2 || (s1 === s2 && i1 > i2);

@@ -8,6 +8,8 @@ export interface JobProgress {
   model?: string;
   iteration?: number;
   iterations?: number;
+  /** Said once, before a long task starts (training on a large workspace: services/train/outlook.ts); kept on the job. */
+  notice?: string;
 }
 
 export type JobKind = 'train' | 'evaluate' | 'demo';
@@ -23,6 +25,8 @@ export interface JobState {
   error: string | null;
   /** A one-line account of the result for a status line ("trained 5 models in 12.3 s"). */
   summary: string | null;
+  /** What the task said up front (JobProgress.notice), absent when it said nothing. */
+  notice?: string;
 }
 
 export type JobBody = (report: (p: JobProgress) => void, signal: AbortSignal) => Promise<string>;
@@ -49,7 +53,8 @@ export class JobRegistry {
       error: null,
       summary: null,
     };
-    const done = body((p) => {
+    const done = body(({ notice, ...p }) => {
+      if (notice !== undefined) state.notice = notice;
       state.progress = { ...p, fraction: Math.min(1, Math.max(0, p.fraction)) };
     }, controller.signal).then(
       (summary) => {

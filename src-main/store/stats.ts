@@ -92,3 +92,9 @@ export function countWorkspaceRows(db: Db): { items: number; customers: number; 
 export function signalTimeCoverage(db: Db): { signals: number; timed: number } {
   return db.prepare('SELECT count(*) AS signals, count(at) AS timed FROM signal').get() as { signals: number; timed: number };
 }
+
+/** The three counts a training's cost is predicted from (services/train/outlook.ts): no scan beyond count(*). */
+export function trainingSizes(db: Db): { items: number; customers: number; signals: number } {
+  const one = (sql: string): number => db.prepare(sql).pluck().get() as number;
+  return { items: one('SELECT count(*) FROM item'), customers: one('SELECT count(*) FROM customer'), signals: one('SELECT count(*) FROM signal') };
+}

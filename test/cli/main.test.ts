@@ -50,6 +50,21 @@ describe('shelfwright command line', () => {
     fs.rmSync(dir, { recursive: true, force: true });
   });
 
+  it('takes the global options before the command too (shelfwright -w FILE import items ...)', async () => {
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-cli-lead-'));
+    const file = path.join(dir, 'w.sqlite');
+    const csv = path.join(dir, 'items.csv');
+    fs.writeFileSync(csv, 'id,title\na,A\nb,B\n');
+    expect(await main(['-w', file, 'import', 'items', csv], capture(), {})).toBe(0);
+    const io = capture();
+    expect(await main(['--json', `--workspace=${file}`, 'info'], io, {})).toBe(0);
+    expect(JSON.parse(io.stdout.join(''))).toMatchObject({ open: true, file, items: 2 });
+    const wrong = capture();
+    expect(await main(['-w', file, 'frobnicate'], wrong, {})).toBe(1);
+    expect(wrong.stderr.join('\n')).toMatch(/unknown command 'frobnicate'/);
+    fs.rmSync(dir, { recursive: true, force: true });
+  });
+
   it('with --json, reports a failure as one JSON object on stdout, with the same exit code', async () => {
     const usage = capture();
     expect(await main(['stats', '--jsn', '--json'], usage, {})).toBe(1);

@@ -109,3 +109,20 @@ describe('evaluateDataset and items added after a cut', () => {
     expect(rows(withSales(40))).toEqual(rows(withSales(0)));
   });
 });
+
+describe('evaluateDataset on a log without times (customer, item, count exports)', () => {
+  it('holds out items per customer at random (common practice, no source) instead of refusing for want of a time split', () => {
+    const timed = loadDataset(db);
+    const ds: Dataset = { ...timed, signals: { ...timed.signals, at: new Float64Array(timed.signals.length).fill(Number.NaN) } };
+    const r = evaluateDataset(ds, { k: 5, sampleCustomers: 150, seed: 2, params: { ials: { factors: 8, iterations: 3 } } });
+    expect(r.split.validationFrom).toBeNull();
+    expect(r.split.train + r.split.validation + r.split.test).toBe(ds.signals.length);
+    expect(r.split.test).toBeGreaterThan(0.05 * ds.signals.length);
+    expect(r.split.validation).toBeGreaterThan(0.05 * ds.signals.length);
+    expect(r.split.method).toBe('random');
+    expect(r.split.why).toMatch(/time/);
+    expect(r.test.map((x) => x.model).sort()).toEqual(['content', 'ease', 'hybrid', 'ials', 'itemknn', 'popularity', 'random']);
+    const random = r.test.find((x) => x.model === 'random')!.ndcg;
+    expect(r.test.find((x) => x.model === 'popularity')!.ndcg).toBeGreaterThan(random);
+  });
+});

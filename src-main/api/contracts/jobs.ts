@@ -16,6 +16,8 @@ export const JobState = z.object({
   finishedAt: z.number().nullable(),
   error: z.string().nullable(),
   summary: z.string().nullable(),
+  /** Said once before a long task starts (a large workspace's training: how long, and what is quicker). */
+  notice: z.string().optional(),
 });
 export type JobState = z.infer<typeof JobState>;
 

@@ -16,12 +16,12 @@ export class TopKHeap {
   get size(): number {
     return this.#size;
   }
-  /** The score of the worst kept pair (the K-th best once full); −Infinity when empty. */
-  get worstScore(): number {
-    return this.#size === 0 ? Number.NEGATIVE_INFINITY : this.#score[0]!;
-  }
   clear(): void {
     this.#size = 0;
+  }
+  /** The lowest score kept (the next push must beat it once the heap is full); -Infinity when empty. */
+  get worstScore(): number {
+    return this.#size > 0 ? this.#score[0]! : -Infinity;
   }
   /** true when (s1, i1) ranks below (s2, i2). */
   static #worse(s1: number, i1: number, s2: number, i2: number): boolean {
@@ -141,10 +141,12 @@ export interface NeighbourSink {
  * evidence by the similarity's own measure, so none is preferred; lists may then exceed K by the ties.
  * 'lowerIndex' (the default) keeps exactly K, the lower index first among equals.
  */
+export function collectNeighbours(items: number, k: number, row: (i: number, sink: TopKHeap) => void, o?: { ties?: 'lowerIndex' }): Neighbours;
+export function collectNeighbours(items: number, k: number, row: (i: number, sink: NeighbourSink) => void, o: { ties: 'all' }): Neighbours;
 export function collectNeighbours(
   items: number,
   k: number,
-  row: (i: number, sink: NeighbourSink) => void,
+  row: (i: number, sink: TopKHeap) => void,
   o: { ties?: 'lowerIndex' | 'all' } = {},
 ): Neighbours {
   const heap = new TopKHeap(k);
@@ -177,7 +179,8 @@ export function collectNeighbours(
   for (let i = 0; i < items; i++) {
     heap.clear();
     nCand = 0;
-    row(i, all ? recorder : heap);
+    // With ties kept the row sees the recorder, whose overload promises only push (NeighbourSink).
+    row(i, all ? (recorder as TopKHeap) : heap);
     let source = heap;
     if (all && heap.size === k && nCand > k) {
       const kth = heap.worstScore;

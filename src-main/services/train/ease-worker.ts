@@ -1,10 +1,9 @@
 import fs from 'node:fs';
 import { parentPort, workerData } from 'node:worker_threads';
 import type { Csr } from '../../core/matrix/csr.ts';
-import { spdInverseF32 } from '../../core/linalg/spd-f32.ts';
 import { fitEase, type EaseParams } from '../../core/models/ease.ts';
 import type { FitReport } from '../../core/models/scorer.ts';
-import { invertInThreads } from './ease-inverse-threads.ts';
+import { easeSolver } from './ease-solver.ts';
 
 /**
  * The EASE thread of a training run (ease-thread.ts starts it): it fits EASE on the interaction
@@ -17,9 +16,6 @@ export interface EaseWorkerData {
   /** Threads for the inverse (ease-inverse-threads.ts); 1 or absent: this thread alone. */
   threads?: number;
 }
-
-/** Below this many items the inverse takes well under a second and a helper thread's start-up would not pay. */
-const THREADED_MIN_ITEMS = 2000;
 
 export type EaseWorkerMessage =
   | { type: 'done'; bytes: Uint8Array; report: FitReport; cpuMs: number }
@@ -44,12 +40,7 @@ const data = workerData as EaseWorkerData;
 try {
   const before = threadCpuMs();
   const threads = data.threads ?? 1;
-  const { model, report } = fitEase(
-    data.matrix,
-    data.params,
-    {},
-    threads > 1 ? { invert: (m, writeLower) => (m >= THREADED_MIN_ITEMS ? invertInThreads(m, writeLower, threads) : spdInverseF32(m, writeLower)) } : {},
-  );
+  const { model, report } = fitEase(data.matrix, data.params, {}, easeSolver(threads));
   const bytes = model.serialize();
   const after = threadCpuMs();
   const cpuMs = before < 0 || after < 0 ? -1 : after - before;

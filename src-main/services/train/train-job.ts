@@ -4,7 +4,9 @@ import type { ValidatedBlend } from '../../core/eval/validated-blend.ts';
 import type { ModelKind } from '../../core/models/scorer.ts';
 import { BlendRepo } from '../../store/blends.ts';
 import { scrubIfPending } from '../../store/erasure.ts';
-import type { JobBody } from '../jobs.ts';
+import type { JobBody, JobProgress } from '../jobs.ts';
+import { trainingSizes } from '../../store/stats.ts';
+import { trainingOutlook } from './outlook.ts';
 import type { Db } from '../../store/workspace.ts';
 import { waitingLine, type WaitListener } from '../../store/write-lock.ts';
 import { saveRun, STALE_NOTE } from './save-run.ts';
@@ -87,12 +89,28 @@ export async function trainAndSave(
 }
 
 /**
+ * Says up front what a long training will cost and what is quicker (outlook.ts), as the job's notice; a run
+ * predicted short says nothing. `tuneBudget`: plain fits a search before it may spend (0: none).
+ */
+export function announceOutlook(db: Db, options: TrainOptions, tuneBudget: number, report: (p: JobProgress) => void): void {
+  const ials = options.params?.ials;
+  const { notice } = trainingOutlook(trainingSizes(db), {
+    ...(options.models && { models: options.models }),
+    tuneBudget,
+    ...(ials?.factors !== undefined && { factors: ials.factors }),
+    ...(ials?.iterations !== undefined && { iterations: ials.iterations }),
+  });
+  if (notice) report({ stage: 'starting', fraction: 0, notice });
+}
+
+/**
  * Training as a body for the app's JobRegistry (services/jobs.ts):
  * `ctx.jobs.start('train', trainJob(ctx.db, ctx.file, options))`.
  */
 export function trainJob(db: Db, file: string, options: TrainOptions = {}, hooks: Omit<TrainHooks, 'signal' | 'onProgress'> = {}): JobBody {
   return async (report, signal) => {
     const onWait = (holder: string) => report({ stage: waitingLine(holder), fraction: 1 });
+    announceOutlook(db, options, 0, report);
     const s = await trainAndSave(db, file, options, { ...hooks, onProgress: report, signal, onWait });
     const notes = s.notes.length ? ` (${plural(s.notes.length, 'note')})` : '';
     const hybrid = s.blend ? `; hybrid: ${s.blend.reason}` : '';

@@ -24,6 +24,7 @@ import { seededRng } from '../../core/rng.ts';
 import type { Dataset } from '../../core/types.ts';
 import { InputError } from '../../core/errors.ts';
 import { columnCounts } from '../holdout/trained.ts';
+import { easeSolver } from '../train/ease-solver.ts';
 import { fitIalsThreaded } from '../train/ials-threads.ts';
 import { TRAIN_EASE_DEFAULTS, type TrainOptions } from '../train/train-models.ts';
 import { confirmationHalves, validationSplit } from './split.ts';
@@ -79,7 +80,7 @@ export async function learnBlend(
     if (ev.customerCount === 0) add(kind, NOTHING_MEASURED);
     else if (kind === 'content') add(kind, fitContent(ds.items, params.content, fitOpts).model);
     else if (kind === 'itemknn') add(kind, fitItemKnn(train, params.itemknn, fitOpts).model);
-    else if (kind === 'ease') add(kind, fitEase(train, { ...TRAIN_EASE_DEFAULTS, ...params.ease }, fitOpts).model);
+    else if (kind === 'ease') add(kind, fitEase(train, { ...TRAIN_EASE_DEFAULTS, ...params.ease }, fitOpts, easeSolver(o.threads ?? 1)).model);
     else if (kind === 'popularity') add(kind, fitPopularity(train).model);
     else add(kind, (await fitIalsThreaded(train, { seed, ...params.ials }, { ...fitOpts, ...(o.threads !== undefined && { threads: o.threads }) })).model);
   }

@@ -126,26 +126,53 @@ function randomSplit(ds: Dataset, share: number, seed: number): { train: Int32Ar
   // Distinct items of each customer, in ascending item order.
   const owned = customerItemSets(s, nC, ds.items.length);
   const rng = seededRng(seed);
-  const held = new Set<number>(); // key u * nItems + i
-  const nI = ds.items.length;
+  // Held-out flags per distinct (customer, item) pair, at the pair's place in `owned`: typed arrays, not a Set of
+  // u * nItems + i keys (past 2^31 those are heap numbers: tens of millions of pairs cost gigabytes and minutes).
+  const held = new Uint8Array(owned.indices.length);
+  let longest = 0;
+  for (let u = 0; u < nC; u++) longest = Math.max(longest, owned.indptr[u + 1]! - owned.indptr[u]!);
+  const order = new Int32Array(longest);
   for (let u = 0; u < nC; u++) {
-    const row = Array.from(owned.indices.subarray(owned.indptr[u]!, owned.indptr[u + 1]!), Number);
-    if (row.length < 2) continue;
-    const take = Math.min(row.length - 1, Math.max(1, Math.round(share * row.length)));
-    // Partial Fisher–Yates with the seeded rng: the first `take` positions are the held-out items.
+    const start = owned.indptr[u]!;
+    const len = owned.indptr[u + 1]! - start;
+    if (len < 2) continue;
+    const take = Math.min(len - 1, Math.max(1, Math.round(share * len)));
+    for (let q = 0; q < len; q++) order[q] = q;
+    // Partial Fisher–Yates with the seeded rng over the row's places: the first `take` are held out.
     for (let q = 0; q < take; q++) {
-      const j = q + rng.int(row.length - q);
-      const t = row[q]!;
-      row[q] = row[j]!;
-      row[j] = t;
-      held.add(u * nI + row[q]!);
+      const j = q + rng.int(len - q);
+      const t = order[q]!;
+      order[q] = order[j]!;
+      order[j] = t;
+      held[start + order[q]!] = 1;
     }
   }
-  const train: number[] = [];
-  const validation: number[] = [];
-  for (let k = 0; k < s.length; k++) (held.has(s.customer[k]! * nI + s.item[k]!) ? validation : train).push(k);
-  if (validation.length === 0) throw new InputError(NOTHING_TO_HOLD_OUT);
-  return { train: Int32Array.from(train), validation: Int32Array.from(validation) };
+  // Each signal's pair, found by binary search in its customer's ascending row.
+  const isValidation = new Uint8Array(s.length);
+  let nValidation = 0;
+  for (let k = 0; k < s.length; k++) {
+    const i = s.item[k]!;
+    const u = s.customer[k]!;
+    let lo = owned.indptr[u]!;
+    let hi = owned.indptr[u + 1]! - 1;
+    while (lo < hi) {
+      const mid = (lo + hi) >> 1;
+      if (owned.indices[mid]! < i) lo = mid + 1;
+      else hi = mid;
+    }
+    if (held[lo] === 1) {
+      isValidation[k] = 1;
+      nValidation++;
+    }
+  }
+  if (nValidation === 0) throw new InputError(NOTHING_TO_HOLD_OUT);
+  const train = new Int32Array(s.length - nValidation);
+  const validation = new Int32Array(nValidation);
+  for (let k = 0, a = 0, b = 0; k < s.length; k++) {
+    if (isValidation[k] === 1) validation[b++] = k;
+    else train[a++] = k;
+  }
+  return { train, validation };
 }
 
 /**

@@ -11,10 +11,11 @@ import { plural } from '../../core/util/plural.ts';
 import { CancelledError } from '../../core/errors.ts';
 import { dataFingerprint, ModelRepo, modelStatus } from '../../store/models.ts';
 import type { Db } from '../../store/workspace.ts';
-import type { JobBody } from '../jobs.ts';
+import type { JobBody, JobProgress } from '../jobs.ts';
+import { TUNE_BUDGET } from '../../core/models/tune-budget.ts';
 import { waitingLine } from '../../store/write-lock.ts';
 import { STALE_NOTE } from '../train/save-run.ts';
-import { trainAndSave, type TrainSummary } from '../train/train-job.ts';
+import { announceOutlook, trainAndSave, type TrainSummary } from '../train/train-job.ts';
 import type { TrainOptions } from '../train/train-models.ts';
 import { fixedParams, GRID_PARAMS, type GridModel } from './grid.ts';
 import { tuneInThread } from './offline-thread.ts';
@@ -79,7 +80,7 @@ export async function tuneAndTrain(
   file: string,
   options: TrainOptions,
   request: TuneRequest,
-  report: (p: { stage: string; fraction: number; model?: string; iteration?: number; iterations?: number }) => void,
+  report: (p: JobProgress) => void,
   signal: AbortSignal,
 ): Promise<TunedTraining | { summary: TrainSummary; reused: true } | { summary: TrainSummary; untuned: string }> {
   const { when, ...tune } = request;
@@ -95,6 +96,7 @@ export async function tuneAndTrain(
       ...((reuse.params.ease || p.ease) && { ease: { ...reuse.params.ease, ...p.ease } }),
     };
     // Waiting for another process's write shows in the job's stage, as in a plain or a tuned training.
+    announceOutlook(db, options, 0, report);
     const summary = await trainAndSave(db, file, { ...options, params }, { signal, onProgress: report, onWait: (holder) => report({ stage: waitingLine(holder), fraction: 1 }) });
     const repo = new ModelRepo(db);
     db.transaction(() => {
@@ -106,6 +108,7 @@ export async function tuneAndTrain(
     return { summary, reused: true };
   }
   const fixed = fixedParams(options.params);
+  announceOutlook(db, options, tune.budget ?? TUNE_BUDGET.default, report);
   let tuning: TuneResult;
   try {
     tuning = await tuneInThread(

@@ -27,7 +27,14 @@ export async function followJob(table: HandlerTable, job: JobState, io: CliIo, e
   process.once('SIGINT', onSigint);
   try {
     let state = job;
+    let told = false;
     for (;;) {
+      if (state.notice && !told) {
+        if (io.errIsTty && last) process.stderr.write('\n');
+        io.err(`note: ${state.notice}`);
+        told = true;
+        last = '';
+      }
       const line = describe(state);
       if (line !== last) {
         if (io.errIsTty) process.stderr.write(`\r${escapeControls(line).padEnd(Math.max(last.length, line.length))}`);

@@ -93,6 +93,26 @@ function failWith(io: CliIo, json: boolean) {
   };
 }
 
+/**
+ * `shelfwright -w shop.sqlite import items f.csv` is how many tools take a global option: the global options
+ * written before the command move after it, where the command's parser reads them.
+ */
+function globalsAfterCommand(argv: string[]): string[] {
+  const lead: string[] = [];
+  let p = 0;
+  while (p < argv.length) {
+    const a = argv[p]!;
+    if ((a === '-w' || a === '--workspace') && p + 1 < argv.length) {
+      lead.push(a, argv[p + 1]!);
+      p += 2;
+    } else if (a.startsWith('--workspace=') || a === '--json') {
+      lead.push(a);
+      p++;
+    } else break;
+  }
+  return [...argv.slice(p), ...lead];
+}
+
 /** Finds the longest command name (two words, then one) at the start of argv. */
 function findCommand(argv: string[]): { command: CliCommand; rest: string[] } | undefined {
   for (const words of [2, 1]) {
@@ -114,9 +134,11 @@ export async function main(argv: string[], rawIo: CliIo, env: NodeJS.ProcessEnv 
   }
   // With --json a failure is a JSON object on stdout too (exit code unchanged), so a script reads one stream.
   const fail = failWith(io, argv.includes('--json'));
-  const found = findCommand(argv);
+  const args = globalsAfterCommand(argv);
+  const found = findCommand(args);
   if (!found) {
-    const words = argv.filter((a) => !a.startsWith('-')).slice(0, 2).join(' ');
+    const dash = args.findIndex((a) => a.startsWith('-'));
+    const words = (dash < 0 ? args : args.slice(0, dash)).slice(0, 2).join(' ');
     return fail(EXIT.usage, `shelfwright: unknown command '${words}'. Run 'shelfwright --help' for the list.`, { message: `unknown command '${words}'` });
   }
   const { command, rest } = found;

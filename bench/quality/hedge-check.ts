@@ -111,7 +111,8 @@ function analyse(blend: ValidatedBlend, windows: Window[]) {
   pick('later-half mean over λ (target eq(T))', (r) => r.per[1]!.ndcg);
   pick('minimax over halves (target eq(T))', (r) => Math.min(r.per[0]!.m, r.per[1]!.m));
   pick('minimax t over halves (target eq(T))', (r) => Math.min(r.per[0]!.m / r.per[0]!.se, r.per[1]!.m / r.per[1]!.se));
-  console.log(`test: kept blend ${mean(blendPer(test, base, kept)).toFixed(4)}; stored hybrid spec kind ${blend.kind}`);
+  const keptTest = blendPer(test, base, kept);
+  console.log(`test: kept blend ${mean(keptTest).toFixed(4)}; gain over ${names.map((m) => { const d = paired(keptTest, singles[2]!.get(m)!); return `${m} ${d.m.toFixed(4)} ± ${d.se.toFixed(4)}`; }).join(', ')}`);
 }
 
 async function evaluateFlow() {

@@ -115,7 +115,7 @@ describe('evaluateDataset and histories that grew in the validation window', () 
     // Two groups of six items. 60 regulars buy within their group (A or B) before the validation cut, once more in
     // each later window; 120 newcomers first buy two B items in the validation window and one more in the test
     // window. On test a newcomer's history is those two B items: item-kNN reads it, and so must iALS, whose train
-    // row for a newcomer is empty (all scores 0, no evidence). Made-up data whose answer is known by construction.
+    // row for a newcomer is empty (all scores 0, no evidence). Made-up data; a structural check (no outside source).
     const DAY = 86_400_000;
     const item = (i: number) => ({ id: i + 1, externalId: `i${i}`, title: `item ${i}`, description: '', category: i < 6 ? 'a' : 'b', tags: [], supplier: 's', price: null, addedAt: 0, promoted: false, available: true, attributes: {} });
     const sig: [number, number, number][] = [];

@@ -169,4 +169,35 @@ describe('IalsModel', () => {
     model.scoreInto(40, later, scores); // unknown everywhere: no evidence, all zeros
     expect(scores.every((v) => v === 0)).toBe(true);
   });
+
+  it('folds a trained customer in from a grown history when asked (scoreFromHistoryInto), checked against eq. (4) solved by ml-matrix', () => {
+    const m = randomInteractions(25, 18, 0.2, 11);
+    const { model } = fitIals(m, small);
+    // Customer 3's row after a later window: what training saw, plus item 7 with value 2.
+    const d = new Float64Array(25 * 18);
+    for (let u = 0; u < 25; u++) for (let q = m.indptr[u]!; q < m.indptr[u + 1]!; q++) d[u * 18 + m.indices[q]!] = m.data[q]!;
+    d[3 * 18 + 7] = 2;
+    const grown = csrFromDense(25, 18, d);
+    const k = model.factors;
+    const Y = new Matrix(18, k);
+    for (let i = 0; i < 18; i++) for (let f = 0; f < k; f++) Y.set(i, f, model.itemFactors[i * k + f]!);
+    // Hu, Koren & Volinsky (2008) eq. (4): x_u = (YᵀC_uY + λI)⁻¹ YᵀC_u p(u), c_ui = 1 + α·r_ui (small's linear α = 2).
+    const c = Array.from({ length: 18 }, (_, i) => 1 + 2 * d[3 * 18 + i]!);
+    const CY = Y.clone();
+    for (let i = 0; i < 18; i++) for (let f = 0; f < k; f++) CY.set(i, f, c[i]! * Y.get(i, f));
+    const A = Y.transpose().mmul(CY).add(Matrix.eye(k, k).mul(small.regularization));
+    const b = Y.transpose().mmul(Matrix.columnVector(c.map((ci, i) => (d[3 * 18 + i]! > 0 ? ci : 0))));
+    const x = solve(A, b).getColumn(0);
+    const want = Array.from({ length: 18 }, (_, i) => x.reduce((s, xf, f) => s + xf * model.itemFactors[i * k + f]!, 0));
+    const folded = new Float32Array(18);
+    model.foldingIn().scoreInto(3, grown, folded);
+    for (let i = 0; i < 18; i++) expect(folded[i]!).toBeCloseTo(want[i]!, 4);
+    // scoreInto keeps the trained row for a trained customer, so it does not see item 7 join the history.
+    const kept = new Float32Array(18);
+    model.scoreInto(3, grown, kept);
+    let trained = 0;
+    for (let f = 0; f < k; f++) trained += model.customerFactors[3 * k + f]! * model.itemFactors[7 * k + f]!;
+    expect(kept[7]!).toBeCloseTo(trained, 5);
+    expect(Math.abs(folded[7]! - kept[7]!)).toBeGreaterThan(1e-3);
+  });
 });

@@ -416,6 +416,17 @@ export const CONFIRM_Z = 2.4977;
  * dropping content made the test loss larger). No rule that sees only the validation window can detect
  * such a shift; what it can do is ask more evidence before leaving the best single model and keep the blend
  * no further from it than the later window supports, so that a shift costs a fraction of the gain.
+ *
+ * Hedging across near-tied models (equal weights; Clemen 1989, Smith & Wallis 2009) was measured and not
+ * adopted (bench/quality/hedge-check.ts, 2026-12-05). The models within one paired SE of the best on the
+ * earlier half are the best alone on all three cases (demo: item-kNN −0.0026 ± 0.0018 and EASE −0.0025 ± 0.0009
+ * behind iALS; Online Retail: item-kNN and iALS ≥ 2 SE behind EASE), so shrinking towards them is this path.
+ * Equal weights of item-kNN, iALS and EASE fail the later window's bar on every case (demo +0.0017 ± 0.0010)
+ * and lose on test: demo NDCG@10 0.146 against 0.149 for the blend kept; Online Retail NDCG@20 0.0964 against
+ * EASE's 0.1003 (budget 3) and 0.0953 against 0.1004 (budget 10). Choosing λ by the worse of the two halves'
+ * gains (minimax) kept the demo's blend, and on Online Retail gave 0.1014 at budget 3 (kept 0.1002; +0.0010
+ * ± 0.0009 over EASE) and 0.1000 at budget 10 (kept 0.0988; −0.0004 ± 0.0007): within a standard error, not taken.
+ * The demo's test loss was no drift but `evaluate` reading iALS from its train rows (services/evaluate.ts).
  */
 function confirmLater(
   ev: RankingEvaluator,

@@ -65,6 +65,30 @@ export class IalsModel implements Scorer {
     for (let i = 0, n = this.itemCount; i < n; i++) out[i] = dotFF(x, off, y, i * k, k);
   }
 
+  /**
+   * out[i] = x_uᵀy_i with x_u always folded in from `history` (eq. (4) of Hu et al. with Y held), never the
+   * trained row: for a history that has grown since training (services/evaluate.ts scores its test window
+   * over train + validation), so iALS reads the same history as item-kNN and EASE do.
+   */
+  scoreFromHistoryInto(u: number, history: Csr, out: Float32Array): void {
+    const k = this.factors;
+    const x = this.foldIn(u, history);
+    const y = this.itemFactors;
+    for (let i = 0, n = this.itemCount; i < n; i++) out[i] = dotFF(x, 0, y, i * k, k);
+  }
+
+  /** This model as a Scorer whose `scoreInto` is `scoreFromHistoryInto` (every customer folded in). */
+  foldingIn(): Scorer {
+    return {
+      kind: this.kind,
+      itemCount: this.itemCount,
+      scoreInto: (u, history, out) => this.scoreFromHistoryInto(u, history, out),
+      similarityInto: (i, out) => this.similarityInto(i, out),
+      similarItems: (i, n) => this.similarItems(i, n),
+      serialize: () => this.serialize(),
+    };
+  }
+
   /** A customer vector solved from a history row (the trained vector when the customer was trained). */
   foldIn(u: number, history: Csr): Float32Array {
     const k = this.factors;

@@ -27,6 +27,7 @@ import { confirmationHalves, validationSplit } from '../../src-main/services/tun
 import { loadDataset } from '../../src-main/store/dataset.ts';
 import { ModelRepo } from '../../src-main/store/models.ts';
 import { openWorkspace } from '../../src-main/store/workspace.ts';
+import { pairedArrays } from './paired.ts';
 
 const [ws, testFile, kArg] = process.argv.slice(2);
 const K = Number(kArg ?? 20);
@@ -38,15 +39,10 @@ console.log('stored:', spec.reason);
 const repo = new ModelRepo(db);
 const params = Object.fromEntries(['content', 'itemknn', 'ials', 'ease', 'popularity'].map((k) => [k, repo.loadCurrent(k as never)?.params ?? {}])) as Record<string, Record<string, unknown>>;
 
-function paired(a: Float64Array, b: Float64Array) {
-  const n = a.length;
-  let s = 0;
-  for (let i = 0; i < n; i++) s += a[i]! - b[i]!;
-  const m = s / n;
-  let ss = 0;
-  for (let i = 0; i < n; i++) ss += (a[i]! - b[i]! - m) ** 2;
-  return { m, se: Math.sqrt(ss / (n - 1) / n) };
-}
+const paired = (a: Float64Array, b: Float64Array) => {
+  const d = pairedArrays(a, b);
+  return { m: d.mean, se: d.se };
+};
 
 function report(label: string, truthObj: EvalTruth, ev: RankingEvaluator, history: Csr, scorers: Map<string, Scorer>) {
   const cpi = columnCounts(history);

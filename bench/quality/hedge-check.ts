@@ -30,6 +30,7 @@ import { confirmationHalves, notYetAvailable, validationSplit } from '../../src-
 import { loadDataset } from '../../src-main/store/dataset.ts';
 import { ModelRepo } from '../../src-main/store/models.ts';
 import { openWorkspace } from '../../src-main/store/workspace.ts';
+import { pairedArrays } from './paired.ts';
 
 const [mode, ws, a3, a4] = process.argv.slice(2);
 const K = Number((mode === 'evaluate' ? a3 : a4) ?? (mode === 'evaluate' ? 10 : 20));
@@ -40,15 +41,10 @@ const params = Object.fromEntries(['content', 'itemknn', 'ials', 'ease', 'popula
 
 interface Window { label: string; ev: RankingEvaluator; history: Csr; scorers: Map<string, Scorer>; cpi: Int32Array }
 
-function paired(a: Float64Array, b: Float64Array) {
-  const n = a.length;
-  let s = 0;
-  for (let i = 0; i < n; i++) s += a[i]! - b[i]!;
-  const m = s / n;
-  let ss = 0;
-  for (let i = 0; i < n; i++) ss += (a[i]! - b[i]! - m) ** 2;
-  return { m, se: Math.sqrt(ss / (n - 1) / n) };
-}
+const paired = (a: Float64Array, b: Float64Array) => {
+  const d = pairedArrays(a, b);
+  return { m: d.mean, se: d.se };
+};
 const mean = (a: Float64Array) => a.reduce((x, y) => x + y, 0) / a.length;
 
 function perCustomer(w: Window, s: Scorer): Float64Array {

@@ -12,15 +12,27 @@ export type PerCustomer = Map<string, number>;
 
 /** Mean and standard error of a − b over the customers both hold (their ids in `a`'s order). */
 export function pairedDifference(a: PerCustomer, b: PerCustomer): { n: number; mean: number; se: number } {
-  const d: number[] = [];
-  for (const [c, x] of a) {
-    const y = b.get(c);
-    if (y !== undefined) d.push(x - y);
+  const x: number[] = [];
+  const y: number[] = [];
+  for (const [c, v] of a) {
+    const w = b.get(c);
+    if (w !== undefined) {
+      x.push(v);
+      y.push(w);
+    }
   }
-  const n = d.length;
+  return pairedArrays(Float64Array.from(x), Float64Array.from(y));
+}
+
+/** Mean and standard error of a − b, customer by customer (the arrays in the same customers' order). */
+export function pairedArrays(a: Float64Array, b: Float64Array): { n: number; mean: number; se: number } {
+  const n = Math.min(a.length, b.length);
   if (n === 0) return { n, mean: Number.NaN, se: Number.NaN };
-  const mean = d.reduce((s, x) => s + x, 0) / n;
-  const ss = d.reduce((s, x) => s + (x - mean) ** 2, 0);
+  let s = 0;
+  for (let i = 0; i < n; i++) s += a[i]! - b[i]!;
+  const mean = s / n;
+  let ss = 0;
+  for (let i = 0; i < n; i++) ss += (a[i]! - b[i]! - mean) ** 2;
   return { n, mean, se: n > 1 ? Math.sqrt(ss / (n - 1) / n) : Number.NaN };
 }
 

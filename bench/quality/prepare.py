@@ -197,19 +197,25 @@ def main():
     item_ids = {r[0] for r in items}
     train, test, eligible, chosen, pairs, dropped = split(signals, item_ids, n_test, a.seed)
     write_csv(os.path.join(a.out, 'items.csv'), ['id', 'title', 'description', 'category', 'price', 'added'], items)
-    if not a.slice:
-        write_csv(os.path.join(a.out, 'signals.csv'), ['customer', 'item', 'kind', 'value', 'at'], signals)
-    write_csv(os.path.join(a.out, 'train.csv'), ['customer', 'item', 'kind', 'value', 'at'], train)
-    write_csv(os.path.join(a.out, 'test.csv'), ['customer', 'item'], pairs)
+    write_outputs(a.out, {'dataset': 'Online Retail (UCI, doi:10.24432/C5BW33), CC BY 4.0', 'split': 'global time', 'testFrom': SPLIT_AT, 'seed': a.seed},
+                  signals, train, test, items, eligible, chosen, pairs, dropped, write_signals=not a.slice)
+
+
+def write_outputs(out, head, signals, train, test, items, eligible, chosen, pairs, dropped, write_signals=True):
+    """signals.csv (if write_signals), train.csv, test.csv and split.json (head + the split's counts); prints the counts.
+    Shared with prepare_movielens.py."""
+    if write_signals:
+        write_csv(os.path.join(out, 'signals.csv'), ['customer', 'item', 'kind', 'value', 'at'], signals)
+    write_csv(os.path.join(out, 'train.csv'), ['customer', 'item', 'kind', 'value', 'at'], train)
+    write_csv(os.path.join(out, 'test.csv'), ['customer', 'item'], pairs)
     info = {
-        'dataset': 'Online Retail (UCI, doi:10.24432/C5BW33), CC BY 4.0',
-        'split': 'global time', 'testFrom': SPLIT_AT, 'seed': a.seed,
+        **head,
         'signals': len(signals), 'train': len(train), 'testWindowSignals': len(test),
         'items': len(items), 'trainCustomers': len({s[0] for s in train}),
         'eligibleTestCustomers': len(eligible), 'testCustomers': len(chosen), 'testPairs': len(pairs),
         'dropped': dict(dropped),
     }
-    with open(os.path.join(a.out, 'split.json'), 'w') as f:
+    with open(os.path.join(out, 'split.json'), 'w') as f:
         json.dump(info, f, indent=2)
         f.write('\n')
     for k, v in info.items():

@@ -39,13 +39,13 @@ The split (fixed, seeded, documented), the same rule as prepare.py:
   sorted ids (with the default 1,000 every eligible customer is kept: there are 127); their truth is those films.
 """
 import argparse
-import csv
-import json
 import os
 import random
 import sys
 from collections import Counter, defaultdict
 from datetime import datetime, timezone
+
+from prepare import write_csv, write_outputs  # the same output files as the Online Retail preparation
 
 SPLIT_AT = '1998-02-15T00:00:00'
 MIN_STARS = 3
@@ -117,13 +117,6 @@ def split(signals, item_ids, n_customers, seed):
     return train, test, eligible, chosen, pairs, dropped
 
 
-def write_csv(path, header, rows):
-    with open(path, 'w', newline='', encoding='utf-8') as f:
-        w = csv.writer(f, lineterminator='\n')
-        w.writerow(header)
-        w.writerows(rows)
-
-
 def main():
     ap = argparse.ArgumentParser(description=__doc__.split('\n')[0])
     ap.add_argument('raw', help='the ml-100k folder (u.data, u.item, u.genre)')
@@ -147,22 +140,10 @@ def main():
     train, test, eligible, chosen, pairs, dropped = split(signals, set(first), a.customers, a.seed)
     os.makedirs(a.out, exist_ok=True)
     write_csv(os.path.join(a.out, 'items.csv'), ['id', 'title', 'description', 'category', 'price', 'added'], items)
-    write_csv(os.path.join(a.out, 'signals.csv'), ['customer', 'item', 'kind', 'value', 'at'], signals)
-    write_csv(os.path.join(a.out, 'train.csv'), ['customer', 'item', 'kind', 'value', 'at'], train)
-    write_csv(os.path.join(a.out, 'test.csv'), ['customer', 'item'], pairs)
-    info = {
+    write_outputs(a.out, {
         'dataset': 'MovieLens 100K (GroupLens; Harper & Konstan 2015, doi:10.1145/2827872), research use, not redistributed',
         'split': 'global time', 'testFrom': SPLIT_AT, 'seed': a.seed, 'minStars': MIN_STARS,
-        'signals': len(signals), 'train': len(train), 'testWindowSignals': len(test),
-        'items': len(items), 'trainCustomers': len({s[0] for s in train}),
-        'eligibleTestCustomers': len(eligible), 'testCustomers': len(chosen), 'testPairs': len(pairs),
-        'dropped': dict(dropped),
-    }
-    with open(os.path.join(a.out, 'split.json'), 'w') as f:
-        json.dump(info, f, indent=2)
-        f.write('\n')
-    for k, v in info.items():
-        print(f'{k:>40}: {v}')
+    }, signals, train, test, items, eligible, chosen, pairs, dropped)
 
 
 if __name__ == '__main__':

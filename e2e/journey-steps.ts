@@ -110,11 +110,6 @@ export async function timeAction(page: Page, click: () => Promise<void>, shown: 
   return page.evaluate(() => (window as unknown as { swTiming: Promise<number> }).swTiming);
 }
 
-/** The meter's readings as shown, one string per reading, without the what-if line. */
-async function meterText(page: Page): Promise<string[]> {
-  return page.getByLabel('Shelf meter').locator('.reading .gauge-value').evaluateAll((els) => els.map((e) => e.textContent ?? ''));
-}
-
 async function editShelf(page: Page, o: JourneyOptions): Promise<void> {
   await nav(page, 'Editions');
   await page.getByLabel('Name').fill('Week 1');
@@ -136,7 +131,6 @@ async function editShelf(page: Page, o: JourneyOptions): Promise<void> {
   const title = async (n: number) => (await slot(n).locator('.slot-title').innerText()).replace(/\s*(Sponsored|Pinned)\s*/g, '').trim();
   await expect(slot(8)).toBeVisible();
   await expect(slot(1)).toContainText(/\d+ of [\d,.\s]+ in the pool/);
-  const before = await meterText(page);
 
   // Each action: the time from the click until the list shows it. List and meter come from one shelf
   // view in one render (curation-slice shelfChanged); for the ban the meter's change is waited for too.
@@ -148,20 +142,21 @@ async function editShelf(page: Page, o: JourneyOptions): Promise<void> {
   await expect(history).toHaveText([/^Pinned /, /^Boosted /]);
   console.log(`timing: boost shown in list and meter ${boostMs.toFixed(0)} ms after the click`);
   const banned = await title(1);
-  const meterBefore = (await page.locator('[aria-label="Shelf meter"] .gauges').textContent()) ?? '';
+  // List and meter come from one shelf view in one render, so the list's change times both. Whether the
+  // meter's words move depends on the item that replaces the banned one (two decimals may not change), so the
+  // check below is that the meter on screen is the live one, not that it moved.
   const banMs = await timeAction(page, () => slot(1).getByRole('button', { name: 'Ban' }).click(), [
-    { selector: 'ol[aria-label="Slots"]', text: banned, present: false },
-    { selector: '[aria-label="Shelf meter"] .gauges', text: meterBefore, present: false },
+    // Slot 1's title, not the whole list: a slot's reason may name the banned item among what its audience holds.
+    { selector: `${slotSel(1)} .slot-title`, text: banned, present: false },
   ]);
-  await expect(slots).not.toContainText(banned);
+  await expect(slots.locator('.slot-title').filter({ hasText: banned })).toHaveCount(0);
   console.log(`timing: ban shown in list and meter ${banMs.toFixed(0)} ms after the click`);
   await expect(history).toHaveText([/^Pinned /, /^Boosted /, /^Banned /]);
 
-  // The meter on screen is the live one (equal to the api's now) and moved with the ban.
+  // The meter on screen is the live one (equal to the api's now, after the ban).
   const live = await o.api('shelf.show', { edition: 'Week 1', shelf: 'Homepage row' });
   const variety = live.meter.intraListDistance === null ? '—' : (live.meter.intraListDistance as number).toFixed(2);
   await expect(page.getByLabel('Shelf meter').locator('.reading', { hasText: 'Variety' }).locator('.gauge-value')).toContainText(variety);
-  expect(await meterText(page)).not.toEqual(before);
 
   // Anchors: search, add, remove, add again; rank the pool towards them and pin a proposal.
   const anchors = page.getByRole('region', { name: 'Anchors: rank towards items like these' });

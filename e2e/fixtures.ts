@@ -7,6 +7,7 @@ import AxeBuilder from '@axe-core/playwright';
 import { test as base, type Page } from '@playwright/test';
 import { createHandlerTable } from '../src-main/api/handler-table.ts';
 import { AppContext } from '../src-main/services/context.ts';
+import { buildDemoWorkspace } from '../src-main/services/demo.ts';
 import { rendererNeedsBuild } from '../src-main/shell/launch/renderer-build.ts';
 import { startWebShell, type WebShell } from '../src-main/shell/web/server.ts';
 import { seedSmallShop } from './seed.ts';
@@ -127,3 +128,24 @@ export const journeyTest = base.extend<{ fresh: FreshApp }>({
     fs.rmSync(dir, { recursive: true, force: true });
   },
 });
+
+/**
+ * The invented garden shop at the journey's size, trained (no tuning), behind a web shell of its own for one
+ * test: `use` gets the shell's page address; the shell, the workspace and its temp folder are closed after.
+ */
+export async function withTrainedJourneyShop(prefix: string, use: (pageUrl: string) => Promise<void>): Promise<void> {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), prefix));
+  const file = path.join(dir, 'demo.sqlite');
+  const { seed, items, customers, signals } = JOURNEY_SHOP;
+  await buildDemoWorkspace(file, { seed, size: { items, customers, signals }, tune: false });
+  const ctx = new AppContext();
+  ctx.open(file, { create: false });
+  const shell = await startWebShell({ table: createHandlerTable(ctx), uploads: ctx.uploads, staticDir: DIST });
+  try {
+    await use(shell.pageUrl);
+  } finally {
+    await shell.close();
+    ctx.close();
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
+}

@@ -1,12 +1,5 @@
-import fs from 'node:fs';
-import os from 'node:os';
-import path from 'node:path';
 import type { Locator, Page } from '@playwright/test';
-import { createHandlerTable } from '../src-main/api/handler-table.ts';
-import { AppContext } from '../src-main/services/context.ts';
-import { buildDemoWorkspace } from '../src-main/services/demo.ts';
-import { startWebShell } from '../src-main/shell/web/server.ts';
-import { DIST, ensureBuilt, expect, JOURNEY_SHOP, seriousA11yViolations, test } from './fixtures.ts';
+import { ensureBuilt, expect, seriousA11yViolations, test, withTrainedJourneyShop } from './fixtures.ts';
 
 /**
  * How the screens are laid out at the window widths editors use (800, 1280 and 1920 px), asserted on the boxes the
@@ -193,15 +186,8 @@ test("at 800 px the evaluation's table scrolls in its own region, and its chart 
   // Evaluation needs a shop with a validation window: the demo shop at the journey's size (the seeded one has none).
   test.setTimeout(600_000);
   ensureBuilt();
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-layout-'));
-  const file = path.join(dir, 'demo.sqlite');
-  const { seed, items, customers, signals } = JOURNEY_SHOP;
-  await buildDemoWorkspace(file, { seed, size: { items, customers, signals }, tune: false });
-  const ctx = new AppContext();
-  ctx.open(file, { create: false });
-  const shell = await startWebShell({ table: createHandlerTable(ctx), uploads: ctx.uploads, staticDir: DIST });
-  try {
-    await page.goto(shell.pageUrl);
+  await withTrainedJourneyShop('sw-layout-', async (pageUrl) => {
+    await page.goto(pageUrl);
     await page.getByRole('navigation', { name: 'Screens' }).getByRole('button', { name: 'Models', exact: true }).click();
     await page.getByRole('button', { name: 'Evaluate', exact: true }).click();
     const panel = page.getByRole('region', { name: 'Evaluation: models against baselines' });
@@ -217,9 +203,5 @@ test("at 800 px the evaluation's table scrolls in its own region, and its chart 
     expect(await figures.evaluate((e) => e.scrollWidth > e.clientWidth)).toBe(true);
     await expect(figures).toHaveAttribute('tabindex', '0');
     expect(await seriousA11yViolations(page)).toEqual([]);
-  } finally {
-    await shell.close();
-    ctx.close();
-    fs.rmSync(dir, { recursive: true, force: true });
-  }
+  });
 });

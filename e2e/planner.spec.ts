@@ -1,12 +1,5 @@
-import fs from 'node:fs';
-import os from 'node:os';
-import path from 'node:path';
 import type { Locator, Page } from '@playwright/test';
-import { createHandlerTable } from '../src-main/api/handler-table.ts';
-import { AppContext } from '../src-main/services/context.ts';
-import { buildDemoWorkspace } from '../src-main/services/demo.ts';
-import { startWebShell } from '../src-main/shell/web/server.ts';
-import { DIST, ensureBuilt, expect, JOURNEY_SHOP, seriousA11yViolations, test } from './fixtures.ts';
+import { ensureBuilt, expect, seriousA11yViolations, test, withTrainedJourneyShop } from './fixtures.ts';
 import { SHOP } from './seed.ts';
 
 /**
@@ -145,15 +138,8 @@ test('plan a shelf for four weeks, pin, ban, lock, re-solve, and make a draft ed
 test('on the trained demo shop: plan two shelves for six weeks with rest weeks, pin, and draft a week', async ({ page }) => {
   test.setTimeout(900_000);
   ensureBuilt();
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sw-plan-demo-'));
-  const file = path.join(dir, 'demo.sqlite');
-  const { seed, items, customers, signals } = JOURNEY_SHOP;
-  await buildDemoWorkspace(file, { seed, size: { items, customers, signals }, tune: false });
-  const ctx = new AppContext();
-  ctx.open(file, { create: false });
-  const shell = await startWebShell({ table: createHandlerTable(ctx), uploads: ctx.uploads, staticDir: DIST });
-  try {
-    await page.goto(shell.pageUrl);
+  await withTrainedJourneyShop('sw-plan-demo-', async (pageUrl) => {
+    await page.goto(pageUrl);
     const screens = page.getByRole('navigation', { name: 'Screens' });
     const status = page.getByRole('region', { name: 'Planner' }).getByRole('status');
     await screens.getByRole('button', { name: 'Editions', exact: true }).click();
@@ -221,9 +207,5 @@ test('on the trained demo shop: plan two shelves for six weeks with rest weeks, 
       await expect(slot).toContainText(t);
       await expect(slot.getByText('Pinned', { exact: true })).toBeVisible();
     }
-  } finally {
-    await shell.close();
-    ctx.close();
-    fs.rmSync(dir, { recursive: true, force: true });
-  }
+  });
 });

@@ -3,8 +3,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { generateDemoShop } from '../../demo-data/generator/index.ts';
 import { importFile } from '../../src-main/services/import.ts';
-import { capture } from './capture.ts';
-import { main } from '../../src-main/shell/cli/main.ts';
+import { workspaceCli } from './capture.ts';
 import { openWorkspace } from '../../src-main/store/workspace.ts';
 import { tempDir } from '../holdout/fixture.ts';
 
@@ -18,16 +17,7 @@ let ws: string;
 let holdout: string;
 let firstItem: string;
 
-async function run(...argv: string[]) {
-  const io = capture();
-  const code = await main([...argv, '-w', ws], io, {});
-  return { code, out: io.stdout.join('\n'), err: io.stderr.join('\n') };
-}
-async function json(...argv: string[]) {
-  const r = await run(...argv, '--json');
-  expect(r.code, r.err).toBe(0);
-  return JSON.parse(r.out);
-}
+const { run, json } = workspaceCli(() => ws);
 
 beforeAll(async () => {
   dir = tempDir('cli-models');

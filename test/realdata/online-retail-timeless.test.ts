@@ -2,8 +2,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { main } from '../../src-main/shell/cli/main.ts';
-import { capture } from '../cli/capture.ts';
+import { workspaceCli } from '../cli/capture.ts';
 import { writeTimelessCopy } from './timeless-copy.ts';
 
 /**
@@ -17,16 +16,7 @@ import { writeTimelessCopy } from './timeless-copy.ts';
 let dir: string;
 let ws: string;
 
-async function run(...argv: string[]) {
-  const io = capture();
-  const code = await main([...argv, '-w', ws], io, {});
-  return { code, out: io.stdout.join('\n'), err: io.stderr.join('\n') };
-}
-async function json(...argv: string[]) {
-  const r = await run(...argv, '--json');
-  expect(r.code, r.err).toBe(0);
-  return JSON.parse(r.out);
-}
+const { run, json } = workspaceCli(() => ws);
 
 let pairs = 0;
 beforeAll(async () => {

@@ -121,9 +121,13 @@ def catalogue(lines, before):
     return items
 
 
-def split(signals, item_ids, n_customers, seed):
-    train = [s for s in signals if s[4] < SPLIT_AT]
-    test = [s for s in signals if s[4] >= SPLIT_AT]
+def split(signals, item_ids, n_customers, seed, split_at=SPLIT_AT, order=None, unseen='items first sold'):
+    """The global time split shared by every data set's preparation: signals before `split_at` train, the rest test.
+    A test pair counts when its customer has training history, its item is in the catalogue (`item_ids`) and the
+    customer did not have it in training; `n_customers` of the eligible customers are drawn with `seed`, listed in
+    `order` (a sort key; None sorts the id strings). `unseen` names the items left out for the dropped-pairs count."""
+    train = [s for s in signals if s[4] < split_at]
+    test = [s for s in signals if s[4] >= split_at]
     had = defaultdict(set)
     for c, i, *_ in train:
         had[c].add(i)
@@ -133,14 +137,14 @@ def split(signals, item_ids, n_customers, seed):
         if c not in had:
             dropped['test pairs of customers without training history'] += 1
         elif i not in item_ids:
-            dropped['test pairs of items first sold in the test window'] += 1
+            dropped[f'test pairs of {unseen} in the test window'] += 1
         elif i in had[c]:
             dropped['test pairs the customer already bought in training'] += 1
         else:
             new[c].add(i)
-    eligible = sorted(new)
-    chosen = sorted(random.Random(seed).sample(eligible, min(n_customers, len(eligible))))
-    pairs = [(c, i) for c in chosen for i in sorted(new[c])]
+    eligible = sorted(new, key=order)
+    chosen = sorted(random.Random(seed).sample(eligible, min(n_customers, len(eligible))), key=order)
+    pairs = [(c, i) for c in chosen for i in sorted(new[c], key=order)]
     return train, test, eligible, chosen, pairs, dropped
 
 

@@ -40,12 +40,11 @@ The split (fixed, seeded, documented), the same rule as prepare.py:
 """
 import argparse
 import os
-import random
 import sys
-from collections import Counter, defaultdict
+from collections import Counter
 from datetime import datetime, timezone
 
-from prepare import write_csv, write_outputs  # the same output files as the Online Retail preparation
+from prepare import split, write_csv, write_outputs  # the same split and output files as the Online Retail preparation
 
 SPLIT_AT = '1998-02-15T00:00:00'
 MIN_STARS = 3
@@ -96,27 +95,6 @@ def read_ratings(folder):
     return signals, counts
 
 
-def split(signals, item_ids, n_customers, seed):
-    train = [s for s in signals if s[4] < SPLIT_AT]
-    test = [s for s in signals if s[4] >= SPLIT_AT]
-    had = defaultdict(set)
-    for c, i, *_ in train:
-        had[c].add(i)
-    new = defaultdict(set)
-    dropped = Counter()
-    for c, i, *_ in test:
-        if c not in had:
-            dropped['test pairs of customers without training history'] += 1
-        elif i not in item_ids:
-            dropped['test pairs of films first rated in the test window'] += 1
-        else:
-            new[c].add(i)  # one rating per user and film: a test pair is never a training pair
-    eligible = sorted(new, key=int)
-    chosen = sorted(random.Random(seed).sample(eligible, min(n_customers, len(eligible))), key=int)
-    pairs = [(c, i) for c in chosen for i in sorted(new[c], key=int)]
-    return train, test, eligible, chosen, pairs, dropped
-
-
 def main():
     ap = argparse.ArgumentParser(description=__doc__.split('\n')[0])
     ap.add_argument('raw', help='the ml-100k folder (u.data, u.item, u.genre)')
@@ -137,7 +115,7 @@ def main():
         if at < SPLIT_AT and i not in first:
             first[i] = at  # signals are in time order
     items = [(i, films[i][0], films[i][1], '', '', first[i]) for i in sorted(first, key=int)]
-    train, test, eligible, chosen, pairs, dropped = split(signals, set(first), a.customers, a.seed)
+    train, test, eligible, chosen, pairs, dropped = split(signals, set(first), a.customers, a.seed, SPLIT_AT, order=int, unseen='films first rated')  # one rating per user and film: no test pair is a training pair
     os.makedirs(a.out, exist_ok=True)
     write_csv(os.path.join(a.out, 'items.csv'), ['id', 'title', 'description', 'category', 'price', 'added'], items)
     write_outputs(a.out, {

@@ -29,7 +29,12 @@ import { loadDataset } from '../store/dataset.ts';
 import { ModelRepo } from '../store/models.ts';
 import type { Db } from '../store/workspace.ts';
 import { evaluationSplit, type SplitChoice } from './evaluate-split.ts';
+import { easeSolver } from './train/ease-solver.ts';
+import { TRAIN_EASE_DEFAULTS } from './train/train-models.ts';
 import { confirmationHalves, notYetAvailable } from './tune/split.ts';
+
+/** Without a trained EASE, evaluate fits one only up to this many items (seconds; training's limit is 20,000). */
+export const EVALUATE_EASE_ITEMS = 5000;
 
 export interface EvaluateOptions {
   /** List length K. Default 10. */
@@ -44,8 +49,13 @@ export interface EvaluateOptions {
   split?: SplitChoice;
   /** Time split cuts (implies a time split); default the last 10% of timed signals is test and the 10% before it validation. */
   cuts?: TimeCuts;
-  /** Leave EASE out (large catalogues: its inverse is dense). Default: in when items <= 5,000. */
+  /**
+   * Leave EASE out, or force it in. Default: in whenever training fitted it (its stored parameters are given:
+   * up to 20,000 items, the most active of them above that, as training does), else in up to 5,000 items.
+   */
   ease?: boolean;
+  /** Threads for EASE's inverse (bit-identical on any count; more than one needs a worker thread, it blocks). Default 1. */
+  threads?: number;
   params?: { content?: ContentParams; itemknn?: ItemKnnParams; ease?: EaseParams; ials?: Partial<IalsParams> };
   matrix?: Omit<BuildOptions, 'rows' | 'window'>;
   signal?: AbortSignal;
@@ -112,9 +122,13 @@ export function evaluateDataset(ds: Dataset, options: EvaluateOptions = {}): Wor
   const models = new Map<string, Scorer>();
   models.set('content', record('content', fitContent(ds.items, options.params?.content, fitOpts)));
   models.set('itemknn', record('itemknn', fitItemKnn(train, options.params?.itemknn, fitOpts)));
-  const useEase = options.ease ?? ds.items.length <= 5000;
-  if (useEase) models.set('ease', record('ease', fitEase(train, options.params?.ease, fitOpts)));
-  else notes.push(`EASE left out: ${ds.items.length} items (its dense inverse is costly above 5,000)`);
+  // EASE is measured as training serves it: with its stored parameters and training's limits (TRAIN_EASE_DEFAULTS)
+  // whenever training fitted it, so the hybrid measured here is the hybrid served. Without a stored EASE it is
+  // left out above EVALUATE_EASE_ITEMS, where its dense inverse would cost more than the other models together.
+  const useEase = options.ease ?? (options.params?.ease !== undefined || ds.items.length <= EVALUATE_EASE_ITEMS);
+  const easeParams = { ...TRAIN_EASE_DEFAULTS, ...options.params?.ease };
+  if (useEase) models.set('ease', record('ease', fitEase(train, easeParams, fitOpts, easeSolver(options.threads ?? 1))));
+  else notes.push(`EASE left out: ${ds.items.length.toLocaleString('en')} items and no trained EASE (its dense inverse is costly above ${EVALUATE_EASE_ITEMS.toLocaleString('en')})`);
   const ials = fitIals(train, { seed, epsilon: signalUnit(ds, options.matrix?.kindWeights), ...options.params?.ials }, fitOpts);
   models.set('ials', record('ials', ials));
 

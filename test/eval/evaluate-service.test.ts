@@ -7,7 +7,7 @@ import { buildInteractionMatrix } from '../../src-main/core/matrix/build.ts';
 import { fitItemKnn } from '../../src-main/core/models/itemknn.ts';
 import { quantileCuts } from '../../src-main/core/matrix/split.ts';
 import type { Dataset } from '../../src-main/core/types.ts';
-import { evaluateDataset, evaluateWorkspace, saveEvaluation } from '../../src-main/services/evaluate.ts';
+import { EVALUATE_EASE_ITEMS, evaluateDataset, evaluateWorkspace, saveEvaluation } from '../../src-main/services/evaluate.ts';
 import { ModelRepo } from '../../src-main/store/models.ts';
 import { importFile } from '../../src-main/services/import.ts';
 import { loadDataset } from '../../src-main/store/dataset.ts';
@@ -107,6 +107,26 @@ describe('evaluateDataset and items added after a cut', () => {
     const opts = { k: 5, sampleCustomers: 150, seed: 2, cuts, params: { ials: { factors: 8, iterations: 3 } } };
     const rows = (ds: Dataset) => evaluateDataset(ds, opts).test.map(({ elapsedMs: _, ...r }) => r);
     expect(rows(withSales(40))).toEqual(rows(withSales(0)));
+  });
+});
+
+describe('evaluateDataset and EASE above 5,000 items', () => {
+  it('measures EASE whenever training fitted it (its stored parameters are given), else leaves it out and says so', () => {
+    // A trained EASE serves in the hybrid up to 20,000 items; an evaluation without it would measure another hybrid.
+    const base = loadDataset(db);
+    const unsold = Array.from({ length: EVALUATE_EASE_ITEMS + 1 - base.items.length }, (_, q) => ({
+      ...base.items[q % base.items.length]!,
+      id: 2_000_000 + q,
+      externalId: `unsold-${q}`,
+    }));
+    const ds: Dataset = { ...base, items: [...base.items, ...unsold] };
+    const opts = { k: 5, sampleCustomers: 100, seed: 2, params: { ials: { factors: 8, iterations: 3 } } };
+    const untrained = evaluateDataset(ds, opts);
+    expect(untrained.test.map((r) => r.model)).not.toContain('ease');
+    expect(untrained.notes.join(' ')).toMatch(/EASE left out: 5,001 items and no trained EASE/);
+    const trained = evaluateDataset(ds, { ...opts, params: { ...opts.params, ease: { lambda: 300 } } });
+    expect(trained.test.map((r) => r.model)).toContain('ease');
+    expect(trained.fits.find((f) => f.model === 'ease')!.notes.join(' ')).toMatch(/EASE on 5001 items/);
   });
 });
 

@@ -2,6 +2,7 @@ import { parentPort, workerData } from 'node:worker_threads';
 import { loadDataset } from '../../store/dataset.ts';
 import { openWorkspace } from '../../store/workspace.ts';
 import { evaluateWorkspace, type EvaluateOptions, type WorkspaceEvaluation } from '../evaluate.ts';
+import { defaultThreads } from '../train/ials-threads.ts';
 import { tuneDataset, type TuneOptions, type TuneResult } from './tune.ts';
 
 /**
@@ -36,7 +37,7 @@ async function main(): Promise<void> {
     const result =
       job.task === 'tune'
         ? await tuneDataset(loadDataset(db), { ...job.options, onProgress: (progress) => port.postMessage({ type: 'progress', progress } satisfies OfflineWorkerMessage) })
-        : evaluateWorkspace(db, job.options);
+        : evaluateWorkspace(db, { threads: defaultThreads(), ...job.options }); // EASE's inverse may block here: a worker thread
     port.postMessage({ type: 'done', result } satisfies OfflineWorkerMessage);
   } finally {
     db.close();

@@ -221,10 +221,20 @@ const modelsCommand: CliCommand = {
       m.trainMs / 1000,
       m.stale ? (m.origin ? "stale: the workspace's data changed since the export" : 'stale: retrain') : 'current',
       m.evaluation ? val(m.evaluation.ndcg) : '–',
+      tunedCell(m, null) || (m.tuningNotes.length ? 'not tuned' : '–'),
     ]);
     // A model trained elsewhere says where (docs/cluster.md).
     const origins = r.models.filter((m) => m.origin).map((m) => `${m.kind}: ${m.origin!.description}`);
-    env.io.out([r.models.length ? table(['model', 'trained (UTC)', 'seconds', 'status', 'NDCG (evaluate)'], rows) : 'no trained models', ...origins, ...hybridLines(r.hybrid)].join('\n'));
+    // The tuner's notes, under the table (too long for a cell), each under the model it is about.
+    const notes = r.models.flatMap((m) => m.tuningNotes.map((n) => `  ${m.kind}: ${n}`));
+    env.io.out(
+      [
+        r.models.length ? table(['model', 'trained (UTC)', 'seconds', 'status', 'NDCG (evaluate)', 'tuned'], rows) : 'no trained models',
+        ...(notes.length ? ['tuning notes:', ...notes] : []),
+        ...origins,
+        ...hybridLines(r.hybrid),
+      ].join('\n'),
+    );
     return EXIT.ok;
   },
 };

@@ -32,7 +32,7 @@ export function trainingPlan(models: readonly ModelInfo[], skip: boolean): strin
   }
   if (reusesTuning(models)) return "The data is unchanged since the last tuning: will train that tuning's settings again, without searching.";
   return (
-    `${models.length ? 'The data changed since the last tuning' : 'Nothing is tuned yet'}: will first search each model's settings on ` +
+    `${models.some((m) => m.tuning) ? 'The data changed since the last tuning' : 'Nothing is tuned yet'}: will first search each model's settings on ` +
     `held-out signals, spending at most ${TUNE_BUDGET.default} times what one plain training of the searched models costs, then train every model on all signals.`
   );
 }

@@ -32,12 +32,15 @@ async function run(...argv: string[]) {
 type Listed = { kind: string; tuning: unknown; tuningNotes: string[] };
 const listed = async (): Promise<Listed[]> => JSON.parse((await run('models', '--json')).out).models;
 
-describe('shelfwright models shows the tuner notes', () => {
+describe('shelfwright train and models show the tuner notes', () => {
   it('lists each tuned model with its notes under the table, keeps them on a reused tuning, drops them untuned', async () => {
     const trained = await run('train', '--iterations', '6', '--threads', '1');
     expect(trained.code, trained.err).toBe(0);
     expect(trained.out.split('\n')[0]).toMatch(/^tuned /);
     const note = 'iALS trials ran 3 of the 6 training sweeps each (a cheaper fit to rank settings)';
+    // `train` itself says them too, after what was searched.
+    expect(trained.out).toMatch(/^searched:\n(.+\n)+tuning notes:\n/m);
+    expect(trained.out.split('\n')).toContain(`  ials: ${note}`);
 
     const text = await run('models');
     expect(text.code, text.err).toBe(0);

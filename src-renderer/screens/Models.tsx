@@ -134,6 +134,8 @@ export function Models() {
         {list.length === 0 ? (
           <p className="muted">None yet: shelves are filled from popularity and freshness until models are trained.</p>
         ) : (
+          // With the tuning and its notes the table is wider than an 800 px window: it scrolls in its own region.
+          <div className="table-scroll" role="region" aria-label="Each model's training and tuning" tabIndex={0}>
           <table>
             <thead>
               <tr>
@@ -184,6 +186,7 @@ export function Models() {
               ))}
             </tbody>
           </table>
+          </div>
         )}
         {hybrid && (
           <p data-testid="hybrid-line">

@@ -23,6 +23,8 @@ export interface StoredOffline extends WorkspaceEvaluation {
 export interface ModelEvaluationRecord {
   offline?: StoredOffline;
   tuning?: unknown;
+  /** The tuner's notes about this model from the tuning its settings came from (services/tune/train-tuned.ts). */
+  tunerNotes?: string[];
 }
 
 export function listModels(db: Db): ModelStatus[] {

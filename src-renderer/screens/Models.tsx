@@ -5,55 +5,10 @@ import { MetricsChart } from '../components/MetricsChart.tsx';
 import { num, pct, momentWords, count } from '../components/format.ts';
 import { useApp } from '../state/store.ts';
 import { Notes } from '../components/Notes.tsx';
-import { jobStageLine } from '../components/job-words.ts';
+import { TrainPanel } from '../components/TrainPanel.tsx';
+import { tuningSummary } from '../components/tuning-words.ts';
 import { metricHelp, modelWords } from '../../src-main/core/models/model-words.ts';
 import { SPLIT_CHOICES, SPLIT_CHOICE_WORDS, type SplitChoice } from '../../src-main/core/eval/split-choice.ts';
-
-function TrainPanel() {
-  const job = useApp((s) => s.models.job);
-  const error = useApp((s) => s.models.errors.train);
-  const start = useApp((s) => s.startTraining);
-  const cancel = useApp((s) => s.cancelJob);
-  const running = job?.state === 'running';
-  const id = useId();
-  const p = job?.progress;
-  return (
-    <section className="panel" aria-labelledby={`${id}-h`}>
-      <h2 id={`${id}-h`}>Training</h2>
-      <p className="muted small">
-        Trains every model on all signals in the background; the screens stay usable meanwhile. When the data changed since
-        the last tuning, each model's settings are searched first on held-out signals (as the command line's train does);
-        otherwise the last tuning's settings are trained again.
-      </p>
-      <div className="toolbar">
-        <button type="button" disabled={running} onClick={() => void start()}>
-          Train models
-        </button>
-        <button type="button" className="quiet" disabled={!running} onClick={() => void cancel()}>
-          Cancel
-        </button>
-      </div>
-      {job && (
-        <div className="job" aria-live="polite">
-          <label htmlFor={`${id}-p`}>{jobStageLine(job)}</label>
-          <progress id={`${id}-p`} className="progress" max={1} value={p?.fraction ?? 0}>
-            {pct(p?.fraction)}
-          </progress>
-          <p className="small">
-            {job.state === 'running' && `${pct(p?.fraction)} done`}
-            {job.state === 'done' && (job.summary ?? 'Done.')}
-            {job.state === 'cancelled' && 'Cancelled: nothing was written; the previous models are still in use.'}
-          </p>
-        </div>
-      )}
-      {error && (
-        <p className="error" role="alert">
-          {error}
-        </p>
-      )}
-    </section>
-  );
-}
 
 function EvaluationPanel() {
   const evaluation = useApp((s) => s.models.evaluation);
@@ -179,6 +134,8 @@ export function Models() {
         {list.length === 0 ? (
           <p className="muted">None yet: shelves are filled from popularity and freshness until models are trained.</p>
         ) : (
+          // With the tuning and its notes the table is wider than an 800 px window: it scrolls in its own region.
+          <div className="table-scroll" role="region" aria-label="Each model's training and tuning" tabIndex={0}>
           <table>
             <thead>
               <tr>
@@ -186,6 +143,7 @@ export function Models() {
                 <th scope="col">Trained</th>
                 <th scope="col" className="num">Time</th>
                 <th scope="col">Status</th>
+                <th scope="col">Tuning</th>
                 <th scope="col">Notes</th>
               </tr>
             </thead>
@@ -203,6 +161,17 @@ export function Models() {
                         : 'Out of date: the data changed since training'
                       : 'Current'}
                   </td>
+                  {/* How its settings were chosen, with the tuner's notes in full beside it (why not tuned, what a rule decided). */}
+                  <td className="tuning-cell">
+                    {tuningSummary(m)}
+                    {m.tuningNotes.length > 0 && (
+                      <ul className="small" aria-label={`Tuning notes: ${modelShortWords(m.kind)}`}>
+                        {m.tuningNotes.map((n, i) => (
+                          <li key={i}>{n}</li>
+                        ))}
+                      </ul>
+                    )}
+                  </td>
                   <td>
                     {m.notes.length === 0 ? (
                       '–'
@@ -217,6 +186,7 @@ export function Models() {
               ))}
             </tbody>
           </table>
+          </div>
         )}
         {hybrid && (
           <p data-testid="hybrid-line">

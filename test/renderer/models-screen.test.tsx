@@ -178,11 +178,91 @@ describe('the Train button', () => {
   });
 });
 
+describe('a long training and skipping the search', () => {
+  it('keeps the notice beside the bar to the end, offers the quicker way this screen has, and sends tune false when skipped', async () => {
+    // The notice as services/train/outlook.ts words it for a large log with tuning (its own unit test checks the figures).
+    const notice =
+      'a large workspace (16,000 items, 36,000 customers, 1,700,000 signals): this training needs roughly 14 CPU-min (about 7 min on two idle cores): ' +
+      "EASE's dense inverse over 16,000 items 4 CPU-min; iALS 2 CPU-min; tuning first up to 8 CPU-min. Quicker: without tuning, without EASE, iALS with fewer factors";
+    const sent: { method: string; payload: unknown }[] = [];
+    let polls = 0;
+    const job = (state: string) => ({
+      id: 'j2', kind: 'train', state, startedAt: 1, finishedAt: state === 'running' ? null : 2, error: null,
+      summary: state === 'done' ? 'tuned (time split; ials NDCG@10 0.100) and trained 5 models in 800.0 s' : null,
+      progress: { stage: state === 'running' ? 'tune' : 'done', model: 'ials', fraction: state === 'running' ? 0.1 : 1 }, notice,
+    });
+    const client = createClient(async (method, payload): Promise<ApiResult<unknown>> => {
+      sent.push({ method, payload });
+      if (method === 'models.list') return { ok: true, value: { models: [] } };
+      if (method === 'evaluate.latest') return { ok: true, value: { evaluation: null } };
+      if (method === 'train.start') return { ok: true, value: job('running') };
+      if (method === 'job.status') return { ok: true, value: job(++polls < 3 ? 'running' : 'done') };
+      return { ok: false, error: { code: 'input', message: method } };
+    });
+    const store = createAppStore(client, Date.now, () => new Promise((r) => setTimeout(r, 0)));
+    render(
+      <StoreContext.Provider value={store}>
+        <Models />
+      </StoreContext.Provider>,
+    );
+    const panel = await screen.findByRole('region', { name: 'Training' });
+    // Nothing tuned yet: the default searches first, and the screen says so before the click.
+    expect(within(panel).getByTestId('train-plan').textContent).toMatch(/^Nothing is tuned yet: will first search each model's settings/);
+    fireEvent.click(within(panel).getByRole('button', { name: 'Train models' }));
+    const box = await within(panel).findByRole('note', { name: 'How long this training takes' });
+    expect(box.textContent).toContain('A large workspace (16,000 items, 36,000 customers, 1,700,000 signals): this training needs roughly 14 CPU-min');
+    expect(box.textContent).toContain('tick “Skip tuning”');
+    expect(box.textContent).toContain('shelfwright train --models … --factors N');
+    // Still there once the job is done: read at leisure, not a passing message.
+    await within(panel).findByText(/^tuned \(time split/);
+    expect(within(panel).getByRole('note', { name: 'How long this training takes' })).toBe(box);
+
+    fireEvent.click(within(panel).getByRole('checkbox', { name: /^Skip tuning/ }));
+    expect(within(panel).getByTestId('train-plan').textContent).toMatch(/^Will train every model with its default settings, without searching/);
+    fireEvent.click(within(panel).getByRole('button', { name: 'Train models' }));
+    await waitFor(() => expect(sent.filter((c) => c.method === 'train.start')).toHaveLength(2));
+    expect(sent.filter((c) => c.method === 'train.start').map((c) => c.payload)).toEqual([{}, { tune: false }]);
+  });
+});
+
+describe("a model's tuning", () => {
+  it('shows the settings chosen and the tuner notes beside them; a model left out of the search says not tuned', async () => {
+    const base = { params: {}, trainedAt: Date.UTC(2026, 11, 1), trainMs: 1200, iterations: null, losses: [], notes: [], stale: false, sizeBytes: 10, evaluation: null, origin: null };
+    const ials = {
+      ...base, id: 1, kind: 'ials',
+      tuning: {
+        k: 10, tunedAt: Date.UTC(2026, 11, 1), fingerprint: 'f1',
+        split: { method: 'time', train: 900, validation: 100, customers: 80 },
+        grid: { model: 'ials', best: { factors: 64, regularization: 10 }, ndcg: 0.1234, trials: [], searched: true },
+      },
+      tuningNotes: ['iALS trials ran 3 of the 15 training sweeps each (a cheaper fit to rank settings)'],
+    };
+    const ease = { ...base, id: 2, kind: 'ease', tuning: null, tuningNotes: ['EASE not tuned: 9,000 items, above 5000 (each fit would take minutes); it trains with the default lambda'] };
+    const itemknn = { ...base, id: 3, kind: 'itemknn', tuning: { ...ials.tuning, grid: { ...ials.tuning.grid, model: 'itemknn', best: { k: 50 } } }, tuningNotes: [] };
+    const client = createClient(async (method): Promise<ApiResult<unknown>> => {
+      if (method === 'models.list') return { ok: true, value: { models: [ials, ease, itemknn] } };
+      if (method === 'evaluate.latest') return { ok: true, value: { evaluation: null } };
+      return { ok: false, error: { code: 'input', message: method } };
+    });
+    render(
+      <StoreContext.Provider value={createAppStore(client)}>
+        <Models />
+      </StoreContext.Provider>,
+    );
+    const region = await screen.findByRole('region', { name: 'Trained models' });
+    const notes = await within(region).findByRole('list', { name: 'Tuning notes: iALS' });
+    expect(notes.closest('td')?.textContent).toMatch(/^factors 64, regularization 10 · NDCG@10 0\.123 on held-out signals · tuned .+iALS trials ran 3 of the 15/);
+    expect(within(region).getByRole('list', { name: 'Tuning notes: EASE' }).closest('td')?.textContent).toMatch(/^Not tuned ?EASE not tuned: 9,000 items/);
+    // Every tuned model current with a fingerprint: the default training reuses the tuning, and says so.
+    expect(screen.getByTestId('train-plan').textContent).toMatch(/^The data is unchanged since the last tuning/);
+  });
+});
+
 describe("a model's notes", () => {
   it('open from its row; a model without notes says so with a dash', async () => {
     const info = (id: number, kind: string, notes: string[]) => ({
       id, kind, params: {}, trainedAt: Date.UTC(2026, 11, 1), trainMs: 1200, iterations: null, losses: [], notes,
-      stale: false, sizeBytes: 10, evaluation: null, tuning: null, origin: null,
+      stale: false, sizeBytes: 10, evaluation: null, tuning: null, tuningNotes: [], origin: null,
     });
     const notes = ['EASE not tuned: 9,000 items, above 8,000', 'stored as the top 1,000 weights per item'];
     const client = createClient(async (method): Promise<ApiResult<unknown>> => {

@@ -128,6 +128,11 @@ export const ModelInfo = z.object({
   /** This model's row of the latest offline evaluation, if one ran after it was trained. */
   evaluation: MetricsRow.extend({ evaluatedAt: z.number() }).nullable(),
   tuning: TuningView.nullable(),
+  /**
+   * The tuner's notes about this model from the tuning its settings came from: why it was not tuned (EASE above
+   * its item limit, with tuning null), what a rule decided or the search left out. Empty when none.
+   */
+  tuningNotes: z.array(z.string()),
   /** Where a model trained elsewhere came from (null: trained here). */
   origin: ModelOriginView.nullable(),
 });

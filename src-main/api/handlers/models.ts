@@ -136,6 +136,7 @@ export function modelHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
           sizeBytes: m.sizeBytes,
           evaluation: row && ev.offline ? { ...metricsRow(row), evaluatedAt: ev.offline.evaluatedAt } : null,
           tuning: tuning ? finite(tuning) : null,
+          tuningNotes: ev.tunerNotes ?? [],
           origin: m.report.origin ? { ...m.report.origin, description: describeOrigin(m.report.origin) } : null,
         };
       }),

@@ -25,7 +25,7 @@ import { EASE_GRID, fullyFixed, GRID_PARAMS, IALS_GRID, IALS_SEARCH_ITERATIONS, 
 import { PROMOTE_ETA, promoteTop } from './promote.ts';
 import { coordinateSearch, type Axis, type AxisValue, type Point } from './search.ts';
 import { costSizes, easeCost, ialsCost, itemKnnCost } from './trial-cost.ts';
-import type { GridTrial, ModelTuning } from './tune.ts';
+import type { GridTrial, ModelTuning, TunerNote } from './tune.ts';
 
 export interface ModelSearchOptions {
   train: Csr;
@@ -56,7 +56,7 @@ export interface ModelSearches {
   /** Predicted cost (trial-cost.ts: reference CPU-ms) of one plain fit of the searched models, and of the search's trials. */
   plainMs: number;
   spentMs: number;
-  notes: string[];
+  notes: TunerNote[];
 }
 
 interface Searcher {
@@ -95,7 +95,7 @@ interface Searcher {
 export const IALS_SEARCH_START = { regularization: 10, scaling: 'log', alpha: 1 } as const;
 
 export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches> {
-  const notes: string[] = [];
+  const notes: TunerNote[] = [];
   const fitOpts = o.signal ? { signal: o.signal } : {};
   const items = o.train.cols;
   const searchers: Searcher[] = [];
@@ -194,7 +194,7 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
       },
     }),
   });
-  if (sweeps < o.iterations) notes.push(`iALS trials ran ${sweeps} of the ${o.iterations} training sweeps each (a cheaper fit to rank settings)`);
+  if (sweeps < o.iterations) notes.push({ model: 'ials', text: `iALS trials ran ${sweeps} of the ${o.iterations} training sweeps each (a cheaper fit to rank settings)` });
 
   // 1. The start of every model: its plain cost, and a fitted model even when nothing is searched.
   const trials = new Map<GridModel, GridTrial[]>();
@@ -317,15 +317,15 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
       // At or below the default budget the screening takes the whole share (ialsScreenShare = 1), so no refit is
       // expected there: saying that none fitted would be noise on every default training.
       if (rung.best) {
-        notes.push(`iALS: the best ${rung.promoted.length} of ${screened.length} screened settings refitted with all ${o.iterations} sweeps (successive halving, η ${PROMOTE_ETA}); chosen by that score`);
+        notes.push({ model: 'ials', text: `iALS: the best ${rung.promoted.length} of ${screened.length} screened settings refitted with all ${o.iterations} sweeps (successive halving, η ${PROMOTE_ETA}); chosen by that score` });
       } else if (pr.screenShare < 1) {
-        notes.push(`iALS: no screened setting could be refitted with all ${o.iterations} sweeps within the budget; chosen by its ${sweeps}-sweep score`);
+        notes.push({ model: 'ials', text: `iALS: no screened setting could be refitted with all ${o.iterations} sweeps within the budget; chosen by its ${sweeps}-sweep score` });
       }
     }
     if (model === 'ease') {
       const pick = oneStandardErrorUp(found.best, 'lambda', easePer);
       if (pick) {
-        notes.push(pick.note);
+        notes.push({ model: 'ease', text: pick.note });
         found.best = pick.point;
         found.score = trials.get(model)!.find((t) => JSON.stringify(t.params) === JSON.stringify(pick.point))?.ndcg ?? found.score;
       }

@@ -51,16 +51,23 @@ interface StoredTuning {
  * current model of a searched kind must carry a tuning record with today's data fingerprint (a model trained
  * later without tuning, or any change to items or signals, means tuning again).
  */
-export function reusableTuning(db: Db, kinds: readonly string[]): { params: NonNullable<TrainOptions['params']>; records: Map<string, unknown> } | null {
+export function reusableTuning(
+  db: Db,
+  kinds: readonly string[],
+): { params: NonNullable<TrainOptions['params']>; records: Map<string, unknown>; notes: Map<string, string[]> } | null {
   const now = dataFingerprint(db);
   const current = modelStatus(db);
   const records = new Map<string, unknown>();
+  // The tuner's notes go along with its settings (EASE's "not tuned" has no record of its own to ride on).
+  const notes = new Map<string, string[]>();
   const params: Record<string, Record<string, number | string>> = {};
   // Content has no grid (its weight in the hybrid is the validated blend's, learned at every training).
   for (const kind of ['itemknn', 'ials', 'ease'] as const) {
     if (!kinds.includes(kind)) continue;
     const m = current.find((x) => x.kind === kind);
-    const t = (m?.evaluation as { tuning?: StoredTuning } | null)?.tuning;
+    const ev = m?.evaluation as { tuning?: StoredTuning; tunerNotes?: string[] } | null | undefined;
+    const t = ev?.tuning;
+    if (ev?.tunerNotes?.length) notes.set(kind, ev.tunerNotes);
     if (!t) {
       if (kind === 'ease') continue; // EASE is not tuned above its item limit
       return null;
@@ -72,7 +79,7 @@ export function reusableTuning(db: Db, kinds: readonly string[]): { params: NonN
       params[kind] = Object.fromEntries(Object.entries(t.grid.best).filter(([key]) => grid.includes(key)));
     }
   }
-  return { params: params as NonNullable<TrainOptions['params']>, records };
+  return { params: params as NonNullable<TrainOptions['params']>, records, notes };
 }
 
 export async function tuneAndTrain(
@@ -102,7 +109,8 @@ export async function tuneAndTrain(
     db.transaction(() => {
       summary.models.forEach((kind, q) => {
         const t = reuse.records.get(kind);
-        if (t) repo.setEvaluation(summary.ids[q]!, { tuning: t });
+        const tunerNotes = reuse.notes.get(kind);
+        if (t || tunerNotes) repo.setEvaluation(summary.ids[q]!, { ...(t !== undefined && { tuning: t }), ...(tunerNotes && { tunerNotes }) });
       });
     })();
     return { summary, reused: true };
@@ -154,7 +162,10 @@ export async function tuneAndTrain(
   return { summary, tuning };
 }
 
-/** Stores each model's grid with the model just trained (one transaction). */
+/**
+ * Stores each model's grid with the model just trained (one transaction), and the tuner's notes about that
+ * model (key `tunerNotes`): a model left out of the search (EASE above its item limit) has notes but no grid.
+ */
 export function storeTuning(db: Db, summary: TrainSummary, tuning: TuneResult): void {
   const repo = new ModelRepo(db);
   // The fingerprint of the data trained on, which the tuning read in the same state (both run on this
@@ -163,7 +174,10 @@ export function storeTuning(db: Db, summary: TrainSummary, tuning: TuneResult): 
   db.transaction(() => {
     summary.models.forEach((kind, q) => {
       const grid = tuning.models.find((m) => m.model === kind);
-      if (grid) repo.setEvaluation(summary.ids[q]!, { tuning: { ...common, grid } });
+      const tunerNotes = tuning.notes.filter((n) => n.model === kind).map((n) => n.text);
+      if (grid || tunerNotes.length) {
+        repo.setEvaluation(summary.ids[q]!, { ...(grid && { tuning: { ...common, grid } }), ...(tunerNotes.length && { tunerNotes }) });
+      }
     });
   })();
 }

@@ -24,7 +24,7 @@ import type { KnnNormalize } from '../../core/models/itemknn.ts';
 import { seededRng } from '../../core/rng.ts';
 import type { Dataset } from '../../core/types.ts';
 import { TRAIN_EASE_DEFAULTS, type TrainOptions } from '../train/train-models.ts';
-import { TUNE_BUDGET, type FixedParams } from './grid.ts';
+import { TUNE_BUDGET, type FixedParams, type GridModel } from './grid.ts';
 import { searchModels } from './model-search.ts';
 import type { AxisValue } from './search.ts';
 import { TOO_LITTLE_TO_TUNE, validationSplit } from './split.ts';
@@ -68,7 +68,14 @@ export interface TuneResult {
   /** The budget in plain fits, and the predicted cost (services/tune/trial-cost.ts) of one plain fit of the searched models and of the searches. */
   budget: { plainFits: number; plainMs: number; spentMs: number };
   elapsedMs: number;
-  notes: string[];
+  /** What the search left out or decided by a rule, each about one model (stored with that model: train-tuned.ts). */
+  notes: TunerNote[];
+}
+
+/** One of the tuner's notes, and the model it is about. */
+export interface TunerNote {
+  model: GridModel;
+  text: string;
 }
 
 export interface TuneOptions {
@@ -101,7 +108,7 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
     throw new InputError(`budget must be from ${TUNE_BUDGET.min} to ${TUNE_BUDGET.max} plain fits, got ${budget}`, { column: 'budget' });
   }
   if (ds.items.length === 0 || ds.signals.length === 0) throw new InputError('nothing to tune: import items and signals first');
-  const notes: string[] = [];
+  const notes: TunerNote[] = [];
   const split = validationSplit(ds, { seed });
   const train = buildInteractionMatrix(ds, { rows: split.train });
   const validation = buildInteractionMatrix(ds, { rows: split.validation });
@@ -109,7 +116,7 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   const ev = new RankingEvaluator(train, truth, k, split.unavailable);
   if (ev.customerCount === 0) throw new InputError(TOO_LITTLE_TO_TUNE);
   const useEase = ds.items.length <= EASE_TUNE_MAX_ITEMS;
-  if (!useEase) notes.push(`EASE not tuned: ${ds.items.length} items, above ${EASE_TUNE_MAX_ITEMS} (each fit would take minutes); it trains with the default lambda`);
+  if (!useEase) notes.push({ model: 'ease', text: `EASE not tuned: ${ds.items.length} items, above ${EASE_TUNE_MAX_ITEMS} (each fit would take minutes); it trains with the default lambda` });
 
   const fixed = o.fixed ?? {};
   const measure = (name: string, m: Scorer, perCustomer?: Float64Array): EvalResult => ev.evaluateFill(name, (u, _c, out) => m.scoreInto(u, train, out), perCustomer);

@@ -186,10 +186,20 @@ const trainCommand: CliCommand = {
         return `${m.kind}: ${plural(g.trials.length, 'setting')} tried over ${axes} (${g.search!.stopped === 'budget' ? 'budget spent' : 'no step improved'})`;
       });
     const hybridText = hybridLines(hybrid).filter((l) => !(end.summary ?? '').includes(l.slice('hybrid: '.length))).join('\n');
-    env.io.out(`${end.summary ?? 'done'}\n${table(['model', 'seconds', 'iterations', 'final loss', 'tuned', 'notes'], rows)}${searched.length ? `\nsearched:\n${searched.join('\n')}` : ''}\n${hybridText}`);
+    const tunerNotes = tuningNoteLines(stored.filter((m) => trained(m.kind)));
+    env.io.out(
+      `${end.summary ?? 'done'}\n${table(['model', 'seconds', 'iterations', 'final loss', 'tuned', 'notes'], rows)}` +
+        `${searched.length ? `\nsearched:\n${searched.join('\n')}` : ''}${tunerNotes.length ? `\n${tunerNotes.join('\n')}` : ''}\n${hybridText}`,
+    );
     return EXIT.ok;
   },
 };
+
+/** The tuner's notes, for under a table (too long for a cell): "tuning notes:", then one line per note with its model. */
+function tuningNoteLines(models: readonly StoredModel[]): string[] {
+  const notes = models.flatMap((m) => m.tuningNotes.map((n) => `  ${m.kind}: ${n}`));
+  return notes.length ? ['tuning notes:', ...notes] : [];
+}
 
 /** "hybrid: ..." — what the hybrid is, and how each model scored alone on validation. */
 function hybridLines(h: ResponseOf<'models.list'>['hybrid']): string[] {
@@ -221,10 +231,19 @@ const modelsCommand: CliCommand = {
       m.trainMs / 1000,
       m.stale ? (m.origin ? "stale: the workspace's data changed since the export" : 'stale: retrain') : 'current',
       m.evaluation ? val(m.evaluation.ndcg) : '–',
+      tunedCell(m, null) || (m.tuningNotes.length ? 'not tuned' : '–'),
     ]);
     // A model trained elsewhere says where (docs/cluster.md).
     const origins = r.models.filter((m) => m.origin).map((m) => `${m.kind}: ${m.origin!.description}`);
-    env.io.out([r.models.length ? table(['model', 'trained (UTC)', 'seconds', 'status', 'NDCG (evaluate)'], rows) : 'no trained models', ...origins, ...hybridLines(r.hybrid)].join('\n'));
+    const notes = tuningNoteLines(r.models);
+    env.io.out(
+      [
+        r.models.length ? table(['model', 'trained (UTC)', 'seconds', 'status', 'NDCG (evaluate)', 'tuned'], rows) : 'no trained models',
+        ...notes,
+        ...origins,
+        ...hybridLines(r.hybrid),
+      ].join('\n'),
+    );
     return EXIT.ok;
   },
 };

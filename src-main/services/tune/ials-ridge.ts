@@ -10,7 +10,7 @@
  * together, and they rescale λ so that good values stay on one scale when the weighting changes.
  * Measured on the validation splits (3-sweep trials, 64 factors), the best λ of each α lies within a half decade
  * of λ·c̄(α')/c̄(α) (c̄: the mean confidence of an observed entry): Online Retail log α 0.1, 1, 10, 100: λ 10,
- * 10–32, 100, 320; MovieLens 100K log α 0.1, 1, 10, 100: λ 10, 10, 32, 100–320 (bench/quality/README.md).
+ * 10–32, 100, 320; MovieLens 100K (two splits) log α 0.1, 1, 10, 100: λ 10, 10, 32, 100–320 (bench/quality/README.md).
  * So the α axis steps along that direction and λ is snapped to its own half-decade axis; λ's own line search
  * then corrects the rest. No trial is added: the α axis tries as many points as before.
  */

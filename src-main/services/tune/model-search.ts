@@ -24,7 +24,6 @@ import { TRAIN_EASE_DEFAULTS } from '../train/train-models.ts';
 import { EASE_GRID, fullyFixed, GRID_PARAMS, IALS_GRID, IALS_SEARCH_ITERATIONS, ialsScreenShare, ITEMKNN_GRID, TUNE_BUDGET, type FixedParams, type GridModel } from './grid.ts';
 import { PROMOTE_ETA, promoteTop } from './promote.ts';
 import { coordinateSearch, type Axis, type AxisValue, type Point } from './search.ts';
-import { confidenceMeans, ridgeMove } from './ials-ridge.ts';
 import { costSizes, easeCost, ialsCost, itemKnnCost } from './trial-cost.ts';
 import type { GridTrial, ModelTuning } from './tune.ts';
 
@@ -145,21 +144,15 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
   // (Online Retail: linear α 0.1…100 0.083, 0.064, 0.036, 0.017; log 0.1…100 0.096, 0.093, 0.069, 0.045), so a line
   // search finds its best in two or three fits where the full scan took eight, and the cycle over the axes
   // re-checks the scaling once α has moved.
-  // λ moves in half decades: its optimum on real data is sharp (Online Retail, validation NDCG@20 at 128 factors,
-  // log α 1: λ 10 0.092, λ 32 0.100, λ 100 0.068); a decade grid refined once at the end tried the same points.
-  // λ's axis is the half-decade grid, and a step of α carries λ along with the mean confidence when λ is free
-  // (ials-ridge.ts: the best λ rises with α; a step on α alone lands beside that ridge). Measured before this
-  // coupling, on MovieLens 100K split at 1998-03-01, the search from λ 10 log α 1 never tried linear α 10 with λ
-  // 100, its validation window's best (0.149 against 0.143 for the pick), since each step alone scored lower.
-  const lambdas = halfDecades(IALS_GRID.regularization);
-  const byName = new Map(axesOf('ials', { ...IALS_GRID, regularization: lambdas }, o.fixed).map((a) => [a.name, a] as const));
+  // λ is refined to half decades around its best: its optimum on real data is sharp (Online Retail, validation
+  // NDCG@20 at 128 factors, log α 1: λ 10 0.092, λ 32 0.100, λ 100 0.068).
+  const byName = new Map(axesOf('ials', IALS_GRID, o.fixed).map((a) => [a.name, a] as const));
   // Factors last, λ searched again at each larger count (Searcher.grow), when both are free.
   const growFactors = heldI['factors'] === undefined && heldI['regularization'] === undefined;
-  const ridge = heldI['regularization'] === undefined ? ridgeMove(confidenceMeans(o.train, o.ialsEpsilon ?? IALS_DEFAULTS.epsilon), lambdas) : undefined;
   const ialsAxes: Axis[] = ['scaling', 'alpha', 'regularization', ...(growFactors ? [] : ['factors'])]
     .map((n) => byName.get(n))
     .filter((a): a is Axis => a !== undefined)
-    .map((a) => (a.name === 'alpha' && ridge ? { ...a, move: (from: Point, v: AxisValue) => ridge(from, v) } : a));
+    .map((a) => (a.name === 'regularization' ? { ...a, refine: true } : a));
   const ialsStart: Point = {
     scaling: IALS_SEARCH_START.scaling,
     alpha: IALS_SEARCH_START.alpha,

@@ -17,8 +17,6 @@
  * Choice rule: a point replaces the best only when it scores more than 1e-9 higher (ties keep the earlier point).
  * An axis marked `refine` gets one more step after convergence: the geometric midpoints between its best value
  * and the grid neighbours (successive refinement of a line search, as in a grid search refined around its best).
- * An axis with `move` steps along a coupled direction (the other parameter follows it); the search is otherwise
- * the same (a coordinate search in a rotated basis, Nocedal & Wright §9.3's pattern-search variants).
  */
 import { CancelledError, InputError } from '../../core/errors.ts';
 
@@ -34,14 +32,6 @@ export interface Axis {
    * and its neighbours on the axis (a quarter decade on a half-decade grid), keeping one that scores higher.
    */
   refine?: boolean;
-  /**
-   * A coupled axis: the point tried when this axis takes `v` from the best so far (default: the best with this
-   * axis at `v`). Why: when the best value of another parameter moves with this one (iALS's λ with its α,
-   * ials-ridge.ts), a step along the axis that carries the other along its ridge is judged at a fair setting,
-   * where a step alone lands beside the ridge and scores low. The other parameter's new value must lie on its
-   * own axis, if it has one (it is inserted there otherwise, as a start value is).
-   */
-  move?: (from: Point, v: AxisValue) => Point;
 }
 
 export interface SearchTrial {
@@ -92,16 +82,7 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
     values: withStart(a, o.start[a.name]),
     ordered: a.values.every((x) => typeof x === 'number'),
     refine: a.refine === true,
-    move: a.move,
   }));
-  /** A coupled move may land another axis between its values: put the value on that axis, in order. */
-  const onAxes = (p: Point) => {
-    for (const axis of axes) {
-      const v = p[axis.name];
-      if (v !== undefined && !axis.values.includes(v)) axis.values = withStart({ name: axis.name, values: axis.values }, v);
-    }
-    return p;
-  };
   const seen = new Map<string, number>();
   const trials: SearchTrial[] = [];
   let spent = 0;
@@ -133,7 +114,7 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
   for (;;) {
     let improved = false;
     for (const axis of axes) {
-      const at = (v: AxisValue): Point => onAxes(axis.move ? axis.move(best, v) : { ...best, [axis.name]: v });
+      const at = (v: AxisValue): Point => ({ ...best, [axis.name]: v });
       if (!axis.ordered) {
         for (const v of axis.values) {
           const s = await score(at(v));

@@ -32,6 +32,12 @@ export interface Axis {
    * and its neighbours on the axis (a quarter decade on a half-decade grid), keeping one that scores higher.
    */
   refine?: boolean;
+  /**
+   * Walk the values in their listed order as an ordered axis although not all are numbers (a half-life axis:
+   * 'off', then ever shorter half-lives). Default: ordered when every value is a number. Refinement then uses the
+   * numeric neighbours only.
+   */
+  ordered?: boolean;
 }
 
 export interface SearchTrial {
@@ -80,7 +86,7 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
   const axes = o.axes.map((a) => ({
     name: a.name,
     values: withStart(a, o.start[a.name]),
-    ordered: a.values.every((x) => typeof x === 'number'),
+    ordered: a.ordered ?? a.values.every((x) => typeof x === 'number'),
     refine: a.refine === true,
   }));
   const seen = new Map<string, number>();
@@ -157,9 +163,11 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
   // quality is close to unimodal along such an axis, so the optimum lies within a grid step of the best.
   for (const axis of axes) {
     if (!axis.refine || !axis.ordered) continue;
-    const v = axis.values as number[];
-    const i = v.indexOf(best[axis.name] as number);
-    const mids = [v[i - 1], v[i + 1]].filter((x): x is number => x !== undefined && x > 0).map((x) => Number(Math.sqrt(x * v[i]!).toPrecision(2)));
+    const v = axis.values;
+    const i = v.indexOf(best[axis.name]!);
+    const at = v[i];
+    if (typeof at !== 'number') continue;
+    const mids = [v[i - 1], v[i + 1]].filter((x): x is number => typeof x === 'number' && x > 0).map((x) => Number(Math.sqrt(x * at).toPrecision(2)));
     let winner: { p: Point; s: number } | null = null;
     for (const m of mids) {
       const p = { ...best, [axis.name]: m };

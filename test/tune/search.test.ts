@@ -121,3 +121,26 @@ describe('coordinateSearch', () => {
     );
   });
 });
+
+describe('coordinateSearch on an axis with a simplest value (a half-life with "off")', () => {
+  const half = { name: 'h', values: ['off', 730, 180, 45, 11], ordered: true, simplest: 'off' };
+  // Unimodal in the half-life with its peak at 180 days, 730 barely above off: the walk must not stop at the
+  // first step merely because that step alone is small (common practice, no source: a known objective).
+  const score: Record<string, number> = { off: 0.1, 730: 0.1001, 180: 0.12, 45: 0.11, 11: 0.09 };
+  const run = (significant: (a: Point, b: Point) => boolean) =>
+    coordinateSearch({ axes: [half], start: { h: 'off' }, budget: 100, cost: () => 1, evaluate: (p) => score[String(p['h'])]!, significant });
+
+  it('walks away from it while each step beats the last, and moves to the walk\'s best when that is significant', async () => {
+    const asked: [unknown, unknown][] = [];
+    const r = await run((a, b) => (asked.push([a['h'], b['h']]), true));
+    expect(r.best).toEqual({ h: 180 });
+    expect(r.trials.map((t) => t.point['h'])).toEqual(['off', 730, 180, 45]);
+    expect(asked).toEqual([[180, 'off']]);
+  });
+
+  it('stays at the simplest value when the best of the walk is not significantly better', async () => {
+    const r = await run(() => false);
+    expect(r.best).toEqual({ h: 'off' });
+    expect(r.score).toBe(0.1);
+  });
+});

@@ -161,6 +161,7 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
           values: HALF_LIFE_GRID,
           ordered: true,
           refine: true,
+          simplest: 'off',
         }))
       : [];
   const recencyStart = (): Point => (timed ? { fitHalfLifeDays: 'off', profileHalfLifeDays: 'off' } : {});
@@ -300,6 +301,18 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
   const trials = new Map<GridModel, GridTrial[]>();
   /** EASE's per-customer NDCG of each trial, by point (the one-standard-error rule below). */
   const easePer = new Map<string, Float64Array>();
+  /** Per-customer NDCG of each trial of the models with recency axes, by point (searchKey), for `significant`. */
+  const perTrial = new Map<GridModel, Map<string, Float64Array>>([
+    ['ease', new Map()],
+    ['itemknn', new Map()],
+  ]);
+  const perCustomer = (model: GridModel, p: Point): Float64Array | undefined => {
+    const keep = perTrial.get(model);
+    if (!keep) return undefined;
+    const per = new Float64Array(o.customers);
+    keep.set(searchKey(p), per);
+    return per;
+  };
   const startScore = new Map<GridModel, EvalResult>();
   const unit = new Map<GridModel, number>();
   let plainMs = 0;
@@ -308,10 +321,10 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
     o.onTrial(s.model, 1, 0);
     const t0 = now();
     const m = await s.fit(s.start);
-    const per = s.model === 'ease' ? new Float64Array(o.customers) : undefined;
+    const per = perCustomer(s.model, s.start);
     const r = o.measure(s.model, m, per);
     s.scored?.(s.start, r.ndcg);
-    if (per) easePer.set(JSON.stringify(s.start), per);
+    if (per && s.model === 'ease') easePer.set(JSON.stringify(s.start), per);
     const ms = now() - t0;
     startScore.set(s.model, r);
     const shown = s.shown ?? ((p: Point) => p);
@@ -346,10 +359,10 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
       if (JSON.stringify(p) === startKey) return startScore.get(model)!.ndcg;
       const t0 = now();
       const m = await s.fit(p);
-      const per = model === 'ease' ? new Float64Array(o.customers) : undefined;
+      const per = perCustomer(model, p);
       const r = o.measure(model, m, per);
       s.scored?.(p, r.ndcg);
-      if (per) easePer.set(JSON.stringify(p), per);
+      if (per && model === 'ease') easePer.set(JSON.stringify(p), per);
       const list = trials.get(model)!;
       list.push({ params: (s.shown ?? ((x: Point) => ({ ...x })))(p), ndcg: r.ndcg, recall: r.cappedRecall, elapsedMs: now() - t0 });
       return r.ndcg;
@@ -362,6 +375,12 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
       ...(o.signal && { signal: o.signal }),
       onTrial: (t) => o.onTrial(model, t.trial, pool > 0 ? Math.min(1, (spent + t.spent) / pool) : 1),
       evaluate,
+      significant: (candidate, incumbent) => {
+        const per = perTrial.get(model);
+        const a = per?.get(searchKey(candidate));
+        const b = per?.get(searchKey(incumbent));
+        return a !== undefined && b !== undefined && significantlyBetter(a, b);
+      },
     });
     let searchedSpent = found.spent;
     const grown: number[] = [];
@@ -476,6 +495,37 @@ export function halfDecades(grid: readonly number[]): number[] {
 function axesOf<M extends GridModel>(model: M, grid: Record<string, readonly (number | string)[]>, fixed: FixedParams): Axis[] {
   const held = (fixed[model] ?? {}) as Record<string, unknown>;
   return (GRID_PARAMS[model] as readonly string[]).filter((p) => held[p] === undefined && grid[p] !== undefined).map((name) => ({ name, values: grid[name]! }));
+}
+
+/** The key of a point whatever the order of its parameters (the search's own key, search.ts). */
+const searchKey = (p: Point) => JSON.stringify(Object.keys(p).sort().map((k) => [k, p[k]]));
+
+/**
+ * Standard errors by which a recency setting must beat "off": 2, about the two-sided 5% bound of a paired z-test
+ * (the normal 97.5% quantile 1.96, rounded up). Why not the one standard error of EASE's λ rule: there the rule
+ * picks among tied values; here it decides whether to add a parameter at all, after a walk over several
+ * half-lives, and on the stationary synthetic logs of test/tune/recency-search.test.ts one standard error let a
+ * decayed setting win 8 of 32 model × side choices by chance (two: 3 of 32), while on drifting ones both bars
+ * found a profile half-life every time.
+ */
+const SIGNIFICANT_SE = 2;
+
+/**
+ * True when `a` beats `b` by more than SIGNIFICANT_SE standard errors of the paired per-customer difference (a
+ * paired z-test; the per-customer pairing as in the one-standard-error rule, Hastie, Tibshirani & Friedman, The
+ * Elements of Statistical Learning, 2nd ed., §7.10): the simpler model is kept unless the more complex one is
+ * better beyond noise. Why for recency: leaving "off" adds a parameter, and on a log where age carries no
+ * information a decayed setting still wins validation by chance now and then.
+ */
+export function significantlyBetter(a: Float64Array, b: Float64Array): boolean {
+  const n = a.length;
+  if (n < 2 || b.length !== n) return false;
+  let sum = 0;
+  for (let c = 0; c < n; c++) sum += a[c]! - b[c]!;
+  const mean = sum / n;
+  let ss = 0;
+  for (let c = 0; c < n; c++) ss += (a[c]! - b[c]! - mean) ** 2;
+  return mean > SIGNIFICANT_SE * Math.sqrt(ss / (n - 1) / n);
 }
 
 /** True when some entry of the matrix is older than another: only then can recency tell entries apart. */

@@ -38,6 +38,11 @@ export interface Axis {
    * numeric neighbours only.
    */
   ordered?: boolean;
+  /**
+   * The axis's simplest value (a half-life's 'off'): a move away from it must also pass `SearchOptions.significant`,
+   * so that a more complex setting is taken only when it is better beyond noise.
+   */
+  simplest?: AxisValue;
 }
 
 export interface SearchTrial {
@@ -65,6 +70,11 @@ export interface SearchOptions {
   cost: (p: Point) => number;
   evaluate: (p: Point) => Promise<number> | number;
   signal?: AbortSignal;
+  /**
+   * Whether `candidate` beats `incumbent` beyond noise (both evaluated); asked only for a move away from an axis's
+   * `simplest` value. Default: any higher score is enough.
+   */
+  significant?: (candidate: Point, incumbent: Point) => boolean;
   /** Called before each evaluation: spent units so far and the point about to be fitted. */
   onTrial?: (p: { point: Point; spent: number; budget: number; trial: number }) => void;
 }
@@ -88,6 +98,7 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
     values: withStart(a, o.start[a.name]),
     ordered: a.ordered ?? a.values.every((x) => typeof x === 'number'),
     refine: a.refine === true,
+    simplest: a.simplest,
   }));
   const seen = new Map<string, number>();
   const trials: SearchTrial[] = [];
@@ -115,20 +126,46 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
 
   let best: Point = { ...o.start };
   let bestScore = (await score(best, true))!;
-  const better = (s: number | null): s is number => s !== null && s > bestScore + 1e-9;
+  const beats = (s: number | null): s is number => s !== null && s > bestScore + 1e-9;
 
   for (;;) {
     let improved = false;
     for (const axis of axes) {
       const at = (v: AxisValue): Point => ({ ...best, [axis.name]: v });
+      // Leaving the axis's simplest value takes a significant gain (SearchOptions.significant), not just any.
+      const better = (s: number | null, v: AxisValue): s is number =>
+        beats(s) && (axis.simplest === undefined || best[axis.name] !== axis.simplest || !o.significant || o.significant(at(v), best));
       if (!axis.ordered) {
         for (const v of axis.values) {
           const s = await score(at(v));
-          if (better(s)) {
+          if (better(s, v)) {
             best = at(v);
             bestScore = s;
             improved = true;
           }
+        }
+        continue;
+      }
+      // At an ordered axis's simplest value (a half-life's 'off'): walk away from it while each step beats the
+      // last (not the simplest: the first step off it is the smallest change, often too small to tell from noise),
+      // then move to the walk's best only if it beats the simplest significantly.
+      if (axis.simplest !== undefined && best[axis.name] === axis.simplest && o.significant) {
+        const i0 = axis.values.indexOf(best[axis.name]!);
+        let top: { v: AxisValue; s: number } | null = null;
+        for (const d of [1, -1]) {
+          let last = -Infinity;
+          for (let j = i0 + d; axis.values[j] !== undefined; j += d) {
+            const v = axis.values[j]!;
+            const s = await score(at(v));
+            if (s === null || !(s > last + 1e-9)) break;
+            last = s;
+            if (!top || s > top.s + 1e-9) top = { v, s };
+          }
+        }
+        if (top && beats(top.s) && o.significant(at(top.v), best)) {
+          best = at(top.v);
+          bestScore = top.s;
+          improved = true;
         }
         continue;
       }
@@ -139,7 +176,7 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
         const v = axis.values[i + d];
         if (v === undefined) continue;
         const s = await score(at(v));
-        if (better(s)) {
+        if (better(s, v)) {
           best = at(v);
           bestScore = s;
           dir = d;
@@ -151,7 +188,7 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
       i += dir;
       for (let v = axis.values[i + dir]; v !== undefined; v = axis.values[i + dir]) {
         const s = await score(at(v));
-        if (!better(s)) break;
+        if (!better(s, v)) break;
         best = at(v);
         bestScore = s;
         i += dir;
@@ -172,7 +209,7 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
     for (const m of mids) {
       const p = { ...best, [axis.name]: m };
       const s = await score(p);
-      if (better(s) && (!winner || s > winner.s + 1e-9)) winner = { p, s };
+      if (beats(s) && (!winner || s > winner.s + 1e-9)) winner = { p, s };
     }
     if (winner) {
       best = winner.p;

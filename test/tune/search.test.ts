@@ -135,12 +135,32 @@ describe('coordinateSearch on an axis with a simplest value (a half-life with "o
     const r = await run((a, b) => (asked.push([a['h'], b['h']]), true));
     expect(r.best).toEqual({ h: 180 });
     expect(r.trials.map((t) => t.point['h'])).toEqual(['off', 730, 180, 45]);
-    expect(asked).toEqual([[180, 'off']]);
+    // Asked once after the walk, and once more at the end (is the final best still significantly above off?).
+    expect(asked).toEqual([
+      [180, 'off'],
+      [180, 'off'],
+    ]);
   });
 
   it('stays at the simplest value when the best of the walk is not significantly better', async () => {
     const r = await run(() => false);
     expect(r.best).toEqual({ h: 'off' });
     expect(r.score).toBe(0.1);
+  });
+
+  it('returns to the simplest value when the best, after later moves, is no longer significantly better than it', async () => {
+    // Two axes: the half-life walk passes at first, then the other axis moves, after which 180 days is only a
+    // hair above off (that point is evaluated at the end); the choice falls back to off.
+    const table: Record<string, number> = { 'off|a': 0.1, '730|a': 0.1, '180|a': 0.2, '45|a': 0.15, '11|a': 0.1, 'off|b': 0.3, '180|b': 0.30001, '730|b': 0.3, '45|b': 0.29, '11|b': 0.28 };
+    const r = await coordinateSearch({
+      axes: [half, { name: 'x', values: ['a', 'b'] }],
+      start: { h: 'off', x: 'a' },
+      budget: 100,
+      cost: () => 1,
+      evaluate: (p) => table[`${String(p['h'])}|${String(p['x'])}`]!,
+      significant: (a, b) => table[`${String(a['h'])}|${String(a['x'])}`]! - table[`${String(b['h'])}|${String(b['x'])}`]! > 0.01,
+    });
+    expect(r.best).toEqual({ h: 'off', x: 'b' });
+    expect(r.score).toBe(0.3);
   });
 });

@@ -163,4 +163,19 @@ describe('coordinateSearch on an axis with a simplest value (a half-life with "o
     expect(r.best).toEqual({ h: 'off', x: 'b' });
     expect(r.score).toBe(0.3);
   });
+
+  it('refines on the side of the better neighbour first, so a budget for one midpoint tries that one', async () => {
+    // λ on a half-decade grid, best at 10 with neighbours 1 (0.091) and 100 (0.093): 32 before 3.2 (a known
+    // unimodal objective peaking near 30; common practice, no source).
+    const f: Record<number, number> = { 1: 0.091, 3.2: 0.099, 10: 0.143, 32: 0.167, 100: 0.093 };
+    const r = await coordinateSearch({
+      axes: [{ name: 'lambda', values: [1, 10, 100], refine: true }],
+      start: { lambda: 10 },
+      budget: 4, // the start, 100 and 1, then one midpoint
+      cost: () => 1,
+      evaluate: (p) => f[p['lambda'] as number]!,
+    });
+    expect(r.trials.map((t) => t.point['lambda'])).toEqual([10, 100, 1, 32]);
+    expect(r.best).toEqual({ lambda: 32 });
+  });
 });

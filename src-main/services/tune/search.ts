@@ -204,7 +204,15 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
     const i = v.indexOf(best[axis.name]!);
     const at = v[i];
     if (typeof at !== 'number') continue;
-    const mids = [v[i - 1], v[i + 1]].filter((x): x is number => typeof x === 'number' && x > 0).map((x) => Number(Math.sqrt(x * at).toPrecision(2)));
+    // The midpoint on the side of the better-scoring neighbour first: on a unimodal axis the optimum lies more
+    // likely between the best and its better neighbour, so when the budget affords one midpoint only it is that
+    // one (the demo shop's iALS: λ 10 between 1 and 100, scoring 0.091 and 0.093: 32 before 3.2). Unscored
+    // neighbours come last; both midpoints are tried when affordable and the better kept, in any order.
+    const side = (x: number) => seen.get(key({ ...best, [axis.name]: x })) ?? -Infinity;
+    const mids = [v[i - 1], v[i + 1]]
+      .filter((x): x is number => typeof x === 'number' && x > 0)
+      .sort((a, b) => side(b) - side(a))
+      .map((x) => Number(Math.sqrt(x * at).toPrecision(2)));
     let winner: { p: Point; s: number } | null = null;
     for (const m of mids) {
       const p = { ...best, [axis.name]: m };

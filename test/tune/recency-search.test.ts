@@ -68,8 +68,8 @@ describe('tuning the recency half-lives', () => {
   it('keeps them off where recency carries no information (a stationary log), but for rare chance wins', async () => {
     const c = await choices(false);
     // 8 seeds × 2 models × 2 sides = 32 choices; a decayed side must beat off by two standard errors (a paired
-    // z-test at about 5%, model-search.ts SIGNIFICANT_SE), after a walk over several half-lives, so a few chance
-    // wins are expected; at most 4 of 32 (3 on these seeds; 8 with a one-standard-error bar).
+    // z-test at about 5%, model-search.ts SIGNIFICANT_SE), after trying several half-lives, so a few chance wins
+    // are expected; at most 4 of 32 (2 on these seeds).
     const decayed = c.reduce((n, x) => n + Number(x.fit !== 'off') + Number(x.profile !== 'off'), 0);
     expect(decayed).toBeLessThanOrEqual(4);
     expect(c.filter((x) => x.fit === 'off' && x.profile === 'off').length).toBeGreaterThanOrEqual(13);

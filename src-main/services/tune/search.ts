@@ -146,21 +146,18 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
         }
         continue;
       }
-      // At an ordered axis's simplest value (a half-life's 'off'): walk away from it while each step beats the
-      // last (not the simplest: the first step off it is the smallest change, often too small to tell from noise),
-      // then move to the walk's best only if it beats the simplest significantly.
+      // At an axis's simplest value (a half-life's 'off'): try every other value (in order, budget permitting),
+      // then move to the best only if it beats the simplest significantly. Every value, not a walk that stops at
+      // the first loss: near the simplest value the response need not be unimodal, a slight change losing while a
+      // larger one wins (Online Retail, item-kNN at k 10, validation NDCG@20: a fit half-life of 730 days 0.0919,
+      // 11 days 0.107; at k 50 730 and 180 days fell below off, 0.0779 and 0.0769 against 0.0788, and a walk
+      // stopped there). The axis is short (4 half-lives), and the significance test guards the choice.
       if (axis.simplest !== undefined && best[axis.name] === axis.simplest && o.significant) {
-        const i0 = axis.values.indexOf(best[axis.name]!);
         let top: { v: AxisValue; s: number } | null = null;
-        for (const d of [1, -1]) {
-          let last = -Infinity;
-          for (let j = i0 + d; axis.values[j] !== undefined; j += d) {
-            const v = axis.values[j]!;
-            const s = await score(at(v));
-            if (s === null || !(s > last + 1e-9)) break;
-            last = s;
-            if (!top || s > top.s + 1e-9) top = { v, s };
-          }
+        for (const v of axis.values) {
+          if (v === axis.simplest) continue;
+          const s = await score(at(v));
+          if (s !== null && (!top || s > top.s + 1e-9)) top = { v, s };
         }
         if (top && beats(top.s) && o.significant(at(top.v), best)) {
           best = at(top.v);

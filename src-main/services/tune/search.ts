@@ -128,6 +128,8 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
   let bestScore = (await score(best, true))!;
   const beats = (s: number | null): s is number => s !== null && s > bestScore + 1e-9;
 
+  /** Axes whose every value was tried from their simplest value (once per search). */
+  const scanned = new Set<string>();
   for (;;) {
     let improved = false;
     for (const axis of axes) {
@@ -152,12 +154,20 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
       // larger one wins (Online Retail, item-kNN at k 10, validation NDCG@20: a fit half-life of 730 days 0.0919,
       // 11 days 0.107; at k 50 730 and 180 days fell below off, 0.0779 and 0.0769 against 0.0788, and a walk
       // stopped there). The axis is short (4 half-lives), and the significance test guards the choice.
+      // The scan once per axis; when a later cycle comes back to the simplest value (other axes having moved), a
+      // walk re-checks it (each step must beat the last), so the recency axes do not take a whole scan of the
+      // budget at every cycle.
       if (axis.simplest !== undefined && best[axis.name] === axis.simplest && o.significant) {
+        const walk = scanned.has(axis.name);
+        scanned.add(axis.name);
         let top: { v: AxisValue; s: number } | null = null;
+        let last = -Infinity;
         for (const v of axis.values) {
           if (v === axis.simplest) continue;
           const s = await score(at(v));
           if (s !== null && (!top || s > top.s + 1e-9)) top = { v, s };
+          if (walk && !(s !== null && s > last + 1e-9)) break;
+          last = s ?? -Infinity;
         }
         if (top && beats(top.s) && o.significant(at(top.v), best)) {
           best = at(top.v);

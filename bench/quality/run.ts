@@ -138,6 +138,7 @@ async function main() {
     '',
     `ours, tuned: ${JSON.stringify(tuned?.params ?? null)}; hybrid ${tuned?.weightsFrom ?? '—'}`,
     `reference, tuned: ${ref ? JSON.stringify(Object.fromEntries(Object.entries(ref.report.models).map(([m, v]) => [m, v.params]))) : '—'}`,
+    recencyLine(tuned?.params ?? plain?.params ?? null),
   ];
   const text = lines.join('\n');
   console.log(`\n${text}`);
@@ -145,6 +146,19 @@ async function main() {
   fs.writeFileSync(path.join(out, 'quality.json'), JSON.stringify({ k, data, tuned: tuned && { ...tuned, perCustomer: undefined }, plain: plain && { ...plain, perCustomer: undefined }, reference: ref?.report ?? null, metricCheck: check, targets: table.targets }, null, 1));
   if (flag('keep')) say(`workspaces kept in ${tmp}`);
   else fs.rmSync(tmp, { recursive: true, force: true });
+}
+
+/**
+ * Which of our models score with recency (core/matrix/values.ts "Recency") and their half-lives: the reference
+ * fits the published methods without decay, so a reader sees where ours differs from it by that alone.
+ */
+function recencyLine(params: Record<string, Record<string, unknown>> | null): string {
+  if (!params) return 'recency: —';
+  const days = (h: unknown) => (typeof h === 'number' ? `${h} d` : 'off');
+  const used = Object.entries(params)
+    .filter(([, p]) => typeof p['fitHalfLifeDays'] === 'number' || typeof p['profileHalfLifeDays'] === 'number')
+    .map(([m, p]) => `${m} (fit ${days(p['fitHalfLifeDays'])}, profile ${days(p['profileHalfLifeDays'])})`);
+  return `recency (ours only; the reference has no time decay): ${used.length ? `half-lives chosen on validation for ${used.join(', ')}` : 'no model uses it'}`;
 }
 
 main().catch((e: unknown) => {

@@ -51,6 +51,10 @@ describe('train flags out of range', () => {
     [['--knn-values', 'sqrt'], /--knn-values must be presence, log or linear, got 'sqrt'/],
     [['--ease-values', 'binary'], /--ease-values must be presence, log or linear, got 'binary'/],
     [['--knn-normalize', 'max'], /--knn-normalize must be none or sum, got 'max'/],
+    [['--ease-fit-half-life', '0'], /--ease-fit-half-life must be a number of days > 0 or off, got '0'/],
+    [['--ease-profile-half-life=-7'], /--ease-profile-half-life must be a number of days > 0 or off, got '-7'/],
+    [['--knn-fit-half-life', 'NaN'], /--knn-fit-half-life must be a number of days > 0 or off, got 'NaN'/],
+    [['--knn-profile-half-life', 'soon'], /--knn-profile-half-life must be a number of days > 0 or off, got 'soon'/],
     [['--no-tune', '--tune'], /give --tune or --no-tune, not both/],
     [['--no-tune', '--budget', '2'], /--budget sets what tuning may spend; it does nothing with --no-tune/],
   ])('train %j is a usage error naming the flag, and stores nothing', async (flags, message) => {

@@ -121,3 +121,62 @@ describe('coordinateSearch', () => {
     );
   });
 });
+
+describe('coordinateSearch on an axis with a simplest value (a half-life with "off")', () => {
+  const half = { name: 'h', values: ['off', 730, 180, 45, 11], ordered: true, simplest: 'off' };
+  // Peak at 180 days with 730 below off: a walk from off would stop at 730; the scan must not (common practice,
+  // no source: a known objective).
+  const score: Record<string, number> = { off: 0.1, 730: 0.099, 180: 0.12, 45: 0.11, 11: 0.09 };
+  const run = (significant: (a: Point, b: Point) => boolean) =>
+    coordinateSearch({ axes: [half], start: { h: 'off' }, budget: 100, cost: () => 1, evaluate: (p) => score[String(p['h'])]!, significant });
+
+  it('tries every other value, and moves to the best when that is significantly better', async () => {
+    const asked: [unknown, unknown][] = [];
+    const r = await run((a, b) => (asked.push([a['h'], b['h']]), true));
+    expect(r.best).toEqual({ h: 180 });
+    // Every half-life, then the refinement's midpoints beside 180 (360 and 90, unscored here: NaN is a loss).
+    expect(r.trials.map((t) => t.point['h']).slice(0, 5)).toEqual(['off', 730, 180, 45, 11]);
+    // Asked once after the walk, and once more at the end (is the final best still significantly above off?).
+    expect(asked).toEqual([
+      [180, 'off'],
+      [180, 'off'],
+    ]);
+  });
+
+  it('stays at the simplest value when the best of the walk is not significantly better', async () => {
+    const r = await run(() => false);
+    expect(r.best).toEqual({ h: 'off' });
+    expect(r.score).toBe(0.1);
+  });
+
+  it('returns to the simplest value when the best, after later moves, is no longer significantly better than it', async () => {
+    // Two axes: the half-life walk passes at first, then the other axis moves, after which 180 days is only a
+    // hair above off (that point is evaluated at the end); the choice falls back to off.
+    const table: Record<string, number> = { 'off|a': 0.1, '730|a': 0.1, '180|a': 0.2, '45|a': 0.15, '11|a': 0.1, 'off|b': 0.3, '180|b': 0.30001, '730|b': 0.3, '45|b': 0.29, '11|b': 0.28, '360|a': 0.19, '90|a': 0.18, '360|b': 0.29, '90|b': 0.29 };
+    const r = await coordinateSearch({
+      axes: [half, { name: 'x', values: ['a', 'b'] }],
+      start: { h: 'off', x: 'a' },
+      budget: 100,
+      cost: () => 1,
+      evaluate: (p) => table[`${String(p['h'])}|${String(p['x'])}`]!,
+      significant: (a, b) => table[`${String(a['h'])}|${String(a['x'])}`]! - table[`${String(b['h'])}|${String(b['x'])}`]! > 0.01,
+    });
+    expect(r.best).toEqual({ h: 'off', x: 'b' });
+    expect(r.score).toBe(0.3);
+  });
+
+  it('refines on the side of the better neighbour first, so a budget for one midpoint tries that one', async () => {
+    // λ on a half-decade grid, best at 10 with neighbours 1 (0.091) and 100 (0.093): 32 before 3.2 (a known
+    // unimodal objective peaking near 30; common practice, no source).
+    const f: Record<number, number> = { 1: 0.091, 3.2: 0.099, 10: 0.143, 32: 0.167, 100: 0.093 };
+    const r = await coordinateSearch({
+      axes: [{ name: 'lambda', values: [1, 10, 100], refine: true }],
+      start: { lambda: 10 },
+      budget: 4, // the start, 100 and 1, then one midpoint
+      cost: () => 1,
+      evaluate: (p) => f[p['lambda'] as number]!,
+    });
+    expect(r.trials.map((t) => t.point['lambda'])).toEqual([10, 100, 1, 32]);
+    expect(r.best).toEqual({ lambda: 32 });
+  });
+});

@@ -117,7 +117,11 @@ describe('fixing grid parameters', () => {
     expect(fixedParams({ ials: { factors: 32, iterations: 3, seed: 2 }, itemknn: {}, ease: { lambda: 300 } })).toEqual({ ials: { factors: 32 }, ease: { lambda: 300 } });
     expect(fixedParams(undefined)).toEqual({});
     expect(fullyFixed('ease', { ease: { lambda: 300 } })).toBe(false);
-    expect(fullyFixed('ease', { ease: { lambda: 300, values: 'log' } })).toBe(true);
+    // With times the recency half-lives are grid parameters too; without times they are not searched.
+    expect(fullyFixed('ease', { ease: { lambda: 300, values: 'log' } })).toBe(false);
+    expect(fullyFixed('ease', { ease: { lambda: 300, values: 'log' } }, false)).toBe(true);
+    expect(fullyFixed('ease', { ease: { lambda: 300, values: 'log', fitHalfLifeDays: 'off', profileHalfLifeDays: 90 } })).toBe(true);
+    expect(fixedParams({ ease: { lambda: 300, fitHalfLifeDays: null, profileHalfLifeDays: 90 } })).toEqual({ ease: { lambda: 300, fitHalfLifeDays: 'off', profileHalfLifeDays: 90 } });
     expect(fullyFixed('ials', { ials: { factors: 3, regularization: 0.1, alpha: 1 } })).toBe(false);
     expect(fullyFixed('ials', { ials: { factors: 3, regularization: 0.1, alpha: 1, scaling: 'log' } })).toBe(true);
   });

@@ -102,9 +102,11 @@ describe('tuneDataset', () => {
     });
     const grid = (m: string) => r.models.find((x) => x.model === m)!;
     // The first trial of each model is its defaults (the start of the coordinate search), except iALS, which
-    // starts at regularisation 10 with log confidence (model-search.ts IALS_SEARCH_START).
-    expect(grid('itemknn').trials[0]!.params).toEqual({ k: 50, shrink: 10, values: 'presence', normalize: 'none' });
-    expect(grid('ease').trials[0]!.params).toEqual({ lambda: 500, values: 'presence' });
+    // starts at regularisation 10 with log confidence (model-search.ts IALS_SEARCH_START). The shop's signals have
+    // times, so item-kNN and EASE also start with both recency half-lives off.
+    const off = { fitHalfLifeDays: 'off', profileHalfLifeDays: 'off' };
+    expect(grid('itemknn').trials[0]!.params).toEqual({ k: 50, shrink: 10, values: 'presence', normalize: 'none', ...off });
+    expect(grid('ease').trials[0]!.params).toEqual({ lambda: 500, values: 'presence', ...off });
     expect(grid('ials').trials[0]!.params).toEqual({ regularization: 10, alpha: 1, scaling: 'log', factors: 64 });
     // The hybrid is not tuned here: the validated blend is learned at training (blend.ts).
     expect(r.models.map((m) => m.model)).toEqual(['itemknn', 'ease', 'ials']);
@@ -143,8 +145,10 @@ describe('tuneDataset', () => {
     for (let q = 1; q < seen.length; q++) expect(seen[q]!).toBeGreaterThanOrEqual(seen[q - 1]!);
     expect(seen.at(-1)).toBe(1);
     expect(r.params.ials).toMatchObject(grid('ials').best);
-    expect(r.params.itemknn).toEqual(grid('itemknn').best);
-    expect(r.params.ease).toMatchObject(grid('ease').best);
+    // As training parameters a half-life's 'off' is null.
+    const asParams = (b: Record<string, number | string>) => Object.fromEntries(Object.entries(b).map(([key, v]) => [key, v === 'off' ? null : v]));
+    expect(r.params.itemknn).toEqual(asParams(grid('itemknn').best));
+    expect(r.params.ease).toMatchObject(asParams(grid('ease').best));
     expect(r.split.method).toBe('time');
   }, 60_000);
 

@@ -29,6 +29,15 @@ const TuneRequest = z
   })
   .strict();
 
+/**
+ * The recency half-lives of item-kNN and EASE (core/matrix/values.ts "Recency"): days > 0, or null for off
+ * (held off during tuning); left out, tuning searches them when the signals have times.
+ */
+const RecencyFields = {
+  fitHalfLifeDays: z.number().positive().finite().nullable().optional(),
+  profileHalfLifeDays: z.number().positive().finite().nullable().optional(),
+};
+
 export const TrainRequest = z
   .object({
     /** Which models (default all five). */
@@ -45,10 +54,16 @@ export const TrainRequest = z
       .strict()
       .optional(),
     itemknn: z
-      .object({ k: z.number().int().min(1).optional(), shrink: z.number().min(0).optional(), values: ValueTransformName.optional(), normalize: z.enum(['none', 'sum']).optional() })
+      .object({
+        k: z.number().int().min(1).optional(),
+        shrink: z.number().min(0).optional(),
+        values: ValueTransformName.optional(),
+        normalize: z.enum(['none', 'sum']).optional(),
+        ...RecencyFields,
+      })
       .strict()
       .optional(),
-    ease: z.object({ lambda: z.number().positive().optional(), values: ValueTransformName.optional() }).strict().optional(),
+    ease: z.object({ lambda: z.number().positive().optional(), values: ValueTransformName.optional(), ...RecencyFields }).strict().optional(),
     threads: z.number().int().min(1).max(8).optional(),
     /**
      * Tune each model's grid on a validation split first, then train the best settings on all signals. `when`:

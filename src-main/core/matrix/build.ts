@@ -42,6 +42,10 @@ export interface BuildOptions {
  * count or quantity, usually 1); ratings weigh w_rating · max(0, value − RATING_NEUTRAL); signals whose
  * weight is not positive are left out. Signals without a time are not decayed (age unknown, not old).
  *
+ * When any signal used has a time, the matrix also carries `ageDays`: per entry, the age in days of the pair's
+ * latest signal before `now` (untimed signals count as age 0, i.e. never decayed). Models that weigh entries by
+ * recency (matrix/values.ts `decayedValue`) read it; one Float32Array per entry, none for an untimed log.
+ *
  * Built without per-signal allocation: weights go into one Float32Array; the entries are counted and
  * filled item-major (a counting sort on items), then transposed, which yields customer rows whose columns
  * are already ascending — an O(nnz) alternative to sorting each row — and duplicates, now adjacent, are
@@ -60,13 +64,15 @@ export function buildInteractionMatrix(ds: Dataset, opts: BuildOptions = {}): Cs
   const count = opts.rows ? opts.rows.length : s.length;
   const pick = (k: number): number => (opts.rows ? opts.rows[k]! : k);
 
-  let now = opts.now ?? -Infinity;
-  if (opts.now === undefined && halfLife !== undefined) {
-    for (let k = 0; k < count; k++) {
-      const t = s.at[pick(k)]!;
-      if (t > now && t >= from && t < to) now = t;
-    }
+  // The latest time among the signals used (untimed ones are NaN and never win), whether or not a half-life is
+  // set: every entry's age is counted back from it. `timed` says whether any used signal has a time at all.
+  let latest = -Infinity;
+  for (let k = 0; k < count; k++) {
+    const t = s.at[pick(k)]!;
+    if (t > latest && t >= from && t < to) latest = t;
   }
+  const timed = latest > -Infinity;
+  const now = opts.now ?? latest;
 
   // Pass 1: weight of every selected signal (0 = left out) and entries per item.
   const w = new Float32Array(count);
@@ -101,6 +107,9 @@ export function buildInteractionMatrix(ds: Dataset, opts: BuildOptions = {}): Cs
     indices: new Int32Array(total),
     data: new Float32Array(total),
   };
+  // Ages (only when some signal has a time) ride along in item-major order, then are placed by the same counting
+  // sort as the transpose's (csr.ts), so position p of the customer-major matrix gets its own entry's age.
+  const ages = timed ? new Float32Array(total) : null;
   const next = perItem.slice(0, nItems);
   for (let k = 0; k < count; k++) {
     if (w[k] === 0) continue;
@@ -108,8 +117,21 @@ export function buildInteractionMatrix(ds: Dataset, opts: BuildOptions = {}): Cs
     const q = next[s.item[j]!]!++;
     byItem.indices[q] = s.customer[j]!;
     byItem.data[q] = w[k]!;
+    if (ages) {
+      const t = s.at[j]!;
+      ages[q] = t === t ? Math.max(0, now - t) / DAY_MS : 0;
+    }
   }
-  return mergeDuplicates(transpose(byItem));
+  const m = transpose(byItem);
+  if (ages) {
+    const ageDays = new Float32Array(total);
+    const at = m.indptr.slice(0, nCustomers);
+    for (let i = 0; i < nItems; i++) {
+      for (let p = byItem.indptr[i]!, e = byItem.indptr[i + 1]!; p < e; p++) ageDays[at[byItem.indices[p]!]!++] = ages[p]!;
+    }
+    m.ageDays = ageDays;
+  }
+  return mergeDuplicates(m);
 }
 
 const RATING_CODE = SIGNAL_KIND_CODE.rating;
@@ -125,8 +147,12 @@ export function resolveKindWeights(over: Partial<Record<SignalKind, number>> | u
   return out;
 }
 
-/** Sums adjacent equal columns of each (sorted) row in place and compacts the arrays. */
+/**
+ * Sums adjacent equal columns of each (sorted) row in place and compacts the arrays. With `ageDays`, a merged
+ * entry keeps the smallest age: the age of the pair's latest signal.
+ */
 export function mergeDuplicates(m: Csr): Csr {
+  const age = m.ageDays;
   let q = 0;
   let start = 0;
   for (let r = 0; r < m.rows; r++) {
@@ -136,8 +162,10 @@ export function mergeDuplicates(m: Csr): Csr {
       const c = m.indices[p]!;
       if (c === last) {
         m.data[q - 1]! += m.data[p]!;
+        if (age && age[p]! < age[q - 1]!) age[q - 1] = age[p]!;
       } else {
         m.indices[q] = c;
+        if (age) age[q] = age[p]!;
         m.data[q++] = m.data[p]!;
         last = c;
       }
@@ -145,5 +173,6 @@ export function mergeDuplicates(m: Csr): Csr {
     start = end;
     m.indptr[r + 1] = q;
   }
-  return q === m.indices.length ? m : { ...m, indices: m.indices.slice(0, q), data: m.data.slice(0, q) };
+  if (q === m.indices.length) return m;
+  return { ...m, indices: m.indices.slice(0, q), data: m.data.slice(0, q), ...(age && { ageDays: age.slice(0, q) }) };
 }

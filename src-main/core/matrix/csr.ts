@@ -9,6 +9,12 @@ export interface Csr {
   indptr: Int32Array;
   indices: Int32Array;
   data: Float32Array;
+  /**
+   * Per entry (same positions as `data`), the age in days of the pair's latest signal before the matrix's
+   * reference time (matrix/build.ts); absent when no signal had a time. Matrices derived by value (a transform)
+   * keep it; a transpose or any re-ordering drops it.
+   */
+  ageDays?: Float32Array;
 }
 
 /** The number of stored entries. */

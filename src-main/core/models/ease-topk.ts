@@ -1,7 +1,8 @@
 import { packSections } from '../matrix/bytes.ts';
 import type { Csr } from '../matrix/csr.ts';
 import { InputError } from '../errors.ts';
-import { transformCode, transformValue, type ValueTransform } from '../matrix/values.ts';
+import { decayedValue, transformCode, type ValueTransform } from '../matrix/values.ts';
+import { NO_RECENCY, recencySection, type Recency } from './recency.ts';
 import type { Scorer, TopN } from './scorer.ts';
 import { topN } from './topn.ts';
 
@@ -28,6 +29,7 @@ export class EaseTopKModel implements Scorer {
    * @param cols global item index of each weight
    * @param values the weights B_r,cols
    * @param transform how a history value enters scoring (the fitted model's value transform)
+   * @param recency the fitted model's half-lives (the profile side decays the history in scoring)
    */
   constructor(
     readonly itemCount: number,
@@ -36,6 +38,7 @@ export class EaseTopKModel implements Scorer {
     readonly cols: Int32Array,
     readonly values: Float32Array,
     readonly transform: ValueTransform = 'presence',
+    readonly recency: Recency = NO_RECENCY,
   ) {
     if (indptr.length !== kept.length + 1 || cols.length !== values.length || indptr[kept.length] !== cols.length) {
       throw new InputError('EASE top-k weights have inconsistent lengths');
@@ -50,7 +53,7 @@ export class EaseTopKModel implements Scorer {
     for (let p = history.indptr[u]!, end = history.indptr[u + 1]!; p < end; p++) {
       const r = this.#local[history.indices[p]!]!;
       if (r < 0) continue;
-      const x = transformValue(this.transform, history.data[p]!);
+      const x = decayedValue(history, p, this.transform, this.recency.profileHalfLifeDays);
       for (let q = this.indptr[r]!, qe = this.indptr[r + 1]!; q < qe; q++) out[this.cols[q]!]! += x * this.values[q]!;
     }
   }
@@ -68,7 +71,15 @@ export class EaseTopKModel implements Scorer {
   }
 
   serialize(): Uint8Array {
-    return packSections(EASE_MAGIC, 3, [Int32Array.of(this.itemCount), this.kept, this.indptr, this.cols, this.values, Int32Array.of(transformCode(this.transform))]);
+    return packSections(EASE_MAGIC, 5, [
+      Int32Array.of(this.itemCount),
+      this.kept,
+      this.indptr,
+      this.cols,
+      this.values,
+      Int32Array.of(transformCode(this.transform)),
+      recencySection(this.recency),
+    ]);
   }
 }
 
@@ -84,7 +95,14 @@ export function keptSimilarItems(m: Pick<Scorer, 'itemCount' | 'similarityInto'>
 }
 
 /** Keeps the k largest-magnitude off-diagonal weights of each row of the dense m × m B (row-major). */
-export function sparsifyEase(itemCount: number, kept: Int32Array, b: Float32Array, k: number, transform: ValueTransform = 'presence'): EaseTopKModel {
+export function sparsifyEase(
+  itemCount: number,
+  kept: Int32Array,
+  b: Float32Array,
+  k: number,
+  transform: ValueTransform = 'presence',
+  recency: Recency = NO_RECENCY,
+): EaseTopKModel {
   const m = kept.length;
   const per = Math.min(k, Math.max(0, m - 1));
   const indptr = new Int32Array(m + 1);
@@ -103,5 +121,5 @@ export function sparsifyEase(itemCount: number, kept: Int32Array, b: Float32Arra
     }
     indptr[r + 1] = q;
   }
-  return new EaseTopKModel(itemCount, kept, indptr, cols.subarray(0, q), values.subarray(0, q), transform);
+  return new EaseTopKModel(itemCount, kept, indptr, cols.subarray(0, q), values.subarray(0, q), transform, recency);
 }

@@ -3,7 +3,8 @@ import { nnz, type Csr } from '../matrix/csr.ts';
 import { easeWeights, type EaseSolveHooks } from './ease-weights.ts';
 import { EASE_DENSE_MAX_BYTES, EASE_MAGIC, EASE_TOP_K, EaseTopKModel, keptSimilarItems, sparsifyEase } from './ease-topk.ts';
 import { CancelledError, InputError } from '../errors.ts';
-import { checkTransform, transformCode, transformFromCode, transformMatrix, transformValue, type ValueTransform } from '../matrix/values.ts';
+import { checkTransform, decayedValue, transformCode, transformFromCode, transformMatrix, type ValueTransform } from '../matrix/values.ts';
+import { describeRecency, NO_RECENCY, recencyFromSection, recencyOf, recencySection, type Recency } from './recency.ts';
 import type { FitOptions, FitReport, Scorer, TopN } from './scorer.ts';
 import { topN } from './topn.ts';
 
@@ -24,6 +25,10 @@ export interface EaseParams {
   restrict?: boolean;
   /** How a matrix value enters, in the fit and in scoring. Default presence. */
   values?: ValueTransform;
+  /** Half-life in days of the entries of X the Gram matrix is built from (matrix/values.ts "Recency"); null/absent = off. */
+  fitHalfLifeDays?: number | null;
+  /** Half-life in days of the customer's row x_u in scoring x_u · B; null/absent = off. */
+  profileHalfLifeDays?: number | null;
 }
 
 export const EASE_DEFAULTS = { lambda: 500, maxItems: 20_000, restrict: false, values: 'presence' } as const satisfies EaseParams;
@@ -40,6 +45,7 @@ export class EaseModel implements Scorer {
     readonly kept: Int32Array,
     readonly b: Float32Array,
     readonly values: ValueTransform = EASE_DEFAULTS.values,
+    readonly recency: Recency = NO_RECENCY,
   ) {
     const m = kept.length;
     if (b.length !== m * m) throw new InputError(`EASE weights have ${b.length} entries, expected ${m * m}`);
@@ -57,7 +63,7 @@ export class EaseModel implements Scorer {
     for (let p = history.indptr[u]!, end = history.indptr[u + 1]!; p < end; p++) {
       const r = this.#local[history.indices[p]!]!;
       if (r < 0) continue;
-      const x = transformValue(this.values, history.data[p]!);
+      const x = decayedValue(history, p, this.values, this.recency.profileHalfLifeDays);
       const row = r * m;
       if (whole) for (let c = 0; c < m; c++) out[c]! += x * b[row + c]!;
       else for (let c = 0; c < m; c++) out[kept[c]!]! += x * b[row + c]!;
@@ -84,28 +90,40 @@ export class EaseModel implements Scorer {
    */
   serialize(): Uint8Array {
     if (this.b.byteLength > EASE_DENSE_MAX_BYTES) {
-      return sparsifyEase(this.itemCount, this.kept, this.b, EASE_TOP_K, this.values).serialize();
+      return sparsifyEase(this.itemCount, this.kept, this.b, EASE_TOP_K, this.values, this.recency).serialize();
     }
-    return packSections(EASE_MAGIC, 2, [Int32Array.of(this.itemCount), this.kept, this.b, Int32Array.of(transformCode(this.values))]);
+    return packSections(EASE_MAGIC, 4, [Int32Array.of(this.itemCount), this.kept, this.b, Int32Array.of(transformCode(this.values)), recencySection(this.recency)]);
+  }
+
+  /** The same weights scoring with another profile half-life (no refit: the profile side only reads the history). */
+  withProfileHalfLife(profileHalfLifeDays: number | null): EaseModel {
+    return new EaseModel(this.itemCount, this.kept, this.b, this.values, { ...this.recency, profileHalfLifeDays });
   }
 }
 
 /**
  * Restores every stored form: format 1 (dense, before value transforms: raw values, i.e. linear), format 2
- * (dense, with its transform) and format 3 (top-k weights per item, with its transform; ease-topk.ts).
+ * (dense, with its transform), format 3 (top-k weights per item, with its transform; ease-topk.ts), and formats
+ * 4 (dense) and 5 (top-k) with the recency half-lives; before 4 and 5 there was no recency (both sides off).
  */
 export function loadEase(bytes: Uint8Array): EaseModel | EaseTopKModel {
   const version = formatVersion(bytes);
-  if (version === 3) {
-    const r = new SectionReader(bytes, EASE_MAGIC, 3);
+  if (version === 3 || version === 5) {
+    const r = new SectionReader(bytes, EASE_MAGIC, version);
     const head = r.i32();
-    return new EaseTopKModel(head[0]!, r.i32(), r.i32(), r.i32(), r.f32(), transformFromCode(r.i32()[0]!));
+    const kept = r.i32();
+    const indptr = r.i32();
+    const cols = r.i32();
+    const w = r.f32();
+    const t = transformFromCode(r.i32()[0]!);
+    return new EaseTopKModel(head[0]!, kept, indptr, cols, w, t, version === 5 ? recencyFromSection(r.f64()) : NO_RECENCY);
   }
-  const r = new SectionReader(bytes, EASE_MAGIC, version === 1 ? 1 : 2);
+  const r = new SectionReader(bytes, EASE_MAGIC, version === 1 ? 1 : version === 2 ? 2 : 4);
   const head = r.i32();
   const kept = r.i32();
   const b = r.f32();
-  return new EaseModel(head[0]!, kept, b, version === 1 ? 'linear' : transformFromCode(r.i32()[0]!));
+  const values = version === 1 ? 'linear' : transformFromCode(r.i32()[0]!);
+  return new EaseModel(head[0]!, kept, b, values, version === 4 ? recencyFromSection(r.f64()) : NO_RECENCY);
 }
 
 /**
@@ -120,7 +138,8 @@ export function fitEase(
 ): { model: EaseModel; report: FitReport } {
   const start = performance.now();
   const values = checkTransform(params.values ?? EASE_DEFAULTS.values);
-  const x = transformMatrix(raw, values);
+  const recency = recencyOf(params, 'EASE');
+  const x = transformMatrix(raw, values, recency.fitHalfLifeDays);
   const lambda = params.lambda ?? EASE_DEFAULTS.lambda;
   const maxItems = params.maxItems ?? EASE_DEFAULTS.maxItems;
   if (!(lambda > 0)) throw new InputError(`EASE lambda must be > 0, got ${lambda}`);
@@ -150,11 +169,14 @@ export function fitEase(
   });
   const elapsedMs = performance.now() - start;
   o.onIteration?.({ iteration: 4, iterations: 4, elapsedMs });
-  notes.push(`EASE on ${m} items, ${nnz(x)} interactions, lambda ${lambda}, values ${values}`);
+  notes.push(`EASE on ${m} items, ${nnz(x)} interactions, lambda ${lambda}, values ${values}, ${describeRecency(recency)}`);
+  if (!raw.ageDays && (recency.fitHalfLifeDays !== null || recency.profileHalfLifeDays !== null)) {
+    notes.push('EASE: no signal has a time, so the recency half-lives change nothing');
+  }
   if (b.byteLength > EASE_DENSE_MAX_BYTES) {
     notes.push(`EASE stored with the ${EASE_TOP_K} largest weights per item (dense weights would be ${(b.byteLength / 2 ** 30).toFixed(1)} GiB)`);
   }
-  return { model: new EaseModel(x.cols, kept, b, values), report: { kind: 'ease', elapsedMs, notes } };
+  return { model: new EaseModel(x.cols, kept, b, values, recency), report: { kind: 'ease', elapsedMs, notes } };
 }
 
 /** The n items with the most interactions (ties: lower index), returned in ascending index order. */

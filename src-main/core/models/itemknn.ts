@@ -1,7 +1,8 @@
 import { SectionReader, formatVersion, packSections } from '../matrix/bytes.ts';
 import { transpose, type Csr } from '../matrix/csr.ts';
 import { CancelledError, InputError } from '../errors.ts';
-import { checkTransform, transformCode, transformFromCode, transformMatrix, transformValue, type ValueTransform } from '../matrix/values.ts';
+import { checkTransform, decayedValue, transformCode, transformFromCode, transformMatrix, type ValueTransform } from '../matrix/values.ts';
+import { describeRecency, NO_RECENCY, recencyFromSection, recencyOf, recencySection, type Recency } from './recency.ts';
 import type { FitOptions, FitReport, Scorer, TopN } from './scorer.ts';
 import { collectNeighbours, neighbourRowInto, neighbourTopN, type Neighbours } from './topn.ts';
 
@@ -33,6 +34,10 @@ export interface ItemKnnParams {
   values?: ValueTransform;
   /** 'sum': each history item's neighbour similarities sum to 1 in scoring (Deshpande & Karypis 2004 §4.2). Default 'none'. */
   normalize?: KnnNormalize;
+  /** Half-life in days of the entries the cosines are computed from (matrix/values.ts "Recency"); null/absent = off. */
+  fitHalfLifeDays?: number | null;
+  /** Half-life in days of the history values x_uh in scoring Σ_h x_uh · sim(h, j); null/absent = off. */
+  profileHalfLifeDays?: number | null;
 }
 
 export const KNN_NORMALIZE = ['none', 'sum'] as const;
@@ -51,6 +56,7 @@ export class ItemKnnModel implements Scorer {
     readonly neighbours: Neighbours,
     readonly values: ValueTransform = ITEMKNN_DEFAULTS.values,
     readonly normalize: KnnNormalize = ITEMKNN_DEFAULTS.normalize,
+    readonly recency: Recency = NO_RECENCY,
   ) {
     const nb = neighbours;
     this.#scale = new Float32Array(nb.items).fill(1);
@@ -73,9 +79,10 @@ export class ItemKnnModel implements Scorer {
     out.fill(0);
     const nb = this.neighbours;
     const t = this.values;
+    const half = this.recency.profileHalfLifeDays;
     for (let p = history.indptr[u]!, end = history.indptr[u + 1]!; p < end; p++) {
       const h = history.indices[p]!;
-      const x = transformValue(t, history.data[p]!) * this.#scale[h]!;
+      const x = decayedValue(history, p, t, half) * this.#scale[h]!;
       for (let q = nb.indptr[h]!, e = nb.indptr[h + 1]!; q < e; q++) out[nb.indices[q]!]! += x * nb.data[q]!;
     }
   }
@@ -91,19 +98,32 @@ export class ItemKnnModel implements Scorer {
   serialize(): Uint8Array {
     const nb = this.neighbours;
     const norm = KNN_NORMALIZE.indexOf(this.normalize);
-    return packSections(MAGIC, 3, [Int32Array.of(nb.items), nb.indptr, nb.indices, nb.data, Int32Array.of(transformCode(this.values)), Int32Array.of(norm)]);
+    return packSections(MAGIC, 4, [
+      Int32Array.of(nb.items),
+      nb.indptr,
+      nb.indices,
+      nb.data,
+      Int32Array.of(transformCode(this.values)),
+      Int32Array.of(norm),
+      recencySection(this.recency),
+    ]);
+  }
+
+  /** The same neighbours scoring with another profile half-life (no refit: the profile side only reads the history). */
+  withProfileHalfLife(profileHalfLifeDays: number | null): ItemKnnModel {
+    return new ItemKnnModel(this.neighbours, this.values, this.normalize, { ...this.recency, profileHalfLifeDays });
   }
 }
 
 const MAGIC = 'SWITMKNN';
 
 /**
- * Reads format 3 (with the normalisation), format 2 (before it: none) and format 1 (before value transforms too:
- * raw values, i.e. linear).
+ * Reads format 4 (with the recency half-lives), format 3 (before them: both off, with the normalisation), format
+ * 2 (before it: none) and format 1 (before value transforms too: raw values, i.e. linear).
  */
 export function loadItemKnn(bytes: Uint8Array): ItemKnnModel {
   const version = formatVersion(bytes);
-  const r = new SectionReader(bytes, MAGIC, version === 1 ? 1 : version === 2 ? 2 : 3);
+  const r = new SectionReader(bytes, MAGIC, version === 1 ? 1 : version === 2 ? 2 : version === 3 ? 3 : 4);
   const items = r.i32()[0]!;
   const indptr = r.i32();
   if (indptr.length !== items + 1) throw new InputError('not a valid item-kNN model: neighbour offsets do not match the item count');
@@ -115,7 +135,7 @@ export function loadItemKnn(bytes: Uint8Array): ItemKnnModel {
     if (!(code >= 0 && code < KNN_NORMALIZE.length)) throw new InputError(`not a valid item-kNN model: unknown normalisation code ${code}`);
     normalize = KNN_NORMALIZE[code]!;
   }
-  return new ItemKnnModel(nb, values, normalize);
+  return new ItemKnnModel(nb, values, normalize, version >= 4 ? recencyFromSection(r.f64()) : NO_RECENCY);
 }
 
 /**
@@ -133,7 +153,8 @@ export function fitItemKnn(raw: Csr, params: ItemKnnParams = {}, o: FitOptions =
   const normalize = checkNormalize(params.normalize ?? ITEMKNN_DEFAULTS.normalize);
   if (!(Number.isInteger(k) && k > 0)) throw new InputError(`item-kNN k must be a positive integer, got ${k}`);
   if (!(shrink >= 0)) throw new InputError(`item-kNN shrink must be >= 0, got ${shrink}`);
-  const x = transformMatrix(raw, values);
+  const recency = recencyOf(params, 'item-kNN');
+  const x = transformMatrix(raw, values, recency.fitHalfLifeDays);
   const xt = transpose(x);
   const nItems = x.cols;
   const norm = new Float64Array(nItems);
@@ -177,7 +198,11 @@ export function fitItemKnn(raw: Csr, params: ItemKnnParams = {}, o: FitOptions =
   }, { ties: 'all' });
   const elapsedMs = performance.now() - start;
   return {
-    model: new ItemKnnModel(neighbours, values, normalize),
-    report: { kind: 'itemknn', elapsedMs, notes: [`item-kNN: ${nItems} items, k ${k}, shrink ${shrink}, values ${values}, normalize ${normalize}`] },
+    model: new ItemKnnModel(neighbours, values, normalize, recency),
+    report: {
+      kind: 'itemknn',
+      elapsedMs,
+      notes: [`item-kNN: ${nItems} items, k ${k}, shrink ${shrink}, values ${values}, normalize ${normalize}, ${describeRecency(recency)}`],
+    },
   };
 }

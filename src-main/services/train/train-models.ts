@@ -136,7 +136,7 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
   const given = opts.params ?? {};
   const p = kinds.includes('ials') ? { ...given, ials: { epsilon: signalUnit(data, opts.matrix?.kindWeights), ...given.ials } } : given;
   const limit = easeItemLimit();
-  const easeParams = { ...TRAIN_EASE_DEFAULTS, values: EASE_DEFAULTS.values, maxItems: limit.maxItems, ...p.ease };
+  const easeParams = { ...TRAIN_EASE_DEFAULTS, values: EASE_DEFAULTS.values, maxItems: limit.maxItems, fitHalfLifeDays: null, profileHalfLifeDays: null, ...p.ease };
   const easeNotes = limit.note && p.ease?.maxItems === undefined && matrix.cols > limit.maxItems ? [limit.note] : [];
   const threads = opts.threads ?? defaultThreads();
   const easeThread = kinds.includes('ease') && threads > 1 ? fitEaseInThread(matrix, easeParams, threads) : null;
@@ -167,7 +167,8 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
       if (kind === 'content') keep(kind, p.content ?? {}, fitContent(data.items, p.content));
       else if (kind === 'itemknn') {
         const fit = fitItemKnn(matrix, p.itemknn);
-        keep(kind, { ...p.itemknn, values: fit.model.values, normalize: fit.model.normalize }, fit); // stored even when defaulted
+        // Stored even when defaulted (recency null = off), so `models` shows what scores.
+        keep(kind, { ...p.itemknn, values: fit.model.values, normalize: fit.model.normalize, ...fit.model.recency }, fit);
       }
       else if (kind === 'popularity') keep(kind, {}, fitPopularity(matrix));
       else if (kind === 'ease' && easeThread) {

@@ -32,6 +32,17 @@ export interface Axis {
    * and its neighbours on the axis (a quarter decade on a half-decade grid), keeping one that scores higher.
    */
   refine?: boolean;
+  /**
+   * Walk the values in their listed order as an ordered axis although not all are numbers (a half-life axis:
+   * 'off', then ever shorter half-lives). Default: ordered when every value is a number. Refinement then uses the
+   * numeric neighbours only.
+   */
+  ordered?: boolean;
+  /**
+   * The axis's simplest value (a half-life's 'off'): a move away from it must also pass `SearchOptions.significant`,
+   * so that a more complex setting is taken only when it is better beyond noise.
+   */
+  simplest?: AxisValue;
 }
 
 export interface SearchTrial {
@@ -59,6 +70,11 @@ export interface SearchOptions {
   cost: (p: Point) => number;
   evaluate: (p: Point) => Promise<number> | number;
   signal?: AbortSignal;
+  /**
+   * Whether `candidate` beats `incumbent` beyond noise (both evaluated); asked only for a move away from an axis's
+   * `simplest` value. Default: any higher score is enough.
+   */
+  significant?: (candidate: Point, incumbent: Point) => boolean;
   /** Called before each evaluation: spent units so far and the point about to be fitted. */
   onTrial?: (p: { point: Point; spent: number; budget: number; trial: number }) => void;
 }
@@ -80,8 +96,9 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
   const axes = o.axes.map((a) => ({
     name: a.name,
     values: withStart(a, o.start[a.name]),
-    ordered: a.values.every((x) => typeof x === 'number'),
+    ordered: a.ordered ?? a.values.every((x) => typeof x === 'number'),
     refine: a.refine === true,
+    simplest: a.simplest,
   }));
   const seen = new Map<string, number>();
   const trials: SearchTrial[] = [];
@@ -109,20 +126,53 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
 
   let best: Point = { ...o.start };
   let bestScore = (await score(best, true))!;
-  const better = (s: number | null): s is number => s !== null && s > bestScore + 1e-9;
+  const beats = (s: number | null): s is number => s !== null && s > bestScore + 1e-9;
 
+  /** Axes whose every value was tried from their simplest value (once per search). */
+  const scanned = new Set<string>();
   for (;;) {
     let improved = false;
     for (const axis of axes) {
       const at = (v: AxisValue): Point => ({ ...best, [axis.name]: v });
+      // Leaving the axis's simplest value takes a significant gain (SearchOptions.significant), not just any.
+      const better = (s: number | null, v: AxisValue): s is number =>
+        beats(s) && (axis.simplest === undefined || best[axis.name] !== axis.simplest || !o.significant || o.significant(at(v), best));
       if (!axis.ordered) {
         for (const v of axis.values) {
           const s = await score(at(v));
-          if (better(s)) {
+          if (better(s, v)) {
             best = at(v);
             bestScore = s;
             improved = true;
           }
+        }
+        continue;
+      }
+      // At an axis's simplest value (a half-life's 'off'): try every other value (in order, budget permitting),
+      // then move to the best only if it beats the simplest significantly. Every value, not a walk that stops at
+      // the first loss: near the simplest value the response need not be unimodal, a slight change losing while a
+      // larger one wins (Online Retail, item-kNN at k 10, validation NDCG@20: a fit half-life of 730 days 0.0919,
+      // 11 days 0.107; at k 50 730 and 180 days fell below off, 0.0779 and 0.0769 against 0.0788, and a walk
+      // stopped there). The axis is short (4 half-lives), and the significance test guards the choice.
+      // The scan once per axis; when a later cycle comes back to the simplest value (other axes having moved), a
+      // walk re-checks it (each step must beat the last), so the recency axes do not take a whole scan of the
+      // budget at every cycle.
+      if (axis.simplest !== undefined && best[axis.name] === axis.simplest && o.significant) {
+        const walk = scanned.has(axis.name);
+        scanned.add(axis.name);
+        let top: { v: AxisValue; s: number } | null = null;
+        let last = -Infinity;
+        for (const v of axis.values) {
+          if (v === axis.simplest) continue;
+          const s = await score(at(v));
+          if (s !== null && (!top || s > top.s + 1e-9)) top = { v, s };
+          if (walk && !(s !== null && s > last + 1e-9)) break;
+          last = s ?? -Infinity;
+        }
+        if (top && beats(top.s) && o.significant(at(top.v), best)) {
+          best = at(top.v);
+          bestScore = top.s;
+          improved = true;
         }
         continue;
       }
@@ -133,7 +183,7 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
         const v = axis.values[i + d];
         if (v === undefined) continue;
         const s = await score(at(v));
-        if (better(s)) {
+        if (better(s, v)) {
           best = at(v);
           bestScore = s;
           dir = d;
@@ -145,7 +195,7 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
       i += dir;
       for (let v = axis.values[i + dir]; v !== undefined; v = axis.values[i + dir]) {
         const s = await score(at(v));
-        if (!better(s)) break;
+        if (!better(s, v)) break;
         best = at(v);
         bestScore = s;
         i += dir;
@@ -157,18 +207,40 @@ export async function coordinateSearch(o: SearchOptions): Promise<SearchResult> 
   // quality is close to unimodal along such an axis, so the optimum lies within a grid step of the best.
   for (const axis of axes) {
     if (!axis.refine || !axis.ordered) continue;
-    const v = axis.values as number[];
-    const i = v.indexOf(best[axis.name] as number);
-    const mids = [v[i - 1], v[i + 1]].filter((x): x is number => x !== undefined && x > 0).map((x) => Number(Math.sqrt(x * v[i]!).toPrecision(2)));
+    const v = axis.values;
+    const i = v.indexOf(best[axis.name]!);
+    const at = v[i];
+    if (typeof at !== 'number') continue;
+    // The midpoint on the side of the better-scoring neighbour first: on a unimodal axis the optimum lies more
+    // likely between the best and its better neighbour, so when the budget affords one midpoint only it is that
+    // one (the demo shop's iALS: λ 10 between 1 and 100, scoring 0.091 and 0.093: 32 before 3.2). Unscored
+    // neighbours come last; both midpoints are tried when affordable and the better kept, in any order.
+    const side = (x: number) => seen.get(key({ ...best, [axis.name]: x })) ?? -Infinity;
+    const mids = [v[i - 1], v[i + 1]]
+      .filter((x): x is number => typeof x === 'number' && x > 0)
+      .sort((a, b) => side(b) - side(a))
+      .map((x) => Number(Math.sqrt(x * at).toPrecision(2)));
     let winner: { p: Point; s: number } | null = null;
     for (const m of mids) {
       const p = { ...best, [axis.name]: m };
       const s = await score(p);
-      if (better(s) && (!winner || s > winner.s + 1e-9)) winner = { p, s };
+      if (beats(s) && (!winner || s > winner.s + 1e-9)) winner = { p, s };
     }
     if (winner) {
       best = winner.p;
       bestScore = winner.s;
+    }
+  }
+  // Back to an axis's simplest value when the best is not significantly better than that point (evaluated if
+  // it was not, budget permitting): the walk away from it was tested, but later moves of other axes may have
+  // eroded the gain (Online Retail, item-kNN: a profile half-life of 730 days at 0.1107 against off at 0.1106).
+  for (const axis of axes) {
+    if (axis.simplest === undefined || !o.significant || best[axis.name] === axis.simplest) continue;
+    const simple = { ...best, [axis.name]: axis.simplest };
+    const s = await score(simple);
+    if (s !== null && !o.significant(best, simple)) {
+      best = simple;
+      bestScore = s;
     }
   }
   return { best, score: bestScore, trials, spent, budget: o.budget, stopped: short ? 'budget' : 'converged' };

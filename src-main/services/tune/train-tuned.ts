@@ -17,7 +17,7 @@ import { waitingLine } from '../../store/write-lock.ts';
 import { STALE_NOTE } from '../train/save-run.ts';
 import { announceOutlook, trainAndSave, type TrainSummary } from '../train/train-job.ts';
 import type { TrainOptions } from '../train/train-models.ts';
-import { fixedParams, GRID_PARAMS, type GridModel } from './grid.ts';
+import { fixedParams, GRID_PARAMS, halfLifeParam, RECENCY_PARAMS, type GridModel } from './grid.ts';
 import { tuneInThread } from './offline-thread.ts';
 import { tooLittleToTune } from './split.ts';
 import type { ModelTuning, TuneOptions, TuneResult } from './tune.ts';
@@ -60,7 +60,7 @@ export function reusableTuning(
   const records = new Map<string, unknown>();
   // The tuner's notes go along with its settings (EASE's "not tuned" has no record of its own to ride on).
   const notes = new Map<string, string[]>();
-  const params: Record<string, Record<string, number | string>> = {};
+  const params: Record<string, Record<string, number | string | null>> = {};
   // Content has no grid (its weight in the hybrid is the validated blend's, learned at every training).
   for (const kind of ['itemknn', 'ials', 'ease'] as const) {
     if (!kinds.includes(kind)) continue;
@@ -76,7 +76,12 @@ export function reusableTuning(
     records.set(kind, t);
     if (t.grid) {
       const grid = GRID_PARAMS[kind as GridModel] as readonly string[];
-      params[kind] = Object.fromEntries(Object.entries(t.grid.best).filter(([key]) => grid.includes(key)));
+      // A half-life's 'off' is the training parameter null.
+      params[kind] = Object.fromEntries(
+        Object.entries(t.grid.best)
+          .filter(([key]) => grid.includes(key))
+          .map(([key, v]) => [key, (RECENCY_PARAMS as readonly string[]).includes(key) ? halfLifeParam(v) : v]),
+      );
     }
   }
   return { params: params as NonNullable<TrainOptions['params']>, records, notes };

@@ -75,6 +75,20 @@ export function itemKnnCost(s: CostSizes, k: number): number {
   );
 }
 
+/**
+ * A trial that reuses a fit and only measures (a profile half-life: it weighs the customer's row in scoring, so the
+ * fitted weights are those of a trial already run, model-search.ts): the measurement terms of easeCost.
+ */
+export function easeScoreCost(s: CostSizes): number {
+  return (PER_MILLION.rank * s.customers * s.cols + PER_MILLION.easeScore * s.customers * meanHistory(s) * s.cols) / M;
+}
+
+/** itemKnnCost's measurement terms only (a trial reusing a fit, as easeScoreCost). */
+export function itemKnnScoreCost(s: CostSizes, k: number): number {
+  const kk = Math.min(k, s.cols);
+  return (PER_MILLION.rank * s.customers * s.cols + PER_MILLION.neighbours * s.customers * meanHistory(s) * kk) / M;
+}
+
 export function easeCost(s: CostSizes): number {
   return (
     (PER_MILLION.rank * s.customers * s.cols +

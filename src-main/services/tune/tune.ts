@@ -24,7 +24,7 @@ import type { KnnNormalize } from '../../core/models/itemknn.ts';
 import { seededRng } from '../../core/rng.ts';
 import type { Dataset } from '../../core/types.ts';
 import { TRAIN_EASE_DEFAULTS, type TrainOptions } from '../train/train-models.ts';
-import { TUNE_BUDGET, type FixedParams, type GridModel } from './grid.ts';
+import { halfLifeParam, TUNE_BUDGET, type FixedParams, type GridModel } from './grid.ts';
 import { searchModels } from './model-search.ts';
 import type { AxisValue } from './search.ts';
 import { TOO_LITTLE_TO_TUNE, validationSplit } from './split.ts';
@@ -144,6 +144,9 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   const bk = best('itemknn')!;
   const bi = best('ials')!;
   const be = best('ease');
+  // The recency half-lives as training parameters ('off' is null), only where they were searched or fixed.
+  const recency = (b: TrialParams) =>
+    Object.fromEntries((['fitHalfLifeDays', 'profileHalfLifeDays'] as const).filter((n) => b[n] !== undefined).map((n) => [n, halfLifeParam(b[n])]));
   const ialsSetting = {
     factors: bi['factors'] as number,
     regularization: bi['regularization'] as number,
@@ -156,9 +159,9 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
     split: { method: split.method, train: split.train.length, validation: split.validation.length, customers: ev.customerCount, from: split.from },
     models,
     params: {
-      itemknn: { k: bk['k'] as number, shrink: bk['shrink'] as number, values: bk['values'] as ValueTransform, normalize: bk['normalize'] as KnnNormalize },
+      itemknn: { k: bk['k'] as number, shrink: bk['shrink'] as number, values: bk['values'] as ValueTransform, normalize: bk['normalize'] as KnnNormalize, ...recency(bk) },
       ials: { ...ialsSetting, seed, ...(o.iterations !== undefined && { iterations: o.iterations }) },
-      ...(be && { ease: { ...TRAIN_EASE_DEFAULTS, lambda: be['lambda'] as number, values: be['values'] as ValueTransform } }),
+      ...(be && { ease: { ...TRAIN_EASE_DEFAULTS, lambda: be['lambda'] as number, values: be['values'] as ValueTransform, ...recency(be) } }),
     },
     budget: { plainFits: budget, plainMs: searched.plainMs, spentMs: searched.spentMs },
     elapsedMs: now() - started,

@@ -25,6 +25,25 @@ function transform(env: CommandEnv, name: string): 'presence' | 'log' | 'linear'
   return v;
 }
 
+/** A half-life flag: a number of days > 0, or `off` (null: no decay). */
+function halfLife(env: CommandEnv, name: string): number | null | undefined {
+  const v = str(env, name);
+  if (v === undefined) return undefined;
+  if (v.trim() === 'off') return null;
+  const x = Number(v);
+  if (v.trim() === '' || !Number.isFinite(x) || !(x > 0)) throw new UsageError(`--${name} must be a number of days > 0 or off, got '${v}'`);
+  return x;
+}
+
+/** "fit 180 d, profile off" from a model's stored parameters; '–' when it has no recency parameters. */
+export function recencyCell(params: Record<string, unknown>): string {
+  const f = params['fitHalfLifeDays'];
+  const p = params['profileHalfLifeDays'];
+  if (f === undefined && p === undefined) return '–';
+  const one = (h: unknown) => (typeof h === 'number' ? `${h} d` : 'off');
+  return f === p && typeof f !== 'number' ? 'off' : `fit ${one(f)}, profile ${one(p)}`;
+}
+
 type StoredModel = ResponseOf<'models.list'>['models'][number];
 
 /**
@@ -82,6 +101,10 @@ const trainCommand: CliCommand = {
     'knn-values': { type: 'string' },
     'knn-normalize': { type: 'string' },
     'ease-values': { type: 'string' },
+    'knn-fit-half-life': { type: 'string' },
+    'knn-profile-half-life': { type: 'string' },
+    'ease-fit-half-life': { type: 'string' },
+    'ease-profile-half-life': { type: 'string' },
     threads: { type: 'string' },
     seed: { type: 'string' },
     tune: { type: 'boolean', default: false },
@@ -102,6 +125,10 @@ const trainCommand: CliCommand = {
     'knn-values': 'item-kNN: how a customer\'s summed signals on an item count: presence, log or linear (default presence)',
     'knn-normalize': 'item-kNN: none, or sum (each history item\'s neighbour similarities sum to 1 in scoring; Deshpande & Karypis 2004) (default none)',
     'ease-values': 'EASE: how a customer\'s summed signals on an item count: presence, log or linear (default presence)',
+    'knn-fit-half-life': 'item-kNN: recency of what similarities are learnt from: an entry N days old weighs 2^(-age/N); days > 0 or off',
+    'knn-profile-half-life': 'item-kNN: recency of the customer\'s own items when scoring them, as above; days > 0 or off',
+    'ease-fit-half-life': 'EASE: recency of the entries its weights are fitted on, as for item-kNN; days > 0 or off',
+    'ease-profile-half-life': 'EASE: recency of the customer\'s own items when scoring them; days > 0 or off',
     threads: "threads to train with, 1 to 8 (default the machine's cores, at most 8)",
     seed: 'random seed for iALS and, with --tune, the validation split (default 1)',
     tune: "search each model's grid first even when the data is unchanged since the last tuning",
@@ -112,8 +139,11 @@ const trainCommand: CliCommand = {
   help: [
     'iALS: --factors, --iterations, --regularization, --alpha, --scaling linear|log (confidence 1+a*r or 1+a*log(1+r)), --seed',
     'item-kNN: --neighbours, --shrink, --knn-values, --knn-normalize.  EASE: --lambda, --ease-values.',
-    'Values: the signals of one customer on one item are summed (each weighed by its kind, decayed by age), then',
+    'Values: the signals of one customer on one item are summed (each weighed by its kind), then',
     'the sum enters as presence (1), log (log(1+v)) or linear (v).',
+    'Recency (item-kNN and EASE, --*-fit-half-life, --*-profile-half-life): that value times 2^(-age/half-life),',
+    'age = days since the pair\'s latest signal; "fit" decays what the model learns from, "profile" the customer\'s',
+    'items it scores from. Off by default; tuning searches off, 730, 180, 45, 11 days when the signals have times.',
     'Tuning (by default, when the data changed since the last tuning; --tune always; --no-tune never): a seeded',
     'validation split (by time when the signals have times, else per customer at random), a coordinate search over',
     'each model\'s log grid judged by NDCG@K (--k, default 10) within --budget plain fits, the best refitted on all',
@@ -143,9 +173,21 @@ const trainCommand: CliCommand = {
     });
     const normalize = str(env, 'knn-normalize');
     if (normalize !== undefined && normalize !== 'none' && normalize !== 'sum') throw new UsageError(`--knn-normalize must be none or sum, got '${normalize}'`);
-    const itemknn = only({ k: int(env, 'neighbours'), shrink: nonNeg(env, 'shrink'), values: transform(env, 'knn-values'), normalize: normalize as 'none' | 'sum' | undefined });
+    const itemknn = only({
+      k: int(env, 'neighbours'),
+      shrink: nonNeg(env, 'shrink'),
+      values: transform(env, 'knn-values'),
+      normalize: normalize as 'none' | 'sum' | undefined,
+      fitHalfLifeDays: halfLife(env, 'knn-fit-half-life'),
+      profileHalfLifeDays: halfLife(env, 'knn-profile-half-life'),
+    });
     const lambda = num(env, 'lambda', (x) => x > 0, 'a number > 0');
-    const ease = only({ lambda, values: transform(env, 'ease-values') });
+    const ease = only({
+      lambda,
+      values: transform(env, 'ease-values'),
+      fitHalfLifeDays: halfLife(env, 'ease-fit-half-life'),
+      profileHalfLifeDays: halfLife(env, 'ease-profile-half-life'),
+    });
     const k = int(env, 'k');
     const noTune = env.values['no-tune'] === true;
     if (noTune && env.values['tune']) throw new UsageError('give --tune or --no-tune, not both');
@@ -232,13 +274,16 @@ const modelsCommand: CliCommand = {
       m.stale ? (m.origin ? "stale: the workspace's data changed since the export" : 'stale: retrain') : 'current',
       m.evaluation ? val(m.evaluation.ndcg) : '–',
       tunedCell(m, null) || (m.tuningNotes.length ? 'not tuned' : '–'),
+      recencyCell(m.params),
     ]);
     // A model trained elsewhere says where (docs/cluster.md).
     const origins = r.models.filter((m) => m.origin).map((m) => `${m.kind}: ${m.origin!.description}`);
     const notes = tuningNoteLines(r.models);
     env.io.out(
       [
-        r.models.length ? table(['model', 'trained (UTC)', 'seconds', 'status', 'NDCG (evaluate)', 'tuned'], rows) : 'no trained models',
+        r.models.length
+          ? table(['model', 'trained (UTC)', 'seconds', 'status', 'NDCG (evaluate)', 'tuned', 'recency half-life'], rows)
+          : 'no trained models',
         ...notes,
         ...origins,
         ...hybridLines(r.hybrid),

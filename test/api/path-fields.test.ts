@@ -9,6 +9,8 @@ import { AppContext } from '../../src-main/services/context.ts';
 const NOT_PATHS: Record<string, string> = {
   fileName: 'the name an uploaded file had on the editor’s computer: shown in reports, never opened',
   'source.fileName': 'the same, for a held-out file sent with its content',
+  'itemknn.profileHalfLifeDays': 'a number of days (the customer profile’s half-life): “profile” is not a file',
+  'ease.profileHalfLifeDays': 'the same, for EASE',
 };
 
 /** Does a field's name say it holds a file or folder? (`out`, `outFile`, `...File`, `...Path`, `...Dir`, `...Folder`) */

@@ -44,9 +44,9 @@ describe('shelfwright train and models show the tuner notes', () => {
 
     const text = await run('models');
     expect(text.code, text.err).toBe(0);
-    expect(text.out).toMatch(/^model +trained \(UTC\) +seconds +status +NDCG \(evaluate\) +tuned$/m);
+    expect(text.out).toMatch(/^model +trained \(UTC\) +seconds +status +NDCG \(evaluate\) +tuned +recency half-life$/m);
     // The tuned cell: the grid's best and its validation NDCG; content has no grid.
-    expect(text.out).toMatch(/^ials +.* factors=\d+ .*\(NDCG@10 [\d.–]+\)$/m);
+    expect(text.out).toMatch(/^ials +.* factors=\d+ .*\(NDCG@10 [\d.–]+\) +\S+$/m);
     expect(text.out).toMatch(/^content +.* –$/m);
     expect(text.out).toMatch(/^tuning notes:$/m);
     expect(text.out.split('\n')).toContain(`  ials: ${note}`);

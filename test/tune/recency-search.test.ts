@@ -94,6 +94,6 @@ describe('tuning the recency half-lives', () => {
       for (const x of t.trials) expect(x.params['profileHalfLifeDays']).toBeUndefined();
       expect(r.params[model]).not.toHaveProperty('profileHalfLifeDays');
     }
-    expect(r.notes.join(' ')).toMatch(/recency half-lives not searched: .*no times/);
+    expect(r.notes.map((n) => n.text).join(' ')).toMatch(/recency half-lives not searched: .*no times/);
   }, 120_000);
 });

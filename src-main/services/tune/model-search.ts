@@ -154,7 +154,7 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
   // Recency is searched only when some entry is older than another (a log without times has no ages).
   const timed = hasAges(o.train);
   if (!timed) {
-    for (const model of ['itemknn', 'ease'] as const) {
+    for (const model of o.useEase ? (['itemknn', 'ease'] as const) : (['itemknn'] as const)) {
       notes.push({ model, text: 'recency half-lives not searched: no signal is older than another (the log has no times)' });
     }
   }

@@ -99,9 +99,10 @@ function flagFor(command: Pick<CliCommand, 'options'>, fields: NonNullable<FlagF
 }
 
 /**
- * A schema refusal said as the flag: `--threads must be a whole number from 1 to 8, got '999'`, or, for a part
- * of what a flag gave (a quota's max), `--quota 'category:0': max must be a whole number >= 1`. A field no
- * typed flag fills keeps its name.
+ * A schema refusal said as the flag: `--threads must be a whole number from 1 to 8, got '999'`; for a part of
+ * one value of a repeatable flag (a quota's max), `--quota 'category:0': max must be a whole number >= 1`; for
+ * a field inside what one flag gave (a brief in --brief JSON), the flag, then the api's own words for the field
+ * (so the app and the command line say the same). A field no typed flag fills keeps its name.
  */
 export function refusalWords(command: Pick<CliCommand, 'flagFields' | 'options'>, values: OptionValues, r: SchemaRefusal): string {
   const fields = command.flagFields[r.method];
@@ -111,10 +112,36 @@ export function refusalWords(command: Pick<CliCommand, 'flagFields' | 'options'>
   const words = limitWords(schemaAt(CONTRACT[r.method].request, path));
   const must = words && LIMIT_CODES.has(r.issue.code ?? '') ? `must be ${words}` : issueWords({ ...r.issue, path: [] });
   const rest = path.slice(match.depth).filter((k) => typeof k !== 'number').map(String);
-  if (rest.length === 0) return `--${match.flag} ${must}, got '${match.raw}'`;
-  // A field inside what one flag gave: a brief's field in its words (--brief JSON), else by its name (a
-  // --quota's max); the value typed is repeated when short enough to read.
-  const inner = match.entry ? null : fieldWords(path);
+  if (rest.length === 0 && words && LIMIT_CODES.has(r.issue.code ?? '')) return `--${match.flag} ${must}, got '${match.raw}'`;
+  if (match.entry) return `--${match.flag} '${match.raw}': ${rest.join('.')} ${must}`;
+  // The value typed is repeated when short enough to read (a whole brief is not).
   const shown = match.raw.length <= 40 ? ` '${match.raw}'` : '';
-  return `--${match.flag}${shown}: ${inner ?? rest.join('.')} ${must}`;
+  const field = `${path.map(String).join('.')}: `;
+  return `--${match.flag}${shown}: ${r.message.startsWith(field) ? r.message.slice(field.length) : r.message}`;
+}
+
+/**
+ * A service's refusal of one request field (`where.column` is the field's path, 'date' or
+ * 'horizon.commitments[0].supplier') said as the flag typed: `--date: expected a calendar date ...`, or
+ * `--commit 'X=9': no supplier 'X' ...` for a part of one value. Undefined when no typed flag fills it (the
+ * field's name stays). `text` is the error as describeApiError says it, starting with the column.
+ */
+export function apiRefusalWords(command: Pick<CliCommand, 'flagFields' | 'options'>, values: OptionValues, column: string, text: string): string | undefined {
+  const path = column
+    .replace(/\[(\d+)\]/g, '.$1')
+    .split('.')
+    .filter((p) => p !== '')
+    .map((p) => (/^\d+$/.test(p) ? Number(p) : p));
+  let match: Match | undefined;
+  for (const [method, fields] of Object.entries(command.flagFields)) {
+    if (method === 'none') continue;
+    const m = flagFor(command, fields as NonNullable<FlagFields[MethodName]>, values, path, undefined);
+    if (m && (!match || m.depth > match.depth)) match = m;
+  }
+  if (!match) return undefined;
+  const rest = text.startsWith(`${column}: `) ? text.slice(column.length + 2) : text.startsWith(`${column} `) ? text.slice(column.length + 1) : null;
+  if (rest === null) return `--${match.flag}: ${text}`;
+  const inner = path.slice(match.depth).some((k) => typeof k !== 'number');
+  if (inner) return `--${match.flag} '${match.raw}': ${rest}`;
+  return text.startsWith(`${column}: `) ? `--${match.flag}: ${rest}` : `--${match.flag} ${rest}`;
 }

@@ -8,7 +8,7 @@ import { sweepTempFolders } from '../../services/temp-folders.ts';
 import { explainStoreError } from '../../store/store-errors.ts';
 import { waitingLine } from '../../store/write-lock.ts';
 import { CliApiError } from './call.ts';
-import { refusalWords, SchemaRefusal } from './flag-fields.ts';
+import { apiRefusalWords, refusalWords, SchemaRefusal } from './flag-fields.ts';
 import { optionErrorWords } from './option-errors.ts';
 import { escapeControls } from './escape.ts';
 import { EXIT, UsageError, type CliCommand, type CliIo, type CommandEnv, type OptionSpec } from './command.ts';
@@ -200,7 +200,10 @@ export async function main(argv: string[], rawIo: CliIo, env: NodeJS.ProcessEnv 
     }
     if (e instanceof CliApiError) {
       const { code, message, where } = e.error;
-      return fail(EXIT.data, `shelfwright ${command.name}: ${e.message}`, { code, message, ...(where && { where }) });
+      // A service's refusal of one request field is said as the flag that filled it (exit code unchanged).
+      const column = where && where.file === undefined && where.line === undefined && typeof where.column === 'string' ? where.column : undefined;
+      const text = (column !== undefined && apiRefusalWords(command, values, column, e.message)) || e.message;
+      return fail(EXIT.data, `shelfwright ${command.name}: ${text}`, { code, message, ...(where && { where }) });
     }
     throw e;
   } finally {

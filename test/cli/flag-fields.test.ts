@@ -31,17 +31,15 @@ interface FieldDef {
 }
 const defOf = (method: MethodName, field: string) => schemaAt(CONTRACT[method].request, field.split('.'))?._zod.def as FieldDef | undefined;
 
-/** A value past the field's limit, as typed on the command line, or undefined when the field has none to pass. */
-function pastLimit(d: FieldDef | undefined): string | undefined {
-  if (!d) return undefined;
-  if (d.type === 'enum') return 'no-such-choice';
-  if (d.type !== 'number') return undefined;
+/** Values past the field's limits (each end), as typed on the command line; none when the field has no limit. */
+function pastLimits(d: FieldDef | undefined): string[] {
+  if (!d) return [];
+  if (d.type === 'enum') return ['no-such-choice'];
+  if (d.type !== 'number') return [];
   const checks = (d.checks ?? []).map((c) => c._zod.def);
   const max = checks.find((c) => c.check === 'less_than');
   const min = checks.find((c) => c.check === 'greater_than');
-  if (max?.value !== undefined) return String(max.value + 1);
-  if (min?.value !== undefined) return String(min.value - 1);
-  return undefined;
+  return [...(max?.value !== undefined ? [String(max.value + 1)] : []), ...(min?.value !== undefined ? [String(min.value - 1)] : [])];
 }
 
 /** What each command needs around the flag under test (positionals and required flags) on the seeded shop. */
@@ -99,9 +97,9 @@ describe("a value past the api's limit names the flag typed, and changes nothing
     expect((await cli.run('shelf', 'add', 'week 10', 'Front', '--size', '4')).code).toBe(0);
   });
   // A switch fills a field with yes or no: nothing to pass (parseArgs refuses a value for it, tested below).
-  const cases = DECLARED.filter((d) => d.command.options[d.flag]?.type === 'string')
-    .map((d) => ({ ...d, value: pastLimit(defOf(d.method, d.field)) }))
-    .filter((d) => d.value !== undefined);
+  const cases = DECLARED.filter((d) => d.command.options[d.flag]?.type === 'string').flatMap((d) =>
+    pastLimits(defOf(d.method, d.field)).map((value) => ({ ...d, value, words: limitWords(schemaAt(CONTRACT[d.method].request, d.field.split('.'))) })),
+  );
 
   it('covers the limits of every kind of command (numbers and choices)', () => {
     // Enough cases that a broken walk over the schemas (no limits found) fails here.
@@ -115,7 +113,19 @@ describe("a value past the api's limit names the flag typed, and changes nothing
     expect(r.code, r.err).toBe(1);
     const first = r.err.split('\n')[0]!;
     expect(first).toContain(`--${c.flag}`);
-    expect(first).toMatch(/must be|expects/);
+    // The whole limit the api enforces, in the schema's words, whichever check (the command's or the api's) said
+    // it; a choice's own check may list the choices its way, but lists every one.
+    if (c.value === 'no-such-choice') {
+      expect(first).toContain(`--${c.flag} must be`);
+      for (const choice of Object.values(defOf(c.method, c.field)!.entries!)) expect(first).toContain(choice);
+      expect(first).toContain("got 'no-such-choice'");
+    } else {
+      // Every bound the schema states, e.g. "1" and "8" of "a whole number from 1 to 8".
+      expect(first).toContain(`--${c.flag} must be `);
+      const said = first.replace(/, got '.*$/, '');
+      for (const bound of c.words!.match(/-?\d+(\.\d+)?/g) ?? []) expect(said).toMatch(new RegExp(`(^|[^\\d.])${bound.replace('.', '\\.')}($|[^\\d.])`));
+      expect(first).toContain(`got '${c.value}'`);
+    }
     // Not the schema's path or zod's own wording.
     expect(first).not.toContain(`${c.field}:`);
     expect(first).not.toMatch(/expected number to be|Invalid option/);

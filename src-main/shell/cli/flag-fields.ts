@@ -1,6 +1,8 @@
+import type { z } from 'zod';
 import { CONTRACT, type MethodName } from '../../api/contract.ts';
 import { fieldWords, issueWords, type IssueLike } from '../../core/curation/rule-words.ts';
 import { UsageError, type CliCommand, type OptionValues } from './command.ts';
+import type { FlagValueError } from './flags.ts';
 import { limitWords, schemaAt } from './limit-words.ts';
 
 /**
@@ -144,4 +146,35 @@ export function apiRefusalWords(command: Pick<CliCommand, 'flagFields' | 'option
   const inner = path.slice(match.depth).some((k) => typeof k !== 'number');
   if (inner) return `--${match.flag} '${match.raw}': ${rest}`;
   return text.startsWith(`${column}: `) ? `--${match.flag}: ${rest}` : `--${match.flag} ${rest}`;
+}
+
+/**
+ * A number the command's own check refused, said with the limit of the field the flag fills when the value is
+ * past that limit too (so `--factors 0` and `--factors 5000` both say "a whole number from 1 to 1024").
+ */
+export function flagValueWords(command: Pick<CliCommand, 'flagFields'>, e: FlagValueError): string | undefined {
+  const said = new Set<string>();
+  for (const [method, fields] of Object.entries(command.flagFields)) {
+    if (method === 'none') continue;
+    const f = (fields as Record<string, string | readonly string[]>)[e.flag];
+    if (f === undefined) continue;
+    const field = typeof f === 'string' ? f : f[0]!;
+    const schema = schemaAt(CONTRACT[method as MethodName].request, field.split('.'));
+    const words = limitWords(schema);
+    const x = e.raw.trim() === '' ? Number.NaN : Number(e.raw);
+    if (!schema || !words || (schema as unknown as z.ZodType).safeParse(x).success) return undefined;
+    said.add(words);
+  }
+  // A flag whose methods differ in their limits (evaluate --k: 200, or 500 with --holdout) keeps the command's
+  // own words, which know the mode; so do words that already give the field's bounds ("a number of plain
+  // fits from 0.5 to 20").
+  if (said.size !== 1) return undefined;
+  const words = [...said][0]!;
+  if (boundsIn(words).every((b) => boundsIn(e.message).includes(b))) return undefined;
+  return `--${e.flag} must be ${words}, got '${e.raw}'`;
+}
+
+/** The numbers a limit states, before the value quoted after "got". */
+function boundsIn(text: string): string[] {
+  return text.replace(/, got '.*$/s, '').match(/-?\d+(\.\d+)?/g) ?? [];
 }

@@ -8,7 +8,8 @@ import { sweepTempFolders } from '../../services/temp-folders.ts';
 import { explainStoreError } from '../../store/store-errors.ts';
 import { waitingLine } from '../../store/write-lock.ts';
 import { CliApiError } from './call.ts';
-import { apiRefusalWords, refusalWords, SchemaRefusal } from './flag-fields.ts';
+import { apiRefusalWords, flagValueWords, refusalWords, SchemaRefusal } from './flag-fields.ts';
+import { FlagValueError } from './flags.ts';
 import { optionErrorWords } from './option-errors.ts';
 import { escapeControls } from './escape.ts';
 import { EXIT, UsageError, type CliCommand, type CliIo, type CommandEnv, type OptionSpec } from './command.ts';
@@ -190,6 +191,7 @@ export async function main(argv: string[], rawIo: CliIo, env: NodeJS.ProcessEnv 
     if (e instanceof UsageError) {
       // A value the api's schema refused is said as the flag that set it (flag-fields.ts).
       if (e instanceof SchemaRefusal) e.message = refusalWords(command, values, e);
+      if (e instanceof FlagValueError) e.message = flagValueWords(command, e) ?? e.message;
       return fail(EXIT.usage, `shelfwright ${command.name}: ${e.message}\nRun 'shelfwright ${command.name} --help'.`, { message: e.message });
     }
     if (e instanceof InputError) {

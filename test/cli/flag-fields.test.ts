@@ -215,6 +215,7 @@ describe('unknown options and missing values', () => {
     expect((await cli.run('train', '--tune=yes')).err.split('\n')[0]).toBe('shelfwright train: --tune is a switch and takes no value');
   });
 
+  // Suggesting the nearest option is common practice, no source; the distances are Levenshtein's (1966).
   it('nearest options: a part of a name, then edit distance 2 at most (Levenshtein 1966)', () => {
     const known = ['threads', 'knn-values', 'ease-values', 'k', 'seed', 'shrink'];
     expect(nearestOptions('values', known)).toEqual(['knn-values', 'ease-values']);

@@ -185,6 +185,12 @@ describe("a service's refusal of one field is said as the flag too (still a data
     const c = await cli.run('plan', 'Front', '--from', '2026-03-09', '--commit', 'Mossgate=1', '--commit', 'Nowhere Ltd=2');
     expect(c.code).toBe(2);
     expect(c.err).toBe("shelfwright plan: --commit 'Nowhere Ltd=2': no supplier 'Nowhere Ltd' in the catalogue");
+    const from = await cli.run('plan', 'Front', '--from', 'yesterday');
+    expect(from.code).toBe(2);
+    expect(from.err).toBe("shelfwright plan: --from: expected a calendar date YYYY-MM-DD, got 'yesterday'");
+    const slot = await cli.run('shelf', 'pin', 'week 10', 'Front', 'SKU-001', '--slot', '99');
+    expect(slot.code).toBe(2);
+    expect(slot.err).toMatch(/^shelfwright shelf pin: --slot must be between 1 and 4, got 99$/);
     expect(fs.readFileSync(cli.file).equals(before)).toBe(true);
   });
 });

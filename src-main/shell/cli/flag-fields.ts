@@ -124,7 +124,7 @@ export function refusalWords(command: Pick<CliCommand, 'flagFields' | 'options'>
 
 /**
  * A service's refusal of one request field (`where.column` is the field's path, 'date' or
- * 'horizon.commitments[0].supplier') said as the flag typed: `--date: expected a calendar date ...`, or
+ * 'horizon.commitments[0].supplier', or a typed flag's own name) said as the flag typed: `--date: expected a calendar date ...`, or
  * `--commit 'X=9': no supplier 'X' ...` for a part of one value. Undefined when no typed flag fills it (the
  * field's name stays). `text` is the error as describeApiError says it, starting with the column.
  */
@@ -140,6 +140,9 @@ export function apiRefusalWords(command: Pick<CliCommand, 'flagFields' | 'option
     const m = flagFor(command, fields as NonNullable<FlagFields[MethodName]>, values, path, undefined);
     if (m && (!match || m.depth > match.depth)) match = m;
   }
+  // A service that names the value by the flag's own name (plan's `from`, `pin`; an action's `slot`).
+  const typed = given(values[column]);
+  if (!match && Object.hasOwn(command.options, column) && typed.length > 0) match = { flag: column, depth: path.length, raw: typed.at(-1)!, entry: false };
   if (!match) return undefined;
   const rest = text.startsWith(`${column}: `) ? text.slice(column.length + 2) : text.startsWith(`${column} `) ? text.slice(column.length + 1) : null;
   if (rest === null) return `--${match.flag}: ${text}`;

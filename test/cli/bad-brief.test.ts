@@ -31,7 +31,10 @@ describe('a bad brief', () => {
 
     const cli = await run('shelf', 'add', 'week 10', 'Front', '--brief', JSON.stringify(brief));
     expect(cli.code).not.toBe(0);
-    expect(cli.err).toContain(api.error.message);
+    // The same words, after the flag that gave the brief (--brief, with the JSON when short enough to read)
+    // where the api names its field (`brief`).
+    expect(cli.err).toMatch(/^shelfwright shelf add: --brief( '[^\n]*')?: /);
+    expect(cli.err).toContain(`: ${api.error.message.replace(/^brief: /, '')}`);
 
     const shown = await json('edition', 'show', 'week 10');
     expect(shown.shelves).toEqual([]);

@@ -116,7 +116,7 @@ describe('shelfwright import signals --kind (issue 10 item 7: files without a ki
   it('exits 1 naming the flag and the valid kinds for an unknown kind, or for a target other than signals', async () => {
     const io = capture();
     expect(await main(['import', 'signals', plays(), '--kind', 'listen', '-w', ws], io, {})).toBe(1);
-    expect(io.stderr.join('\n')).toContain("--kind is one of view, basket, purchase, rating, read, click, other, got 'listen'");
+    expect(io.stderr.join('\n')).toContain("--kind must be one of view, basket, purchase, rating, read, click, other, got 'listen'");
     const items = capture();
     expect(await main(['import', 'items', plays(), '--kind', 'view', '-w', ws], items, {})).toBe(1);
     expect(items.stderr.join('\n')).toContain('--kind is for signals only, not items');

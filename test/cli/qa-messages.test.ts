@@ -54,10 +54,11 @@ describe('api errors on the command line', () => {
     const before = JSON.parse((await run('shelf', 'meter', 'week 1', 'Front', '--json')).out) as { slots: unknown[]; actions: unknown[] };
     const pin = await run('shelf', 'pin', 'week 1', 'Front', 'I00001', '--slot', '9');
     expect(pin.code).toBe(2);
-    expect(pin.err).toBe('shelfwright shelf pin: slot must be between 1 and 4, got 9');
+    // Said as the flag typed (flag-fields.ts: the service names the field by the flag's own name).
+    expect(pin.err).toBe('shelfwright shelf pin: --slot must be between 1 and 4, got 9');
     const move = await run('shelf', 'move', 'week 1', 'Front', '--from', '1', '--to', '7');
     expect(move.code).toBe(2);
-    expect(move.err).toBe('shelfwright shelf move: to: slot must be between 1 and 4, got 7');
+    expect(move.err).toBe('shelfwright shelf move: --to: slot must be between 1 and 4, got 7');
     const after = JSON.parse((await run('shelf', 'meter', 'week 1', 'Front', '--json')).out) as typeof before;
     expect(after.slots).toEqual(before.slots);
     expect(after.actions).toEqual(before.actions);

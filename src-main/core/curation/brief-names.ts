@@ -2,6 +2,7 @@ import { InputError } from '../errors.ts';
 import type { Item } from '../types.ts';
 import { fieldProblem } from './rule-words.ts';
 import type { Brief } from './types.ts';
+import { editDistance } from '../util/edit-distance.ts';
 
 type Facet = 'category' | 'supplier' | 'tag';
 
@@ -55,21 +56,4 @@ function closest(value: string, names: ReadonlySet<string>): string[] {
     if (d <= 2) scored.push([n, d]);
   }
   return scored.sort((a, b) => a[1] - b[1] || a[0].localeCompare(b[0])).slice(0, 3).map(([n]) => n);
-}
-
-/** Levenshtein distance (Levenshtein 1966), stopping early once every cell exceeds `limit`. */
-function editDistance(a: string, b: string, limit: number): number {
-  if (Math.abs(a.length - b.length) > limit) return limit + 1;
-  let prev = Array.from({ length: b.length + 1 }, (_, j) => j);
-  for (let i = 1; i <= a.length; i++) {
-    const cur = [i];
-    let best = i;
-    for (let j = 1; j <= b.length; j++) {
-      cur[j] = Math.min(prev[j]! + 1, cur[j - 1]! + 1, prev[j - 1]! + (a[i - 1] === b[j - 1] ? 0 : 1));
-      best = Math.min(best, cur[j]!);
-    }
-    if (best > limit) return limit + 1;
-    prev = cur;
-  }
-  return prev[b.length]!;
 }

@@ -1,8 +1,8 @@
 import { invoke, type HandlerTable } from '../../api/handler-table.ts';
 import { CONTRACT, type MethodName, type RequestOf, type ResponseOf } from '../../api/contract.ts';
 import type { ApiError } from '../../api/define.ts';
-import { UsageError } from './command.ts';
-import { fieldWords, issueWords, type IssueLike } from '../../core/curation/rule-words.ts';
+import type { IssueLike } from '../../core/curation/rule-words.ts';
+import { SchemaRefusal } from './flag-fields.ts';
 
 const REPEATED = /^([\w.[\]-]+): \1[: ]/;
 
@@ -31,17 +31,13 @@ export class CliApiError extends Error {
 
 /**
  * Calls one api method through the same handler table (and schemas) as the app's shells. A request the
- * method's schema refuses was built from the command line's flags, so it is a usage error (exit 1), said
- * with the field the schema names.
+ * method's schema refuses was built from the command line's flags, so it is a usage error (exit 1); main()
+ * says it as the flag that set the field (flag-fields.ts).
  */
 export async function call<M extends MethodName>(table: HandlerTable, name: M, payload: RequestOf<M>): Promise<ResponseOf<M>> {
   const checked = CONTRACT[name].request.safeParse(payload);
   if (!checked.success) {
-    const issue = checked.error.issues[0]!;
-    // A brief's field is said in words, as the api says it (core/curation/rule-words.ts).
-    if (fieldWords(issue.path) !== null) throw new UsageError(issueWords(issue as IssueLike));
-    const field = issue.path.join('.');
-    throw new UsageError(`${field ? `${field}: ` : ''}${issue.message.replace(/^Too (big|small): /, 'too $1: ')}`);
+    throw new SchemaRefusal(name, checked.error.issues[0] as IssueLike, payload);
   }
   const r = await invoke(table, name, payload);
   if (!r.ok) throw new CliApiError(r.error);

@@ -1,6 +1,7 @@
 import type { ParseArgsConfig } from 'node:util';
 import type { HandlerTable } from '../../api/handler-table.ts';
 import type { AppContext } from '../../services/context.ts';
+import type { FlagFields } from './flag-fields.ts';
 
 export type OptionSpec = NonNullable<ParseArgsConfig['options']>;
 export type OptionValues = Record<string, string | boolean | string[] | boolean[] | undefined>;
@@ -56,6 +57,11 @@ export interface CliCommand {
   options: OptionSpec;
   /** One line per option in `options`: what it does, its values and default (shown by --help; tested). */
   about: Record<string, string>;
+  /**
+   * Which api request field each option fills (or `none`), so the api's refusal of a value names the flag
+   * (flag-fields.ts). Declared beside `options`; every option is in it (test/cli/flag-fields.test.ts).
+   */
+  flagFields: FlagFields;
   /** Extra help text: how the flags combine, examples. */
   help?: string;
   run(env: CommandEnv): Promise<number>;

@@ -8,6 +8,9 @@ import { sweepTempFolders } from '../../services/temp-folders.ts';
 import { explainStoreError } from '../../store/store-errors.ts';
 import { waitingLine } from '../../store/write-lock.ts';
 import { CliApiError } from './call.ts';
+import { apiRefusalWords, flagValueWords, refusalWords, SchemaRefusal } from './flag-fields.ts';
+import { FlagValueError } from './flags.ts';
+import { optionErrorWords } from './option-errors.ts';
 import { escapeControls } from './escape.ts';
 import { EXIT, UsageError, type CliCommand, type CliIo, type CommandEnv, type OptionSpec } from './command.ts';
 
@@ -147,7 +150,8 @@ export async function main(argv: string[], rawIo: CliIo, env: NodeJS.ProcessEnv 
   try {
     parsed = parseArgs({ args: rest, options: { ...GLOBAL_OPTIONS, ...command.options }, allowPositionals: true, strict: true });
   } catch (e) {
-    const message = (e as Error).message;
+    const known = Object.keys({ ...GLOBAL_OPTIONS, ...command.options });
+    const message = optionErrorWords(e as { code?: string; message: string }, command.name, known) ?? (e as Error).message;
     return fail(EXIT.usage, `shelfwright ${command.name}: ${message}\nRun 'shelfwright ${command.name} --help'.`, { message });
   }
   const values = parsed.values as CommandEnv['values'];
@@ -185,6 +189,9 @@ export async function main(argv: string[], rawIo: CliIo, env: NodeJS.ProcessEnv 
   } catch (thrown) {
     const e = explainStoreError(thrown, workspace);
     if (e instanceof UsageError) {
+      // A value the api's schema refused is said as the flag that set it (flag-fields.ts).
+      if (e instanceof SchemaRefusal) e.message = refusalWords(command, values, e);
+      if (e instanceof FlagValueError) e.message = flagValueWords(command, e) ?? e.message;
       return fail(EXIT.usage, `shelfwright ${command.name}: ${e.message}\nRun 'shelfwright ${command.name} --help'.`, { message: e.message });
     }
     if (e instanceof InputError) {
@@ -195,7 +202,10 @@ export async function main(argv: string[], rawIo: CliIo, env: NodeJS.ProcessEnv 
     }
     if (e instanceof CliApiError) {
       const { code, message, where } = e.error;
-      return fail(EXIT.data, `shelfwright ${command.name}: ${e.message}`, { code, message, ...(where && { where }) });
+      // A service's refusal of one request field is said as the flag that filled it (exit code unchanged).
+      const column = where && where.file === undefined && where.line === undefined && typeof where.column === 'string' ? where.column : undefined;
+      const text = (column !== undefined && apiRefusalWords(command, values, column, e.message)) || e.message;
+      return fail(EXIT.data, `shelfwright ${command.name}: ${text}`, { code, message, ...(where && { where }) });
     }
     throw e;
   } finally {

@@ -39,6 +39,7 @@ export const audienceCommands: CliCommand[] = [
     summary: 'the taste groups found in the customers’ iALS factors: size, cohesion, separation, top categories and tags',
     usage: ['[--min-k N] [--max-k N] [--min-history N]'],
     options: { 'min-k': { type: 'string' }, 'max-k': { type: 'string' }, 'min-history': { type: 'string' } },
+    flagFields: { 'audience.settings': { 'min-k': 'minK', 'max-k': 'maxK', 'min-history': 'minHistory' } },
     about: {
       'min-k': 'the fewest groups to consider (saved for the workspace; default 2)',
       'max-k': 'the most groups to consider (saved; default 12)',
@@ -64,6 +65,7 @@ export const audienceCommands: CliCommand[] = [
     summary: 'name a taste group; the name follows its customers into later trainings',
     usage: ['GROUP NAME', '--remove NAME'],
     options: { remove: { type: 'string' } },
+    flagFields: { 'audience.name': { remove: 'remove' } },
     about: { remove: 'remove this name' },
     help: 'examples:\n  shelfwright audience name 2 "Balcony growers"\n  shelfwright audience name --remove "Balcony growers"',
     async run(env) {

@@ -10,6 +10,7 @@ export const exportSignalsCommand: CliCommand = {
   summary: 'write the signals (kind weights, optional time decay) and an id map as Parquet, for training on a Spark cluster',
   usage: ['--format parquet --out DIR [--half-life DAYS] [--json]'],
   options: { format: { type: 'string' }, out: { type: 'string' }, 'half-life': { type: 'string' } },
+  flagFields: { 'signals.export': { out: 'out', 'half-life': 'halfLifeDays' }, none: ['format'] },
   about: {
     format: 'parquet (the one format; required, so the command says what it writes)',
     out: 'a new (or empty) folder: signals/, customers/, items/ and shelfwright-export.json go into it',
@@ -45,6 +46,7 @@ export const importModelCommand: CliCommand = {
   summary: "store a Spark ALS model folder (ALSModel.save) as the workspace's iALS model",
   usage: ['DIR [--ids EXPORT_DIR] [--json]'],
   options: { ids: { type: 'string' } },
+  flagFields: { 'model.import': { ids: 'idsFolder' } },
   about: { ids: "the folder `export signals` wrote, holding the id map (default: DIR's parent folder)" },
   help: [
     'DIR is what model.save(DIR) wrote on the cluster: metadata/, userFactors/ and itemFactors/.',

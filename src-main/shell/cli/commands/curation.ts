@@ -82,6 +82,18 @@ const BRIEF_OPTIONS: OptionSpec = {
   audience: { type: 'string' },
 };
 
+/** The brief field each brief flag fills, inside shelf.add's and shelf.brief's request (flag-fields.ts). */
+const BRIEF_FIELDS = {
+  size: 'brief.size',
+  brief: 'brief',
+  quota: 'brief.rules.quotas',
+  'promoted-max': 'brief.rules.promoted.maxCount',
+  'promoted-min': 'brief.rules.promoted.minCount',
+  rest: 'brief.rules.restPeriod',
+  category: 'brief.include.categories',
+  audience: 'brief.audience',
+};
+
 /** Only on `shelf brief`: taking quotas off the brief the shelf has. */
 const DROP_QUOTA_OPTIONS: OptionSpec = {
   'drop-quota': { type: 'string', multiple: true },
@@ -215,6 +227,8 @@ function actionCommand(
   summary: string,
   usage: string,
   options: OptionSpec,
+  /** The field of the action each option fills (flag-fields.ts), e.g. { slot: 'action.slot' }. */
+  fields: Record<string, string>,
   about: Record<string, string>,
   build: (env: CommandEnv, rest: string[]) => RequestOf<'shelf.act'>['action'],
   example = '',
@@ -224,6 +238,7 @@ function actionCommand(
     summary,
     usage: [usage],
     options: { ...options, ...reasonOpt },
+    flagFields: { 'shelf.act': { ...fields, reason: 'reason' } },
     about: { ...about, reason: REASON_ABOUT },
     help: `example:\n  shelfwright shelf ${name} ${example}`,
     async run(env) {
@@ -263,6 +278,7 @@ function shelfCommand(name: 'fill' | 'refill' | 'meter' | 'undo' | 'redo', summa
     summary,
     usage: ['EDITION SHELF'],
     options: {},
+    flagFields: {},
     about: {},
     help: `example:\n  shelfwright shelf ${name} "week 10" Front`,
     async run(env) {
@@ -279,6 +295,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'start an edition on a date (optionally from an earlier one: shelves and briefs, not slots)',
     usage: ['LABEL --date YYYY-MM-DD [--from LABEL]'],
     options: { date: { type: 'string' }, from: { type: 'string' } },
+    flagFields: { 'edition.new': { date: 'date', from: 'from' } },
     about: {
       date: 'the date the edition runs, YYYY-MM-DD (required)',
       from: 'copy the shelves and briefs (not the slots) of this earlier edition',
@@ -301,6 +318,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'every edition with its date and status',
     usage: [''],
     options: {},
+    flagFields: {},
     about: {},
     help: 'example:\n  shelfwright edition list --json',
     async run(env) {
@@ -317,6 +335,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'an edition: every shelf with its meter, and the edition meter',
     usage: ['LABEL'],
     options: {},
+    flagFields: {},
     about: {},
     help: 'example:\n  shelfwright edition show "week 10"',
     async run(env) {
@@ -342,6 +361,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'freeze an edition into read-only history, after listing unmet rules and shelves never opened',
     usage: ['LABEL [--yes]'],
     options: { yes: { type: 'boolean' } },
+    flagFields: { none: ['yes'] },
     about: { yes: 'publish without asking (required when no one is at a terminal to answer y/N)' },
     help: [
       'Publishing cannot be undone. The command first lists every rule a shelf does not meet and the shelves',
@@ -378,6 +398,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'per shelf, what edition B added, removed and moved relative to edition A',
     usage: ['A B'],
     options: {},
+    flagFields: {},
     about: {},
     help: 'example:\n  shelfwright edition compare "week 10" "week 11"',
     async run(env) {
@@ -407,6 +428,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'an edition as CSV, JSON or a standalone HTML preview',
     usage: ['LABEL --format csv|json|html [--out FILE]'],
     options: { format: { type: 'string' }, out: { type: 'string' } },
+    flagFields: { 'edition.export': { format: 'format' }, none: ['out'] },
     about: { format: 'csv, json or html (required)', out: 'write the export to this file (default: print it on stdout); a CSV gets its notes beside it in FILE.notes.txt' },
     help: '  without --out the export is written to stdout\n\nexample:\n  shelfwright edition export "week 10" --format html --out week10.html',
     async run(env) {
@@ -438,6 +460,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'add a shelf to a draft edition and fill it',
     usage: ['EDITION LABEL --size N [--quota FACET:MAX[:VALUE]]... [--promoted-max SHARE] [--promoted-min SHARE] [--rest N] [--category NAME]... [--audience WHO] [--brief JSON]'],
     options: BRIEF_OPTIONS,
+    flagFields: { 'shelf.add': BRIEF_FIELDS },
     about: briefAbout(false),
     help: [
       'example:',
@@ -457,6 +480,7 @@ export const curationCommands: CliCommand[] = [
       'EDITION SHELF [--size N] [--quota FACET:MAX[:VALUE]]... [--drop-quota FACET[:VALUE]]... [--no-quotas] [--promoted-max SHARE] [--promoted-min SHARE] [--rest N] [--category NAME]... [--audience WHO] [--brief JSON]',
     ],
     options: { ...BRIEF_OPTIONS, ...DROP_QUOTA_OPTIONS, ...reasonOpt },
+    flagFields: { 'shelf.brief': { ...BRIEF_FIELDS, reason: 'reason' }, none: ['drop-quota', 'no-quotas'] },
     about: { ...briefAbout(true), ...DROP_QUOTA_ABOUT, reason: REASON_ABOUT },
     help: [
       "Flags left out keep the brief's current value. Quotas: --no-quotas or --drop-quota first take quotas off,",
@@ -481,12 +505,12 @@ export const curationCommands: CliCommand[] = [
   shelfCommand('fill', "the same as 'shelf refill'", 'shelf.fill'),
   shelfCommand('meter', 'a shelf as it stands with its meter and the rules it could not meet', 'shelf.show'),
   ...meterCommands,
-  actionCommand('pin', 'fix an item at a slot', 'EDITION SHELF ITEM --slot N', { slot: { type: 'string' } }, { slot: 'the slot to fix the item at, counting from 1 (required)' }, (env, rest) => ({
+  actionCommand('pin', 'fix an item at a slot', 'EDITION SHELF ITEM --slot N', { slot: { type: 'string' } }, { slot: 'action.slot' }, { slot: 'the slot to fix the item at, counting from 1 (required)' }, (env, rest) => ({
     kind: 'pin',
     item: oneItem(rest),
     slot: slotFlag(env, 'slot'),
   }), '"week 10" Front SKU-014 --slot 1 --reason "launch week"'),
-  actionCommand('unpin', 'release a pinned slot', 'EDITION SHELF --slot N', { slot: { type: 'string' } }, { slot: 'the pinned slot to release, counting from 1 (required)' }, (env, rest) => {
+  actionCommand('unpin', 'release a pinned slot', 'EDITION SHELF --slot N', { slot: { type: 'string' } }, { slot: 'action.slot' }, { slot: 'the pinned slot to release, counting from 1 (required)' }, (env, rest) => {
     if (rest.length) throw new UsageError(`unexpected argument '${rest[0]}'`);
     return { kind: 'unpin', slot: slotFlag(env, 'slot') };
   }, '"week 10" Front --slot 1'),
@@ -495,6 +519,7 @@ export const curationCommands: CliCommand[] = [
     'exclude an item, or every item of a category, supplier or tag',
     'EDITION SHELF (ITEM | --category X | --supplier X | --tag X) [--scope shelf|edition|later|until:YYYY-MM-DD|always]',
     { scope: { type: 'string' }, category: { type: 'string' }, supplier: { type: 'string' }, tag: { type: 'string' } },
+    { scope: 'action.scope', category: 'action.value', supplier: 'action.value', tag: 'action.value' },
     {
       scope:
         'where the ban holds: shelf (default), edition (every shelf of this edition), later (this edition and every ' +
@@ -518,6 +543,7 @@ export const curationCommands: CliCommand[] = [
     "lift this shelf's ban on an item, or on a category, supplier or tag",
     'EDITION SHELF (ITEM | --category X | --supplier X | --tag X)',
     { category: { type: 'string' }, supplier: { type: 'string' }, tag: { type: 'string' } },
+    { category: 'action.value', supplier: 'action.value', tag: 'action.value' },
     { category: 'lift the ban on this category', supplier: 'lift the ban on this supplier', tag: 'lift the ban on this tag' },
     (env, rest) => {
       const rules = (['category', 'supplier', 'tag'] as const).filter((f) => str(env, f) !== undefined);
@@ -527,25 +553,25 @@ export const curationCommands: CliCommand[] = [
     },
     '"week 10" Front SKU-007',
   ),
-  actionCommand('boost', "raise an item's score by a factor", 'EDITION SHELF ITEM --factor F', { factor: { type: 'string' } }, { factor: "multiply the item's score by this number above 0 (default 2)" }, (env, rest) => ({
+  actionCommand('boost', "raise an item's score by a factor", 'EDITION SHELF ITEM --factor F', { factor: { type: 'string' } }, { factor: 'action.factor' }, { factor: "multiply the item's score by this number above 0 (default 2)" }, (env, rest) => ({
     kind: 'boost',
     item: oneItem(rest),
     factor: num(env, 'factor', (x) => x > 0, 'a number above 0') ?? 2,
   }), '"week 10" Front SKU-021 --factor 1.5'),
-  actionCommand('sink', "lower an item's score by a factor", 'EDITION SHELF ITEM --factor F', { factor: { type: 'string' } }, { factor: "divide the item's score by this number above 0 (default 2)" }, (env, rest) => ({
+  actionCommand('sink', "lower an item's score by a factor", 'EDITION SHELF ITEM --factor F', { factor: { type: 'string' } }, { factor: 'action.factor' }, { factor: "divide the item's score by this number above 0 (default 2)" }, (env, rest) => ({
     kind: 'sink',
     item: oneItem(rest),
     factor: num(env, 'factor', (x) => x > 0, 'a number above 0') ?? 2,
   }), '"week 10" Front SKU-021 --factor 3'),
-  actionCommand('lock', 'freeze a shelf: later actions are recorded but it is not filled again', 'EDITION SHELF', {}, {}, (_env, rest) => {
+  actionCommand('lock', 'freeze a shelf: later actions are recorded but it is not filled again', 'EDITION SHELF', {}, {}, {}, (_env, rest) => {
     if (rest.length) throw new UsageError(`unexpected argument '${rest[0]}'`);
     return { kind: 'lock' };
   }, '"week 10" Front'),
-  actionCommand('unlock', 'unfreeze a shelf and fill it again', 'EDITION SHELF', {}, {}, (_env, rest) => {
+  actionCommand('unlock', 'unfreeze a shelf and fill it again', 'EDITION SHELF', {}, {}, {}, (_env, rest) => {
     if (rest.length) throw new UsageError(`unexpected argument '${rest[0]}'`);
     return { kind: 'unlock' };
   }, '"week 10" Front'),
-  actionCommand('move', 'move the item at one slot to another by hand (it is pinned there)', 'EDITION SHELF --from A --to B', { from: { type: 'string' }, to: { type: 'string' } }, {
+  actionCommand('move', 'move the item at one slot to another by hand (it is pinned there)', 'EDITION SHELF --from A --to B', { from: { type: 'string' }, to: { type: 'string' } }, { from: 'action.from', to: 'action.to' }, {
     from: 'the slot whose item moves, counting from 1 (required)',
     to: 'the slot it moves to and is pinned at, counting from 1 (required)',
   }, (env, rest) => {
@@ -559,6 +585,7 @@ export const curationCommands: CliCommand[] = [
     summary: 'for one slot, the best candidates and the change each would make to the meter',
     usage: ['EDITION SHELF --slot N [--n COUNT]'],
     options: { slot: { type: 'string' }, n: { type: 'string' } },
+    flagFields: { 'shelf.whatif': { slot: 'slot', n: 'n' } },
     about: { slot: 'the slot to look at, counting from 1 (required)', n: 'how many candidates to list, 1 to 200 (default 10)' },
     help: '  --slot N   the slot, from 1\n  --n COUNT  how many candidates (default 10)\n\nexample:\n  shelfwright shelf whatif "week 10" Front --slot 3 --n 5',
     async run(env) {
@@ -580,6 +607,7 @@ export const curationCommands: CliCommand[] = [
     summary: "share of the shelf's audience who engaged with its items in the latest window, beside a popularity list",
     usage: ['EDITION SHELF [--window DAYS]'],
     options: { window: { type: 'string' } },
+    flagFields: { 'shelf.backtest': { window: 'windowDays' } },
     about: { window: 'days of the most recent signals held out for the check, 1 to 365 (default 28)' },
     help: '  --window DAYS  the held-out window (default 28)\n\nexample:\n  shelfwright shelf backtest "week 10" Front --window 28',
     async run(env) {
@@ -605,6 +633,7 @@ export const curationCommands: CliCommand[] = [
     summary: "erase one customer's signals and row on request",
     usage: ['CUSTOMER'],
     options: {},
+    flagFields: {},
     about: {},
     help: 'example:\n  shelfwright forget C-1042',
     async run(env) {

@@ -44,6 +44,9 @@ function printReport(r: ImportReport, out: (t: string) => void): void {
   if (r.errorCount > r.errors.length) out(`  ... and ${plural(r.errorCount - r.errors.length, 'more rejected row', 'more rejected rows')}`);
 }
 
+/** The request fields import.preview and import.run share, by the flag that fills each. */
+const IMPORT_FIELDS = { map: 'mapping', 'mapping-file': 'mappingFile', format: 'format', delimiter: 'delimiter', 'date-order': 'dateOrder', kind: 'kind' };
+
 export const importCommand: CliCommand = {
   name: 'import',
   summary: 'import items, customers or signals from CSV, JSON or JSON Lines',
@@ -58,6 +61,11 @@ export const importCommand: CliCommand = {
     'create-customers': { type: 'boolean', default: false },
     'accept-partial': { type: 'boolean', default: false },
     preview: { type: 'boolean', default: false },
+  },
+  flagFields: {
+    'import.preview': IMPORT_FIELDS,
+    'import.run': { ...IMPORT_FIELDS, 'create-customers': 'unknown', 'accept-partial': 'acceptPartial' },
+    none: ['preview'],
   },
   about: {
     map: 'repeatable: FIELD=HEADER, read the field from that column (overrides detection)',
@@ -96,12 +104,12 @@ export const importCommand: CliCommand = {
     if (extra.length) throw new UsageError(`unexpected argument '${extra[0]}'`);
     const v = env.values;
     const format = v['format'] as string | undefined;
-    if (format !== undefined && !['csv', 'json', 'jsonl'].includes(format)) throw new UsageError('--format is csv, json or jsonl');
+    if (format !== undefined && !['csv', 'json', 'jsonl'].includes(format)) throw new UsageError(`--format must be csv, json or jsonl, got '${format}'`);
     const dateOrder = v['date-order'] as string | undefined;
-    if (dateOrder !== undefined && dateOrder !== 'dmy' && dateOrder !== 'mdy') throw new UsageError('--date-order is dmy or mdy');
+    if (dateOrder !== undefined && dateOrder !== 'dmy' && dateOrder !== 'mdy') throw new UsageError(`--date-order must be dmy or mdy, got '${dateOrder}'`);
     const kind = v['kind'] as string | undefined;
     if (kind !== undefined && !(SIGNAL_KINDS as readonly string[]).includes(kind)) {
-      throw new UsageError(`--kind is one of ${SIGNAL_KINDS.join(', ')}, got '${kind}'`);
+      throw new UsageError(`--kind must be one of ${SIGNAL_KINDS.join(', ')}, got '${kind}'`);
     }
     if (kind !== undefined && target !== 'signals') throw new UsageError(`--kind is for signals only, not ${target}`);
     const mapping = parseMapping((v['map'] as string[] | undefined) ?? []);
@@ -146,6 +154,7 @@ export const statsCommand: CliCommand = {
   summary: 'what the workspace holds: counts, dates, density, kinds, top categories, long tail',
   usage: ['[--json]'],
   options: {},
+  flagFields: {},
   about: {},
   async run(env) {
     const { table: api } = env.api();
@@ -179,6 +188,7 @@ export const demoCommand: CliCommand = {
   summary: 'rebuild the demo workspace (an invented garden-supply shop) and train its models',
   usage: ['[--workspace PATH] [--seed N] [--no-train]'],
   options: { seed: { type: 'string' }, 'no-train': { type: 'boolean', default: false } },
+  flagFields: { 'workspace.demo': { seed: 'seed', 'no-train': 'train' } },
   about: {
     seed: 'a whole number >= 0: which invented shop to generate (default 7)',
     'no-train': 'only generate and import the shop; train no models',
@@ -187,7 +197,7 @@ export const demoCommand: CliCommand = {
   async run(env) {
     const seedText = env.values['seed'] as string | undefined;
     const seed = seedText === undefined ? undefined : Number(seedText);
-    if (seed !== undefined && !(Number.isInteger(seed) && seed >= 0)) throw new UsageError('--seed is a whole number >= 0');
+    if (seed !== undefined && !(Number.isInteger(seed) && seed >= 0)) throw new UsageError(`--seed must be a whole number >= 0, got '${seedText}'`);
     // Said before the job starts, so the refusal is a plain data error (code conflict), not a failed job.
     refuseDemoTarget(env.workspace);
     const { table: api } = env.api({ detached: true });

@@ -86,6 +86,8 @@ export const meterCommands: CliCommand[] = [
     summary: "set the meter's target bands on a shelf (the list stays as it is)",
     usage: [`EDITION SHELF ${TARGET_KEYS.map((k) => `[--${TARGET_FLAGS[k]} MIN:MAX]`).join(' ')} [--default NAME|all]...`],
     options: OPTIONS,
+    // Each reading's flag fills targets.<reading> (a band: its min and max say the reading's range).
+    flagFields: { 'shelf.targets': Object.fromEntries(TARGET_KEYS.map((k) => [TARGET_FLAGS[k], `targets.${k}`])), none: ['default'] },
     about: ABOUT,
     help: [
       "Flags left out keep the shelf's current band. Shares take 0.05 or 5%; median age takes days. The sponsored",

@@ -112,6 +112,28 @@ const trainCommand: CliCommand = {
     budget: { type: 'string' },
     k: { type: 'string' },
   },
+  // One line per flag: the train.start field it fills (flag-fields.ts).
+  flagFields: {
+    'train.start': {
+      models: 'models',
+      factors: 'ials.factors',
+      iterations: 'ials.iterations',
+      regularization: 'ials.regularization',
+      alpha: 'ials.alpha',
+      scaling: 'ials.scaling',
+      neighbours: 'itemknn.k',
+      shrink: 'itemknn.shrink',
+      lambda: 'ease.lambda',
+      'knn-values': 'itemknn.values',
+      'knn-normalize': 'itemknn.normalize',
+      'ease-values': 'ease.values',
+      threads: 'threads',
+      seed: ['ials.seed', 'tune.seed'],
+      budget: 'tune.budget',
+      k: 'tune.k',
+    },
+    none: ['tune', 'no-tune'],
+  },
   about: {
     models: 'comma-separated: content, itemknn, ials, ease, popularity (default all five)',
     factors: 'iALS: size of the taste vectors, 1 to 1024 (default 64)',
@@ -258,6 +280,7 @@ const modelsCommand: CliCommand = {
   summary: 'the current models, and what the hybrid is (the validated blend, or the single model it is)',
   usage: ['[--json]'],
   options: {},
+  flagFields: {},
   about: {},
   async run(env) {
     if (env.positionals.length) throw new UsageError(`unexpected argument '${env.positionals[0]}'`);
@@ -319,6 +342,10 @@ const evaluateCommand: CliCommand = {
     delimiter: { type: 'string' },
     'date-order': { type: 'string' },
     'per-customer': { type: 'boolean' },
+  },
+  flagFields: {
+    'evaluate.start': { k: 'k', sample: 'sampleCustomers', split: 'split' },
+    'evaluate.holdout': { k: 'k', holdout: 'source.file', map: 'mapping', format: 'format', delimiter: 'delimiter', 'date-order': 'dateOrder', 'per-customer': 'perCustomer' },
   },
   about: {
     k: 'list length scored: 1 to 200 (default 10), with --holdout 1 to 500 (default 20)',
@@ -422,6 +449,7 @@ const similarCommand: CliCommand = {
   summary: 'the items most like ITEM, with content and collaborative similarity for each',
   usage: ['ITEM [--n N] [--json]'],
   options: { n: { type: 'string' } },
+  flagFields: { 'item.similar': { n: 'n' } },
   about: { n: 'how many similar items to list, 1 to 200 (default 10)' },
   async run(env) {
     if (env.positionals.length !== 1) throw new UsageError(env.positionals.length ? `unexpected argument '${env.positionals[1]}'` : 'missing ITEM');
@@ -453,6 +481,20 @@ const proposeCommand: CliCommand = {
     'max-age-days': { type: 'string' },
     n: { type: 'string' },
     date: { type: 'string' },
+  },
+  flagFields: {
+    propose: {
+      anchor: 'anchors',
+      category: 'categories',
+      'exclude-category': 'excludeCategories',
+      tag: 'tags',
+      supplier: 'suppliers',
+      'min-price': 'minPrice',
+      'max-price': 'maxPrice',
+      'max-age-days': 'maxAgeDays',
+      n: 'n',
+      date: 'date',
+    },
   },
   about: {
     anchor: 'repeatable: an item id to build the pool around',
@@ -504,6 +546,7 @@ const recommendCommand: CliCommand = {
   summary: "write each customer's top-N (CSV or JSON Lines) with per-component contributions",
   usage: ['(--customers FILE | --all) --top N --out FILE [--format csv|jsonl] [--json]'],
   options: { customers: { type: 'string' }, all: { type: 'boolean', default: false }, top: { type: 'string' }, out: { type: 'string' }, format: { type: 'string' } },
+  flagFields: { recommend: { customers: 'customersFile', all: 'all', top: 'n', out: 'out', format: 'format' } },
   about: {
     customers: 'a file of customer ids, one a line (use this or --all)',
     all: 'every customer in the workspace (use this or --customers)',

@@ -72,6 +72,19 @@ const HORIZON_OPTIONS = {
   'min-week-weight': { type: 'string' },
 } as const;
 
+/** The request field each horizon flag fills, in plan.solve's and plan.backtest's request (flag-fields.ts). */
+const HORIZON_FIELDS = {
+  edition: 'edition',
+  shelves: 'shelves',
+  'rest-weeks': 'horizon.restWeeks',
+  'max-appearances': 'horizon.maxAppearances',
+  'supplier-min-share': 'horizon.supplierMinShare',
+  'supplier-max-share': 'horizon.supplierMaxShare',
+  commit: 'horizon.commitments',
+  'sponsored-max-share': 'horizon.sponsoredMaxShare',
+  'min-week-weight': 'objective.minWeekWeight',
+};
+
 const HORIZON_ABOUT = {
   edition: 'the edition whose shelves are the template (default: the newest with the shelf)',
   shelves: 'more shelves of that edition to plan together, comma-separated',
@@ -140,6 +153,10 @@ export const planningCommands: CliCommand[] = [
       method: { type: 'string' },
       draft: { type: 'string' },
     },
+    flagFields: {
+      'plan.solve': { ...HORIZON_FIELDS, from: 'start', weeks: 'weeks', name: 'name', pin: 'pins', ban: 'bans', lock: 'locks', 'clear-edits': 'clearEdits', method: 'method' },
+      'plan.draft': { draft: 'week' },
+    },
     about: {
       ...HORIZON_ABOUT,
       from: 'date of the first planned week, YYYY-MM-DD (kept with a stored plan)',
@@ -200,6 +217,7 @@ export const planningCommands: CliCommand[] = [
     summary: 'a stored plan with its meter, solving nothing',
     usage: ['NAME'],
     options: {},
+    flagFields: {},
     about: {},
     async run(env) {
       const [name] = positionals(env, ['NAME']);
@@ -213,6 +231,7 @@ export const planningCommands: CliCommand[] = [
     summary: 'the stored plans',
     usage: [''],
     options: {},
+    flagFields: {},
     about: {},
     async run(env) {
       positionals(env, []);
@@ -226,6 +245,7 @@ export const planningCommands: CliCommand[] = [
     summary: 'replay the last weeks of history with the planner against a popularity plan',
     usage: ['SHELF [--weeks N] [rules...]'],
     options: { ...HORIZON_OPTIONS, weeks: { type: 'string' } },
+    flagFields: { 'plan.backtest': { ...HORIZON_FIELDS, weeks: 'weeks' } },
     about: { ...HORIZON_ABOUT, weeks: 'weeks of history to replay (default 6)' },
     async run(env) {
       const [shelf] = positionals(env, ['SHELF']);

@@ -7,6 +7,7 @@ export const infoCommand: CliCommand = {
   summary: 'which workspace file is used and how much it holds',
   usage: ['[--workspace PATH] [--json]'],
   options: {},
+  flagFields: {},
   about: {},
   async run(env) {
     const { table } = env.api();

@@ -20,7 +20,7 @@ const origin = {
 };
 const model = (kind: string, stale: boolean, from: typeof origin | null) => ({
   id: kind.length, kind, params: {}, trainedAt: Date.UTC(2026, 11, 3), trainMs: 1200, iterations: null, losses: [], notes: [], stale,
-  sizeBytes: 10, evaluation: null, tuning: null, origin: from,
+  sizeBytes: 10, evaluation: null, tuning: null, tuningNotes: [], origin: from,
 });
 
 function renderWith(models: unknown[]) {

@@ -52,15 +52,16 @@ type StoredModel = ResponseOf<'models.list'>['models'][number];
  * grid's best by construction and shown as "fixed by you"; a model whose every grid setting was fixed was
  * not searched. `given` are this run's flags, which apply only to the models this run trained.
  */
-function tunedCell(m: StoredModel, given: Record<string, Record<string, unknown>> | null): string {
+function tunedCell(m: StoredModel, given: Record<string, Record<string, unknown>> | null, omit: readonly string[] = []): string {
   const t = m.tuning;
   if (!t) return '';
+  const shown = Object.fromEntries(Object.entries(t.grid.best).filter(([param]) => !omit.includes(param)));
   const ndcg = `NDCG@${t.k} ${val(t.grid.ndcg)}`;
   // A content model tuned before the validated blend carries the retired content-weight grid.
-  if (t.grid.model === 'hybrid') return `hybrid ${Object.entries(t.grid.best).map(([a, b]) => `${a}=${b}`).join(' ')} (${ndcg})`;
-  if (t.grid.trials.length === 0) return `${Object.entries(t.grid.best).map(([a, b]) => `${a}=${b}`).join(' ')} (fixed by you: not searched)`;
+  if (t.grid.model === 'hybrid') return `hybrid ${Object.entries(shown).map(([a, b]) => `${a}=${b}`).join(' ')} (${ndcg})`;
+  if (t.grid.trials.length === 0) return `${Object.entries(shown).map(([a, b]) => `${a}=${b}`).join(' ')} (fixed by you: not searched)`;
   let differs = false;
-  const parts = Object.entries(t.grid.best).map(([param, best]) => {
+  const parts = Object.entries(shown).map(([param, best]) => {
     const used = m.params[param];
     // Trained with a value the grid did not hold (a model tuned before fixed values were searched with).
     if ((typeof used === 'number' || typeof used === 'string') && used !== best) {
@@ -300,7 +301,8 @@ const modelsCommand: CliCommand = {
       m.trainMs / 1000,
       m.stale ? (m.origin ? "stale: the workspace's data changed since the export" : 'stale: retrain') : 'current',
       m.evaluation ? val(m.evaluation.ndcg) : '–',
-      tunedCell(m, null) || (m.tuningNotes.length ? 'not tuned' : '–'),
+      // The half-lives have a column of their own here.
+      tunedCell(m, null, ['fitHalfLifeDays', 'profileHalfLifeDays']) || (m.tuningNotes.length ? 'not tuned' : '–'),
       recencyCell(m.params),
     ]);
     // A model trained elsewhere says where (docs/cluster.md).

@@ -7,11 +7,23 @@ import { momentWords, num } from './format.ts';
  * settings were chosen. The decisions themselves are the api's (services/tune/train-tuned.ts); these only say them.
  */
 
-/** Grid parameters as "k 7, shrink 10, values presence". */
-const settings = (p: Record<string, number | string>): string =>
-  Object.entries(p)
+/**
+ * Grid parameters as "k 7, shrink 10, values presence; recency half-life 22 days when learning, off for the
+ * customer's own items" — the two half-lives (core/models/recency.ts) said in words, the rest as name and value.
+ */
+const settings = (p: Record<string, number | string | null>): string => {
+  const { fitHalfLifeDays: fit, profileHalfLifeDays: profile, ...rest } = p;
+  const plain = Object.entries(rest)
     .map(([a, b]) => `${a} ${b}`)
     .join(', ');
+  if (fit === undefined && profile === undefined) return plain;
+  const days = (h: number | string | null | undefined) => (typeof h === 'number' ? `${h} days` : 'off');
+  const recency =
+    days(fit) === 'off' && days(profile) === 'off'
+      ? 'no recency weighting'
+      : `recency half-life ${days(fit)} when learning, ${days(profile)} for the customer's own items`;
+  return plain ? `${plain}; ${recency}` : recency;
+};
 
 /**
  * Would the api's default training reuse the last tuning (services/tune/train-tuned.ts reusableTuning)? It does

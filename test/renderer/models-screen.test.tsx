@@ -238,7 +238,7 @@ describe("a model's tuning", () => {
       tuningNotes: ['iALS trials ran 3 of the 15 training sweeps each (a cheaper fit to rank settings)'],
     };
     const ease = { ...base, id: 2, kind: 'ease', tuning: null, tuningNotes: ['EASE not tuned: 9,000 items, above 5000 (each fit would take minutes); it trains with the default lambda'] };
-    const itemknn = { ...base, id: 3, kind: 'itemknn', tuning: { ...ials.tuning, grid: { ...ials.tuning.grid, model: 'itemknn', best: { k: 50 } } }, tuningNotes: [] };
+    const itemknn = { ...base, id: 3, kind: 'itemknn', tuning: { ...ials.tuning, grid: { ...ials.tuning.grid, model: 'itemknn', best: { k: 50, fitHalfLifeDays: 22, profileHalfLifeDays: 'off' } } }, tuningNotes: [] };
     const client = createClient(async (method): Promise<ApiResult<unknown>> => {
       if (method === 'models.list') return { ok: true, value: { models: [ials, ease, itemknn] } };
       if (method === 'evaluate.latest') return { ok: true, value: { evaluation: null } };
@@ -253,6 +253,9 @@ describe("a model's tuning", () => {
     const notes = await within(region).findByRole('list', { name: 'Tuning notes: iALS' });
     expect(notes.closest('td')?.textContent).toMatch(/^factors 64, regularization 10 · NDCG@10 0\.123 on held-out signals · tuned .+iALS trials ran 3 of the 15/);
     expect(within(region).getByRole('list', { name: 'Tuning notes: EASE' }).closest('td')?.textContent).toMatch(/^Not tuned ?EASE not tuned: 9,000 items/);
+    // The half-lives in words, not as parameter names.
+    expect(region.textContent).toMatch(/k 50; recency half-life 22 days when learning, off for the customer's own items · NDCG@10/);
+    expect(region.textContent).not.toMatch(/HalfLifeDays/);
     // Every tuned model current with a fingerprint: the default training reuses the tuning, and says so.
     expect(screen.getByTestId('train-plan').textContent).toMatch(/^The data is unchanged since the last tuning/);
   });

@@ -36,6 +36,7 @@ import {
   type FixedParams,
   type GridModel,
 } from './grid.ts';
+import { searchHalfLife, type HalfLifeSearcher, type HalfLifeTuning } from './half-life-search.ts';
 import { PROMOTE_ETA, promoteTop } from './promote.ts';
 import { coordinateSearch, type Axis, type AxisValue, type Point } from './search.ts';
 import { costSizes, easeCost, easeScoreCost, ialsCost, itemKnnCost, itemKnnScoreCost } from './trial-cost.ts';
@@ -63,6 +64,8 @@ export interface ModelSearchOptions {
   now?: () => number;
   /** Before each fit: the model, the trial's number and the share of the pool spent so far. */
   onTrial: (model: GridModel, trial: number, spentShare: number) => void;
+  /** Popularity's and content's half-life searches (half-life-search.ts), run on a timed log only. */
+  halfLives?: HalfLifeSearcher[];
 }
 
 export interface ModelSearches {
@@ -71,6 +74,8 @@ export interface ModelSearches {
   plainMs: number;
   spentMs: number;
   notes: TunerNote[];
+  /** Popularity's and content's half-life searches (none on a log without times). */
+  halfLives: HalfLifeTuning[];
 }
 
 interface Searcher {
@@ -346,9 +351,22 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
     if (!fullyFixed(s.model, o.fixed, timed)) plainMs += s.plain;
   }
 
-  // 2. The searches, sharing what is left of the pool.
+  // 1b. Popularity's and content's half-lives, on a timed log: the plain cost of each (its trial at 'off') joins
+  // the pool, and they are searched first, from the pool (a few measurements each: their grid is one axis, so
+  // they cannot take more than its seven values); the three searches share what is left, as before.
+  const extras = timed ? (o.halfLives ?? []) : [];
+  for (const h of extras) plainMs += h.cost;
   const pool = o.budget * plainMs;
   let spent = searchers.reduce((sum, s) => sum + (fullyFixed(s.model, o.fixed, timed) ? 0 : unit.get(s.model)!), 0);
+  const halfLives: HalfLifeTuning[] = [];
+  for (const h of extras) {
+    if (o.signal?.aborted) throw new CancelledError('tuning cancelled');
+    const r = await searchHalfLife(h, { budget: Math.max(h.cost, pool - spent), customers: o.customers, measure: o.measure, ...(o.signal && { signal: o.signal }) });
+    spent += r.spentMs;
+    halfLives.push(r);
+  }
+
+  // 2. The searches, sharing what is left of the pool.
   const tunings: ModelTuning[] = [];
   const order: GridModel[] = ['ease', 'itemknn', 'ials'];
   const shareOf: Record<GridModel, number> = { ease: 1 / 3, itemknn: 1 / 2, ials: 1 };
@@ -486,7 +504,7 @@ export async function searchModels(o: ModelSearchOptions): Promise<ModelSearches
   }
   // Grid order of the result: item-kNN, EASE, iALS (as before).
   tunings.sort((a, b) => ['itemknn', 'ease', 'ials'].indexOf(a.model) - ['itemknn', 'ease', 'ials'].indexOf(b.model));
-  return { tunings, plainMs, spentMs: spent, notes };
+  return { tunings, plainMs, spentMs: spent, notes, halfLives };
 }
 
 /** A decade grid with its geometric midpoints (two significant digits): 10, 32, 100, 320, ... */

@@ -29,7 +29,7 @@ import type { Dataset } from '../../core/types.ts';
 import { TRAIN_EASE_DEFAULTS, type TrainOptions } from '../train/train-models.ts';
 import { halfLifeParam, TUNE_BUDGET, type FixedParams, type GridModel } from './grid.ts';
 import type { HalfLifeSearcher, HalfLifeTuning } from './half-life-search.ts';
-import { searchModels } from './model-search.ts';
+import { hasAges, searchModels } from './model-search.ts';
 import { contentScoreCost, costSizes, popularityCost } from './trial-cost.ts';
 import type { AxisValue } from './search.ts';
 import { TOO_LITTLE_TO_TUNE, validationSplit } from './split.ts';
@@ -129,7 +129,8 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   const measure = (name: string, m: Scorer, perCustomer?: Float64Array): EvalResult => ev.evaluateFill(name, (u, _c, out) => m.scoreInto(u, train, out), perCustomer);
   const iterations = o.iterations ?? 15;
   const searched = await searchModels({
-    halfLives: halfLifeSearchers(ds, train, ev.customerCount),
+    // Built only on a timed log (the searches run only there; content's vectors cost a pass over the text).
+    halfLives: hasAges(train) ? halfLifeSearchers(ds, train, ev.customerCount) : [],
     train,
     measure,
     budget,

@@ -45,7 +45,7 @@ function shop(drift: boolean, seed: number, timed = true): Dataset {
 
 // The default budget (3 plain fits): the half-lives must be found within what `train` spends; iALS (not under
 // test) at 2 sweeps.
-const opts = { k: 10, seed: 2, iterations: 2, threads: 1, sampleCustomers: 300 } as const;
+const opts = { k: 10, seed: 2, iterations: 2, threads: 1, sampleCustomers: 300, popularityHalfLife: true } as const;
 
 async function chosen(drift: boolean, seeds: number[]) {
   const out: { popularity: unknown; content: unknown }[] = [];
@@ -79,6 +79,14 @@ describe('popularity and content half-lives in tuning', () => {
       expect(typeof c.content).toBe('number');
     }
   }, 240_000);
+
+  it('searches only content by default (popularity on request: grid.ts POPULARITY_HALF_LIFE_SEARCHED)', async () => {
+    const { popularityHalfLife: _, ...byDefault } = opts;
+    const r = await tuneDataset(shop(true, 1), byDefault);
+    expect(r.halfLives.map((h) => h.model)).toEqual(['content']);
+    expect(r.params.popularity).toBeUndefined();
+    expect(typeof r.params.content?.profileHalfLifeDays).toBe('number');
+  }, 60_000);
 
   it('leaves both axes out on a log without times', async () => {
     const r = await tuneDataset(shop(true, 1, false), opts);

@@ -21,8 +21,10 @@ export interface HalfLifeSearcher {
   param: 'fitHalfLifeDays' | 'profileHalfLifeDays';
   /** The model at half-life h (null: off). */
   fit: (h: number | null) => Scorer;
-  /** Predicted cost of one trial (and of the plain fit at 'off'), trial-cost.ts units. */
+  /** Predicted cost of one trial (its start at 'off' included), trial-cost.ts units. */
   cost: number;
+  /** Predicted cost of the model's plain fit and measurement (what the budget is counted in). */
+  plain: number;
 }
 
 export interface HalfLifeTuning {

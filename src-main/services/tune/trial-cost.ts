@@ -118,6 +118,15 @@ export function popularityCost(s: CostSizes): number {
 }
 
 /**
+ * Content's plain fit and measurement: its neighbour lists through the inverted index (Σ_f df_f² candidate
+ * updates, the same accumulation as co-occurrence pairs; content.ts contentNeighbours) and a measurement. The
+ * text pass (tokens, TF-IDF), linear in the catalogue's text, is left out.
+ */
+export function contentCost(s: CostSizes, postingPairs: number): number {
+  return (PER_MILLION.pairs * postingPairs) / M + contentScoreCost(s, postingPairs);
+}
+
+/**
  * A content trial (a profile half-life: the item vectors are fitted once, half-life-search.ts): the measurement,
  * whose per-customer work is the profile's pass through the inverted index, at most h̄ · (Σ_f df_f²) / n
  * multiply-adds (each history item's features, each feature's postings; shared features make it less), charged at

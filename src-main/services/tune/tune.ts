@@ -27,10 +27,10 @@ import type { KnnNormalize } from '../../core/models/itemknn.ts';
 import { seededRng } from '../../core/rng.ts';
 import type { Dataset } from '../../core/types.ts';
 import { TRAIN_EASE_DEFAULTS, type TrainOptions } from '../train/train-models.ts';
-import { halfLifeParam, TUNE_BUDGET, type FixedParams, type GridModel } from './grid.ts';
+import { halfLifeParam, POPULARITY_HALF_LIFE_SEARCHED, TUNE_BUDGET, type FixedParams, type GridModel } from './grid.ts';
 import type { HalfLifeSearcher, HalfLifeTuning } from './half-life-search.ts';
 import { hasAges, searchModels } from './model-search.ts';
-import { contentScoreCost, costSizes, popularityCost } from './trial-cost.ts';
+import { contentCost, contentScoreCost, costSizes, popularityCost } from './trial-cost.ts';
 import type { AxisValue } from './search.ts';
 import { TOO_LITTLE_TO_TUNE, validationSplit } from './split.ts';
 
@@ -93,6 +93,12 @@ export interface TuneOptions {
   sampleCustomers?: number;
   /** iALS sweeps of the final training (trials run fewer: grid.ts IALS_SEARCH_ITERATIONS). Default 15. */
   iterations?: number;
+  /**
+   * Search popularity's fit half-life (recent popularity) too. Default false (grid.ts
+   * POPULARITY_HALF_LIFE_SEARCHED): measured, it lifts popularity and the MovieLens hybrid but lowers the Online
+   * Retail hybrid beyond noise, so it is not forced on every shop.
+   */
+  popularityHalfLife?: boolean;
   /** Plain fits the per-model searches may spend (grid.ts TUNE_BUDGET). Default 3. */
   budget?: number;
   threads?: number;
@@ -130,7 +136,7 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   const iterations = o.iterations ?? 15;
   const searched = await searchModels({
     // Built only on a timed log (the searches run only there; content's vectors cost a pass over the text).
-    halfLives: hasAges(train) ? halfLifeSearchers(ds, train, ev.customerCount) : [],
+    halfLives: hasAges(train) ? halfLifeSearchers(ds, train, ev.customerCount, o.popularityHalfLife ?? POPULARITY_HALF_LIFE_SEARCHED) : [],
     train,
     measure,
     budget,
@@ -186,7 +192,7 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
  * (the default content parameters; the text pass, linear in the catalogue, is not charged) are built once and
  * scored without neighbour lists, which scoring does not read; its trials only measure.
  */
-function halfLifeSearchers(ds: Dataset, train: ReturnType<typeof buildInteractionMatrix>, customers: number): HalfLifeSearcher[] {
+function halfLifeSearchers(ds: Dataset, train: ReturnType<typeof buildInteractionMatrix>, customers: number, popularity: boolean): HalfLifeSearcher[] {
   const sizes = costSizes(train, customers);
   const { vectors } = contentVectors(ds.items);
   const postings = transpose(vectors);
@@ -195,12 +201,17 @@ function halfLifeSearchers(ds: Dataset, train: ReturnType<typeof buildInteractio
   const noLists = { items: vectors.rows, indptr: new Int32Array(vectors.rows + 1), indices: new Int32Array(0), data: new Float32Array(0) };
   let content: ContentModel | null = null;
   return [
-    { model: 'popularity', param: 'fitHalfLifeDays', cost: popularityCost(sizes), fit: (h) => fitPopularity(train, 'presence', h).model },
+    ...(popularity ? [popularitySearcher(train, sizes)] : []),
     {
       model: 'content',
       param: 'profileHalfLifeDays',
       cost: contentScoreCost(sizes, postingPairs),
+      plain: contentCost(sizes, postingPairs),
       fit: (h) => (content ??= new ContentModel(vectors, noLists)).withProfileHalfLife(h),
     },
   ];
+}
+
+function popularitySearcher(train: ReturnType<typeof buildInteractionMatrix>, sizes: ReturnType<typeof costSizes>): HalfLifeSearcher {
+  return { model: 'popularity', param: 'fitHalfLifeDays', cost: popularityCost(sizes), plain: popularityCost(sizes), fit: (h) => fitPopularity(train, 'presence', h).model };
 }

@@ -157,6 +157,9 @@ export async function tuneAndTrain(
         ...tune,
         // The caller's own grid parameters are held during the search, not only applied afterwards.
         ...(Object.keys(fixed).length && { fixed }),
+        // A half-life the caller gave for popularity or content is trained as given, not searched.
+        ...(options.params?.popularity?.fitHalfLifeDays !== undefined && { popularityHalfLife: false }),
+        ...(options.params?.content?.profileHalfLifeDays !== undefined && { contentHalfLife: false }),
         ...(options.threads !== undefined && { threads: options.threads }),
         // Trials run as many sweeps as the final training will.
         ...(options.params?.ials?.iterations !== undefined && tune.iterations === undefined && { iterations: options.params.ials.iterations }),

@@ -99,6 +99,8 @@ export interface TuneOptions {
    * Retail hybrid beyond noise, so it is not forced on every shop.
    */
   popularityHalfLife?: boolean;
+  /** Search content's profile half-life (default true; false when the caller gave it: it is held, not searched). */
+  contentHalfLife?: boolean;
   /** Plain fits the per-model searches may spend (grid.ts TUNE_BUDGET). Default 3. */
   budget?: number;
   threads?: number;
@@ -136,7 +138,7 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   const iterations = o.iterations ?? 15;
   const searched = await searchModels({
     // Built only on a timed log (the searches run only there; content's vectors cost a pass over the text).
-    halfLives: hasAges(train) ? halfLifeSearchers(ds, train, ev.customerCount, o.popularityHalfLife ?? POPULARITY_HALF_LIFE_SEARCHED) : [],
+    halfLives: hasAges(train) ? halfLifeSearchers(ds, train, ev.customerCount, o.popularityHalfLife ?? POPULARITY_HALF_LIFE_SEARCHED, o.contentHalfLife ?? true) : [],
     train,
     measure,
     budget,
@@ -192,8 +194,15 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
  * (the default content parameters; the text pass, linear in the catalogue, is not charged) are built once and
  * scored without neighbour lists, which scoring does not read; its trials only measure.
  */
-function halfLifeSearchers(ds: Dataset, train: ReturnType<typeof buildInteractionMatrix>, customers: number, popularity: boolean): HalfLifeSearcher[] {
+function halfLifeSearchers(
+  ds: Dataset,
+  train: ReturnType<typeof buildInteractionMatrix>,
+  customers: number,
+  popularity: boolean,
+  searchContent: boolean,
+): HalfLifeSearcher[] {
   const sizes = costSizes(train, customers);
+  if (!searchContent) return popularity ? [popularitySearcher(train, sizes)] : [];
   const { vectors } = contentVectors(ds.items);
   const postings = transpose(vectors);
   let postingPairs = 0;

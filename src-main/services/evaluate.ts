@@ -20,7 +20,7 @@ import { fitEase, type EaseParams } from '../core/models/ease.ts';
 import { fitIals } from '../core/models/ials.ts';
 import type { IalsParams } from '../core/models/ials-params.ts';
 import { fitItemKnn, type ItemKnnParams } from '../core/models/itemknn.ts';
-import { fitPopularity, randomScorer } from '../core/models/popularity.ts';
+import { fitPopularity, randomScorer, RECENT_POPULARITY, type PopularityParams } from '../core/models/popularity.ts';
 import type { Scorer } from '../core/models/scorer.ts';
 import { seededRng } from '../core/rng.ts';
 import { BlendScorer } from '../core/scoring/blend-scorer.ts';
@@ -56,7 +56,7 @@ export interface EvaluateOptions {
   ease?: boolean;
   /** Threads for EASE's inverse (bit-identical on any count; more than one needs a worker thread, it blocks). Default 1. */
   threads?: number;
-  params?: { content?: ContentParams; itemknn?: ItemKnnParams; ease?: EaseParams; ials?: Partial<IalsParams> };
+  params?: { content?: ContentParams; itemknn?: ItemKnnParams; ease?: EaseParams; ials?: Partial<IalsParams>; popularity?: PopularityParams };
   matrix?: Omit<BuildOptions, 'rows' | 'window'>;
   signal?: AbortSignal;
 }
@@ -150,7 +150,9 @@ export function evaluateDataset(ds: Dataset, options: EvaluateOptions = {}): Wor
   if (valEval.customerCount === 0) throw new InputError('no customer has both history and new items in the validation window');
   const t0 = performance.now();
   const inputs: BlendModelInput[] = [...models].map(([name, m]) => ({ name: name as BlendModel, scorer: { name, scoreInto: (u, h, out) => m.scoreInto(u, h, out) } }));
-  const trainPopularity = fitPopularity(train).model;
+  // The blend's popularity component is the trained one (recent popularity when its fit half-life is set).
+  const popularityHalfLife = options.params?.popularity?.fitHalfLifeDays ?? null;
+  const trainPopularity = fitPopularity(train, 'presence', popularityHalfLife).model;
   inputs.push({ name: 'popularity', scorer: { name: 'popularity', scoreInto: (u, h, out) => trainPopularity.scoreInto(u, h, out) } });
   const blend = validateBlend(valEval, train, inputs, { customersPerItem: customersPerItem(train), ...(twoWindows && { confirm: confirmEval }) });
   const searchMs = performance.now() - t0;
@@ -167,11 +169,19 @@ export function evaluateDataset(ds: Dataset, options: EvaluateOptions = {}): Wor
   testModels.set('ials', ials.model.foldingIn());
   const rows: EvalResult[] = [];
   for (const [name, model] of testModels) rows.push(testEval.evaluate({ name, scoreInto: (u, h, out) => model.scoreInto(u, h, out) }));
+  // The "popularity" row stays the all-time count of customers (the baseline every comparison, and the quality
+  // reference's popularity, is read against); with a fit half-life the hybrid's popularity component is recent
+  // popularity, shown as a row of its own, so "popularity" means the same whatever tuning chose.
   const popularity = fitPopularity(trainVal).model;
+  const recentPopularity = popularityHalfLife === null ? popularity : fitPopularity(trainVal, 'presence', popularityHalfLife).model;
   // The hybrid on test reads the learned models fitted on train and the counts of train + validation.
-  const served = new BlendScorer(blend, new Map<string, Scorer>([...testModels, ['popularity', popularity]]), customersPerItem(trainVal));
+  const served = new BlendScorer(blend, new Map<string, Scorer>([...testModels, ['popularity', recentPopularity]]), customersPerItem(trainVal));
   rows.push(testEval.evaluate(served));
   rows.push(testEval.evaluate({ name: 'popularity', scoreInto: (u, h, out) => popularity.scoreInto(u, h, out) }));
+  if (popularityHalfLife !== null) {
+    rows.push(testEval.evaluate({ name: RECENT_POPULARITY, scoreInto: (u, h, out) => recentPopularity.scoreInto(u, h, out) }));
+    notes.push(`popularity in the hybrid counts recent customers (half-life ${popularityHalfLife} d, row ${RECENT_POPULARITY}); the popularity row is all-time counts`);
+  }
   const random = randomScorer(seed, ds.items.length);
   rows.push(testEval.evaluate({ name: 'random', scoreInto: (u, h, out) => random.scoreInto(u, h, out) }));
   rows.sort((a, b) => b.ndcg - a.ndcg);

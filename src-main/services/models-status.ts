@@ -6,6 +6,8 @@
 import { plural } from '../core/util/plural.ts';
 import { CancelledError, InputError } from '../core/errors.ts';
 import type { EaseParams } from '../core/models/ease.ts';
+import type { ContentParams } from '../core/models/content.ts';
+import type { PopularityParams } from '../core/models/popularity.ts';
 import type { IalsParams } from '../core/models/ials-params.ts';
 import type { ItemKnnParams } from '../core/models/itemknn.ts';
 import { dataFingerprint, ModelRepo, modelStatus, type ModelStatus } from '../store/models.ts';
@@ -66,6 +68,8 @@ export async function evaluateAndStore(
     if (m.kind === 'itemknn') params.itemknn = m.params as ItemKnnParams;
     if (m.kind === 'ials') params.ials = m.params as Partial<IalsParams>;
     if (m.kind === 'ease') params.ease = m.params as EaseParams;
+    if (m.kind === 'content') params.content = m.params as ContentParams;
+    if (m.kind === 'popularity') params.popularity = m.params as PopularityParams;
   }
   const result = await evaluateInThread(file, { ...options, params }, signal ? { signal } : {});
   if (signal?.aborted) throw new CancelledError('evaluation cancelled');

@@ -27,7 +27,7 @@ function shop(drift: boolean, seed: number, timed = true): Dataset {
     }
   }
   return {
-    items: Array.from({ length: clusters * per }, (_, i) => ({ id: i + 1 }) as Item),
+    items: Array.from({ length: clusters * per }, (_, i) => ({ id: i + 1, title: '', description: '', tags: [], category: '', supplier: '', price: null, addedAt: null }) as unknown as Item),
     customerIds: Int32Array.from({ length: customers }, (_, i) => i + 1),
     customerExternalIds: Array.from({ length: customers }, (_, i) => `c${i}`),
     signals: {

@@ -64,6 +64,10 @@ export const TrainRequest = z
       .strict()
       .optional(),
     ease: z.object({ lambda: z.number().positive().optional(), values: ValueTransformName.optional(), ...RecencyFields }).strict().optional(),
+    /** Recent popularity's fit half-life (null: all-time counts); tuning does not search it by default (grid.ts). */
+    popularity: z.object({ fitHalfLifeDays: RecencyFields.fitHalfLifeDays }).strict().optional(),
+    /** Content's profile half-life (null: off); left out, tuning searches it when the signals have times. */
+    content: z.object({ profileHalfLifeDays: RecencyFields.profileHalfLifeDays }).strict().optional(),
     threads: z.number().int().min(1).max(8).optional(),
     /**
      * Tune each model's grid on a validation split first, then train the best settings on all signals. `when`:

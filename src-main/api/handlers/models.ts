@@ -109,6 +109,8 @@ export function modelHandlers(ctx: AppContext): { [M in Names]: Handler<M> } {
           ...(req.ials && { ials: compact(req.ials) }),
           ...(req.itemknn && { itemknn: compact(req.itemknn) }),
           ...(req.ease && { ease: compact(req.ease) }),
+          ...(req.popularity && { popularity: compact(req.popularity) }),
+          ...(req.content && { content: compact(req.content) }),
         },
         ...(req.threads !== undefined && { threads: req.threads }),
       };

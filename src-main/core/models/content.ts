@@ -1,4 +1,5 @@
-import { SectionReader, packSections } from '../matrix/bytes.ts';
+import { SectionReader, formatVersion, packSections } from '../matrix/bytes.ts';
+import { checkHalfLife } from '../matrix/values.ts';
 import { transpose, type Csr } from '../matrix/csr.ts';
 import { CancelledError, InputError } from '../errors.ts';
 import { fitTfidf, normalizeRow } from '../text/tfidf.ts';
@@ -32,6 +33,12 @@ export interface ContentParams {
   k?: number;
   /** Minimum document frequency of a term. Default 1. */
   minDf?: number;
+  /**
+   * Profile half-life in days (null or left out: off): each history item weighs 2^(−age / h) in the customer's
+   * profile, age = days since the customer's latest signal of it (matrix/values.ts "Recency"). Scoring only:
+   * the item vectors do not depend on it.
+   */
+  profileHalfLifeDays?: number | null;
 }
 
 export const CONTENT_DEFAULTS = { attributeWeight: 0.5, priceBands: 0, k: 50, minDf: 1 } as const;
@@ -127,10 +134,13 @@ export class ContentModel implements Scorer {
   readonly #profile: Float64Array;
   readonly #touched: Int32Array;
   readonly #seen: Uint8Array;
+  readonly profileHalfLifeDays: number | null;
   constructor(
     readonly vectors: Csr,
     readonly neighbours: Neighbours,
+    profileHalfLifeDays: number | null = null,
   ) {
+    this.profileHalfLifeDays = checkHalfLife(profileHalfLifeDays, 'content profileHalfLifeDays');
     if (neighbours.items !== vectors.rows) throw new InputError('content model: neighbour lists and vectors disagree on the item count');
     this.#postings = transpose(vectors);
     this.#profile = new Float64Array(vectors.cols);
@@ -140,6 +150,11 @@ export class ContentModel implements Scorer {
 
   get itemCount(): number {
     return this.vectors.rows;
+  }
+
+  /** The same vectors and lists, scoring with another profile half-life (tuning's trials share one fit). */
+  withProfileHalfLife(h: number | null): ContentModel {
+    return new ContentModel(this.vectors, this.neighbours, h);
   }
 
   /**
@@ -154,6 +169,11 @@ export class ContentModel implements Scorer {
    * as the reference (bench/quality/reference.py `content`, the full cosine matrix) does. Items with no
    * signal (cold items) get their score the same way, from their own text, so the hybrid's content path for
    * them is unchanged. The top-K lists still serve `similarItems`.
+   *
+   * With a profile half-life h (and a history carrying ages) the mean is weighted: item h counts
+   * w_h = 2^(−age_h / h) (matrix/values.ts "Recency"), the score is Σ_h w_h cos(j, h) / Σ_h w_h, so a customer's
+   * recent items say more about what they want next (Ding & Li 2005's time weight, on the profile side as
+   * item-kNN and EASE apply it). Dividing by Σ w keeps the scale of the unweighted mean.
    */
   scoreInto(u: number, history: Csr, out: Float32Array): void {
     out.fill(0);
@@ -165,16 +185,22 @@ export class ContentModel implements Scorer {
     const touched = this.#touched;
     const seen = this.#seen;
     let nTouched = 0;
-    // The profile Σ_h v_h, over the features it touches (history rows are distinct items: a CSR row).
+    const ages = this.profileHalfLifeDays === null ? undefined : history.ageDays;
+    const half = this.profileHalfLifeDays ?? 1;
+    const weight = (p: number): number => (ages ? Math.pow(2, -ages[p]! / half) : 1);
+    let totalWeight = 0;
+    // The profile Σ_h w_h v_h, over the features it touches (history rows are distinct items: a CSR row).
     for (let p = start; p < end; p++) {
       const h = history.indices[p]!;
+      const w = weight(p);
+      totalWeight += w;
       for (let q = v.indptr[h]!, e = v.indptr[h + 1]!; q < e; q++) {
         const f = v.indices[q]!;
         if (seen[f] === 0) {
           seen[f] = 1;
           touched[nTouched++] = f;
         }
-        profile[f]! += v.data[q]!;
+        profile[f]! += w * v.data[q]!;
       }
     }
     const ix = this.#postings;
@@ -190,9 +216,9 @@ export class ContentModel implements Scorer {
       const h = history.indices[p]!;
       let self = 0;
       for (let q = v.indptr[h]!, e = v.indptr[h + 1]!; q < e; q++) self += v.data[q]! * v.data[q]!;
-      out[h]! -= self;
+      out[h]! -= weight(p) * self;
     }
-    const inv = 1 / (end - start);
+    const inv = 1 / (ages ? totalWeight : end - start);
     for (let j = 0; j < out.length; j++) out[j]! *= inv;
   }
 
@@ -213,24 +239,41 @@ export class ContentModel implements Scorer {
     return neighbourTopN(this.neighbours, i, n);
   }
 
+  /** Format 2: format 1's sections, then the profile half-life (NaN for off). */
   serialize(): Uint8Array {
     const v = this.vectors;
     const nb = this.neighbours;
-    return packSections(MAGIC, 1, [Int32Array.of(v.rows, v.cols), v.indptr, v.indices, v.data, nb.indptr, nb.indices, nb.data]);
+    return packSections(MAGIC, 2, [
+      Int32Array.of(v.rows, v.cols),
+      v.indptr,
+      v.indices,
+      v.data,
+      nb.indptr,
+      nb.indices,
+      nb.data,
+      Float64Array.of(this.profileHalfLifeDays ?? Number.NaN),
+    ]);
   }
 }
 
 const MAGIC = 'SWCONTNT';
 
+/** Restores format 2, and format 1 (before recency: profile half-life off). */
 export function loadContent(bytes: Uint8Array): ContentModel {
-  const r = new SectionReader(bytes, MAGIC, 1);
+  const version = formatVersion(bytes) === 1 ? 1 : 2;
+  const r = new SectionReader(bytes, MAGIC, version);
   const [rows, cols] = r.i32();
   const vectors: Csr = { rows: rows!, cols: cols!, indptr: r.i32(), indices: r.i32(), data: r.f32() };
   const neighbours: Neighbours = { items: rows!, indptr: r.i32(), indices: r.i32(), data: r.f32() };
   if (vectors.indptr.length !== rows! + 1 || neighbours.indptr.length !== rows! + 1) {
     throw new InputError('not a valid content model: row offsets do not match the item count');
   }
-  return new ContentModel(vectors, neighbours);
+  if (version === 1) return new ContentModel(vectors, neighbours);
+  const h = r.f64();
+  if (h.length !== 1 || !(Number.isNaN(h[0]!) || (h[0]! > 0 && Number.isFinite(h[0]!)))) {
+    throw new InputError(`not a valid content model: half-life ${Array.from(h).join(', ')}`);
+  }
+  return new ContentModel(vectors, neighbours, Number.isNaN(h[0]!) ? null : h[0]!);
 }
 
 /**
@@ -340,7 +383,7 @@ export function fitContent(items: readonly Item[], params: ContentParams = {}, o
   if (!(Number.isInteger(k) && k > 0)) throw new InputError(`content k must be a positive integer, got ${k}`);
   const { vectors, featureNames } = contentVectors(items, params);
   if (o.signal?.aborted) throw new CancelledError();
-  const model = new ContentModel(vectors, contentNeighbours(vectors, k));
+  const model = new ContentModel(vectors, contentNeighbours(vectors, k), checkHalfLife(params.profileHalfLifeDays, 'content profileHalfLifeDays'));
   const elapsedMs = performance.now() - start;
   o.onIteration?.({ iteration: 1, iterations: 1, elapsedMs });
   return { model, report: { kind: 'content', elapsedMs, notes: [`content: ${items.length} items, ${featureNames.length} features, k ${k}`] } };

@@ -1,6 +1,6 @@
-import { SectionReader, packSections } from '../matrix/bytes.ts';
+import { SectionReader, formatVersion, packSections } from '../matrix/bytes.ts';
 import type { Csr } from '../matrix/csr.ts';
-import { transformValue, type ValueTransform } from '../matrix/values.ts';
+import { checkHalfLife, decayedValue, recencyWeight, type ValueTransform } from '../matrix/values.ts';
 import { InputError } from '../errors.ts';
 import { seededRng } from '../rng.ts';
 import { DAY_MS, type Dataset } from '../types.ts';
@@ -29,7 +29,7 @@ export function decayedCounts(ds: Dataset, opts: { halfLifeDays?: number; now?: 
   for (let k = 0; k < count; k++) {
     const j = pick(k);
     const t = s.at[j]!;
-    out[s.item[j]!]! += t === t ? Math.pow(2, -Math.max(0, now - t) / DAY_MS / half) : 1;
+    out[s.item[j]!]! += t === t ? recencyWeight(Math.max(0, now - t) / DAY_MS, half) : 1;
   }
   return out;
 }
@@ -104,9 +104,24 @@ export function trendWindows(ds: Dataset, params: Pick<TrendParams, 'now' | 'win
  * decayed popularity or trend). similarityInto gives every other item its score, so "similar items" are
  * simply the most popular others — what a shelf without any model would show.
  */
+/**
+ * The name of recent popularity's row where evaluations show it beside the all-time "popularity" baseline
+ * (evaluate, the holdout table): the baseline stays all-time counts, as the quality reference's popularity is.
+ */
+export const RECENT_POPULARITY = 'popularity-recent';
+
+/** Popularity's training parameters: the fit half-life of recent popularity (null or left out: all-time counts). */
+export interface PopularityParams {
+  fitHalfLifeDays?: number | null;
+}
+
 export class PopularityModel implements Scorer {
   readonly kind = 'popularity' as const;
-  constructor(readonly scores: Float32Array) {}
+  /** The fit half-life the scores were counted with (null: all-time counts); stored so `models` shows it. */
+  constructor(
+    readonly scores: Float32Array,
+    readonly fitHalfLifeDays: number | null = null,
+  ) {}
 
   get itemCount(): number {
     return this.scores.length;
@@ -121,15 +136,25 @@ export class PopularityModel implements Scorer {
   similarItems(i: number, n: number): TopN {
     return topN(this.scores, n, i);
   }
+  /** Format 2: the scores and the fit half-life (NaN for off); format 1 had the scores only. */
   serialize(): Uint8Array {
-    return packSections(MAGIC, 1, [this.scores]);
+    return packSections(MAGIC, 2, [this.scores, Float64Array.of(this.fitHalfLifeDays ?? Number.NaN)]);
   }
 }
 
 const MAGIC = 'SWPOPULR';
 
+/** Restores format 2, and format 1 (before recency: all-time counts, half-life off). */
 export function loadPopularity(bytes: Uint8Array): PopularityModel {
-  return new PopularityModel(new SectionReader(bytes, MAGIC, 1).f32());
+  const version = formatVersion(bytes);
+  if (version === 1) return new PopularityModel(new SectionReader(bytes, MAGIC, 1).f32());
+  const r = new SectionReader(bytes, MAGIC, 2);
+  const scores = r.f32();
+  const h = r.f64();
+  if (h.length !== 1 || !(Number.isNaN(h[0]!) || (h[0]! > 0 && Number.isFinite(h[0]!)))) {
+    throw new InputError(`not a valid popularity model: half-life ${Array.from(h).join(', ')}`);
+  }
+  return new PopularityModel(scores, Number.isNaN(h[0]!) ? null : h[0]!);
 }
 
 /**
@@ -137,13 +162,21 @@ export function loadPopularity(bytes: Uint8Array): PopularityModel {
  * presence: the number of distinct customers who interacted with the item, as DESIGN.md's popularity
  * component says; summed raw values would let one wholesale buyer of 10,000 units outweigh a thousand
  * customers. 'linear' keeps the sums (with a matrix built with halfLifeDays: decayed popularity).
+ *
+ * Recent popularity (`fitHalfLifeDays`, off by default): each entry also weighs 2^(−age / h), age = days since
+ * the pair's latest signal (matrix/values.ts "Recency", the law item-kNN and EASE use), so the score is
+ * Σ over customers of presence × 2^(−age / h): what customers bought lately rather than ever. Why as a
+ * model parameter, beside decayedCounts (the editorial trend dial's per-signal decay): this one counts
+ * customers, not signals, as the all-time popularity does, and is chosen on validation by tuning.
  */
-export function fitPopularity(x: Csr, values: ValueTransform = 'presence'): { model: PopularityModel; report: FitReport } {
+export function fitPopularity(x: Csr, values: ValueTransform = 'presence', fitHalfLifeDays: number | null = null): { model: PopularityModel; report: FitReport } {
   const start = performance.now();
+  const h = checkHalfLife(fitHalfLifeDays, 'popularity fitHalfLifeDays');
   const scores = new Float32Array(x.cols);
   const total = x.indptr[x.rows]!;
-  for (let p = 0; p < total; p++) scores[x.indices[p]!]! += transformValue(values, x.data[p]!);
-  return { model: new PopularityModel(scores), report: { kind: 'popularity', elapsedMs: performance.now() - start, notes: [] } };
+  for (let p = 0; p < total; p++) scores[x.indices[p]!]! += decayedValue(x, p, values, h);
+  const notes = h !== null && x.ageDays ? [`popularity: recent counts, half-life ${h} d`] : [];
+  return { model: new PopularityModel(scores, h), report: { kind: 'popularity', elapsedMs: performance.now() - start, notes } };
 }
 
 /**

@@ -11,7 +11,7 @@ import { loadContent } from '../../core/models/content.ts';
 import { loadEase } from '../../core/models/ease.ts';
 import { loadIals } from '../../core/models/ials.ts';
 import { loadItemKnn } from '../../core/models/itemknn.ts';
-import { loadPopularity } from '../../core/models/popularity.ts';
+import { fitPopularity, loadPopularity, PopularityModel, RECENT_POPULARITY } from '../../core/models/popularity.ts';
 import type { ModelKind, Scorer } from '../../core/models/scorer.ts';
 import { BlendScorer } from '../../core/scoring/blend-scorer.ts';
 import type { Dataset } from '../../core/types.ts';
@@ -94,6 +94,15 @@ export function loadTrainedModels(db: Db, ds: Dataset): TrainedModels {
     blend = new BlendScorer(spec, scorers, columnCounts(matrix));
     if (blend.missing.length) notes.push(`the validated blend's ${blend.missing.join(', ')} is no longer trained: left out, the other weights rescaled (retrain)`);
   } else notes.push('no model is trained: the hybrid is left out (run train first)');
+  // The "popularity" row stays the all-time count of customers, the baseline every table (and the quality
+  // reference's popularity) is read against; a trained recent popularity, which the blend above serves, is a
+  // row of its own.
+  const pop = scorers.get('popularity');
+  if (pop instanceof PopularityModel && pop.fitHalfLifeDays !== null) {
+    scorers.set('popularity', fitPopularity(matrix).model);
+    scorers.set(RECENT_POPULARITY, pop);
+    notes.push(`popularity in the hybrid counts recent customers (half-life ${pop.fitHalfLifeDays} d, row ${RECENT_POPULARITY}); the popularity row is all-time counts`);
+  }
   return { matrix, scorers, blend, blendInfo: spec, weightsFrom: `${describeBlend(spec)}${spec.validated ? '' : ', not validated'}`, date, notes };
 }
 

@@ -4,7 +4,7 @@ import { fitContent, type ContentParams } from '../../core/models/content.ts';
 import { EASE_DEFAULTS, fitEase, type EaseParams } from '../../core/models/ease.ts';
 import type { IalsParams } from '../../core/models/ials-params.ts';
 import { fitItemKnn, type ItemKnnParams } from '../../core/models/itemknn.ts';
-import { fitPopularity } from '../../core/models/popularity.ts';
+import { fitPopularity, type PopularityParams } from '../../core/models/popularity.ts';
 import type { FitReport, ModelKind, Scorer } from '../../core/models/scorer.ts';
 import type { Dataset } from '../../core/types.ts';
 import { loadDataset } from '../../store/dataset.ts';
@@ -25,7 +25,7 @@ export interface TrainOptions {
   /** Which models to train (default all five). */
   models?: readonly TrainedKind[];
   matrix?: Omit<BuildOptions, 'rows' | 'window'>;
-  params?: { content?: ContentParams; itemknn?: ItemKnnParams; ials?: Partial<IalsParams>; ease?: EaseParams };
+  params?: { content?: ContentParams; itemknn?: ItemKnnParams; ials?: Partial<IalsParams>; ease?: EaseParams; popularity?: PopularityParams };
   /** Threads for iALS (default: the machine's cores); with more than one, EASE also fits in a thread of its own. */
   threads?: number;
   /** The validated blend's split and cut-off (services/tune/blend.ts); false skips it (the blend then stays as it was). */
@@ -164,13 +164,19 @@ export async function trainModels(db: Db, opts: TrainOptions, onProgress: (p: Tr
   try {
     for (const kind of kinds) {
       report({ stage: 'fit', model: kind });
-      if (kind === 'content') keep(kind, p.content ?? {}, fitContent(data.items, p.content));
+      if (kind === 'content') {
+        const fit = fitContent(data.items, p.content);
+        keep(kind, { ...p.content, profileHalfLifeDays: fit.model.profileHalfLifeDays }, fit);
+      }
       else if (kind === 'itemknn') {
         const fit = fitItemKnn(matrix, p.itemknn);
         // Stored even when defaulted (recency null = off), so `models` shows what scores.
         keep(kind, { ...p.itemknn, values: fit.model.values, normalize: fit.model.normalize, ...fit.model.recency }, fit);
       }
-      else if (kind === 'popularity') keep(kind, {}, fitPopularity(matrix));
+      else if (kind === 'popularity') {
+        const fit = fitPopularity(matrix, 'presence', p.popularity?.fitHalfLifeDays ?? null);
+        keep(kind, { fitHalfLifeDays: fit.model.fitHalfLifeDays }, fit);
+      }
       else if (kind === 'ease' && easeThread) {
         const fit = await easeThread.done;
         keepBytes(kind, easeParams, { ...fit.report, notes: [...easeNotes, ...fit.report.notes] }, fit.bytes);

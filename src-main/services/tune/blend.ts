@@ -81,7 +81,7 @@ export async function learnBlend(
     else if (kind === 'content') add(kind, fitContent(ds.items, params.content, fitOpts).model);
     else if (kind === 'itemknn') add(kind, fitItemKnn(train, params.itemknn, fitOpts).model);
     else if (kind === 'ease') add(kind, fitEase(train, { ...TRAIN_EASE_DEFAULTS, ...params.ease }, fitOpts, easeSolver(o.threads ?? 1)).model);
-    else if (kind === 'popularity') add(kind, fitPopularity(train).model);
+    else if (kind === 'popularity') add(kind, fitPopularity(train, 'presence', params.popularity?.fitHalfLifeDays ?? null).model);
     else add(kind, (await fitIalsThreaded(train, { seed, ...params.ials }, { ...fitOpts, ...(o.threads !== undefined && { threads: o.threads }) })).model);
   }
   const r = validateBlend(ev, train, models, { customersPerItem: columnCounts(train), halves: split.method, ...(twoWindows && { confirm: confirmEv }) });

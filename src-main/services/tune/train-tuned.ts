@@ -47,6 +47,15 @@ interface StoredTuning {
 }
 
 /**
+ * Popularity's and content's half-life search as stored with the model (evaluation record, key
+ * `halfLifeTuning`: not `tuning`, whose readers expect a grid): half-life-search.ts HalfLifeTuning.
+ */
+interface StoredHalfLife {
+  fingerprint?: string;
+  halfLife?: { param: string; best: number | null };
+}
+
+/**
  * The settings of the last tuning when it saw exactly the data the workspace holds now, else null: every
  * current model of a searched kind must carry a tuning record with today's data fingerprint (a model trained
  * later without tuning, or any change to items or signals, means tuning again).
@@ -54,10 +63,16 @@ interface StoredTuning {
 export function reusableTuning(
   db: Db,
   kinds: readonly string[],
-): { params: NonNullable<TrainOptions['params']>; records: Map<string, unknown>; notes: Map<string, string[]> } | null {
+): {
+  params: NonNullable<TrainOptions['params']>;
+  records: Map<string, unknown>;
+  halfLifeRecords: Map<string, unknown>;
+  notes: Map<string, string[]>;
+} | null {
   const now = dataFingerprint(db);
   const current = modelStatus(db);
   const records = new Map<string, unknown>();
+  const halfLifeRecords = new Map<string, unknown>();
   // The tuner's notes go along with its settings (EASE's "not tuned" has no record of its own to ride on).
   const notes = new Map<string, string[]>();
   const params: Record<string, Record<string, number | string | null>> = {};
@@ -84,7 +99,15 @@ export function reusableTuning(
       );
     }
   }
-  return { params: params as NonNullable<TrainOptions['params']>, records, notes };
+  // Popularity's and content's half-lives, when their record saw today's data (else off, as before they were tuned).
+  for (const kind of ['popularity', 'content'] as const) {
+    if (!kinds.includes(kind)) continue;
+    const t = (current.find((x) => x.kind === kind)?.evaluation as { halfLifeTuning?: StoredHalfLife } | null | undefined)?.halfLifeTuning;
+    if (!t?.halfLife || t.fingerprint !== now) continue;
+    halfLifeRecords.set(kind, t);
+    params[kind] = { [t.halfLife.param]: t.halfLife.best };
+  }
+  return { params: params as NonNullable<TrainOptions['params']>, records, halfLifeRecords, notes };
 }
 
 export async function tuneAndTrain(
@@ -106,6 +129,8 @@ export async function tuneAndTrain(
       itemknn: { ...reuse.params.itemknn, ...p.itemknn },
       ials: { ...reuse.params.ials, ...p.ials },
       ...((reuse.params.ease || p.ease) && { ease: { ...reuse.params.ease, ...p.ease } }),
+      ...((reuse.params.popularity || p.popularity) && { popularity: { ...reuse.params.popularity, ...p.popularity } }),
+      ...((reuse.params.content || p.content) && { content: { ...reuse.params.content, ...p.content } }),
     };
     // Waiting for another process's write shows in the job's stage, as in a plain or a tuned training.
     announceOutlook(db, options, 0, report);
@@ -116,6 +141,8 @@ export async function tuneAndTrain(
         const t = reuse.records.get(kind);
         const tunerNotes = reuse.notes.get(kind);
         if (t || tunerNotes) repo.setEvaluation(summary.ids[q]!, { ...(t !== undefined && { tuning: t }), ...(tunerNotes && { tunerNotes }) });
+        const h = reuse.halfLifeRecords.get(kind);
+        if (h) repo.setEvaluation(summary.ids[q]!, { halfLifeTuning: h });
       });
     })();
     return { summary, reused: true };
@@ -130,6 +157,9 @@ export async function tuneAndTrain(
         ...tune,
         // The caller's own grid parameters are held during the search, not only applied afterwards.
         ...(Object.keys(fixed).length && { fixed }),
+        // A half-life the caller gave for popularity or content is trained as given, not searched.
+        ...(options.params?.popularity?.fitHalfLifeDays !== undefined && { popularityHalfLife: false }),
+        ...(options.params?.content?.profileHalfLifeDays !== undefined && { contentHalfLife: false }),
         ...(options.threads !== undefined && { threads: options.threads }),
         // Trials run as many sweeps as the final training will.
         ...(options.params?.ials?.iterations !== undefined && tune.iterations === undefined && { iterations: options.params.ials.iterations }),
@@ -155,6 +185,8 @@ export async function tuneAndTrain(
     itemknn: { ...tuning.params.itemknn, ...options.params?.itemknn },
     ials: { ...tuning.params.ials, ...options.params?.ials },
     ...((tuning.params.ease || options.params?.ease) && { ease: { ...tuning.params.ease, ...options.params?.ease } }),
+    ...((tuning.params.popularity || options.params?.popularity) && { popularity: { ...tuning.params.popularity, ...options.params?.popularity } }),
+    ...((tuning.params.content || options.params?.content) && { content: { ...tuning.params.content, ...options.params?.content } }),
   };
   // The validated blend is learned on the tuner's own split (same seed and cut-off).
   const blend = { ...(tune.k !== undefined && { k: tune.k }), ...(tune.seed !== undefined && { seed: tune.seed }) };
@@ -180,9 +212,10 @@ export function storeTuning(db: Db, summary: TrainSummary, tuning: TuneResult): 
     summary.models.forEach((kind, q) => {
       const grid = tuning.models.find((m) => m.model === kind);
       const tunerNotes = tuning.notes.filter((n) => n.model === kind).map((n) => n.text);
+      const halfLife = (tuning.halfLives ?? []).find((h) => h.model === kind);
       if (grid || tunerNotes.length) {
         repo.setEvaluation(summary.ids[q]!, { ...(grid && { tuning: { ...common, grid } }), ...(tunerNotes.length && { tunerNotes }) });
-      }
+      } else if (halfLife) repo.setEvaluation(summary.ids[q]!, { halfLifeTuning: { ...common, halfLife } });
     });
   })();
 }

@@ -108,3 +108,31 @@ export function ialsSweepCost(s: CostSizes, factors: number): number {
 export function ialsCost(s: CostSizes, factors: number, sweeps: number): number {
   return sweeps * ialsSweepCost(s, factors) + (PER_MILLION.rank * s.customers * s.cols + PER_MILLION.ialsScore * s.customers * s.cols * factors) / M;
 }
+
+/**
+ * A popularity trial (a recent-popularity half-life, half-life-search.ts): one pass over the entries, then the
+ * measurement, whose per-customer work is copying the scores (part of the ranking term).
+ */
+export function popularityCost(s: CostSizes): number {
+  return (PER_MILLION.rank * s.customers * s.cols + PER_MILLION.pairs * s.nnz) / M;
+}
+
+/**
+ * Content's plain fit and measurement: its neighbour lists through the inverted index (Σ_f df_f² candidate
+ * updates, the same accumulation as co-occurrence pairs; content.ts contentNeighbours) and a measurement. The
+ * text pass (tokens, TF-IDF), linear in the catalogue's text, is left out.
+ */
+export function contentCost(s: CostSizes, postingPairs: number): number {
+  return (PER_MILLION.pairs * postingPairs) / M + contentScoreCost(s, postingPairs);
+}
+
+/**
+ * A content trial (a profile half-life: the item vectors are fitted once, half-life-search.ts): the measurement,
+ * whose per-customer work is the profile's pass through the inverted index, at most h̄ · (Σ_f df_f²) / n
+ * multiply-adds (each history item's features, each feature's postings; shared features make it less), charged at
+ * EASE's dense-row rate (the same multiply-add into a row of scores).
+ */
+export function contentScoreCost(s: CostSizes, postingPairs: number): number {
+  const perCustomer = Math.min(meanHistory(s) * (s.cols > 0 ? postingPairs / s.cols : 0), meanHistory(s) * s.cols);
+  return (PER_MILLION.rank * s.customers * s.cols + PER_MILLION.easeScore * s.customers * perCustomer) / M;
+}

@@ -19,13 +19,18 @@ import { evalTruth, RankingEvaluator, sampleTruth, type EvalResult } from '../..
 import { buildInteractionMatrix } from '../../core/matrix/build.ts';
 import { signalUnit } from '../../core/matrix/signal-unit.ts';
 import type { ValueTransform } from '../../core/matrix/values.ts';
+import { ContentModel, contentVectors } from '../../core/models/content.ts';
+import { fitPopularity } from '../../core/models/popularity.ts';
 import type { Scorer } from '../../core/models/scorer.ts';
+import { transpose } from '../../core/matrix/csr.ts';
 import type { KnnNormalize } from '../../core/models/itemknn.ts';
 import { seededRng } from '../../core/rng.ts';
 import type { Dataset } from '../../core/types.ts';
 import { TRAIN_EASE_DEFAULTS, type TrainOptions } from '../train/train-models.ts';
-import { halfLifeParam, TUNE_BUDGET, type FixedParams, type GridModel } from './grid.ts';
-import { searchModels } from './model-search.ts';
+import { halfLifeParam, POPULARITY_HALF_LIFE_SEARCHED, TUNE_BUDGET, type FixedParams, type GridModel } from './grid.ts';
+import type { HalfLifeSearcher, HalfLifeTuning } from './half-life-search.ts';
+import { hasAges, searchModels } from './model-search.ts';
+import { contentCost, contentScoreCost, costSizes, popularityCost } from './trial-cost.ts';
 import type { AxisValue } from './search.ts';
 import { TOO_LITTLE_TO_TUNE, validationSplit } from './split.ts';
 
@@ -70,6 +75,8 @@ export interface TuneResult {
   elapsedMs: number;
   /** What the search left out or decided by a rule, each about one model (stored with that model: train-tuned.ts). */
   notes: TunerNote[];
+  /** Popularity's fit and content's profile half-life searches (half-life-search.ts); empty on a log without times. */
+  halfLives: HalfLifeTuning[];
 }
 
 /** One of the tuner's notes, and the model it is about. */
@@ -86,6 +93,14 @@ export interface TuneOptions {
   sampleCustomers?: number;
   /** iALS sweeps of the final training (trials run fewer: grid.ts IALS_SEARCH_ITERATIONS). Default 15. */
   iterations?: number;
+  /**
+   * Search popularity's fit half-life (recent popularity) too. Default false (grid.ts
+   * POPULARITY_HALF_LIFE_SEARCHED): measured, it lifts popularity and the MovieLens hybrid but lowers the Online
+   * Retail hybrid beyond noise, so it is not forced on every shop.
+   */
+  popularityHalfLife?: boolean;
+  /** Search content's profile half-life (default true; false when the caller gave it: it is held, not searched). */
+  contentHalfLife?: boolean;
   /** Plain fits the per-model searches may spend (grid.ts TUNE_BUDGET). Default 3. */
   budget?: number;
   threads?: number;
@@ -122,6 +137,8 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
   const measure = (name: string, m: Scorer, perCustomer?: Float64Array): EvalResult => ev.evaluateFill(name, (u, _c, out) => m.scoreInto(u, train, out), perCustomer);
   const iterations = o.iterations ?? 15;
   const searched = await searchModels({
+    // Built only on a timed log (the searches run only there; content's vectors cost a pass over the text).
+    halfLives: hasAges(train) ? halfLifeSearchers(ds, train, ev.customerCount, o.popularityHalfLife ?? POPULARITY_HALF_LIFE_SEARCHED, o.contentHalfLife ?? true) : [],
     train,
     measure,
     budget,
@@ -162,9 +179,48 @@ export async function tuneDataset(ds: Dataset, o: TuneOptions = {}): Promise<Tun
       itemknn: { k: bk['k'] as number, shrink: bk['shrink'] as number, values: bk['values'] as ValueTransform, normalize: bk['normalize'] as KnnNormalize, ...recency(bk) },
       ials: { ...ialsSetting, seed, ...(o.iterations !== undefined && { iterations: o.iterations }) },
       ...(be && { ease: { ...TRAIN_EASE_DEFAULTS, lambda: be['lambda'] as number, values: be['values'] as ValueTransform, ...recency(be) } }),
+      // Popularity's and content's half-lives, where searched ('off' is null).
+      ...Object.fromEntries(searched.halfLives.map((h) => [h.model, { [h.param]: h.best }])),
     },
     budget: { plainFits: budget, plainMs: searched.plainMs, spentMs: searched.spentMs },
     elapsedMs: now() - started,
     notes,
+    halfLives: searched.halfLives,
   };
+}
+
+/**
+ * Popularity's and content's half-life searchers on the validation split's train part. Content's item vectors
+ * (the default content parameters; the text pass, linear in the catalogue, is not charged) are built once and
+ * scored without neighbour lists, which scoring does not read; its trials only measure.
+ */
+function halfLifeSearchers(
+  ds: Dataset,
+  train: ReturnType<typeof buildInteractionMatrix>,
+  customers: number,
+  popularity: boolean,
+  searchContent: boolean,
+): HalfLifeSearcher[] {
+  const sizes = costSizes(train, customers);
+  if (!searchContent) return popularity ? [popularitySearcher(train, sizes)] : [];
+  const { vectors } = contentVectors(ds.items);
+  const postings = transpose(vectors);
+  let postingPairs = 0;
+  for (let f = 0; f < postings.rows; f++) postingPairs += (postings.indptr[f + 1]! - postings.indptr[f]!) ** 2;
+  const noLists = { items: vectors.rows, indptr: new Int32Array(vectors.rows + 1), indices: new Int32Array(0), data: new Float32Array(0) };
+  let content: ContentModel | null = null;
+  return [
+    ...(popularity ? [popularitySearcher(train, sizes)] : []),
+    {
+      model: 'content',
+      param: 'profileHalfLifeDays',
+      cost: contentScoreCost(sizes, postingPairs),
+      plain: contentCost(sizes, postingPairs),
+      fit: (h) => (content ??= new ContentModel(vectors, noLists)).withProfileHalfLife(h),
+    },
+  ];
+}
+
+function popularitySearcher(train: ReturnType<typeof buildInteractionMatrix>, sizes: ReturnType<typeof costSizes>): HalfLifeSearcher {
+  return { model: 'popularity', param: 'fitHalfLifeDays', cost: popularityCost(sizes), plain: popularityCost(sizes), fit: (h) => fitPopularity(train, 'presence', h).model };
 }

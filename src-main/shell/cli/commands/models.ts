@@ -106,6 +106,8 @@ const trainCommand: CliCommand = {
     'knn-profile-half-life': { type: 'string' },
     'ease-fit-half-life': { type: 'string' },
     'ease-profile-half-life': { type: 'string' },
+    'popularity-half-life': { type: 'string' },
+    'content-profile-half-life': { type: 'string' },
     threads: { type: 'string' },
     seed: { type: 'string' },
     tune: { type: 'boolean', default: false },
@@ -132,6 +134,8 @@ const trainCommand: CliCommand = {
       'knn-profile-half-life': 'itemknn.profileHalfLifeDays',
       'ease-fit-half-life': 'ease.fitHalfLifeDays',
       'ease-profile-half-life': 'ease.profileHalfLifeDays',
+      'popularity-half-life': 'popularity.fitHalfLifeDays',
+      'content-profile-half-life': 'content.profileHalfLifeDays',
       threads: 'threads',
       seed: ['ials.seed', 'tune.seed'],
       budget: 'tune.budget',
@@ -156,6 +160,8 @@ const trainCommand: CliCommand = {
     'knn-profile-half-life': 'item-kNN: recency of the customer\'s own items when scoring them, as above; days > 0 or off',
     'ease-fit-half-life': 'EASE: recency of the entries its weights are fitted on, as for item-kNN; days > 0 or off',
     'ease-profile-half-life': 'EASE: recency of the customer\'s own items when scoring them; days > 0 or off',
+    'popularity-half-life': 'popularity: recent popularity, each customer counted 2^(-age/N); days > 0 or off (default off, not searched)',
+    'content-profile-half-life': 'content: recency of the customer\'s own items in their text profile; days > 0 or off',
     threads: "threads to train with, 1 to 8 (default the machine's cores, at most 8)",
     seed: 'random seed for iALS and, with --tune, the validation split (default 1)',
     tune: "search each model's grid first even when the data is unchanged since the last tuning",
@@ -168,7 +174,8 @@ const trainCommand: CliCommand = {
     'item-kNN: --neighbours, --shrink, --knn-values, --knn-normalize.  EASE: --lambda, --ease-values.',
     'Values: the signals of one customer on one item are summed (each weighed by its kind), then',
     'the sum enters as presence (1), log (log(1+v)) or linear (v).',
-    'Recency (item-kNN and EASE, --*-fit-half-life, --*-profile-half-life): that value times 2^(-age/half-life),',
+    'Recency (item-kNN and EASE, --*-fit-half-life, --*-profile-half-life; --popularity-half-life,',
+    '--content-profile-half-life): that value times 2^(-age/half-life),',
     'age = days since the pair\'s latest signal; "fit" decays what the model learns from, "profile" the customer\'s',
     'items it scores from. Off by default; tuning searches off, 730, 180, 45, 11 days when the signals have times.',
     'Tuning (by default, when the data changed since the last tuning; --tune always; --no-tune never): a seeded',
@@ -215,6 +222,8 @@ const trainCommand: CliCommand = {
       fitHalfLifeDays: halfLife(env, 'ease-fit-half-life'),
       profileHalfLifeDays: halfLife(env, 'ease-profile-half-life'),
     });
+    const popularity = only({ fitHalfLifeDays: halfLife(env, 'popularity-half-life') });
+    const content = only({ profileHalfLifeDays: halfLife(env, 'content-profile-half-life') });
     const k = int(env, 'k');
     const noTune = env.values['no-tune'] === true;
     if (noTune && env.values['tune']) throw new UsageError('give --tune or --no-tune, not both');
@@ -227,6 +236,8 @@ const trainCommand: CliCommand = {
       ials: Object.keys(ials).length ? ials : undefined,
       itemknn: Object.keys(itemknn).length ? itemknn : undefined,
       ease: Object.keys(ease).length ? ease : undefined,
+      popularity: Object.keys(popularity).length ? popularity : undefined,
+      content: Object.keys(content).length ? content : undefined,
       threads: int(env, 'threads'),
       tune: tuneRequest(noTune, env.values['tune'] === true, { k, seed: int(env, 'seed', 0), budget }),
     }));

@@ -47,7 +47,7 @@ describe('shelfwright train and models show the tuner notes', () => {
     expect(text.out).toMatch(/^model +trained \(UTC\) +seconds +status +NDCG \(evaluate\) +tuned +recency half-life$/m);
     // The tuned cell: the grid's best and its validation NDCG; content has no grid.
     expect(text.out).toMatch(/^ials +.* factors=\d+ .*\(NDCG@10 [\d.–]+\) +\S+$/m);
-    expect(text.out).toMatch(/^content +.* –$/m);
+    expect(text.out).toMatch(/^content +.* – +off$/m);
     expect(text.out).toMatch(/^tuning notes:$/m);
     expect(text.out.split('\n')).toContain(`  ials: ${note}`);
     const first = await listed();

@@ -41,7 +41,11 @@ export function recencyCell(params: Record<string, unknown>): string {
   const p = params['profileHalfLifeDays'];
   if (f === undefined && p === undefined) return '–';
   const one = (h: unknown) => (typeof h === 'number' ? `${h} d` : 'off');
-  return f === p && typeof f !== 'number' ? 'off' : `fit ${one(f)}, profile ${one(p)}`;
+  if (typeof f !== 'number' && typeof p !== 'number') return 'off';
+  // Popularity has only a fit side and content only a profile side: say the side the model has.
+  if (p === undefined) return `fit ${one(f)}`;
+  if (f === undefined) return `profile ${one(p)}`;
+  return `fit ${one(f)}, profile ${one(p)}`;
 }
 
 type StoredModel = ResponseOf<'models.list'>['models'][number];

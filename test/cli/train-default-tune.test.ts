@@ -1,10 +1,9 @@
-import fs from 'node:fs';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { main } from '../../src-main/shell/cli/main.ts';
 import { dataFingerprint, ModelRepo } from '../../src-main/store/models.ts';
 import { openWorkspace } from '../../src-main/store/workspace.ts';
 import { capture } from './capture.ts';
-import { handWorkspace, tempDir } from '../holdout/fixture.ts';
+import { handWorkspaceForFile } from '../holdout/fixture.ts';
 
 /**
  * `train` is good by default (issue 10 item 5): with no flags it tunes when the data changed since the last
@@ -12,28 +11,17 @@ import { handWorkspace, tempDir } from '../holdout/fixture.ts';
  * --tune always tunes, --no-tune never does, --budget sets what the search may spend. Flags out of range are
  * usage errors naming the flag, and change nothing.
  */
-let dir: string;
-let ws: string;
-
-beforeAll(async () => {
-  dir = tempDir('cli-default-tune');
-  const { db, file } = await handWorkspace(dir);
-  db.close();
-  ws = file;
-}, 30_000);
-afterAll(() => {
-  if (dir) fs.rmSync(dir, { recursive: true, force: true });
-});
+const hand = handWorkspaceForFile('cli-default-tune');
 
 async function run(...argv: string[]) {
   const io = capture();
-  const code = await main([...argv, '--iterations', '2', '--threads', '1', '-w', ws], io, {});
+  const code = await main([...argv, '--iterations', '2', '--threads', '1', '-w', hand.file()], io, {});
   return { code, out: io.stdout.join('\n'), err: io.stderr.join('\n') };
 }
 
 type Tuning = { fingerprint?: string; grid: { best: Record<string, unknown> } };
 function stored() {
-  const db = openWorkspace(ws, { readonly: true });
+  const db = openWorkspace(hand.file(), { readonly: true });
   try {
     const models = new ModelRepo(db).list().filter((m) => m.current);
     const tuning = (kind: string) => (models.find((m) => m.kind === kind)?.evaluation as { tuning?: Tuning } | null)?.tuning ?? null;
@@ -94,7 +82,7 @@ describe('train with no tuning flags', () => {
     expect(forced.out.split('\n')[0]).toMatch(/^tuned .* of 1 plain fits/);
 
     // 4. The data changes (one signal re-valued): the next plain `train` tunes again.
-    const db = openWorkspace(ws);
+    const db = openWorkspace(hand.file());
     db.prepare('UPDATE signal SET value = value + 1 WHERE id = (SELECT min(id) FROM signal)').run();
     db.close();
     const third = await run('train');

@@ -1,8 +1,7 @@
-import fs from 'node:fs';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { main } from '../../src-main/shell/cli/main.ts';
 import { capture } from './capture.ts';
-import { handWorkspace, tempDir } from '../holdout/fixture.ts';
+import { handWorkspaceForFile } from '../holdout/fixture.ts';
 
 /**
  * The tuner's notes reach `shelfwright models`: each under the model it is about, in the text and in --json
@@ -10,22 +9,11 @@ import { handWorkspace, tempDir } from '../holdout/fixture.ts';
  * a model is trained untuned. The note checked is the search's own (its iALS trials run fewer sweeps than the
  * training: grid.ts IALS_SEARCH_ITERATIONS), so it appears exactly when training asks for more sweeps than that.
  */
-let dir: string;
-let ws: string;
-
-beforeAll(async () => {
-  dir = tempDir('cli-tuning-notes');
-  const { db, file } = await handWorkspace(dir);
-  db.close();
-  ws = file;
-}, 30_000);
-afterAll(() => {
-  if (dir) fs.rmSync(dir, { recursive: true, force: true });
-});
+const hand = handWorkspaceForFile('cli-tuning-notes');
 
 async function run(...argv: string[]) {
   const io = capture();
-  const code = await main([...argv, '-w', ws], io, {});
+  const code = await main([...argv, '-w', hand.file()], io, {});
   return { code, out: io.stdout.join('\n'), err: io.stderr.join('\n') };
 }
 

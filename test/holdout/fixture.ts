@@ -1,6 +1,7 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import { afterAll, beforeAll } from 'vitest';
 import { buildInteractionMatrix } from '../../src-main/core/matrix/build.ts';
 import { fitContent } from '../../src-main/core/models/content.ts';
 import { fitItemKnn } from '../../src-main/core/models/itemknn.ts';
@@ -73,4 +74,23 @@ export function storeModels(db: Db, kinds: readonly ('content' | 'itemknn' | 'po
       };
     }),
   );
+}
+
+/**
+ * The hand-worked workspace for one test file: made in a temp folder (named `name`) before its tests, removed
+ * after them. `file()` is the workspace's path once made.
+ */
+export function handWorkspaceForFile(name: string): { file: () => string } {
+  let dir = '';
+  let file = '';
+  beforeAll(async () => {
+    dir = tempDir(name);
+    const made = await handWorkspace(dir);
+    made.db.close();
+    file = made.file;
+  }, 30_000);
+  afterAll(() => {
+    if (dir) fs.rmSync(dir, { recursive: true, force: true });
+  });
+  return { file: () => file };
 }

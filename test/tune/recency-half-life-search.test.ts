@@ -1,46 +1,11 @@
 import { describe, expect, it } from 'vitest';
-import { seededRng } from '../../src-main/core/rng.ts';
-import { DAY_MS, SIGNAL_KIND_CODE, type Dataset, type Item } from '../../src-main/core/types.ts';
+import type { Dataset } from '../../src-main/core/types.ts';
 import { tuneDataset } from '../../src-main/services/tune/tune.ts';
+import { driftShop } from './drift-shop.ts';
 
-/**
- * The synthetic shop of test/tune/recency-search.test.ts (6 taste clusters × 20 items, every customer likes two
- * clusters A and B, 16 purchases at uniform random days over two years), with two changes so that popularity and
- * content have something to find: each item is tagged with its cluster (content's text), and under `drift` the
- * items in fashion rotate (within a cluster, the purchase falls on one of 4 items of a window that moves on every
- * 73 days), besides each customer's turn from A to B. Stationary: cluster and item uniform whatever the day, so
- * age says nothing. Seeded, deterministic.
- */
+/** The recency search's synthetic shop (drift-shop.ts) with fashion and cluster tags. */
 function shop(drift: boolean, seed: number, timed = true): Dataset {
-  const rng = seededRng(seed);
-  const clusters = 6;
-  const per = 20;
-  const customers = 500;
-  const rows: [number, number, number][] = [];
-  for (let u = 0; u < customers; u++) {
-    const a = rng.int(clusters);
-    const b = (a + 1 + rng.int(clusters - 1)) % clusters;
-    const turn = 180 + rng.int(365);
-    for (let s = 0; s < 16; s++) {
-      const day = rng.int(730);
-      const cluster = drift ? (day < turn ? a : b) : rng.next() < 0.5 ? a : b;
-      const item = drift ? (Math.floor(day / 73) * 2 + rng.int(4)) % per : rng.int(per);
-      rows.push([u, cluster * per + item, day]);
-    }
-  }
-  return {
-    items: Array.from({ length: clusters * per }, (_, i) => ({ id: i + 1, title: `item ${i}`, description: '', tags: [`cluster${Math.floor(i / per)}`], category: '', supplier: '', price: null, addedAt: null }) as unknown as Item),
-    customerIds: Int32Array.from({ length: customers }, (_, i) => i + 1),
-    customerExternalIds: Array.from({ length: customers }, (_, i) => `c${i}`),
-    signals: {
-      length: rows.length,
-      customer: Int32Array.from(rows, (r) => r[0]),
-      item: Int32Array.from(rows, (r) => r[1]),
-      kind: new Uint8Array(rows.length).fill(SIGNAL_KIND_CODE.purchase),
-      value: new Float32Array(rows.length).fill(1),
-      at: Float64Array.from(rows, (r) => (timed ? Date.UTC(2024, 0, 1) + r[2] * DAY_MS : Number.NaN)),
-    },
-  };
+  return driftShop({ drift, seed, timed, fashion: true, tagged: true });
 }
 
 // The default budget (3 plain fits): the half-lives must be found within what `train` spends; iALS (not under

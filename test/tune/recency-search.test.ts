@@ -1,44 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { seededRng } from '../../src-main/core/rng.ts';
-import { DAY_MS, SIGNAL_KIND_CODE, type Dataset, type Item } from '../../src-main/core/types.ts';
+import type { Dataset } from '../../src-main/core/types.ts';
 import { HALF_LIFE_GRID } from '../../src-main/services/tune/grid.ts';
 import { tuneDataset } from '../../src-main/services/tune/tune.ts';
+import { driftShop } from './drift-shop.ts';
 
-/**
- * A synthetic shop of 6 taste clusters × 20 items; every customer likes two clusters, A and B, and leaves 16
- * purchases at uniform random days over two years. `drift`: a customer buys from A before a day of their own
- * (uniform in the middle year) and from B after it, so the latest items say what comes next; otherwise each
- * purchase is from A or B at random whenever it happens, so its age says nothing. Seeded, deterministic.
- */
+/** The synthetic shop of drift-shop.ts: customers turn from one taste to another, or (drift false) do not. */
 function shop(drift: boolean, seed: number, timed = true): Dataset {
-  const rng = seededRng(seed);
-  const clusters = 6;
-  const per = 20;
-  const customers = 500;
-  const rows: [number, number, number][] = [];
-  for (let u = 0; u < customers; u++) {
-    const a = rng.int(clusters);
-    const b = (a + 1 + rng.int(clusters - 1)) % clusters;
-    const turn = 180 + rng.int(365);
-    for (let s = 0; s < 16; s++) {
-      const day = rng.int(730);
-      const cluster = drift ? (day < turn ? a : b) : rng.next() < 0.5 ? a : b;
-      rows.push([u, cluster * per + rng.int(per), day]);
-    }
-  }
-  return {
-    items: Array.from({ length: clusters * per }, (_, i) => ({ id: i + 1, title: '', description: '', tags: [], category: '', supplier: '', price: null, addedAt: null }) as unknown as Item),
-    customerIds: Int32Array.from({ length: customers }, (_, i) => i + 1),
-    customerExternalIds: Array.from({ length: customers }, (_, i) => `c${i}`),
-    signals: {
-      length: rows.length,
-      customer: Int32Array.from(rows, (r) => r[0]),
-      item: Int32Array.from(rows, (r) => r[1]),
-      kind: new Uint8Array(rows.length).fill(SIGNAL_KIND_CODE.purchase),
-      value: new Float32Array(rows.length).fill(1),
-      at: Float64Array.from(rows, (r) => (timed ? Date.UTC(2024, 0, 1) + r[2] * DAY_MS : Number.NaN)),
-    },
-  };
+  return driftShop({ drift, seed, timed });
 }
 
 // Budget 10: room for both recency walks beside the other axes; iALS (not under test) at 2 sweeps.

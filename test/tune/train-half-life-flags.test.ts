@@ -1,5 +1,4 @@
-import fs from 'node:fs';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { createHandlerTable, invoke } from '../../src-main/api/handler-table.ts';
 import { PopularityModel, RECENT_POPULARITY } from '../../src-main/core/models/popularity.ts';
 import { AppContext } from '../../src-main/services/context.ts';
@@ -7,33 +6,22 @@ import { loadTrainedModels } from '../../src-main/services/holdout/trained.ts';
 import { main } from '../../src-main/shell/cli/main.ts';
 import { loadDataset } from '../../src-main/store/dataset.ts';
 import { capture } from '../cli/capture.ts';
-import { handWorkspace, tempDir } from '../holdout/fixture.ts';
+import { handWorkspaceForFile } from '../holdout/fixture.ts';
 
 /**
  * `train --popularity-half-life N --content-profile-half-life off`: the values given are trained and stored as
  * given (not searched), and a recent popularity leaves the "popularity" row all-time counts, serving the blend and
  * a row of its own (services/holdout/trained.ts).
  */
-let dir: string;
-let ws: string;
-
-beforeAll(async () => {
-  dir = tempDir('half-life-flags');
-  const { db, file } = await handWorkspace(dir);
-  db.close();
-  ws = file;
-}, 30_000);
-afterAll(() => {
-  if (dir) fs.rmSync(dir, { recursive: true, force: true });
-});
+const hand = handWorkspaceForFile('half-life-flags');
 
 describe('train with the popularity and content half-lives given', () => {
   it('trains and stores them as given; the popularity row stays all-time counts, recent popularity has its own', async () => {
     const io = capture();
-    const code = await main(['train', '--tune', '--k', '3', '--iterations', '2', '--threads', '1', '--popularity-half-life', '30', '--content-profile-half-life', 'off', '-w', ws], io, {});
+    const code = await main(['train', '--tune', '--k', '3', '--iterations', '2', '--threads', '1', '--popularity-half-life', '30', '--content-profile-half-life', 'off', '-w', hand.file()], io, {});
     expect(code, io.stderr.join('\n')).toBe(0);
     const ctx = new AppContext();
-    ctx.open(ws, { create: false });
+    ctx.open(hand.file(), { create: false });
     try {
       const list = await invoke(createHandlerTable(ctx), 'models.list', {});
       if (!list.ok) throw new Error(list.error.message);
@@ -57,7 +45,7 @@ describe('train with the popularity and content half-lives given', () => {
 
   it('refuses a half-life that is not days > 0 or off, naming the flag', async () => {
     const io = capture();
-    const code = await main(['train', '--popularity-half-life', '-3', '-w', ws], io, {});
+    const code = await main(['train', '--popularity-half-life', '-3', '-w', hand.file()], io, {});
     expect(code).not.toBe(0);
     expect(io.stderr.join('\n')).toMatch(/popularity-half-life/);
   });

@@ -1,5 +1,4 @@
-import fs from 'node:fs';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { createHandlerTable, invoke } from '../../src-main/api/handler-table.ts';
 import { AppContext } from '../../src-main/services/context.ts';
 import { main } from '../../src-main/shell/cli/main.ts';
@@ -7,7 +6,7 @@ import { fixedParams, fullyFixed } from '../../src-main/services/tune/grid.ts';
 import { tunedSummary } from '../../src-main/services/tune/train-tuned.ts';
 import type { ModelTuning } from '../../src-main/services/tune/tune.ts';
 import { capture } from '../cli/capture.ts';
-import { handWorkspace, tempDir } from '../holdout/fixture.ts';
+import { handWorkspaceForFile } from '../holdout/fixture.ts';
 
 /**
  * `train --tune` with hyper-parameter flags of the user's own: each flag's value is held fixed while the rest
@@ -15,22 +14,11 @@ import { handWorkspace, tempDir } from '../holdout/fixture.ts';
  * job's line and the "tuned" column) shows the fixed values as fixed by the user. The hand-worked workspace
  * is the smallest the tune tests use.
  */
-let dir: string;
-let ws: string;
-
-beforeAll(async () => {
-  dir = tempDir('tune-overrides');
-  const { db, file } = await handWorkspace(dir);
-  db.close();
-  ws = file;
-}, 30_000);
-afterAll(() => {
-  if (dir) fs.rmSync(dir, { recursive: true, force: true });
-});
+const hand = handWorkspaceForFile('tune-overrides');
 
 async function run(...argv: string[]) {
   const io = capture();
-  const code = await main([...argv, '-w', ws], io, {});
+  const code = await main([...argv, '-w', hand.file()], io, {});
   return { code, out: io.stdout.join('\n'), err: io.stderr.join('\n') };
 }
 
@@ -44,7 +32,7 @@ describe('train --tune with flags of the user', () => {
     expect(r.code, r.err).toBe(0);
 
     const ctx = new AppContext();
-    ctx.open(ws, { create: false });
+    ctx.open(hand.file(), { create: false });
     let models: Stored[];
     try {
       const list = await invoke(createHandlerTable(ctx), 'models.list', {});

@@ -3,25 +3,8 @@ import { describe, expect, it } from 'vitest';
 import { buildInteractionMatrix } from '../../src-main/core/matrix/build.ts';
 import type { Csr } from '../../src-main/core/matrix/csr.ts';
 import { checkHalfLife, decayedValue, recencyWeight, transformMatrix } from '../../src-main/core/matrix/values.ts';
-import { DAY_MS, SIGNAL_KIND_CODE, type Dataset, type Item, type SignalKind } from '../../src-main/core/types.ts';
-
-type Sig = [customer: number, item: number, kind: SignalKind, value: number, day: number];
-
-function dataset(customers: number, items: number, sigs: Sig[]): Dataset {
-  return {
-    items: Array.from({ length: items }, (_, i) => ({ id: i }) as Item),
-    customerIds: Int32Array.from({ length: customers }, (_, i) => i + 1),
-    customerExternalIds: Array.from({ length: customers }, (_, i) => `c${i}`),
-    signals: {
-      length: sigs.length,
-      customer: Int32Array.from(sigs.map((s) => s[0])),
-      item: Int32Array.from(sigs.map((s) => s[1])),
-      kind: Uint8Array.from(sigs.map((s) => SIGNAL_KIND_CODE[s[2]])),
-      value: Float32Array.from(sigs.map((s) => s[3])),
-      at: Float64Array.from(sigs.map((s) => s[4] * DAY_MS)),
-    },
-  };
-}
+import { DAY_MS } from '../../src-main/core/types.ts';
+import { dataset, type Sig } from './sig-dataset.ts';
 
 /** The matrix without its ages (as built from a log without times). */
 const withoutAges = ({ ageDays: _, ...rest }: Csr): Csr => rest;

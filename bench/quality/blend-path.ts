@@ -9,10 +9,6 @@
  */
 import { type EvalTruth, evalTruth, RankingEvaluator, sampleTruth, type BlendSpec, type BlendModel } from '../../src-main/core/eval/index.ts';
 import { buildInteractionMatrix } from '../../src-main/core/matrix/build.ts';
-import { fitContent } from '../../src-main/core/models/content.ts';
-import { fitEase } from '../../src-main/core/models/ease.ts';
-import { fitItemKnn } from '../../src-main/core/models/itemknn.ts';
-import { fitPopularity } from '../../src-main/core/models/popularity.ts';
 import type { Scorer } from '../../src-main/core/models/scorer.ts';
 import { seededRng } from '../../src-main/core/rng.ts';
 import { BlendScorer } from '../../src-main/core/scoring/blend-scorer.ts';
@@ -21,13 +17,12 @@ import type { Csr } from '../../src-main/core/matrix/csr.ts';
 import { holdoutTruth } from '../../src-main/services/holdout/evaluate.ts';
 import { readHoldout } from '../../src-main/services/holdout/read.ts';
 import { columnCounts, loadTrainedModels, ownedMatrix } from '../../src-main/services/holdout/trained.ts';
-import { fitIalsThreaded } from '../../src-main/services/train/ials-threads.ts';
-import { TRAIN_EASE_DEFAULTS } from '../../src-main/services/train/train-models.ts';
 import { confirmationHalves, validationSplit } from '../../src-main/services/tune/split.ts';
 import { loadDataset } from '../../src-main/store/dataset.ts';
 import { ModelRepo } from '../../src-main/store/models.ts';
 import { openWorkspace } from '../../src-main/store/workspace.ts';
 import { pairedArrays } from './paired.ts';
+import { currentParams, fitForValidation } from './validation-fits.ts';
 
 const [ws, testFile, kArg] = process.argv.slice(2);
 const K = Number(kArg ?? 20);
@@ -37,7 +32,7 @@ const tm = loadTrainedModels(db, ds);
 const spec = tm.blendInfo as BlendSpec & { reason: string };
 console.log('stored:', spec.reason);
 const repo = new ModelRepo(db);
-const params = Object.fromEntries(['content', 'itemknn', 'ials', 'ease', 'popularity'].map((k) => [k, repo.loadCurrent(k as never)?.params ?? {}])) as Record<string, Record<string, unknown>>;
+const params = currentParams(repo);
 
 const paired = (a: Float64Array, b: Float64Array) => {
   const d = pairedArrays(a, b);
@@ -112,12 +107,7 @@ async function main() {
     return [t, new RankingEvaluator(train, t, K, split.unavailable)];
   };
   const t0 = performance.now();
-  const scorers = new Map<string, Scorer>();
-  scorers.set('content', fitContent(ds.items, params.content as never).model);
-  scorers.set('itemknn', fitItemKnn(train, params.itemknn as never).model);
-  scorers.set('ials', (await fitIalsThreaded(train, { seed, ...(params.ials as object) }, {})).model);
-  scorers.set('ease', fitEase(train, { ...TRAIN_EASE_DEFAULTS, ...(params.ease as object) }).model);
-  scorers.set('popularity', fitPopularity(train).model);
+  const scorers = await fitForValidation(ds, train, params, seed);
   console.log(`validation fits ${((performance.now() - t0) / 1000).toFixed(1)} s; split ${split.method}`);
   report('choose (earlier half)', ...evFor(halves.choose, seed), train, scorers);
   report('confirm (later half)', ...evFor(halves.confirm, seed + 1), train, scorers);

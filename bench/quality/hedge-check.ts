@@ -24,20 +24,19 @@ import { evaluationSplit } from '../../src-main/services/evaluate-split.ts';
 import { holdoutTruth } from '../../src-main/services/holdout/evaluate.ts';
 import { readHoldout } from '../../src-main/services/holdout/read.ts';
 import { columnCounts, loadTrainedModels, ownedMatrix } from '../../src-main/services/holdout/trained.ts';
-import { fitIalsThreaded } from '../../src-main/services/train/ials-threads.ts';
-import { TRAIN_EASE_DEFAULTS } from '../../src-main/services/train/train-models.ts';
 import { confirmationHalves, notYetAvailable, validationSplit } from '../../src-main/services/tune/split.ts';
 import { loadDataset } from '../../src-main/store/dataset.ts';
 import { ModelRepo } from '../../src-main/store/models.ts';
 import { openWorkspace } from '../../src-main/store/workspace.ts';
 import { pairedArrays } from './paired.ts';
+import { currentParams, fitForValidation } from './validation-fits.ts';
 
 const [mode, ws, a3, a4] = process.argv.slice(2);
 const K = Number((mode === 'evaluate' ? a3 : a4) ?? (mode === 'evaluate' ? 10 : 20));
 const db = openWorkspace(ws!, { readonly: true });
 const ds = loadDataset(db);
 const repo = new ModelRepo(db);
-const params = Object.fromEntries(['content', 'itemknn', 'ials', 'ease', 'popularity'].map((k) => [k, repo.loadCurrent(k as never)?.params ?? {}])) as Record<string, Record<string, unknown>>;
+const params = currentParams(repo);
 
 interface Window { label: string; ev: RankingEvaluator; history: Csr; scorers: Map<string, Scorer>; cpi: Int32Array }
 
@@ -155,12 +154,7 @@ async function holdoutFlow(testFile: string) {
   const we = (rows: Int32Array, s: number) => new RankingEvaluator(train, sampleTruth(evalTruth(train, buildInteractionMatrix(ds, { rows }), undefined, split.unavailable), 1000, seededRng(s)), K, split.unavailable);
   const chooseEv = we(halves.choose, seed);
   const confirmEv = we(halves.confirm, seed + 1);
-  const scorers = new Map<string, Scorer>();
-  scorers.set('content', fitContent(ds.items, params.content as never).model);
-  scorers.set('itemknn', fitItemKnn(train, params.itemknn as never).model);
-  scorers.set('ials', (await fitIalsThreaded(train, { seed, ...(params.ials as object) }, {})).model);
-  scorers.set('ease', fitEase(train, { ...TRAIN_EASE_DEFAULTS, ...(params.ease as object) }).model);
-  scorers.set('popularity', fitPopularity(train).model);
+  const scorers = await fitForValidation(ds, train, params, seed);
   const inputs: BlendModelInput[] = [...scorers].map(([name, s]) => ({ name: name as BlendModel, scorer: { name, scoreInto: (u, h, out) => s.scoreInto(u, h, out) } }));
   const blend = validateBlend(chooseEv, train, inputs, { customersPerItem: columnCounts(train), confirm: confirmEv });
   const tm = loadTrainedModels(db, ds);

@@ -2,25 +2,13 @@ import { describe, expect, it } from 'vitest';
 import { buildInteractionMatrix } from '../../src-main/core/matrix/build.ts';
 import { signalUnit } from '../../src-main/core/matrix/signal-unit.ts';
 import { confidence } from '../../src-main/core/models/ials-params.ts';
-import { DAY_MS, SIGNAL_KIND_CODE, type Dataset, type Item, type SignalKind } from '../../src-main/core/types.ts';
+import type { Dataset, SignalKind } from '../../src-main/core/types.ts';
+import { dataset as timedDataset } from './sig-dataset.ts';
 
 type Sig = [customer: number, item: number, kind: SignalKind, value: number];
 
-function dataset(sigs: Sig[]): Dataset {
-  return {
-    items: Array.from({ length: 4 }, (_, i) => ({ id: i }) as Item),
-    customerIds: Int32Array.from({ length: 3 }, (_, i) => i + 1),
-    customerExternalIds: ['a', 'b', 'c'],
-    signals: {
-      length: sigs.length,
-      customer: Int32Array.from(sigs.map((s) => s[0])),
-      item: Int32Array.from(sigs.map((s) => s[1])),
-      kind: Uint8Array.from(sigs.map((s) => SIGNAL_KIND_CODE[s[2]])),
-      value: Float32Array.from(sigs.map((s) => s[3])),
-      at: Float64Array.from(sigs.map(() => 10 * DAY_MS)),
-    },
-  };
-}
+/** 3 customers × 4 items holding the signals given, every one on day 10 (sig-dataset.ts). */
+const dataset = (sigs: Sig[]): Dataset => timedDataset(3, 4, sigs.map(([c, i, kind, v]) => [c, i, kind, v, 10]));
 
 describe('signalUnit', () => {
   it('is the weight of the most frequent kind', () => {
